@@ -1,0 +1,409 @@
+//! Quantities derived from a finished fit, each with delta-method uncertainty from the full
+//! covariance: ΔG°(T), ΔH°(T), ΔS°(T), ln K(T) and K(T) with confidence and prediction
+//! intervals, bands over a grid of 1/T, the joint (ΔH°, ΔS°) confidence ellipse, and the
+//! temperature at which K reaches a target value.
+//!
+//! Every quantity here except the temperature for a target K is linear in the parameters,
+//! so the delta method is exact for them; the target temperature uses the implicit-function
+//! derivative.
+
+use crate::error::Error;
+use crate::model::{check_level, Model, SigmaConvention};
+use crate::stats::{chi2_quantile, f_quantile};
+use crate::vant_hoff::{Estimate, ThermoAt, VantHoffFit};
+use crate::GAS_CONSTANT;
+use serde::{Deserialize, Serialize};
+
+/// A closed interval.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct Interval {
+    /// Lower limit.
+    pub low: f64,
+    /// Upper limit.
+    pub high: f64,
+}
+
+/// A prediction of ln K (or K) at one temperature.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct ValuePrediction {
+    /// Best estimate.
+    pub value: f64,
+    /// Standard error of the fitted mean.
+    pub se: f64,
+    /// Confidence interval of the mean at the fit's level.
+    pub ci: Interval,
+    /// Prediction interval for one new measurement of typical precision.
+    pub pi: Interval,
+}
+
+/// Everything predicted at one temperature.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Prediction {
+    /// Temperature, K.
+    pub t_k: f64,
+    /// ln K.
+    pub ln_k: ValuePrediction,
+    /// K (intervals are the exponentials of the ln K intervals; se by the delta method).
+    pub k: ValuePrediction,
+    /// ΔG°(T), J/mol.
+    pub delta_g: Estimate,
+    /// ΔH°(T), J/mol.
+    pub delta_h: Estimate,
+    /// ΔS°(T), J mol⁻¹ K⁻¹.
+    pub delta_s: Estimate,
+    /// Whether T lies outside the measured range.
+    pub extrapolated: bool,
+    /// A caution in words, when there is one.
+    pub warning: Option<String>,
+}
+
+/// One point of the confidence and prediction bands.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct BandPoint {
+    /// 1/T, K⁻¹.
+    pub inv_t: f64,
+    /// T, K.
+    pub t_k: f64,
+    /// Fitted ln K.
+    pub ln_k: f64,
+    /// Confidence band, lower.
+    pub ci_low: f64,
+    /// Confidence band, upper.
+    pub ci_high: f64,
+    /// Prediction band, lower.
+    pub pi_low: f64,
+    /// Prediction band, upper.
+    pub pi_high: f64,
+}
+
+impl VantHoffFit {
+    fn n_params(&self) -> usize {
+        self.params.len()
+    }
+
+    /// gᵀ Cov g.
+    fn quadratic_form(&self, g: &[f64]) -> f64 {
+        let p = self.n_params();
+        let mut s = 0.0;
+        for a in 0..p {
+            for b in 0..p {
+                s += g[a] * self.covariance[a][b] * g[b];
+            }
+        }
+        s.max(0.0)
+    }
+
+    /// The estimate of the linear combination g·β.
+    fn linear_estimate(&self, g: &[f64]) -> Estimate {
+        let value: f64 = g
+            .iter()
+            .zip(&self.params)
+            .map(|(g, p)| g * p.estimate.value)
+            .sum();
+        Estimate::symmetric(value, self.quadratic_form(g).sqrt(), self.critical_value)
+    }
+
+    fn gradients(&self, t_k: f64) -> ([f64; 3], [f64; 3], [f64; 3]) {
+        let theta = self.options.t_ref_k;
+        let cp = self.model() == Model::ConstantCp;
+        let dh = [1.0, 0.0, if cp { t_k - theta } else { 0.0 }];
+        let ds = [0.0, 1.0, if cp { (t_k / theta).ln() } else { 0.0 }];
+        let dg = [
+            1.0,
+            -t_k,
+            if cp {
+                (t_k - theta) - t_k * (t_k / theta).ln()
+            } else {
+                0.0
+            },
+        ];
+        (dh, ds, dg)
+    }
+
+    /// ΔH°(T) = ΔH°(θ) + ΔCp°(T − θ), J/mol, with delta-method SE. Constant for the linear model.
+    pub fn delta_h_at(&self, t_k: f64) -> Estimate {
+        let (g, _, _) = self.gradients(t_k);
+        self.linear_estimate(&g[..self.n_params()])
+    }
+
+    /// ΔS°(T) = ΔS°(θ) + ΔCp° ln(T/θ), J mol⁻¹ K⁻¹, with delta-method SE.
+    pub fn delta_s_at(&self, t_k: f64) -> Estimate {
+        let (_, g, _) = self.gradients(t_k);
+        self.linear_estimate(&g[..self.n_params()])
+    }
+
+    /// ΔG°(T) = ΔH°(T) − T ΔS°(T), J/mol, with delta-method SE from the full covariance.
+    ///
+    /// # Formula
+    /// ```text
+    /// ΔG°(T) = ΔH°(θ) − T ΔS°(θ) + ΔCp° [(T − θ) − T ln(T/θ)]
+    /// Var = gᵀ Σ g,  g = (1, −T, (T − θ) − T ln(T/θ))
+    /// ```
+    pub fn delta_g(&self, t_k: f64) -> Estimate {
+        let (_, _, g) = self.gradients(t_k);
+        self.linear_estimate(&g[..self.n_params()])
+    }
+
+    /// ΔH°, ΔS°, ΔG° (and ΔCp°) at temperature `t_k`.
+    pub fn thermo_at(&self, t_k: f64) -> ThermoAt {
+        ThermoAt {
+            t_k,
+            delta_h: self.delta_h_at(t_k),
+            delta_s: self.delta_s_at(t_k),
+            delta_g: self.delta_g(t_k),
+            delta_cp: self.delta_cp(),
+        }
+    }
+
+    /// Whether `t_k` lies outside the range of the used temperatures.
+    pub fn is_extrapolation(&self, t_k: f64) -> bool {
+        t_k < self.t_min_k - 1e-9 || t_k > self.t_max_k + 1e-9
+    }
+
+    fn ln_k_prediction(&self, t_k: f64) -> ValuePrediction {
+        let row = self.model().row(t_k, self.options.t_ref_k);
+        let e = self.linear_estimate(&row[..self.n_params()]);
+        let pred_se = (e.se * e.se + self.new_observation_variance).sqrt();
+        let c = self.critical_value;
+        ValuePrediction {
+            value: e.value,
+            se: e.se,
+            ci: Interval {
+                low: e.ci_low,
+                high: e.ci_high,
+            },
+            pi: Interval {
+                low: e.value - c * pred_se,
+                high: e.value + c * pred_se,
+            },
+        }
+    }
+
+    /// Predicts ln K, K, ΔG°, ΔH° and ΔS° at `t_k`, with confidence intervals and, for
+    /// ln K and K, prediction intervals for one new measurement of typical precision.
+    ///
+    /// # Formula
+    /// ```text
+    /// ln K̂(T) = x(T)·β̂,  SE² = x(T)ᵀ Σ x(T),  PI: ln K̂ ± c √(SE² + s²·σ̄²)
+    /// ```
+    /// where c is the fit's critical value and s²·σ̄² the fit's new-observation variance.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`] or [`Error::NonPositiveTemperature`] for an impossible T.
+    pub fn predict(&self, t_k: f64) -> Result<Prediction, Error> {
+        crate::units::check_temperature(t_k)?;
+        let ln_k = self.ln_k_prediction(t_k);
+        let k = ValuePrediction {
+            value: ln_k.value.exp(),
+            se: ln_k.value.exp() * ln_k.se,
+            ci: Interval {
+                low: ln_k.ci.low.exp(),
+                high: ln_k.ci.high.exp(),
+            },
+            pi: Interval {
+                low: ln_k.pi.low.exp(),
+                high: ln_k.pi.high.exp(),
+            },
+        };
+        let extrapolated = self.is_extrapolation(t_k);
+        let warning = extrapolated.then(|| {
+            format!(
+                "{t_k:.2} K lies outside the measured range {:.2}–{:.2} K: this is an extrapolation, valid only if the model holds there{}",
+                self.t_min_k,
+                self.t_max_k,
+                if self.model() == Model::Linear { " (ΔCp° assumed zero)" } else { " (ΔCp° assumed constant)" }
+            )
+        });
+        Ok(Prediction {
+            t_k,
+            ln_k,
+            k,
+            delta_g: self.delta_g(t_k),
+            delta_h: self.delta_h_at(t_k),
+            delta_s: self.delta_s_at(t_k),
+            extrapolated,
+            warning,
+        })
+    }
+
+    /// Confidence and prediction bands of ln K at each 1/T in `inv_t` (K⁻¹). Non-positive or
+    /// non-finite abscissae are skipped.
+    pub fn bands(&self, inv_t: &[f64]) -> Vec<BandPoint> {
+        inv_t
+            .iter()
+            .filter(|x| x.is_finite() && **x > 0.0)
+            .map(|&x| {
+                let t_k = 1.0 / x;
+                let v = self.ln_k_prediction(t_k);
+                BandPoint {
+                    inv_t: x,
+                    t_k,
+                    ln_k: v.value,
+                    ci_low: v.ci.low,
+                    ci_high: v.ci.high,
+                    pi_low: v.pi.low,
+                    pi_high: v.pi.high,
+                }
+            })
+            .collect()
+    }
+
+    /// Bands on `n` evenly spaced values of 1/T spanning the used points, widened by
+    /// `pad_fraction` of the span on each side.
+    pub fn band_grid(&self, n: usize, pad_fraction: f64) -> Vec<BandPoint> {
+        let lo = 1.0 / self.t_max_k;
+        let hi = 1.0 / self.t_min_k;
+        let pad = (hi - lo) * pad_fraction.max(0.0);
+        let (a, b) = (lo - pad, hi + pad);
+        let n = n.max(2);
+        let grid: Vec<f64> = (0..n)
+            .map(|i| a + (b - a) * i as f64 / (n - 1) as f64)
+            .collect();
+        self.bands(&grid)
+    }
+
+    /// The joint confidence region of (ΔH°, ΔS°) at `level` as a closed polygon of
+    /// `n_vertices` points (J/mol, J mol⁻¹ K⁻¹).
+    ///
+    /// # Formula
+    /// ```text
+    /// (β − β̂)ᵀ Σ₂⁻¹ (β − β̂) ≤ 2 F(level; 2, n − p)   (scaled)   or   χ²(level; 2)   (absolute σ)
+    /// ```
+    /// where Σ₂ is the 2×2 covariance of ΔH° and ΔS°.
+    ///
+    /// # Errors
+    /// [`Error::InvalidLevel`]; [`Error::NoSolution`] if the covariance is degenerate.
+    pub fn ellipse(&self, level: f64, n_vertices: usize) -> Result<Vec<[f64; 2]>, Error> {
+        check_level(level)?;
+        let radius2 = if self.options.convention == SigmaConvention::Absolute && self.weighted {
+            chi2_quantile(level, 2.0)
+        } else {
+            2.0 * f_quantile(level, 2.0, self.dof as f64)
+        };
+        let (a, b, c) = (
+            self.covariance[0][0],
+            self.covariance[0][1],
+            self.covariance[1][1],
+        );
+        // Cholesky of [[a, b], [b, c]].
+        let l11 = a.sqrt();
+        let l21 = b / l11;
+        let l22_sq = c - l21 * l21;
+        if !(radius2.is_finite() && l11 > 0.0 && l22_sq >= 0.0) {
+            return Err(Error::NoSolution(
+                "the ΔH°–ΔS° covariance is degenerate; no confidence ellipse can be drawn".into(),
+            ));
+        }
+        let l22 = l22_sq.sqrt();
+        let r = radius2.sqrt();
+        let (h0, s0) = (self.delta_h().value, self.delta_s().value);
+        let n = n_vertices.max(8);
+        Ok((0..n)
+            .map(|i| {
+                let ang = std::f64::consts::TAU * i as f64 / n as f64;
+                let (u, v) = (r * ang.cos(), r * ang.sin());
+                [h0 + l11 * u, s0 + l21 * u + l22 * v]
+            })
+            .collect())
+    }
+
+    /// The temperature at which K equals `k_target`, with a delta-method SE.
+    ///
+    /// # Formula
+    /// ```text
+    /// x(T*)·β̂ = ln K_target,   SE(T*) = √(x(T*)ᵀ Σ x(T*)) / |∂ln K/∂T|,  ∂ln K/∂T = ΔH°(T*)/(R T*²)
+    /// ```
+    /// The linear model has one root, T* = ΔH°/(ΔS° − R ln K_target), given when positive.
+    /// The ΔCp° model is searched between a third of the lowest and three times the highest
+    /// measured temperature; the root nearest the harmonic-mean temperature is returned.
+    ///
+    /// # Errors
+    /// [`Error::NonPositiveConstant`] for a target ≤ 0; [`Error::NoSolution`] when K never
+    /// reaches the target at a positive temperature (in the searched range).
+    pub fn temperature_for_k(&self, k_target: f64) -> Result<Estimate, Error> {
+        if !k_target.is_finite() {
+            return Err(Error::NonFinite {
+                what: "target K",
+                index: None,
+            });
+        }
+        if k_target <= 0.0 {
+            return Err(Error::NonPositiveConstant {
+                index: None,
+                value: k_target,
+            });
+        }
+        let target = k_target.ln();
+        let theta = self.options.t_ref_k;
+        let p = self.n_params();
+        let beta = self.coefficients();
+        let g = |t: f64| -> f64 {
+            let row = self.model().row(t, theta);
+            (0..p).map(|j| row[j] * beta[j]).sum::<f64>() - target
+        };
+        let none = || {
+            Error::NoSolution(format!(
+                "K never reaches {k_target} at a positive temperature near the data for this fit"
+            ))
+        };
+        let t_star = match self.model() {
+            Model::Linear => {
+                let denom = beta[1] - GAS_CONSTANT * target;
+                let t = beta[0] / denom;
+                if !(t.is_finite() && t > 0.0) {
+                    return Err(none());
+                }
+                t
+            }
+            Model::ConstantCp => {
+                let lo = self.t_min_k / 3.0;
+                let hi = self.t_max_k * 3.0;
+                let steps = 2000;
+                let mut best: Option<f64> = None;
+                let mut prev_t = lo;
+                let mut prev_g = g(lo);
+                for i in 1..=steps {
+                    let t = lo * (hi / lo).powf(i as f64 / steps as f64);
+                    let gt = g(t);
+                    if prev_g == 0.0 || prev_g.signum() != gt.signum() {
+                        let root = bisect(&g, prev_t, t);
+                        let better = best.is_none_or(|b| {
+                            (root - self.t_harmonic_k).abs() < (b - self.t_harmonic_k).abs()
+                        });
+                        if better {
+                            best = Some(root);
+                        }
+                    }
+                    prev_t = t;
+                    prev_g = gt;
+                }
+                best.ok_or_else(none)?
+            }
+        };
+        let row = self.model().row(t_star, theta);
+        let slope = self.delta_h_at(t_star).value / (GAS_CONSTANT * t_star * t_star);
+        let se = self.quadratic_form(&row[..p]).sqrt() / slope.abs();
+        if !se.is_finite() {
+            return Err(none());
+        }
+        Ok(Estimate::symmetric(t_star, se, self.critical_value))
+    }
+}
+
+fn bisect(g: &impl Fn(f64) -> f64, mut a: f64, mut b: f64) -> f64 {
+    let mut ga = g(a);
+    for _ in 0..200 {
+        let m = 0.5 * (a + b);
+        let gm = g(m);
+        if gm == 0.0 || (b - a) < 1e-12 * m {
+            return m;
+        }
+        if ga.signum() == gm.signum() {
+            a = m;
+            ga = gm;
+        } else {
+            b = m;
+        }
+    }
+    0.5 * (a + b)
+}

@@ -1,0 +1,83 @@
+//! One measured point on the fitting scale: temperature in kelvin, ln K, optional σ(ln K),
+//! and whether the chemist includes it. Conversion from lab units is in [`crate::units`].
+
+use crate::error::Error;
+use serde::{Deserialize, Serialize};
+
+/// One equilibrium measurement, already on the fitting scale.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct Measurement {
+    /// Temperature in kelvin.
+    pub t_k: f64,
+    /// Natural logarithm of the (association-sense, dimensionless) equilibrium constant.
+    pub ln_k: f64,
+    /// Standard uncertainty of ln K, if known.
+    pub sigma_ln_k: Option<f64>,
+    /// Whether the point takes part in the fit. Excluded points are kept and still get a
+    /// predicted value and a prediction-standardised residual.
+    pub included: bool,
+}
+
+impl Measurement {
+    /// An included point with no uncertainty.
+    pub fn new(t_k: f64, ln_k: f64) -> Self {
+        Measurement {
+            t_k,
+            ln_k,
+            sigma_ln_k: None,
+            included: true,
+        }
+    }
+
+    /// The same point with σ(ln K) set.
+    pub fn with_sigma(mut self, sigma_ln_k: f64) -> Self {
+        self.sigma_ln_k = Some(sigma_ln_k);
+        self
+    }
+
+    /// The same point, excluded from the fit.
+    pub fn excluded(mut self) -> Self {
+        self.included = false;
+        self
+    }
+
+    /// Checks the values, naming the point by its 0-based `index` in errors.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`], [`Error::NonPositiveTemperature`] or [`Error::NonPositiveSigma`].
+    pub fn validate(&self, index: usize) -> Result<(), Error> {
+        if !self.t_k.is_finite() {
+            return Err(Error::NonFinite {
+                what: "temperature",
+                index: Some(index),
+            });
+        }
+        if self.t_k <= 0.0 {
+            return Err(Error::NonPositiveTemperature {
+                index: Some(index),
+                kelvin: self.t_k,
+            });
+        }
+        if !self.ln_k.is_finite() {
+            return Err(Error::NonFinite {
+                what: "ln K",
+                index: Some(index),
+            });
+        }
+        if let Some(s) = self.sigma_ln_k {
+            if !s.is_finite() {
+                return Err(Error::NonFinite {
+                    what: "σ(ln K)",
+                    index: Some(index),
+                });
+            }
+            if s <= 0.0 {
+                return Err(Error::NonPositiveSigma {
+                    index: Some(index),
+                    value: s,
+                });
+            }
+        }
+        Ok(())
+    }
+}

@@ -1,0 +1,218 @@
+//! The van 't Hoff models, written directly in thermodynamic parameters, and the options
+//! that steer a fit (weighting, confidence convention, level, flag thresholds).
+//!
+//! Linear model (ΔH° and ΔS° independent of T):
+//! ```text
+//! ln K = −ΔH°/(R T) + ΔS°/R                      columns: −1/(RT), 1/R
+//! ```
+//! Constant-ΔCp° model (Clarke–Glew form truncated after ΔCp°), about a reference θ:
+//! ```text
+//! ln K = −ΔH°(θ)/(R T) + ΔS°(θ)/R + ΔCp° (θ/T − 1 + ln(T/θ))/R
+//! ```
+//! Because the columns are in these units, the least-squares coefficients *are*
+//! (ΔH°, ΔS°[, ΔCp°]) in J/mol, J mol⁻¹ K⁻¹, and their covariance needs no conversion.
+
+use crate::error::Error;
+use crate::GAS_CONSTANT;
+use serde::{Deserialize, Serialize};
+
+/// Default reference temperature θ of the ΔCp° model, 298.15 K (the standard-state
+/// temperature conventionally used for tabulated thermochemistry).
+pub const DEFAULT_REFERENCE_K: f64 = 298.15;
+
+/// Which van 't Hoff model to fit.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
+pub enum Model {
+    /// ΔH° and ΔS° constant over the temperature range: ln K linear in 1/T.
+    #[default]
+    #[serde(rename = "linear")]
+    Linear,
+    /// ΔCp° constant; ΔH° and ΔS° quoted at the reference temperature θ.
+    #[serde(rename = "cp")]
+    ConstantCp,
+}
+
+impl Model {
+    /// Number of fitted parameters.
+    pub fn n_params(self) -> usize {
+        match self {
+            Model::Linear => 2,
+            Model::ConstantCp => 3,
+        }
+    }
+
+    /// The short machine name used in files and on the command line: "linear" or "cp".
+    pub fn key(self) -> &'static str {
+        match self {
+            Model::Linear => "linear",
+            Model::ConstantCp => "cp",
+        }
+    }
+
+    /// A plain description for people.
+    pub fn describe(self) -> &'static str {
+        match self {
+            Model::Linear => "linear van 't Hoff (constant ΔH° and ΔS°)",
+            Model::ConstantCp => "constant ΔCp° (ΔH° and ΔS° vary with T)",
+        }
+    }
+
+    /// The design row x(T) such that ln K(T) = x(T)·β, with β = (ΔH°, ΔS°[, ΔCp°]).
+    /// Only the first [`Model::n_params`] entries are meaningful.
+    pub fn row(self, t_k: f64, t_ref_k: f64) -> [f64; 3] {
+        let r = GAS_CONSTANT;
+        let cp = match self {
+            Model::Linear => 0.0,
+            Model::ConstantCp => (t_ref_k / t_k - 1.0 + (t_k / t_ref_k).ln()) / r,
+        };
+        [-1.0 / (r * t_k), 1.0 / r, cp]
+    }
+}
+
+/// How points are weighted.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
+#[serde(rename_all = "snake_case")]
+pub enum Weighting {
+    /// Weight each point by 1/σ(ln K)²; every used point needs σ.
+    #[default]
+    InverseVariance,
+    /// Every point counts the same; σ, if given, is ignored.
+    Unweighted,
+}
+
+/// How the parameter covariance is scaled.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
+#[serde(rename_all = "snake_case")]
+pub enum SigmaConvention {
+    /// Ordinary weighted least squares: σ gives relative weights only; the covariance is
+    /// scaled by the reduced χ², and intervals use Student's t with n − p degrees of freedom.
+    #[default]
+    ScaledByFit,
+    /// σ is taken as the true standard uncertainty: the covariance is (XᵀWX)⁻¹ unscaled
+    /// and intervals use the normal distribution.
+    Absolute,
+}
+
+/// Thresholds for flagging points. Defaults are rules of the trade (common practice).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+#[serde(default)]
+pub struct FlagThresholds {
+    /// |externally studentized residual| above this marks an outlier candidate (default 3).
+    pub outlier_studentized: f64,
+    /// Leverage above this × p/n marks high leverage (default 2, i.e. h > 2p/n).
+    pub leverage_factor: f64,
+    /// Cook's distance above this / n marks an influential point (default 4, i.e. D > 4/n).
+    pub cooks_factor: f64,
+}
+
+impl Default for FlagThresholds {
+    fn default() -> Self {
+        // Common practice: |t| > 3, h > 2p/n, D > 4/n.
+        FlagThresholds {
+            outlier_studentized: 3.0,
+            leverage_factor: 2.0,
+            cooks_factor: 4.0,
+        }
+    }
+}
+
+/// Everything that steers one fit.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+#[serde(default)]
+pub struct FitOptions {
+    /// The model.
+    pub model: Model,
+    /// Reference temperature θ of the ΔCp° model, in kelvin.
+    pub t_ref_k: f64,
+    /// Weighting of points.
+    pub weighting: Weighting,
+    /// Covariance convention.
+    pub convention: SigmaConvention,
+    /// Confidence level for intervals, in (0, 1).
+    pub level: f64,
+    /// Flag thresholds.
+    pub thresholds: FlagThresholds,
+}
+
+impl Default for FitOptions {
+    fn default() -> Self {
+        FitOptions {
+            model: Model::Linear,
+            t_ref_k: DEFAULT_REFERENCE_K,
+            weighting: Weighting::InverseVariance,
+            convention: SigmaConvention::ScaledByFit,
+            level: 0.95,
+            thresholds: FlagThresholds::default(),
+        }
+    }
+}
+
+impl FitOptions {
+    /// Checks the options.
+    ///
+    /// # Errors
+    /// [`Error::InvalidLevel`], [`Error::InvalidReferenceTemperature`] or
+    /// [`Error::InvalidThreshold`].
+    pub fn validate(&self) -> Result<(), Error> {
+        check_level(self.level)?;
+        if !(self.t_ref_k.is_finite() && self.t_ref_k > 0.0) {
+            return Err(Error::InvalidReferenceTemperature(self.t_ref_k));
+        }
+        let t = self.thresholds;
+        for (name, value) in [
+            ("outlier_studentized", t.outlier_studentized),
+            ("leverage_factor", t.leverage_factor),
+            ("cooks_factor", t.cooks_factor),
+        ] {
+            if !(value.is_finite() && value > 0.0) {
+                return Err(Error::InvalidThreshold { name, value });
+            }
+        }
+        Ok(())
+    }
+}
+
+/// Checks a confidence level lies in the open interval (0, 1).
+///
+/// # Errors
+/// [`Error::InvalidLevel`].
+pub fn check_level(level: f64) -> Result<(), Error> {
+    if level.is_finite() && level > 0.0 && level < 1.0 {
+        Ok(())
+    } else {
+        Err(Error::InvalidLevel(level))
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn cp_column_vanishes_at_reference_with_zero_slope() {
+        // At T = θ the ΔCp° term and its first derivative are zero, so ΔH°(θ), ΔS°(θ) keep
+        // their meaning (analytic property of the Clarke–Glew form).
+        let theta = 310.0;
+        let row = Model::ConstantCp.row(theta, theta);
+        assert!(row[2].abs() < 1e-18);
+        let h = 1e-3;
+        let d = (Model::ConstantCp.row(theta + h, theta)[2]
+            - Model::ConstantCp.row(theta - h, theta)[2])
+            / (2.0 * h);
+        assert!(d.abs() < 1e-9);
+    }
+
+    #[test]
+    fn bad_options_are_refused() {
+        let mut o = FitOptions::default();
+        assert!(o.validate().is_ok());
+        o.level = 1.0;
+        assert!(o.validate().is_err());
+        o.level = 0.9;
+        o.t_ref_k = -3.0;
+        assert!(o.validate().is_err());
+        o.t_ref_k = 300.0;
+        o.thresholds.cooks_factor = f64::NAN;
+        assert!(o.validate().is_err());
+    }
+}

@@ -1,0 +1,756 @@
+//! The van 't Hoff fit: estimates of (ΔH°, ΔS°[, ΔCp°]) with their covariance, fit
+//! statistics, per-point diagnostics, warnings in words, and the comparison of the
+//! linear and constant-ΔCp° models on the same points.
+//!
+//! Derived quantities (predictions, bands, the confidence ellipse, temperatures for a
+//! target K) are methods on [`VantHoffFit`] in [`crate::derived`].
+
+use crate::diagnostics::{diagnose_points, PointDiagnostics};
+use crate::error::Error;
+use crate::least_squares::{solve, LinearFit};
+use crate::measurement::Measurement;
+use crate::model::{FitOptions, Model, SigmaConvention, Weighting};
+use crate::stats::{chi2_upper_tail, f_upper_tail, normal_quantile, t_quantile};
+use nalgebra::DMatrix;
+use serde::{Deserialize, Serialize};
+
+/// |corr(ΔH°, ΔS°)| above which a warning explains the correlation (common practice:
+/// van 't Hoff fits over a narrow 1/T range are nearly always this correlated).
+pub const STRONG_CORRELATION: f64 = 0.95;
+
+/// Fewer residual degrees of freedom than this earns a "few points" warning (common practice).
+pub const FEW_DOF: usize = 3;
+
+/// A number with its standard error and a confidence interval at the fit's level.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct Estimate {
+    /// Best estimate.
+    pub value: f64,
+    /// Standard error.
+    pub se: f64,
+    /// Lower confidence limit.
+    pub ci_low: f64,
+    /// Upper confidence limit.
+    pub ci_high: f64,
+}
+
+impl Estimate {
+    /// An estimate with a symmetric interval `value ± crit·se`.
+    pub fn symmetric(value: f64, se: f64, crit: f64) -> Self {
+        Estimate {
+            value,
+            se,
+            ci_low: value - crit * se,
+            ci_high: value + crit * se,
+        }
+    }
+
+    /// The same estimate scaled by a positive factor (for unit conversion).
+    pub fn scaled(self, factor: f64) -> Self {
+        Estimate {
+            value: self.value * factor,
+            se: self.se * factor.abs(),
+            ci_low: self.ci_low * factor,
+            ci_high: self.ci_high * factor,
+        }
+    }
+}
+
+/// Names of the fitted parameters, in design-column order.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum ParameterName {
+    /// ΔH° in J/mol (at θ for the ΔCp° model).
+    DeltaH,
+    /// ΔS° in J mol⁻¹ K⁻¹ (at θ for the ΔCp° model).
+    DeltaS,
+    /// ΔCp° in J mol⁻¹ K⁻¹.
+    DeltaCp,
+}
+
+impl ParameterName {
+    /// The machine key: "delta_h", "delta_s", "delta_cp".
+    pub fn key(self) -> &'static str {
+        match self {
+            ParameterName::DeltaH => "delta_h",
+            ParameterName::DeltaS => "delta_s",
+            ParameterName::DeltaCp => "delta_cp",
+        }
+    }
+
+    /// The symbol: "ΔH°", "ΔS°", "ΔCp°".
+    pub fn symbol(self) -> &'static str {
+        match self {
+            ParameterName::DeltaH => "ΔH°",
+            ParameterName::DeltaS => "ΔS°",
+            ParameterName::DeltaCp => "ΔCp°",
+        }
+    }
+}
+
+/// One fitted parameter.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct Parameter {
+    /// Which parameter.
+    pub name: ParameterName,
+    /// Value, SE and confidence interval, in SI units.
+    #[serde(flatten)]
+    pub estimate: Estimate,
+}
+
+/// Goodness-of-fit numbers.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct FitStatistics {
+    /// χ² = Σ wᵢ eᵢ² (the plain residual sum of squares when unweighted).
+    pub chi2: f64,
+    /// χ² / (n − p).
+    pub reduced_chi2: f64,
+    /// Residual standard deviation √(χ²/(n − p)): in ln K units when unweighted, in units of
+    /// σ when weighted.
+    pub residual_sd: f64,
+    /// Weighted coefficient of determination 1 − χ²/Σ wᵢ (yᵢ − ȳ_w)².
+    pub r2: f64,
+    /// Adjusted R² = 1 − (1 − R²)(n − 1)/(n − p).
+    pub adj_r2: f64,
+    /// Gaussian log-likelihood with the variance estimated (k = p + 1 parameters).
+    pub log_likelihood: f64,
+    /// Small-sample Akaike criterion; `None` when n − k − 1 ≤ 0.
+    pub aicc: Option<f64>,
+    /// Bayesian (Schwarz) criterion.
+    pub bic: f64,
+    /// Under the absolute-σ convention, P(χ²_{n−p} ≥ χ²): a tiny value says the stated
+    /// uncertainties are too small for the scatter. `None` otherwise.
+    pub chi2_p_value: Option<f64>,
+}
+
+/// The verdict of the model comparison.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct ModelComparison {
+    /// F statistic for adding ΔCp° to the linear model.
+    pub f_statistic: f64,
+    /// Its p-value from F(1, n − 3).
+    pub f_p_value: f64,
+    /// AICc(ΔCp° model) − AICc(linear); negative favours ΔCp°. `None` with too few points.
+    pub delta_aicc: Option<f64>,
+    /// The model the evidence prefers.
+    pub preferred: Model,
+    /// The verdict in plain words.
+    pub verdict: String,
+}
+
+/// What a warning is about, for callers that react to kinds rather than text.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum WarningKind {
+    /// Few degrees of freedom: intervals are wide and diagnostics weak.
+    FewPoints,
+    /// ΔH° and ΔS° strongly correlated.
+    StrongCorrelation,
+    /// At least one point flagged as outlier, high leverage or influential.
+    FlaggedPoints,
+    /// The linear model is used but the data support curvature (ΔCp° ≠ 0).
+    CurvatureIgnored,
+    /// The ΔCp° model is used but the data do not support it.
+    CurvatureUnsupported,
+    /// Under absolute σ, the scatter is inconsistent with the stated uncertainties.
+    ScatterVersusSigma,
+    /// A requested setting was not applicable and was ignored.
+    SettingIgnored,
+    /// A value is undefined (reported as null).
+    Undefined,
+    /// A narrow temperature range.
+    NarrowRange,
+    /// A prediction outside the measured range.
+    Extrapolation,
+}
+
+/// A caution in words, next to the numbers it qualifies.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Warning {
+    /// What it is about.
+    pub kind: WarningKind,
+    /// The sentence shown to the chemist.
+    pub message: String,
+}
+
+impl Warning {
+    /// Builds a warning.
+    pub fn new(kind: WarningKind, message: impl Into<String>) -> Self {
+        Warning {
+            kind,
+            message: message.into(),
+        }
+    }
+}
+
+/// ΔH°, ΔS°, ΔG° (and ΔCp°) re-expressed at one temperature.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct ThermoAt {
+    /// The temperature in kelvin.
+    pub t_k: f64,
+    /// ΔH°(T) in J/mol.
+    pub delta_h: Estimate,
+    /// ΔS°(T) in J mol⁻¹ K⁻¹.
+    pub delta_s: Estimate,
+    /// ΔG°(T) in J/mol.
+    pub delta_g: Estimate,
+    /// ΔCp° in J mol⁻¹ K⁻¹ (ΔCp° model only).
+    pub delta_cp: Option<Estimate>,
+}
+
+/// A finished van 't Hoff fit.
+#[derive(Debug, Clone, Serialize, Deserialize)]
+pub struct VantHoffFit {
+    /// The options the fit was made with.
+    pub options: FitOptions,
+    /// Points used.
+    pub n_used: usize,
+    /// Points given (used and excluded).
+    pub n_total: usize,
+    /// Residual degrees of freedom n − p.
+    pub dof: usize,
+    /// Whether weights 1/σ² were applied.
+    pub weighted: bool,
+    /// The fitted parameters in order ΔH°, ΔS°[, ΔCp°], SI units.
+    pub params: Vec<Parameter>,
+    /// Full covariance of the parameters, same order, SI units.
+    pub covariance: Vec<Vec<f64>>,
+    /// Correlation coefficient of ΔH° and ΔS° (at θ).
+    pub corr_h_s: f64,
+    /// Goodness of fit.
+    pub stats: FitStatistics,
+    /// Critical value for two-sided intervals at the level (Student's t, or normal under
+    /// absolute σ).
+    pub critical_value: f64,
+    /// Variance of a new measurement of ln K with typical precision, used by prediction
+    /// intervals and bands.
+    pub new_observation_variance: f64,
+    /// Covariance multiplier: s² = χ²/(n − p) under the scaled convention, 1 under absolute σ.
+    pub variance_scale: f64,
+    /// Lowest used temperature, K.
+    pub t_min_k: f64,
+    /// Highest used temperature, K.
+    pub t_max_k: f64,
+    /// Weighted harmonic-mean temperature of the used points, 1/T_h = Σwᵢ(1/Tᵢ)/Σwᵢ, where
+    /// ΔH° and ΔS° are least correlated.
+    pub t_harmonic_k: f64,
+    /// The parameters at the reference temperature θ (the linear model's θ is 298.15 K by
+    /// default; there ΔH° and ΔS° are the same at any T).
+    pub at_reference: ThermoAt,
+    /// The parameters at the harmonic-mean temperature.
+    pub at_harmonic: ThermoAt,
+    /// The temperature where K = 1 (ΔG° = 0), when there is one near the data.
+    pub t_at_k1: Option<Estimate>,
+    /// Per-point diagnostics, in the order of the input slice.
+    pub points: Vec<PointDiagnostics>,
+    /// Comparison of the linear and ΔCp° models on the same points, when enough points.
+    pub comparison: Option<ModelComparison>,
+    /// Cautions in words.
+    pub warnings: Vec<Warning>,
+}
+
+/// Internal: a solved model on the used points.
+pub(crate) struct Solved {
+    pub(crate) lin: LinearFit,
+    pub(crate) weights: Option<Vec<f64>>,
+    pub(crate) used: Vec<usize>,
+}
+
+/// Validates points and options, and solves one model on the included points.
+pub(crate) fn solve_model(
+    points: &[Measurement],
+    options: &FitOptions,
+    model: Model,
+) -> Result<Solved, Error> {
+    options.validate()?;
+    for (i, p) in points.iter().enumerate() {
+        p.validate(i)?;
+    }
+    let used: Vec<usize> = (0..points.len()).filter(|&i| points[i].included).collect();
+    let p = model.n_params();
+    let needed = match options.convention {
+        SigmaConvention::ScaledByFit => p + 1,
+        SigmaConvention::Absolute => p,
+    };
+    let needed = if options.weighting == Weighting::Unweighted {
+        p + 1
+    } else {
+        needed
+    };
+    if used.len() < needed {
+        return Err(Error::TooFewPoints {
+            available: used.len(),
+            needed,
+        });
+    }
+    let t0 = points[used[0]].t_k;
+    if used.iter().all(|&i| points[i].t_k == t0) {
+        return Err(Error::SingleTemperature);
+    }
+    let weights = match options.weighting {
+        Weighting::Unweighted => None,
+        Weighting::InverseVariance => {
+            let mut w = Vec::with_capacity(used.len());
+            for &i in &used {
+                match points[i].sigma_ln_k {
+                    Some(s) => w.push(1.0 / (s * s)),
+                    None => return Err(Error::MissingSigma { index: i }),
+                }
+            }
+            Some(w)
+        }
+    };
+    let theta = options.t_ref_k;
+    let design = DMatrix::from_fn(used.len(), p, |r, c| {
+        model.row(points[used[r]].t_k, theta)[c]
+    });
+    let y: Vec<f64> = used.iter().map(|&i| points[i].ln_k).collect();
+    let lin = solve(&design, &y, weights.as_deref())?;
+    Ok(Solved { lin, weights, used })
+}
+
+/// Fit statistics for a solved model.
+pub(crate) fn statistics(solved: &Solved, y: &[f64], convention: SigmaConvention) -> FitStatistics {
+    let lin = &solved.lin;
+    let n = lin.n as f64;
+    let p = lin.p as f64;
+    let dof = lin.dof() as f64;
+    let w = |i: usize| solved.weights.as_ref().map_or(1.0, |w| w[i]);
+    let sum_w: f64 = (0..lin.n).map(w).sum();
+    let mean = (0..lin.n).map(|i| w(i) * y[i]).sum::<f64>() / sum_w;
+    let tss: f64 = (0..lin.n).map(|i| w(i) * (y[i] - mean).powi(2)).sum();
+    let chi2 = lin.rss;
+    let reduced = chi2 / dof;
+    let r2 = if tss > 0.0 {
+        1.0 - chi2 / tss
+    } else {
+        f64::NAN
+    };
+    let adj_r2 = 1.0 - (1.0 - r2) * (n - 1.0) / dof;
+    let sum_ln_w: f64 = (0..lin.n).map(|i| w(i).ln()).sum();
+    // Gaussian likelihood, σᵢ² = σ²/wᵢ with σ² estimated by RSS/n (floored so exact data
+    // give a large finite value rather than infinity).
+    let sigma2 = (chi2 / n).max(f64::MIN_POSITIVE);
+    let log_likelihood =
+        -0.5 * n * ((2.0 * std::f64::consts::PI * sigma2).ln() + 1.0) + 0.5 * sum_ln_w;
+    let k = p + 1.0;
+    let aic = 2.0 * k - 2.0 * log_likelihood;
+    let aicc = if n - k - 1.0 > 0.0 {
+        Some(aic + 2.0 * k * (k + 1.0) / (n - k - 1.0))
+    } else {
+        None
+    };
+    let bic = k * n.ln() - 2.0 * log_likelihood;
+    let chi2_p_value = match (convention, solved.weights.is_some()) {
+        (SigmaConvention::Absolute, true) if dof > 0.0 => chi2_upper_tail(chi2, dof),
+        _ => None,
+    };
+    FitStatistics {
+        chi2,
+        reduced_chi2: reduced,
+        residual_sd: reduced.sqrt(),
+        r2,
+        adj_r2,
+        log_likelihood,
+        aicc,
+        bic,
+        chi2_p_value,
+    }
+}
+
+/// Fits a van 't Hoff model by weighted least squares and computes every diagnostic.
+///
+/// # Formula
+/// ```text
+/// ln Kᵢ = xᵢ(Tᵢ)·β + εᵢ,   Var εᵢ = s² σᵢ²  (scaled)  or  σᵢ² (absolute)
+/// Cov β̂ = s² (XᵀWX)⁻¹ with s² = χ²/(n − p)  (scaled),   (XᵀWX)⁻¹  (absolute)
+/// ```
+/// where xᵢ is [`Model::row`], W = diag(1/σᵢ²) (identity when unweighted), χ² = Σ wᵢ eᵢ².
+/// Intervals: β̂ⱼ ± t_{(1+level)/2, n−p} SEⱼ (scaled) or ± z_{(1+level)/2} SEⱼ (absolute).
+///
+/// Excluded points (`included == false`) take no part in the estimates but are returned
+/// with a predicted value and a prediction-standardised residual.
+///
+/// # Errors
+/// Any invalid point or option ([`Error::NonFinite`], [`Error::NonPositiveTemperature`],
+/// [`Error::NonPositiveSigma`], [`Error::InvalidLevel`], …); [`Error::MissingSigma`] for a
+/// weighted fit with a used point lacking σ; [`Error::TooFewPoints`] when fewer than p + 1
+/// points are used (p under absolute σ); [`Error::SingleTemperature`]; [`Error::RankDeficient`].
+///
+/// # Examples
+/// ```
+/// use isochore_fit::{fit, FitOptions, Measurement, Weighting, GAS_CONSTANT};
+/// // Exact data with ΔH° = 40 kJ/mol, ΔS° = 100 J/(mol K).
+/// let pts: Vec<Measurement> = [280.0, 290.0, 300.0, 310.0]
+///     .iter()
+///     .map(|&t| Measurement::new(t, -40e3 / (GAS_CONSTANT * t) + 100.0 / GAS_CONSTANT))
+///     .collect();
+/// let opts = FitOptions { weighting: Weighting::Unweighted, ..FitOptions::default() };
+/// let f = fit(&pts, &opts).unwrap();
+/// assert!((f.delta_h().value - 40e3).abs() < 1e-6);
+/// ```
+pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, Error> {
+    let model = options.model;
+    let solved = solve_model(points, options, model)?;
+    let lin = &solved.lin;
+    let p = lin.p;
+    let dof = lin.dof();
+    let y: Vec<f64> = solved.used.iter().map(|&i| points[i].ln_k).collect();
+    let stats = statistics(&solved, &y, options.convention);
+    let weighted = solved.weights.is_some();
+    let mut warnings = Vec::new();
+
+    let absolute = options.convention == SigmaConvention::Absolute && weighted;
+    if options.convention == SigmaConvention::Absolute && !weighted {
+        warnings.push(Warning::new(
+            WarningKind::SettingIgnored,
+            "absolute σ was asked for but the fit is unweighted; the covariance is scaled by the residual variance instead",
+        ));
+    }
+    let s2 = stats.reduced_chi2;
+    let variance_scale = if absolute { 1.0 } else { s2 };
+    let critical_value = if absolute {
+        normal_quantile(0.5 + options.level / 2.0)
+    } else {
+        t_quantile(0.5 + options.level / 2.0, dof as f64)
+    };
+    let cov = &lin.unscaled_covariance * variance_scale;
+    let covariance: Vec<Vec<f64>> = (0..p)
+        .map(|a| (0..p).map(|b| cov[(a, b)]).collect())
+        .collect();
+    let names = [
+        ParameterName::DeltaH,
+        ParameterName::DeltaS,
+        ParameterName::DeltaCp,
+    ];
+    let params: Vec<Parameter> = (0..p)
+        .map(|j| Parameter {
+            name: names[j],
+            estimate: Estimate::symmetric(lin.coefficients[j], cov[(j, j)].sqrt(), critical_value),
+        })
+        .collect();
+    let corr_h_s = cov[(0, 1)] / (cov[(0, 0)] * cov[(1, 1)]).sqrt();
+
+    // Temperature range and weighted harmonic mean.
+    let mut t_min_k = f64::INFINITY;
+    let mut t_max_k = f64::NEG_INFINITY;
+    let mut sum_w = 0.0;
+    let mut sum_w_inv_t = 0.0;
+    for (r, &i) in solved.used.iter().enumerate() {
+        let t = points[i].t_k;
+        t_min_k = t_min_k.min(t);
+        t_max_k = t_max_k.max(t);
+        let w = solved.weights.as_ref().map_or(1.0, |w| w[r]);
+        sum_w += w;
+        sum_w_inv_t += w / t;
+    }
+    let t_harmonic_k = sum_w / sum_w_inv_t;
+
+    // New-observation variance: s² × (typical σ² = n/Σw) weighted, s² unweighted.
+    let typical_sigma2 = if weighted { lin.n as f64 / sum_w } else { 1.0 };
+    let new_observation_variance = variance_scale * typical_sigma2;
+
+    let points_diag = diagnose_points(points, &solved, options, &cov, variance_scale, s2);
+
+    let mut out = VantHoffFit {
+        options: *options,
+        n_used: lin.n,
+        n_total: points.len(),
+        dof,
+        weighted,
+        params,
+        covariance,
+        corr_h_s,
+        stats,
+        critical_value,
+        new_observation_variance,
+        variance_scale,
+        t_min_k,
+        t_max_k,
+        t_harmonic_k,
+        at_reference: ThermoAt::placeholder(options.t_ref_k),
+        at_harmonic: ThermoAt::placeholder(t_harmonic_k),
+        t_at_k1: None,
+        points: points_diag,
+        comparison: None,
+        warnings: Vec::new(),
+    };
+    out.at_reference = out.thermo_at(options.t_ref_k);
+    out.at_harmonic = out.thermo_at(t_harmonic_k);
+    out.t_at_k1 = out.temperature_for_k(1.0).ok();
+    out.comparison = compare_models(points, options).ok().flatten();
+
+    // Cautions in words.
+    if dof < FEW_DOF {
+        warnings.push(Warning::new(
+            WarningKind::FewPoints,
+            format!(
+                "only {} point(s) used for {} parameters ({} degree(s) of freedom): intervals are wide and point diagnostics are weak",
+                lin.n, p, dof
+            ),
+        ));
+    }
+    if corr_h_s.abs() > STRONG_CORRELATION {
+        warnings.push(Warning::new(
+            WarningKind::StrongCorrelation,
+            format!(
+                "ΔH° and ΔS° are strongly correlated (r = {corr_h_s:.4}); their separate intervals overstate what is known jointly — quote the covariance or the values at the mean temperature {:.1} K, where they are least correlated",
+                t_harmonic_k
+            ),
+        ));
+    }
+    let flagged = out.points.iter().filter(|d| d.flags.any()).count();
+    if flagged > 0 {
+        warnings.push(Warning::new(
+            WarningKind::FlaggedPoints,
+            format!("{flagged} point(s) flagged as outlier, high leverage or influential; inspect them before trusting the result"),
+        ));
+    }
+    if t_max_k - t_min_k < 10.0 {
+        warnings.push(Warning::new(
+            WarningKind::NarrowRange,
+            format!(
+                "the measured range is only {:.1} K wide; ΔH° from so narrow a range is poorly determined",
+                t_max_k - t_min_k
+            ),
+        ));
+    }
+    if let Some(c) = &out.comparison {
+        match (model, c.preferred) {
+            (Model::Linear, Model::ConstantCp) => warnings.push(Warning::new(
+                WarningKind::CurvatureIgnored,
+                format!("the van 't Hoff plot curves ({}); the linear model ignores this — consider the ΔCp° model", c.verdict),
+            )),
+            (Model::ConstantCp, Model::Linear) => warnings.push(Warning::new(
+                WarningKind::CurvatureUnsupported,
+                format!("the data do not support a non-zero ΔCp° ({}); the linear model is simpler and its ΔH° more precise", c.verdict),
+            )),
+            _ => {}
+        }
+    }
+    if let Some(pv) = out.stats.chi2_p_value {
+        if pv < 0.001 {
+            warnings.push(Warning::new(
+                WarningKind::ScatterVersusSigma,
+                format!(
+                    "the scatter is larger than the stated σ allow (χ²/dof = {:.2}, p = {pv:.2e}); absolute-σ intervals are too narrow — use the scaled convention or revisit σ",
+                    out.stats.reduced_chi2
+                ),
+            ));
+        } else if pv > 0.999 {
+            warnings.push(Warning::new(
+                WarningKind::ScatterVersusSigma,
+                format!(
+                    "the scatter is much smaller than the stated σ imply (χ²/dof = {:.2}); the σ may be overestimated",
+                    out.stats.reduced_chi2
+                ),
+            ));
+        }
+    }
+    if out
+        .points
+        .iter()
+        .any(|d| d.used && d.leverage >= 1.0 - 1e-10)
+    {
+        warnings.push(Warning::new(
+            WarningKind::Undefined,
+            "a point has leverage 1 (the fit passes through it); its studentized residual and Cook's distance are undefined",
+        ));
+    }
+    out.warnings = warnings;
+    Ok(out)
+}
+
+/// Compares the linear and constant-ΔCp° models on the same included points with the same
+/// weights: an F-test for the extra parameter and the difference in AICc.
+///
+/// Returns `Ok(None)` when there are too few points for the ΔCp° model to leave a residual
+/// degree of freedom (fewer than 4 used points).
+///
+/// # Formula
+/// ```text
+/// F = (χ²_lin − χ²_cp) / (χ²_cp / (n − 3)),   p = P(F(1, n − 3) ≥ F)
+/// ΔAICc = AICc_cp − AICc_lin
+/// ```
+/// The ΔCp° model is preferred when p < 0.05 and ΔAICc < 0 (or ΔAICc is unavailable); the
+/// linear model otherwise. Both numbers are reported so the chemist can judge.
+///
+/// # Errors
+/// As [`fit`].
+pub fn compare_models(
+    points: &[Measurement],
+    options: &FitOptions,
+) -> Result<Option<ModelComparison>, Error> {
+    let n_used = points.iter().filter(|p| p.included).count();
+    if n_used < 4 {
+        return Ok(None);
+    }
+    let lin = match solve_model(points, options, Model::Linear) {
+        Ok(s) => s,
+        Err(e) => return Err(e),
+    };
+    let cp = match solve_model(points, options, Model::ConstantCp) {
+        Ok(s) => s,
+        Err(Error::RankDeficient { .. }) | Err(Error::TooFewPoints { .. }) => return Ok(None),
+        Err(e) => return Err(e),
+    };
+    let y: Vec<f64> = lin.used.iter().map(|&i| points[i].ln_k).collect();
+    let s_lin = statistics(&lin, &y, options.convention);
+    let s_cp = statistics(&cp, &y, options.convention);
+    let dof_cp = cp.lin.dof() as f64;
+    let drop = (s_lin.chi2 - s_cp.chi2).max(0.0);
+    let f_statistic = if s_cp.chi2 > 0.0 {
+        drop / (s_cp.chi2 / dof_cp)
+    } else {
+        f64::INFINITY
+    };
+    let f_p_value = f_upper_tail(f_statistic, 1.0, dof_cp).unwrap_or(0.0);
+    let delta_aicc = match (s_cp.aicc, s_lin.aicc) {
+        (Some(a), Some(b)) => Some(a - b),
+        _ => None,
+    };
+    let supports = f_p_value < 0.05 && delta_aicc.is_none_or(|d| d < 0.0);
+    let preferred = if supports {
+        Model::ConstantCp
+    } else {
+        Model::Linear
+    };
+    let aicc_text = match delta_aicc {
+        Some(d) => format!("ΔAICc = {d:+.2}"),
+        None => "ΔAICc unavailable with so few points".to_string(),
+    };
+    let verdict = if supports {
+        format!(
+            "curvature is supported: adding ΔCp° improves the fit (F-test {}, {aicc_text})",
+            format_p(f_p_value)
+        )
+    } else if f_p_value < 0.05 {
+        format!("evidence for curvature is mixed: the F-test says yes ({}) but {aicc_text} favours the linear model", format_p(f_p_value))
+    } else {
+        format!(
+            "no evidence of curvature: ΔCp° does not improve the fit (F-test {}, {aicc_text})",
+            format_p(f_p_value)
+        )
+    };
+    Ok(Some(ModelComparison {
+        f_statistic,
+        f_p_value,
+        delta_aicc,
+        preferred,
+        verdict,
+    }))
+}
+
+/// Formats a p-value for people: "p = 0.123", or "p < 0.001".
+pub fn format_p(p: f64) -> String {
+    if p < 0.001 {
+        "p < 0.001".to_string()
+    } else {
+        format!("p = {p:.3}")
+    }
+}
+
+impl ThermoAt {
+    fn placeholder(t_k: f64) -> Self {
+        let z = Estimate {
+            value: 0.0,
+            se: 0.0,
+            ci_low: 0.0,
+            ci_high: 0.0,
+        };
+        ThermoAt {
+            t_k,
+            delta_h: z,
+            delta_s: z,
+            delta_g: z,
+            delta_cp: None,
+        }
+    }
+}
+
+impl VantHoffFit {
+    /// The model fitted.
+    pub fn model(&self) -> Model {
+        self.options.model
+    }
+
+    /// The coefficient vector β = (ΔH°, ΔS°[, ΔCp°]) in SI units.
+    pub fn coefficients(&self) -> Vec<f64> {
+        self.params.iter().map(|p| p.estimate.value).collect()
+    }
+
+    /// ΔH° (at θ for the ΔCp° model), J/mol.
+    pub fn delta_h(&self) -> Estimate {
+        self.params[0].estimate
+    }
+
+    /// ΔS° (at θ for the ΔCp° model), J mol⁻¹ K⁻¹.
+    pub fn delta_s(&self) -> Estimate {
+        self.params[1].estimate
+    }
+
+    /// ΔCp°, J mol⁻¹ K⁻¹, for the ΔCp° model.
+    pub fn delta_cp(&self) -> Option<Estimate> {
+        self.params.get(2).map(|p| p.estimate)
+    }
+
+    /// Indices (into the input slice) of points carrying any flag.
+    pub fn flagged_points(&self) -> Vec<usize> {
+        self.points
+            .iter()
+            .filter(|d| d.flags.any())
+            .map(|d| d.index)
+            .collect()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::GAS_CONSTANT;
+
+    fn exact(dh: f64, ds: f64, temps: &[f64]) -> Vec<Measurement> {
+        temps
+            .iter()
+            .map(|&t| {
+                Measurement::new(t, -dh / (GAS_CONSTANT * t) + ds / GAS_CONSTANT).with_sigma(0.05)
+            })
+            .collect()
+    }
+
+    #[test]
+    fn too_few_and_single_temperature() {
+        let opts = FitOptions::default();
+        let pts = exact(1e4, 10.0, &[290.0, 300.0]);
+        assert!(matches!(fit(&pts, &opts), Err(Error::TooFewPoints { .. })));
+        let pts = exact(1e4, 10.0, &[300.0, 300.0, 300.0, 300.0]);
+        assert_eq!(fit(&pts, &opts).unwrap_err(), Error::SingleTemperature);
+        let mut pts = exact(1e4, 10.0, &[290.0, 300.0, 310.0]);
+        pts[1].sigma_ln_k = None;
+        assert_eq!(
+            fit(&pts, &opts).unwrap_err(),
+            Error::MissingSigma { index: 1 }
+        );
+    }
+
+    #[test]
+    fn cp_model_recovers_curved_exact_data() {
+        // Exact ΔCp° data: ΔH°(θ) = −20 kJ/mol, ΔS°(θ) = −30 J/(mol K), ΔCp° = −800 J/(mol K).
+        let theta = 298.15;
+        let temps = [278.0, 283.0, 288.0, 293.0, 298.0, 303.0, 308.0, 313.0];
+        let pts: Vec<Measurement> = temps
+            .iter()
+            .map(|&t| {
+                let x = Model::ConstantCp.row(t, theta);
+                Measurement::new(t, x[0] * -20e3 + x[1] * -30.0 + x[2] * -800.0).with_sigma(0.02)
+            })
+            .collect();
+        let opts = FitOptions {
+            model: Model::ConstantCp,
+            ..FitOptions::default()
+        };
+        let f = fit(&pts, &opts).unwrap();
+        assert!((f.delta_h().value + 20e3).abs() < 1e-6 * 20e3);
+        assert!((f.delta_cp().unwrap().value + 800.0).abs() < 1e-6 * 800.0);
+    }
+}
