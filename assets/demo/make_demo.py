@@ -40,11 +40,11 @@ def binding():
 
 
 def acid():
-    # Fictional "veratrol acid" (invented) first dissociation constant by potentiometry
+    # Fictional "quillonic acid" (invented) first dissociation constant by potentiometry
     # from 5 to 60 °C. ΔH°(25 °C) = 28 kJ/mol, ΔS° = −45 J/(mol K), ΔCp° = −160 J/(mol K).
     rng = random.Random(11)
     with open("acid_pka.csv", "w", encoding="utf-8") as f:
-        f.write("# Fictional demo: pKa of the invented acid 'veratrol acid' (not a real compound)\n")
+        f.write("# Fictional demo: pKa of the invented acid 'quillonic acid' (not a real compound)\n")
         f.write("temp/K,pKa,u(pKa)\n")
         for i in range(12):
             t = 278.15 + 5.0 * i
