@@ -1,0 +1,748 @@
+//! Import of a delimited text file (or pasted text) into data sets of measurements.
+//!
+//! [`import_path`], [`import_bytes`] and [`import_text`] decode the bytes, detect the
+//! dialect, read the header into a [`ColumnMapping`] (or take the caller's), then convert
+//! every row. Good rows go into [`Series`] (one per distinct value of the series column);
+//! rows with a bad cell go into [`Import::rejected`] with line, column and reason. Faults
+//! of the whole file (empty, header only, unknown header, size limits, too few points,
+//! one temperature) are an [`Error`].
+
+use crate::error::{Error, RejectedRow, RowProblem};
+use crate::header;
+use crate::mapping::{convert_cells, ColumnMapping};
+use crate::text::{self, Delimiter, Reader, Record, Span};
+use isochore_fit::{Measurement, TemperatureUnit};
+use serde::{Deserialize, Serialize};
+use sha2::{Digest, Sha256};
+use std::collections::HashMap;
+use std::io::Read;
+use std::path::Path;
+
+/// How the decimal mark is chosen.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
+#[serde(rename_all = "snake_case")]
+pub enum DecimalMark {
+    /// A comma inside a number is a decimal mark unless the delimiter is a comma.
+    #[default]
+    Auto,
+    /// Only '.' is a decimal mark.
+    Point,
+    /// ',' is a decimal mark (as is '.'); not possible with a comma delimiter.
+    Comma,
+}
+
+/// What to do with replicates: rows of one data set whose temperatures agree within
+/// [`ImportOptions::replicate_tolerance_k`].
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
+#[serde(rename_all = "snake_case")]
+pub enum Replicates {
+    /// Every row is its own point (the default).
+    #[default]
+    Keep,
+    /// Replicates become one point: the mean temperature and the mean ln K, inverse-variance
+    /// weighted when every replicate has σ (then σ = 1/√Σw); otherwise the plain mean with
+    /// σ = s/√n from the spread (none when n = 1 or the spread is zero).
+    Average,
+}
+
+/// Options of an import. `Default` gives automatic detection and generous limits.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ImportOptions {
+    /// The delimiter, or `None` to detect it (tab, semicolon, comma, pipe, whitespace).
+    pub delimiter: Option<Delimiter>,
+    /// The decimal mark.
+    pub decimal: DecimalMark,
+    /// Replicate handling, carried into each [`Series`].
+    pub replicates: Replicates,
+    /// Temperatures closer than this (K) are replicates (default 0.05 K).
+    pub replicate_tolerance_k: f64,
+    /// Largest file accepted, in bytes (default 256 MiB; at most 4 GiB − 1).
+    pub max_file_bytes: u64,
+    /// Longest line accepted, in bytes (default 64 KiB).
+    pub max_line_bytes: usize,
+    /// Most cells accepted in a row (default 256).
+    pub max_columns: usize,
+    /// Fewest usable points a data set needs (default 3; 2 allows the two-point estimate).
+    pub min_points: usize,
+    /// Treat unrecognised headers as unused columns instead of an error.
+    pub ignore_unknown_columns: bool,
+    /// Use this mapping instead of reading the headers.
+    pub mapping: Option<ColumnMapping>,
+}
+
+impl Default for ImportOptions {
+    fn default() -> Self {
+        ImportOptions {
+            delimiter: None,
+            decimal: DecimalMark::Auto,
+            replicates: Replicates::Keep,
+            replicate_tolerance_k: 0.05,
+            max_file_bytes: 256 << 20,
+            max_line_bytes: 64 << 10,
+            max_columns: 256,
+            min_points: 3,
+            ignore_unknown_columns: false,
+            mapping: None,
+        }
+    }
+}
+
+/// Where the data came from.
+#[derive(Debug, Clone, PartialEq, Eq, Serialize, Deserialize)]
+pub struct SourceInfo {
+    /// The file name (or the name given to pasted text).
+    pub name: String,
+    /// The full path, when read from a file.
+    #[serde(default)]
+    pub path: Option<String>,
+    /// SHA-256 of the bytes as read, in lower-case hex.
+    pub sha256: String,
+    /// Size in bytes.
+    pub bytes: u64,
+}
+
+/// One accepted row, converted to the fitting scale.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Row {
+    /// Physical 1-based line in the file.
+    pub line: usize,
+    /// 1-based number of this row among the accepted rows of its data set.
+    pub row: usize,
+    /// Temperature in kelvin.
+    pub t_k: f64,
+    /// ln K (association sense for K_d, see `isochore_fit::units`).
+    pub ln_k: f64,
+    /// σ(ln K), when the file gives an uncertainty for this row.
+    pub sigma_ln_k: Option<f64>,
+    /// The note cell, when not empty.
+    pub note: Option<String>,
+    pub(crate) start: u32,
+    pub(crate) end: u32,
+}
+
+/// One point for the fit, with the data rows it stands for (one row, or several averaged
+/// replicates).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Point {
+    /// The point.
+    pub measurement: Measurement,
+    /// 1-based row numbers (see [`Row::row`]) it was made from.
+    pub rows: Vec<usize>,
+}
+
+/// One data set.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Series {
+    /// Its name: the series cell, or the file name without extension.
+    pub name: String,
+    /// Accepted rows in file order.
+    pub rows: Vec<Row>,
+    /// Replicate handling.
+    pub replicates: Replicates,
+    /// Replicate temperature tolerance in K.
+    pub replicate_tolerance_k: f64,
+}
+
+impl Series {
+    /// The points for the fit. `excluded` lists 1-based row numbers to leave out; they stay
+    /// in the result, one point each, with `included = false`. With
+    /// [`Replicates::Average`] the included rows at one temperature become one point.
+    pub fn points(&self, excluded: &[usize]) -> Vec<Point> {
+        let rows: Vec<(usize, f64, f64, Option<f64>)> = self
+            .rows
+            .iter()
+            .map(|r| (r.row, r.t_k, r.ln_k, r.sigma_ln_k))
+            .collect();
+        make_points(&rows, excluded, self.replicates, self.replicate_tolerance_k)
+    }
+
+    /// The measurements for the fit (see [`Series::points`]).
+    pub fn measurements(&self, excluded: &[usize]) -> Vec<Measurement> {
+        self.points(excluded)
+            .into_iter()
+            .map(|p| p.measurement)
+            .collect()
+    }
+}
+
+/// Builds points from (row, T, ln K, σ) tuples; shared with project files.
+pub(crate) fn make_points(
+    rows: &[(usize, f64, f64, Option<f64>)],
+    excluded: &[usize],
+    mode: Replicates,
+    tol: f64,
+) -> Vec<Point> {
+    let is_excluded = |r: usize| excluded.contains(&r);
+    let single = |&(row, t, l, s): &(usize, f64, f64, Option<f64>)| Point {
+        measurement: Measurement {
+            t_k: t,
+            ln_k: l,
+            sigma_ln_k: s,
+            included: !is_excluded(row),
+        },
+        rows: vec![row],
+    };
+    match mode {
+        Replicates::Keep => rows.iter().map(single).collect(),
+        Replicates::Average => {
+            // Group included rows by temperature, in order of first appearance.
+            let mut order: Vec<usize> = (0..rows.len())
+                .filter(|&i| !is_excluded(rows[i].0))
+                .collect();
+            order.sort_by(|&a, &b| rows[a].1.total_cmp(&rows[b].1).then(a.cmp(&b)));
+            let mut groups: Vec<Vec<usize>> = Vec::new();
+            for i in order {
+                match groups.last_mut() {
+                    Some(g) if (rows[i].1 - rows[g[0]].1).abs() <= tol => g.push(i),
+                    _ => groups.push(vec![i]),
+                }
+            }
+            let mut tagged: Vec<(usize, Point)> = Vec::new();
+            for g in groups {
+                let first = g.iter().copied().min().unwrap_or(0);
+                let n = g.len() as f64;
+                let t = g.iter().map(|&i| rows[i].1).sum::<f64>() / n;
+                let all_sigma = g.iter().all(|&i| rows[i].3.is_some());
+                let (ln_k, sigma) = if g.len() == 1 {
+                    (rows[g[0]].2, rows[g[0]].3)
+                } else if all_sigma {
+                    let w: Vec<f64> = g
+                        .iter()
+                        .map(|&i| {
+                            let s = rows[i].3.unwrap_or(1.0);
+                            1.0 / (s * s)
+                        })
+                        .collect();
+                    let sw: f64 = w.iter().sum();
+                    let m = g.iter().zip(&w).map(|(&i, wi)| wi * rows[i].2).sum::<f64>() / sw;
+                    (m, Some(1.0 / sw.sqrt()))
+                } else {
+                    let m = g.iter().map(|&i| rows[i].2).sum::<f64>() / n;
+                    let ss = g.iter().map(|&i| (rows[i].2 - m).powi(2)).sum::<f64>();
+                    let sd = (ss / (n - 1.0)).sqrt();
+                    let se = sd / n.sqrt();
+                    (m, (se.is_finite() && se > 0.0).then_some(se))
+                };
+                let mut rs: Vec<usize> = g.iter().map(|&i| rows[i].0).collect();
+                rs.sort_unstable();
+                tagged.push((
+                    first,
+                    Point {
+                        measurement: Measurement {
+                            t_k: t,
+                            ln_k,
+                            sigma_ln_k: sigma,
+                            included: true,
+                        },
+                        rows: rs,
+                    },
+                ));
+            }
+            for (i, r) in rows.iter().enumerate() {
+                if is_excluded(r.0) {
+                    tagged.push((i, single(r)));
+                }
+            }
+            tagged.sort_by_key(|(i, _)| *i);
+            tagged.into_iter().map(|(_, p)| p).collect()
+        }
+    }
+}
+
+/// The result of an import: the data sets, the rejected rows and what was detected.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Import {
+    /// Where the data came from.
+    pub source: SourceInfo,
+    /// Header cells as typed (trimmed).
+    pub headers: Vec<String>,
+    /// Physical line of the header.
+    pub header_line: usize,
+    /// What each column means.
+    pub mapping: ColumnMapping,
+    /// The delimiter used.
+    pub delimiter: Delimiter,
+    /// True when commas inside numbers are read as decimal marks and the file uses them.
+    pub decimal_comma: bool,
+    /// The data sets, in order of first appearance.
+    pub series: Vec<Series>,
+    /// Rows not accepted, in file order, with reasons.
+    pub rejected: Vec<RejectedRow>,
+    pub(crate) comma_ok: bool,
+    pub(crate) text: String,
+}
+
+impl Import {
+    /// The cells of an accepted row exactly as typed (quotes removed, doubled quotes undone).
+    pub fn cells(&self, row: &Row) -> Vec<String> {
+        let Ok(mut r) = self.reader_at(row.start as usize, row.end as usize) else {
+            return Vec::new();
+        };
+        match r.next_record() {
+            Ok(Some(_)) => r.spans.iter().map(|s| s.unescaped(&self.text)).collect(),
+            _ => Vec::new(),
+        }
+    }
+
+    fn reader_at(&self, start: usize, end: usize) -> Result<Reader<'_>, ()> {
+        let text = self.text.get(..end).ok_or(())?;
+        Ok(Reader::new(
+            text,
+            start,
+            self.delimiter,
+            usize::MAX,
+            usize::MAX,
+            &self.source.name,
+        ))
+    }
+
+    /// Whether commas in number cells are decimal marks in this import (stored in projects
+    /// so that the raw cells are read the same way again).
+    pub fn comma_is_decimal(&self) -> bool {
+        self.comma_ok
+    }
+
+    /// The mapping in words, one line per column (see [`ColumnMapping::describe`]).
+    pub fn describe_mapping(&self) -> Vec<String> {
+        self.mapping.describe(&self.headers)
+    }
+
+    /// The data set with this name.
+    pub fn series_named(&self, name: &str) -> Option<&Series> {
+        self.series.iter().find(|s| s.name == name)
+    }
+
+    /// Strict reading: the import itself if no row was rejected, otherwise the first
+    /// rejected row as an error.
+    pub fn strict(self) -> Result<Import, Error> {
+        match self.rejected.first() {
+            None => Ok(self),
+            Some(r) => Err(Error::Row {
+                file: self.source.name.clone(),
+                rejected: r.clone(),
+            }),
+        }
+    }
+}
+
+/// Imports a file.
+///
+/// # Errors
+/// See [`Error`]: I/O, size limits, header faults, too few points, one temperature.
+pub fn import_path(path: impl AsRef<Path>, options: &ImportOptions) -> Result<Import, Error> {
+    let path = path.as_ref();
+    let name = path
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_else(|| path.display().to_string());
+    let io = |e: std::io::Error| Error::Io {
+        path: path.display().to_string(),
+        message: e.to_string(),
+    };
+    let limit = effective_limit(options);
+    let file = std::fs::File::open(path).map_err(io)?;
+    let size = file.metadata().map_err(io)?.len();
+    if size > limit {
+        return Err(Error::FileTooLarge {
+            file: name,
+            bytes: size,
+            limit,
+        });
+    }
+    let mut bytes = Vec::with_capacity(size as usize + 1);
+    file.take(limit + 1).read_to_end(&mut bytes).map_err(io)?;
+    import_owned(&name, Some(path.display().to_string()), bytes, options)
+}
+
+/// Imports bytes (for example a file already in memory). `name` is used in messages.
+///
+/// # Errors
+/// As [`import_path`].
+pub fn import_bytes(name: &str, bytes: &[u8], options: &ImportOptions) -> Result<Import, Error> {
+    if bytes.len() as u64 > effective_limit(options) {
+        return Err(Error::FileTooLarge {
+            file: name.to_string(),
+            bytes: bytes.len() as u64,
+            limit: effective_limit(options),
+        });
+    }
+    import_owned(name, None, bytes.to_vec(), options)
+}
+
+/// Imports text pasted from a spreadsheet or typed in. `name` is used in messages.
+///
+/// # Errors
+/// As [`import_path`].
+pub fn import_text(name: &str, text: &str, options: &ImportOptions) -> Result<Import, Error> {
+    import_bytes(name, text.as_bytes(), options)
+}
+
+fn effective_limit(o: &ImportOptions) -> u64 {
+    o.max_file_bytes.min(u32::MAX as u64 - 1)
+}
+
+/// SHA-256 of bytes in lower-case hex.
+pub fn sha256_hex(bytes: &[u8]) -> String {
+    let digest = Sha256::digest(bytes);
+    let mut s = String::with_capacity(64);
+    for b in digest.iter() {
+        s.push_str(&format!("{b:02x}"));
+    }
+    s
+}
+
+fn import_owned(
+    name: &str,
+    path: Option<String>,
+    bytes: Vec<u8>,
+    options: &ImportOptions,
+) -> Result<Import, Error> {
+    let n_bytes = bytes.len() as u64;
+    let limit = effective_limit(options);
+    if n_bytes > limit {
+        return Err(Error::FileTooLarge {
+            file: name.to_string(),
+            bytes: n_bytes,
+            limit,
+        });
+    }
+    let is_utf8 = std::str::from_utf8(&bytes).is_ok()
+        && !bytes.starts_with(&[0xFF, 0xFE])
+        && !bytes.starts_with(&[0xFE, 0xFF]);
+    // Hash now unless the text will be the very same bytes (then hash in parallel).
+    let early_hash = (!is_utf8).then(|| sha256_hex(&bytes));
+    let (text, start) = text::decode(bytes);
+    if text.len() as u64 > limit {
+        return Err(Error::FileTooLarge {
+            file: name.to_string(),
+            bytes: text.len() as u64,
+            limit,
+        });
+    }
+    let (sha, parsed) = std::thread::scope(|s| {
+        let worker = if early_hash.is_none() && text.len() > (1 << 20) {
+            std::thread::Builder::new()
+                .spawn_scoped(s, || sha256_hex(text.as_bytes()))
+                .ok()
+        } else {
+            None
+        };
+        let parsed = parse(name, &text, start, options);
+        let sha = match (early_hash, worker) {
+            (Some(h), _) => h,
+            (None, Some(w)) => w.join().unwrap_or_else(|_| sha256_hex(text.as_bytes())),
+            (None, None) => sha256_hex(text.as_bytes()),
+        };
+        (sha, parsed)
+    });
+    let p = parsed?;
+    Ok(Import {
+        source: SourceInfo {
+            name: name.to_string(),
+            path,
+            sha256: sha,
+            bytes: n_bytes,
+        },
+        headers: p.headers,
+        header_line: p.header_line,
+        mapping: p.mapping,
+        delimiter: p.delimiter,
+        decimal_comma: p.decimal_comma,
+        series: p.series,
+        rejected: p.rejected,
+        comma_ok: p.comma_ok,
+        text,
+    })
+}
+
+struct Parsed {
+    headers: Vec<String>,
+    header_line: usize,
+    mapping: ColumnMapping,
+    delimiter: Delimiter,
+    decimal_comma: bool,
+    comma_ok: bool,
+    series: Vec<Series>,
+    rejected: Vec<RejectedRow>,
+}
+
+fn stem(name: &str) -> String {
+    let base = name.rsplit(['/', '\\']).next().unwrap_or(name);
+    match base.rfind('.') {
+        Some(i) if i > 0 => base[..i].to_string(),
+        _ => base.to_string(),
+    }
+}
+
+fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Parsed, Error> {
+    if let Some((line, character)) = text::find_nul(text, start) {
+        return Err(Error::Binary {
+            file: file.to_string(),
+            line,
+            character,
+        });
+    }
+    let delimiter = o
+        .delimiter
+        .unwrap_or_else(|| text::detect_delimiter(text, start));
+    let comma_ok = match o.decimal {
+        DecimalMark::Point => false,
+        DecimalMark::Comma | DecimalMark::Auto => delimiter != Delimiter::Comma,
+    };
+    let decimal_comma = comma_ok
+        && (o.decimal == DecimalMark::Comma
+            || text::sample_has_decimal_comma(text, start, delimiter));
+    let mut reader = Reader::new(
+        text,
+        start,
+        delimiter,
+        o.max_line_bytes,
+        o.max_columns,
+        file,
+    );
+    let Some(head) = reader.next_record()? else {
+        return Err(Error::Empty {
+            file: file.to_string(),
+        });
+    };
+    let header_line = head.line;
+    let mut headers: Vec<String> = reader
+        .spans
+        .iter()
+        .map(|s| s.unescaped(text).trim().to_string())
+        .collect();
+    if delimiter == Delimiter::Whitespace {
+        headers = text::merge_whitespace_header(headers);
+    }
+    let (mut mapping, t_known) = match &o.mapping {
+        Some(m) => {
+            m.check(headers.len())
+                .map_err(|message| Error::InvalidMapping {
+                    file: file.to_string(),
+                    message,
+                })?;
+            (m.clone(), true)
+        }
+        None => {
+            let d = header::detect(&headers, file, header_line, o.ignore_unknown_columns)?;
+            (d.mapping, d.temperature_unit_known)
+        }
+    };
+    let data_start = reader.position();
+    if !t_known {
+        decide_temperature_unit(
+            file,
+            text,
+            data_start,
+            delimiter,
+            o,
+            &headers,
+            header_line,
+            &mut mapping,
+        )?;
+    }
+    let ncols = headers.len();
+    let default_name = stem(file);
+    let mut series: Vec<Series> = Vec::new();
+    let mut index: HashMap<String, usize> = HashMap::new();
+    let mut rejected = Vec::new();
+    let mut any_data = false;
+    // Columns that may be missing at the end of a short row.
+    let optional = |c: usize| {
+        Some(c) == mapping.note
+            || mapping.ignored.contains(&c)
+            || mapping.uncertainty.map(|u| u.column) == Some(c)
+    };
+    let empty = Span {
+        start: 0,
+        end: 0,
+        escaped: false,
+    };
+    while let Some(rec) = reader.next_record()? {
+        any_data = true;
+        let spans = &reader.spans;
+        let found = spans.len();
+        if found != ncols {
+            let ok = if found < ncols {
+                (found..ncols).all(optional)
+            } else {
+                spans[ncols..].iter().all(|s| s.raw(text).trim().is_empty())
+            };
+            if !ok {
+                rejected.push(RejectedRow {
+                    line: rec.line,
+                    column: None,
+                    header: None,
+                    cell: None,
+                    problem: RowProblem::Ragged {
+                        expected: ncols,
+                        found,
+                    },
+                });
+                continue;
+            }
+        }
+        let cell = |i: usize| spans.get(i).unwrap_or(&empty).raw(text);
+        let si = match mapping.series {
+            None => {
+                if series.is_empty() {
+                    series.push(new_series(default_name.clone(), o));
+                }
+                0
+            }
+            Some(c) => {
+                let name = spans.get(c).map(|s| s.unescaped(text)).unwrap_or_default();
+                let name = name.trim();
+                let name = if name.is_empty() {
+                    default_name.as_str()
+                } else {
+                    name
+                };
+                match index.get(name) {
+                    Some(&i) => i,
+                    None => {
+                        series.push(new_series(name.to_string(), o));
+                        index.insert(name.to_string(), series.len() - 1);
+                        series.len() - 1
+                    }
+                }
+            }
+        };
+        match convert_cells(&mapping, comma_ok, cell) {
+            Ok(c) => {
+                let note = mapping.note.and_then(|n| {
+                    let s = spans.get(n)?;
+                    let v = s.unescaped(text);
+                    let v = v.trim();
+                    (!v.is_empty()).then(|| v.to_string())
+                });
+                let rows = &mut series[si].rows;
+                let row = rows.len() + 1;
+                rows.push(Row {
+                    line: rec.line,
+                    row,
+                    t_k: c.t_k,
+                    ln_k: c.ln_k,
+                    sigma_ln_k: c.sigma_ln_k,
+                    note,
+                    start: rec.start,
+                    end: rec.end,
+                });
+            }
+            Err((col, problem)) => {
+                rejected.push(RejectedRow {
+                    line: rec.line,
+                    column: Some(col + 1),
+                    header: headers.get(col).cloned(),
+                    cell: Some(cell(col).trim().to_string()),
+                    problem,
+                });
+            }
+        }
+    }
+    if !any_data {
+        return Err(Error::HeaderOnly {
+            file: file.to_string(),
+            line: header_line,
+        });
+    }
+    if series.is_empty() {
+        series.push(new_series(default_name, o));
+    }
+    for s in &series {
+        if s.rows.len() < o.min_points.max(1) {
+            return Err(Error::TooFewPoints {
+                file: file.to_string(),
+                series: s.name.clone(),
+                found: s.rows.len(),
+                needed: o.min_points.max(1),
+                rejected: rejected.clone(),
+            });
+        }
+        let (lo, hi) = s
+            .rows
+            .iter()
+            .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), r| {
+                (a.min(r.t_k), b.max(r.t_k))
+            });
+        if hi - lo <= o.replicate_tolerance_k.max(0.0) && s.rows.len() > 1 {
+            return Err(Error::SingleTemperature {
+                file: file.to_string(),
+                series: s.name.clone(),
+                kelvin: lo,
+            });
+        }
+    }
+    Ok(Parsed {
+        headers,
+        header_line,
+        mapping,
+        delimiter,
+        decimal_comma,
+        comma_ok,
+        series,
+        rejected,
+    })
+}
+
+fn new_series(name: String, o: &ImportOptions) -> Series {
+    Series {
+        name,
+        rows: Vec::new(),
+        replicates: o.replicates,
+        replicate_tolerance_k: o.replicate_tolerance_k,
+    }
+}
+
+/// The rule for a temperature column without a unit (stated in the README): if every
+/// readable value is below 150 the column is °C; if every value is at least 200 it is K;
+/// otherwise the file must say.
+#[allow(clippy::too_many_arguments)]
+fn decide_temperature_unit(
+    file: &str,
+    text: &str,
+    data_start: usize,
+    delimiter: Delimiter,
+    o: &ImportOptions,
+    headers: &[String],
+    header_line: usize,
+    mapping: &mut ColumnMapping,
+) -> Result<(), Error> {
+    let mut r = Reader::new(
+        text,
+        data_start,
+        delimiter,
+        o.max_line_bytes,
+        o.max_columns,
+        file,
+    );
+    let tc = mapping.temperature.column;
+    let comma_ok = delimiter != Delimiter::Comma && o.decimal != DecimalMark::Point;
+    let (mut lo, mut hi) = (f64::INFINITY, f64::NEG_INFINITY);
+    while let Some(Record { .. }) = r.next_record()? {
+        if let Some(s) = r.spans.get(tc) {
+            if let Ok(v) = crate::mapping::parse_number(s.raw(text), comma_ok) {
+                lo = lo.min(v);
+                hi = hi.max(v);
+            }
+        }
+    }
+    let unit = if hi < 150.0 {
+        TemperatureUnit::Celsius
+    } else if lo >= 200.0 {
+        TemperatureUnit::Kelvin
+    } else {
+        return Err(Error::MissingUnit {
+            file: file.to_string(),
+            line: header_line,
+            column: tc + 1,
+            header: headers.get(tc).cloned().unwrap_or_default(),
+            hint: format!(
+                "the temperature has no unit and its values ({lo} to {hi}) do not tell °C from K; write the unit in the header, e.g. 'T (°C)' or 'T/K'"
+            ),
+        });
+    };
+    mapping.temperature.unit = unit;
+    mapping.temperature.assumed = true;
+    Ok(())
+}

@@ -1,0 +1,355 @@
+//! The column mapping: which column holds what, in which unit, and the conversion of one
+//! row of cells (as typed) to the fitting scale (T in K, ln K, σ(ln K)).
+//!
+//! The mapping is what the header recogniser found ([`crate::header`]); a caller may inspect
+//! it, show it ([`ColumnMapping::describe`]) and override it through
+//! [`crate::ImportOptions::mapping`]. Project files store it, and recompute every value
+//! from the raw cells with [`convert_cells`], so the cells stay the single source of truth.
+//! Unit arithmetic itself lives in `isochore_fit::units`.
+
+use crate::error::RowProblem;
+use isochore_fit::{QuantityKind, TemperatureUnit};
+use serde::{Deserialize, Serialize};
+
+/// Which column holds the temperature, and on which scale.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct TemperatureColumn {
+    /// 0-based column index into the headers.
+    pub column: usize,
+    /// The scale the cells are written in.
+    pub unit: TemperatureUnit,
+    /// True when the header gave no unit and the scale was inferred from the values (see
+    /// the crate README for the rule).
+    #[serde(default)]
+    pub assumed: bool,
+}
+
+/// Which column holds the measured quantity, and what it is.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct QuantityColumn {
+    /// 0-based column index into the headers.
+    pub column: usize,
+    /// What the cells hold (K, ln K, pK, K_d in µM, ΔG° in kJ/mol, …).
+    pub kind: QuantityKind,
+}
+
+/// What an uncertainty column holds.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case", tag = "type", content = "quantity")]
+pub enum UncertaintyKind {
+    /// An absolute standard uncertainty of the measured quantity, written as this kind.
+    /// The kind must be of the same family as the measured column (K_d in any
+    /// concentration unit for a K_d column, ΔG° in any energy unit for a ΔG° column, the
+    /// very same kind otherwise).
+    Absolute(QuantityKind),
+    /// A relative standard uncertainty in percent of the measured value.
+    RelativePercent,
+}
+
+/// Which column holds the uncertainty of the measured quantity.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct UncertaintyColumn {
+    /// 0-based column index into the headers.
+    pub column: usize,
+    /// What the cells hold.
+    pub kind: UncertaintyKind,
+}
+
+/// What each column of a file means. Column indices are 0-based into the header list;
+/// messages show them 1-based.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct ColumnMapping {
+    /// The temperature column.
+    pub temperature: TemperatureColumn,
+    /// The measured quantity.
+    pub quantity: QuantityColumn,
+    /// The uncertainty of the measured quantity, if the file has one.
+    #[serde(default)]
+    pub uncertainty: Option<UncertaintyColumn>,
+    /// A column naming the data set (sample, condition) of each row.
+    #[serde(default)]
+    pub series: Option<usize>,
+    /// A free-text note column.
+    #[serde(default)]
+    pub note: Option<usize>,
+    /// Columns deliberately not used (empty headers, temperature uncertainties, and unknown
+    /// headers when [`crate::ImportOptions::ignore_unknown_columns`] is set).
+    #[serde(default)]
+    pub ignored: Vec<usize>,
+}
+
+impl ColumnMapping {
+    /// A mapping with just a temperature and a quantity column.
+    pub fn new(
+        temperature: usize,
+        unit: TemperatureUnit,
+        quantity: usize,
+        kind: QuantityKind,
+    ) -> Self {
+        ColumnMapping {
+            temperature: TemperatureColumn {
+                column: temperature,
+                unit,
+                assumed: false,
+            },
+            quantity: QuantityColumn {
+                column: quantity,
+                kind,
+            },
+            uncertainty: None,
+            series: None,
+            note: None,
+            ignored: Vec::new(),
+        }
+    }
+
+    /// Checks that the columns exist, are distinct, and that the uncertainty kind belongs
+    /// to the measured quantity's family. Returns a message on failure.
+    pub fn check(&self, n_columns: usize) -> Result<(), String> {
+        let mut used: Vec<(usize, &str)> = vec![
+            (self.temperature.column, "temperature"),
+            (self.quantity.column, "quantity"),
+        ];
+        if let Some(u) = self.uncertainty {
+            used.push((u.column, "uncertainty"));
+        }
+        if let Some(s) = self.series {
+            used.push((s, "series"));
+        }
+        if let Some(n) = self.note {
+            used.push((n, "note"));
+        }
+        for (i, &(c, role)) in used.iter().enumerate() {
+            if c >= n_columns {
+                return Err(format!(
+                    "the {role} column is column {} but the file has {n_columns} column(s)",
+                    c + 1
+                ));
+            }
+            if let Some(&(_, other)) = used[..i].iter().find(|(c2, _)| *c2 == c) {
+                return Err(format!(
+                    "column {} is used both as {other} and as {role}",
+                    c + 1
+                ));
+            }
+        }
+        if let Some(UncertaintyColumn {
+            kind: UncertaintyKind::Absolute(k),
+            ..
+        }) = self.uncertainty
+        {
+            if !same_family(k, self.quantity.kind) {
+                return Err(format!(
+                    "the uncertainty is given as {} but the measured quantity is {}",
+                    k.label(),
+                    self.quantity.kind.label()
+                ));
+            }
+        }
+        Ok(())
+    }
+
+    /// One plain sentence per used column, saying what it holds and how it is converted,
+    /// e.g. `column 1 'T (°C)': temperature in °C, converted to K (T/K = t/°C + 273.15)`.
+    pub fn describe(&self, headers: &[String]) -> Vec<String> {
+        let h = |c: usize| headers.get(c).map(String::as_str).unwrap_or("");
+        let mut out = Vec::new();
+        let t = self.temperature;
+        let conv = match t.unit {
+            TemperatureUnit::Kelvin => "used as is".to_string(),
+            TemperatureUnit::Celsius => "converted to K (T/K = t/°C + 273.15)".to_string(),
+            TemperatureUnit::Fahrenheit => {
+                "converted to K (T/K = (t/°F + 459.67) × 5/9)".to_string()
+            }
+        };
+        let assumed = if t.assumed {
+            " — the header has no unit; the scale was inferred from the values, add a unit to the header to be sure"
+        } else {
+            ""
+        };
+        out.push(format!(
+            "column {} '{}': temperature in {}, {conv}{assumed}",
+            t.column + 1,
+            h(t.column),
+            t.unit.symbol()
+        ));
+        let q = self.quantity;
+        let qconv = match q.kind {
+            QuantityKind::K => "ln K = ln(value)".to_string(),
+            QuantityKind::LnK => "used as ln K".to_string(),
+            QuantityKind::Log10K => "ln K = value × ln 10".to_string(),
+            QuantityKind::PK => "ln K = −value × ln 10".to_string(),
+            QuantityKind::DissociationConstant(u) => format!(
+                "association constant K = 1 M / K_d, ln K = −ln(value × {:e} mol/L / 1 mol/L)",
+                u.mol_per_l()
+            ),
+            QuantityKind::DeltaG(e) => {
+                format!("ln K = −value × {} J/mol / (R T)", e.joules_per_mole())
+            }
+        };
+        out.push(format!(
+            "column {} '{}': {}, {qconv}",
+            q.column + 1,
+            h(q.column),
+            q.kind.label()
+        ));
+        if let Some(u) = self.uncertainty {
+            let what = match u.kind {
+                UncertaintyKind::Absolute(k) => format!(
+                    "standard uncertainty of {}, converted to σ(ln K) by first-order propagation",
+                    k.label()
+                ),
+                UncertaintyKind::RelativePercent => {
+                    "relative standard uncertainty in % of the value, converted to σ(ln K) by first-order propagation".to_string()
+                }
+            };
+            out.push(format!("column {} '{}': {what}", u.column + 1, h(u.column)));
+        }
+        if let Some(s) = self.series {
+            out.push(format!(
+                "column {} '{}': data set name (one data set per distinct name)",
+                s + 1,
+                h(s)
+            ));
+        }
+        if let Some(n) = self.note {
+            out.push(format!("column {} '{}': free-text note", n + 1, h(n)));
+        }
+        for &c in &self.ignored {
+            out.push(format!("column {} '{}': not used", c + 1, h(c)));
+        }
+        out
+    }
+}
+
+/// True when two quantity kinds are the same quantity (units may differ for K_d and ΔG°).
+pub(crate) fn same_family(a: QuantityKind, b: QuantityKind) -> bool {
+    std::mem::discriminant(&a) == std::mem::discriminant(&b)
+}
+
+/// The converted values of one accepted row.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub(crate) struct Converted {
+    pub t_k: f64,
+    pub ln_k: f64,
+    pub sigma_ln_k: Option<f64>,
+}
+
+/// Parses one number cell. `comma_decimal` lets a comma stand for the decimal point.
+/// Leading and trailing spaces, a leading '+', and the Unicode minus sign are accepted.
+pub(crate) fn parse_number(cell: &str, comma_decimal: bool) -> Result<f64, RowProblem> {
+    if let Ok(v) = cell.parse::<f64>() {
+        return finite(v);
+    }
+    let s = cell.trim_matches(|c: char| c.is_whitespace());
+    if s.is_empty() {
+        return Err(RowProblem::Empty);
+    }
+    if s.len() > 64 {
+        return Err(RowProblem::NotANumber);
+    }
+    let mut buf = [0u8; 64];
+    let mut n = 0;
+    for ch in s.chars() {
+        let b = match ch {
+            '\u{2212}' | '\u{2013}' => b'-',
+            ',' if comma_decimal => b'.',
+            c if c.is_ascii() => c as u8,
+            _ => return Err(RowProblem::NotANumber),
+        };
+        buf[n] = b;
+        n += 1;
+    }
+    let t = std::str::from_utf8(&buf[..n]).map_err(|_| RowProblem::NotANumber)?;
+    match t.parse::<f64>() {
+        Ok(v) => finite(v),
+        Err(_) => Err(RowProblem::NotANumber),
+    }
+}
+
+fn finite(v: f64) -> Result<f64, RowProblem> {
+    if v.is_finite() {
+        Ok(v)
+    } else {
+        Err(RowProblem::NotFinite)
+    }
+}
+
+/// Factor turning a value of kind `from` into the units of kind `to` (same family).
+fn unit_factor(from: QuantityKind, to: QuantityKind) -> f64 {
+    match (from, to) {
+        (QuantityKind::DissociationConstant(a), QuantityKind::DissociationConstant(b)) => {
+            a.mol_per_l() / b.mol_per_l()
+        }
+        (QuantityKind::DeltaG(a), QuantityKind::DeltaG(b)) => {
+            a.joules_per_mole() / b.joules_per_mole()
+        }
+        _ => 1.0,
+    }
+}
+
+/// Converts one row. `cell(i)` returns the text of 0-based column `i`. On failure, returns
+/// the 0-based column at fault and the problem.
+pub(crate) fn convert_cells<'a>(
+    mapping: &ColumnMapping,
+    comma_decimal: bool,
+    cell: impl Fn(usize) -> &'a str,
+) -> Result<Converted, (usize, RowProblem)> {
+    let tc = mapping.temperature.column;
+    let t_raw = parse_number(cell(tc), comma_decimal).map_err(|p| (tc, p))?;
+    let t_k = mapping.temperature.unit.to_kelvin(t_raw);
+    if !t_k.is_finite() {
+        return Err((tc, RowProblem::NotFinite));
+    }
+    if t_k <= 0.0 {
+        return Err((tc, RowProblem::BelowAbsoluteZero { kelvin: t_k }));
+    }
+    let qc = mapping.quantity.column;
+    let kind = mapping.quantity.kind;
+    let q = parse_number(cell(qc), comma_decimal).map_err(|p| (qc, p))?;
+    let ln_k = kind.to_ln_k(q, t_k).map_err(|e| (qc, fit_problem(e)))?;
+    let sigma_ln_k = match mapping.uncertainty {
+        None => None,
+        Some(u) => {
+            let text = cell(u.column);
+            if text.trim().is_empty() {
+                None
+            } else {
+                let s = parse_number(text, comma_decimal).map_err(|p| (u.column, p))?;
+                if s <= 0.0 {
+                    return Err((u.column, RowProblem::NonPositiveSigma));
+                }
+                let sigma_q = match u.kind {
+                    UncertaintyKind::Absolute(k) => s * unit_factor(k, kind),
+                    // Relative to the value as written: for K and K_d this gives
+                    // σ(ln K) = s/100 exactly; for logarithmic kinds it is the rarely used
+                    // "percent of the logarithm", taken literally.
+                    UncertaintyKind::RelativePercent => q.abs() * s / 100.0,
+                };
+                let v = kind
+                    .sigma_to_ln_k(q, sigma_q, t_k)
+                    .map_err(|e| (u.column, fit_problem(e)))?;
+                Some(v)
+            }
+        }
+    };
+    Ok(Converted {
+        t_k,
+        ln_k,
+        sigma_ln_k,
+    })
+}
+
+fn fit_problem(e: isochore_fit::Error) -> RowProblem {
+    match e {
+        isochore_fit::Error::NonPositiveConstant { .. } => RowProblem::NonPositiveConstant,
+        isochore_fit::Error::NonPositiveSigma { .. } => RowProblem::NonPositiveSigma,
+        isochore_fit::Error::NonPositiveTemperature { kelvin, .. } => {
+            RowProblem::BelowAbsoluteZero { kelvin }
+        }
+        isochore_fit::Error::NonFinite { what, .. } if what == "measured value" => {
+            RowProblem::NotFinite
+        }
+        _ => RowProblem::OutOfRange,
+    }
+}

@@ -1,0 +1,540 @@
+//! Bytes to text, and text to records: decoding (UTF-8 with or without byte-order mark,
+//! UTF-16 with a byte-order mark, latin-1 for bytes that are not UTF-8), delimiter
+//! detection, and a record reader that splits lines into cells while counting physical
+//! lines (blank and `#` comment lines are skipped but counted; quoted cells may hold the
+//! delimiter, doubled quotes and line breaks).
+//!
+//! Cells are kept as byte ranges into the decoded text, so reading a row allocates nothing.
+
+use crate::error::Error;
+use memchr::memchr;
+
+/// How cells are separated.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize, serde::Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Delimiter {
+    /// `,`
+    Comma,
+    /// `;` (common where the decimal mark is a comma)
+    Semicolon,
+    /// A tab (text copied from a spreadsheet).
+    Tab,
+    /// Runs of spaces and tabs (instrument text output).
+    Whitespace,
+    /// `|`
+    Pipe,
+}
+
+impl Delimiter {
+    /// The separating byte, or `None` for runs of whitespace.
+    pub fn byte(self) -> Option<u8> {
+        match self {
+            Delimiter::Comma => Some(b','),
+            Delimiter::Semicolon => Some(b';'),
+            Delimiter::Tab => Some(b'\t'),
+            Delimiter::Pipe => Some(b'|'),
+            Delimiter::Whitespace => None,
+        }
+    }
+
+    /// A word for people: "comma", "semicolon", "tab", "whitespace", "pipe".
+    pub fn name(self) -> &'static str {
+        match self {
+            Delimiter::Comma => "comma",
+            Delimiter::Semicolon => "semicolon",
+            Delimiter::Tab => "tab",
+            Delimiter::Whitespace => "whitespace",
+            Delimiter::Pipe => "pipe",
+        }
+    }
+}
+
+/// Decodes file bytes. Returns the text and the byte offset where content starts (after a
+/// UTF-8 byte-order mark). Valid UTF-8 is taken over without copying.
+pub(crate) fn decode(bytes: Vec<u8>) -> (String, usize) {
+    if bytes.len() >= 2 && (bytes[..2] == [0xFF, 0xFE] || bytes[..2] == [0xFE, 0xFF]) {
+        let le = bytes[0] == 0xFF;
+        let units = bytes[2..].chunks_exact(2).map(|c| {
+            if le {
+                u16::from_le_bytes([c[0], c[1]])
+            } else {
+                u16::from_be_bytes([c[0], c[1]])
+            }
+        });
+        let text: String = char::decode_utf16(units)
+            .map(|r| r.unwrap_or(char::REPLACEMENT_CHARACTER))
+            .collect();
+        return (text, 0);
+    }
+    let start = if bytes.starts_with(&[0xEF, 0xBB, 0xBF]) {
+        3
+    } else {
+        0
+    };
+    match String::from_utf8(bytes) {
+        Ok(s) => (s, start),
+        Err(e) => {
+            // Not UTF-8: keep the valid UTF-8 pieces and read every other byte as latin-1
+            // (so a lone 0xB0 is a degree sign, 0xB5 a micro sign).
+            let bytes = e.into_bytes();
+            let mut s = String::with_capacity(bytes.len() + bytes.len() / 8);
+            for chunk in bytes[start..].utf8_chunks() {
+                s.push_str(chunk.valid());
+                s.extend(chunk.invalid().iter().map(|&b| b as char));
+            }
+            (s, 0)
+        }
+    }
+}
+
+/// Finds the first NUL character and returns its 1-based line and character position.
+pub(crate) fn find_nul(text: &str, start: usize) -> Option<(usize, usize)> {
+    let bytes = text.as_bytes();
+    let at = start + memchr(0, &bytes[start..])?;
+    let before = &text[start..at];
+    let line = 1 + memchr::memchr_iter(b'\n', before.as_bytes()).count();
+    let line_start = before.rfind('\n').map(|i| i + 1).unwrap_or(0);
+    let character = 1 + before[line_start..].chars().count();
+    Some((line, character))
+}
+
+/// A cell: byte range into the text, and whether it was quoted with doubled quotes inside.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(crate) struct Span {
+    pub start: u32,
+    pub end: u32,
+    pub escaped: bool,
+}
+
+impl Span {
+    /// The cell text as typed (inside quotes; doubled quotes still doubled).
+    #[inline]
+    pub fn raw<'a>(&self, text: &'a str) -> &'a str {
+        text.get(self.start as usize..self.end as usize)
+            .unwrap_or("")
+    }
+
+    /// The cell text with doubled quotes undone.
+    pub fn unescaped(&self, text: &str) -> String {
+        let r = self.raw(text);
+        if self.escaped {
+            r.replace("\"\"", "\"")
+        } else {
+            r.to_string()
+        }
+    }
+}
+
+/// One record (a data or header row): physical line of its start and its byte range.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(crate) struct Record {
+    pub line: usize,
+    pub start: u32,
+    pub end: u32,
+}
+
+/// Reads records one by one, skipping blank and comment lines.
+pub(crate) struct Reader<'a> {
+    text: &'a str,
+    pos: usize,
+    /// Physical line number of the line at `pos`, minus one.
+    line: usize,
+    delim: Delimiter,
+    max_line: usize,
+    max_columns: usize,
+    file: &'a str,
+    /// Cells of the last record.
+    pub spans: Vec<Span>,
+}
+
+impl<'a> Reader<'a> {
+    pub fn new(
+        text: &'a str,
+        start: usize,
+        delim: Delimiter,
+        max_line: usize,
+        max_columns: usize,
+        file: &'a str,
+    ) -> Self {
+        Reader {
+            text,
+            pos: start,
+            line: 0,
+            delim,
+            max_line,
+            max_columns,
+            file,
+            spans: Vec::with_capacity(8),
+        }
+    }
+
+    /// Byte offset of the next unread line.
+    pub fn position(&self) -> usize {
+        self.pos
+    }
+
+    fn too_many(&self, line: usize, found: usize) -> Error {
+        Error::TooManyColumns {
+            file: self.file.to_string(),
+            line,
+            found,
+            limit: self.max_columns,
+        }
+    }
+
+    /// The next record with its cells in `self.spans`, or `None` at the end.
+    pub fn next_record(&mut self) -> Result<Option<Record>, Error> {
+        let bytes = self.text.as_bytes();
+        let len = bytes.len();
+        while self.pos < len {
+            self.line += 1;
+            let line_no = self.line;
+            let start = self.pos;
+            let nl = memchr(b'\n', &bytes[start..])
+                .map(|i| start + i)
+                .unwrap_or(len);
+            let mut end = nl;
+            if end > start && bytes[end - 1] == b'\r' {
+                end -= 1;
+            }
+            if end - start > self.max_line {
+                return Err(Error::LineTooLong {
+                    file: self.file.to_string(),
+                    line: line_no,
+                    bytes: end - start,
+                    limit: self.max_line,
+                });
+            }
+            self.pos = nl + 1;
+            let line = &bytes[start..end];
+            // Blank and comment lines.
+            let first = line.iter().position(|b| !matches!(b, b' ' | b'\t'));
+            match first {
+                None => continue,
+                Some(i) if line[i] == b'#' => continue,
+                _ => {}
+            }
+            self.spans.clear();
+            let rec_end = match self.delim.byte() {
+                Some(d) => {
+                    if memchr(b'"', line).is_none() {
+                        self.split_plain(start, end, d, line_no)?;
+                        end
+                    } else {
+                        self.split_quoted(start, d, line_no)?
+                    }
+                }
+                None => {
+                    self.split_whitespace(start, end, line_no)?;
+                    end
+                }
+            };
+            // A row of empty cells (",,,") counts as blank.
+            if self
+                .spans
+                .iter()
+                .all(|s| s.raw(self.text).trim().is_empty())
+            {
+                continue;
+            }
+            return Ok(Some(Record {
+                line: line_no,
+                start: start as u32,
+                end: rec_end as u32,
+            }));
+        }
+        Ok(None)
+    }
+
+    #[inline]
+    fn split_plain(&mut self, start: usize, end: usize, d: u8, line: usize) -> Result<(), Error> {
+        let bytes = &self.text.as_bytes()[start..end];
+        let mut cell = 0usize;
+        for (i, &b) in bytes.iter().enumerate() {
+            if b == d {
+                self.spans.push(Span {
+                    start: (start + cell) as u32,
+                    end: (start + i) as u32,
+                    escaped: false,
+                });
+                cell = i + 1;
+                if self.spans.len() > self.max_columns {
+                    return Err(self.too_many(line, self.spans.len()));
+                }
+            }
+        }
+        self.spans.push(Span {
+            start: (start + cell) as u32,
+            end: end as u32,
+            escaped: false,
+        });
+        if self.spans.len() > self.max_columns {
+            return Err(self.too_many(line, self.spans.len()));
+        }
+        Ok(())
+    }
+
+    /// Splits a record that contains quotes; it may run over several physical lines.
+    /// Returns the end of the record (before its line break).
+    fn split_quoted(&mut self, start: usize, d: u8, line: usize) -> Result<usize, Error> {
+        let bytes = self.text.as_bytes();
+        let len = bytes.len();
+        let mut i = start;
+        loop {
+            // Start of a cell: optional spaces, then maybe a quote.
+            let mut j = i;
+            while j < len && bytes[j] == b' ' {
+                j += 1;
+            }
+            if j < len && bytes[j] == b'"' {
+                let content = j + 1;
+                let mut k = content;
+                let mut escaped = false;
+                loop {
+                    if k >= len {
+                        break;
+                    }
+                    if bytes[k] == b'"' {
+                        if k + 1 < len && bytes[k + 1] == b'"' {
+                            escaped = true;
+                            k += 2;
+                            continue;
+                        }
+                        break;
+                    }
+                    if bytes[k] == b'\n' {
+                        self.line += 1;
+                    }
+                    k += 1;
+                }
+                if k - start > self.max_line {
+                    return Err(Error::LineTooLong {
+                        file: self.file.to_string(),
+                        line,
+                        bytes: k - start,
+                        limit: self.max_line,
+                    });
+                }
+                self.spans.push(Span {
+                    start: content as u32,
+                    end: k.min(len) as u32,
+                    escaped,
+                });
+                // Skip the closing quote and anything up to the delimiter or line end.
+                let mut m = (k + 1).min(len);
+                while m < len && bytes[m] != d && bytes[m] != b'\n' {
+                    m += 1;
+                }
+                if self.spans.len() > self.max_columns {
+                    return Err(self.too_many(line, self.spans.len()));
+                }
+                if m < len && bytes[m] == d {
+                    i = m + 1;
+                    continue;
+                }
+                let mut rec_end = m;
+                if rec_end > start && rec_end <= len && bytes[rec_end - 1] == b'\r' {
+                    rec_end -= 1;
+                }
+                self.pos = m + 1;
+                return Ok(rec_end.max(start));
+            }
+            // Unquoted cell up to the delimiter or line end.
+            let mut k = i;
+            while k < len && bytes[k] != d && bytes[k] != b'\n' {
+                k += 1;
+            }
+            let mut cend = k;
+            if (k >= len || bytes[k] == b'\n') && cend > i && bytes[cend - 1] == b'\r' {
+                cend -= 1;
+            }
+            self.spans.push(Span {
+                start: i as u32,
+                end: cend as u32,
+                escaped: false,
+            });
+            if self.spans.len() > self.max_columns {
+                return Err(self.too_many(line, self.spans.len()));
+            }
+            if k < len && bytes[k] == d {
+                i = k + 1;
+                continue;
+            }
+            self.pos = k + 1;
+            return Ok(cend);
+        }
+    }
+
+    fn split_whitespace(&mut self, start: usize, end: usize, line: usize) -> Result<(), Error> {
+        let bytes = &self.text.as_bytes()[start..end];
+        let mut i = 0;
+        while i < bytes.len() {
+            while i < bytes.len() && matches!(bytes[i], b' ' | b'\t') {
+                i += 1;
+            }
+            if i >= bytes.len() {
+                break;
+            }
+            let s = i;
+            while i < bytes.len() && !matches!(bytes[i], b' ' | b'\t') {
+                i += 1;
+            }
+            self.spans.push(Span {
+                start: (start + s) as u32,
+                end: (start + i) as u32,
+                escaped: false,
+            });
+            if self.spans.len() > self.max_columns {
+                return Err(self.too_many(line, self.spans.len()));
+            }
+        }
+        Ok(())
+    }
+}
+
+/// Splits a whitespace-separated header, keeping units with their names: a token that
+/// starts with '(' or '[' or '/', or follows a token ending in '/', joins the previous one.
+pub(crate) fn merge_whitespace_header(tokens: Vec<String>) -> Vec<String> {
+    let mut out: Vec<String> = Vec::with_capacity(tokens.len());
+    for t in tokens {
+        let join = match out.last() {
+            Some(prev) => {
+                t.starts_with(['(', '[', '/'])
+                    || prev.ends_with('/')
+                    || (prev.contains(['(', '[']) && !prev.contains([')', ']']))
+            }
+            None => false,
+        };
+        if join {
+            if let Some(prev) = out.last_mut() {
+                prev.push(' ');
+                prev.push_str(&t);
+            }
+        } else {
+            out.push(t);
+        }
+    }
+    out
+}
+
+/// Guesses the delimiter from the first lines that are neither blank nor comments.
+pub(crate) fn detect_delimiter(text: &str, start: usize) -> Delimiter {
+    let mut lines: Vec<&str> = Vec::new();
+    for l in text[start..].split('\n').take(400) {
+        let t = l.trim();
+        if t.is_empty() || t.starts_with('#') {
+            continue;
+        }
+        lines.push(if l.len() > 65_536 {
+            &l[..floor_char(l, 65_536)]
+        } else {
+            l
+        });
+        if lines.len() >= 40 {
+            break;
+        }
+    }
+    let Some(header) = lines.first() else {
+        return Delimiter::Comma;
+    };
+    let count = |l: &str, d: u8| -> usize {
+        let mut n = 0;
+        let mut quoted = false;
+        for &b in l.as_bytes() {
+            if b == b'"' {
+                quoted = !quoted;
+            } else if b == d && !quoted {
+                n += 1;
+            }
+        }
+        n
+    };
+    for cand in [
+        Delimiter::Tab,
+        Delimiter::Semicolon,
+        Delimiter::Comma,
+        Delimiter::Pipe,
+    ] {
+        let Some(d) = cand.byte() else { continue };
+        let h = count(header, d);
+        if h == 0 {
+            continue;
+        }
+        let data = &lines[1..];
+        let agree = data.iter().filter(|l| count(l, d) >= h).count();
+        if data.is_empty() || agree * 5 >= data.len() * 4 {
+            return cand;
+        }
+    }
+    let ws = |l: &str| l.split_whitespace().count();
+    if ws(header) >= 2 && lines[1..].iter().all(|l| ws(l) >= 2) {
+        return Delimiter::Whitespace;
+    }
+    Delimiter::Comma
+}
+
+/// Whether the first data lines show numbers written with a decimal comma.
+pub(crate) fn sample_has_decimal_comma(text: &str, start: usize, d: Delimiter) -> bool {
+    if d == Delimiter::Comma {
+        return false;
+    }
+    let b = text.as_bytes();
+    let end = floor_char(text, (start + 65_536).min(text.len()));
+    let s = &b[start..end];
+    s.windows(3)
+        .any(|w| w[0].is_ascii_digit() && w[1] == b',' && w[2].is_ascii_digit())
+}
+
+fn floor_char(s: &str, mut i: usize) -> usize {
+    while i > 0 && !s.is_char_boundary(i) {
+        i -= 1;
+    }
+    i
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn cells(text: &str, d: Delimiter) -> Vec<Vec<String>> {
+        let mut r = Reader::new(text, 0, d, 1 << 16, 100, "t");
+        let mut out = Vec::new();
+        while let Some(_rec) = r.next_record().unwrap() {
+            out.push(r.spans.iter().map(|s| s.unescaped(text)).collect());
+        }
+        out
+    }
+
+    #[test]
+    fn quotes_crlf_comments() {
+        let t = "# c\r\na,\"b,1\"\r\n\r\n\"x \"\"y\"\"\",2\r\n";
+        let c = cells(t, Delimiter::Comma);
+        assert_eq!(c, vec![vec!["a", "b,1"], vec!["x \"y\"", "2"]]);
+    }
+
+    #[test]
+    fn multiline_quoted_cell_counts_lines() {
+        let t = "h1,h2\n\"two\nlines\",1\nz,2\n";
+        let mut r = Reader::new(t, 0, Delimiter::Comma, 1 << 16, 100, "t");
+        let a = r.next_record().unwrap().unwrap();
+        let b = r.next_record().unwrap().unwrap();
+        let c = r.next_record().unwrap().unwrap();
+        assert_eq!((a.line, b.line, c.line), (1, 2, 4));
+    }
+
+    #[test]
+    fn delimiter_detection() {
+        assert_eq!(detect_delimiter("T;K\n1,5;2,5\n", 0), Delimiter::Semicolon);
+        assert_eq!(detect_delimiter("T\tK\n1\t2\n", 0), Delimiter::Tab);
+        assert_eq!(detect_delimiter("T,K\n1,2\n", 0), Delimiter::Comma);
+        assert_eq!(detect_delimiter("T  K\n1   2\n", 0), Delimiter::Whitespace);
+    }
+
+    #[test]
+    fn latin1_fallback() {
+        let (s, _) = decode(b"T (\xB0C)".to_vec());
+        assert_eq!(s, "T (°C)");
+        let (s, start) = decode(b"\xEF\xBB\xBFT".to_vec());
+        assert_eq!(&s[start..], "T");
+    }
+}
