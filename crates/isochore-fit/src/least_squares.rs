@@ -107,6 +107,31 @@ fn dot2(start: f64, x: &[f64], c: &[f64]) -> f64 {
     p + s
 }
 
+/// The √w-scaled, column-equilibrated design X̃ = W^{1/2} X D⁻¹, read on the fly from the
+/// caller's design so no second n×p copy is kept. With D a power of two the entries are
+/// the same bits every time they are formed.
+struct Scaled<'a> {
+    design: &'a [f64],
+    n: usize,
+    p: usize,
+    sqrt_w: &'a [f64],
+    inv_scale: &'a [f64],
+}
+
+impl Scaled<'_> {
+    #[inline]
+    fn at(&self, i: usize, j: usize) -> f64 {
+        self.design[j * self.n + i] * self.sqrt_w[i] * self.inv_scale[j]
+    }
+
+    #[inline]
+    fn row_into(&self, i: usize, row: &mut [f64]) {
+        for (j, v) in row.iter_mut().enumerate().take(self.p) {
+            *v = self.at(i, j);
+        }
+    }
+}
+
 /// Solves `min ‖b − A x‖` from the QR factors of A and refines the solution by Björck's
 /// iterative refinement of the augmented system
 /// ```text
@@ -116,47 +141,38 @@ fn dot2(start: f64, x: &[f64], c: &[f64]) -> f64 {
 /// with the residuals f = b − r − Ax and g = −Aᵀr computed in twice the working precision.
 /// Unlike refinement of x alone, this also converges for large-residual problems (NIST's
 /// Wampler4 and Wampler5), where the error of plain QR grows with κ(A)².
+///
+/// Returns the solution and the refined residual vector r = b − Ax.
 fn refined_solution(
     qr: &nalgebra::linalg::QR<f64, nalgebra::Dyn, nalgebra::Dyn>,
     r: &DMatrix<f64>,
-    a: &DMatrix<f64>,
+    a: &Scaled<'_>,
     b: &[f64],
-) -> Option<DVector<f64>> {
-    let (n, p) = a.shape();
-    let mut qtb = DVector::from_column_slice(b);
-    qr.q_tr_mul(&mut qtb);
-    let mut x = r.solve_upper_triangular(&qtb.rows(0, p).into_owned())?;
+) -> Option<(DVector<f64>, Vec<f64>)> {
+    let (n, p) = (a.n, a.p);
+    let mut work = DVector::from_column_slice(b);
+    qr.q_tr_mul(&mut work);
+    let mut x = r.solve_upper_triangular(&work.rows(0, p).into_owned())?;
     if x.iter().any(|v| !v.is_finite()) {
         return None;
     }
     let mut res = vec![0.0; n];
     let mut row = vec![0.0; p];
-    let mut neg_x = vec![0.0; p];
+    let mut neg_x: Vec<f64> = x.iter().map(|v| -v).collect();
     // r₀ = b − A x₀, carefully.
-    for (j, v) in neg_x.iter_mut().enumerate() {
-        *v = -x[j];
-    }
     for (i, ri) in res.iter_mut().enumerate() {
-        for (j, v) in row.iter_mut().enumerate() {
-            *v = a[(i, j)];
-        }
+        a.row_into(i, &mut row);
         *ri = dot2(b[i], &row, &neg_x);
     }
-    let mut f = DVector::zeros(n);
-    let mut previous = f64::INFINITY;
+    let mut previous = x.amax();
     for _ in 0..MAX_REFINEMENT_STEPS {
-        for (j, v) in neg_x.iter_mut().enumerate() {
-            *v = -x[j];
-        }
         // f = b − r − A x and g = −Aᵀ r, both in twice the working precision.
         let mut g_hi = vec![0.0; p];
         let mut g_lo = vec![0.0; p];
         for i in 0..n {
-            for (j, v) in row.iter_mut().enumerate() {
-                *v = a[(i, j)];
-            }
+            a.row_into(i, &mut row);
             let (b_minus_r, e0) = two_sum(b[i], -res[i]);
-            f[i] = dot2(b_minus_r, &row, &neg_x) + e0;
+            work[i] = dot2(b_minus_r, &row, &neg_x) + e0;
             for j in 0..p {
                 let (h, e1) = two_prod(-row[j], res[i]);
                 let (q, e2) = two_sum(g_hi[j], h);
@@ -167,24 +183,35 @@ fn refined_solution(
         let g = DVector::from_iterator(p, g_hi.iter().zip(&g_lo).map(|(h, l)| h + l));
         // Correction: Rᵀ d₁ = g, R δx = (Qᵀf)₁ − d₁, δr = f − A δx.
         let d1 = r.tr_solve_upper_triangular(&g)?;
-        let mut qtf = f.clone();
-        qr.q_tr_mul(&mut qtf);
-        let dx = r.solve_upper_triangular(&(qtf.rows(0, p) - &d1))?;
+        // δr needs f itself: apply Qᵀ to a copy of its top part's source.
+        let f = work.clone();
+        qr.q_tr_mul(&mut work);
+        let dx = r.solve_upper_triangular(&(work.rows(0, p) - &d1))?;
         let size = dx.amax();
         if !size.is_finite() || size >= previous {
             break;
         }
         x += &dx;
-        let dr = &f - a * &dx;
-        for (ri, d) in res.iter_mut().zip(dr.iter()) {
-            *ri += d;
+        for (j, v) in neg_x.iter_mut().enumerate() {
+            *v = -x[j];
         }
-        previous = 0.5 * size;
-        if size <= f64::EPSILON * x.amax() {
+        for (i, ri) in res.iter_mut().enumerate() {
+            a.row_into(i, &mut row);
+            let mut adx = 0.0;
+            for j in 0..p {
+                adx += row[j] * dx[j];
+            }
+            *ri += f[i] - adx;
+        }
+        // Stop when the next correction, at the observed rate of convergence, would be
+        // below rounding level.
+        let rate = size / previous;
+        previous = size;
+        if size * rate <= f64::EPSILON * x.amax() {
             break;
         }
     }
-    Some(x)
+    Some((x, res))
 }
 
 /// Solves a weighted linear least-squares problem.
@@ -193,8 +220,8 @@ fn refined_solution(
 /// ```text
 /// β̂ = argmin Σᵢ wᵢ (yᵢ − Σⱼ Xᵢⱼ βⱼ)²,   (XᵀWX)⁻¹ = D⁻¹ R⁻¹ R⁻ᵀ D⁻¹,   hᵢ = ‖R⁻ᵀ x̃ᵢ‖²
 /// ```
-/// where W = diag(w), D = diag of the column norms of W^{1/2}X, and `W^{1/2} X D⁻¹ = QR`.
-/// Unit weights are used when `weights` is `None`.
+/// where W = diag(w), D = diag of the column norms of W^{1/2}X (rounded to powers of two),
+/// and `W^{1/2} X D⁻¹ = QR`. Unit weights are used when `weights` is `None`.
 ///
 /// # Errors
 /// [`Error::DimensionMismatch`] when `y` or `weights` do not match the design rows;
@@ -215,6 +242,29 @@ pub fn solve(
     design: &DMatrix<f64>,
     y: &[f64],
     weights: Option<&[f64]>,
+) -> Result<LinearFit, Error> {
+    solve_impl(design, y, weights, true)
+}
+
+/// The weighted residual sum of squares of the least-squares solution only: the same
+/// factorisation and refinement as [`solve`], without covariance, leverages or per-point
+/// vectors (for model comparisons on large data).
+///
+/// # Errors
+/// As [`solve`].
+pub fn weighted_rss(
+    design: &DMatrix<f64>,
+    y: &[f64],
+    weights: Option<&[f64]>,
+) -> Result<f64, Error> {
+    solve_impl(design, y, weights, false).map(|f| f.rss)
+}
+
+fn solve_impl(
+    design: &DMatrix<f64>,
+    y: &[f64],
+    weights: Option<&[f64]>,
+    full: bool,
 ) -> Result<LinearFit, Error> {
     let (n, p) = design.shape();
     if y.len() != n {
@@ -284,9 +334,10 @@ pub fn solve(
 
     // Weighted, column-equilibrated design X̃ = W^{1/2} X D⁻¹. D holds powers of two
     // (the nearest to each column's norm), so the scaling itself rounds nothing.
+    let raw = design.as_slice();
     let mut scale = vec![0.0; p];
     for (j, d) in scale.iter_mut().enumerate() {
-        let col = design.column(j);
+        let col = &raw[j * n..(j + 1) * n];
         let big = col
             .iter()
             .zip(&sqrt_w)
@@ -305,8 +356,21 @@ pub fn solve(
                 .sqrt();
         *d = power_of_two_near(norm);
     }
-    let xs = DMatrix::from_fn(n, p, |i, j| design[(i, j)] * sqrt_w[i] / scale[j]);
-    if xs.iter().any(|v| !v.is_finite()) {
+    let inv_scale: Vec<f64> = scale.iter().map(|d| 1.0 / d).collect();
+    let xs = Scaled {
+        design: raw,
+        n,
+        p,
+        sqrt_w: &sqrt_w,
+        inv_scale: &inv_scale,
+    };
+    let mut a = DMatrix::zeros(n, p);
+    for j in 0..p {
+        for (i, v) in a.column_mut(j).iter_mut().enumerate() {
+            *v = xs.at(i, j);
+        }
+    }
+    if a.iter().any(|v| !v.is_finite()) {
         return Err(Error::NonFinite {
             what: "design matrix entry",
             index: None,
@@ -314,8 +378,7 @@ pub fn solve(
     }
     let ys: Vec<f64> = y.iter().zip(&sqrt_w).map(|(v, s)| v * s).collect();
 
-    // Keep X̃ for the refinement and the leverages; factorise a copy.
-    let qr = xs.clone().qr();
+    let qr = a.qr();
     let r = qr.r();
     let max_diag = (0..p).map(|j| r[(j, j)].abs()).fold(0.0, f64::max);
     for j in 0..p {
@@ -324,8 +387,30 @@ pub fn solve(
         }
     }
     let r = r.view((0, 0), (p, p)).into_owned();
-    let beta_s =
+    let (beta_s, res) =
         refined_solution(&qr, &r, &xs, &ys).ok_or(Error::RankDeficient { column: p - 1 })?;
+    drop(qr);
+    let coefficients: Vec<f64> = (0..p).map(|j| beta_s[j] / scale[j]).collect();
+    let rss_scaled: f64 = res.iter().map(|v| v * v).sum();
+    drop(res);
+    if !rss_scaled.is_finite() || coefficients.iter().any(|c| !c.is_finite()) {
+        return Err(Error::NonFinite {
+            what: "fit result",
+            index: None,
+        });
+    }
+    if !full {
+        return Ok(LinearFit {
+            coefficients,
+            unscaled_covariance: DMatrix::zeros(p, p),
+            fitted: Vec::new(),
+            residuals: Vec::new(),
+            leverages: Vec::new(),
+            rss: rss_scaled,
+            n,
+            p,
+        });
+    }
 
     // R⁻¹ (upper triangular) for the covariance and the leverages.
     let r_inv = r
@@ -336,42 +421,35 @@ pub fn solve(
     let mut unscaled_covariance = DMatrix::zeros(p, p);
     for a in 0..p {
         for b in 0..p {
-            unscaled_covariance[(a, b)] = cov_s[(a, b)] / (scale[a] * scale[b]);
+            unscaled_covariance[(a, b)] = cov_s[(a, b)] * inv_scale[a] * inv_scale[b];
         }
     }
-    let coefficients: Vec<f64> = (0..p).map(|j| beta_s[j] / scale[j]).collect();
 
     let mut fitted = Vec::with_capacity(n);
     let mut residuals = Vec::with_capacity(n);
     let mut leverages = Vec::with_capacity(n);
-    let mut rss = 0.0;
     let neg_beta: Vec<f64> = coefficients.iter().map(|c| -c).collect();
     let mut row = vec![0.0; p];
+    let mut row_s = vec![0.0; p];
+    let r_inv_cols: Vec<Vec<f64>> = (0..p)
+        .map(|k| (0..=k).map(|j| r_inv[(j, k)]).collect())
+        .collect();
     for i in 0..n {
         for (j, v) in row.iter_mut().enumerate() {
-            *v = design[(i, j)];
+            *v = raw[j * n + i];
         }
         // e = y − xᵀβ in twice the working precision, then rounded once.
         let e = dot2(y[i], &row, &neg_beta);
-        rss += (sqrt_w[i] * e).powi(2);
         fitted.push(y[i] - e);
         residuals.push(e);
-        // a = R⁻ᵀ x̃ᵢ, with R⁻¹ upper triangular: a_k = Σ_{j ≤ k} R⁻¹[j,k] x̃ᵢⱼ.
+        // hᵢ = ‖R⁻ᵀ x̃ᵢ‖², with R⁻¹ upper triangular: (R⁻ᵀx̃)_k = Σ_{j ≤ k} R⁻¹[j,k] x̃ᵢⱼ.
+        xs.row_into(i, &mut row_s);
         let mut h = 0.0;
-        for k in 0..p {
-            let mut s = 0.0;
-            for j in 0..=k {
-                s += r_inv[(j, k)] * xs[(i, j)];
-            }
+        for col in &r_inv_cols {
+            let s: f64 = col.iter().zip(&row_s).map(|(c, x)| c * x).sum();
             h += s * s;
         }
         leverages.push(h.min(1.0));
-    }
-    if !rss.is_finite() || coefficients.iter().any(|c| !c.is_finite()) {
-        return Err(Error::NonFinite {
-            what: "fit result",
-            index: None,
-        });
     }
     Ok(LinearFit {
         coefficients,
@@ -379,7 +457,7 @@ pub fn solve(
         fitted,
         residuals,
         leverages,
-        rss,
+        rss: rss_scaled,
         n,
         p,
     })

@@ -36,6 +36,7 @@
 pub mod derived;
 pub mod diagnostics;
 pub mod error;
+pub mod influence;
 pub mod least_squares;
 pub mod measurement;
 pub mod model;

@@ -7,7 +7,7 @@
 
 use crate::diagnostics::{diagnose_points, PointDiagnostics};
 use crate::error::Error;
-use crate::least_squares::{solve, LinearFit};
+use crate::least_squares::{solve, weighted_rss, LinearFit};
 use crate::measurement::Measurement;
 use crate::model::{FitOptions, Model, SigmaConvention, Weighting};
 use crate::stats::{chi2_upper_tail, f_upper_tail, normal_quantile, t_quantile};
@@ -256,12 +256,19 @@ pub(crate) struct Solved {
     pub(crate) used: Vec<usize>,
 }
 
-/// Validates points and options, and solves one model on the included points.
-pub(crate) fn solve_model(
+/// Internal: validated points ready for a model: which are used, their weights and ln K.
+pub(crate) struct Prepared {
+    pub(crate) used: Vec<usize>,
+    pub(crate) weights: Option<Vec<f64>>,
+    pub(crate) y: Vec<f64>,
+}
+
+/// Validates points and options for `model` and collects the used points and weights.
+pub(crate) fn prepare(
     points: &[Measurement],
     options: &FitOptions,
     model: Model,
-) -> Result<Solved, Error> {
+) -> Result<Prepared, Error> {
     options.validate()?;
     for (i, p) in points.iter().enumerate() {
         p.validate(i)?;
@@ -300,26 +307,62 @@ pub(crate) fn solve_model(
             Some(w)
         }
     };
-    let theta = options.t_ref_k;
-    let design = DMatrix::from_fn(used.len(), p, |r, c| {
-        model.row(points[used[r]].t_k, theta)[c]
-    });
     let y: Vec<f64> = used.iter().map(|&i| points[i].ln_k).collect();
-    let lin = solve(&design, &y, weights.as_deref())?;
-    Ok(Solved { lin, weights, used })
+    Ok(Prepared { used, weights, y })
 }
 
-/// Fit statistics for a solved model.
-pub(crate) fn statistics(solved: &Solved, y: &[f64], convention: SigmaConvention) -> FitStatistics {
-    let lin = &solved.lin;
-    let n = lin.n as f64;
-    let p = lin.p as f64;
-    let dof = lin.dof() as f64;
-    let w = |i: usize| solved.weights.as_ref().map_or(1.0, |w| w[i]);
-    let sum_w: f64 = (0..lin.n).map(w).sum();
-    let mean = (0..lin.n).map(|i| w(i) * y[i]).sum::<f64>() / sum_w;
-    let tss: f64 = (0..lin.n).map(|i| w(i) * (y[i] - mean).powi(2)).sum();
-    let chi2 = lin.rss;
+/// The design matrix of `model` on the used points (each row computed once).
+pub(crate) fn design(
+    points: &[Measurement],
+    used: &[usize],
+    model: Model,
+    theta: f64,
+) -> DMatrix<f64> {
+    let n = used.len();
+    let p = model.n_params();
+    let mut x = DMatrix::zeros(n, p);
+    for (r, &i) in used.iter().enumerate() {
+        let row = model.row(points[i].t_k, theta);
+        for (c, v) in row.iter().take(p).enumerate() {
+            x[(r, c)] = *v;
+        }
+    }
+    x
+}
+
+/// Validates points and options, and solves one model on the included points.
+pub(crate) fn solve_model(
+    points: &[Measurement],
+    options: &FitOptions,
+    model: Model,
+) -> Result<Solved, Error> {
+    let prepared = prepare(points, options, model)?;
+    let x = design(points, &prepared.used, model, options.t_ref_k);
+    let lin = solve(&x, &prepared.y, prepared.weights.as_deref())?;
+    Ok(Solved {
+        lin,
+        weights: prepared.weights,
+        used: prepared.used,
+    })
+}
+
+/// Fit statistics for a model with `p` coefficients and weighted residual sum of squares
+/// `chi2` on the used ln K values `y` with `weights`.
+pub(crate) fn statistics(
+    chi2: f64,
+    p: usize,
+    weights: Option<&[f64]>,
+    y: &[f64],
+    convention: SigmaConvention,
+) -> FitStatistics {
+    let n_used = y.len();
+    let n = n_used as f64;
+    let dof = n - p as f64;
+    let p = p as f64;
+    let w = |i: usize| weights.map_or(1.0, |w| w[i]);
+    let sum_w: f64 = (0..n_used).map(w).sum();
+    let mean = (0..n_used).map(|i| w(i) * y[i]).sum::<f64>() / sum_w;
+    let tss: f64 = (0..n_used).map(|i| w(i) * (y[i] - mean).powi(2)).sum();
     let reduced = chi2 / dof;
     let r2 = if tss > 0.0 {
         1.0 - chi2 / tss
@@ -327,7 +370,7 @@ pub(crate) fn statistics(solved: &Solved, y: &[f64], convention: SigmaConvention
         f64::NAN
     };
     let adj_r2 = 1.0 - (1.0 - r2) * (n - 1.0) / dof;
-    let sum_ln_w: f64 = (0..lin.n).map(|i| w(i).ln()).sum();
+    let sum_ln_w: f64 = (0..n_used).map(|i| w(i).ln()).sum();
     // Gaussian likelihood, σᵢ² = σ²/wᵢ with σ² estimated by RSS/n (floored so exact data
     // give a large finite value rather than infinity).
     let sigma2 = (chi2 / n).max(f64::MIN_POSITIVE);
@@ -341,7 +384,7 @@ pub(crate) fn statistics(solved: &Solved, y: &[f64], convention: SigmaConvention
         None
     };
     let bic = k * n.ln() - 2.0 * log_likelihood;
-    let chi2_p_value = match (convention, solved.weights.is_some()) {
+    let chi2_p_value = match (convention, weights.is_some()) {
         (SigmaConvention::Absolute, true) if dof > 0.0 => chi2_upper_tail(chi2, dof),
         _ => None,
     };
@@ -396,7 +439,13 @@ pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, 
     let p = lin.p;
     let dof = lin.dof();
     let y: Vec<f64> = solved.used.iter().map(|&i| points[i].ln_k).collect();
-    let stats = statistics(&solved, &y, options.convention);
+    let stats = statistics(
+        lin.rss,
+        p,
+        solved.weights.as_deref(),
+        &y,
+        options.convention,
+    );
     let weighted = solved.weights.is_some();
     let mut warnings = Vec::new();
 
@@ -429,7 +478,10 @@ pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, 
             estimate: Estimate::symmetric(lin.coefficients[j], cov[(j, j)].sqrt(), critical_value),
         })
         .collect();
-    let corr_h_s = cov[(0, 1)] / (cov[(0, 0)] * cov[(1, 1)]).sqrt();
+    // The scale s² cancels in a correlation; taking it from (XᵀWX)⁻¹ keeps it defined
+    // when the data are exact (s² = 0).
+    let uc = &lin.unscaled_covariance;
+    let corr_h_s = uc[(0, 1)] / (uc[(0, 0)] * uc[(1, 1)]).sqrt();
 
     // Temperature range and weighted harmonic mean.
     let mut t_min_k = f64::INFINITY;
@@ -478,7 +530,32 @@ pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, 
     out.at_reference = out.thermo_at(options.t_ref_k);
     out.at_harmonic = out.thermo_at(t_harmonic_k);
     out.t_at_k1 = out.temperature_for_k(1.0).ok();
-    out.comparison = compare_models(points, options).ok().flatten();
+    // The comparison needs only the other model's χ² on the same points and weights.
+    out.comparison = if lin.n >= 4 {
+        let other = match model {
+            Model::Linear => Model::ConstantCp,
+            Model::ConstantCp => Model::Linear,
+        };
+        let x = design(points, &solved.used, other, options.t_ref_k);
+        match weighted_rss(&x, &y, solved.weights.as_deref()) {
+            Ok(chi2_other) => {
+                let (chi2_lin, chi2_cp) = match model {
+                    Model::Linear => (lin.rss, chi2_other),
+                    Model::ConstantCp => (chi2_other, lin.rss),
+                };
+                Some(comparison_from(
+                    chi2_lin,
+                    chi2_cp,
+                    solved.weights.as_deref(),
+                    &y,
+                    options.convention,
+                ))
+            }
+            Err(_) => None,
+        }
+    } else {
+        None
+    };
 
     // Cautions in words.
     if dof < FEW_DOF {
@@ -585,26 +662,48 @@ pub fn compare_models(
     if n_used < 4 {
         return Ok(None);
     }
-    let lin = match solve_model(points, options, Model::Linear) {
-        Ok(s) => s,
-        Err(e) => return Err(e),
-    };
-    let cp = match solve_model(points, options, Model::ConstantCp) {
-        Ok(s) => s,
+    let prepared = prepare(points, options, Model::Linear)?;
+    let w = prepared.weights.as_deref();
+    let theta = options.t_ref_k;
+    let x_lin = design(points, &prepared.used, Model::Linear, theta);
+    let chi2_lin = weighted_rss(&x_lin, &prepared.y, w)?;
+    let x_cp = design(points, &prepared.used, Model::ConstantCp, theta);
+    let chi2_cp = match weighted_rss(&x_cp, &prepared.y, w) {
+        Ok(c) => c,
         Err(Error::RankDeficient { .. }) | Err(Error::TooFewPoints { .. }) => return Ok(None),
         Err(e) => return Err(e),
     };
-    let y: Vec<f64> = lin.used.iter().map(|&i| points[i].ln_k).collect();
-    let s_lin = statistics(&lin, &y, options.convention);
-    let s_cp = statistics(&cp, &y, options.convention);
-    let dof_cp = cp.lin.dof() as f64;
+    Ok(Some(comparison_from(
+        chi2_lin,
+        chi2_cp,
+        w,
+        &prepared.y,
+        options.convention,
+    )))
+}
+
+/// The comparison of the linear and ΔCp° models from their χ² on the same points.
+fn comparison_from(
+    chi2_lin: f64,
+    chi2_cp: f64,
+    weights: Option<&[f64]>,
+    y: &[f64],
+    convention: SigmaConvention,
+) -> ModelComparison {
+    let s_lin = statistics(chi2_lin, 2, weights, y, convention);
+    let s_cp = statistics(chi2_cp, 3, weights, y, convention);
+    let dof_cp = y.len() as f64 - 3.0;
     let drop = (s_lin.chi2 - s_cp.chi2).max(0.0);
+    // With χ²_cp = 0 the ΔCp° model is exact: any drop is infinitely significant, and no
+    // drop at all (both models exact) is no evidence.
     let f_statistic = if s_cp.chi2 > 0.0 {
         drop / (s_cp.chi2 / dof_cp)
-    } else {
+    } else if drop > 0.0 {
         f64::INFINITY
+    } else {
+        0.0
     };
-    let f_p_value = f_upper_tail(f_statistic, 1.0, dof_cp).unwrap_or(0.0);
+    let f_p_value = f_upper_tail(f_statistic, 1.0, dof_cp).unwrap_or(1.0);
     let delta_aicc = match (s_cp.aicc, s_lin.aicc) {
         (Some(a), Some(b)) => Some(a - b),
         _ => None,
@@ -632,13 +731,13 @@ pub fn compare_models(
             format_p(f_p_value)
         )
     };
-    Ok(Some(ModelComparison {
+    ModelComparison {
         f_statistic,
         f_p_value,
         delta_aicc,
         preferred,
         verdict,
-    }))
+    }
 }
 
 /// Formats a p-value for people: "p = 0.123", or "p < 0.001".

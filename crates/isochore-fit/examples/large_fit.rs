@@ -1,0 +1,54 @@
+//! A complete analysis (fit, every diagnostic, the model comparison, bands on a 200-point
+//! grid) of n synthetic points, for measuring peak memory against n and for profiling:
+//! `cargo run --release -p isochore-fit --example large_fit -- 1000000 cp` under
+//! `/usr/bin/time -v` (maximum resident set size). Prints the wall time of the analysis.
+
+use isochore_fit::{fit, FitOptions, Measurement, Model};
+use std::time::Instant;
+
+fn main() {
+    let mut args = std::env::args().skip(1);
+    let n: usize = args
+        .next()
+        .and_then(|a| a.parse().ok())
+        .unwrap_or(1_000_000);
+    let model = match args.next().as_deref() {
+        Some("cp") => Model::ConstantCp,
+        _ => Model::Linear,
+    };
+    let repeats: usize = args.next().and_then(|a| a.parse().ok()).unwrap_or(1);
+    // Deterministic pseudo-noise (an additive recurrence), no generator crate needed.
+    let mut u = 0.5f64;
+    let points: Vec<Measurement> = (0..n)
+        .map(|i| {
+            u = (u + 0.618_033_988_749_894_9) % 1.0;
+            let t = 278.15 + 60.0 * (i as f64 + 0.5) / n as f64;
+            let x = Model::ConstantCp.row(t, 298.15);
+            let sigma = 0.02 + 0.06 * u;
+            let noise = sigma * (u - 0.5) * 3.0;
+            Measurement::new(t, x[0] * -45e3 + x[1] * -60.0 + x[2] * -600.0 + noise)
+                .with_sigma(sigma)
+        })
+        .collect();
+    let options = FitOptions {
+        model,
+        ..FitOptions::default()
+    };
+    for _ in 0..repeats {
+        let start = Instant::now();
+        match fit(&points, &options) {
+            Ok(f) => {
+                let bands = f.band_grid(200, 0.1);
+                println!(
+                    "n = {n}, model {}: ΔH° = {:.1} J/mol, {} diagnostics, {} band points, {:.1} ms",
+                    model.key(),
+                    f.delta_h().value,
+                    f.points.len(),
+                    bands.len(),
+                    start.elapsed().as_secs_f64() * 1e3
+                );
+            }
+            Err(e) => println!("n = {n}: {e}"),
+        }
+    }
+}
