@@ -34,6 +34,9 @@ fn main() {
         model,
         ..FitOptions::default()
     };
+    if std::env::var_os("LARGE_FIT_PHASES").is_some() {
+        phases(&points, model);
+    }
     for _ in 0..repeats {
         let start = Instant::now();
         match fit(&points, &options) {
@@ -51,4 +54,35 @@ fn main() {
             Err(e) => println!("n = {n}: {e}"),
         }
     }
+}
+
+/// Times the pieces of an analysis separately (set LARGE_FIT_PHASES=1).
+fn phases(points: &[Measurement], model: Model) {
+    use isochore_fit::least_squares::{solve, weighted_rss};
+    let n = points.len();
+    let p = model.n_params();
+    let t0 = Instant::now();
+    let x = nalgebra::DMatrix::from_fn(n, p, |i, j| model.row(points[i].t_k, 298.15)[j]);
+    let y: Vec<f64> = points.iter().map(|m| m.ln_k).collect();
+    let w: Vec<f64> = points
+        .iter()
+        .map(|m| m.sigma_ln_k.map_or(1.0, |s| 1.0 / (s * s)))
+        .collect();
+    let t1 = Instant::now();
+    let full = solve(&x, &y, Some(&w)).expect("solve");
+    let t2 = Instant::now();
+    let rss = weighted_rss(&x, &y, Some(&w)).expect("rss");
+    let t3 = Instant::now();
+    let qr = x.clone().qr();
+    let t4 = Instant::now();
+
+    println!(
+        "phases (ms): design {:.1}, solve {:.1}, rss-only {:.1}, bare nalgebra QR {:.1} (χ² {} = {})",
+        (t1 - t0).as_secs_f64() * 1e3,
+        (t2 - t1).as_secs_f64() * 1e3,
+        (t3 - t2).as_secs_f64() * 1e3,
+        (t4 - t3).as_secs_f64() * 1e3,
+        full.rss,
+        rss + 0.0 * qr.r()[(0, 0)],
+    );
 }

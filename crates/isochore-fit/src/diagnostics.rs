@@ -104,7 +104,8 @@ pub struct PointDiagnostics {
     /// DFFITS = tᵢ √(hᵢ/(1 − hᵢ)); used points only.
     pub dffits: Option<f64>,
     /// Standard deviation of (ln K − fitted) for a new, independent measurement at this
-    /// point: √(variance scale/wᵢ + xᵢᵀ Cov xᵢ).
+    /// point: √(variance scale/wᵢ + xᵢᵀ Cov xᵢ). A point without σ in a weighted fit (an
+    /// excluded one) takes the typical weight n/Σw of the used points.
     pub prediction_se: f64,
     /// For an excluded point, residual / prediction_se: how many prediction standard
     /// deviations off it sits. `None` for used points.
@@ -135,12 +136,18 @@ pub(crate) fn diagnose_points(
     }
     let beta = &lin.coefficients;
     let good = |v: f64| v.is_finite().then_some(v);
+    // Weight of a point with no σ of its own (an excluded point in a weighted fit): that of
+    // a typical used point, 1/σ̄² with σ̄² = n/Σw (1 when unweighted).
+    let typical_w = solved
+        .weights
+        .as_ref()
+        .map_or(1.0, |w| w.iter().sum::<f64>() / n);
     points
         .iter()
         .enumerate()
         .map(|(i, m)| {
             let sigma_ln_k = if weighted { m.sigma_ln_k } else { None };
-            let w = sigma_ln_k.map_or(1.0, |s| 1.0 / (s * s));
+            let w = sigma_ln_k.map_or(typical_w, |s| 1.0 / (s * s));
             let sw = w.sqrt();
             let row = options.model.row(m.t_k, theta);
             let x = &row[..p];

@@ -346,23 +346,51 @@ pub(crate) fn solve_model(
     })
 }
 
+/// Sums over the used points that every model's statistics share.
+pub(crate) struct WeightSums {
+    n: usize,
+    weighted: bool,
+    /// Σ wᵢ (yᵢ − ȳ_w)².
+    tss: f64,
+    /// Σ ln wᵢ.
+    sum_ln_w: f64,
+}
+
+impl WeightSums {
+    pub(crate) fn new(weights: Option<&[f64]>, y: &[f64]) -> Self {
+        let (sum_w, sum_wy, sum_ln_w) = match weights {
+            Some(w) => w.iter().zip(y).fold((0.0, 0.0, 0.0), |(a, b, c), (w, y)| {
+                (a + w, b + w * y, c + w.ln())
+            }),
+            None => (y.len() as f64, y.iter().sum(), 0.0),
+        };
+        let mean = sum_wy / sum_w;
+        let tss = match weights {
+            Some(w) => w.iter().zip(y).map(|(w, y)| w * (y - mean).powi(2)).sum(),
+            None => y.iter().map(|y| (y - mean).powi(2)).sum(),
+        };
+        WeightSums {
+            n: y.len(),
+            weighted: weights.is_some(),
+            tss,
+            sum_ln_w,
+        }
+    }
+}
+
 /// Fit statistics for a model with `p` coefficients and weighted residual sum of squares
-/// `chi2` on the used ln K values `y` with `weights`.
+/// `chi2` on the used points summarised by `sums`.
 pub(crate) fn statistics(
     chi2: f64,
     p: usize,
-    weights: Option<&[f64]>,
-    y: &[f64],
+    sums: &WeightSums,
     convention: SigmaConvention,
 ) -> FitStatistics {
-    let n_used = y.len();
-    let n = n_used as f64;
+    let n = sums.n as f64;
     let dof = n - p as f64;
     let p = p as f64;
-    let w = |i: usize| weights.map_or(1.0, |w| w[i]);
-    let sum_w: f64 = (0..n_used).map(w).sum();
-    let mean = (0..n_used).map(|i| w(i) * y[i]).sum::<f64>() / sum_w;
-    let tss: f64 = (0..n_used).map(|i| w(i) * (y[i] - mean).powi(2)).sum();
+    let tss = sums.tss;
+    let sum_ln_w = sums.sum_ln_w;
     let reduced = chi2 / dof;
     let r2 = if tss > 0.0 {
         1.0 - chi2 / tss
@@ -370,7 +398,6 @@ pub(crate) fn statistics(
         f64::NAN
     };
     let adj_r2 = 1.0 - (1.0 - r2) * (n - 1.0) / dof;
-    let sum_ln_w: f64 = (0..n_used).map(|i| w(i).ln()).sum();
     // Gaussian likelihood, σᵢ² = σ²/wᵢ with σ² estimated by RSS/n (floored so exact data
     // give a large finite value rather than infinity).
     let sigma2 = (chi2 / n).max(f64::MIN_POSITIVE);
@@ -384,7 +411,7 @@ pub(crate) fn statistics(
         None
     };
     let bic = k * n.ln() - 2.0 * log_likelihood;
-    let chi2_p_value = match (convention, weights.is_some()) {
+    let chi2_p_value = match (convention, sums.weighted) {
         (SigmaConvention::Absolute, true) if dof > 0.0 => chi2_upper_tail(chi2, dof),
         _ => None,
     };
@@ -439,13 +466,8 @@ pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, 
     let p = lin.p;
     let dof = lin.dof();
     let y: Vec<f64> = solved.used.iter().map(|&i| points[i].ln_k).collect();
-    let stats = statistics(
-        lin.rss,
-        p,
-        solved.weights.as_deref(),
-        &y,
-        options.convention,
-    );
+    let sums = WeightSums::new(solved.weights.as_deref(), &y);
+    let stats = statistics(lin.rss, p, &sums, options.convention);
     let weighted = solved.weights.is_some();
     let mut warnings = Vec::new();
 
@@ -546,8 +568,7 @@ pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, 
                 Some(comparison_from(
                     chi2_lin,
                     chi2_cp,
-                    solved.weights.as_deref(),
-                    &y,
+                    &sums,
                     options.convention,
                 ))
             }
@@ -673,11 +694,11 @@ pub fn compare_models(
         Err(Error::RankDeficient { .. }) | Err(Error::TooFewPoints { .. }) => return Ok(None),
         Err(e) => return Err(e),
     };
+    let sums = WeightSums::new(w, &prepared.y);
     Ok(Some(comparison_from(
         chi2_lin,
         chi2_cp,
-        w,
-        &prepared.y,
+        &sums,
         options.convention,
     )))
 }
@@ -686,13 +707,12 @@ pub fn compare_models(
 fn comparison_from(
     chi2_lin: f64,
     chi2_cp: f64,
-    weights: Option<&[f64]>,
-    y: &[f64],
+    sums: &WeightSums,
     convention: SigmaConvention,
 ) -> ModelComparison {
-    let s_lin = statistics(chi2_lin, 2, weights, y, convention);
-    let s_cp = statistics(chi2_cp, 3, weights, y, convention);
-    let dof_cp = y.len() as f64 - 3.0;
+    let s_lin = statistics(chi2_lin, 2, sums, convention);
+    let s_cp = statistics(chi2_cp, 3, sums, convention);
+    let dof_cp = sums.n as f64 - 3.0;
     let drop = (s_lin.chi2 - s_cp.chi2).max(0.0);
     // With χ²_cp = 0 the ΔCp° model is exact: any drop is infinitely significant, and no
     // drop at all (both models exact) is no evidence.

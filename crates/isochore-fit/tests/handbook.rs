@@ -4,7 +4,7 @@
 
 use isochore_fit::two_point::{enthalpy_from_pairs, predict_k, StatePoint};
 use isochore_fit::{
-    fit, FitOptions, Measurement, Model, QuantityKind, TemperatureUnit, Weighting, WarningKind,
+    fit, FitOptions, Measurement, Model, QuantityKind, TemperatureUnit, WarningKind, Weighting,
     GAS_CONSTANT,
 };
 
@@ -12,7 +12,10 @@ use isochore_fit::{
 /// as implemented by the PyPI package iapws 1.5.5, written by
 /// `tests/data/water_pkw/make_pkw.py` into `pkw_iapws.txt`.
 fn water() -> Vec<Measurement> {
-    let path = concat!(env!("CARGO_MANIFEST_DIR"), "/tests/data/water_pkw/pkw_iapws.txt");
+    let path = concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/tests/data/water_pkw/pkw_iapws.txt"
+    );
     let text = std::fs::read_to_string(path).expect("fixture pkw_iapws.txt is part of the crate");
     text.lines()
         .filter(|l| !l.trim().is_empty() && !l.starts_with('#'))

@@ -95,7 +95,11 @@ fn check_model(r: &HashMap<String, Vec<f64>>, key: &str, model: Model) -> VantHo
     check(&format!("{key} covariance"), &cov, k("cov_scaled"));
     check(&format!("{key} χ²"), &[f.stats.chi2], k("chi2"));
     check(&format!("{key} R²"), &[f.stats.r2], k("r2"));
-    check(&format!("{key} adjusted R²"), &[f.stats.adj_r2], k("adj_r2"));
+    check(
+        &format!("{key} adjusted R²"),
+        &[f.stats.adj_r2],
+        k("adj_r2"),
+    );
     check(
         &format!("{key} log-likelihood"),
         &[f.stats.log_likelihood],
@@ -107,7 +111,11 @@ fn check_model(r: &HashMap<String, Vec<f64>>, key: &str, model: Model) -> VantHo
         f.points.iter().map(g).collect()
     };
     check(&format!("{key} fitted"), &col(|d| d.fitted), k("fitted"));
-    check(&format!("{key} leverage"), &col(|d| d.leverage), k("leverage"));
+    check(
+        &format!("{key} leverage"),
+        &col(|d| d.leverage),
+        k("leverage"),
+    );
     check(
         &format!("{key} internally studentized"),
         &col(|d| d.student_int.unwrap()),
@@ -118,14 +126,26 @@ fn check_model(r: &HashMap<String, Vec<f64>>, key: &str, model: Model) -> VantHo
         &col(|d| d.student_ext.unwrap()),
         k("student_ext"),
     );
-    check(&format!("{key} Cook's D"), &col(|d| d.cooks_d.unwrap()), k("cooks_d"));
-    check(&format!("{key} DFFITS"), &col(|d| d.dffits.unwrap()), k("dffits"));
+    check(
+        &format!("{key} Cook's D"),
+        &col(|d| d.cooks_d.unwrap()),
+        k("cooks_d"),
+    );
+    check(
+        &format!("{key} DFFITS"),
+        &col(|d| d.dffits.unwrap()),
+        k("dffits"),
+    );
 
     // Absolute σ: the covariance is (XᵀWX)⁻¹ itself.
     let fa = fit(&pts, &options(model, SigmaConvention::Absolute, theta)).unwrap();
     let se_abs: Vec<f64> = fa.params.iter().map(|p| p.estimate.se).collect();
     check(&format!("{key} SE (absolute σ)"), &se_abs, k("se_absolute"));
-    check(&format!("{key} estimates (absolute σ)"), &fa.coefficients(), k("params"));
+    check(
+        &format!("{key} estimates (absolute σ)"),
+        &fa.coefficients(),
+        k("params"),
+    );
     f
 }
 
