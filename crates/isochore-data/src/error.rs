@@ -267,7 +267,7 @@ pub enum Error {
         /// The file name.
         file: String,
         /// The rejected row.
-        rejected: RejectedRow,
+        rejected: Box<RejectedRow>,
     },
     /// A data set has fewer usable points than needed.
     TooFewPoints {
@@ -314,7 +314,7 @@ pub enum Error {
         /// 1-based data row.
         row: usize,
         /// The fault, located in the original file.
-        rejected: RejectedRow,
+        rejected: Box<RejectedRow>,
     },
     /// A data row number that the data set does not have.
     NoSuchRow {

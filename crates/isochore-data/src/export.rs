@@ -3,7 +3,7 @@
 //! absolute uncertainty `u(…)` when any row has one, and `note`. Leading `#` lines record
 //! the data set, its source and the exclusions (the importer skips them).
 
-use crate::import::Series;
+use crate::import::{ConvertedRow, Row, Series};
 use crate::project::Exclusion;
 use isochore_fit::QuantityKind;
 
@@ -43,11 +43,7 @@ fn num(v: f64) -> String {
 /// Exports an imported data set, writing the quantity as `kind` (usually the import's
 /// `mapping.quantity.kind`).
 pub fn export_csv(series: &Series, kind: QuantityKind) -> String {
-    let rows: Vec<(usize, f64, f64, Option<f64>)> = series
-        .rows
-        .iter()
-        .map(|r| (r.row, r.t_k, r.ln_k, r.sigma_ln_k))
-        .collect();
+    let rows: Vec<ConvertedRow> = series.rows.iter().map(Row::converted).collect();
     let notes: Vec<Option<String>> = series.rows.iter().map(|r| r.note.clone()).collect();
     write_csv(&series.name, "", kind, &rows, &notes, &[])
 }
@@ -56,7 +52,7 @@ pub(crate) fn write_csv(
     name: &str,
     source: &str,
     kind: QuantityKind,
-    rows: &[(usize, f64, f64, Option<f64>)],
+    rows: &[ConvertedRow],
     notes: &[Option<String>],
     exclusions: &[Exclusion],
 ) -> String {
@@ -74,7 +70,7 @@ pub(crate) fn write_csv(
             one_line(&e.reason)
         ));
     }
-    let has_sigma = rows.iter().any(|r| r.3.is_some());
+    let has_sigma = rows.iter().any(|r| r.sigma_ln_k.is_some());
     let has_note = notes.iter().any(Option::is_some);
     let mut w = csv::WriterBuilder::new()
         .terminator(csv::Terminator::Any(b'\n'))
@@ -88,7 +84,8 @@ pub(crate) fn write_csv(
     }
     // Writing to a Vec cannot fail; errors are ignored rather than unwrapped.
     let _ = w.write_record(&header);
-    for (i, &(_, t, ln_k, sigma)) in rows.iter().enumerate() {
+    for (i, r) in rows.iter().enumerate() {
+        let (t, ln_k, sigma) = (r.t_k, r.ln_k, r.sigma_ln_k);
         let value = kind.from_ln_k(ln_k, t);
         let mut rec = vec![num(t), num(value)];
         if has_sigma {

@@ -120,6 +120,18 @@ pub struct Row {
     pub(crate) end: u32,
 }
 
+impl Row {
+    /// The converted values of this row.
+    pub fn converted(&self) -> ConvertedRow {
+        ConvertedRow {
+            row: self.row,
+            t_k: self.t_k,
+            ln_k: self.ln_k,
+            sigma_ln_k: self.sigma_ln_k,
+        }
+    }
+}
+
 /// One point for the fit, with the data rows it stands for (one row, or several averaged
 /// replicates).
 #[derive(Debug, Clone, PartialEq)]
@@ -128,6 +140,19 @@ pub struct Point {
     pub measurement: Measurement,
     /// 1-based row numbers (see [`Row::row`]) it was made from.
     pub rows: Vec<usize>,
+}
+
+/// One row converted to the fitting scale, identified by its 1-based row number.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct ConvertedRow {
+    /// 1-based row number in its data set.
+    pub row: usize,
+    /// Temperature in kelvin.
+    pub t_k: f64,
+    /// ln K.
+    pub ln_k: f64,
+    /// σ(ln K), if known.
+    pub sigma_ln_k: Option<f64>,
 }
 
 /// One data set.
@@ -148,11 +173,7 @@ impl Series {
     /// in the result, one point each, with `included = false`. With
     /// [`Replicates::Average`] the included rows at one temperature become one point.
     pub fn points(&self, excluded: &[usize]) -> Vec<Point> {
-        let rows: Vec<(usize, f64, f64, Option<f64>)> = self
-            .rows
-            .iter()
-            .map(|r| (r.row, r.t_k, r.ln_k, r.sigma_ln_k))
-            .collect();
+        let rows: Vec<ConvertedRow> = self.rows.iter().map(Row::converted).collect();
         make_points(&rows, excluded, self.replicates, self.replicate_tolerance_k)
     }
 
@@ -165,35 +186,35 @@ impl Series {
     }
 }
 
-/// Builds points from (row, T, ln K, σ) tuples; shared with project files.
+/// Builds points from converted rows; shared with project files.
 pub(crate) fn make_points(
-    rows: &[(usize, f64, f64, Option<f64>)],
+    rows: &[ConvertedRow],
     excluded: &[usize],
     mode: Replicates,
     tol: f64,
 ) -> Vec<Point> {
     let is_excluded = |r: usize| excluded.contains(&r);
-    let single = |&(row, t, l, s): &(usize, f64, f64, Option<f64>)| Point {
+    let single = |r: &ConvertedRow| Point {
         measurement: Measurement {
-            t_k: t,
-            ln_k: l,
-            sigma_ln_k: s,
-            included: !is_excluded(row),
+            t_k: r.t_k,
+            ln_k: r.ln_k,
+            sigma_ln_k: r.sigma_ln_k,
+            included: !is_excluded(r.row),
         },
-        rows: vec![row],
+        rows: vec![r.row],
     };
     match mode {
         Replicates::Keep => rows.iter().map(single).collect(),
         Replicates::Average => {
             // Group included rows by temperature, in order of first appearance.
             let mut order: Vec<usize> = (0..rows.len())
-                .filter(|&i| !is_excluded(rows[i].0))
+                .filter(|&i| !is_excluded(rows[i].row))
                 .collect();
-            order.sort_by(|&a, &b| rows[a].1.total_cmp(&rows[b].1).then(a.cmp(&b)));
+            order.sort_by(|&a, &b| rows[a].t_k.total_cmp(&rows[b].t_k).then(a.cmp(&b)));
             let mut groups: Vec<Vec<usize>> = Vec::new();
             for i in order {
                 match groups.last_mut() {
-                    Some(g) if (rows[i].1 - rows[g[0]].1).abs() <= tol => g.push(i),
+                    Some(g) if (rows[i].t_k - rows[g[0]].t_k).abs() <= tol => g.push(i),
                     _ => groups.push(vec![i]),
                 }
             }
@@ -201,29 +222,34 @@ pub(crate) fn make_points(
             for g in groups {
                 let first = g.iter().copied().min().unwrap_or(0);
                 let n = g.len() as f64;
-                let t = g.iter().map(|&i| rows[i].1).sum::<f64>() / n;
-                let all_sigma = g.iter().all(|&i| rows[i].3.is_some());
+                let t = g.iter().map(|&i| rows[i].t_k).sum::<f64>() / n;
+                let all_sigma = g.iter().all(|&i| rows[i].sigma_ln_k.is_some());
                 let (ln_k, sigma) = if g.len() == 1 {
-                    (rows[g[0]].2, rows[g[0]].3)
+                    (rows[g[0]].ln_k, rows[g[0]].sigma_ln_k)
                 } else if all_sigma {
                     let w: Vec<f64> = g
                         .iter()
                         .map(|&i| {
-                            let s = rows[i].3.unwrap_or(1.0);
+                            let s = rows[i].sigma_ln_k.unwrap_or(1.0);
                             1.0 / (s * s)
                         })
                         .collect();
                     let sw: f64 = w.iter().sum();
-                    let m = g.iter().zip(&w).map(|(&i, wi)| wi * rows[i].2).sum::<f64>() / sw;
+                    let m = g
+                        .iter()
+                        .zip(&w)
+                        .map(|(&i, wi)| wi * rows[i].ln_k)
+                        .sum::<f64>()
+                        / sw;
                     (m, Some(1.0 / sw.sqrt()))
                 } else {
-                    let m = g.iter().map(|&i| rows[i].2).sum::<f64>() / n;
-                    let ss = g.iter().map(|&i| (rows[i].2 - m).powi(2)).sum::<f64>();
+                    let m = g.iter().map(|&i| rows[i].ln_k).sum::<f64>() / n;
+                    let ss = g.iter().map(|&i| (rows[i].ln_k - m).powi(2)).sum::<f64>();
                     let sd = (ss / (n - 1.0)).sqrt();
                     let se = sd / n.sqrt();
                     (m, (se.is_finite() && se > 0.0).then_some(se))
                 };
-                let mut rs: Vec<usize> = g.iter().map(|&i| rows[i].0).collect();
+                let mut rs: Vec<usize> = g.iter().map(|&i| rows[i].row).collect();
                 rs.sort_unstable();
                 tagged.push((
                     first,
@@ -239,7 +265,7 @@ pub(crate) fn make_points(
                 ));
             }
             for (i, r) in rows.iter().enumerate() {
-                if is_excluded(r.0) {
+                if is_excluded(r.row) {
                     tagged.push((i, single(r)));
                 }
             }
@@ -319,7 +345,7 @@ impl Import {
             None => Ok(self),
             Some(r) => Err(Error::Row {
                 file: self.source.name.clone(),
-                rejected: r.clone(),
+                rejected: Box::new(r.clone()),
             }),
         }
     }
@@ -406,12 +432,13 @@ fn import_owned(
             limit,
         });
     }
-    let is_utf8 = std::str::from_utf8(&bytes).is_ok()
-        && !bytes.starts_with(&[0xFF, 0xFE])
-        && !bytes.starts_with(&[0xFE, 0xFF]);
     // Hash now unless the text will be the very same bytes (then hash in parallel).
-    let early_hash = (!is_utf8).then(|| sha256_hex(&bytes));
-    let (text, start) = text::decode(bytes);
+    let utf16 = bytes.starts_with(&[0xFF, 0xFE]) || bytes.starts_with(&[0xFE, 0xFF]);
+    let early_hash = utf16.then(|| sha256_hex(&bytes));
+    let (text, start, early_hash) = match text::decode(bytes) {
+        (t, s, None) => (t, s, early_hash),
+        (t, s, Some(original)) => (t, s, Some(sha256_hex(&original))),
+    };
     if text.len() as u64 > limit {
         return Err(Error::FileTooLarge {
             file: name.to_string(),
@@ -541,105 +568,58 @@ fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Pars
             &mut mapping,
         )?;
     }
-    let ncols = headers.len();
     let default_name = stem(file);
-    let mut series: Vec<Series> = Vec::new();
-    let mut index: HashMap<String, usize> = HashMap::new();
-    let mut rejected = Vec::new();
-    let mut any_data = false;
-    // Columns that may be missing at the end of a short row.
-    let optional = |c: usize| {
-        Some(c) == mapping.note
-            || mapping.ignored.contains(&c)
-            || mapping.uncertainty.map(|u| u.column) == Some(c)
+    let ctx = Scan {
+        file,
+        text,
+        delimiter,
+        o,
+        mapping: &mapping,
+        headers: &headers,
+        comma_ok,
+        default_name: &default_name,
+        quote_free: false,
     };
-    let empty = Span {
-        start: 0,
-        end: 0,
-        escaped: false,
+    // Large files without quotes are read in two halves on two threads: with no quotes,
+    // every line break ends a record, so the halves can be cut at any line break.
+    let bytes = text.as_bytes();
+    let data_len = text.len() - data_start;
+    let quote_free = memchr::memchr(b'"', &bytes[data_start..]).is_none();
+    let ctx = Scan { quote_free, ..ctx };
+    let cut = if data_len > (4 << 20) && quote_free {
+        let mid = data_start + data_len / 2;
+        memchr::memchr(b'\n', &bytes[mid..]).map(|i| mid + i + 1)
+    } else {
+        None
     };
-    while let Some(rec) = reader.next_record()? {
-        any_data = true;
-        let spans = &reader.spans;
-        let found = spans.len();
-        if found != ncols {
-            let ok = if found < ncols {
-                (found..ncols).all(optional)
-            } else {
-                spans[ncols..].iter().all(|s| s.raw(text).trim().is_empty())
-            };
-            if !ok {
-                rejected.push(RejectedRow {
-                    line: rec.line,
-                    column: None,
-                    header: None,
-                    cell: None,
-                    problem: RowProblem::Ragged {
-                        expected: ncols,
-                        found,
-                    },
-                });
-                continue;
-            }
-        }
-        let cell = |i: usize| spans.get(i).unwrap_or(&empty).raw(text);
-        let si = match mapping.series {
-            None => {
-                if series.is_empty() {
-                    series.push(new_series(default_name.clone(), o));
-                }
-                0
-            }
-            Some(c) => {
-                let name = spans.get(c).map(|s| s.unescaped(text)).unwrap_or_default();
-                let name = name.trim();
-                let name = if name.is_empty() {
-                    default_name.as_str()
-                } else {
-                    name
+    let first_line = reader.line();
+    let chunk = match cut {
+        None => ctx.run(data_start, text.len(), first_line)?,
+        Some(cut) => {
+            let lines_before = memchr::memchr_iter(b'\n', &bytes[data_start..cut]).count();
+            let (a, b) = std::thread::scope(|sc| {
+                let second = std::thread::Builder::new()
+                    .spawn_scoped(sc, || ctx.run(cut, text.len(), first_line + lines_before))
+                    .ok();
+                let a = ctx.run(data_start, cut, first_line);
+                let b = match second {
+                    Some(h) => h
+                        .join()
+                        .unwrap_or_else(|_| ctx.run(cut, text.len(), first_line + lines_before)),
+                    None => ctx.run(cut, text.len(), first_line + lines_before),
                 };
-                match index.get(name) {
-                    Some(&i) => i,
-                    None => {
-                        series.push(new_series(name.to_string(), o));
-                        index.insert(name.to_string(), series.len() - 1);
-                        series.len() - 1
-                    }
-                }
-            }
-        };
-        match convert_cells(&mapping, comma_ok, cell) {
-            Ok(c) => {
-                let note = mapping.note.and_then(|n| {
-                    let s = spans.get(n)?;
-                    let v = s.unescaped(text);
-                    let v = v.trim();
-                    (!v.is_empty()).then(|| v.to_string())
-                });
-                let rows = &mut series[si].rows;
-                let row = rows.len() + 1;
-                rows.push(Row {
-                    line: rec.line,
-                    row,
-                    t_k: c.t_k,
-                    ln_k: c.ln_k,
-                    sigma_ln_k: c.sigma_ln_k,
-                    note,
-                    start: rec.start,
-                    end: rec.end,
-                });
-            }
-            Err((col, problem)) => {
-                rejected.push(RejectedRow {
-                    line: rec.line,
-                    column: Some(col + 1),
-                    header: headers.get(col).cloned(),
-                    cell: Some(cell(col).trim().to_string()),
-                    problem,
-                });
-            }
+                (a, b)
+            });
+            let mut a = a?;
+            a.append(b?);
+            a
         }
-    }
+    };
+    let Chunk {
+        mut series,
+        rejected,
+        any_data,
+    } = chunk;
     if !any_data {
         return Err(Error::HeaderOnly {
             file: file.to_string(),
@@ -683,6 +663,182 @@ fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Pars
         series,
         rejected,
     })
+}
+
+/// What one pass over (part of) the data rows needs.
+struct Scan<'a> {
+    file: &'a str,
+    text: &'a str,
+    delimiter: Delimiter,
+    o: &'a ImportOptions,
+    mapping: &'a ColumnMapping,
+    headers: &'a [String],
+    comma_ok: bool,
+    default_name: &'a str,
+    quote_free: bool,
+}
+
+/// The rows read from one part of the data.
+struct Chunk {
+    series: Vec<Series>,
+    rejected: Vec<RejectedRow>,
+    any_data: bool,
+}
+
+impl Chunk {
+    /// Appends a later part, merging data sets by name and renumbering rows.
+    fn append(&mut self, later: Chunk) {
+        self.any_data |= later.any_data;
+        self.rejected.extend(later.rejected);
+        for s in later.series {
+            match self.series.iter_mut().find(|m| m.name == s.name) {
+                Some(m) => {
+                    let base = m.rows.len();
+                    m.rows
+                        .extend(s.rows.into_iter().enumerate().map(|(k, mut r)| {
+                            r.row = base + k + 1;
+                            r
+                        }));
+                }
+                None => self.series.push(s),
+            }
+        }
+    }
+}
+
+impl Scan<'_> {
+    /// Reads the records in `text[start..end]`; `line` is the physical line before `start`.
+    fn run(&self, start: usize, end: usize, line: usize) -> Result<Chunk, Error> {
+        let (text, o, mapping) = (self.text, self.o, self.mapping);
+        let mut reader = Reader::new(
+            &text[..end],
+            start,
+            self.delimiter,
+            o.max_line_bytes,
+            o.max_columns,
+            self.file,
+        )
+        .starting_after_line(line)
+        .without_quotes(self.quote_free);
+        let ncols = self.headers.len();
+        let mut series: Vec<Series> = Vec::new();
+        let mut index: HashMap<String, usize> = HashMap::new();
+        let mut last = 0usize;
+        let mut rejected = Vec::new();
+        let mut any_data = false;
+        // Columns that may be missing at the end of a short row.
+        let optional = |c: usize| {
+            Some(c) == mapping.note
+                || mapping.ignored.contains(&c)
+                || mapping.uncertainty.map(|u| u.column) == Some(c)
+        };
+        let empty = Span {
+            start: 0,
+            end: 0,
+            escaped: false,
+        };
+        while let Some(rec) = reader.next_record()? {
+            any_data = true;
+            let spans = &reader.spans;
+            let found = spans.len();
+            if found != ncols {
+                let ok = if found < ncols {
+                    (found..ncols).all(optional)
+                } else {
+                    spans[ncols..].iter().all(|s| text::is_blank(s.raw(text)))
+                };
+                if !ok {
+                    rejected.push(RejectedRow {
+                        line: rec.line,
+                        column: None,
+                        header: None,
+                        cell: None,
+                        problem: RowProblem::Ragged {
+                            expected: ncols,
+                            found,
+                        },
+                    });
+                    continue;
+                }
+            }
+            let cell = |i: usize| spans.get(i).unwrap_or(&empty).raw(text);
+            let si = match mapping.series {
+                None => {
+                    if series.is_empty() {
+                        series.push(new_series(self.default_name.to_string(), o));
+                    }
+                    0
+                }
+                Some(c) => {
+                    let span = spans.get(c).unwrap_or(&empty);
+                    let owned;
+                    let name = if span.escaped {
+                        owned = span.unescaped(text);
+                        owned.trim()
+                    } else {
+                        span.raw(text).trim()
+                    };
+                    let name = if name.is_empty() {
+                        self.default_name
+                    } else {
+                        name
+                    };
+                    if series.get(last).is_some_and(|s| s.name == name) {
+                        last
+                    } else if let Some(i) = if series.len() <= 16 {
+                        series.iter().position(|s| s.name == name)
+                    } else {
+                        index.get(name).copied()
+                    } {
+                        last = i;
+                        i
+                    } else {
+                        series.push(new_series(name.to_string(), o));
+                        index.insert(name.to_string(), series.len() - 1);
+                        last = series.len() - 1;
+                        last
+                    }
+                }
+            };
+            match convert_cells(mapping, self.comma_ok, cell) {
+                Ok(c) => {
+                    let note = mapping.note.and_then(|n| {
+                        let s = spans.get(n)?;
+                        if text::is_blank(s.raw(text)) {
+                            return None;
+                        }
+                        Some(s.unescaped(text).trim().to_string())
+                    });
+                    let rows = &mut series[si].rows;
+                    let row = rows.len() + 1;
+                    rows.push(Row {
+                        line: rec.line,
+                        row,
+                        t_k: c.t_k,
+                        ln_k: c.ln_k,
+                        sigma_ln_k: c.sigma_ln_k,
+                        note,
+                        start: rec.start,
+                        end: rec.end,
+                    });
+                }
+                Err((col, problem)) => {
+                    rejected.push(RejectedRow {
+                        line: rec.line,
+                        column: Some(col + 1),
+                        header: self.headers.get(col).cloned(),
+                        cell: Some(cell(col).trim().to_string()),
+                        problem,
+                    });
+                }
+            }
+        }
+        Ok(Chunk {
+            series,
+            rejected,
+            any_data,
+        })
+    }
 }
 
 fn new_series(name: String, o: &ImportOptions) -> Series {

@@ -43,8 +43,8 @@ mod text;
 pub use error::{Error, RejectedRow, RowProblem, ACCEPTED_HEADERS};
 pub use export::{export_csv, quantity_header};
 pub use import::{
-    import_bytes, import_path, import_text, sha256_hex, DecimalMark, Import, ImportOptions, Point,
-    Replicates, Row, Series, SourceInfo,
+    import_bytes, import_path, import_text, sha256_hex, ConvertedRow, DecimalMark, Import,
+    ImportOptions, Point, Replicates, Row, Series, SourceInfo,
 };
 pub use mapping::{
     ColumnMapping, QuantityColumn, TemperatureColumn, UncertaintyColumn, UncertaintyKind,

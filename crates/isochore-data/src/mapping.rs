@@ -238,6 +238,9 @@ pub(crate) struct Converted {
 /// Parses one number cell. `comma_decimal` lets a comma stand for the decimal point.
 /// Leading and trailing spaces, a leading '+', and the Unicode minus sign are accepted.
 pub(crate) fn parse_number(cell: &str, comma_decimal: bool) -> Result<f64, RowProblem> {
+    if let Some(v) = fast_decimal(cell.as_bytes(), comma_decimal) {
+        return Ok(v);
+    }
     if let Ok(v) = cell.parse::<f64>() {
         return finite(v);
     }
@@ -265,6 +268,117 @@ pub(crate) fn parse_number(cell: &str, comma_decimal: bool) -> Result<f64, RowPr
         Ok(v) => finite(v),
         Err(_) => Err(RowProblem::NotANumber),
     }
+}
+
+/// Exact powers of ten representable in an f64 (10^0 … 10^22).
+const POW10: [f64; 23] = [
+    1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16,
+    1e17, 1e18, 1e19, 1e20, 1e21, 1e22,
+];
+
+/// Clinger's fast path for plain decimals: `[+-]digits[.digits][e[+-]digits]` whose
+/// significand fits in 53 bits and whose decimal exponent is within ±22. Then the value is
+/// one exact integer times or divided by one exact power of ten, so a single IEEE operation
+/// gives the correctly rounded result (the same one `str::parse` gives). Returns `None` for
+/// anything else, which then goes to the standard parser.
+#[inline]
+pub(crate) fn fast_decimal(s: &[u8], comma_decimal: bool) -> Option<f64> {
+    let n = s.len();
+    if n == 0 || n > 32 {
+        return None;
+    }
+    let mut i = 0;
+    let neg = match s[0] {
+        b'-' => {
+            i = 1;
+            true
+        }
+        b'+' => {
+            i = 1;
+            false
+        }
+        _ => false,
+    };
+    const LIMIT: u64 = 1 << 53;
+    let mut mant: u64 = 0;
+    let mut exp: i32 = 0;
+    let mut any = false;
+    while i < n {
+        let d = s[i].wrapping_sub(b'0');
+        if d > 9 {
+            break;
+        }
+        any = true;
+        mant = mant * 10 + d as u64;
+        if mant > LIMIT {
+            return None;
+        }
+        i += 1;
+    }
+    if i < n && (s[i] == b'.' || (comma_decimal && s[i] == b',')) {
+        i += 1;
+        while i < n {
+            let d = s[i].wrapping_sub(b'0');
+            if d > 9 {
+                break;
+            }
+            any = true;
+            mant = mant * 10 + d as u64;
+            if mant > LIMIT {
+                return None;
+            }
+            exp -= 1;
+            i += 1;
+        }
+    }
+    if !any {
+        return None;
+    }
+    if i < n && (s[i] | 0x20) == b'e' {
+        i += 1;
+        let eneg = match s.get(i) {
+            Some(b'-') => {
+                i += 1;
+                true
+            }
+            Some(b'+') => {
+                i += 1;
+                false
+            }
+            _ => false,
+        };
+        let mut e: i32 = 0;
+        let mut digits = false;
+        while i < n {
+            let d = s[i].wrapping_sub(b'0');
+            if d > 9 {
+                break;
+            }
+            digits = true;
+            if e < 10_000 {
+                e = e * 10 + d as i32;
+            }
+            i += 1;
+        }
+        if !digits {
+            return None;
+        }
+        exp += if eneg { -e } else { e };
+    }
+    if i != n {
+        return None;
+    }
+    let v = mant as f64;
+    let r = if mant == 0 || exp == 0 {
+        v
+    } else if (1..=22).contains(&exp) {
+        v * POW10[exp as usize]
+    } else if (-22..0).contains(&exp) {
+        v / POW10[(-exp) as usize]
+    } else {
+        return None;
+    };
+    Some(if neg { -r } else { r })
 }
 
 fn finite(v: f64) -> Result<f64, RowProblem> {
@@ -312,7 +426,7 @@ pub(crate) fn convert_cells<'a>(
         None => None,
         Some(u) => {
             let text = cell(u.column);
-            if text.trim().is_empty() {
+            if crate::text::is_blank(text) {
                 None
             } else {
                 let s = parse_number(text, comma_decimal).map_err(|p| (u.column, p))?;
@@ -326,9 +440,17 @@ pub(crate) fn convert_cells<'a>(
                     // "percent of the logarithm", taken literally.
                     UncertaintyKind::RelativePercent => q.abs() * s / 100.0,
                 };
-                let v = kind
-                    .sigma_to_ln_k(q, sigma_q, t_k)
-                    .map_err(|e| (u.column, fit_problem(e)))?;
+                let v = match kind {
+                    // Same first-order formula as `QuantityKind::sigma_to_ln_k` (σ/value),
+                    // without taking the logarithm a second time; q > 0 was checked above.
+                    QuantityKind::K | QuantityKind::DissociationConstant(_) => sigma_q / q,
+                    _ => kind
+                        .sigma_to_ln_k(q, sigma_q, t_k)
+                        .map_err(|e| (u.column, fit_problem(e)))?,
+                };
+                if !(v.is_finite() && v > 0.0) {
+                    return Err((u.column, RowProblem::OutOfRange));
+                }
                 Some(v)
             }
         }
@@ -347,9 +469,10 @@ fn fit_problem(e: isochore_fit::Error) -> RowProblem {
         isochore_fit::Error::NonPositiveTemperature { kelvin, .. } => {
             RowProblem::BelowAbsoluteZero { kelvin }
         }
-        isochore_fit::Error::NonFinite { what, .. } if what == "measured value" => {
-            RowProblem::NotFinite
-        }
+        isochore_fit::Error::NonFinite {
+            what: "measured value",
+            ..
+        } => RowProblem::NotFinite,
         _ => RowProblem::OutOfRange,
     }
 }

@@ -8,7 +8,7 @@
 //! versions and damaged files with a message and changes nothing.
 
 use crate::error::{Error, RejectedRow};
-use crate::import::{make_points, Import, Point, Replicates, SourceInfo};
+use crate::import::{make_points, ConvertedRow, Import, Point, Replicates, SourceInfo};
 use crate::mapping::{convert_cells, ColumnMapping};
 use isochore_fit::{EnergyUnit, FitOptions, Measurement, TemperatureUnit};
 use serde::{Deserialize, Serialize};
@@ -127,27 +127,32 @@ fn one() -> usize {
 }
 
 impl ProjectSeries {
-    /// Converts every row again from its cells: (row, T/K, ln K, σ(ln K)).
+    /// Converts every row again from its cells.
     ///
     /// # Errors
     /// [`Error::ProjectRow`] when a cell no longer converts (the file was edited by hand).
-    pub fn converted(&self) -> Result<Vec<(usize, f64, f64, Option<f64>)>, Error> {
+    pub fn converted(&self) -> Result<Vec<ConvertedRow>, Error> {
         let mut out = Vec::with_capacity(self.rows.len());
         for (i, r) in self.rows.iter().enumerate() {
             let cell = |c: usize| r.cells.get(c).map(String::as_str).unwrap_or("");
             match convert_cells(&self.mapping, self.decimal_comma, cell) {
-                Ok(c) => out.push((i + 1, c.t_k, c.ln_k, c.sigma_ln_k)),
+                Ok(c) => out.push(ConvertedRow {
+                    row: i + 1,
+                    t_k: c.t_k,
+                    ln_k: c.ln_k,
+                    sigma_ln_k: c.sigma_ln_k,
+                }),
                 Err((col, problem)) => {
                     return Err(Error::ProjectRow {
                         series: self.name.clone(),
                         row: i + 1,
-                        rejected: RejectedRow {
+                        rejected: Box::new(RejectedRow {
                             line: r.line,
                             column: Some(col + 1),
                             header: self.headers.get(col).cloned(),
                             cell: Some(cell(col).trim().to_string()),
                             problem,
-                        },
+                        }),
                     })
                 }
             }

@@ -49,9 +49,10 @@ impl Delimiter {
     }
 }
 
-/// Decodes file bytes. Returns the text and the byte offset where content starts (after a
-/// UTF-8 byte-order mark). Valid UTF-8 is taken over without copying.
-pub(crate) fn decode(bytes: Vec<u8>) -> (String, usize) {
+/// Decodes file bytes. Returns the text, the byte offset where content starts (after a
+/// UTF-8 byte-order mark) and, when the text is not the very same bytes (latin-1
+/// fallback), the original bytes. Valid UTF-8 is taken over without copying.
+pub(crate) fn decode(bytes: Vec<u8>) -> (String, usize, Option<Vec<u8>>) {
     if bytes.len() >= 2 && (bytes[..2] == [0xFF, 0xFE] || bytes[..2] == [0xFE, 0xFF]) {
         let le = bytes[0] == 0xFF;
         let units = bytes[2..].chunks_exact(2).map(|c| {
@@ -64,7 +65,7 @@ pub(crate) fn decode(bytes: Vec<u8>) -> (String, usize) {
         let text: String = char::decode_utf16(units)
             .map(|r| r.unwrap_or(char::REPLACEMENT_CHARACTER))
             .collect();
-        return (text, 0);
+        return (text, 0, None);
     }
     let start = if bytes.starts_with(&[0xEF, 0xBB, 0xBF]) {
         3
@@ -72,7 +73,7 @@ pub(crate) fn decode(bytes: Vec<u8>) -> (String, usize) {
         0
     };
     match String::from_utf8(bytes) {
-        Ok(s) => (s, start),
+        Ok(s) => (s, start, None),
         Err(e) => {
             // Not UTF-8: keep the valid UTF-8 pieces and read every other byte as latin-1
             // (so a lone 0xB0 is a degree sign, 0xB5 a micro sign).
@@ -82,7 +83,7 @@ pub(crate) fn decode(bytes: Vec<u8>) -> (String, usize) {
                 s.push_str(chunk.valid());
                 s.extend(chunk.invalid().iter().map(|&b| b as char));
             }
-            (s, 0)
+            (s, 0, Some(bytes))
         }
     }
 }
@@ -143,6 +144,7 @@ pub(crate) struct Reader<'a> {
     max_line: usize,
     max_columns: usize,
     file: &'a str,
+    quote_free: bool,
     /// Cells of the last record.
     pub spans: Vec<Span>,
 }
@@ -164,8 +166,26 @@ impl<'a> Reader<'a> {
             max_line,
             max_columns,
             file,
+            quote_free: false,
             spans: Vec::with_capacity(8),
         }
+    }
+
+    /// Skips the per-line search for quotes (the caller knows there are none).
+    pub fn without_quotes(mut self, quote_free: bool) -> Self {
+        self.quote_free = quote_free;
+        self
+    }
+
+    /// Continues numbering after physical line `line` (the reader starts at line + 1).
+    pub fn starting_after_line(mut self, line: usize) -> Self {
+        self.line = line;
+        self
+    }
+
+    /// Physical line number of the last line read.
+    pub fn line(&self) -> usize {
+        self.line
     }
 
     /// Byte offset of the next unread line.
@@ -217,7 +237,7 @@ impl<'a> Reader<'a> {
             self.spans.clear();
             let rec_end = match self.delim.byte() {
                 Some(d) => {
-                    if memchr(b'"', line).is_none() {
+                    if self.quote_free || memchr(b'"', line).is_none() {
                         self.split_plain(start, end, d, line_no)?;
                         end
                     } else {
@@ -230,11 +250,7 @@ impl<'a> Reader<'a> {
                 }
             };
             // A row of empty cells (",,,") counts as blank.
-            if self
-                .spans
-                .iter()
-                .all(|s| s.raw(self.text).trim().is_empty())
-            {
+            if self.spans.iter().all(|s| is_blank(s.raw(self.text))) {
                 continue;
             }
             return Ok(Some(Record {
@@ -485,6 +501,16 @@ pub(crate) fn sample_has_decimal_comma(text: &str, start: usize, d: Delimiter) -
         .any(|w| w[0].is_ascii_digit() && w[1] == b',' && w[2].is_ascii_digit())
 }
 
+/// Whether a cell is empty or only whitespace (quick answer for the usual printable start).
+#[inline]
+pub(crate) fn is_blank(s: &str) -> bool {
+    match s.as_bytes().first() {
+        None => true,
+        Some(b) if b.is_ascii_graphic() => false,
+        _ => s.trim().is_empty(),
+    }
+}
+
 fn floor_char(s: &str, mut i: usize) -> usize {
     while i > 0 && !s.is_char_boundary(i) {
         i -= 1;
@@ -532,9 +558,10 @@ mod tests {
 
     #[test]
     fn latin1_fallback() {
-        let (s, _) = decode(b"T (\xB0C)".to_vec());
+        let (s, _, orig) = decode(b"T (\xB0C)".to_vec());
+        assert!(orig.is_some());
         assert_eq!(s, "T (°C)");
-        let (s, start) = decode(b"\xEF\xBB\xBFT".to_vec());
+        let (s, start, _) = decode(b"\xEF\xBB\xBFT".to_vec());
         assert_eq!(&s[start..], "T");
     }
 }
