@@ -76,6 +76,13 @@ pub struct BandPoint {
     pub pi_high: f64,
 }
 
+/// Most vertices [`VantHoffFit::ellipse`] draws; larger requests are capped (a smooth
+/// outline needs a few hundred).
+pub const MAX_ELLIPSE_VERTICES: usize = 65_536;
+
+/// Most grid points [`VantHoffFit::band_grid`] evaluates; larger requests are capped.
+pub const MAX_BAND_GRID: usize = 1_000_000;
+
 impl VantHoffFit {
     fn n_params(&self) -> usize {
         self.params.len()
@@ -189,10 +196,20 @@ impl VantHoffFit {
     /// where c is the fit's critical value and s²·σ̄² the fit's new-observation variance.
     ///
     /// # Errors
-    /// [`Error::NonFinite`] or [`Error::NonPositiveTemperature`] for an impossible T.
+    /// [`Error::NonFinite`] or [`Error::NonPositiveTemperature`] for an impossible T;
+    /// [`Error::NoSolution`] when K at T overflows (T absurdly far from the data).
     pub fn predict(&self, t_k: f64) -> Result<Prediction, Error> {
         crate::units::check_temperature(t_k)?;
         let ln_k = self.ln_k_prediction(t_k);
+        if !(ln_k.value.is_finite()
+            && ln_k.se.is_finite()
+            && ln_k.pi.low.is_finite()
+            && ln_k.pi.high.exp().is_finite())
+        {
+            return Err(Error::NoSolution(format!(
+                "K at {t_k} K is too large to represent; the temperature is far outside any sensible range"
+            )));
+        }
         let k = ValuePrediction {
             value: ln_k.value.exp(),
             se: ln_k.value.exp() * ln_k.se,
@@ -227,15 +244,15 @@ impl VantHoffFit {
     }
 
     /// Confidence and prediction bands of ln K at each 1/T in `inv_t` (K⁻¹). Non-positive or
-    /// non-finite abscissae are skipped.
+    /// non-finite abscissae, and abscissae so extreme that ln K overflows, are skipped.
     pub fn bands(&self, inv_t: &[f64]) -> Vec<BandPoint> {
         inv_t
             .iter()
             .filter(|x| x.is_finite() && **x > 0.0)
-            .map(|&x| {
+            .filter_map(|&x| {
                 let t_k = 1.0 / x;
                 let v = self.ln_k_prediction(t_k);
-                BandPoint {
+                let b = BandPoint {
                     inv_t: x,
                     t_k,
                     ln_k: v.value,
@@ -243,19 +260,29 @@ impl VantHoffFit {
                     ci_high: v.ci.high,
                     pi_low: v.pi.low,
                     pi_high: v.pi.high,
-                }
+                };
+                [b.t_k, b.ln_k, b.ci_low, b.ci_high, b.pi_low, b.pi_high]
+                    .iter()
+                    .all(|v| v.is_finite())
+                    .then_some(b)
             })
             .collect()
     }
 
     /// Bands on `n` evenly spaced values of 1/T spanning the used points, widened by
-    /// `pad_fraction` of the span on each side.
+    /// `pad_fraction` of the span on each side (n is kept within 2 ..= [`MAX_BAND_GRID`];
+    /// a non-finite or negative pad counts as none).
     pub fn band_grid(&self, n: usize, pad_fraction: f64) -> Vec<BandPoint> {
         let lo = 1.0 / self.t_max_k;
         let hi = 1.0 / self.t_min_k;
-        let pad = (hi - lo) * pad_fraction.max(0.0);
+        let pad_fraction = if pad_fraction.is_finite() {
+            pad_fraction.max(0.0)
+        } else {
+            0.0
+        };
+        let pad = (hi - lo) * pad_fraction;
         let (a, b) = (lo - pad, hi + pad);
-        let n = n.max(2);
+        let n = n.clamp(2, MAX_BAND_GRID);
         let grid: Vec<f64> = (0..n)
             .map(|i| a + (b - a) * i as f64 / (n - 1) as f64)
             .collect();
@@ -263,7 +290,7 @@ impl VantHoffFit {
     }
 
     /// The joint confidence region of (ΔH°, ΔS°) at `level` as a closed polygon of
-    /// `n_vertices` points (J/mol, J mol⁻¹ K⁻¹).
+    /// `n_vertices` points (J/mol, J mol⁻¹ K⁻¹; kept within 8 ..= [`MAX_ELLIPSE_VERTICES`]).
     ///
     /// # Formula
     /// ```text
@@ -297,7 +324,7 @@ impl VantHoffFit {
         let l22 = l22_sq.sqrt();
         let r = radius2.sqrt();
         let (h0, s0) = (self.delta_h().value, self.delta_s().value);
-        let n = n_vertices.max(8);
+        let n = n_vertices.clamp(8, MAX_ELLIPSE_VERTICES);
         Ok((0..n)
             .map(|i| {
                 let ang = std::f64::consts::TAU * i as f64 / n as f64;

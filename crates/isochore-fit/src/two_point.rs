@@ -80,6 +80,12 @@ pub struct TwoPointEnthalpy {
     pub delta_s: Estimate,
 }
 
+fn overflow() -> Error {
+    Error::NoSolution(
+        "the result is too large to represent; check that the two temperatures differ by more than rounding and the values are sensible".into(),
+    )
+}
+
 fn level_z(level: f64) -> Result<f64, Error> {
     crate::model::check_level(level)?;
     Ok(normal_quantile(0.5 + level / 2.0))
@@ -94,7 +100,8 @@ fn level_z(level: f64) -> Result<f64, Error> {
 /// ```
 ///
 /// # Errors
-/// Invalid temperatures, K, uncertainties or level.
+/// Invalid temperatures, K, uncertainties or level; [`Error::NoSolution`] when the result
+/// overflows.
 pub fn predict_k(
     known: StatePoint,
     t2_k: f64,
@@ -127,7 +134,15 @@ pub fn predict_k(
         + (sigma_delta_h / r * d).powi(2)
         + (delta_h / (r * known.t_k * known.t_k) * known.sigma_t_k).powi(2)
         + (delta_h / (r * t2_k * t2_k) * sigma_t2_k).powi(2);
+    if !(ln_k2.is_finite() && var.is_finite()) {
+        return Err(overflow());
+    }
     let ln = Estimate::symmetric(ln_k2, var.sqrt(), z);
+    if !ln.ci_high.exp().is_finite() {
+        return Err(Error::NoSolution(format!(
+            "K₂ is too large to represent (ln K₂ = {ln_k2:.1}); quote ln K₂ instead"
+        )));
+    }
     let k2 = Estimate {
         value: ln_k2.exp(),
         se: ln_k2.exp() * ln.se,
@@ -146,7 +161,8 @@ pub fn predict_k(
 /// with first-order propagation of σ(ln K₁), σ(ln K₂), σ(T₁), σ(T₂) (independent).
 ///
 /// # Errors
-/// Invalid inputs, or [`Error::SingleTemperature`] when T₁ = T₂.
+/// Invalid inputs, or [`Error::SingleTemperature`] when T₁ = T₂; [`Error::NoSolution`]
+/// when the result overflows (temperatures equal to within rounding).
 pub fn enthalpy_from_pairs(
     a: StatePoint,
     b: StatePoint,
@@ -160,7 +176,8 @@ pub fn enthalpy_from_pairs(
     if d == 0.0 {
         return Err(Error::SingleTemperature);
     }
-    let l = (b.k / a.k).ln();
+    // ln K₂ − ln K₁ rather than ln(K₂/K₁): the ratio of extreme constants can overflow.
+    let l = b.k.ln() - a.k.ln();
     let dh = r * l / d;
     // Partial derivatives of ΔH°.
     let dh_dlnk1 = -r / d;
@@ -181,6 +198,9 @@ pub fn enthalpy_from_pairs(
         + (ds_dlnk2 * b.sigma_ln_k).powi(2)
         + (ds_dt1 * a.sigma_t_k).powi(2)
         + (ds_dt2 * b.sigma_t_k).powi(2);
+    if ![dh, ds, var_h, var_s].iter().all(|v| v.is_finite()) {
+        return Err(overflow());
+    }
     Ok(TwoPointEnthalpy {
         delta_h: Estimate::symmetric(dh, var_h.sqrt(), z),
         delta_s: Estimate::symmetric(ds, var_s.sqrt(), z),

@@ -445,7 +445,8 @@ pub(crate) fn statistics(
 /// Any invalid point or option ([`Error::NonFinite`], [`Error::NonPositiveTemperature`],
 /// [`Error::NonPositiveSigma`], [`Error::InvalidLevel`], …); [`Error::MissingSigma`] for a
 /// weighted fit with a used point lacking σ; [`Error::TooFewPoints`] when fewer than p + 1
-/// points are used (p under absolute σ); [`Error::SingleTemperature`]; [`Error::RankDeficient`].
+/// points are used (p under absolute σ); [`Error::SingleTemperature`]; [`Error::RankDeficient`];
+/// [`Error::NoSolution`] when the numbers overflow (absurd units or reference temperature).
 ///
 /// # Examples
 /// ```
@@ -551,6 +552,11 @@ pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, 
     };
     out.at_reference = out.thermo_at(options.t_ref_k);
     out.at_harmonic = out.thermo_at(t_harmonic_k);
+    if !out.all_estimates_finite() {
+        return Err(Error::NoSolution(
+            "the numbers are too large or too small to compute with; check the units (temperatures in kelvin, ln K rather than K, σ of ln K) and the reference temperature".into(),
+        ));
+    }
     out.t_at_k1 = out.temperature_for_k(1.0).ok();
     // The comparison needs only the other model's χ² on the same points and weights.
     out.comparison = if lin.n >= 4 {
@@ -788,6 +794,21 @@ impl ThermoAt {
 }
 
 impl VantHoffFit {
+    /// Whether every estimate, the covariance and the values at θ and at the harmonic-mean
+    /// temperature are finite numbers.
+    fn all_estimates_finite(&self) -> bool {
+        let est = |e: &Estimate| {
+            e.value.is_finite() && e.se.is_finite() && e.ci_low.is_finite() && e.ci_high.is_finite()
+        };
+        self.params.iter().all(|p| est(&p.estimate))
+            && self.covariance.iter().flatten().all(|v| v.is_finite())
+            && [&self.at_reference, &self.at_harmonic]
+                .iter()
+                .all(|t| est(&t.delta_h) && est(&t.delta_s) && est(&t.delta_g))
+            && self.t_harmonic_k.is_finite()
+            && self.new_observation_variance.is_finite()
+    }
+
     /// The model fitted.
     pub fn model(&self) -> Model {
         self.options.model
