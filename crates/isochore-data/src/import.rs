@@ -539,7 +539,29 @@ fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Pars
         .map(|s| s.unescaped(text).trim().to_string())
         .collect();
     if delimiter == Delimiter::Whitespace {
-        headers = text::merge_whitespace_header(headers);
+        // Headers may hold single spaces ("ln K", "T (K)"); data cells never do. Choose the
+        // reading of the header whose column count matches the first data row.
+        let merged = text::merge_whitespace_header(headers.clone());
+        let line = &text[head.start as usize..head.end as usize];
+        let wide = text::split_wide(line);
+        let mut peek = Reader::new(
+            text,
+            reader.position(),
+            delimiter,
+            o.max_line_bytes,
+            o.max_columns,
+            file,
+        );
+        let data_cols = match peek.next_record() {
+            Ok(Some(_)) => Some(peek.spans.len()),
+            _ => None,
+        };
+        headers = match data_cols {
+            Some(n) if headers.len() == n => headers,
+            Some(n) if merged.len() == n => merged,
+            Some(n) if wide.len() == n => wide,
+            _ => merged,
+        };
     }
     let (mut mapping, t_known) = match &o.mapping {
         Some(m) => {

@@ -433,6 +433,32 @@ pub(crate) fn merge_whitespace_header(tokens: Vec<String>) -> Vec<String> {
     out
 }
 
+/// Splits a header line at tabs and at runs of two or more spaces.
+pub(crate) fn split_wide(line: &str) -> Vec<String> {
+    let mut out = Vec::new();
+    let mut cur = String::new();
+    let mut spaces = 0usize;
+    for ch in line.chars() {
+        match ch {
+            ' ' => spaces += 1,
+            '\t' => spaces += 2,
+            c => {
+                if spaces >= 2 && !cur.is_empty() {
+                    out.push(std::mem::take(&mut cur));
+                } else if spaces == 1 && !cur.is_empty() {
+                    cur.push(' ');
+                }
+                spaces = 0;
+                cur.push(c);
+            }
+        }
+    }
+    if !cur.is_empty() {
+        out.push(cur);
+    }
+    out
+}
+
 /// Guesses the delimiter from the first lines that are neither blank nor comments.
 pub(crate) fn detect_delimiter(text: &str, start: usize) -> Delimiter {
     let mut lines: Vec<&str> = Vec::new();

@@ -1,0 +1,228 @@
+//! Checks the importer against the fixture folders at the repository root:
+//! `tests/data/import/` (good files in every dialect, each with `<file>.expected.json` holding
+//! the values it must give, computed independently by `make_fixtures.py` from the unit
+//! definitions cited there) and `tests/data/bad/` (one fault per file; `expected.json` lists
+//! the message fragments, with line and column, each must give).
+
+use isochore_data::{import_path, Import, ImportOptions, Replicates};
+use serde_json::Value;
+use std::path::PathBuf;
+
+fn data_dir(sub: &str) -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+        .join("../../tests/data")
+        .join(sub)
+}
+
+fn close(a: f64, b: f64, what: &str, file: &str) {
+    let tol = 1e-12 * a.abs().max(b.abs()).max(1.0);
+    assert!(
+        (a - b).abs() <= tol,
+        "{file}: {what}: got {a}, expected {b}"
+    );
+}
+
+fn fixture_files(dir: &PathBuf) -> Vec<PathBuf> {
+    let mut v: Vec<PathBuf> = std::fs::read_dir(dir)
+        .expect("fixture folder")
+        .map(|e| e.expect("entry").path())
+        .filter(|p| {
+            let n = p.file_name().unwrap().to_string_lossy().to_string();
+            !n.ends_with(".json") && !n.ends_with(".py")
+        })
+        .collect();
+    v.sort();
+    v
+}
+
+fn check_mapping(imp: &Import, exp: &Value, file: &str) {
+    assert_eq!(imp.delimiter.name(), exp["delimiter"], "{file}: delimiter");
+    assert_eq!(
+        imp.decimal_comma,
+        exp["decimal_comma"].as_bool().unwrap(),
+        "{file}: decimal comma"
+    );
+    let headers: Vec<String> = exp["headers"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|h| h.as_str().unwrap().to_string())
+        .collect();
+    assert_eq!(imp.headers, headers, "{file}: headers");
+    let t = &exp["temperature"];
+    let m = &imp.mapping;
+    assert_eq!(
+        m.temperature.column as u64,
+        t["column"].as_u64().unwrap(),
+        "{file}"
+    );
+    assert_eq!(
+        serde_json::to_value(m.temperature.unit).unwrap(),
+        t["unit"],
+        "{file}: temperature unit"
+    );
+    assert_eq!(
+        m.temperature.assumed,
+        t["assumed"].as_bool().unwrap(),
+        "{file}"
+    );
+    let q = &exp["quantity"];
+    assert_eq!(
+        m.quantity.column as u64,
+        q["column"].as_u64().unwrap(),
+        "{file}"
+    );
+    assert_eq!(m.quantity.kind.label(), q["label"], "{file}: quantity");
+    match (&m.uncertainty, &exp["uncertainty"]) {
+        (None, Value::Null) => {}
+        (Some(u), e) if !e.is_null() => {
+            assert_eq!(u.column as u64, e["column"].as_u64().unwrap(), "{file}");
+            let relative = matches!(u.kind, isochore_data::UncertaintyKind::RelativePercent);
+            assert_eq!(
+                relative,
+                e["relative"].as_bool().unwrap(),
+                "{file}: relative σ"
+            );
+        }
+        (got, want) => panic!("{file}: uncertainty {got:?}, expected {want}"),
+    }
+    if let Some(sc) = exp.get("series_column") {
+        assert_eq!(
+            m.series.map(|c| c as u64),
+            sc.as_u64(),
+            "{file}: series column"
+        );
+    }
+}
+
+#[test]
+fn good_files_give_the_expected_values() {
+    let dir = data_dir("import");
+    let files = fixture_files(&dir);
+    assert!(
+        files.len() >= 14,
+        "expected the good fixtures, found {}",
+        files.len()
+    );
+    for path in files {
+        let file = path.file_name().unwrap().to_string_lossy().to_string();
+        let exp_path = dir.join(format!("{file}.expected.json"));
+        let exp: Value =
+            serde_json::from_str(&std::fs::read_to_string(&exp_path).expect("expected json"))
+                .expect("valid json");
+        let imp = match import_path(&path, &ImportOptions::default()) {
+            Ok(i) => i,
+            Err(e) => panic!("{file}: {e}"),
+        };
+        check_mapping(&imp, &exp, &file);
+        let series = exp["series"].as_array().unwrap();
+        assert_eq!(
+            imp.series.len(),
+            series.len(),
+            "{file}: number of data sets"
+        );
+        for (s, es) in imp.series.iter().zip(series) {
+            assert_eq!(s.name, es["name"], "{file}: data set name");
+            let rows = es["rows"].as_array().unwrap();
+            assert_eq!(s.rows.len(), rows.len(), "{file}: rows of '{}'", s.name);
+            for (k, (r, er)) in s.rows.iter().zip(rows).enumerate() {
+                assert_eq!(r.line as u64, er["line"].as_u64().unwrap(), "{file}: line");
+                assert_eq!(r.row, k + 1, "{file}: row number");
+                close(r.t_k, er["t_k"].as_f64().unwrap(), "T", &file);
+                close(r.ln_k, er["ln_k"].as_f64().unwrap(), "ln K", &file);
+                match (r.sigma_ln_k, er["sigma_ln_k"].as_f64()) {
+                    (None, None) => {}
+                    (Some(a), Some(b)) => close(a, b, "σ(ln K)", &file),
+                    (a, b) => panic!("{file}: line {}: σ {a:?} vs {b:?}", r.line),
+                }
+                assert_eq!(r.note.as_deref(), er["note"].as_str(), "{file}: note");
+            }
+        }
+        let rejected = exp["rejected"].as_array().unwrap();
+        assert_eq!(
+            imp.rejected.len(),
+            rejected.len(),
+            "{file}: {:?}",
+            imp.rejected
+        );
+        for (r, er) in imp.rejected.iter().zip(rejected) {
+            assert_eq!(r.line as u64, er["line"].as_u64().unwrap(), "{file}");
+            assert_eq!(r.column.map(|c| c as u64), er["column"].as_u64(), "{file}");
+            assert!(r.message().starts_with(&format!("line {}", r.line)));
+        }
+        if let Some(avg) = exp.get("averaged") {
+            let o = ImportOptions {
+                replicates: Replicates::Average,
+                ..ImportOptions::default()
+            };
+            let imp = import_path(&path, &o).unwrap();
+            for s in &imp.series {
+                let want = avg[&s.name].as_array().unwrap();
+                let pts = s.points(&[]);
+                assert_eq!(
+                    pts.len(),
+                    want.len(),
+                    "{file}: averaged points of {}",
+                    s.name
+                );
+                for (p, w) in pts.iter().zip(want) {
+                    close(
+                        p.measurement.t_k,
+                        w["t_k"].as_f64().unwrap(),
+                        "mean T",
+                        &file,
+                    );
+                    close(
+                        p.measurement.ln_k,
+                        w["ln_k"].as_f64().unwrap(),
+                        "mean ln K",
+                        &file,
+                    );
+                    close(
+                        p.measurement.sigma_ln_k.unwrap(),
+                        w["sigma_ln_k"].as_f64().unwrap(),
+                        "σ of mean",
+                        &file,
+                    );
+                    assert_eq!(p.rows.len() as u64, w["rows"].as_u64().unwrap());
+                }
+            }
+        }
+    }
+}
+
+#[test]
+fn bad_files_give_the_expected_messages() {
+    let dir = data_dir("bad");
+    let expected: Value = serde_json::from_str(
+        &std::fs::read_to_string(dir.join("expected.json")).expect("expected.json"),
+    )
+    .unwrap();
+    let expected = expected.as_object().unwrap();
+    let files = fixture_files(&dir);
+    assert!(
+        files.len() >= 20,
+        "at least 20 bad files, found {}",
+        files.len()
+    );
+    for path in files {
+        let file = path.file_name().unwrap().to_string_lossy().to_string();
+        let fragments = expected
+            .get(&file)
+            .unwrap_or_else(|| panic!("{file} has no entry in expected.json"));
+        let message = match import_path(&path, &ImportOptions::default()) {
+            Err(e) => e.to_string(),
+            Ok(imp) => match imp.strict() {
+                Err(e) => e.to_string(),
+                Ok(_) => panic!("{file}: accepted without complaint"),
+            },
+        };
+        for f in fragments.as_array().unwrap() {
+            let f = f.as_str().unwrap();
+            assert!(
+                message.contains(f),
+                "{file}: message\n  {message}\nlacks\n  {f}"
+            );
+        }
+    }
+}
