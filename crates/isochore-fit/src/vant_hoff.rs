@@ -231,8 +231,10 @@ pub struct VantHoffFit {
     pub t_min_k: f64,
     /// Highest used temperature, K.
     pub t_max_k: f64,
-    /// Weighted harmonic-mean temperature of the used points, 1/T_h = Σwᵢ(1/Tᵢ)/Σwᵢ, where
-    /// ΔH° and ΔS° are least correlated.
+    /// Weighted harmonic-mean temperature of the used points, 1/T_h = Σwᵢ(1/Tᵢ)/Σwᵢ. There
+    /// ΔG°(T_h) is uncorrelated with ΔH° (exactly for the linear model, where 1/T − 1/T_h is
+    /// the centred column), so (ΔH°, ΔG°(T_h)) is the pair to quote; ΔH° and ΔS° themselves
+    /// stay strongly correlated at any temperature, because ΔS° = (ΔH° − ΔG°)/T.
     pub t_harmonic_k: f64,
     /// The parameters at the reference temperature θ (the linear model's θ is 298.15 K by
     /// default; there ΔH° and ΔS° are the same at any T).
@@ -598,7 +600,7 @@ pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, 
         warnings.push(Warning::new(
             WarningKind::StrongCorrelation,
             format!(
-                "ΔH° and ΔS° are strongly correlated (r = {corr_h_s:.4}); their separate intervals overstate what is known jointly — quote the covariance or the values at the mean temperature {:.1} K, where they are least correlated",
+                "ΔH° and ΔS° are strongly correlated (r = {corr_h_s:.4}); their separate intervals overstate what is known jointly — quote the covariance, or ΔH° with ΔG° at the mean temperature {:.1} K, where the two are nearly uncorrelated",
                 t_harmonic_k
             ),
         ));
