@@ -476,3 +476,53 @@ fn fit_problem(e: isochore_fit::Error) -> RowProblem {
         _ => RowProblem::OutOfRange,
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use proptest::prelude::*;
+
+    #[test]
+    fn numbers_as_labs_write_them() {
+        // Common practice in lab files: leading '+', spaces, Unicode minus, decimal comma.
+        assert_eq!(parse_number("25", false), Ok(25.0));
+        assert_eq!(parse_number(" +1.5e3 ", false), Ok(1500.0));
+        assert_eq!(parse_number("\u{2212}7.62", false), Ok(-7.62));
+        assert_eq!(parse_number("7,62", true), Ok(7.62));
+        assert_eq!(parse_number("7,62", false), Err(RowProblem::NotANumber));
+        assert_eq!(parse_number("", false), Err(RowProblem::Empty));
+        assert_eq!(parse_number("  ", false), Err(RowProblem::Empty));
+        assert_eq!(parse_number("NaN", false), Err(RowProblem::NotFinite));
+        assert_eq!(parse_number("-inf", false), Err(RowProblem::NotFinite));
+        assert_eq!(parse_number("1e400", false), Err(RowProblem::NotFinite));
+        assert_eq!(parse_number("1.2.3", false), Err(RowProblem::NotANumber));
+        assert_eq!(parse_number("12 nM", false), Err(RowProblem::NotANumber));
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 2000, ..ProptestConfig::default() })]
+
+        /// The fast path agrees bit for bit with the standard library's correctly rounded
+        /// parser (Rust 1.55+ `str::parse::<f64>`) whenever it answers.
+        #[test]
+        fn fast_path_matches_std(m in 0u64..(1 << 54), frac in 0u32..20, e in -30i32..30, neg in any::<bool>(), exp_form in any::<bool>()) {
+            let digits = m.to_string();
+            let cut = digits.len().saturating_sub(frac as usize);
+            let mut s = String::new();
+            if neg { s.push('-'); }
+            s.push_str(&digits[..cut]);
+            if cut < digits.len() { s.push('.'); s.push_str(&digits[cut..]); }
+            if exp_form { s.push_str(&format!("e{e}")); }
+            if let Some(v) = fast_decimal(s.as_bytes(), false) {
+                let want: f64 = s.parse().unwrap();
+                prop_assert_eq!(v.to_bits(), want.to_bits(), "{}", s);
+            }
+        }
+
+        #[test]
+        fn parse_number_never_panics(s in ".{0,80}") {
+            let _ = parse_number(&s, true);
+            let _ = parse_number(&s, false);
+        }
+    }
+}

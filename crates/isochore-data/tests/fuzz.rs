@@ -1,0 +1,263 @@
+//! Property tests over arbitrary input: the reader and the project loader must never panic
+//! on any byte sequence (a bounded number of cases runs with the normal test suite), and a
+//! project must survive save → load unchanged.
+
+use isochore_data::{
+    import_bytes, ColumnMapping, ConcentrationUnit, EnergyUnit, Exclusion, ImportOptions, Project,
+    ProjectSeries, QuantityKind, RawRow, Replicates, SeriesSettings, SourceInfo, TemperatureUnit,
+    UncertaintyColumn, UncertaintyKind, SCHEMA_VERSION,
+};
+use isochore_fit::{FitOptions, FlagThresholds, Model, SigmaConvention, Weighting};
+use proptest::collection::vec;
+use proptest::prelude::*;
+
+/// Bytes that look like a lab file often enough to reach deep into the reader.
+fn csvish() -> impl Strategy<Value = Vec<u8>> {
+    let pieces: Vec<&'static [u8]> = vec![
+        b"T (\xc2\xb0C)",
+        b"T/K",
+        b"temp_K",
+        b"K",
+        b"pKa",
+        b"Kd (nM)",
+        b"u(pKa)",
+        b"sd_Kd (nM)",
+        b"\xce\x94G/kJ mol-1",
+        b"sample",
+        b"note",
+        b"sd (%)",
+        b"ln K",
+        b",",
+        b";",
+        b"\t",
+        b" ",
+        b"  ",
+        b"\n",
+        b"\r\n",
+        b"\"",
+        b"\"\"",
+        b"#",
+        b"25",
+        b"25.5",
+        b"7,5",
+        b"-300",
+        b"0",
+        b"1e-7",
+        b"NaN",
+        b"inf",
+        b"abc",
+        b"\xb0",
+        b"\xff\xfe",
+        b"\xef\xbb\xbf",
+        b"\x00",
+        b"|",
+        b"\xe2\x88\x92",
+        b"1e400",
+        b"-",
+        b".",
+        b"(",
+        b")",
+    ];
+    vec(proptest::sample::select(pieces), 0..120).prop_map(|v| v.concat())
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 256, ..ProptestConfig::default() })]
+
+    #[test]
+    fn reader_never_panics_on_bytes(bytes in vec(any::<u8>(), 0..2048)) {
+        let _ = import_bytes("fuzz.csv", &bytes, &ImportOptions::default());
+    }
+
+    #[test]
+    fn reader_never_panics_on_csvish_input(bytes in csvish(), avg in any::<bool>()) {
+        let o = ImportOptions {
+            replicates: if avg { Replicates::Average } else { Replicates::Keep },
+            min_points: 1,
+            ..ImportOptions::default()
+        };
+        if let Ok(imp) = import_bytes("fuzz.csv", &bytes, &o) {
+            // Everything reachable from a successful import is safe too.
+            for s in &imp.series {
+                for r in &s.rows {
+                    let _ = imp.cells(r);
+                }
+                let _ = s.points(&[1]);
+                let _ = isochore_data::export_csv(s, imp.mapping.quantity.kind);
+            }
+            let p = Project::from_import(&imp);
+            for s in &p.series {
+                prop_assert_eq!(s.measurements().unwrap().len() >= 1, true);
+            }
+            let _ = imp.strict();
+        }
+    }
+
+    #[test]
+    fn project_loader_never_panics(bytes in vec(any::<u8>(), 0..2048)) {
+        let text = String::from_utf8_lossy(&bytes);
+        let _ = Project::from_json(&text, "fuzz.json");
+    }
+
+    #[test]
+    fn project_loader_never_panics_on_mangled_projects(p in project(), cut in 0usize..4000, flip in 0usize..4000, byte in any::<u8>()) {
+        let json = p.to_json();
+        let mut b = json.into_bytes();
+        if !b.is_empty() {
+            let i = flip % b.len();
+            b[i] = byte;
+            b.truncate(cut.max(1).min(b.len()));
+        }
+        let _ = Project::from_json(&String::from_utf8_lossy(&b), "mangled.json");
+    }
+
+    #[test]
+    fn project_round_trips_through_a_file(p in project()) {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("p.isochore.json");
+        p.save_atomic(&path).unwrap();
+        p.save_atomic(&path).unwrap();
+        let back = Project::load(&path).unwrap();
+        prop_assert_eq!(back, p);
+    }
+}
+
+fn finite() -> impl Strategy<Value = f64> {
+    prop_oneof![-1e300..1e300f64, -1.0..1.0f64, Just(0.0), 1e-300..1e-200f64]
+}
+
+fn quantity_kind() -> impl Strategy<Value = QuantityKind> {
+    prop_oneof![
+        Just(QuantityKind::K),
+        Just(QuantityKind::LnK),
+        Just(QuantityKind::Log10K),
+        Just(QuantityKind::PK),
+        Just(QuantityKind::DissociationConstant(
+            ConcentrationUnit::Nanomolar
+        )),
+        Just(QuantityKind::DissociationConstant(ConcentrationUnit::Molar)),
+        Just(QuantityKind::DeltaG(EnergyUnit::KilocaloriePerMole)),
+    ]
+}
+
+fn settings() -> impl Strategy<Value = SeriesSettings> {
+    (
+        any::<bool>(),
+        1.0..1000.0f64,
+        any::<bool>(),
+        any::<bool>(),
+        0.01..0.999f64,
+        (finite(), finite(), finite()),
+        any::<bool>(),
+        0.0..1.0f64,
+    )
+        .prop_map(
+            |(cp, t_ref, w, c, level, (a, b, d), avg, tol)| SeriesSettings {
+                fit: FitOptions {
+                    model: if cp { Model::ConstantCp } else { Model::Linear },
+                    t_ref_k: t_ref,
+                    weighting: if w {
+                        Weighting::Unweighted
+                    } else {
+                        Weighting::InverseVariance
+                    },
+                    convention: if c {
+                        SigmaConvention::Absolute
+                    } else {
+                        SigmaConvention::ScaledByFit
+                    },
+                    level,
+                    thresholds: FlagThresholds {
+                        outlier_studentized: a,
+                        leverage_factor: b,
+                        cooks_factor: d,
+                    },
+                },
+                energy_unit: if w {
+                    EnergyUnit::KilocaloriePerMole
+                } else {
+                    EnergyUnit::JoulePerMole
+                },
+                temperature_unit: if c {
+                    TemperatureUnit::Fahrenheit
+                } else {
+                    TemperatureUnit::Kelvin
+                },
+                replicates: if avg {
+                    Replicates::Average
+                } else {
+                    Replicates::Keep
+                },
+                replicate_tolerance_k: tol,
+            },
+        )
+}
+
+fn series() -> impl Strategy<Value = ProjectSeries> {
+    (
+        any::<String>(),
+        vec(any::<String>(), 3..5),
+        vec((1usize..100_000, vec(any::<String>(), 0..5)), 1..6),
+        quantity_kind(),
+        settings(),
+        any::<String>(),
+        vec((any::<String>(), any::<String>()), 0..3),
+        any::<u64>(),
+        any::<bool>(),
+    )
+        .prop_map(
+            |(name, headers, rows, kind, settings, notes, excl, bytes, comma)| {
+                let n = rows.len();
+                let mut mapping = ColumnMapping::new(0, TemperatureUnit::Celsius, 1, kind);
+                mapping.uncertainty = Some(UncertaintyColumn {
+                    column: 2,
+                    kind: if comma {
+                        UncertaintyKind::RelativePercent
+                    } else {
+                        UncertaintyKind::Absolute(kind)
+                    },
+                });
+                ProjectSeries {
+                    name,
+                    source: SourceInfo {
+                        name: "f.csv".into(),
+                        path: if comma {
+                            None
+                        } else {
+                            Some("/tmp/f.csv".into())
+                        },
+                        sha256: "00".repeat(32),
+                        bytes,
+                    },
+                    headers,
+                    header_line: 1,
+                    mapping,
+                    decimal_comma: comma,
+                    rows: rows
+                        .into_iter()
+                        .map(|(line, cells)| RawRow { line, cells })
+                        .collect(),
+                    settings,
+                    exclusions: excl
+                        .into_iter()
+                        .enumerate()
+                        .filter(|(i, _)| *i < n)
+                        .map(|(i, (reason, at))| Exclusion {
+                            row: i + 1,
+                            reason,
+                            at,
+                        })
+                        .collect(),
+                    notes,
+                }
+            },
+        )
+}
+
+fn project() -> impl Strategy<Value = Project> {
+    (vec(series(), 0..3), any::<String>()).prop_map(|(series, notes)| Project {
+        schema_version: SCHEMA_VERSION,
+        series,
+        notes,
+    })
+}

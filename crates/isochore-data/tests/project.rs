@@ -1,0 +1,300 @@
+//! Project files (exclusions, atomic save with backup, refusing newer or damaged files
+//! without touching them), CSV export read back by the importer, mapping overrides, size
+//! limits, replicate averaging and strict mode.
+
+use isochore_data::{
+    export_csv, import_path, import_text, sha256_hex, ColumnMapping, ConcentrationUnit, Error,
+    ImportOptions, Project, QuantityKind, Replicates, TemperatureUnit, SCHEMA_VERSION,
+};
+use std::path::PathBuf;
+
+fn fixture(name: &str) -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+        .join("../../tests/data/import")
+        .join(name)
+}
+
+const AT: &str = "2026-12-01T21:00:00Z";
+
+#[test]
+fn project_recomputes_the_import_exactly_and_applies_exclusions() {
+    let imp = import_path(
+        fixture("comma_celsius_kd_crlf.csv"),
+        &ImportOptions::default(),
+    )
+    .unwrap();
+    let mut p = Project::from_import(&imp);
+    assert_eq!(p.schema_version, SCHEMA_VERSION);
+    assert_eq!(p.series.len(), 1);
+    let s = &mut p.series[0];
+    // Raw cells as typed, including the quoted note with its comma.
+    assert_eq!(
+        s.rows[1].cells,
+        vec!["17.5", "92.91", "0.0065", "fresh buffer, new lot"]
+    );
+    assert_eq!(s.rows[1].line, 3);
+    assert_eq!(s.source.sha256, imp.source.sha256);
+    let from_import = imp.series[0].measurements(&[]);
+    assert_eq!(s.measurements().unwrap(), from_import);
+    s.exclude(2, "air bubble", AT).unwrap();
+    let m = s.measurements().unwrap();
+    assert!(!m[1].included && m[0].included && m[2].included);
+    assert_eq!(m.len(), 4, "excluded points stay, marked");
+    assert!(matches!(
+        s.exclude(5, "x", AT),
+        Err(Error::NoSuchRow {
+            row: 5,
+            rows: 4,
+            ..
+        })
+    ));
+    assert!(s.include(2));
+    assert!(!s.include(2));
+    assert!(s.measurements().unwrap().iter().all(|m| m.included));
+}
+
+#[test]
+fn save_keeps_a_backup_and_load_round_trips() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("work.isochore.json");
+    let imp = import_path(
+        fixture("series_replicates_relative.csv"),
+        &ImportOptions::default(),
+    )
+    .unwrap();
+    let mut p = Project::from_import(&imp);
+    p.notes = "first draft".into();
+    p.save_atomic(&path).unwrap();
+    let first = std::fs::read(&path).unwrap();
+    assert_eq!(Project::load(&path).unwrap(), p);
+
+    p.series[1]
+        .exclude(3, "pipetting error, see notebook p. 12", AT)
+        .unwrap();
+    p.series[0].settings.fit.level = 0.9;
+    p.save_atomic(&path).unwrap();
+    let bak = dir.path().join("work.isochore.json.bak");
+    assert_eq!(std::fs::read(&bak).unwrap(), first, "previous version kept");
+    let back = Project::load(&path).unwrap();
+    assert_eq!(back, p);
+    assert_eq!(back.series[1].excluded_rows(), vec![3]);
+    // No temporary files left behind.
+    let names: Vec<String> = std::fs::read_dir(dir.path())
+        .unwrap()
+        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
+        .collect();
+    assert_eq!(names.len(), 2, "{names:?}");
+}
+
+#[test]
+fn newer_or_damaged_projects_are_refused_and_left_alone() {
+    let dir = tempfile::tempdir().unwrap();
+    let imp = import_path(fixture("tab_kelvin_logk.tsv"), &ImportOptions::default()).unwrap();
+    let json = Project::from_import(&imp).to_json();
+
+    let newer = dir.path().join("newer.json");
+    let text = json.replacen(
+        &format!("\"schema_version\": {SCHEMA_VERSION}"),
+        "\"schema_version\": 99",
+        1,
+    );
+    std::fs::write(&newer, &text).unwrap();
+    let e = Project::load(&newer).unwrap_err();
+    assert!(matches!(e, Error::ProjectTooNew { found: 99, .. }), "{e}");
+    assert!(e.to_string().contains("newer"));
+    assert_eq!(std::fs::read_to_string(&newer).unwrap(), text);
+
+    let damaged = dir.path().join("damaged.json");
+    let cut = &json[..json.len() / 2];
+    std::fs::write(&damaged, cut).unwrap();
+    let e = Project::load(&damaged).unwrap_err();
+    let msg = e.to_string();
+    assert!(matches!(e, Error::ProjectDamaged { .. }), "{msg}");
+    assert!(msg.contains("line") && msg.contains("column"), "{msg}");
+    assert_eq!(std::fs::read_to_string(&damaged).unwrap(), cut);
+
+    // Valid JSON, but an exclusion of a row the data set does not have.
+    let mut p = Project::from_import(&imp);
+    p.series[0].exclusions.push(isochore_data::Exclusion {
+        row: 40,
+        reason: "x".into(),
+        at: AT.into(),
+    });
+    let e = Project::from_json(&p.to_json(), "p.json").unwrap_err();
+    assert!(e.to_string().contains("row 40"), "{e}");
+}
+
+#[test]
+fn export_reads_back_the_same_values() {
+    for f in [
+        "comma_celsius_kd_crlf.csv",
+        "semicolon_decimal_comma_bom.csv",
+        "slash_units_dg_kj.csv",
+        "underscore_kelvin_kd_pm.csv",
+        "quoted_multiline_note.csv",
+        "pipe_fahrenheit_ka.txt",
+    ] {
+        let imp = import_path(fixture(f), &ImportOptions::default()).unwrap();
+        let kind = imp.mapping.quantity.kind;
+        let csv = export_csv(&imp.series[0], kind);
+        let back = import_text(f, &csv, &ImportOptions::default())
+            .unwrap_or_else(|e| panic!("{f}: {e}\n{csv}"));
+        assert_eq!(back.mapping.quantity.kind, kind, "{f}");
+        assert_eq!(back.mapping.temperature.unit, TemperatureUnit::Kelvin);
+        let (a, b) = (&imp.series[0].rows, &back.series[0].rows);
+        assert_eq!(a.len(), b.len());
+        for (x, y) in a.iter().zip(b) {
+            assert_eq!(x.t_k, y.t_k, "{f}: T is written in full");
+            assert!(
+                (x.ln_k - y.ln_k).abs() < 1e-12 * x.ln_k.abs().max(1.0),
+                "{f}"
+            );
+            match (x.sigma_ln_k, y.sigma_ln_k) {
+                (Some(s), Some(t)) => assert!((s - t).abs() < 1e-12 * s, "{f}"),
+                (None, None) => {}
+                other => panic!("{f}: {other:?}"),
+            }
+            assert_eq!(x.note, y.note, "{f}");
+        }
+        // The project export records exclusions as comments the importer skips.
+        let mut p = Project::from_import(&imp);
+        p.series[0]
+            .exclude(1, "first point, warming up", AT)
+            .unwrap();
+        let csv = p.series[0].export_csv().unwrap();
+        assert!(csv.contains("# excluded row 1 at 2026-12-01T21:00:00Z: first point, warming up"));
+        assert_eq!(
+            import_text(f, &csv, &ImportOptions::default())
+                .unwrap()
+                .series[0]
+                .rows
+                .len(),
+            a.len()
+        );
+    }
+}
+
+#[test]
+fn mapping_can_be_overridden() {
+    let text = "Temp,Signal\n10,5.0\n20,5.5\n30,6.1\n";
+    let e = import_text("x.csv", text, &ImportOptions::default()).unwrap_err();
+    assert!(e.to_string().contains("'Signal'"), "{e}");
+    let o = ImportOptions {
+        mapping: Some(ColumnMapping::new(
+            0,
+            TemperatureUnit::Celsius,
+            1,
+            QuantityKind::DissociationConstant(ConcentrationUnit::Micromolar),
+        )),
+        ..ImportOptions::default()
+    };
+    let imp = import_text("x.csv", text, &o).unwrap();
+    // K_d = 5 µM → K = 1 M / 5e-6 M = 2e5 (definition of the association constant).
+    assert!((imp.series[0].rows[0].ln_k - (2e5f64).ln()).abs() < 1e-12);
+    assert!(imp.describe_mapping()[1].contains("K_d (µM)"));
+    let bad = ImportOptions {
+        mapping: Some(ColumnMapping::new(
+            0,
+            TemperatureUnit::Celsius,
+            5,
+            QuantityKind::K,
+        )),
+        ..ImportOptions::default()
+    };
+    let e = import_text("x.csv", text, &bad).unwrap_err();
+    assert!(e.to_string().contains("column 6 but the file has 2"), "{e}");
+    // Unknown columns may be ignored on request.
+    let o = ImportOptions {
+        ignore_unknown_columns: true,
+        ..ImportOptions::default()
+    };
+    let imp = import_text(
+        "x.csv",
+        "T/K,K,Absorbance\n280,2,0.1\n290,3,0.2\n300,4,0.3\n",
+        &o,
+    )
+    .unwrap();
+    assert_eq!(imp.mapping.ignored, vec![2]);
+}
+
+#[test]
+fn size_limits_are_enforced_with_messages() {
+    let text = "T/K,K\n280,2\n290,3\n300,4\n";
+    let o = ImportOptions {
+        max_file_bytes: 10,
+        ..ImportOptions::default()
+    };
+    let e = import_text("big.csv", text, &o).unwrap_err();
+    assert!(matches!(e, Error::FileTooLarge { limit: 10, .. }), "{e}");
+    assert!(e.to_string().contains("more than the limit of 10 bytes"));
+    let o = ImportOptions {
+        max_columns: 1,
+        ..ImportOptions::default()
+    };
+    assert!(import_text("c.csv", text, &o)
+        .unwrap_err()
+        .to_string()
+        .contains("line 1 has at least 2 columns"));
+}
+
+#[test]
+fn replicates_without_sigma_take_it_from_the_spread() {
+    let text = "T (°C),K\n25,100\n25,110\n25.02,120\n35,80\n45,60\n";
+    let o = ImportOptions {
+        replicates: Replicates::Average,
+        ..ImportOptions::default()
+    };
+    let imp = import_text("r.csv", text, &o).unwrap();
+    let pts = imp.series[0].points(&[]);
+    assert_eq!(pts.len(), 3);
+    assert_eq!(pts[0].rows, vec![1, 2, 3]);
+    // Standard error of the mean, s/√n, of the three ln K (common practice).
+    let l = [100f64.ln(), 110f64.ln(), 120f64.ln()];
+    let m = l.iter().sum::<f64>() / 3.0;
+    let s = (l.iter().map(|x| (x - m).powi(2)).sum::<f64>() / 2.0).sqrt();
+    assert!((pts[0].measurement.ln_k - m).abs() < 1e-14);
+    assert!((pts[0].measurement.sigma_ln_k.unwrap() - s / 3f64.sqrt()).abs() < 1e-14);
+    assert!((pts[0].measurement.t_k - (298.15 + 298.15 + 298.17) / 3.0).abs() < 1e-12);
+    assert_eq!(pts[1].measurement.sigma_ln_k, None, "one row, no σ column");
+    // Excluding a replicate takes it out of the mean and keeps it as its own point.
+    let pts = imp.series[0].points(&[2]);
+    assert_eq!(pts.len(), 4);
+    assert_eq!(pts[0].rows, vec![1, 3]);
+    assert!(!pts[1].measurement.included && pts[1].rows == vec![2]);
+    // Kept by default.
+    let imp = import_text("r.csv", text, &ImportOptions::default()).unwrap();
+    assert_eq!(imp.series[0].measurements(&[]).len(), 5);
+}
+
+#[test]
+fn strict_mode_and_source_hash() {
+    let text = "T/K,K\n280,2\n290,x\n300,4\n310,5\n";
+    let imp = import_text("s.csv", text, &ImportOptions::default()).unwrap();
+    assert_eq!(imp.rejected.len(), 1);
+    let e = imp.clone().strict().unwrap_err();
+    assert_eq!(
+        e.to_string(),
+        "s.csv: line 3, column 2 ('K'): 'x' is not a number; write a decimal number such as 25.0, 0.5 or 1.2e-3"
+    );
+    assert_eq!(imp.source.sha256, sha256_hex(text.as_bytes()));
+    assert_eq!(imp.source.bytes, text.len() as u64);
+    // FIPS 180-2, appendix B.1: SHA-256("abc").
+    assert_eq!(
+        sha256_hex(b"abc"),
+        "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad"
+    );
+}
+
+#[test]
+fn two_point_data_sets_allowed_on_request() {
+    let text = "T/K,K\n280,2\n300,4\n";
+    assert!(import_text("t.csv", text, &ImportOptions::default()).is_err());
+    let o = ImportOptions {
+        min_points: 2,
+        ..ImportOptions::default()
+    };
+    assert_eq!(
+        import_text("t.csv", text, &o).unwrap().series[0].rows.len(),
+        2
+    );
+}
