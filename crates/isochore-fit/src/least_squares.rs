@@ -414,7 +414,8 @@ fn solve_impl(
     let r = qr.r();
     let max_diag = (0..p).map(|j| r[(j, j)].abs()).fold(0.0, f64::max);
     for j in 0..p {
-        if !(r[(j, j)].abs() > RANK_TOLERANCE * max_diag) {
+        let d = r[(j, j)].abs();
+        if d.is_nan() || d <= RANK_TOLERANCE * max_diag {
             return Err(Error::RankDeficient { column: j });
         }
     }

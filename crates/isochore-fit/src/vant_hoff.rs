@@ -653,6 +653,18 @@ pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, 
             ));
         }
     }
+    if out.stats.r2.is_nan() {
+        warnings.push(Warning::new(
+            WarningKind::Undefined,
+            "every used ln K is the same, so R² is undefined (reported as null)",
+        ));
+    }
+    if dof == 0 {
+        warnings.push(Warning::new(
+            WarningKind::Undefined,
+            "no residual degree of freedom: the reduced χ², residual SD and adjusted R² are undefined (reported as null) and the point diagnostics are empty",
+        ));
+    }
     if out
         .points
         .iter()

@@ -202,9 +202,9 @@ fn band_at_a_data_temperature_equals_predict() {
 fn corr(f: &VantHoffFit, u: &[f64], v: &[f64]) -> f64 {
     let q = |a: &[f64], b: &[f64]| -> f64 {
         let mut s = 0.0;
-        for i in 0..a.len() {
-            for j in 0..b.len() {
-                s += a[i] * f.covariance[i][j] * b[j];
+        for (ai, row) in a.iter().zip(&f.covariance) {
+            for (bj, c) in b.iter().zip(row) {
+                s += ai * c * bj;
             }
         }
         s

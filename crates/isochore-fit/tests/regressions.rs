@@ -1,0 +1,115 @@
+//! One test for each engine bug found while checking the crate against outside sources
+//! (the NIST accuracy, quantile and garbage-in fixes have their tests in `nist_strd.rs`,
+//! `src/stats.rs` and `garbage_in.rs`).
+
+use isochore_fit::two_point::{enthalpy_from_pairs, StatePoint};
+use isochore_fit::{compare_models, fit, FitOptions, Measurement, Model, Weighting, GAS_CONSTANT};
+
+fn line(temps: &[f64], wobble: &[f64]) -> Vec<Measurement> {
+    temps
+        .iter()
+        .zip(wobble.iter().cycle())
+        .map(|(&t, e)| {
+            Measurement::new(t, -20e3 / (GAS_CONSTANT * t) + 30.0 / GAS_CONSTANT + e)
+                .with_sigma(0.05)
+        })
+        .collect()
+}
+
+#[test]
+fn excluded_point_without_sigma_uses_the_typical_weight() {
+    // Was: an excluded point with no σ in a weighted fit was given weight 1, i.e.
+    // σ(ln K) = 1, so its prediction residual was ~20× too small here.
+    let mut pts = line(
+        &[280.0, 290.0, 300.0, 310.0, 320.0],
+        &[0.03, -0.04, 0.02, 0.05, -0.03],
+    );
+    pts.push(Measurement::new(305.0, pts[3].ln_k + 0.5).excluded());
+    let f = fit(&pts, &FitOptions::default()).unwrap();
+    let d = &f.points[5];
+    // Typical σ² = n/Σw = 0.05², so the prediction SD is √(s²·0.05² + xᵀCx).
+    let p = f.predict(305.0).unwrap();
+    let want_se = (f.variance_scale * 0.05f64.powi(2) + p.ln_k.se.powi(2)).sqrt();
+    assert!((d.prediction_se - want_se).abs() < 1e-12 * want_se);
+    assert!((d.prediction_residual.unwrap() - d.residual / want_se).abs() < 1e-9);
+    assert!(d.prediction_residual.unwrap() > 3.0 && d.flags.outlier);
+}
+
+#[test]
+fn exact_data_keep_a_defined_correlation() {
+    // Was: corr(ΔH°, ΔS°) = 0/0 = NaN when the data are exact (s² = 0; here K = 1 at
+    // every temperature, so ln K = 0 and every residual is exactly zero).
+    let pts: Vec<Measurement> = [280.0, 290.0, 300.0, 310.0]
+        .iter()
+        .map(|&t| Measurement::new(t, 0.0))
+        .collect();
+    let opts = FitOptions {
+        weighting: Weighting::Unweighted,
+        ..FitOptions::default()
+    };
+    let f = fit(&pts, &opts).unwrap();
+    assert_eq!(f.stats.chi2, 0.0);
+    assert!(
+        f.corr_h_s.is_finite() && f.corr_h_s.abs() <= 1.0,
+        "{}",
+        f.corr_h_s
+    );
+}
+
+#[test]
+fn both_models_exact_is_no_evidence_of_curvature() {
+    // Was: with χ²(linear) = χ²(ΔCp°) = 0 the F statistic was set to +∞ (p = 0), so flat
+    // data were declared curved.
+    let pts: Vec<Measurement> = [280.0, 290.0, 300.0, 310.0, 320.0]
+        .iter()
+        .map(|&t| Measurement::new(t, 0.0))
+        .collect();
+    let opts = FitOptions {
+        weighting: Weighting::Unweighted,
+        ..FitOptions::default()
+    };
+    let c = compare_models(&pts, &opts).unwrap().unwrap();
+    assert_eq!(c.f_statistic, 0.0);
+    assert_eq!(c.preferred, Model::Linear);
+    assert!((c.f_p_value - 1.0).abs() < 1e-12);
+}
+
+#[test]
+fn extreme_constants_in_the_two_point_enthalpy() {
+    // Was: ln(K₂/K₁) overflowed to +∞ when the ratio exceeds f64, though both logarithms
+    // are ordinary numbers.
+    let a = StatePoint::exact(300.0, 1e-300);
+    let b = StatePoint::exact(310.0, 1e300);
+    let e = enthalpy_from_pairs(a, b, 0.95).unwrap();
+    let want = GAS_CONSTANT * (1e300f64.ln() - 1e-300f64.ln()) / (1.0 / 300.0 - 1.0 / 310.0);
+    assert!((e.delta_h.value - want).abs() < 1e-12 * want);
+}
+
+#[test]
+fn undefined_statistics_are_said_in_words() {
+    // Was: NaN in R² (flat data) or in the reduced χ² (no degree of freedom under absolute
+    // σ) with nothing telling the chemist why.
+    let flat: Vec<Measurement> = [280.0, 290.0, 300.0, 310.0]
+        .iter()
+        .map(|&t| Measurement::new(t, 0.0).with_sigma(0.1))
+        .collect();
+    let f = fit(&flat, &FitOptions::default()).unwrap();
+    assert!(f.stats.r2.is_nan());
+    assert!(f
+        .warnings
+        .iter()
+        .any(|w| w.kind == isochore_fit::WarningKind::Undefined && w.message.contains("R²")));
+    let two = line(&[290.0, 310.0], &[0.0]);
+    let opts = FitOptions {
+        convention: isochore_fit::SigmaConvention::Absolute,
+        ..FitOptions::default()
+    };
+    let f = fit(&two, &opts).unwrap();
+    assert_eq!(f.dof, 0);
+    assert!(f.delta_h().se.is_finite());
+    assert!(f
+        .warnings
+        .iter()
+        .any(|w| w.kind == isochore_fit::WarningKind::Undefined
+            && w.message.contains("degree of freedom")));
+}
