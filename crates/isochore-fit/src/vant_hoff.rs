@@ -528,6 +528,18 @@ pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, 
     let new_observation_variance = variance_scale * typical_sigma2;
 
     let points_diag = diagnose_points(points, &solved, options, &cov, variance_scale, s2);
+    if let Some(d) = points_diag.iter().find(|d| {
+        !(d.fitted.is_finite()
+            && d.residual.is_finite()
+            && d.leverage.is_finite()
+            && d.prediction_se.is_finite())
+    }) {
+        return Err(Error::NoSolution(format!(
+            "point {}: the model cannot be evaluated at {} K (too far from any sensible temperature); correct or remove the point",
+            d.index + 1,
+            d.t_k
+        )));
+    }
 
     let mut out = VantHoffFit {
         options: *options,

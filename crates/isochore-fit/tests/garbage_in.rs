@@ -307,6 +307,14 @@ fn two_point_garbage() {
     assert!(enthalpy_from_pairs(good, StatePoint { k: 2.0, ..good }, 0.95).is_err());
 }
 
+/// 64 cases, or `PROPTEST_CASES` when set (for longer local runs).
+fn cases() -> u32 {
+    std::env::var("PROPTEST_CASES")
+        .ok()
+        .and_then(|v| v.parse().ok())
+        .unwrap_or(64)
+}
+
 /// Any f64 at all, including NaN, infinities and subnormals.
 fn any_value() -> impl Strategy<Value = f64> {
     prop_oneof![
@@ -319,7 +327,7 @@ fn any_value() -> impl Strategy<Value = f64> {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig { cases: 64, ..ProptestConfig::default() })]
+    #![proptest_config(ProptestConfig { cases: cases(), ..ProptestConfig::default() })]
 
     #[test]
     fn random_garbage_never_panics(
