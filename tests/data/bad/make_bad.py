@@ -73,6 +73,7 @@ bad("temperature_unit_unclear.csv", "T,K\n100,250\n180,198\n250,160\n",
     "line 1, column 1 ('T'): the temperature has no unit and its values (100 to 250) do not tell °C from K")
 bad("uncertainty_of_other_quantity.csv", "T/K,pKa,sd_Kd (nM)\n280,7.5,1\n290,7.4,1\n300,7.3,1\n",
     "line 1, column 3 ('sd_Kd (nM)'): this uncertainty is of K_d (nM) but the measured column holds pK")
+bad("header_without_line_break.csv", "T (°C),K", "line 1 is a header but no data rows follow")
 bad("comment_then_header_only.csv", "# run 4\n\nT (°C);pKa\n",
     "line 3 is a header but no data rows follow")
 

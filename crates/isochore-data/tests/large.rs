@@ -1,0 +1,63 @@
+//! A file large enough (over 4 MiB) to be read in two halves on two threads must give the
+//! same rows, line numbers, row numbers and rejections as reading it in one pass would.
+
+use isochore_data::{import_text, ImportOptions};
+
+#[test]
+fn two_halves_read_like_one() {
+    let n = 300_000usize;
+    let bad_rows = [7usize, 74_999, 149_999, 150_000, 150_001, 220_001, n - 1];
+    let mut text = String::from("# generated\nseries;T (°C);K;note\n");
+    for i in 0..n {
+        let k = if bad_rows.contains(&i) {
+            "oops".to_string()
+        } else {
+            format!("{}", 100 + i % 97)
+        };
+        text.push_str(&format!(
+            "set_{};{},{:03};{k};n\n",
+            i % 3,
+            5 + i % 40,
+            i % 1000
+        ));
+    }
+    assert!(text.len() > 4 << 20);
+    let imp = import_text("big.csv", &text, &ImportOptions::default()).unwrap();
+    // Data row i is on physical line i + 3 (a comment line and the header come first).
+    let lines: Vec<usize> = imp.rejected.iter().map(|r| r.line).collect();
+    assert_eq!(lines, bad_rows.iter().map(|i| i + 3).collect::<Vec<_>>());
+    assert!(imp.rejected.iter().all(|r| r.column == Some(3)));
+    assert_eq!(imp.series.len(), 3);
+    let mut total = 0;
+    for (si, s) in imp.series.iter().enumerate() {
+        assert_eq!(s.name, format!("set_{si}"));
+        let mut prev = 0;
+        for (k, r) in s.rows.iter().enumerate() {
+            assert_eq!(r.row, k + 1, "row numbers run on across the halves");
+            assert!(r.line > prev);
+            prev = r.line;
+            let i = r.line - 3;
+            assert_eq!(i % 3, si);
+            // T = (5 + i mod 40) + (i mod 1000)/1000 °C, K = 100 + i mod 97.
+            let t = (5 + i % 40) as f64 + (i % 1000) as f64 / 1000.0 + 273.15;
+            assert!((r.t_k - t).abs() < 1e-9, "line {}", r.line);
+            assert!((r.ln_k - ((100 + i % 97) as f64).ln()).abs() < 1e-12);
+            assert_eq!(r.note.as_deref(), Some("n"));
+        }
+        total += s.rows.len();
+    }
+    assert_eq!(total, n - bad_rows.len());
+    assert!(imp.decimal_comma);
+    // The raw cells of a row from the second half come back as typed.
+    let r = &imp.series[1].rows[imp.series[1].rows.len() - 1];
+    let i = r.line - 3;
+    assert_eq!(
+        imp.cells(r),
+        vec![
+            "set_1".to_string(),
+            format!("{},{:03}", 5 + i % 40, i % 1000),
+            format!("{}", 100 + i % 97),
+            "n".to_string()
+        ]
+    );
+}
