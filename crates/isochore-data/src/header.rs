@@ -288,14 +288,15 @@ fn classify(raw: &str) -> Class {
     if h.is_empty() {
         return Class::Ignored;
     }
-    let lower = h.to_lowercase();
-    // Function form of an uncertainty: u(pKa), σ(log K) (nM), sd(Kd)/nM.
+    // Function form of an uncertainty: u(pKa), σ(log K) (nM), sd(Kd)/nM. The prefix is
+    // compared without case on `h` itself, so byte offsets stay valid in `h`.
     for m in [
         "u(", "σ(", "sd(", "sigma(", "err(", "s(", "std(", "unc(", "se(", "δ(",
     ] {
-        if lower.starts_with(m) {
+        let prefix = h.get(..m.len()).map(str::to_lowercase);
+        if prefix.as_deref() == Some(m) {
             let inner_start = m.len();
-            if let Some(close) = lower[inner_start..].find(')') {
+            if let Some(close) = h[inner_start..].find(')') {
                 let inner = &h[inner_start..inner_start + close];
                 let after = h[inner_start + close + 1..].trim();
                 let after_unit = split_bracket_unit(after)
@@ -863,6 +864,20 @@ mod tests {
             ))
         );
         assert_eq!(d.mapping.note, Some(3));
+    }
+
+    proptest::proptest! {
+        #![proptest_config(proptest::prelude::ProptestConfig { cases: 512, ..Default::default() })]
+
+        /// Any header text, including case changes that alter byte lengths ('İ'), is read
+        /// without panicking.
+        #[test]
+        fn any_header_is_safe(h in "(?s).{0,24}", pre in proptest::sample::select(vec!["", "u(", "U(", "σ(", "sd_", "İ", "Kd_", "T (", "±"])) {
+            let text = format!("{pre}{h}");
+            let _ = classify(&text);
+            let _ = detect(&[text.clone(), "T/K".into(), "K".into()], "f", 1, false);
+            let _ = detect(&[text], "f", 1, true);
+        }
     }
 
     #[test]
