@@ -281,7 +281,17 @@ impl<'a> Reader<'a> {
         self.spans.clear();
         let mut cell = start;
         let mut i = start;
-        while i < len {
+        loop {
+            let found = if self.quote_free {
+                memchr::memchr2(d, b'\n', &bytes[i..])
+            } else {
+                memchr::memchr3(d, b'\n', b'"', &bytes[i..])
+            };
+            let Some(k) = found else {
+                i = len;
+                break;
+            };
+            i += k;
             let b = bytes[i];
             if b == d {
                 self.spans.push(Span {
@@ -290,16 +300,16 @@ impl<'a> Reader<'a> {
                     escaped: false,
                 });
                 cell = i + 1;
+                i += 1;
                 if self.spans.len() > self.max_columns {
                     return Err(self.too_many(self.line + 1, self.spans.len()));
                 }
             } else if b == b'\n' {
                 break;
-            } else if b == b'"' && !self.quote_free {
+            } else {
                 self.spans.clear();
                 return Ok(None);
             }
-            i += 1;
         }
         let nl = i;
         let mut end = nl;
