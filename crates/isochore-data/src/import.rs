@@ -328,6 +328,15 @@ impl Import {
         self.comma_ok
     }
 
+    /// Every rejected row as a full message, starting with the file name, e.g.
+    /// `data.csv: line 14, column 2 ('Kd (nM)'): 'abc' is not a number; …`.
+    pub fn rejected_messages(&self) -> Vec<String> {
+        self.rejected
+            .iter()
+            .map(|r| format!("{}: {}", self.source.name, r.message()))
+            .collect()
+    }
+
     /// The mapping in words, one line per column (see [`ColumnMapping::describe`]).
     pub fn describe_mapping(&self) -> Vec<String> {
         self.mapping.describe(&self.headers)
@@ -493,6 +502,9 @@ struct Parsed {
     rejected: Vec<RejectedRow>,
 }
 
+/// Data larger than this (bytes) and free of quotes is read in two halves on two threads.
+pub const TWO_THREADS_ABOVE: usize = 1 << 20;
+
 fn stem(name: &str) -> String {
     let base = name.rsplit(['/', '\\']).next().unwrap_or(name);
     match base.rfind('.') {
@@ -608,7 +620,7 @@ fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Pars
     let data_len = text.len() - data_start;
     let quote_free = memchr::memchr(b'"', &bytes[data_start..]).is_none();
     let ctx = Scan { quote_free, ..ctx };
-    let cut = if data_len > (4 << 20) && quote_free {
+    let cut = if data_len > TWO_THREADS_ABOVE && quote_free {
         let mid = data_start + data_len / 2;
         memchr::memchr(b'\n', &bytes[mid..]).map(|i| mid + i + 1)
     } else {

@@ -1,4 +1,4 @@
-//! A file large enough (over 4 MiB) to be read in two halves on two threads must give the
+//! A file large enough (over `TWO_THREADS_ABOVE`, 1 MiB) to be read in two halves on two threads must give the
 //! same rows, line numbers, row numbers and rejections as reading it in one pass would.
 
 use isochore_data::{import_text, ImportOptions};
@@ -21,7 +21,7 @@ fn two_halves_read_like_one() {
             i % 1000
         ));
     }
-    assert!(text.len() > 4 << 20);
+    assert!(text.len() > 4 * isochore_data::import::TWO_THREADS_ABOVE);
     let imp = import_text("big.csv", &text, &ImportOptions::default()).unwrap();
     // Data row i is on physical line i + 3 (a comment line and the header come first).
     let lines: Vec<usize> = imp.rejected.iter().map(|r| r.line).collect();

@@ -276,6 +276,11 @@ fn strict_mode_and_source_hash() {
         e.to_string(),
         "s.csv: line 3, column 2 ('K'): 'x' is not a number; write a decimal number such as 25.0, 0.5 or 1.2e-3"
     );
+    assert_eq!(
+        imp.rejected_messages(),
+        vec![e.to_string()],
+        "the same words with or without strict mode"
+    );
     assert_eq!(imp.source.sha256, sha256_hex(text.as_bytes()));
     assert_eq!(imp.source.bytes, text.len() as u64);
     // FIPS 180-2, appendix B.1: SHA-256("abc").
