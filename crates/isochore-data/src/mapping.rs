@@ -237,6 +237,7 @@ pub(crate) struct Converted {
 
 /// Parses one number cell. `comma_decimal` lets a comma stand for the decimal point.
 /// Leading and trailing spaces, a leading '+', and the Unicode minus sign are accepted.
+#[inline]
 pub(crate) fn parse_number(cell: &str, comma_decimal: bool) -> Result<f64, RowProblem> {
     if let Some(v) = fast_decimal(cell.as_bytes(), comma_decimal) {
         return Ok(v);
@@ -281,7 +282,7 @@ const POW10: [f64; 23] = [
 /// one exact integer times or divided by one exact power of ten, so a single IEEE operation
 /// gives the correctly rounded result (the same one `str::parse` gives). Returns `None` for
 /// anything else, which then goes to the standard parser.
-#[inline]
+#[inline(always)]
 pub(crate) fn fast_decimal(s: &[u8], comma_decimal: bool) -> Option<f64> {
     let n = s.len();
     if n == 0 || n > 32 {
@@ -404,6 +405,7 @@ fn unit_factor(from: QuantityKind, to: QuantityKind) -> f64 {
 
 /// Converts one row. `cell(i)` returns the text of 0-based column `i`. On failure, returns
 /// the 0-based column at fault and the problem.
+#[inline]
 pub(crate) fn convert_cells<'a>(
     mapping: &ColumnMapping,
     comma_decimal: bool,
