@@ -521,8 +521,11 @@ fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Pars
             character,
         });
     }
+    // A first line "sep=;" (written by some spreadsheet programs) names the delimiter.
+    let (start, skipped, sep) = text::separator_line(text, start);
     let delimiter = o
         .delimiter
+        .or(sep)
         .unwrap_or_else(|| text::detect_delimiter(text, start));
     let comma_ok = match o.decimal {
         DecimalMark::Point => false,
@@ -538,7 +541,8 @@ fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Pars
         o.max_line_bytes,
         o.max_columns,
         file,
-    );
+    )
+    .starting_after_line(skipped);
     let Some(head) = reader.next_record()? else {
         return Err(Error::Empty {
             file: file.to_string(),

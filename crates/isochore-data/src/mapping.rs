@@ -1,10 +1,10 @@
 //! The column mapping: which column holds what, in which unit, and the conversion of one
 //! row of cells (as typed) to the fitting scale (T in K, ln K, σ(ln K)).
 //!
-//! The mapping is what the header recogniser found ([`crate::header`]); a caller may inspect
+//! The mapping is what the header recogniser found (module `header`); a caller may inspect
 //! it, show it ([`ColumnMapping::describe`]) and override it through
 //! [`crate::ImportOptions::mapping`]. Project files store it, and recompute every value
-//! from the raw cells with [`convert_cells`], so the cells stay the single source of truth.
+//! from the raw cells with `convert_cells`, so the cells stay the single source of truth.
 //! Unit arithmetic itself lives in `isochore_fit::units`.
 
 use crate::error::RowProblem;

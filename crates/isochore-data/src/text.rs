@@ -381,27 +381,14 @@ impl<'a> Reader<'a> {
             while j < len && bytes[j] == b' ' {
                 j += 1;
             }
-            if j < len && bytes[j] == b'"' {
+            // A quote that never closes is read as a plain character, so that one stray
+            // quote cannot swallow the rest of the file into a single cell.
+            let closing = (j < len && bytes[j] == b'"')
+                .then(|| closing_quote(bytes, j + 1))
+                .flatten();
+            if let Some((k, escaped, breaks)) = closing {
                 let content = j + 1;
-                let mut k = content;
-                let mut escaped = false;
-                loop {
-                    if k >= len {
-                        break;
-                    }
-                    if bytes[k] == b'"' {
-                        if k + 1 < len && bytes[k + 1] == b'"' {
-                            escaped = true;
-                            k += 2;
-                            continue;
-                        }
-                        break;
-                    }
-                    if bytes[k] == b'\n' {
-                        self.line += 1;
-                    }
-                    k += 1;
-                }
+                self.line += breaks;
                 if k - start > self.max_line {
                     return Err(Error::LineTooLong {
                         file: self.file.to_string(),
@@ -487,6 +474,29 @@ impl<'a> Reader<'a> {
     }
 }
 
+/// From just after an opening quote, finds the closing quote: its index, whether doubled
+/// quotes occur inside, and how many line breaks lie inside. `None` if it never closes.
+fn closing_quote(bytes: &[u8], from: usize) -> Option<(usize, bool, usize)> {
+    let mut k = from;
+    let mut escaped = false;
+    let mut breaks = 0;
+    while k < bytes.len() {
+        match bytes[k] {
+            b'"' if bytes.get(k + 1) == Some(&b'"') => {
+                escaped = true;
+                k += 2;
+            }
+            b'"' => return Some((k, escaped, breaks)),
+            b'\n' => {
+                breaks += 1;
+                k += 1;
+            }
+            _ => k += 1,
+        }
+    }
+    None
+}
+
 /// Splits a whitespace-separated header, keeping units with their names: a token that
 /// starts with '(' or '[' or '/', or follows a token ending in '/', joins the previous one.
 pub(crate) fn merge_whitespace_header(tokens: Vec<String>) -> Vec<String> {
@@ -536,6 +546,27 @@ pub(crate) fn split_wide(line: &str) -> Vec<String> {
         out.push(cur);
     }
     out
+}
+
+/// Recognises a first line `sep=X` naming the delimiter. Returns where the content starts
+/// after it, how many lines were skipped (0 or 1) and the delimiter named.
+pub(crate) fn separator_line(text: &str, start: usize) -> (usize, usize, Option<Delimiter>) {
+    let rest = &text.as_bytes()[start..];
+    let end = memchr(b'\n', rest).unwrap_or(rest.len());
+    let line = rest[..end].strip_suffix(b"\r").unwrap_or(&rest[..end]);
+    if line.len() == 5 && line[..4].eq_ignore_ascii_case(b"sep=") {
+        let d = match line[4] {
+            b',' => Some(Delimiter::Comma),
+            b';' => Some(Delimiter::Semicolon),
+            b'\t' => Some(Delimiter::Tab),
+            b'|' => Some(Delimiter::Pipe),
+            _ => None,
+        };
+        if d.is_some() {
+            return ((start + end + 1).min(text.len()), 1, d);
+        }
+    }
+    (start, 0, None)
 }
 
 /// Guesses the delimiter from the first lines that are neither blank nor comments.
@@ -651,6 +682,23 @@ mod tests {
         let b = r.next_record().unwrap().unwrap();
         let c = r.next_record().unwrap().unwrap();
         assert_eq!((a.line, b.line, c.line), (1, 2, 4));
+    }
+
+    #[test]
+    fn stray_quote_does_not_swallow_the_file() {
+        let t = "T,K,note\n1,2,\"oops\n3,4,\n5,6,\n";
+        let c = cells(t, Delimiter::Comma);
+        assert_eq!(c.len(), 4, "{c:?}");
+        assert_eq!(c[1], vec!["1", "2", "\"oops"]);
+    }
+
+    #[test]
+    fn separator_line_names_the_delimiter() {
+        assert_eq!(
+            separator_line("sep=;\r\nT;K\n", 0),
+            (7, 1, Some(Delimiter::Semicolon))
+        );
+        assert_eq!(separator_line("T;K\n", 0), (0, 0, None));
     }
 
     #[test]

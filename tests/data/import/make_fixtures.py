@@ -286,3 +286,12 @@ write("trailing_delimiter_kd_first.csv", "\n".join(lines) + "\n", {
     "temperature": {"column": 1, "unit": "kelvin", "assumed": False},
     "quantity": {"column": 0, "label": "K_d (µM)"}, "uncertainty": {"column": 2, "relative": False},
     "series": [{"name": "trailing_delimiter_kd_first", "rows": rows_of(rows)}], "rejected": []})
+
+# 17. A first line "sep=;" naming the delimiter (written by some spreadsheet programs).
+lines = ["sep=;", "T (°C);K (M-1)", "10;1,5e4", "20;1,1e4", "30;8,2e3"]
+rows = [(i + 3, to_k(t, "C"), ln_k(("K", None), k, 0), None, None) for i, (t, k) in enumerate([(10, 1.5e4), (20, 1.1e4), (30, 8.2e3)])]
+write("excel_sep_line.csv", "\r\n".join(lines) + "\r\n", {
+    "delimiter": "semicolon", "decimal_comma": True, "headers": ["T (°C)", "K (M-1)"],
+    "temperature": {"column": 0, "unit": "celsius", "assumed": False},
+    "quantity": {"column": 1, "label": "K"}, "uncertainty": None,
+    "series": [{"name": "excel_sep_line", "rows": rows_of(rows)}], "rejected": []})
