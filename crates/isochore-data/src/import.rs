@@ -732,11 +732,11 @@ impl Chunk {
             match self.series.iter_mut().find(|m| m.name == s.name) {
                 Some(m) => {
                     let base = m.rows.len();
-                    m.rows
-                        .extend(s.rows.into_iter().enumerate().map(|(k, mut r)| {
-                            r.row = base + k + 1;
-                            r
-                        }));
+                    let mut rows = s.rows;
+                    m.rows.append(&mut rows);
+                    for (k, r) in m.rows[base..].iter_mut().enumerate() {
+                        r.row = base + k + 1;
+                    }
                 }
                 None => self.series.push(s),
             }
