@@ -383,26 +383,40 @@ impl VantHoffFit {
                 t
             }
             Model::ConstantCp => {
+                // d ln K/dT = ΔH°(T)/(RT²) and ΔH°(T) = ΔH°(θ) + ΔCp°(T − θ) is linear in T,
+                // so ln K(T) − ln K_target has at most one turning point, at
+                // T_turn = θ − ΔH°(θ)/ΔCp°: on each side it is monotone and has at most one
+                // root, found by bisection.
                 let lo = self.t_min_k / 3.0;
                 let hi = self.t_max_k * 3.0;
-                let steps = 2000;
+                let mut cuts = vec![lo];
+                let t_turn = theta - beta[0] / beta[2];
+                if t_turn.is_finite() && t_turn > lo && t_turn < hi {
+                    cuts.push(t_turn);
+                }
+                cuts.push(hi);
                 let mut best: Option<f64> = None;
-                let mut prev_t = lo;
-                let mut prev_g = g(lo);
-                for i in 1..=steps {
-                    let t = lo * (hi / lo).powf(i as f64 / steps as f64);
-                    let gt = g(t);
-                    if prev_g == 0.0 || prev_g.signum() != gt.signum() {
-                        let root = bisect(&g, prev_t, t);
-                        let better = best.is_none_or(|b| {
-                            (root - self.t_harmonic_k).abs() < (b - self.t_harmonic_k).abs()
+                for w in cuts.windows(2) {
+                    let (a, b) = (w[0], w[1]);
+                    let (ga, gb) = (g(a), g(b));
+                    if !(ga.is_finite() && gb.is_finite()) {
+                        continue;
+                    }
+                    if ga == 0.0 || gb == 0.0 || ga.signum() != gb.signum() {
+                        let root = if ga == 0.0 {
+                            a
+                        } else if gb == 0.0 {
+                            b
+                        } else {
+                            bisect(&g, a, b)
+                        };
+                        let better = best.is_none_or(|r| {
+                            (root - self.t_harmonic_k).abs() < (r - self.t_harmonic_k).abs()
                         });
                         if better {
                             best = Some(root);
                         }
                     }
-                    prev_t = t;
-                    prev_g = gt;
                 }
                 best.ok_or_else(none)?
             }

@@ -324,3 +324,42 @@ fn excluded_point_residual_matches_a_refit_without_it() {
         }
     }
 }
+
+#[test]
+fn temperature_for_k_finds_the_root_nearest_the_data() {
+    // ln K with a maximum inside the range: ΔH°(θ) = 0 at θ, ΔCp° = −2000 J/(mol K), so
+    // ΔH°(T) changes sign at θ and ln K peaks there (invented, exact data).
+    let pts: Vec<Measurement> = (0..9)
+        .map(|i| {
+            let t = 278.15 + 5.0 * i as f64;
+            let x = Model::ConstantCp.row(t, THETA);
+            Measurement::new(t, x[1] * 20.0 + x[2] * -2000.0).with_sigma(0.01)
+        })
+        .collect();
+    let f = fit(&pts, &options(Model::ConstantCp)).unwrap();
+    let peak = f.predict(THETA).unwrap().ln_k.value;
+    for drop in [0.01, 0.1, 0.5] {
+        let target = (peak - drop).exp();
+        let got = f.temperature_for_k(target).unwrap().value;
+        // Independent route: a fine scan of ln K(T) − ln target for sign changes
+        // (step 1 mK), keeping the crossing nearest T_h.
+        let mut best: Option<f64> = None;
+        let mut t = 200.0;
+        let g = |t: f64| ln_k(&f, t, &f.coefficients()) - target.ln();
+        while t < 400.0 {
+            if g(t).signum() != g(t + 1e-3).signum() {
+                let c = t + 5e-4;
+                if best.is_none_or(|b: f64| (c - f.t_harmonic_k).abs() < (b - f.t_harmonic_k).abs())
+                {
+                    best = Some(c);
+                }
+            }
+            t += 1e-3;
+        }
+        let want = best.unwrap();
+        assert!((got - want).abs() < 1e-3, "drop {drop}: {got} vs {want}");
+        assert!(g(got).abs() < 1e-9, "{}", g(got));
+    }
+    // Above the peak there is no solution.
+    assert!(f.temperature_for_k((peak + 0.1).exp()).is_err());
+}
