@@ -36,6 +36,7 @@
 pub mod derived;
 pub mod diagnostics;
 pub mod error;
+mod fast;
 pub mod influence;
 pub mod least_squares;
 pub mod measurement;

@@ -5,8 +5,9 @@
 //! Derived quantities (predictions, bands, the confidence ellipse, temperatures for a
 //! target K) are methods on [`VantHoffFit`] in [`crate::derived`].
 
-use crate::diagnostics::{diagnose_points, PointDiagnostics};
+use crate::diagnostics::{diagnose_points, PointContext, PointDiagnostics};
 use crate::error::Error;
+use crate::fast::FastFit;
 use crate::least_squares::{solve, weighted_rss, LinearFit};
 use crate::measurement::Measurement;
 use crate::model::{FitOptions, Model, SigmaConvention, Weighting};
@@ -251,6 +252,14 @@ pub struct VantHoffFit {
     pub warnings: Vec<Warning>,
 }
 
+/// Internal: how a fit was computed, and what its diagnostics pass reads.
+enum Engine {
+    /// The streaming path of [`crate::fast`].
+    Fast(FastFit),
+    /// The general solver, with the used ln K.
+    General { solved: Solved, y: Vec<f64> },
+}
+
 /// Internal: a solved model on the used points.
 pub(crate) struct Solved {
     pub(crate) lin: LinearFit,
@@ -464,14 +473,47 @@ pub(crate) fn statistics(
 /// ```
 pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, Error> {
     let model = options.model;
-    let solved = solve_model(points, options, model)?;
-    let lin = &solved.lin;
+    // Well-behaved data take the streaming path (one QR for both models, no n×p matrix);
+    // everything else, errors included, the general one.
+    let engine = match FastFit::try_new(points, options) {
+        Some(fast) => Engine::Fast(fast),
+        None => {
+            let solved = solve_model(points, options, model)?;
+            let y: Vec<f64> = solved.used.iter().map(|&i| points[i].ln_k).collect();
+            Engine::General { solved, y }
+        }
+    };
+    let fast_lin;
+    let (lin, weighted, sums) = match &engine {
+        Engine::Fast(f) => {
+            fast_lin = LinearFit {
+                coefficients: f.coefficients(),
+                unscaled_covariance: f.unscaled_covariance(),
+                fitted: Vec::new(),
+                residuals: Vec::new(),
+                leverages: Vec::new(),
+                rss: f.rss,
+                n: f.n(),
+                p: model.n_params(),
+            };
+            let weighted = options.weighting == Weighting::InverseVariance;
+            let sums = WeightSums {
+                n: f.n(),
+                weighted,
+                tss: f.tss,
+                sum_ln_w: f.sum_ln_w,
+            };
+            (&fast_lin, weighted, sums)
+        }
+        Engine::General { solved, y } => (
+            &solved.lin,
+            solved.weights.is_some(),
+            WeightSums::new(solved.weights.as_deref(), y),
+        ),
+    };
     let p = lin.p;
     let dof = lin.dof();
-    let y: Vec<f64> = solved.used.iter().map(|&i| points[i].ln_k).collect();
-    let sums = WeightSums::new(solved.weights.as_deref(), &y);
     let stats = statistics(lin.rss, p, &sums, options.convention);
-    let weighted = solved.weights.is_some();
     let mut warnings = Vec::new();
 
     let absolute = options.convention == SigmaConvention::Absolute && weighted;
@@ -509,25 +551,52 @@ pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, 
     let corr_h_s = uc[(0, 1)] / (uc[(0, 0)] * uc[(1, 1)]).sqrt();
 
     // Temperature range and weighted harmonic mean.
-    let mut t_min_k = f64::INFINITY;
-    let mut t_max_k = f64::NEG_INFINITY;
-    let mut sum_w = 0.0;
-    let mut sum_w_inv_t = 0.0;
-    for (r, &i) in solved.used.iter().enumerate() {
-        let t = points[i].t_k;
-        t_min_k = t_min_k.min(t);
-        t_max_k = t_max_k.max(t);
-        let w = solved.weights.as_ref().map_or(1.0, |w| w[r]);
-        sum_w += w;
-        sum_w_inv_t += w / t;
-    }
+    let (t_min_k, t_max_k, sum_w, sum_w_inv_t) = match &engine {
+        Engine::Fast(f) => (f.t_min, f.t_max, f.sum_w, f.sum_w_inv_t),
+        Engine::General { solved, .. } => {
+            let mut t_min_k = f64::INFINITY;
+            let mut t_max_k = f64::NEG_INFINITY;
+            let mut sum_w = 0.0;
+            let mut sum_w_inv_t = 0.0;
+            for (r, &i) in solved.used.iter().enumerate() {
+                let t = points[i].t_k;
+                t_min_k = t_min_k.min(t);
+                t_max_k = t_max_k.max(t);
+                let w = solved.weights.as_ref().map_or(1.0, |w| w[r]);
+                sum_w += w;
+                sum_w_inv_t += w / t;
+            }
+            (t_min_k, t_max_k, sum_w, sum_w_inv_t)
+        }
+    };
     let t_harmonic_k = sum_w / sum_w_inv_t;
 
     // New-observation variance: s² × (typical σ² = n/Σw) weighted, s² unweighted.
     let typical_sigma2 = if weighted { lin.n as f64 / sum_w } else { 1.0 };
     let new_observation_variance = variance_scale * typical_sigma2;
 
-    let points_diag = diagnose_points(points, &solved, options, &cov, variance_scale, s2);
+    let points_diag = match &engine {
+        Engine::Fast(f) => {
+            let n = lin.n as f64;
+            let ctx = PointContext {
+                p,
+                n,
+                dof: dof as f64,
+                s2,
+                variance_scale,
+                cov: &cov,
+                unscaled_cov: &lin.unscaled_covariance,
+                beta: &lin.coefficients,
+                weighted,
+                typical_w: if weighted { sum_w / n } else { 1.0 },
+                thresholds: options.thresholds,
+            };
+            f.diagnose(points, options, &ctx)
+        }
+        Engine::General { solved, .. } => {
+            diagnose_points(points, solved, options, &cov, variance_scale, s2)
+        }
+    };
     if let Some(d) = points_diag.iter().find(|d| {
         !(d.fitted.is_finite()
             && d.residual.is_finite()
@@ -578,8 +647,17 @@ pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, 
             Model::Linear => Model::ConstantCp,
             Model::ConstantCp => Model::Linear,
         };
-        let x = design(points, &solved.used, other, options.t_ref_k);
-        match weighted_rss(&x, &y, solved.weights.as_deref()) {
+        let chi2_other = match &engine {
+            Engine::Fast(f) => f.rss_other.ok_or(Error::TooFewPoints {
+                available: lin.n,
+                needed: 4,
+            }),
+            Engine::General { solved, y } => {
+                let x = design(points, &solved.used, other, options.t_ref_k);
+                weighted_rss(&x, y, solved.weights.as_deref())
+            }
+        };
+        match chi2_other {
             Ok(chi2_other) => {
                 let (chi2_lin, chi2_cp) = match model {
                     Model::Linear => (lin.rss, chi2_other),

@@ -1,0 +1,672 @@
+//! The streaming path of a van 't Hoff fit, for data that need no special care.
+//!
+//! Both models share their first two design columns, −1/(RT) and 1/R, so one Householder QR
+//! of the augmented matrix `W^{1/2} [c₀ c₁ c₂ y]` yields, in its leading blocks, the
+//! triangular factor and `Qᵀb` of the linear model and of the constant-ΔCp° model at once
+//! (a reflection for column j touches only rows ≥ j). The QR is built while the points are
+//! read, a block of rows at a time: the 4×4 triangle so far is stacked on the next block
+//! and four Householder reflections reduce the stack back to a triangle (tall-skinny QR).
+//! No n×p matrix, no Q and no normal equations are formed; each used point is kept as four
+//! numbers (1/T-column, ΔCp°-column, √w, ln K) for the later passes.
+//!
+//! Column scaling by powers of two changes no rounding in a Householder QR, so the factor is
+//! computed on the √w-scaled columns and the powers of two (nearest the column norms) enter
+//! only the rank test and the error bound, exactly as in [`crate::least_squares`]. When the
+//! same first-order error bound asks for it, the solution is refined with residuals
+//! `b − Aβ` evaluated in twice the working precision and corrections from the triangular
+//! factor (`RᵀR δ = Aᵀs`, the corrected semi-normal equations, which converge like
+//! ε·κ²); designs too ill-conditioned for that (κ > ~10⁶), non-finite or extreme numbers,
+//! rank deficiency and every input error return `None`, and the caller takes the general
+//! path of [`crate::least_squares::solve`], which reports errors and handles the hard cases.
+//!
+//! Passes over the data: one to read, validate and factorise; one per refinement step
+//! (usually none or one, both models together); one for the residual sums of squares of
+//! both models; one to write the per-point diagnostics.
+
+// Indexing by row and column is the clearest way to write 3×3 and 4×4 triangular algebra.
+#![allow(clippy::needless_range_loop)]
+
+use crate::diagnostics::{diagnose_one, PointContext, PointDiagnostics};
+use crate::least_squares::RANK_TOLERANCE;
+use crate::measurement::Measurement;
+use crate::model::{FitOptions, Model, SigmaConvention, Weighting};
+use nalgebra::DMatrix;
+
+/// Rows absorbed into the triangle per block (the block stays in the L1 cache).
+const BLOCK: usize = 128;
+
+/// Relative error bound above which the solution is refined (as in `least_squares`).
+const REFINE_ABOVE: f64 = 1e-13;
+
+/// Most refinement steps (as in `least_squares`).
+const MAX_REFINEMENT_STEPS: usize = 6;
+
+/// Above this estimate of the contraction factor c·ε·κ² of semi-normal refinement the
+/// general path is taken instead.
+const CSNE_LIMIT: f64 = 1e-3;
+
+/// One used point: the raw design entries that cost something to compute, its √w and ln K.
+#[derive(Debug, Clone, Copy)]
+struct Row {
+    c0: f64,
+    c1: f64,
+    c2: f64,
+    sw: f64,
+    y: f64,
+}
+
+impl Row {
+    /// The weighted row (√w·c₀, √w·c₁, √w·c₂) and √w·y, formed as the general path forms them.
+    #[inline]
+    fn weighted(&self) -> ([f64; 3], f64) {
+        (
+            [self.c0 * self.sw, self.c1 * self.sw, self.c2 * self.sw],
+            self.y * self.sw,
+        )
+    }
+}
+
+/// Error-free sum (Knuth's TwoSum).
+#[inline]
+fn two_sum(a: f64, b: f64) -> (f64, f64) {
+    let s = a + b;
+    let bb = s - a;
+    (s, (a - (s - bb)) + (b - bb))
+}
+
+/// Veltkamp split of a into a high and a low half.
+#[inline]
+fn split(a: f64) -> (f64, f64) {
+    const SPLIT: f64 = 134_217_729.0; // 2^27 + 1
+    let ca = SPLIT * a;
+    let hi = ca - (ca - a);
+    (hi, a - hi)
+}
+
+/// Error-free product of a with a pre-split b (Dekker's TwoProduct).
+#[inline]
+fn two_prod_split(a: f64, b: f64, b_hi: f64, b_lo: f64) -> (f64, f64) {
+    let p = a * b;
+    let (a_hi, a_lo) = split(a);
+    let e = ((a_hi * b_hi - p) + a_hi * b_lo + a_lo * b_hi) + a_lo * b_lo;
+    (p, e)
+}
+
+/// Reduces the stack [R; block] to a triangle by four Householder reflections. `block` holds
+/// the rows column by column (`block[j][i]`), `m` rows of it in use.
+fn absorb(r: &mut [[f64; 4]; 4], block: &mut [[f64; BLOCK]; 4], m: usize) {
+    for j in 0..4 {
+        let (head, tail) = block.split_at_mut(j + 1);
+        let cj = &head[j][..m];
+        let sigma = dot(cj, cj);
+        if sigma == 0.0 {
+            continue;
+        }
+        let x0 = r[j][j];
+        let norm = (x0 * x0 + sigma).sqrt();
+        let alpha = if x0 >= 0.0 { -norm } else { norm };
+        let v0 = x0 - alpha;
+        // vᵀv = v0² + σ = −2αv0, so τ = 2/vᵀv = −1/(α v0).
+        let tau = -1.0 / (alpha * v0);
+        r[j][j] = alpha;
+        for (off, ck) in tail.iter_mut().enumerate() {
+            let k = j + 1 + off;
+            let ck = &mut ck[..m];
+            let f = tau * (v0 * r[j][k] + dot(cj, ck));
+            r[j][k] -= f * v0;
+            for (c, v) in ck.iter_mut().zip(cj) {
+                *c -= f * v;
+            }
+        }
+    }
+}
+
+/// Dot product with four partial sums.
+#[inline]
+fn dot(a: &[f64], b: &[f64]) -> f64 {
+    let mut s = [0.0; 4];
+    let ca = a.chunks_exact(4);
+    let cb = b.chunks_exact(4);
+    let (ra, rb) = (ca.remainder(), cb.remainder());
+    for (x, y) in ca.zip(cb) {
+        for l in 0..4 {
+            s[l] += x[l] * y[l];
+        }
+    }
+    let mut t = (s[0] + s[1]) + (s[2] + s[3]);
+    for (x, y) in ra.iter().zip(rb) {
+        t += x * y;
+    }
+    t
+}
+
+/// The power of two nearest to a positive finite `v`.
+fn power_of_two_near(v: f64) -> Option<f64> {
+    if !(v.is_finite() && v > 0.0) {
+        return None;
+    }
+    let d = 2f64.powi(v.log2().round().clamp(-1000.0, 1000.0) as i32);
+    (d.is_finite() && d > 0.0).then_some(d)
+}
+
+/// One model solved from the shared triangle.
+#[derive(Debug, Clone)]
+struct Sub {
+    p: usize,
+    /// Its inverse, upper triangular.
+    r_inv: [[f64; 3]; 3],
+    /// Coefficients in the raw units.
+    beta: [f64; 3],
+    /// Whether refinement was applied (then residuals are formed in twice the precision).
+    refined: bool,
+}
+
+impl Sub {
+    /// Solves the leading p×p block; `None` when rank deficient or ill-conditioned beyond
+    /// what semi-normal refinement handles.
+    fn new(r4: &[[f64; 4]; 4], p: usize, scale: &[f64; 3]) -> Option<(Sub, bool)> {
+        let mut r = [[0.0; 3]; 3];
+        for a in 0..p {
+            for b in a..p {
+                r[a][b] = r4[a][b];
+            }
+        }
+        // Rank test on the scaled factor R̃ = R D⁻¹.
+        let diag: Vec<f64> = (0..p).map(|j| (r[j][j] / scale[j]).abs()).collect();
+        let max_diag = diag.iter().cloned().fold(0.0, f64::max);
+        if diag
+            .iter()
+            .any(|d| d.is_nan() || *d <= RANK_TOLERANCE * max_diag)
+        {
+            return None;
+        }
+        // R⁻¹ by columns of back substitution.
+        let mut r_inv = [[0.0; 3]; 3];
+        for k in 0..p {
+            r_inv[k][k] = 1.0 / r[k][k];
+            for a in (0..k).rev() {
+                let s: f64 = (a + 1..=k).map(|b| r[a][b] * r_inv[b][k]).sum();
+                r_inv[a][k] = -s / r[a][a];
+            }
+        }
+        let mut beta = [0.0; 3];
+        for a in (0..p).rev() {
+            let s: f64 = (a + 1..p).map(|b| r[a][b] * beta[b]).sum();
+            beta[a] = (r4[a][3] - s) / r[a][a];
+        }
+        // Residual norm from the triangle: rows p..3 of Qᵀb.
+        let res_norm = (p..4).map(|a| r4[a][3] * r4[a][3]).sum::<f64>().sqrt();
+        // Error bound of least_squares, on the scaled factor: ‖R̃‖_F, ‖R̃⁻¹‖_F, x̃ = Dβ.
+        let mut r_f = 0.0;
+        let mut inv_f = 0.0;
+        for a in 0..p {
+            for b in a..p {
+                r_f += (r[a][b] / scale[b]).powi(2);
+                inv_f += (r_inv[a][b] * scale[a]).powi(2);
+            }
+        }
+        let (r_f, inv_f) = (r_f.sqrt(), inv_f.sqrt());
+        let kappa = r_f * inv_f;
+        let x_norm = (0..p)
+            .map(|j| (beta[j] * scale[j]).powi(2))
+            .sum::<f64>()
+            .sqrt();
+        let rel_resid = if x_norm > 0.0 {
+            res_norm / (r_f * x_norm)
+        } else {
+            f64::INFINITY
+        };
+        let c = 10.0 * p as f64 * f64::EPSILON;
+        let bound = c * kappa * (1.0 + kappa * rel_resid);
+        let all_finite = beta
+            .iter()
+            .chain(r_inv.iter().flatten())
+            .all(|v| v.is_finite());
+        if !all_finite || !kappa.is_finite() {
+            return None;
+        }
+        let refine = bound.is_nan() || bound > REFINE_ABOVE;
+        if refine && c * kappa * kappa > CSNE_LIMIT {
+            return None;
+        }
+        Some((
+            Sub {
+                p,
+                r_inv,
+                beta,
+                refined: false,
+            },
+            refine,
+        ))
+    }
+
+    /// δ = R⁻¹ R⁻ᵀ g.
+    fn correction(&self, g: &[f64; 3]) -> [f64; 3] {
+        let p = self.p;
+        let mut u = [0.0; 3];
+        for k in 0..p {
+            u[k] = (0..=k).map(|a| self.r_inv[a][k] * g[a]).sum();
+        }
+        let mut d = [0.0; 3];
+        for a in 0..p {
+            d[a] = (a..p).map(|k| self.r_inv[a][k] * u[k]).sum();
+        }
+        d
+    }
+
+    /// Residual √w(y − xβ) of a row, in twice the working precision when refined.
+    #[inline]
+    fn residual(&self, a: &[f64; 3], b: f64, split_beta: &[(f64, f64, f64); 3]) -> f64 {
+        if self.refined {
+            let mut hi = b;
+            let mut lo = 0.0;
+            for j in 0..self.p {
+                let (nb, bh, bl) = split_beta[j];
+                let (h, r) = two_prod_split(a[j], nb, bh, bl);
+                let (q, t) = two_sum(hi, h);
+                hi = q;
+                lo += t + r;
+            }
+            hi + lo
+        } else {
+            let mut s = 0.0;
+            for j in 0..self.p {
+                s += a[j] * -self.beta[j];
+            }
+            b + s
+        }
+    }
+
+    /// −β, pre-split for error-free products.
+    fn split_neg_beta(&self) -> [(f64, f64, f64); 3] {
+        let mut out = [(0.0, 0.0, 0.0); 3];
+        for j in 0..self.p {
+            let nb = -self.beta[j];
+            let (h, l) = split(nb);
+            out[j] = (nb, h, l);
+        }
+        out
+    }
+
+    /// (XᵀWX)⁻¹ = R⁻¹R⁻ᵀ in the raw units.
+    fn unscaled_covariance(&self) -> DMatrix<f64> {
+        let p = self.p;
+        DMatrix::from_fn(p, p, |a, b| {
+            (a.max(b)..p)
+                .map(|k| self.r_inv[a][k] * self.r_inv[b][k])
+                .sum()
+        })
+    }
+}
+
+/// A fit made on the streaming path, with what the diagnostics pass needs.
+pub(crate) struct FastFit {
+    rows: Vec<Row>,
+    fitted: Sub,
+    /// The other model, when there are at least 4 used points.
+    other: Option<Sub>,
+    /// χ² of the fitted model.
+    pub(crate) rss: f64,
+    /// χ² of the other model on the same points, when there are at least 4.
+    pub(crate) rss_other: Option<f64>,
+    /// Σw, Σw·y, Σ ln w over the used points.
+    pub(crate) sum_w: f64,
+    /// Σ ln w (0 unweighted).
+    pub(crate) sum_ln_w: f64,
+    /// Σ w(y − ȳ_w)².
+    pub(crate) tss: f64,
+    /// Σ w/T.
+    pub(crate) sum_w_inv_t: f64,
+    /// Lowest used temperature.
+    pub(crate) t_min: f64,
+    /// Highest used temperature.
+    pub(crate) t_max: f64,
+}
+
+impl FastFit {
+    /// Number of used points.
+    pub(crate) fn n(&self) -> usize {
+        self.rows.len()
+    }
+
+    /// Coefficients of the fitted model.
+    pub(crate) fn coefficients(&self) -> Vec<f64> {
+        self.fitted.beta[..self.fitted.p].to_vec()
+    }
+
+    /// Unscaled covariance of the fitted model.
+    pub(crate) fn unscaled_covariance(&self) -> DMatrix<f64> {
+        self.fitted.unscaled_covariance()
+    }
+
+    /// Tries the streaming path; `None` sends the caller to the general path.
+    pub(crate) fn try_new(points: &[Measurement], options: &FitOptions) -> Option<FastFit> {
+        options.validate().ok()?;
+        let weighted = options.weighting == Weighting::InverseVariance;
+        let theta = options.t_ref_k;
+        let mut rows = Vec::with_capacity(points.len());
+        let mut r4 = [[0.0f64; 4]; 4];
+        let mut block = [[0.0f64; BLOCK]; 4];
+        let mut m = 0;
+        let mut sumsq = [0.0f64; 4];
+        let mut max_abs = [0.0f64; 4];
+        let (mut sum_w, mut sum_wy, mut sum_ln_w, mut sum_w_inv_t) = (0.0, 0.0, 0.0, 0.0);
+        let mut t_min = f64::INFINITY;
+        let mut t_max = f64::NEG_INFINITY;
+        for (i, pt) in points.iter().enumerate() {
+            pt.validate(i).ok()?;
+            if !pt.included {
+                continue;
+            }
+            let (w, sw) = if weighted {
+                let s = pt.sigma_ln_k?;
+                let w = 1.0 / (s * s);
+                if !w.is_normal() {
+                    return None;
+                }
+                (w, w.sqrt())
+            } else {
+                (1.0, 1.0)
+            };
+            let x = Model::ConstantCp.row(pt.t_k, theta);
+            let row = Row {
+                c0: x[0],
+                c1: x[1],
+                c2: x[2],
+                sw,
+                y: pt.ln_k,
+            };
+            rows.push(row);
+            let t = pt.t_k;
+            t_min = t_min.min(t);
+            t_max = t_max.max(t);
+            sum_w += w;
+            sum_wy += w * pt.ln_k;
+            if weighted {
+                sum_ln_w += w.ln();
+            }
+            sum_w_inv_t += w / t;
+            let (a, b) = row.weighted();
+            let vals = [a[0], a[1], a[2], b];
+            for j in 0..4 {
+                block[j][m] = vals[j];
+                sumsq[j] += vals[j] * vals[j];
+                max_abs[j] = max_abs[j].max(vals[j].abs());
+            }
+            m += 1;
+            if m == BLOCK {
+                absorb(&mut r4, &mut block, m);
+                m = 0;
+            }
+        }
+        if m > 0 {
+            absorb(&mut r4, &mut block, m);
+        }
+        let n = rows.len();
+        let p = options.model.n_params();
+        let needed = if !weighted || options.convention == SigmaConvention::ScaledByFit {
+            p + 1
+        } else {
+            p
+        };
+        if n < needed || t_min >= t_max {
+            return None;
+        }
+        // Keep to numbers whose squares and sums of squares are safely representable;
+        // anything else goes the general way (which scales before squaring).
+        for j in 0..4 {
+            let big = max_abs[j];
+            if !(sumsq[j].is_finite() && big < 1e100 && (big > 1e-100 || j == 3)) {
+                return None;
+            }
+        }
+        if r4.iter().flatten().any(|v| !v.is_finite()) {
+            return None;
+        }
+        let mut scale = [1.0; 3];
+        for j in 0..3 {
+            scale[j] = power_of_two_near(sumsq[j].sqrt())?;
+        }
+        let other_model = match options.model {
+            Model::Linear => Model::ConstantCp,
+            Model::ConstantCp => Model::Linear,
+        };
+        let (mut fitted, refine_fitted) = Sub::new(&r4, p, &scale)?;
+        let mut other = None;
+        let mut refine_other = false;
+        if n >= 4 {
+            let (o, r) = Sub::new(&r4, other_model.n_params(), &scale)?;
+            other = Some(o);
+            refine_other = r;
+        }
+        if refine_fitted {
+            refine(&rows, &mut fitted, &scale)?;
+        }
+        if let (Some(o), true) = (other.as_mut(), refine_other) {
+            refine(&rows, o, &scale)?;
+        }
+
+        // χ² of both models and the weighted total sum of squares, in one pass.
+        let mean = sum_wy / sum_w;
+        let sf = fitted.split_neg_beta();
+        let so = other.as_ref().map(|o| o.split_neg_beta());
+        let (mut rss, mut rss_o, mut tss) = (0.0, 0.0, 0.0);
+        for row in &rows {
+            let (a, b) = row.weighted();
+            let e = fitted.residual(&a, b, &sf);
+            rss += e * e;
+            if let (Some(o), Some(so)) = (other.as_ref(), so.as_ref()) {
+                let e = o.residual(&a, b, so);
+                rss_o += e * e;
+            }
+            let d = (row.y - mean) * row.sw;
+            tss += d * d;
+        }
+        if !rss.is_finite() || !rss_o.is_finite() || !tss.is_finite() {
+            return None;
+        }
+        let rss_other = other.as_ref().map(|_| rss_o);
+        Some(FastFit {
+            rows,
+            fitted,
+            other,
+            rss,
+            rss_other,
+            sum_w,
+            sum_ln_w,
+            tss,
+            sum_w_inv_t,
+            t_min,
+            t_max,
+        })
+    }
+
+    /// Per-point diagnostics in input order.
+    pub(crate) fn diagnose(
+        &self,
+        points: &[Measurement],
+        options: &FitOptions,
+        ctx: &PointContext<'_>,
+    ) -> Vec<PointDiagnostics> {
+        let _ = &self.other;
+        let sub = &self.fitted;
+        let p = sub.p;
+        let beta = sub.beta;
+        let theta = options.t_ref_k;
+        let mut used_rows = self.rows.iter();
+        let mut out = Vec::with_capacity(points.len());
+        for (i, m) in points.iter().enumerate() {
+            if m.included {
+                let Some(row) = used_rows.next() else { break };
+                let x = [row.c0, row.c1, row.c2];
+                let fitted: f64 = (0..p).map(|j| x[j] * beta[j]).sum();
+                let e = m.ln_k - fitted;
+                // hᵢ = ‖R⁻ᵀ aᵢ‖² with aᵢ the weighted row.
+                let (a, _) = row.weighted();
+                let mut h = 0.0;
+                for k in 0..p {
+                    let s: f64 = (0..=k).map(|j| sub.r_inv[j][k] * a[j]).sum();
+                    h += s * s;
+                }
+                out.push(diagnose_one(ctx, i, m, &x, Some((h.min(1.0), e, fitted))));
+            } else {
+                let x = options.model.row(m.t_k, theta);
+                out.push(diagnose_one(ctx, i, m, &x, None));
+            }
+        }
+        out
+    }
+}
+
+/// Refines `sub.beta` by corrected semi-normal equations with residuals in twice the
+/// working precision; stops as `least_squares` does. `None` if a correction is not finite.
+fn refine(rows: &[Row], sub: &mut Sub, scale: &[f64; 3]) -> Option<()> {
+    let p = sub.p;
+    sub.refined = true;
+    let amax = |v: &[f64; 3]| (0..p).map(|j| (v[j] * scale[j]).abs()).fold(0.0, f64::max);
+    let mut previous = amax(&sub.beta);
+    for _ in 0..MAX_REFINEMENT_STEPS {
+        let sb = sub.split_neg_beta();
+        // g = Aᵀs, s = b − Aβ; blocked sums keep the rounding of g at the level of s's own.
+        let mut g = [0.0; 3];
+        for chunk in rows.chunks(BLOCK) {
+            let mut gb = [0.0; 3];
+            for row in chunk {
+                let (a, b) = row.weighted();
+                let s = sub.residual(&a, b, &sb);
+                for j in 0..p {
+                    gb[j] += a[j] * s;
+                }
+            }
+            for j in 0..p {
+                g[j] += gb[j];
+            }
+        }
+        let dx = sub.correction(&g);
+        let size = amax(&dx);
+        if !size.is_finite() || size >= previous {
+            break;
+        }
+        for j in 0..p {
+            sub.beta[j] += dx[j];
+        }
+        let rate = size / previous;
+        previous = size;
+        if size * rate <= f64::EPSILON * amax(&sub.beta) {
+            break;
+        }
+    }
+    sub.beta[..p].iter().all(|v| v.is_finite()).then_some(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::least_squares::{solve, weighted_rss};
+    use crate::vant_hoff::design;
+
+    /// Curved, noisy, unequally weighted data with one excluded point (invented).
+    fn data(n: usize) -> Vec<Measurement> {
+        let mut u = 0.25f64;
+        (0..n)
+            .map(|i| {
+                u = (u + 0.618_033_988_749_894_9) % 1.0;
+                let t = 278.15 + 60.0 * (i as f64 + u) / n as f64;
+                let x = Model::ConstantCp.row(t, 298.15);
+                let sigma = 0.02 + 0.06 * u;
+                let m = Measurement::new(
+                    t,
+                    x[0] * -45e3 + x[1] * -60.0 + x[2] * -600.0 + sigma * (u - 0.5) * 3.0,
+                )
+                .with_sigma(sigma);
+                if i == 3 {
+                    m.excluded()
+                } else {
+                    m
+                }
+            })
+            .collect()
+    }
+
+    fn rel(a: f64, b: f64) -> f64 {
+        (a - b).abs() / b.abs().max(1e-300)
+    }
+
+    #[test]
+    fn streaming_path_agrees_with_the_general_solver() {
+        // The general Householder solver (nalgebra QR with augmented-system refinement) is
+        // the reference; both are least squares, so they agree to rounding.
+        for n in [6usize, 50, 3000] {
+            let pts = data(n);
+            for model in [Model::Linear, Model::ConstantCp] {
+                for weighting in [Weighting::InverseVariance, Weighting::Unweighted] {
+                    let opts = FitOptions {
+                        model,
+                        weighting,
+                        ..FitOptions::default()
+                    };
+                    let fast = FastFit::try_new(&pts, &opts).expect("streaming path taken");
+                    let used: Vec<usize> = (0..n).filter(|&i| pts[i].included).collect();
+                    let y: Vec<f64> = used.iter().map(|&i| pts[i].ln_k).collect();
+                    let w: Option<Vec<f64>> =
+                        (weighting == Weighting::InverseVariance).then(|| {
+                            used.iter()
+                                .map(|&i| 1.0 / pts[i].sigma_ln_k.unwrap().powi(2))
+                                .collect()
+                        });
+                    let x = design(&pts, &used, model, 298.15);
+                    let general = solve(&x, &y, w.as_deref()).unwrap();
+                    for (a, b) in fast.coefficients().iter().zip(&general.coefficients) {
+                        assert!(rel(*a, *b) < 1e-10, "n={n} {model:?}: {a} vs {b}");
+                    }
+                    assert!(rel(fast.rss, general.rss) < 1e-10);
+                    let uc = fast.unscaled_covariance();
+                    for (a, b) in uc.iter().zip(general.unscaled_covariance.iter()) {
+                        assert!(rel(*a, *b) < 1e-9, "{a} vs {b}");
+                    }
+                    let other = match model {
+                        Model::Linear => Model::ConstantCp,
+                        Model::ConstantCp => Model::Linear,
+                    };
+                    let xo = design(&pts, &used, other, 298.15);
+                    let rss_o = weighted_rss(&xo, &y, w.as_deref()).unwrap();
+                    assert!(rel(fast.rss_other.unwrap(), rss_o) < 1e-10);
+                    // Leverages through the full fit.
+                    let f = crate::fit(&pts, &opts).unwrap();
+                    let lev: Vec<f64> = f
+                        .points
+                        .iter()
+                        .filter(|d| d.used)
+                        .map(|d| d.leverage)
+                        .collect();
+                    for (a, b) in lev.iter().zip(&general.leverages) {
+                        assert!((a - b).abs() < 1e-12, "{a} vs {b}");
+                    }
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn hard_cases_take_the_general_path() {
+        let pts = data(20);
+        let opts = FitOptions::default();
+        // Two temperatures only: the ΔCp° column of the comparison is dependent.
+        let two: Vec<Measurement> = pts
+            .iter()
+            .enumerate()
+            .map(|(i, m)| Measurement {
+                t_k: if i % 2 == 0 { 290.0 } else { 300.0 },
+                ..*m
+            })
+            .collect();
+        assert!(FastFit::try_new(&two, &opts).is_none());
+        assert!(crate::fit(&two, &opts).unwrap().comparison.is_none());
+        // A missing σ and a bad level are reported by the general path.
+        let mut missing = pts.clone();
+        missing[5].sigma_ln_k = None;
+        assert!(FastFit::try_new(&missing, &opts).is_none());
+        let bad = FitOptions { level: 2.0, ..opts };
+        assert!(FastFit::try_new(&pts, &bad).is_none());
+    }
+}
