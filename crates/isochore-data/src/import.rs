@@ -384,9 +384,53 @@ pub fn import_path(path: impl AsRef<Path>, options: &ImportOptions) -> Result<Im
             limit,
         });
     }
-    let mut bytes = Vec::with_capacity(size as usize + 1);
-    file.take(limit + 1).read_to_end(&mut bytes).map_err(io)?;
+    let bytes = read_file(file, size, limit).map_err(io)?;
     import_owned(&name, Some(path.display().to_string()), bytes, options)
+}
+
+/// Files larger than this (bytes) are read in two halves on two threads.
+const PARALLEL_READ_ABOVE: u64 = 4 << 20;
+
+/// Reads the whole file (at most `limit + 1` bytes, so that a file that grew past the
+/// limit is still caught). A large file is read in two halves at once: copying from the
+/// page cache and the first touch of each fresh page then happen on two cores.
+fn read_file(file: std::fs::File, size: u64, limit: u64) -> std::io::Result<Vec<u8>> {
+    if size > PARALLEL_READ_ABOVE {
+        #[cfg(unix)]
+        {
+            use std::os::unix::fs::FileExt;
+            // Zeroed memory from the allocator costs nothing until it is written.
+            let mut bytes = vec![0u8; size as usize];
+            let mid = bytes.len() / 2;
+            let (lo, hi) = bytes.split_at_mut(mid);
+            let f = &file;
+            let ok = std::thread::scope(|sc| {
+                let second = std::thread::Builder::new()
+                    .spawn_scoped(sc, move || f.read_exact_at(hi, mid as u64))
+                    .ok();
+                let first = f.read_exact_at(lo, 0);
+                let second = match second {
+                    Some(h) => h.join().ok().and_then(Result::ok),
+                    None => None,
+                };
+                first.is_ok() && second.is_some()
+            });
+            if ok {
+                // Anything written after `size` was taken from the metadata.
+                let mut rest = &file;
+                std::io::Seek::seek(&mut rest, std::io::SeekFrom::Start(size))?;
+                rest.take(limit + 1 - size.min(limit + 1))
+                    .read_to_end(&mut bytes)?;
+                return Ok(bytes);
+            }
+            // The file changed size while it was read: read it again from the start.
+            let mut again = &file;
+            std::io::Seek::seek(&mut again, std::io::SeekFrom::Start(0))?;
+        }
+    }
+    let mut bytes = Vec::with_capacity(size as usize + 1);
+    file.take(limit + 1).read_to_end(&mut bytes)?;
+    Ok(bytes)
 }
 
 /// Imports bytes (for example a file already in memory). `name` is used in messages.
@@ -513,14 +557,28 @@ fn stem(name: &str) -> String {
     }
 }
 
-fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Parsed, Error> {
-    if let Some((line, character)) = text::find_nul(text, start) {
-        return Err(Error::Binary {
-            file: file.to_string(),
-            line,
-            character,
-        });
+fn binary(file: &str, text: &str, start: usize) -> Error {
+    let (line, character) = text::find_nul(text, start).unwrap_or((1, 1));
+    Error::Binary {
+        file: file.to_string(),
+        line,
+        character,
     }
+}
+
+fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Parsed, Error> {
+    // One pass finds the first NUL byte (a binary file) and the first quote.
+    let bytes = text.as_bytes();
+    let first_quote = match memchr::memchr2(0, b'"', &bytes[start..]) {
+        None => None,
+        Some(i) if bytes[start + i] == 0 => return Err(binary(file, text, start)),
+        Some(i) => {
+            if memchr::memchr(0, &bytes[start + i..]).is_some() {
+                return Err(binary(file, text, start));
+            }
+            Some(start + i)
+        }
+    };
     // A first line "sep=;" (written by some spreadsheet programs) names the delimiter.
     let (start, skipped, sep) = text::separator_line(text, start);
     let delimiter = o
@@ -620,9 +678,12 @@ fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Pars
     };
     // Large files without quotes are read in two halves on two threads: with no quotes,
     // every line break ends a record, so the halves can be cut at any line break.
-    let bytes = text.as_bytes();
     let data_len = text.len() - data_start;
-    let quote_free = memchr::memchr(b'"', &bytes[data_start..]).is_none();
+    let quote_free = match first_quote {
+        None => true,
+        Some(q) if q >= data_start => false,
+        Some(_) => memchr::memchr(b'"', &bytes[data_start..]).is_none(),
+    };
     let ctx = Scan { quote_free, ..ctx };
     let cut = if data_len > TWO_THREADS_ABOVE && quote_free {
         let mid = data_start + data_len / 2;
@@ -634,17 +695,19 @@ fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Pars
     let chunk = match cut {
         None => ctx.run(data_start, text.len(), first_line)?,
         Some(cut) => {
-            let lines_before = memchr::memchr_iter(b'\n', &bytes[data_start..cut]).count();
+            // The second half first counts the lines of the first (to number its own).
+            let second_half = || {
+                let lines_before = memchr::memchr_iter(b'\n', &bytes[data_start..cut]).count();
+                ctx.run(cut, text.len(), first_line + lines_before)
+            };
             let (a, b) = std::thread::scope(|sc| {
                 let second = std::thread::Builder::new()
-                    .spawn_scoped(sc, || ctx.run(cut, text.len(), first_line + lines_before))
+                    .spawn_scoped(sc, second_half)
                     .ok();
                 let a = ctx.run(data_start, cut, first_line);
                 let b = match second {
-                    Some(h) => h
-                        .join()
-                        .unwrap_or_else(|_| ctx.run(cut, text.len(), first_line + lines_before)),
-                    None => ctx.run(cut, text.len(), first_line + lines_before),
+                    Some(h) => h.join().unwrap_or_else(|_| second_half()),
+                    None => second_half(),
                 };
                 (a, b)
             });

@@ -300,39 +300,30 @@ pub(crate) fn fast_decimal(s: &[u8], comma_decimal: bool) -> Option<f64> {
         }
         _ => false,
     };
-    const LIMIT: u64 = 1 << 53;
+    // One loop over the digits before and after the decimal mark (one hard-to-predict
+    // exit instead of two). At most 19 digits fit a u64 without overflow; the 53-bit limit
+    // is checked once at the end (the significand only grows digit by digit).
+    let first = i;
     let mut mant: u64 = 0;
-    let mut exp: i32 = 0;
-    let mut any = false;
+    let mut dot = usize::MAX;
     while i < n {
-        let d = s[i].wrapping_sub(b'0');
-        if d > 9 {
+        let b = s[i];
+        let d = b.wrapping_sub(b'0');
+        if d <= 9 {
+            mant = mant.wrapping_mul(10).wrapping_add(d as u64);
+        } else if dot == usize::MAX && (b == b'.' || (comma_decimal && b == b',')) {
+            dot = i;
+        } else {
             break;
         }
-        any = true;
-        mant = mant * 10 + d as u64;
-        if mant > LIMIT {
-            return None;
-        }
         i += 1;
     }
-    if i < n && (s[i] == b'.' || (comma_decimal && s[i] == b',')) {
-        i += 1;
-        while i < n {
-            let d = s[i].wrapping_sub(b'0');
-            if d > 9 {
-                break;
-            }
-            any = true;
-            mant = mant * 10 + d as u64;
-            if mant > LIMIT {
-                return None;
-            }
-            exp -= 1;
-            i += 1;
-        }
-    }
-    if !any {
+    let (digits, mut exp) = if dot == usize::MAX {
+        (i - first, 0i32)
+    } else {
+        (i - first - 1, -((i - dot - 1) as i32))
+    };
+    if digits == 0 || digits > 19 || mant > (1 << 53) {
         return None;
     }
     if i < n && (s[i] | 0x20) == b'e' {
