@@ -240,8 +240,8 @@ impl Sub {
         ))
     }
 
-    /// δ = R⁻¹ R⁻ᵀ g.
-    fn correction(&self, g: &[f64; 3]) -> [f64; 3] {
+    /// u = R⁻ᵀ g and δ = R⁻¹ u.
+    fn correction(&self, g: &[f64; 3]) -> ([f64; 3], [f64; 3]) {
         let p = self.p;
         let mut u = [0.0; 3];
         for k in 0..p {
@@ -251,7 +251,7 @@ impl Sub {
         for a in 0..p {
             d[a] = (a..p).map(|k| self.r_inv[a][k] * u[k]).sum();
         }
-        d
+        (u, d)
     }
 
     /// Residual √w(y − xβ) of a row, in twice the working precision when refined.
@@ -431,40 +431,21 @@ impl FastFit {
             Model::Linear => Model::ConstantCp,
             Model::ConstantCp => Model::Linear,
         };
-        let (mut fitted, refine_fitted) = Sub::new(&r4, p, &scale)?;
-        let mut other = None;
-        let mut refine_other = false;
+        let (fitted, refine_fitted) = Sub::new(&r4, p, &scale)?;
+        let mut tracks = vec![Track::new(fitted, refine_fitted, &scale)];
         if n >= 4 {
             let (o, r) = Sub::new(&r4, other_model.n_params(), &scale)?;
-            other = Some(o);
-            refine_other = r;
+            tracks.push(Track::new(o, r, &scale));
         }
-        if refine_fitted {
-            refine(&rows, &mut fitted, &scale)?;
-        }
-        if let (Some(o), true) = (other.as_mut(), refine_other) {
-            refine(&rows, o, &scale)?;
-        }
-
-        // χ² of both models and the weighted total sum of squares, in one pass.
         let mean = sum_wy / sum_w;
-        let sf = fitted.split_neg_beta();
-        let so = other.as_ref().map(|o| o.split_neg_beta());
-        let (mut rss, mut rss_o, mut tss) = (0.0, 0.0, 0.0);
-        for row in &rows {
-            let (a, b) = row.weighted();
-            let e = fitted.residual(&a, b, &sf);
-            rss += e * e;
-            if let (Some(o), Some(so)) = (other.as_ref(), so.as_ref()) {
-                let e = o.residual(&a, b, so);
-                rss_o += e * e;
-            }
-            let d = (row.y - mean) * row.sw;
-            tss += d * d;
-        }
-        if !rss.is_finite() || !rss_o.is_finite() || !tss.is_finite() {
-            return None;
-        }
+        let tss = residual_passes(&rows, &mut tracks, &scale, mean)?;
+        let mut tracks = tracks.into_iter();
+        let first = tracks.next()?;
+        let (fitted, rss) = (first.sub, first.rss);
+        let (other, rss_o) = match tracks.next() {
+            Some(t) => (Some(t.sub), t.rss),
+            None => (None, 0.0),
+        };
         let rss_other = other.as_ref().map(|_| rss_o);
         Some(FastFit {
             rows,
@@ -518,45 +499,119 @@ impl FastFit {
     }
 }
 
-/// Refines `sub.beta` by corrected semi-normal equations with residuals in twice the
-/// working precision; stops as `least_squares` does. `None` if a correction is not finite.
-fn refine(rows: &[Row], sub: &mut Sub, scale: &[f64; 3]) -> Option<()> {
-    let p = sub.p;
-    sub.refined = true;
-    let amax = |v: &[f64; 3]| (0..p).map(|j| (v[j] * scale[j]).abs()).fold(0.0, f64::max);
-    let mut previous = amax(&sub.beta);
-    for _ in 0..MAX_REFINEMENT_STEPS {
-        let sb = sub.split_neg_beta();
-        // g = Aᵀs, s = b − Aβ; blocked sums keep the rounding of g at the level of s's own.
-        let mut g = [0.0; 3];
+/// One model through the residual passes.
+struct Track {
+    sub: Sub,
+    /// Whether the first-order bound asks for refinement.
+    refine: bool,
+    /// Finished: `rss` holds χ² at the final coefficients.
+    done: bool,
+    /// Size of the last correction (initially of the solution), scaled units.
+    previous: f64,
+    rss: f64,
+    /// Σs² and g = Aᵀs of the current pass.
+    ss: f64,
+    g: [f64; 3],
+    /// Per-block part of g.
+    gb: [f64; 3],
+    split: [(f64, f64, f64); 3],
+}
+
+impl Track {
+    fn new(mut sub: Sub, refine: bool, scale: &[f64; 3]) -> Self {
+        sub.refined = refine;
+        let previous = amax(&sub.beta, sub.p, scale);
+        let split = sub.split_neg_beta();
+        Track {
+            sub,
+            refine,
+            done: false,
+            previous,
+            rss: 0.0,
+            ss: 0.0,
+            g: [0.0; 3],
+            gb: [0.0; 3],
+            split,
+        }
+    }
+}
+
+/// max |βⱼ Dⱼ| over the first p entries (the size in scaled units).
+fn amax(v: &[f64; 3], p: usize, scale: &[f64; 3]) -> f64 {
+    (0..p).map(|j| (v[j] * scale[j]).abs()).fold(0.0, f64::max)
+}
+
+/// Residual passes for every model at once. A model that needs no refinement gets its χ²
+/// from the first pass. One that does is refined by corrected semi-normal equations:
+/// s = b − Aβ in twice the working precision, g = Aᵀs (blocked sums keep its rounding at the
+/// level of s's own), δ = R⁻¹R⁻ᵀg, stopping as `least_squares` does; the χ² at β + δ is
+/// Σs² − ‖R⁻ᵀg‖² (exact for the least-squares correction), so no extra pass is needed.
+/// Returns Σ w(y − ȳ_w)² from the first pass; `None` if anything is not finite.
+fn residual_passes(rows: &[Row], tracks: &mut [Track], scale: &[f64; 3], mean: f64) -> Option<f64> {
+    let mut tss = 0.0;
+    for step in 0..=MAX_REFINEMENT_STEPS {
+        for t in tracks.iter_mut() {
+            t.ss = 0.0;
+            t.g = [0.0; 3];
+        }
         for chunk in rows.chunks(BLOCK) {
-            let mut gb = [0.0; 3];
             for row in chunk {
                 let (a, b) = row.weighted();
-                let s = sub.residual(&a, b, &sb);
-                for j in 0..p {
-                    gb[j] += a[j] * s;
+                for t in tracks.iter_mut().filter(|t| !t.done) {
+                    let s = t.sub.residual(&a, b, &t.split);
+                    t.ss += s * s;
+                    if t.refine {
+                        for j in 0..t.sub.p {
+                            t.gb[j] += a[j] * s;
+                        }
+                    }
+                }
+                if step == 0 {
+                    let d = (row.y - mean) * row.sw;
+                    tss += d * d;
                 }
             }
-            for j in 0..p {
-                g[j] += gb[j];
+            for t in tracks.iter_mut() {
+                for j in 0..3 {
+                    t.g[j] += t.gb[j];
+                }
+                t.gb = [0.0; 3];
             }
         }
-        let dx = sub.correction(&g);
-        let size = amax(&dx);
-        if !size.is_finite() || size >= previous {
-            break;
+        for t in tracks.iter_mut().filter(|t| !t.done) {
+            let p = t.sub.p;
+            if !t.refine || step == MAX_REFINEMENT_STEPS {
+                t.rss = t.ss;
+                t.done = true;
+                continue;
+            }
+            let (u, dx) = t.sub.correction(&t.g);
+            let size = amax(&dx, p, scale);
+            if !size.is_finite() || size >= t.previous {
+                t.rss = t.ss;
+                t.done = true;
+                continue;
+            }
+            for j in 0..p {
+                t.sub.beta[j] += dx[j];
+            }
+            t.split = t.sub.split_neg_beta();
+            let drop: f64 = u[..p].iter().map(|v| v * v).sum();
+            t.rss = (t.ss - drop).max(0.0);
+            let rate = size / t.previous;
+            t.previous = size;
+            if size * rate <= f64::EPSILON * amax(&t.sub.beta, p, scale) {
+                t.done = true;
+            }
         }
-        for j in 0..p {
-            sub.beta[j] += dx[j];
-        }
-        let rate = size / previous;
-        previous = size;
-        if size * rate <= f64::EPSILON * amax(&sub.beta) {
+        if tracks.iter().all(|t| t.done) {
             break;
         }
     }
-    sub.beta[..p].iter().all(|v| v.is_finite()).then_some(())
+    let finite = tracks
+        .iter()
+        .all(|t| t.rss.is_finite() && t.sub.beta.iter().all(|v| v.is_finite()));
+    (finite && tss.is_finite()).then_some(tss)
 }
 
 #[cfg(test)]
