@@ -115,55 +115,107 @@ pub struct PointDiagnostics {
 }
 
 /// What every point's diagnostics share: the fit's sizes, variance, covariance and thresholds.
-pub(crate) struct PointContext<'a> {
-    /// Number of coefficients p.
-    pub(crate) p: usize,
-    /// Used points n.
-    pub(crate) n: f64,
+pub(crate) struct PointContext {
+    p: usize,
     /// Residual degrees of freedom n − p.
-    pub(crate) dof: f64,
-    /// s² = χ²/(n − p).
-    pub(crate) s2: f64,
-    /// Covariance multiplier (s², or 1 under absolute σ).
-    pub(crate) variance_scale: f64,
-    /// Scaled covariance of the coefficients.
-    pub(crate) cov: &'a DMatrix<f64>,
-    /// Unscaled covariance (XᵀWX)⁻¹.
-    pub(crate) unscaled_cov: &'a DMatrix<f64>,
-    /// The coefficients.
-    pub(crate) beta: &'a [f64],
-    /// Whether weights 1/σ² were applied.
-    pub(crate) weighted: bool,
-    /// Weight of a point with no σ of its own: n/Σw of the used points (1 unweighted).
-    pub(crate) typical_w: f64,
-    /// Flag thresholds.
-    pub(crate) thresholds: crate::model::FlagThresholds,
+    dof: f64,
+    s2: f64,
+    /// 1/s.
+    inv_s: f64,
+    /// 1/(n − p − 1).
+    inv_dof_less_one: f64,
+    variance_scale: f64,
+    /// Scaled and unscaled covariance, padded to 3×3.
+    cov: [[f64; 3]; 3],
+    unscaled_cov: [[f64; 3]; 3],
+    beta: [f64; 3],
+    weighted: bool,
+    /// 1/w of a point with no σ of its own: Σw/n of the used points inverted (1 unweighted).
+    typical_inv_w: f64,
+    outlier: f64,
+    leverage_limit: f64,
+    cooks_limit: f64,
+}
+
+impl PointContext {
+    /// The context of a fit with `n` used points, coefficients `beta`, covariance `cov`
+    /// (scaled) and `unscaled_cov`, s², the covariance multiplier, and `typical_w` = Σw/n,
+    /// the weight given to a point without σ (1 unweighted).
+    #[allow(clippy::too_many_arguments)]
+    pub(crate) fn new(
+        n: usize,
+        beta: &[f64],
+        cov: &DMatrix<f64>,
+        unscaled_cov: &DMatrix<f64>,
+        s2: f64,
+        variance_scale: f64,
+        weighted: bool,
+        typical_w: f64,
+        th: crate::model::FlagThresholds,
+    ) -> Self {
+        let p = beta.len();
+        let n = n as f64;
+        let dof = n - p as f64;
+        let mut c = [[0.0; 3]; 3];
+        let mut u = [[0.0; 3]; 3];
+        let mut b = [0.0; 3];
+        for a in 0..p {
+            b[a] = beta[a];
+            for k in 0..p {
+                c[a][k] = cov[(a, k)];
+                u[a][k] = unscaled_cov[(a, k)];
+            }
+        }
+        PointContext {
+            p,
+            dof,
+            s2,
+            inv_s: 1.0 / s2.sqrt(),
+            inv_dof_less_one: 1.0 / (dof - 1.0),
+            variance_scale,
+            cov: c,
+            unscaled_cov: u,
+            beta: b,
+            weighted,
+            typical_inv_w: 1.0 / typical_w,
+            outlier: th.outlier_studentized,
+            leverage_limit: th.leverage_factor * p as f64 / n,
+            cooks_limit: th.cooks_factor / n,
+        }
+    }
+}
+
+/// xᵀ M x over the first p entries.
+#[inline]
+fn quadratic(m: &[[f64; 3]; 3], x: &[f64], p: usize) -> f64 {
+    let mut q = 0.0;
+    for a in 0..p {
+        let mut r = 0.0;
+        for b in 0..p {
+            r += m[a][b] * x[b];
+        }
+        q += x[a] * r;
+    }
+    q
 }
 
 /// Diagnostics of point `i` with design row `x` (its first p entries are used). `used`
-/// carries (leverage, residual, fitted value) for a point that took part in the fit.
+/// carries (leverage, residual, fitted value, √w) for a point that took part in the fit.
 pub(crate) fn diagnose_one(
-    ctx: &PointContext<'_>,
+    ctx: &PointContext,
     i: usize,
     m: &Measurement,
     x: &[f64],
-    used: Option<(f64, f64, f64)>,
+    used: Option<(f64, f64, f64, f64)>,
 ) -> PointDiagnostics {
     let p = ctx.p;
-    let n = ctx.n;
     let dof = ctx.dof;
-    let s2 = ctx.s2;
-    let th = ctx.thresholds;
-    let cov = ctx.cov;
     let good = |v: f64| v.is_finite().then_some(v);
     let sigma_ln_k = if ctx.weighted { m.sigma_ln_k } else { None };
-    let w = sigma_ln_k.map_or(ctx.typical_w, |s| 1.0 / (s * s));
-    let sw = w.sqrt();
-    let x = &x[..p];
-    let quad: f64 = (0..p)
-        .map(|a| (0..p).map(|b| x[a] * cov[(a, b)] * x[b]).sum::<f64>())
-        .sum();
-    let prediction_se = (ctx.variance_scale / w + quad).sqrt();
+    // 1/w = σ², or that of a typical used point when the point has none.
+    let inv_w = sigma_ln_k.map_or(ctx.typical_inv_w, |s| s * s);
+    let quad = quadratic(&ctx.cov, x, p);
+    let prediction_se = (ctx.variance_scale * inv_w + quad).sqrt();
     let mut d = PointDiagnostics {
         index: i,
         t_k: m.t_k,
@@ -182,50 +234,74 @@ pub(crate) fn diagnose_one(
         prediction_residual: None,
         flags: Flags::default(),
     };
-    if let Some((h, e, fitted)) = used {
+    if let Some((h, e, fitted, sw)) = used {
         let rw = sw * e;
         d.fitted = fitted;
         d.residual = e;
         d.weighted_residual = rw;
         d.leverage = h;
         let one_minus_h = 1.0 - h;
-        if dof >= 1.0 && s2 > 0.0 && one_minus_h > 1e-10 {
-            let t_int = rw / (s2.sqrt() * one_minus_h.sqrt());
+        if dof >= 1.0 && ctx.s2 > 0.0 && one_minus_h > 1e-10 {
+            // r/√(1 − h): the residual scaled to unit variance but for s.
+            let rq = rw / one_minus_h.sqrt();
+            let t_int = rq * ctx.inv_s;
             d.student_int = good(t_int);
-            let cook = rw * rw * h / (p as f64 * s2 * one_minus_h * one_minus_h);
+            let cook = t_int * t_int * h / (p as f64 * one_minus_h);
             d.cooks_d = good(cook);
             if dof >= 2.0 {
-                let s2_i = (dof * s2 - rw * rw / one_minus_h) / (dof - 1.0);
+                let s2_i = (dof * ctx.s2 - rq * rq) * ctx.inv_dof_less_one;
                 if s2_i > 0.0 {
-                    let t_ext = rw / (s2_i.sqrt() * one_minus_h.sqrt());
+                    let t_ext = rq / s2_i.sqrt();
                     d.student_ext = good(t_ext);
                     d.dffits = good(t_ext * (h / one_minus_h).sqrt());
                 }
             }
         }
-        d.flags.outlier = d
-            .student_ext
-            .is_some_and(|t| t.abs() > th.outlier_studentized);
-        d.flags.high_leverage = h > th.leverage_factor * p as f64 / n;
-        d.flags.influential = d.cooks_d.is_some_and(|c| c > th.cooks_factor / n);
+        d.flags.outlier = d.student_ext.is_some_and(|t| t.abs() > ctx.outlier);
+        d.flags.high_leverage = h > ctx.leverage_limit;
+        d.flags.influential = d.cooks_d.is_some_and(|c| c > ctx.cooks_limit);
     } else {
         let fitted: f64 = (0..p).map(|a| x[a] * ctx.beta[a]).sum();
         let e = m.ln_k - fitted;
+        let sw = (1.0 / inv_w).sqrt();
         d.fitted = fitted;
         d.residual = e;
         d.weighted_residual = sw * e;
-        let uc = ctx.unscaled_cov;
-        d.leverage = w
-            * (0..p)
-                .map(|a| (0..p).map(|b| x[a] * uc[(a, b)] * x[b]).sum::<f64>())
-                .sum::<f64>();
+        d.leverage = quadratic(&ctx.unscaled_cov, x, p) / inv_w;
         let z = e / prediction_se;
         d.prediction_residual = good(z);
-        d.flags.outlier = d
-            .prediction_residual
-            .is_some_and(|z| z.abs() > th.outlier_studentized);
+        d.flags.outlier = d.prediction_residual.is_some_and(|z| z.abs() > ctx.outlier);
     }
     d
+}
+
+/// What the warnings need from the diagnostics, gathered while they are made.
+#[derive(Debug, Default)]
+pub(crate) struct DiagnosticsSummary {
+    /// The first point whose fitted value, residual, leverage or prediction SE is not
+    /// finite: (index, temperature).
+    pub(crate) first_bad: Option<(usize, f64)>,
+    /// Points carrying any flag.
+    pub(crate) flagged: usize,
+    /// Whether a used point has leverage 1 (to 1e-10).
+    pub(crate) leverage_one: bool,
+}
+
+impl DiagnosticsSummary {
+    /// Takes one point into account.
+    #[inline]
+    pub(crate) fn note(&mut self, d: &PointDiagnostics) {
+        if self.first_bad.is_none()
+            && !(d.fitted.is_finite()
+                && d.residual.is_finite()
+                && d.leverage.is_finite()
+                && d.prediction_se.is_finite())
+        {
+            self.first_bad = Some((d.index, d.t_k));
+        }
+        self.flagged += usize::from(d.flags.any());
+        self.leverage_one |= d.used && d.leverage >= 1.0 - 1e-10;
+    }
 }
 
 /// Computes diagnostics for every point (used and excluded).
@@ -250,27 +326,27 @@ pub(crate) fn diagnose_points(
         .weights
         .as_ref()
         .map_or(1.0, |w| w.iter().sum::<f64>() / n);
-    let ctx = PointContext {
-        p: lin.p,
-        n,
-        dof: lin.dof() as f64,
+    let ctx = PointContext::new(
+        lin.n,
+        &lin.coefficients,
+        cov,
+        &lin.unscaled_covariance,
         s2,
         variance_scale,
-        cov,
-        unscaled_cov: &lin.unscaled_covariance,
-        beta: &lin.coefficients,
-        weighted: solved.weights.is_some(),
+        solved.weights.is_some(),
         typical_w,
-        thresholds: options.thresholds,
-    };
+        options.thresholds,
+    );
     points
         .iter()
         .enumerate()
         .map(|(i, m)| {
             let row = options.model.row(m.t_k, theta);
             let r = position[i];
-            let used =
-                (r != usize::MAX).then(|| (lin.leverages[r], lin.residuals[r], lin.fitted[r]));
+            let used = (r != usize::MAX).then(|| {
+                let sw = solved.weights.as_ref().map_or(1.0, |w| w[r].sqrt());
+                (lin.leverages[r], lin.residuals[r], lin.fitted[r], sw)
+            });
             diagnose_one(&ctx, i, m, &row, used)
         })
         .collect()

@@ -26,7 +26,7 @@
 // Indexing by row and column is the clearest way to write 3×3 and 4×4 triangular algebra.
 #![allow(clippy::needless_range_loop)]
 
-use crate::diagnostics::{diagnose_one, PointContext, PointDiagnostics};
+use crate::diagnostics::{diagnose_one, DiagnosticsSummary, PointContext, PointDiagnostics};
 use crate::least_squares::RANK_TOLERANCE;
 use crate::measurement::Measurement;
 use crate::model::{FitOptions, Model, SigmaConvention, Weighting};
@@ -303,8 +303,6 @@ impl Sub {
 pub(crate) struct FastFit {
     rows: Vec<Row>,
     fitted: Sub,
-    /// The other model, when there are at least 4 used points.
-    other: Option<Sub>,
     /// χ² of the fitted model.
     pub(crate) rss: f64,
     /// χ² of the other model on the same points, when there are at least 4.
@@ -442,15 +440,10 @@ impl FastFit {
         let mut tracks = tracks.into_iter();
         let first = tracks.next()?;
         let (fitted, rss) = (first.sub, first.rss);
-        let (other, rss_o) = match tracks.next() {
-            Some(t) => (Some(t.sub), t.rss),
-            None => (None, 0.0),
-        };
-        let rss_other = other.as_ref().map(|_| rss_o);
+        let rss_other = tracks.next().map(|t| t.rss);
         Some(FastFit {
             rows,
             fitted,
-            other,
             rss,
             rss_other,
             sum_w,
@@ -462,40 +455,44 @@ impl FastFit {
         })
     }
 
-    /// Per-point diagnostics in input order.
+    /// Per-point diagnostics in input order, with what the warnings need from them.
     pub(crate) fn diagnose(
         &self,
         points: &[Measurement],
         options: &FitOptions,
-        ctx: &PointContext<'_>,
-    ) -> Vec<PointDiagnostics> {
-        let _ = &self.other;
+        ctx: &PointContext,
+    ) -> (Vec<PointDiagnostics>, DiagnosticsSummary) {
         let sub = &self.fitted;
         let p = sub.p;
         let beta = sub.beta;
+        let ri = &sub.r_inv;
         let theta = options.t_ref_k;
         let mut used_rows = self.rows.iter();
         let mut out = Vec::with_capacity(points.len());
+        let mut summary = DiagnosticsSummary::default();
         for (i, m) in points.iter().enumerate() {
-            if m.included {
-                let Some(row) = used_rows.next() else { break };
-                let x = [row.c0, row.c1, row.c2];
-                let fitted: f64 = (0..p).map(|j| x[j] * beta[j]).sum();
-                let e = m.ln_k - fitted;
-                // hᵢ = ‖R⁻ᵀ aᵢ‖² with aᵢ the weighted row.
-                let (a, _) = row.weighted();
-                let mut h = 0.0;
-                for k in 0..p {
-                    let s: f64 = (0..=k).map(|j| sub.r_inv[j][k] * a[j]).sum();
-                    h += s * s;
+            let d = match (m.included, m.included.then(|| used_rows.next()).flatten()) {
+                (true, Some(row)) => {
+                    let x = [row.c0, row.c1, row.c2];
+                    let fitted: f64 = (0..p).map(|j| x[j] * beta[j]).sum();
+                    let e = m.ln_k - fitted;
+                    // hᵢ = ‖R⁻ᵀ aᵢ‖² with aᵢ the weighted row (R⁻¹ upper triangular).
+                    let (a, _) = row.weighted();
+                    let s0 = ri[0][0] * a[0];
+                    let s1 = ri[0][1] * a[0] + ri[1][1] * a[1];
+                    let mut h = s0 * s0 + s1 * s1;
+                    if p == 3 {
+                        let s2 = ri[0][2] * a[0] + ri[1][2] * a[1] + ri[2][2] * a[2];
+                        h += s2 * s2;
+                    }
+                    diagnose_one(ctx, i, m, &x, Some((h.min(1.0), e, fitted, row.sw)))
                 }
-                out.push(diagnose_one(ctx, i, m, &x, Some((h.min(1.0), e, fitted))));
-            } else {
-                let x = options.model.row(m.t_k, theta);
-                out.push(diagnose_one(ctx, i, m, &x, None));
-            }
+                _ => diagnose_one(ctx, i, m, &options.model.row(m.t_k, theta), None),
+            };
+            summary.note(&d);
+            out.push(d);
         }
-        out
+        (out, summary)
     }
 }
 

@@ -5,7 +5,7 @@
 //! Derived quantities (predictions, bands, the confidence ellipse, temperatures for a
 //! target K) are methods on [`VantHoffFit`] in [`crate::derived`].
 
-use crate::diagnostics::{diagnose_points, PointContext, PointDiagnostics};
+use crate::diagnostics::{diagnose_points, DiagnosticsSummary, PointContext, PointDiagnostics};
 use crate::error::Error;
 use crate::fast::FastFit;
 use crate::least_squares::{solve, weighted_rss, LinearFit};
@@ -575,38 +575,35 @@ pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, 
     let typical_sigma2 = if weighted { lin.n as f64 / sum_w } else { 1.0 };
     let new_observation_variance = variance_scale * typical_sigma2;
 
-    let points_diag = match &engine {
+    let (points_diag, summary) = match &engine {
         Engine::Fast(f) => {
-            let n = lin.n as f64;
-            let ctx = PointContext {
-                p,
-                n,
-                dof: dof as f64,
+            let ctx = PointContext::new(
+                lin.n,
+                &lin.coefficients,
+                &cov,
+                &lin.unscaled_covariance,
                 s2,
                 variance_scale,
-                cov: &cov,
-                unscaled_cov: &lin.unscaled_covariance,
-                beta: &lin.coefficients,
                 weighted,
-                typical_w: if weighted { sum_w / n } else { 1.0 },
-                thresholds: options.thresholds,
-            };
+                if weighted { sum_w / lin.n as f64 } else { 1.0 },
+                options.thresholds,
+            );
             f.diagnose(points, options, &ctx)
         }
         Engine::General { solved, .. } => {
-            diagnose_points(points, solved, options, &cov, variance_scale, s2)
+            let d = diagnose_points(points, solved, options, &cov, variance_scale, s2);
+            let mut summary = DiagnosticsSummary::default();
+            for p in &d {
+                summary.note(p);
+            }
+            (d, summary)
         }
     };
-    if let Some(d) = points_diag.iter().find(|d| {
-        !(d.fitted.is_finite()
-            && d.residual.is_finite()
-            && d.leverage.is_finite()
-            && d.prediction_se.is_finite())
-    }) {
+    if let Some((index, t_k)) = summary.first_bad {
         return Err(Error::NoSolution(format!(
             "point {}: the model cannot be evaluated at {} K (too far from any sensible temperature); correct or remove the point",
-            d.index + 1,
-            d.t_k
+            index + 1,
+            t_k
         )));
     }
 
@@ -695,7 +692,7 @@ pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, 
             ),
         ));
     }
-    let flagged = out.points.iter().filter(|d| d.flags.any()).count();
+    let flagged = summary.flagged;
     if flagged > 0 {
         warnings.push(Warning::new(
             WarningKind::FlaggedPoints,
@@ -755,11 +752,7 @@ pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, 
             "no residual degree of freedom: the reduced χ², residual SD and adjusted R² are undefined (reported as null) and the point diagnostics are empty",
         ));
     }
-    if out
-        .points
-        .iter()
-        .any(|d| d.used && d.leverage >= 1.0 - 1e-10)
-    {
+    if summary.leverage_one {
         warnings.push(Warning::new(
             WarningKind::Undefined,
             "a point has leverage 1 (the fit passes through it); its studentized residual and Cook's distance are undefined",
