@@ -116,25 +116,25 @@ pub struct PointDiagnostics {
 
 /// What every point's diagnostics share: the fit's sizes, variance, covariance and thresholds.
 pub(crate) struct PointContext {
-    p: usize,
+    pub(crate) p: usize,
     /// Residual degrees of freedom n − p.
-    dof: f64,
-    s2: f64,
+    pub(crate) dof: f64,
+    pub(crate) s2: f64,
     /// 1/s.
-    inv_s: f64,
+    pub(crate) inv_s: f64,
     /// 1/(n − p − 1).
-    inv_dof_less_one: f64,
-    variance_scale: f64,
+    pub(crate) inv_dof_less_one: f64,
+    pub(crate) variance_scale: f64,
     /// Scaled and unscaled covariance, padded to 3×3.
-    cov: [[f64; 3]; 3],
-    unscaled_cov: [[f64; 3]; 3],
-    beta: [f64; 3],
-    weighted: bool,
+    pub(crate) cov: [[f64; 3]; 3],
+    pub(crate) unscaled_cov: [[f64; 3]; 3],
+    pub(crate) beta: [f64; 3],
+    pub(crate) weighted: bool,
     /// 1/w of a point with no σ of its own: Σw/n of the used points inverted (1 unweighted).
-    typical_inv_w: f64,
-    outlier: f64,
-    leverage_limit: f64,
-    cooks_limit: f64,
+    pub(crate) typical_inv_w: f64,
+    pub(crate) outlier: f64,
+    pub(crate) leverage_limit: f64,
+    pub(crate) cooks_limit: f64,
 }
 
 impl PointContext {
@@ -187,7 +187,7 @@ impl PointContext {
 
 /// xᵀ M x over the first p entries.
 #[inline]
-fn quadratic(m: &[[f64; 3]; 3], x: &[f64], p: usize) -> f64 {
+pub(crate) fn quadratic(m: &[[f64; 3]; 3], x: &[f64], p: usize) -> f64 {
     let mut q = 0.0;
     for a in 0..p {
         let mut r = 0.0;

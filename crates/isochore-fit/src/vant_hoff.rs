@@ -472,10 +472,24 @@ pub(crate) fn statistics(
 /// assert!((f.delta_h().value - 40e3).abs() < 1e-6);
 /// ```
 pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, Error> {
+    fit_with(points, options, true)
+}
+
+/// [`fit`], with the streaming path allowed or not (tests compare the two).
+pub(crate) fn fit_with(
+    points: &[Measurement],
+    options: &FitOptions,
+    allow_streaming: bool,
+) -> Result<VantHoffFit, Error> {
     let model = options.model;
     // Well-behaved data take the streaming path (one QR for both models, no n×p matrix);
     // everything else, errors included, the general one.
-    let engine = match FastFit::try_new(points, options) {
+    let fast = if allow_streaming {
+        FastFit::try_new(points, options)
+    } else {
+        None
+    };
+    let engine = match fast {
         Some(fast) => Engine::Fast(fast),
         None => {
             let solved = solve_model(points, options, model)?;
