@@ -884,7 +884,7 @@ impl Scan<'_> {
                         owned = span.unescaped(text);
                         owned.trim()
                     } else {
-                        span.raw(text).trim()
+                        text::trim(span.raw(text))
                     };
                     let name = if name.is_empty() {
                         self.default_name
