@@ -254,29 +254,6 @@ impl Sub {
         (u, d)
     }
 
-    /// Residual √w(y − xβ) of a row, in twice the working precision when refined.
-    #[inline]
-    fn residual(&self, a: &[f64; 3], b: f64, split_beta: &[(f64, f64, f64); 3]) -> f64 {
-        if self.refined {
-            let mut hi = b;
-            let mut lo = 0.0;
-            for j in 0..self.p {
-                let (nb, bh, bl) = split_beta[j];
-                let (h, r) = two_prod_split(a[j], nb, bh, bl);
-                let (q, t) = two_sum(hi, h);
-                hi = q;
-                lo += t + r;
-            }
-            hi + lo
-        } else {
-            let mut s = 0.0;
-            for j in 0..self.p {
-                s += a[j] * -self.beta[j];
-            }
-            b + s
-        }
-    }
-
     /// −β, pre-split for error-free products.
     fn split_neg_beta(&self) -> [(f64, f64, f64); 3] {
         let mut out = [(0.0, 0.0, 0.0); 3];
@@ -628,8 +605,6 @@ struct Track {
     /// Σs² and g = Aᵀs of the current pass.
     ss: f64,
     g: [f64; 3],
-    /// Per-block part of g.
-    gb: [f64; 3],
     split: [(f64, f64, f64); 3],
 }
 
@@ -646,7 +621,6 @@ impl Track {
             rss: 0.0,
             ss: 0.0,
             g: [0.0; 3],
-            gb: [0.0; 3],
             split,
         }
     }
@@ -655,6 +629,40 @@ impl Track {
 /// max |βⱼ Dⱼ| over the first p entries (the size in scaled units).
 fn amax(v: &[f64; 3], p: usize, scale: &[f64; 3]) -> f64 {
     (0..p).map(|j| (v[j] * scale[j]).abs()).fold(0.0, f64::max)
+}
+
+/// Residuals s = b − Aβ of one block (columns `cols`, `m` rows) into `out`: in twice the
+/// working precision when the model is refined, plainly otherwise.
+fn block_residuals(
+    cols: &[[f64; BLOCK]; 4],
+    m: usize,
+    sub: &Sub,
+    split_beta: &[(f64, f64, f64); 3],
+    out: &mut [f64],
+) {
+    let b = &cols[3][..m];
+    if sub.refined {
+        for (k, o) in out.iter_mut().enumerate() {
+            let mut hi = b[k];
+            let mut lo = 0.0;
+            for j in 0..sub.p {
+                let (nb, bh, bl) = split_beta[j];
+                let (h, r) = two_prod_split(cols[j][k], nb, bh, bl);
+                let (q, t) = two_sum(hi, h);
+                hi = q;
+                lo += t + r;
+            }
+            *o = hi + lo;
+        }
+    } else {
+        for (k, o) in out.iter_mut().enumerate() {
+            let mut acc = 0.0;
+            for j in 0..sub.p {
+                acc += cols[j][k] * -sub.beta[j];
+            }
+            *o = b[k] + acc;
+        }
+    }
 }
 
 /// Residual passes for every model at once. A model that needs no refinement gets its χ²
@@ -670,28 +678,34 @@ fn residual_passes(rows: &[Row], tracks: &mut [Track], scale: &[f64; 3], mean: f
             t.ss = 0.0;
             t.g = [0.0; 3];
         }
+        let mut cols = [[0.0f64; BLOCK]; 4];
+        let mut res = [0.0f64; BLOCK];
         for chunk in rows.chunks(BLOCK) {
-            for row in chunk {
+            let m = chunk.len();
+            // The weighted block, column by column, so the loops below vectorise.
+            for (k, row) in chunk.iter().enumerate() {
                 let (a, b) = row.weighted();
-                for t in tracks.iter_mut().filter(|t| !t.done) {
-                    let s = t.sub.residual(&a, b, &t.split);
-                    t.ss += s * s;
-                    if t.refine {
-                        for j in 0..t.sub.p {
-                            t.gb[j] += a[j] * s;
-                        }
-                    }
-                }
-                if step == 0 {
+                cols[0][k] = a[0];
+                cols[1][k] = a[1];
+                cols[2][k] = a[2];
+                cols[3][k] = b;
+            }
+            if step == 0 {
+                for row in chunk {
                     let d = (row.y - mean) * row.sw;
                     tss += d * d;
                 }
             }
-            for t in tracks.iter_mut() {
-                for j in 0..3 {
-                    t.g[j] += t.gb[j];
+            for t in tracks.iter_mut().filter(|t| !t.done) {
+                let p = t.sub.p;
+                let res = &mut res[..m];
+                block_residuals(&cols, m, &t.sub, &t.split, res);
+                t.ss += dot(res, res);
+                if t.refine {
+                    for j in 0..p {
+                        t.g[j] += dot(&cols[j][..m], res);
+                    }
                 }
-                t.gb = [0.0; 3];
             }
         }
         for t in tracks.iter_mut().filter(|t| !t.done) {
