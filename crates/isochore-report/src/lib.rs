@@ -1,1 +1,307 @@
-//! Placeholder: see README.md.
+//! # isochore-report
+//!
+//! Reports a chemist can file, and static figures, from one finished van 't Hoff fit. The
+//! same [`ReportInput`] feeds every format, so the command line and the desktop window write
+//! identical documents:
+//!
+//! - [`render`] turns a [`ReportInput`] into the bytes of one [`ReportFormat`]: a
+//!   self-contained HTML page (inline SVG, no network), a PDF document, Markdown, the data
+//!   or results table as CSV, or one figure alone as SVG or PNG (300 dpi at 17 cm wide).
+//! - [`write_report`] writes one format to a path atomically (temporary file in the same
+//!   folder, flushed and synced, then renamed); Markdown also writes its figures beside it.
+//! - [`write_report_set`] writes every format into one folder under a common stem.
+//!
+//! This crate computes no statistics: every number comes from the
+//! [`isochore_fit::VantHoffFit`] in the input. It knows nothing of file formats on the input
+//! side: the caller (which has read the file) fills [`ReportInput`] with the cells as read.
+//!
+//! ```no_run
+//! use isochore_report::{render, ReportFormat, ReportInput};
+//! # fn demo(input: ReportInput) -> Result<(), isochore_report::ReportError> {
+//! let html: Vec<u8> = render(&input, ReportFormat::Html)?;
+//! isochore_report::write_report(&input, ReportFormat::Pdf, std::path::Path::new("fit.pdf"))?;
+//! # Ok(()) }
+//! ```
+
+#![deny(missing_docs)]
+
+mod atomic;
+pub mod content;
+mod csv_tables;
+pub mod figures;
+mod fonts;
+mod html;
+mod markdown;
+mod pdf;
+
+use isochore_fit::{EnergyUnit, TemperatureUnit, VantHoffFit};
+use std::fmt;
+use std::path::{Path, PathBuf};
+
+pub use atomic::write_atomic;
+pub use figures::FigureKind;
+
+/// One measured row as the caller read it, with its values on the fitting scale.
+///
+/// `rows[i]` of a [`ReportInput`] belongs to `fit.points[i]`: same order, same count.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ReportRow {
+    /// 1-based data row in the source file (file order, whatever the sort).
+    pub row: usize,
+    /// 1-based line in the source file.
+    pub line: usize,
+    /// The cells of the row exactly as read (text), in the order of [`ReportInput::headers`].
+    pub cells: Vec<String>,
+    /// Temperature in kelvin after conversion.
+    pub t_k: f64,
+    /// ln K after conversion.
+    pub ln_k: f64,
+    /// σ(ln K) after conversion, if the file gives an uncertainty.
+    pub sigma_ln_k: Option<f64>,
+    /// Whether the point took part in the fit.
+    pub included: bool,
+    /// Why the point was excluded, in the chemist's words (`None` for included points, or
+    /// when no reason was recorded).
+    pub exclusion_reason: Option<String>,
+}
+
+/// Everything a report shows. Build it once and hand it to [`render`] for each format.
+#[derive(Debug, Clone)]
+pub struct ReportInput {
+    /// Title of the report (shown as the heading).
+    pub title: String,
+    /// Name of the series fitted.
+    pub series_name: String,
+    /// Name of the source file as given by the user.
+    pub source_name: String,
+    /// SHA-256 of the source file's bytes, lowercase hexadecimal.
+    pub source_sha256: String,
+    /// Column headers as read, in file order.
+    pub headers: Vec<String>,
+    /// The rows, in the same order as `fit.points`.
+    pub rows: Vec<ReportRow>,
+    /// The unit conversions made, one sentence each (for example
+    /// "temperature: °C → K, T/K = t/°C + 273.15").
+    pub conversions: Vec<String>,
+    /// The finished fit.
+    pub fit: VantHoffFit,
+    /// Energy unit for ΔH°, ΔG° (entropies follow: J or cal per mol and kelvin).
+    pub energy_unit: EnergyUnit,
+    /// Temperature unit for tables and the figures' temperature axes.
+    pub temperature_unit: TemperatureUnit,
+    /// Version of the program that made the fit.
+    pub program_version: String,
+    /// Further settings worth recording so the fit can be repeated (name, value), beyond the
+    /// fit options, which are always listed.
+    pub settings: Vec<(String, String)>,
+}
+
+/// The output formats.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum ReportFormat {
+    /// One self-contained HTML page with inline SVG figures.
+    Html,
+    /// A PDF document (A4, embedded DejaVu Sans, figures at 300 dpi, numbered pages).
+    Pdf,
+    /// Markdown; its figures are separate SVG files named `<stem>-<figure>.svg`.
+    Markdown,
+    /// The data table (as read, converted, and per-point diagnostics) as CSV.
+    DataCsv,
+    /// The results table (estimates, SE, CI, fit statistics) as CSV.
+    ResultsCsv,
+    /// One figure as SVG.
+    FigureSvg(FigureKind),
+    /// One figure as PNG at publication resolution.
+    FigurePng(FigureKind),
+}
+
+impl ReportFormat {
+    /// The usual file extension, without the dot.
+    pub fn extension(self) -> &'static str {
+        match self {
+            ReportFormat::Html => "html",
+            ReportFormat::Pdf => "pdf",
+            ReportFormat::Markdown => "md",
+            ReportFormat::DataCsv | ReportFormat::ResultsCsv => "csv",
+            ReportFormat::FigureSvg(_) => "svg",
+            ReportFormat::FigurePng(_) => "png",
+        }
+    }
+
+    /// The format a path's extension asks for: `.html`/`.htm`, `.pdf`, `.md`, `.csv` (the
+    /// data table), `.svg` and `.png` (the van 't Hoff figure). `None` for anything else.
+    pub fn from_path(path: &Path) -> Option<ReportFormat> {
+        let ext = path.extension()?.to_str()?.to_ascii_lowercase();
+        Some(match ext.as_str() {
+            "html" | "htm" => ReportFormat::Html,
+            "pdf" => ReportFormat::Pdf,
+            "md" | "markdown" => ReportFormat::Markdown,
+            "csv" => ReportFormat::DataCsv,
+            "svg" => ReportFormat::FigureSvg(FigureKind::VantHoff),
+            "png" => ReportFormat::FigurePng(FigureKind::VantHoff),
+            _ => return None,
+        })
+    }
+}
+
+/// Why a report could not be made or written.
+#[derive(Debug)]
+#[non_exhaustive]
+pub enum ReportError {
+    /// The input is inconsistent (for example, rows and fitted points differ in number).
+    Input(String),
+    /// Drawing a figure failed.
+    Figure(String),
+    /// Building the PDF failed.
+    Pdf(String),
+    /// Writing a file failed.
+    Io {
+        /// The path being written.
+        path: PathBuf,
+        /// The underlying error.
+        source: std::io::Error,
+    },
+}
+
+impl fmt::Display for ReportError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self {
+            ReportError::Input(m) => write!(f, "report input: {m}"),
+            ReportError::Figure(m) => write!(f, "drawing a figure failed: {m}"),
+            ReportError::Pdf(m) => write!(f, "building the PDF failed: {m}"),
+            ReportError::Io { path, source } => {
+                write!(
+                    f,
+                    "{}: could not write the report: {source}",
+                    path.display()
+                )
+            }
+        }
+    }
+}
+
+impl std::error::Error for ReportError {
+    fn source(&self) -> Option<&(dyn std::error::Error + 'static)> {
+        match self {
+            ReportError::Io { source, .. } => Some(source),
+            _ => None,
+        }
+    }
+}
+
+impl ReportInput {
+    /// Checks that rows and fitted points match.
+    ///
+    /// # Errors
+    /// [`ReportError::Input`] when `rows` and `fit.points` differ in number.
+    pub fn validate(&self) -> Result<(), ReportError> {
+        if self.rows.len() != self.fit.points.len() {
+            return Err(ReportError::Input(format!(
+                "{} data rows but {} fitted points; they must match one to one",
+                self.rows.len(),
+                self.fit.points.len()
+            )));
+        }
+        Ok(())
+    }
+}
+
+/// Renders one format to bytes. Markdown refers to its figures as `figure-<kind>.svg`; use
+/// [`render_markdown`] to choose the names, or [`write_report`] to write them too.
+///
+/// # Errors
+/// [`ReportError::Input`] for inconsistent input, [`ReportError::Figure`] or
+/// [`ReportError::Pdf`] when drawing fails.
+pub fn render(input: &ReportInput, format: ReportFormat) -> Result<Vec<u8>, ReportError> {
+    input.validate()?;
+    match format {
+        ReportFormat::Html => html::render(input).map(String::into_bytes),
+        ReportFormat::Pdf => pdf::render(input),
+        ReportFormat::Markdown => Ok(render_markdown(input, "figure")?.into_bytes()),
+        ReportFormat::DataCsv => csv_tables::data_csv(input),
+        ReportFormat::ResultsCsv => csv_tables::results_csv(input),
+        ReportFormat::FigureSvg(kind) => figures::figure_svg(input, kind).map(String::into_bytes),
+        ReportFormat::FigurePng(kind) => figures::figure_png(input, kind),
+    }
+}
+
+/// Renders Markdown whose figures are referenced as `<figure_stem>-<kind>.svg` (relative
+/// links, to be written beside the Markdown file).
+///
+/// # Errors
+/// [`ReportError::Input`] for inconsistent input.
+pub fn render_markdown(input: &ReportInput, figure_stem: &str) -> Result<String, ReportError> {
+    input.validate()?;
+    Ok(markdown::render(input, figure_stem))
+}
+
+/// Writes one format to `path` atomically. For [`ReportFormat::Markdown`] the figures are
+/// written beside it as `<file stem>-<kind>.svg`. Returns every path written.
+///
+/// # Errors
+/// As [`render`], and [`ReportError::Io`] when a file cannot be written (nothing is left
+/// half-written: the old file, if any, stays until the new one is complete).
+pub fn write_report(
+    input: &ReportInput,
+    format: ReportFormat,
+    path: &Path,
+) -> Result<Vec<PathBuf>, ReportError> {
+    input.validate()?;
+    if format == ReportFormat::Markdown {
+        let stem = path
+            .file_stem()
+            .and_then(|s| s.to_str())
+            .unwrap_or("report")
+            .to_string();
+        let dir = path.parent().unwrap_or_else(|| Path::new(""));
+        let mut written = Vec::new();
+        for kind in FigureKind::ALL {
+            let p = dir.join(format!("{stem}-{}.svg", kind.key()));
+            write_atomic(&p, figures::figure_svg(input, kind)?.as_bytes())?;
+            written.push(p);
+        }
+        write_atomic(path, render_markdown(input, &stem)?.as_bytes())?;
+        written.push(path.to_path_buf());
+        return Ok(written);
+    }
+    let bytes = render(input, format)?;
+    write_atomic(path, &bytes)?;
+    Ok(vec![path.to_path_buf()])
+}
+
+/// Writes the full set into `dir` (created if missing): `<stem>.html`, `<stem>.pdf`,
+/// `<stem>.md` with its SVG figures, `<stem>-data.csv`, `<stem>-results.csv`, and every
+/// figure as `<stem>-<kind>.svg` and `.png`. Returns every path written.
+///
+/// # Errors
+/// As [`write_report`].
+pub fn write_report_set(
+    input: &ReportInput,
+    dir: &Path,
+    stem: &str,
+) -> Result<Vec<PathBuf>, ReportError> {
+    input.validate()?;
+    std::fs::create_dir_all(dir).map_err(|source| ReportError::Io {
+        path: dir.to_path_buf(),
+        source,
+    })?;
+    let mut written = Vec::new();
+    written.extend(write_report(
+        input,
+        ReportFormat::Markdown,
+        &dir.join(format!("{stem}.md")),
+    )?);
+    for (format, name) in [
+        (ReportFormat::Html, format!("{stem}.html")),
+        (ReportFormat::Pdf, format!("{stem}.pdf")),
+        (ReportFormat::DataCsv, format!("{stem}-data.csv")),
+        (ReportFormat::ResultsCsv, format!("{stem}-results.csv")),
+    ] {
+        written.extend(write_report(input, format, &dir.join(name))?);
+    }
+    for kind in FigureKind::ALL {
+        let p = dir.join(format!("{stem}-{}.png", kind.key()));
+        written.extend(write_report(input, ReportFormat::FigurePng(kind), &p)?);
+    }
+    Ok(written)
+}

@@ -1,0 +1,698 @@
+//! What a report says, independent of the format: an ordered list of [`Block`]s (headings,
+//! paragraphs, tables, figures, warnings) built once from a [`ReportInput`], which the HTML,
+//! Markdown and PDF writers then lay out. Keeping the content here means every format
+//! carries the same sentences and the same numbers.
+//!
+//! All text in blocks is plain (unescaped); each writer escapes for its own format.
+
+use crate::figures::FigureKind;
+use crate::ReportInput;
+use isochore_fit::{
+    EnergyUnit, Estimate, Model, SigmaConvention, TemperatureUnit, VantHoffFit, Weighting,
+    GAS_CONSTANT,
+};
+
+/// Data rows shown in a document table before the rest is left to the CSV.
+pub const MAX_TABLE_ROWS: usize = 500;
+
+/// One piece of a report.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Block {
+    /// The document title.
+    Title(String),
+    /// The one-line summary of the job, shown under the title.
+    Lead(String),
+    /// A section heading.
+    Heading(String),
+    /// A paragraph.
+    Paragraph(String),
+    /// A paragraph in a fixed-width face (equations).
+    Equation(String),
+    /// A bulleted list.
+    Bullets(Vec<String>),
+    /// Cautions from the fit, shown prominently next to the numbers.
+    Warnings(Vec<String>),
+    /// A table.
+    Table(Table),
+    /// A figure with its caption.
+    Figure(FigureKind, String),
+}
+
+/// A table of text cells.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Table {
+    /// Column headers.
+    pub header: Vec<String>,
+    /// Rows of cells (each as long as `header`).
+    pub rows: Vec<Vec<String>>,
+    /// Which columns hold numbers (right-aligned).
+    pub numeric: Vec<bool>,
+    /// A note under the table, if any.
+    pub note: Option<String>,
+}
+
+/// The entropy unit that goes with an energy unit: J mol⁻¹ K⁻¹ for J and kJ, cal mol⁻¹ K⁻¹
+/// for kcal (chemists quote ΔS° per kelvin in the small unit). Returns (J per unit, symbol).
+pub fn entropy_unit(energy: EnergyUnit) -> (f64, &'static str) {
+    match energy {
+        EnergyUnit::KilocaloriePerMole => (isochore_fit::units::JOULES_PER_CALORIE, "cal/(mol·K)"),
+        _ => (1.0, "J/(mol·K)"),
+    }
+}
+
+/// Number of decimals that shows `se` to two significant figures (0 to 8).
+pub fn decimals_for(se: f64) -> usize {
+    if !(se.is_finite() && se > 0.0) {
+        return 3;
+    }
+    let d = 1 - se.log10().floor() as i64;
+    d.clamp(0, 8) as usize
+}
+
+/// A number with `decimals` places, or "—" when it is not finite.
+pub fn num(v: f64, decimals: usize) -> String {
+    if v.is_finite() {
+        let s = format!("{v:.decimals$}");
+        // Avoid "-0.00".
+        if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
+            s[1..].to_string()
+        } else {
+            s
+        }
+    } else {
+        "—".to_string()
+    }
+}
+
+/// A number with about `sig` significant figures, switching to exponent form for very
+/// large or small magnitudes; "—" when not finite.
+pub fn sig(v: f64, sig: usize) -> String {
+    if !v.is_finite() {
+        return "—".to_string();
+    }
+    if v == 0.0 {
+        return "0".to_string();
+    }
+    let mag = v.abs().log10().floor() as i64;
+    if !(-4..6).contains(&mag) {
+        return format!("{:.*e}", sig.saturating_sub(1), v);
+    }
+    let d = (sig as i64 - 1 - mag).max(0) as usize;
+    num(v, d)
+}
+
+/// One row of the results table, already in display units.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ResultRow {
+    /// Quantity, e.g. "ΔH° at θ = 298.15 K".
+    pub quantity: String,
+    /// The estimate in display units.
+    pub estimate: Estimate,
+    /// Unit symbol.
+    pub unit: String,
+}
+
+impl ResultRow {
+    /// Value, SE, CI low, CI high formatted with decimals suited to the SE.
+    pub fn cells(&self) -> [String; 4] {
+        let d = decimals_for(self.estimate.se);
+        [
+            num(self.estimate.value, d),
+            num(self.estimate.se, d),
+            num(self.estimate.ci_low, d),
+            num(self.estimate.ci_high, d),
+        ]
+    }
+}
+
+/// Shows a temperature in kelvin in `unit`, e.g. "25.00 °C".
+pub fn show_t(t_k: f64, unit: TemperatureUnit) -> String {
+    format!("{} {}", num(unit.from_kelvin(t_k), 2), unit.symbol())
+}
+
+/// Converts a temperature *difference or SE* in kelvin to `unit`.
+fn t_diff_from_kelvin(v: f64, unit: TemperatureUnit) -> f64 {
+    match unit {
+        TemperatureUnit::Fahrenheit => v * 9.0 / 5.0,
+        _ => v,
+    }
+}
+
+/// The results rows: ΔH°, ΔS°, ΔG° at θ and at the harmonic-mean temperature, ΔCp° where
+/// fitted, and the temperature where K = 1 when there is one.
+pub fn result_rows(input: &ReportInput) -> Vec<ResultRow> {
+    result_rows_for(&input.fit, input.energy_unit, input.temperature_unit)
+}
+
+/// As [`result_rows`], from a fit and the display units alone.
+pub fn result_rows_for(fit: &VantHoffFit, e: EnergyUnit, tu: TemperatureUnit) -> Vec<ResultRow> {
+    let ef = 1.0 / e.joules_per_mole();
+    let (sf, s_unit) = entropy_unit(e);
+    let mut rows = Vec::new();
+    for (label, at) in [
+        (
+            format!("θ = {}", show_t(fit.at_reference.t_k, tu)),
+            &fit.at_reference,
+        ),
+        (
+            format!("T_hm = {}", show_t(fit.at_harmonic.t_k, tu)),
+            &fit.at_harmonic,
+        ),
+    ] {
+        rows.push(ResultRow {
+            quantity: format!("ΔH° at {label}"),
+            estimate: at.delta_h.scaled(ef),
+            unit: e.symbol().to_string(),
+        });
+        rows.push(ResultRow {
+            quantity: format!("ΔS° at {label}"),
+            estimate: at.delta_s.scaled(1.0 / sf),
+            unit: s_unit.to_string(),
+        });
+        rows.push(ResultRow {
+            quantity: format!("ΔG° at {label}"),
+            estimate: at.delta_g.scaled(ef),
+            unit: e.symbol().to_string(),
+        });
+    }
+    if let Some(cp) = fit.delta_cp() {
+        rows.push(ResultRow {
+            quantity: "ΔCp° (constant)".to_string(),
+            estimate: cp.scaled(1.0 / sf),
+            unit: s_unit.to_string(),
+        });
+    }
+    if let Some(t1) = fit.t_at_k1 {
+        let conv = |v: f64| tu.from_kelvin(v);
+        rows.push(ResultRow {
+            quantity: "T where K = 1 (ΔG° = 0)".to_string(),
+            estimate: Estimate {
+                value: conv(t1.value),
+                se: t_diff_from_kelvin(t1.se, tu),
+                ci_low: conv(t1.ci_low),
+                ci_high: conv(t1.ci_high),
+            },
+            unit: tu.symbol().to_string(),
+        });
+    }
+    rows
+}
+
+/// The fit statistics as (name, value) pairs.
+pub fn statistics_rows(fit: &VantHoffFit) -> Vec<(String, String)> {
+    let s = &fit.stats;
+    let mut v = vec![
+        (
+            "points used / given".to_string(),
+            format!("{} / {}", fit.n_used, fit.n_total),
+        ),
+        (
+            "residual degrees of freedom".to_string(),
+            fit.dof.to_string(),
+        ),
+        ("χ²".to_string(), sig(s.chi2, 5)),
+        ("reduced χ²".to_string(), sig(s.reduced_chi2, 4)),
+        ("residual SD".to_string(), sig(s.residual_sd, 4)),
+        ("R²".to_string(), num(s.r2, 6)),
+        ("adjusted R²".to_string(), num(s.adj_r2, 6)),
+        (
+            "AICc".to_string(),
+            s.aicc
+                .map_or("— (too few points)".to_string(), |a| num(a, 3)),
+        ),
+        ("BIC".to_string(), num(s.bic, 3)),
+        ("corr(ΔH°, ΔS°) at θ".to_string(), num(fit.corr_h_s, 5)),
+        (
+            "critical value".to_string(),
+            format!(
+                "{} ({})",
+                num(fit.critical_value, 4),
+                if is_absolute(fit) {
+                    "normal".to_string()
+                } else {
+                    format!("Student's t, {} dof", fit.dof)
+                }
+            ),
+        ),
+    ];
+    if let Some(p) = s.chi2_p_value {
+        v.push(("P(χ² ≥ observed)".to_string(), sig(p, 3)));
+    }
+    v
+}
+
+fn is_absolute(fit: &VantHoffFit) -> bool {
+    fit.options.convention == SigmaConvention::Absolute && fit.weighted
+}
+
+/// Flags of a point in words.
+pub fn flag_words(flags: isochore_fit::Flags) -> String {
+    let mut v = Vec::new();
+    if flags.outlier {
+        v.push("outlier");
+    }
+    if flags.high_leverage {
+        v.push("high leverage");
+    }
+    if flags.influential {
+        v.push("influential");
+    }
+    v.join(", ")
+}
+
+/// The exclusions, one sentence each.
+pub fn exclusions(input: &ReportInput) -> Vec<String> {
+    input
+        .rows
+        .iter()
+        .filter(|r| !r.included)
+        .map(|r| {
+            format!(
+                "Row {} (line {}): {}",
+                r.row,
+                r.line,
+                r.exclusion_reason
+                    .as_deref()
+                    .filter(|s| !s.trim().is_empty())
+                    .unwrap_or("excluded by the user; no reason was recorded")
+            )
+        })
+        .collect()
+}
+
+/// The one-line description of the job.
+pub fn job_line(input: &ReportInput) -> String {
+    let fit = &input.fit;
+    format!(
+        "Van 't Hoff fit of series “{}” from {}: {} of {} points used, {} model, {}, {}% confidence intervals.",
+        input.series_name,
+        input.source_name,
+        fit.n_used,
+        fit.n_total,
+        match fit.model() {
+            Model::Linear => "linear",
+            Model::ConstantCp => "constant-ΔCp°",
+        },
+        if fit.weighted { "weighted by 1/σ²" } else { "unweighted" },
+        num(fit.options.level * 100.0, 1).trim_end_matches(".0"),
+    )
+}
+
+fn methods(input: &ReportInput) -> Vec<Block> {
+    let fit = &input.fit;
+    let o = &fit.options;
+    let mut out = Vec::new();
+    let equation = match fit.model() {
+        Model::Linear => "ln K = −ΔH°/(R·T) + ΔS°/R".to_string(),
+        Model::ConstantCp => format!(
+            "ln K = −ΔH°(θ)/(R·T) + ΔS°(θ)/R + (ΔCp°/R)·(θ/T − 1 + ln(T/θ)),  θ = {} K",
+            num(o.t_ref_k, 2)
+        ),
+    };
+    let weighting = match (o.weighting, fit.weighted) {
+        (Weighting::InverseVariance, true) => {
+            "Each point is weighted by 1/σ(ln K)², with σ(ln K) propagated to first order from the uncertainty given in the file."
+        }
+        _ => "All points carry equal weight (unweighted least squares).",
+    };
+    let convention = if is_absolute(fit) {
+        "The stated uncertainties are taken as absolute: the parameter covariance is (XᵀWX)⁻¹ without rescaling, and intervals use the normal distribution."
+    } else {
+        "The parameter covariance is scaled by the reduced χ² (the scatter about the fit sets the error scale), and intervals use Student's t with n − p degrees of freedom."
+    };
+    out.push(Block::Paragraph(format!(
+        "The {} model was fitted to ln K by least squares written directly in the thermodynamic parameters, so the fitted coefficients are ΔH° and ΔS°{} with their full covariance:",
+        fit.model().describe(),
+        if fit.model() == Model::ConstantCp { " (at θ) and ΔCp°" } else { "" }
+    )));
+    out.push(Block::Equation(equation));
+    out.push(Block::Paragraph(format!(
+        "{weighting} {convention} Intervals are two-sided at the {}% level. ΔG°(T) = ΔH°(T) − T·ΔS°(T) and its standard error come from the full covariance (delta method, exact for these linear combinations). The harmonic-mean temperature T_hm (1/T_hm = Σwᵢ/Tᵢ / Σwᵢ) is where ΔH° and ΔS° are least correlated. R = {} J mol⁻¹ K⁻¹ (CODATA 2018, exact in the 2019 SI). Points are flagged as outliers when |externally studentized residual| > {}, as high leverage when h > {}·p/n, and as influential when Cook's distance D > {}/n (common rules of thumb).",
+        num(o.level * 100.0, 1).trim_end_matches(".0"),
+        GAS_CONSTANT,
+        sig(o.thresholds.outlier_studentized, 3),
+        sig(o.thresholds.leverage_factor, 3),
+        sig(o.thresholds.cooks_factor, 3),
+    )));
+    out
+}
+
+fn cautions(input: &ReportInput) -> Vec<String> {
+    let fit = &input.fit;
+    let tu = input.temperature_unit;
+    vec![
+        "Activities are taken as concentrations relative to the standard state c° = 1 mol/L (dissociation constants are converted as K = c°/K_d); activity coefficients are assumed constant over the temperature range.".to_string(),
+        match fit.model() {
+            Model::Linear => "ΔCp° is neglected: ΔH° and ΔS° are assumed independent of temperature over the measured range.".to_string(),
+            Model::ConstantCp => "ΔCp° is assumed constant over the measured range; higher temperature derivatives are neglected.".to_string(),
+        },
+        format!(
+            "Values outside the measured range {} to {} are extrapolations that hold only if the model does.",
+            show_t(fit.t_min_k, tu),
+            show_t(fit.t_max_k, tu)
+        ),
+        "Van 't Hoff enthalpies can differ from calorimetric ones (coupled equilibria, protonation, or a two-state assumption that does not hold); compare with calorimetry where it matters.".to_string(),
+        "This report documents a calculation; it does not replace the laboratory's own validated methods, which take precedence for any decision.".to_string(),
+    ]
+}
+
+fn data_table(input: &ReportInput) -> Table {
+    let fit = &input.fit;
+    let mut header: Vec<String> = vec!["row".into(), "line".into()];
+    header.extend(input.headers.iter().cloned());
+    header.extend(
+        [
+            "T / K",
+            "ln K",
+            "σ(ln K)",
+            "used",
+            "fitted ln K",
+            "residual",
+            "flags",
+        ]
+        .iter()
+        .map(|s| s.to_string()),
+    );
+    let mut numeric = vec![true, true];
+    numeric.extend(input.headers.iter().map(|_| false));
+    numeric.extend([true, true, true, false, true, true, false]);
+    let n_cols = header.len();
+    let rows: Vec<Vec<String>> = input
+        .rows
+        .iter()
+        .zip(&fit.points)
+        .take(MAX_TABLE_ROWS)
+        .map(|(r, d)| {
+            let mut cells = vec![r.row.to_string(), r.line.to_string()];
+            for i in 0..input.headers.len() {
+                cells.push(r.cells.get(i).cloned().unwrap_or_default());
+            }
+            cells.push(num(r.t_k, 2));
+            cells.push(num(r.ln_k, 4));
+            cells.push(r.sigma_ln_k.map_or("—".to_string(), |s| num(s, 4)));
+            cells.push(if r.included { "yes" } else { "no" }.to_string());
+            cells.push(num(d.fitted, 4));
+            cells.push(num(d.residual, 4));
+            cells.push(flag_words(d.flags));
+            cells.resize(n_cols, String::new());
+            cells
+        })
+        .collect();
+    let note = if input.rows.len() > MAX_TABLE_ROWS {
+        Some(format!(
+            "The first {MAX_TABLE_ROWS} of {} rows are shown; the data CSV holds them all.",
+            input.rows.len()
+        ))
+    } else {
+        None
+    };
+    Table {
+        header,
+        rows,
+        numeric,
+        note,
+    }
+}
+
+fn diagnostics_table(input: &ReportInput) -> Table {
+    let fit = &input.fit;
+    let header: Vec<String> = [
+        "row",
+        "T",
+        "leverage",
+        "stud. res. (int)",
+        "stud. res. (ext)",
+        "Cook's D",
+        "DFFITS",
+        "flags",
+    ]
+    .iter()
+    .map(|s| s.to_string())
+    .collect();
+    let opt = |v: Option<f64>| v.map_or("—".to_string(), |x| num(x, 3));
+    let rows = input
+        .rows
+        .iter()
+        .zip(&fit.points)
+        .filter(|(_, d)| d.used)
+        .take(MAX_TABLE_ROWS)
+        .map(|(r, d)| {
+            vec![
+                r.row.to_string(),
+                show_t(r.t_k, input.temperature_unit),
+                num(d.leverage, 3),
+                opt(d.student_int),
+                opt(d.student_ext),
+                opt(d.cooks_d),
+                opt(d.dffits),
+                flag_words(d.flags),
+            ]
+        })
+        .collect();
+    Table {
+        header,
+        rows,
+        numeric: vec![true, true, true, true, true, true, true, false],
+        note: None,
+    }
+}
+
+/// Builds the whole report as blocks, in reading order.
+pub fn build(input: &ReportInput) -> Vec<Block> {
+    let fit = &input.fit;
+    let e = input.energy_unit;
+    let (_, s_unit) = entropy_unit(e);
+    let tu = input.temperature_unit;
+    let mut b = vec![
+        Block::Title(input.title.clone()),
+        Block::Lead(job_line(input)),
+    ];
+
+    // Results first: that is what the reader came for.
+    b.push(Block::Heading("Results".into()));
+    let rows = result_rows(input);
+    b.push(Block::Table(Table {
+        header: ["quantity", "value", "SE", "CI low", "CI high", "unit"]
+            .iter()
+            .map(|s| s.to_string())
+            .collect(),
+        rows: rows
+            .iter()
+            .map(|r| {
+                let [v, se, lo, hi] = r.cells();
+                vec![r.quantity.clone(), v, se, lo, hi, r.unit.clone()]
+            })
+            .collect(),
+        numeric: vec![false, true, true, true, true, false],
+        note: Some(format!(
+            "SE = standard error; CI = {}% confidence interval. θ is the reference temperature, T_hm the weighted harmonic-mean temperature of the used points.",
+            num(fit.options.level * 100.0, 1).trim_end_matches(".0")
+        )),
+    }));
+    if !fit.warnings.is_empty() {
+        b.push(Block::Warnings(
+            fit.warnings.iter().map(|w| w.message.clone()).collect(),
+        ));
+    }
+    b.push(Block::Table(Table {
+        header: vec!["fit statistic".into(), "value".into()],
+        rows: statistics_rows(fit)
+            .into_iter()
+            .map(|(k, v)| vec![k, v])
+            .collect(),
+        numeric: vec![false, true],
+        note: None,
+    }));
+
+    b.push(Block::Heading("Van 't Hoff plot".into()));
+    b.push(Block::Figure(
+        FigureKind::VantHoff,
+        format!(
+            "ln K against 1000/T with the fitted {} model (line), its {}% confidence band (shaded) and prediction band (dashed). Filled circles are used points (bars ±σ where given), hollow circles are excluded points, and a ring marks a flagged point. The top axis gives the temperature in {}.",
+            if fit.model() == Model::Linear { "linear" } else { "constant-ΔCp°" },
+            num(fit.options.level * 100.0, 1).trim_end_matches(".0"),
+            tu.symbol()
+        ),
+    ));
+
+    b.push(Block::Heading("Residuals and influence".into()));
+    b.push(Block::Figure(
+        FigureKind::Residuals,
+        "Residual ln K − fitted against temperature (bars ±σ where given); hollow circles are excluded points, shown against the fit they took no part in.".into(),
+    ));
+    b.push(Block::Figure(
+        FigureKind::Influence,
+        format!(
+            "Internally studentized residual against leverage for the used points, with contours of Cook's distance D = {}/n and D = 1; dotted lines mark the leverage threshold {}·p/n and residuals of ±{}.",
+            sig(fit.options.thresholds.cooks_factor, 3),
+            sig(fit.options.thresholds.leverage_factor, 3),
+            sig(fit.options.thresholds.outlier_studentized, 3)
+        ),
+    ));
+    b.push(Block::Table(diagnostics_table(input)));
+    let flagged: Vec<String> = input
+        .rows
+        .iter()
+        .zip(&fit.points)
+        .filter(|(_, d)| d.flags.any())
+        .map(|(r, d)| {
+            format!(
+                "Row {} ({}): {}.",
+                r.row,
+                show_t(r.t_k, tu),
+                flag_words(d.flags)
+            )
+        })
+        .collect();
+    if flagged.is_empty() {
+        b.push(Block::Paragraph("No point is flagged.".into()));
+    } else {
+        b.push(Block::Paragraph("Flagged points:".into()));
+        b.push(Block::Bullets(flagged));
+    }
+
+    b.push(Block::Heading("ΔH° and ΔS° together".into()));
+    b.push(Block::Paragraph(format!(
+        "ΔH° and ΔS° are estimated jointly and their errors are correlated (r = {} at θ). The ellipse is their joint {}% confidence region; quoting them separately overstates what is known about each. At T_hm = {} they are least correlated.",
+        num(fit.corr_h_s, 4),
+        num(fit.options.level * 100.0, 1).trim_end_matches(".0"),
+        show_t(fit.t_harmonic_k, tu)
+    )));
+    b.push(Block::Figure(
+        FigureKind::Ellipse,
+        format!(
+            "Joint confidence region of ΔH° ({}) and ΔS° ({}) at θ = {}.",
+            e.symbol(),
+            s_unit,
+            show_t(fit.options.t_ref_k, tu)
+        ),
+    ));
+    let cov = &fit.covariance;
+    if cov.len() >= 2 {
+        b.push(Block::Table(Table {
+            header: vec![
+                "covariance (SI)".into(),
+                "ΔH° / J mol⁻¹".into(),
+                "ΔS° / J mol⁻¹ K⁻¹".into(),
+            ],
+            rows: vec![
+                vec!["ΔH°".into(), sig(cov[0][0], 5), sig(cov[0][1], 5)],
+                vec!["ΔS°".into(), sig(cov[1][0], 5), sig(cov[1][1], 5)],
+            ],
+            numeric: vec![false, true, true],
+            note: None,
+        }));
+    }
+
+    b.push(Block::Heading("Model comparison".into()));
+    match &fit.comparison {
+        Some(c) => {
+            b.push(Block::Paragraph(format!(
+                "Linear against constant-ΔCp° on the same points: {}. The evidence prefers the {} model; this report uses the {} model.",
+                c.verdict,
+                if c.preferred == Model::Linear { "linear" } else { "constant-ΔCp°" },
+                if fit.model() == Model::Linear { "linear" } else { "constant-ΔCp°" },
+            )));
+            b.push(Block::Table(Table {
+                header: vec!["test".into(), "value".into()],
+                rows: vec![
+                    vec!["F statistic (1 extra parameter)".into(), sig(c.f_statistic, 4)],
+                    vec!["p-value of F".into(), sig(c.f_p_value, 3)],
+                    vec![
+                        "ΔAICc (ΔCp° − linear)".into(),
+                        c.delta_aicc.map_or("—".to_string(), |d| num(d, 2)),
+                    ],
+                    vec![
+                        "preferred".into(),
+                        if c.preferred == Model::Linear { "linear" } else { "constant ΔCp°" }
+                            .to_string(),
+                    ],
+                ],
+                numeric: vec![false, true],
+                note: None,
+            }));
+        }
+        None => b.push(Block::Paragraph(
+            "The models could not be compared: the constant-ΔCp° model needs at least four used points at three or more temperatures.".into(),
+        )),
+    }
+
+    b.push(Block::Heading("Data".into()));
+    b.push(Block::Paragraph(format!(
+        "Source: {} ({} rows). Columns as read are shown with the values converted to the fitting scale.",
+        input.source_name,
+        input.rows.len()
+    )));
+    b.push(Block::Table(data_table(input)));
+    if !input.conversions.is_empty() {
+        b.push(Block::Paragraph("Conversions made:".into()));
+        b.push(Block::Bullets(input.conversions.clone()));
+    }
+    b.push(Block::Heading("Exclusions".into()));
+    let ex = exclusions(input);
+    if ex.is_empty() {
+        b.push(Block::Paragraph("No point was excluded.".into()));
+    } else {
+        b.push(Block::Bullets(ex));
+    }
+
+    b.push(Block::Heading("Methods".into()));
+    b.extend(methods(input));
+    b.push(Block::Heading("Assumptions and cautions".into()));
+    b.push(Block::Bullets(cautions(input)));
+
+    b.push(Block::Heading("Reproducibility".into()));
+    let o = &fit.options;
+    let mut settings: Vec<Vec<String>> = vec![
+        vec![
+            "program".into(),
+            format!("isochore {}", input.program_version),
+        ],
+        vec!["source file".into(), input.source_name.clone()],
+        vec!["source SHA-256".into(), input.source_sha256.clone()],
+        vec!["series".into(), input.series_name.clone()],
+        vec!["model".into(), o.model.key().to_string()],
+        vec![
+            "reference temperature θ".into(),
+            format!("{} K", num(o.t_ref_k, 2)),
+        ],
+        vec![
+            "weighting".into(),
+            match o.weighting {
+                Weighting::InverseVariance => "1/σ²",
+                Weighting::Unweighted => "none",
+            }
+            .to_string(),
+        ],
+        vec![
+            "σ convention".into(),
+            match o.convention {
+                SigmaConvention::ScaledByFit => "scaled by reduced χ²",
+                SigmaConvention::Absolute => "absolute",
+            }
+            .to_string(),
+        ],
+        vec!["confidence level".into(), sig(o.level, 4)],
+        vec![
+            "flag thresholds".into(),
+            format!(
+                "|t| > {}, h > {}·p/n, D > {}/n",
+                sig(o.thresholds.outlier_studentized, 3),
+                sig(o.thresholds.leverage_factor, 3),
+                sig(o.thresholds.cooks_factor, 3)
+            ),
+        ],
+        vec!["energy unit".into(), e.symbol().to_string()],
+        vec!["R".into(), format!("{GAS_CONSTANT} J mol⁻¹ K⁻¹")],
+    ];
+    for (k, v) in &input.settings {
+        settings.push(vec![k.clone(), v.clone()]);
+    }
+    b.push(Block::Table(Table {
+        header: vec!["setting".into(), "value".into()],
+        rows: settings,
+        numeric: vec![false, false],
+        note: None,
+    }));
+    b
+}

@@ -1,0 +1,806 @@
+//! The static figures of a report, drawn with plotters into SVG and rasterised to PNG with
+//! resvg: the van 't Hoff plot (fit, shaded confidence band, dashed prediction band, hollow
+//! excluded points, ringed flagged points, temperature on the top axis), the residual plot,
+//! the influence plot (leverage against studentized residual with Cook's-distance contours)
+//! and the joint ΔH°–ΔS° confidence ellipse.
+//!
+//! One drawing path serves both formats: the SVG is the figure, and the PNG is that SVG
+//! rendered by resvg with the bundled DejaVu Sans, so the two never disagree and no system
+//! font lookup is needed. Colours come from a colour-blind-safe set (blue, vermillion,
+//! orange, bluish green, grey) and every distinction is also carried by shape or line style.
+
+use crate::content::{entropy_unit, num};
+use crate::fonts;
+use crate::{ReportError, ReportInput};
+use isochore_fit::TemperatureUnit;
+use plotters::element::DashedPathElement;
+use plotters::prelude::*;
+use plotters::style::text_anchor::{HPos, Pos, VPos};
+
+/// Width of every figure in SVG pixels.
+pub const WIDTH: u32 = 760;
+/// Height of every figure in SVG pixels.
+pub const HEIGHT: u32 = 520;
+/// PNG scale factor: 760 × 2.6 = 1976 pixels, i.e. 300 dpi at 16.7 cm wide.
+pub const PNG_SCALE: f32 = 2.6;
+/// Resolution recorded in the PNG files, dots per inch.
+pub const PNG_DPI: f64 = 300.0;
+
+const FIT_BLUE: RGBColor = RGBColor(0, 92, 158);
+const BAND_SKY: RGBColor = RGBColor(86, 180, 233);
+const VERMILLION: RGBColor = RGBColor(213, 94, 0);
+const ORANGE: RGBColor = RGBColor(230, 159, 0);
+const GREEN: RGBColor = RGBColor(0, 140, 100);
+const INK: RGBColor = RGBColor(30, 30, 30);
+const GREY: RGBColor = RGBColor(110, 110, 110);
+
+const FONT: &str = "sans-serif";
+const TICK_SIZE: u32 = 16;
+const DESC_SIZE: u32 = 18;
+const NOTE_SIZE: u32 = 14;
+
+/// Which figure.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum FigureKind {
+    /// ln K against 1000/T with fit, confidence and prediction bands.
+    VantHoff,
+    /// Residuals against temperature.
+    Residuals,
+    /// Studentized residual against leverage with Cook's-distance contours.
+    Influence,
+    /// Joint confidence region of ΔH° and ΔS°.
+    Ellipse,
+}
+
+impl FigureKind {
+    /// Every figure, in report order.
+    pub const ALL: [FigureKind; 4] = [
+        FigureKind::VantHoff,
+        FigureKind::Residuals,
+        FigureKind::Influence,
+        FigureKind::Ellipse,
+    ];
+
+    /// Short name used in file names: "vanthoff", "residuals", "influence", "ellipse".
+    pub fn key(self) -> &'static str {
+        match self {
+            FigureKind::VantHoff => "vanthoff",
+            FigureKind::Residuals => "residuals",
+            FigureKind::Influence => "influence",
+            FigureKind::Ellipse => "ellipse",
+        }
+    }
+
+    /// A title for people.
+    pub fn title(self) -> &'static str {
+        match self {
+            FigureKind::VantHoff => "Van 't Hoff plot",
+            FigureKind::Residuals => "Residuals",
+            FigureKind::Influence => "Influence",
+            FigureKind::Ellipse => "ΔH°–ΔS° confidence region",
+        }
+    }
+}
+
+fn fe<E: std::fmt::Debug>(e: E) -> ReportError {
+    ReportError::Figure(format!("{e:?}"))
+}
+
+/// Draws one figure as an SVG document.
+///
+/// # Errors
+/// [`ReportError::Figure`] when plotters fails (for example, no finite data to draw).
+pub fn figure_svg(input: &ReportInput, kind: FigureKind) -> Result<String, ReportError> {
+    fonts::register_for_plotters();
+    let mut buf = String::new();
+    {
+        let root = SVGBackend::with_string(&mut buf, (WIDTH, HEIGHT)).into_drawing_area();
+        root.fill(&WHITE).map_err(fe)?;
+        match kind {
+            FigureKind::VantHoff => vant_hoff(&root, input)?,
+            FigureKind::Residuals => residuals(&root, input)?,
+            FigureKind::Influence => influence(&root, input)?,
+            FigureKind::Ellipse => ellipse(&root, input)?,
+        }
+        root.present().map_err(fe)?;
+    }
+    Ok(buf)
+}
+
+/// Draws one figure as a PNG at publication resolution ([`PNG_SCALE`] × the SVG size,
+/// tagged [`PNG_DPI`] dots per inch).
+///
+/// # Errors
+/// As [`figure_svg`], or when rasterising fails.
+pub fn figure_png(input: &ReportInput, kind: FigureKind) -> Result<Vec<u8>, ReportError> {
+    svg_to_png(&figure_svg(input, kind)?, PNG_SCALE)
+}
+
+/// Rasterises an SVG document with the bundled fonts at `scale`, on white.
+///
+/// # Errors
+/// [`ReportError::Figure`] when the SVG cannot be parsed or the image is empty.
+pub fn svg_to_png(svg: &str, scale: f32) -> Result<Vec<u8>, ReportError> {
+    use resvg::{tiny_skia, usvg};
+    let opt = usvg::Options {
+        fontdb: fonts::font_database(),
+        font_family: fonts::FAMILY.to_string(),
+        ..usvg::Options::default()
+    };
+    let tree = usvg::Tree::from_str(svg, &opt).map_err(fe)?;
+    let size = tree.size();
+    let w = (size.width() * scale).ceil() as u32;
+    let h = (size.height() * scale).ceil() as u32;
+    let mut pixmap = tiny_skia::Pixmap::new(w, h)
+        .ok_or_else(|| ReportError::Figure("empty figure".to_string()))?;
+    pixmap.fill(tiny_skia::Color::WHITE);
+    resvg::render(
+        &tree,
+        tiny_skia::Transform::from_scale(scale, scale),
+        &mut pixmap.as_mut(),
+    );
+    let png = pixmap.encode_png().map_err(fe)?;
+    Ok(with_dpi(png, PNG_DPI))
+}
+
+/// Inserts a pHYs chunk (physical pixel size) after IHDR so viewers and word processors
+/// place the figure at its intended size.
+fn with_dpi(png: Vec<u8>, dpi: f64) -> Vec<u8> {
+    // PNG layout: 8-byte signature, then IHDR chunk of 4 + 4 + 13 + 4 bytes.
+    const IHDR_END: usize = 8 + 25;
+    if png.len() < IHDR_END || &png[12..16] != b"IHDR" {
+        return png;
+    }
+    let ppm = (dpi / 0.0254).round() as u32;
+    let mut chunk = Vec::with_capacity(21);
+    chunk.extend_from_slice(&9u32.to_be_bytes());
+    let mut body = Vec::with_capacity(13);
+    body.extend_from_slice(b"pHYs");
+    body.extend_from_slice(&ppm.to_be_bytes());
+    body.extend_from_slice(&ppm.to_be_bytes());
+    body.push(1); // unit: metre
+    chunk.extend_from_slice(&body);
+    chunk.extend_from_slice(&crc32(&body).to_be_bytes());
+    let mut out = Vec::with_capacity(png.len() + chunk.len());
+    out.extend_from_slice(&png[..IHDR_END]);
+    out.extend_from_slice(&chunk);
+    out.extend_from_slice(&png[IHDR_END..]);
+    out
+}
+
+/// CRC-32 (ISO 3309, as used by PNG).
+fn crc32(data: &[u8]) -> u32 {
+    let mut crc = 0xFFFF_FFFFu32;
+    for &b in data {
+        crc ^= b as u32;
+        for _ in 0..8 {
+            let mask = (crc & 1).wrapping_neg();
+            crc = (crc >> 1) ^ (0xEDB8_8320 & mask);
+        }
+    }
+    !crc
+}
+
+fn finite_range(values: impl Iterator<Item = f64>) -> Option<(f64, f64)> {
+    let mut lo = f64::INFINITY;
+    let mut hi = f64::NEG_INFINITY;
+    for v in values.filter(|v| v.is_finite()) {
+        lo = lo.min(v);
+        hi = hi.max(v);
+    }
+    (lo <= hi).then_some((lo, hi))
+}
+
+fn padded((lo, hi): (f64, f64), frac: f64) -> (f64, f64) {
+    let span = if hi > lo {
+        hi - lo
+    } else {
+        lo.abs().max(1.0) * 0.1
+    };
+    (lo - span * frac, hi + span * frac)
+}
+
+/// Decimals for tick labels over a span (about six ticks).
+fn tick_decimals(span: f64) -> usize {
+    let step = span / 6.0;
+    if !(step.is_finite() && step > 0.0) {
+        return 2;
+    }
+    (-step.log10().floor()).clamp(0.0, 6.0) as usize
+}
+
+/// Round temperatures (in `unit`) to label the top axis, as positions on 1000/T.
+fn temperature_keys(x0: f64, x1: f64, unit: TemperatureUnit) -> (Vec<f64>, usize) {
+    let t_hi = unit.from_kelvin(1000.0 / x0);
+    let t_lo = unit.from_kelvin(1000.0 / x1);
+    let span = (t_hi - t_lo).abs();
+    let steps = [
+        0.1, 0.2, 0.5, 1.0, 2.0, 5.0, 10.0, 20.0, 25.0, 50.0, 100.0, 200.0, 500.0,
+    ];
+    let step = steps
+        .iter()
+        .copied()
+        .find(|s| span / s <= 7.0)
+        .unwrap_or(1000.0);
+    let decimals = if step < 1.0 { 1 } else { 0 };
+    let mut keys = Vec::new();
+    let mut t = (t_lo.min(t_hi) / step).ceil() * step;
+    while t <= t_lo.max(t_hi) + 1e-9 && keys.len() < 40 {
+        let k = unit.to_kelvin(t);
+        if k > 0.0 {
+            keys.push(1000.0 / k);
+        }
+        t += step;
+    }
+    (keys, decimals)
+}
+
+type Area<'a> = DrawingArea<SVGBackend<'a>, plotters::coord::Shift>;
+
+fn legend_position(rising: bool) -> SeriesLabelPosition {
+    if rising {
+        SeriesLabelPosition::LowerRight
+    } else {
+        SeriesLabelPosition::UpperRight
+    }
+}
+
+fn no_data(root: &Area, what: &str) -> Result<(), ReportError> {
+    root.draw(&Text::new(
+        format!("no {what} to draw"),
+        (40, (HEIGHT / 2) as i32),
+        (FONT, DESC_SIZE).into_font().color(&GREY),
+    ))
+    .map_err(fe)
+}
+
+fn vant_hoff(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
+    let fit = &input.fit;
+    let level = num(fit.options.level * 100.0, 1)
+        .trim_end_matches(".0")
+        .to_string();
+    let xs = fit.points.iter().map(|p| 1000.0 / p.t_k);
+    let Some(xr) = finite_range(xs) else {
+        return no_data(root, "points");
+    };
+    let (x0, x1) = padded(xr, 0.08);
+    let grid: Vec<f64> = (0..=160)
+        .map(|i| (x0 + (x1 - x0) * i as f64 / 160.0) / 1000.0)
+        .collect();
+    let bands = fit.bands(&grid);
+    let ys = fit
+        .points
+        .iter()
+        .flat_map(|p| {
+            let s = p.sigma_ln_k.unwrap_or(0.0);
+            [p.ln_k - s, p.ln_k + s]
+        })
+        .chain(bands.iter().flat_map(|b| [b.pi_low, b.pi_high]));
+    let Some(yr) = finite_range(ys) else {
+        return no_data(root, "values");
+    };
+    let (y0, y1) = padded(yr, 0.06);
+    let (keys, t_dec) = temperature_keys(x0, x1, input.temperature_unit);
+    let tu = input.temperature_unit;
+    let mut chart = ChartBuilder::on(root)
+        .margin(14)
+        .margin_right(24)
+        .set_label_area_size(LabelAreaPosition::Left, 72)
+        .set_label_area_size(LabelAreaPosition::Bottom, 58)
+        .set_label_area_size(LabelAreaPosition::Top, 58)
+        .build_cartesian_2d(x0..x1, y0..y1)
+        .map_err(fe)?;
+    let xd = tick_decimals(x1 - x0);
+    let yd = tick_decimals(y1 - y0);
+    chart
+        .configure_mesh()
+        .x_desc("1000 K / T")
+        .y_desc("ln K")
+        .x_label_formatter(&|v| num(*v, xd))
+        .y_label_formatter(&|v| num(*v, yd))
+        .label_style((FONT, TICK_SIZE))
+        .axis_desc_style((FONT, DESC_SIZE))
+        .bold_line_style(RGBColor(200, 200, 200).stroke_width(1))
+        .light_line_style(RGBColor(238, 238, 238).stroke_width(1))
+        .draw()
+        .map_err(fe)?;
+    // Top axis: round temperatures in the user's unit, placed on the 1000/T scale.
+    let tick_style = (FONT, TICK_SIZE).into_font().color(&INK);
+    let (left, top) = chart.backend_coord(&(x0, y1));
+    let (right, _) = chart.backend_coord(&(x1, y1));
+    root.draw(&PathElement::new(
+        vec![(left, top), (right, top)],
+        INK.stroke_width(1),
+    ))
+    .map_err(fe)?;
+    for k in &keys {
+        let (px, _) = chart.backend_coord(&(*k, y1));
+        root.draw(&PathElement::new(
+            vec![(px, top), (px, top - 6)],
+            INK.stroke_width(1),
+        ))
+        .map_err(fe)?;
+        let label = num(tu.from_kelvin(1000.0 / k), t_dec);
+        root.draw(&Text::new(
+            label,
+            (px, top - 9),
+            tick_style.clone().pos(Pos::new(HPos::Center, VPos::Bottom)),
+        ))
+        .map_err(fe)?;
+    }
+    root.draw(&Text::new(
+        format!("temperature / {}", tu.symbol()),
+        ((left + right) / 2, top - 32),
+        (FONT, DESC_SIZE)
+            .into_font()
+            .color(&INK)
+            .pos(Pos::new(HPos::Center, VPos::Bottom)),
+    ))
+    .map_err(fe)?;
+
+    let x_of = |b: &isochore_fit::BandPoint| b.inv_t * 1000.0;
+    // Confidence band, shaded.
+    let mut poly: Vec<(f64, f64)> = bands.iter().map(|b| (x_of(b), b.ci_high)).collect();
+    poly.extend(bands.iter().rev().map(|b| (x_of(b), b.ci_low)));
+    chart
+        .draw_series(std::iter::once(Polygon::new(
+            poly,
+            BAND_SKY.mix(0.38).filled(),
+        )))
+        .map_err(fe)?
+        .label(format!("{level}% confidence band"))
+        .legend(|(x, y)| {
+            Rectangle::new([(x, y - 6), (x + 22, y + 6)], BAND_SKY.mix(0.38).filled())
+        });
+    // Prediction band, dashed.
+    let dashed = FIT_BLUE.stroke_width(2);
+    chart
+        .draw_series(DashedLineSeries::new(
+            bands
+                .iter()
+                .map(|b| (x_of(b), b.pi_high))
+                .collect::<Vec<_>>(),
+            9,
+            6,
+            dashed,
+        ))
+        .map_err(fe)?
+        .label(format!("{level}% prediction band"))
+        .legend(move |(x, y)| DashedPathElement::new(vec![(x, y), (x + 22, y)], 6, 4, dashed));
+    chart
+        .draw_series(DashedLineSeries::new(
+            bands
+                .iter()
+                .map(|b| (x_of(b), b.pi_low))
+                .collect::<Vec<_>>(),
+            9,
+            6,
+            dashed,
+        ))
+        .map_err(fe)?;
+    // The fit.
+    chart
+        .draw_series(LineSeries::new(
+            bands.iter().map(|b| (x_of(b), b.ln_k)),
+            FIT_BLUE.stroke_width(3),
+        ))
+        .map_err(fe)?
+        .label("fit")
+        .legend(|(x, y)| PathElement::new(vec![(x, y), (x + 22, y)], FIT_BLUE.stroke_width(3)));
+    draw_points(
+        &mut chart,
+        input,
+        |p| (1000.0 / p.t_k, p.ln_k),
+        |p| p.sigma_ln_k,
+    )?;
+    let rising = bands
+        .first()
+        .zip(bands.last())
+        .is_some_and(|(a, b)| b.ln_k > a.ln_k);
+    chart
+        .configure_series_labels()
+        .position(legend_position(rising))
+        .margin(12)
+        .label_font((FONT, NOTE_SIZE))
+        .background_style(WHITE.mix(0.9))
+        .border_style(RGBColor(160, 160, 160))
+        .draw()
+        .map_err(fe)?;
+    Ok(())
+}
+
+/// Draws error bars, used points (filled), excluded points (hollow), flag rings and row
+/// labels for excluded or flagged points, with legend entries for what is present.
+fn draw_points<'a, CT>(
+    chart: &mut ChartContext<'a, SVGBackend<'a>, CT>,
+    input: &ReportInput,
+    pos: impl Fn(&isochore_fit::PointDiagnostics) -> (f64, f64),
+    sigma: impl Fn(&isochore_fit::PointDiagnostics) -> Option<f64>,
+) -> Result<(), ReportError>
+where
+    CT: CoordTranslate<From = (f64, f64)>,
+{
+    let pts = &input.fit.points;
+    let bars: Vec<PathElement<(f64, f64)>> = pts
+        .iter()
+        .filter_map(|p| {
+            let (x, y) = pos(p);
+            let s = sigma(p)?;
+            (x.is_finite() && y.is_finite() && s.is_finite()).then(|| {
+                PathElement::new(vec![(x, y - s), (x, y + s)], INK.mix(0.7).stroke_width(2))
+            })
+        })
+        .collect();
+    chart.draw_series(bars).map_err(fe)?;
+    let finite = |p: &&isochore_fit::PointDiagnostics| {
+        let (x, y) = pos(p);
+        x.is_finite() && y.is_finite()
+    };
+    if pts.iter().filter(finite).any(|p| p.used) {
+        chart
+            .draw_series(
+                pts.iter()
+                    .filter(finite)
+                    .filter(|p| p.used)
+                    .map(|p| Circle::new(pos(p), 5, INK.filled())),
+            )
+            .map_err(fe)?
+            .label("used point")
+            .legend(|(x, y)| Circle::new((x + 11, y), 5, INK.filled()));
+    }
+    if pts.iter().filter(finite).any(|p| !p.used) {
+        chart
+            .draw_series(
+                pts.iter()
+                    .filter(finite)
+                    .filter(|p| !p.used)
+                    .map(|p| Circle::new(pos(p), 6, VERMILLION.stroke_width(2))),
+            )
+            .map_err(fe)?
+            .label("excluded point")
+            .legend(|(x, y)| Circle::new((x + 11, y), 6, VERMILLION.stroke_width(2)));
+    }
+    if pts.iter().filter(finite).any(|p| p.flags.any()) {
+        chart
+            .draw_series(
+                pts.iter()
+                    .filter(finite)
+                    .filter(|p| p.flags.any())
+                    .map(|p| Circle::new(pos(p), 11, ORANGE.stroke_width(3))),
+            )
+            .map_err(fe)?
+            .label("flagged point")
+            .legend(|(x, y)| Circle::new((x + 11, y), 8, ORANGE.stroke_width(3)));
+    }
+    // Row labels for the points a reader will look for.
+    let labels: Vec<_> = input
+        .rows
+        .iter()
+        .zip(pts)
+        .filter(|(_, p)| finite(p) && (!p.used || p.flags.any()))
+        .take(60)
+        .map(|(r, p)| {
+            EmptyElement::at(pos(p))
+                + Text::new(
+                    format!("row {}", r.row),
+                    (10, -20),
+                    (FONT, NOTE_SIZE).into_font().color(&GREY),
+                )
+        })
+        .collect();
+    chart.draw_series(labels).map_err(fe)?;
+    Ok(())
+}
+
+fn residuals(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
+    let fit = &input.fit;
+    let tu = input.temperature_unit;
+    let Some(xr) = finite_range(fit.points.iter().map(|p| tu.from_kelvin(p.t_k))) else {
+        return no_data(root, "points");
+    };
+    let (x0, x1) = padded(xr, 0.08);
+    let ys = fit.points.iter().flat_map(|p| {
+        let s = p.sigma_ln_k.unwrap_or(0.0);
+        [p.residual - s, p.residual + s]
+    });
+    let (ylo, yhi) = finite_range(ys).unwrap_or((-1.0, 1.0));
+    let m = ylo.abs().max(yhi.abs()).max(1e-9) * 1.18;
+    let (y0, y1) = (-m, m);
+    let mut chart = ChartBuilder::on(root)
+        .margin(14)
+        .margin_right(24)
+        .set_label_area_size(LabelAreaPosition::Left, 80)
+        .set_label_area_size(LabelAreaPosition::Bottom, 58)
+        .build_cartesian_2d(x0..x1, y0..y1)
+        .map_err(fe)?;
+    let xd = tick_decimals(x1 - x0);
+    let yd = tick_decimals(y1 - y0);
+    chart
+        .configure_mesh()
+        .x_desc(format!("temperature / {}", tu.symbol()))
+        .y_desc("residual ln K − fitted")
+        .x_label_formatter(&|v| num(*v, xd))
+        .y_label_formatter(&|v| num(*v, yd))
+        .label_style((FONT, TICK_SIZE))
+        .axis_desc_style((FONT, DESC_SIZE))
+        .bold_line_style(RGBColor(200, 200, 200).stroke_width(1))
+        .light_line_style(RGBColor(238, 238, 238).stroke_width(1))
+        .draw()
+        .map_err(fe)?;
+    chart
+        .draw_series(std::iter::once(PathElement::new(
+            vec![(x0, 0.0), (x1, 0.0)],
+            FIT_BLUE.stroke_width(2),
+        )))
+        .map_err(fe)?;
+    draw_points(
+        &mut chart,
+        input,
+        |p| (tu.from_kelvin(p.t_k), p.residual),
+        |p| p.sigma_ln_k,
+    )?;
+    chart
+        .configure_series_labels()
+        .position(SeriesLabelPosition::UpperRight)
+        .margin(12)
+        .label_font((FONT, NOTE_SIZE))
+        .background_style(WHITE.mix(0.9))
+        .border_style(RGBColor(160, 160, 160))
+        .draw()
+        .map_err(fe)?;
+    Ok(())
+}
+
+fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
+    let fit = &input.fit;
+    let p = fit.params.len() as f64;
+    let n = fit.n_used.max(1) as f64;
+    let th = fit.options.thresholds;
+    let h_thr = th.leverage_factor * p / n;
+    let used: Vec<(usize, f64, f64, bool)> = input
+        .rows
+        .iter()
+        .zip(&fit.points)
+        .filter_map(|(r, d)| {
+            let s = d.student_int?;
+            (d.used && s.is_finite() && d.leverage.is_finite()).then_some((
+                r.row,
+                d.leverage,
+                s,
+                d.flags.any(),
+            ))
+        })
+        .collect();
+    if used.is_empty() {
+        return no_data(root, "studentized residuals (too few degrees of freedom)");
+    }
+    let h_max = used.iter().map(|u| u.1).fold(0.0f64, f64::max);
+    let x1 = (h_max.max(h_thr) * 1.15).min(1.0).max(0.05);
+    let r_max = used.iter().map(|u| u.2.abs()).fold(0.0f64, f64::max);
+    let ylim = (r_max * 1.15).max(th.outlier_studentized + 0.6);
+    let mut chart = ChartBuilder::on(root)
+        .margin(14)
+        .margin_right(24)
+        .set_label_area_size(LabelAreaPosition::Left, 72)
+        .set_label_area_size(LabelAreaPosition::Bottom, 58)
+        .build_cartesian_2d(0.0..x1, -ylim..ylim)
+        .map_err(fe)?;
+    let xd = tick_decimals(x1);
+    chart
+        .configure_mesh()
+        .x_desc("leverage h")
+        .y_desc("internally studentized residual")
+        .x_label_formatter(&|v| num(*v, xd))
+        .y_label_formatter(&|v| num(*v, 1))
+        .label_style((FONT, TICK_SIZE))
+        .axis_desc_style((FONT, DESC_SIZE))
+        .bold_line_style(RGBColor(200, 200, 200).stroke_width(1))
+        .light_line_style(RGBColor(238, 238, 238).stroke_width(1))
+        .draw()
+        .map_err(fe)?;
+    // Reference lines: residual ±threshold, leverage threshold.
+    let dotted = GREY.stroke_width(2);
+    for y in [th.outlier_studentized, -th.outlier_studentized, 0.0] {
+        chart
+            .draw_series(DashedLineSeries::new(vec![(0.0, y), (x1, y)], 3, 5, dotted))
+            .map_err(fe)?;
+    }
+    if h_thr < x1 {
+        chart
+            .draw_series(DashedLineSeries::new(
+                vec![(h_thr, -ylim), (h_thr, ylim)],
+                3,
+                5,
+                dotted,
+            ))
+            .map_err(fe)?;
+    }
+    // Cook's distance contours: D = r² h / (p (1 − h))  ⇒  r = ±√(D p (1 − h)/h).
+    for (i, d) in [th.cooks_factor / n, 1.0].into_iter().enumerate() {
+        let style = GREEN.stroke_width(2);
+        let curve = |sign: f64| -> Vec<(f64, f64)> {
+            (1..=200)
+                .map(|k| x1 * k as f64 / 200.0)
+                .filter(|h| *h < 1.0)
+                .map(|h| (h, sign * (d * p * (1.0 - h) / h).sqrt()))
+                .filter(|(_, r)| r.abs() <= ylim)
+                .collect()
+        };
+        for sign in [1.0, -1.0] {
+            let c = curve(sign);
+            if c.len() < 2 {
+                continue;
+            }
+            let s = chart
+                .draw_series(DashedLineSeries::new(c.clone(), 10, 5, style))
+                .map_err(fe)?;
+            if sign > 0.0 && i == 0 {
+                s.label("Cook's distance contours").legend(move |(x, y)| {
+                    DashedPathElement::new(vec![(x, y), (x + 22, y)], 6, 4, style)
+                });
+            }
+            if let Some(&(h, r)) = c.last() {
+                let text = if i == 0 {
+                    format!("D = {}", num(d, 2))
+                } else {
+                    "D = 1".to_string()
+                };
+                chart
+                    .draw_series(std::iter::once(
+                        EmptyElement::at((h, r))
+                            + Text::new(
+                                text,
+                                (-64, if sign > 0.0 { -20 } else { 6 }),
+                                (FONT, NOTE_SIZE).into_font().color(&GREEN),
+                            ),
+                    ))
+                    .map_err(fe)?;
+            }
+        }
+    }
+    chart
+        .draw_series(
+            used.iter()
+                .map(|&(_, h, r, _)| Circle::new((h, r), 5, INK.filled())),
+        )
+        .map_err(fe)?
+        .label("used point")
+        .legend(|(x, y)| Circle::new((x + 11, y), 5, INK.filled()));
+    if used.iter().any(|u| u.3) {
+        chart
+            .draw_series(
+                used.iter()
+                    .filter(|u| u.3)
+                    .map(|&(_, h, r, _)| Circle::new((h, r), 11, ORANGE.stroke_width(3))),
+            )
+            .map_err(fe)?
+            .label("flagged point")
+            .legend(|(x, y)| Circle::new((x + 11, y), 8, ORANGE.stroke_width(3)));
+    }
+    if used.len() <= 40 {
+        chart
+            .draw_series(used.iter().map(|&(row, h, r, _)| {
+                EmptyElement::at((h, r))
+                    + Text::new(
+                        row.to_string(),
+                        (8, -18),
+                        (FONT, NOTE_SIZE).into_font().color(&GREY),
+                    )
+            }))
+            .map_err(fe)?;
+    }
+    chart
+        .configure_series_labels()
+        .position(SeriesLabelPosition::LowerLeft)
+        .margin(12)
+        .label_font((FONT, NOTE_SIZE))
+        .background_style(WHITE.mix(0.9))
+        .border_style(RGBColor(160, 160, 160))
+        .draw()
+        .map_err(fe)?;
+    Ok(())
+}
+
+fn ellipse(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
+    let fit = &input.fit;
+    let ef = input.energy_unit.joules_per_mole();
+    let (sf, s_unit) = entropy_unit(input.energy_unit);
+    let Ok(poly) = fit.ellipse(fit.options.level, 180) else {
+        return no_data(root, "confidence region (degenerate covariance)");
+    };
+    let pts: Vec<(f64, f64)> = poly.iter().map(|v| (v[0] / ef, v[1] / sf)).collect();
+    let Some(xr) = finite_range(pts.iter().map(|p| p.0)) else {
+        return no_data(root, "confidence region");
+    };
+    let Some(yr) = finite_range(pts.iter().map(|p| p.1)) else {
+        return no_data(root, "confidence region");
+    };
+    let (x0, x1) = padded(xr, 0.12);
+    let (y0, y1) = padded(yr, 0.12);
+    let mut chart = ChartBuilder::on(root)
+        .margin(14)
+        .margin_right(24)
+        .set_label_area_size(LabelAreaPosition::Left, 80)
+        .set_label_area_size(LabelAreaPosition::Bottom, 58)
+        .build_cartesian_2d(x0..x1, y0..y1)
+        .map_err(fe)?;
+    let xd = tick_decimals(x1 - x0);
+    let yd = tick_decimals(y1 - y0);
+    chart
+        .configure_mesh()
+        .x_desc(format!("ΔH° / ({})", input.energy_unit.symbol()))
+        .y_desc(format!("ΔS° / ({s_unit})"))
+        .x_label_formatter(&|v| num(*v, xd))
+        .y_label_formatter(&|v| num(*v, yd))
+        .label_style((FONT, TICK_SIZE))
+        .axis_desc_style((FONT, DESC_SIZE))
+        .bold_line_style(RGBColor(200, 200, 200).stroke_width(1))
+        .light_line_style(RGBColor(238, 238, 238).stroke_width(1))
+        .draw()
+        .map_err(fe)?;
+    let level = num(fit.options.level * 100.0, 1)
+        .trim_end_matches(".0")
+        .to_string();
+    chart
+        .draw_series(std::iter::once(Polygon::new(
+            pts.clone(),
+            BAND_SKY.mix(0.35).filled(),
+        )))
+        .map_err(fe)?
+        .label(format!("{level}% joint confidence region"))
+        .legend(|(x, y)| {
+            Rectangle::new([(x, y - 6), (x + 22, y + 6)], BAND_SKY.mix(0.35).filled())
+        });
+    let mut closed = pts.clone();
+    closed.push(pts[0]);
+    chart
+        .draw_series(LineSeries::new(closed, FIT_BLUE.stroke_width(2)))
+        .map_err(fe)?;
+    let (h, s) = (fit.delta_h().value / ef, fit.delta_s().value / sf);
+    chart
+        .draw_series(std::iter::once(Cross::new((h, s), 7, INK.stroke_width(2))))
+        .map_err(fe)?
+        .label(format!("estimate (r = {})", num(fit.corr_h_s, 4)))
+        .legend(|(x, y)| Cross::new((x + 11, y), 6, INK.stroke_width(2)));
+    let rising = fit.corr_h_s > 0.0;
+    chart
+        .configure_series_labels()
+        .position(if rising {
+            SeriesLabelPosition::UpperLeft
+        } else {
+            SeriesLabelPosition::UpperRight
+        })
+        .margin(12)
+        .label_font((FONT, NOTE_SIZE))
+        .background_style(WHITE.mix(0.9))
+        .border_style(RGBColor(160, 160, 160))
+        .draw()
+        .map_err(fe)?;
+    Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn crc_matches_the_png_check_value() {
+        // CRC-32 check value of "123456789" is 0xCBF43926 (ISO 3309 / PNG specification).
+        assert_eq!(crc32(b"123456789"), 0xCBF4_3926);
+    }
+
+    #[test]
+    fn temperature_keys_are_round_celsius() {
+        // 1000/T from 3.0 to 3.6 K⁻¹ spans about 4.6 °C to 60.2 °C.
+        let (keys, dec) = temperature_keys(3.0, 3.6, TemperatureUnit::Celsius);
+        assert_eq!(dec, 0);
+        let temps: Vec<f64> = keys
+            .iter()
+            .map(|k| TemperatureUnit::Celsius.from_kelvin(1000.0 / k))
+            .collect();
+        assert!(temps.len() >= 3 && temps.len() <= 8, "{temps:?}");
+        for t in temps {
+            assert!((t / 10.0 - (t / 10.0).round()).abs() < 1e-9, "{t}");
+        }
+    }
+}
