@@ -45,11 +45,13 @@ const MAX_REFINEMENT_STEPS: usize = 6;
 /// general path is taken instead.
 const CSNE_LIMIT: f64 = 1e-3;
 
+/// The constant column 1/R of both models, as [`Model::row`] computes it.
+const C1: f64 = 1.0 / crate::GAS_CONSTANT;
+
 /// One used point: the raw design entries that cost something to compute, its √w and ln K.
 #[derive(Debug, Clone, Copy)]
 struct Row {
     c0: f64,
-    c1: f64,
     c2: f64,
     sw: f64,
     y: f64,
@@ -60,7 +62,7 @@ impl Row {
     #[inline]
     fn weighted(&self) -> ([f64; 3], f64) {
         (
-            [self.c0 * self.sw, self.c1 * self.sw, self.c2 * self.sw],
+            [self.c0 * self.sw, C1 * self.sw, self.c2 * self.sw],
             self.y * self.sw,
         )
     }
@@ -401,9 +403,9 @@ impl FastFit {
                 (1.0, 1.0)
             };
             let x = Model::ConstantCp.row(pt.t_k, theta);
+            debug_assert_eq!(x[1], C1);
             let row = Row {
                 c0: x[0],
-                c1: x[1],
                 c2: x[2],
                 sw,
                 y: pt.ln_k,
@@ -524,7 +526,7 @@ impl FastFit {
                     continue;
                 };
                 g.used[k] = true;
-                let x = [row.c0, row.c1, row.c2];
+                let x = [row.c0, C1, row.c2];
                 let fitted: f64 = (0..p).map(|j| x[j] * beta[j]).sum();
                 let e = m.ln_k - fitted;
                 // hᵢ = ‖R⁻ᵀ aᵢ‖² with aᵢ the weighted row (R⁻¹ upper triangular).
