@@ -12,6 +12,7 @@ use crate::header;
 use crate::mapping::{convert_cells, ColumnMapping};
 use crate::text::{self, Delimiter, Reader, Record, Span};
 use isochore_fit::{Measurement, TemperatureUnit};
+use rayon::prelude::*;
 use serde::{Deserialize, Serialize};
 use sha2::{Digest, Sha256};
 use std::collections::HashMap;
@@ -721,6 +722,13 @@ fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Pars
         rejected,
         any_data,
     } = chunk;
+    // Give back the room reserved for rows that never came (it was never touched, so this
+    // moves nothing).
+    for s in &mut series {
+        if s.rows.capacity() - s.rows.len() > 4096 {
+            s.rows.shrink_to_fit();
+        }
+    }
     if !any_data {
         return Err(Error::HeaderOnly {
             file: file.to_string(),
@@ -794,12 +802,14 @@ impl Chunk {
         for s in later.series {
             match self.series.iter_mut().find(|m| m.name == s.name) {
                 Some(m) => {
+                    // Moved and renumbered in one pass, on all cores: the first touch of
+                    // each new page is most of the cost.
                     let base = m.rows.len();
-                    let mut rows = s.rows;
-                    m.rows.append(&mut rows);
-                    for (k, r) in m.rows[base..].iter_mut().enumerate() {
-                        r.row = base + k + 1;
-                    }
+                    m.rows
+                        .par_extend(s.rows.into_par_iter().enumerate().map(|(k, mut r)| {
+                            r.row = base + k + 1;
+                            r
+                        }));
                 }
                 None => self.series.push(s),
             }
@@ -943,11 +953,6 @@ impl Scan<'_> {
                         problem,
                     });
                 }
-            }
-        }
-        if reserve > 0 {
-            for s in &mut series {
-                s.rows.shrink_to_fit();
             }
         }
         Ok(Chunk {
