@@ -237,11 +237,19 @@ pub(crate) struct Converted {
 
 /// Parses one number cell. `comma_decimal` lets a comma stand for the decimal point.
 /// Leading and trailing spaces, a leading '+', and the Unicode minus sign are accepted.
-#[inline]
+#[inline(always)]
 pub(crate) fn parse_number(cell: &str, comma_decimal: bool) -> Result<f64, RowProblem> {
-    if let Some(v) = fast_decimal(cell.as_bytes(), comma_decimal) {
-        return Ok(v);
+    match fast_decimal(cell.as_bytes(), comma_decimal) {
+        Some(v) => Ok(v),
+        None => parse_number_slow(cell, comma_decimal),
     }
+}
+
+/// Everything the fast path does not answer: the standard parser, then spaces, the Unicode
+/// minus and decimal commas.
+#[cold]
+#[inline(never)]
+fn parse_number_slow(cell: &str, comma_decimal: bool) -> Result<f64, RowProblem> {
     if let Ok(v) = cell.parse::<f64>() {
         return finite(v);
     }
