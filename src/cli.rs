@@ -1,0 +1,285 @@
+//! The command-line grammar (clap derive): `fit`, `predict`, `two-point`, their options and
+//! the parsers that refuse impossible values (a level outside (0, 1), a non-positive θ, a
+//! row list that is not numbers) as usage errors, exit code 2.
+
+use clap::{Args, Parser, Subcommand, ValueEnum};
+use std::path::PathBuf;
+
+/// Van 't Hoff analysis of equilibrium constants measured at several temperatures.
+///
+/// With no subcommand, opens the desktop workbench.
+#[derive(Debug, Parser)]
+#[command(name = "isochore", version, about, long_about = None)]
+pub struct Cli {
+    /// What to do; omit to open the desktop window.
+    #[command(subcommand)]
+    pub command: Option<Command>,
+}
+
+/// The subcommands.
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// Fit each file (CSV or project file) and print the results, JSON, or write reports.
+    Fit(FitArgs),
+    /// Predict K, ln K and ΔG° at a temperature from the fit of a file.
+    Predict(PredictArgs),
+    /// The two-point calculation: ΔH° from two (T, K) pairs, or K at T₂ from K₁ and ΔH°.
+    #[command(name = "two-point")]
+    TwoPoint(TwoPointArgs),
+}
+
+/// The van 't Hoff model.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum ModelArg {
+    /// ΔH° and ΔS° constant.
+    Linear,
+    /// ΔCp° constant.
+    Cp,
+}
+
+/// Energy unit for readable output and reports (JSON is always SI).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum EnergyArg {
+    /// kJ/mol.
+    #[value(name = "kJ", alias = "kj")]
+    KJ,
+    /// kcal/mol.
+    #[value(name = "kcal")]
+    Kcal,
+}
+
+impl EnergyArg {
+    /// The fit crate's unit.
+    pub fn unit(self) -> isochore_fit::EnergyUnit {
+        match self {
+            EnergyArg::KJ => isochore_fit::EnergyUnit::KilojoulePerMole,
+            EnergyArg::Kcal => isochore_fit::EnergyUnit::KilocaloriePerMole,
+        }
+    }
+}
+
+/// Temperature unit of values typed on the command line.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum TempArg {
+    /// Degrees Celsius.
+    #[value(name = "C", alias = "c")]
+    C,
+    /// Kelvin.
+    #[value(name = "K", alias = "k")]
+    K,
+    /// Degrees Fahrenheit.
+    #[value(name = "F", alias = "f")]
+    F,
+}
+
+impl TempArg {
+    /// The fit crate's unit.
+    pub fn unit(self) -> isochore_fit::TemperatureUnit {
+        match self {
+            TempArg::C => isochore_fit::TemperatureUnit::Celsius,
+            TempArg::K => isochore_fit::TemperatureUnit::Kelvin,
+            TempArg::F => isochore_fit::TemperatureUnit::Fahrenheit,
+        }
+    }
+}
+
+/// Options shared by `fit` and `predict`: how to read the files and how to fit.
+#[derive(Debug, Clone, Args)]
+pub struct FitOptionsArgs {
+    /// Model: linear (constant ΔH°) or cp (constant ΔCp°). Default: the project's, else linear.
+    #[arg(long, value_enum)]
+    pub model: Option<ModelArg>,
+    /// Reference temperature θ of the ΔCp° model, in kelvin (default 298.15).
+    #[arg(long, value_name = "KELVIN", value_parser = parse_positive)]
+    pub tref: Option<f64>,
+    /// Confidence level of every interval, between 0 and 1 (default 0.95).
+    #[arg(long, value_name = "LEVEL", value_parser = parse_level)]
+    pub level: Option<f64>,
+    /// Take the stated σ as absolute (no rescaling by the reduced χ²; normal intervals).
+    #[arg(long)]
+    pub absolute_sigma: bool,
+    /// Exclude these 1-based data rows, e.g. 3,7 or 3-5 (added to a project's exclusions).
+    #[arg(long, value_name = "ROWS", value_parser = parse_rows)]
+    pub exclude: Option<RowList>,
+    /// Energy unit for readable output and reports (JSON is always J/mol).
+    #[arg(long, value_enum, value_name = "kJ|kcal")]
+    pub energy: Option<EnergyArg>,
+    /// Fit the good rows of a file with bad rows, listing every skipped line in the warnings
+    /// (by default such a file is refused).
+    #[arg(long)]
+    pub skip_bad_rows: bool,
+}
+
+/// `isochore fit`.
+#[derive(Debug, Clone, Args)]
+pub struct FitArgs {
+    /// CSV files or project files (*.isochore.json).
+    #[arg(required = true, value_name = "FILE")]
+    pub files: Vec<PathBuf>,
+    /// Fit options.
+    #[command(flatten)]
+    pub fit: FitOptionsArgs,
+    /// Print the JSON contract (SI units) instead of a table.
+    #[arg(long)]
+    pub json: bool,
+    /// Leave the per-point table out (JSON: no "points"; text: one row per series).
+    #[arg(long)]
+    pub summary: bool,
+    /// Write reports: a file (.html, .pdf, .md, .csv, .svg, .png) for one series, or a folder
+    /// that receives every format for each series.
+    #[arg(long, value_name = "PATH")]
+    pub report: Option<PathBuf>,
+}
+
+/// `isochore predict`.
+#[derive(Debug, Clone, Args)]
+pub struct PredictArgs {
+    /// A CSV file or project file.
+    #[arg(value_name = "FILE")]
+    pub file: PathBuf,
+    /// Temperature(s) to predict at, e.g. 37 or 25,37 (unit from --temp-unit).
+    #[arg(
+        long,
+        value_name = "T",
+        value_delimiter = ',',
+        allow_hyphen_values = true,
+        required_unless_present = "for_k"
+    )]
+    pub at: Vec<f64>,
+    /// Unit of --at (default °C).
+    #[arg(long, value_enum, default_value = "C")]
+    pub temp_unit: TempArg,
+    /// Also find the temperature at which K reaches this value (dimensionless K).
+    #[arg(long, value_name = "K")]
+    pub for_k: Option<f64>,
+    /// Fit options.
+    #[command(flatten)]
+    pub fit: FitOptionsArgs,
+    /// Print JSON (SI units) instead of text.
+    #[arg(long)]
+    pub json: bool,
+}
+
+/// `isochore two-point`.
+#[derive(Debug, Clone, Args)]
+#[command(group(clap::ArgGroup::new("direction").required(true).args(["k2", "delta_h"])))]
+pub struct TwoPointArgs {
+    /// First temperature (unit from --temp-unit).
+    #[arg(long, allow_hyphen_values = true)]
+    pub t1: f64,
+    /// K at the first temperature.
+    #[arg(long)]
+    pub k1: f64,
+    /// Second temperature.
+    #[arg(long, allow_hyphen_values = true)]
+    pub t2: f64,
+    /// K at the second temperature: gives ΔH° and ΔS° from the two pairs.
+    #[arg(long)]
+    pub k2: Option<f64>,
+    /// ΔH° (unit from --energy): gives K at the second temperature.
+    #[arg(long, allow_hyphen_values = true)]
+    pub delta_h: Option<f64>,
+    /// Standard uncertainty of K₁ (same unit as K₁; 0 if exact).
+    #[arg(long, default_value_t = 0.0)]
+    pub u_k1: f64,
+    /// Standard uncertainty of K₂.
+    #[arg(long, default_value_t = 0.0)]
+    pub u_k2: f64,
+    /// Standard uncertainty of both temperatures (same unit as T; 0 if exact).
+    #[arg(long, default_value_t = 0.0)]
+    pub u_t: f64,
+    /// Standard uncertainty of ΔH° (unit from --energy).
+    #[arg(long, default_value_t = 0.0)]
+    pub u_delta_h: f64,
+    /// Unit of the temperatures (default °C).
+    #[arg(long, value_enum, default_value = "C")]
+    pub temp_unit: TempArg,
+    /// Energy unit of ΔH° in and out (JSON is always J/mol).
+    #[arg(long, value_enum, default_value = "kJ")]
+    pub energy: EnergyArg,
+    /// Confidence level, between 0 and 1.
+    #[arg(long, default_value_t = 0.95, value_parser = parse_level)]
+    pub level: f64,
+    /// Print JSON (SI units) instead of text.
+    #[arg(long)]
+    pub json: bool,
+}
+
+/// A list of 1-based row numbers.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct RowList(pub Vec<usize>);
+
+/// Parses "3,7" or "3-5,9" into sorted, distinct 1-based rows.
+pub fn parse_rows(s: &str) -> Result<RowList, String> {
+    let mut rows = Vec::new();
+    for part in s.split(',').map(str::trim).filter(|p| !p.is_empty()) {
+        let one = |t: &str| -> Result<usize, String> {
+            match t.trim().parse::<usize>() {
+                Ok(0) => Err("row numbers start at 1".to_string()),
+                Ok(n) => Ok(n),
+                Err(_) => Err(format!("'{t}' is not a row number (give e.g. 3,7 or 3-5)")),
+            }
+        };
+        match part.split_once('-') {
+            Some((a, b)) => {
+                let (a, b) = (one(a)?, one(b)?);
+                if b < a || b - a > 10_000_000 {
+                    return Err(format!("'{part}' is not a valid range of rows"));
+                }
+                rows.extend(a..=b);
+            }
+            None => rows.push(one(part)?),
+        }
+    }
+    if rows.is_empty() {
+        return Err("give at least one row number, e.g. 3,7".to_string());
+    }
+    rows.sort_unstable();
+    rows.dedup();
+    Ok(RowList(rows))
+}
+
+fn parse_level(s: &str) -> Result<f64, String> {
+    let v: f64 = s
+        .trim()
+        .parse()
+        .map_err(|_| format!("'{s}' is not a number"))?;
+    if v.is_finite() && v > 0.0 && v < 1.0 {
+        Ok(v)
+    } else {
+        Err("the level must lie strictly between 0 and 1, e.g. 0.95".to_string())
+    }
+}
+
+fn parse_positive(s: &str) -> Result<f64, String> {
+    let v: f64 = s
+        .trim()
+        .parse()
+        .map_err(|_| format!("'{s}' is not a number"))?;
+    if v.is_finite() && v > 0.0 {
+        Ok(v)
+    } else {
+        Err("give a positive temperature in kelvin, e.g. 298.15".to_string())
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn row_lists() {
+        assert_eq!(parse_rows("3,7").unwrap().0, vec![3, 7]);
+        assert_eq!(parse_rows("7, 3-5,4").unwrap().0, vec![3, 4, 5, 7]);
+        assert!(parse_rows("0").is_err());
+        assert!(parse_rows("a").is_err());
+        assert!(parse_rows("5-3").is_err());
+        assert!(parse_rows("").is_err());
+    }
+
+    #[test]
+    fn grammar_is_consistent() {
+        use clap::CommandFactory;
+        Cli::command().debug_assert();
+    }
+}

@@ -1,0 +1,203 @@
+//! `isochore predict`: fits the file, then gives ln K, K, ΔG°, ΔH° and ΔS° at each asked
+//! temperature with confidence and prediction intervals, warns when a temperature lies
+//! outside the measured range, and optionally finds the temperature for a target K.
+
+use crate::cli::PredictArgs;
+use crate::fit_cmd::fit_job;
+use crate::load::load;
+use crate::Failure;
+use isochore_fit::{Estimate, Prediction, ValuePrediction, VantHoffFit};
+use isochore_report::content::{decimals_for, entropy_unit, num, show_t, sig};
+use serde_json::json;
+use std::io::Write;
+
+fn finite(v: f64) -> serde_json::Value {
+    if v.is_finite() {
+        json!(v)
+    } else {
+        serde_json::Value::Null
+    }
+}
+
+fn est(e: &Estimate) -> serde_json::Value {
+    json!({"value": finite(e.value), "se": finite(e.se), "ci_low": finite(e.ci_low), "ci_high": finite(e.ci_high)})
+}
+
+fn value(v: &ValuePrediction) -> serde_json::Value {
+    json!({
+        "value": finite(v.value), "se": finite(v.se),
+        "ci_low": finite(v.ci.low), "ci_high": finite(v.ci.high),
+        "pi_low": finite(v.pi.low), "pi_high": finite(v.pi.high),
+    })
+}
+
+fn prediction_json(p: &Prediction) -> serde_json::Value {
+    json!({
+        "t_k": finite(p.t_k),
+        "ln_k": value(&p.ln_k),
+        "k": value(&p.k),
+        "delta_g": est(&p.delta_g),
+        "delta_h": est(&p.delta_h),
+        "delta_s": est(&p.delta_s),
+        "extrapolated": p.extrapolated,
+        "warning": p.warning,
+    })
+}
+
+/// Runs `isochore predict`.
+pub fn run(a: &PredictArgs) -> Result<(), Failure> {
+    let unit = a.temp_unit.unit();
+    let temps_k: Vec<f64> = a.at.iter().map(|&t| unit.to_kelvin(t)).collect();
+    if let Some(bad) = temps_k.iter().find(|t| !(t.is_finite() && **t > 0.0)) {
+        return Err(Failure::usage(format!(
+            "--at: {} K is not a temperature above absolute zero; check --temp-unit",
+            num(*bad, 2)
+        )));
+    }
+    if let Some(k) = a.for_k {
+        if !(k.is_finite() && k > 0.0) {
+            return Err(Failure::usage("--for-k must be a positive number"));
+        }
+    }
+    let jobs = load(&a.file, &a.fit, false).map_err(Failure::input)?;
+    let mut fits: Vec<(crate::load::Job, VantHoffFit)> = Vec::new();
+    for job in jobs {
+        let fit = fit_job(&job).map_err(Failure::input)?;
+        fits.push((job, fit));
+    }
+    let stdout = std::io::stdout();
+    let mut out = stdout.lock();
+    let io = |e: std::io::Error| Failure::input(format!("writing the output failed: {e}"));
+    if a.json {
+        let items: Vec<serde_json::Value> = fits
+            .iter()
+            .map(|(job, fit)| {
+                let preds: Vec<serde_json::Value> = temps_k
+                    .iter()
+                    .filter_map(|&t| fit.predict(t).ok())
+                    .map(|p| prediction_json(&p))
+                    .collect();
+                let for_k = a.for_k.map(|k| match fit.temperature_for_k(k) {
+                    Ok(e) => json!({"k": k, "t_k": est(&e), "extrapolated": fit.is_extrapolation(e.value)}),
+                    Err(err) => json!({"k": k, "t_k": null, "error": err.to_string()}),
+                });
+                let mut warnings: Vec<String> = job.warnings.clone();
+                warnings.extend(fit.warnings.iter().map(|w| w.message.clone()));
+                json!({
+                    "source": job.source,
+                    "series": job.series,
+                    "model": fit.model().key(),
+                    "level": fit.options.level,
+                    "t_min_k": finite(fit.t_min_k),
+                    "t_max_k": finite(fit.t_max_k),
+                    "predictions": preds,
+                    "for_k": for_k,
+                    "warnings": warnings,
+                    "version": env!("CARGO_PKG_VERSION"),
+                })
+            })
+            .collect();
+        let doc = if items.len() == 1 {
+            items.into_iter().next().unwrap_or(serde_json::Value::Null)
+        } else {
+            serde_json::Value::Array(items)
+        };
+        serde_json::to_writer_pretty(&mut out, &doc).map_err(|e| io(e.into()))?;
+        writeln!(out).map_err(io)?;
+        return Ok(());
+    }
+    for (job, fit) in &fits {
+        let e = job.energy;
+        let ef = e.joules_per_mole();
+        let (sf, s_unit) = entropy_unit(e);
+        let lp = num(fit.options.level * 100.0, 1)
+            .trim_end_matches(".0")
+            .to_string();
+        writeln!(
+            out,
+            "{} — series “{}” ({} model, measured {} to {})",
+            job.source,
+            job.series,
+            fit.model().key(),
+            show_t(fit.t_min_k, unit),
+            show_t(fit.t_max_k, unit)
+        )
+        .map_err(io)?;
+        for &t in &temps_k {
+            let p = fit.predict(t).map_err(|e| Failure::input(e.to_string()))?;
+            writeln!(out, "at {} ({} K):", show_t(t, unit), num(t, 2)).map_err(io)?;
+            writeln!(
+                out,
+                "  K     = {}   {lp}% CI [{}, {}]   {lp}% PI [{}, {}]",
+                sig(p.k.value, 4),
+                sig(p.k.ci.low, 4),
+                sig(p.k.ci.high, 4),
+                sig(p.k.pi.low, 4),
+                sig(p.k.pi.high, 4)
+            )
+            .map_err(io)?;
+            let d = decimals_for(p.ln_k.se);
+            writeln!(
+                out,
+                "  ln K  = {} ± {}   CI [{}, {}]   PI [{}, {}]",
+                num(p.ln_k.value, d),
+                num(p.ln_k.se, d),
+                num(p.ln_k.ci.low, d),
+                num(p.ln_k.ci.high, d),
+                num(p.ln_k.pi.low, d),
+                num(p.ln_k.pi.high, d)
+            )
+            .map_err(io)?;
+            for (name, est, f, u) in [
+                ("ΔG°", p.delta_g, ef, e.symbol()),
+                ("ΔH°", p.delta_h, ef, e.symbol()),
+                ("ΔS°", p.delta_s, sf, s_unit),
+            ] {
+                let x = est.scaled(1.0 / f);
+                let d = decimals_for(x.se);
+                writeln!(
+                    out,
+                    "  {name}   = {} ± {} {u}   CI [{}, {}]",
+                    num(x.value, d),
+                    num(x.se, d),
+                    num(x.ci_low, d),
+                    num(x.ci_high, d)
+                )
+                .map_err(io)?;
+            }
+            if let Some(w) = &p.warning {
+                writeln!(out, "  warning: {w}").map_err(io)?;
+            }
+        }
+        if let Some(k) = a.for_k {
+            match fit.temperature_for_k(k) {
+                Ok(t) => {
+                    writeln!(
+                        out,
+                        "K = {} at {} (SE {} K; {lp}% CI {} to {}){}",
+                        sig(k, 4),
+                        show_t(t.value, unit),
+                        num(t.se, 2),
+                        show_t(t.ci_low, unit),
+                        show_t(t.ci_high, unit),
+                        if fit.is_extrapolation(t.value) {
+                            " — outside the measured range: an extrapolation"
+                        } else {
+                            ""
+                        }
+                    )
+                    .map_err(io)?;
+                }
+                Err(e) => writeln!(out, "K = {}: {e}", sig(k, 4)).map_err(io)?,
+            }
+        }
+        for w in job
+            .warnings
+            .iter()
+            .chain(fit.warnings.iter().map(|w| &w.message))
+        {
+            writeln!(out, "warning: {w}").map_err(io)?;
+        }
+    }
+    Ok(())
+}

@@ -1,0 +1,240 @@
+//! Readable text output of `isochore fit`: the detailed table for one data set (estimates
+//! ± SE with intervals, fit statistics, model comparison, flagged and excluded points,
+//! warnings in words) and the one-row-per-series summary of a batch.
+
+use crate::load::Job;
+use isochore_fit::VantHoffFit;
+use isochore_report::content::{
+    decimals_for, entropy_unit, flag_words, num, result_rows_for, show_t, sig, statistics_rows,
+};
+use std::io::{self, Write};
+
+fn pad(s: &str, w: usize) -> String {
+    let n = s.chars().count();
+    if n >= w {
+        s.to_string()
+    } else {
+        format!("{s}{}", " ".repeat(w - n))
+    }
+}
+
+fn lpad(s: &str, w: usize) -> String {
+    let n = s.chars().count();
+    if n >= w {
+        s.to_string()
+    } else {
+        format!("{}{s}", " ".repeat(w - n))
+    }
+}
+
+fn level_pct(fit: &VantHoffFit) -> String {
+    num(fit.options.level * 100.0, 1)
+        .trim_end_matches(".0")
+        .to_string()
+}
+
+/// The full readable account of one fit.
+pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<()> {
+    writeln!(w, "{} — series “{}”", job.source, job.series)?;
+    writeln!(
+        w,
+        "model: {}; {}; {}% intervals ({})",
+        fit.model().describe(),
+        if fit.weighted {
+            "weighted by 1/σ²"
+        } else {
+            "unweighted"
+        },
+        level_pct(fit),
+        if fit.options.convention == isochore_fit::SigmaConvention::Absolute && fit.weighted {
+            "σ absolute, normal quantile".to_string()
+        } else {
+            format!("Student's t, {} dof", fit.dof)
+        }
+    )?;
+    writeln!(w)?;
+    let rows = result_rows_for(fit, job.energy, job.temperature);
+    let lp = level_pct(fit);
+    let header = [
+        "quantity".to_string(),
+        "value".to_string(),
+        "± SE".to_string(),
+        format!("{lp}% CI"),
+        "unit".to_string(),
+    ];
+    let cells: Vec<[String; 5]> = rows
+        .iter()
+        .map(|r| {
+            let [v, se, lo, hi] = r.cells();
+            [
+                r.quantity.clone(),
+                v,
+                format!("± {se}"),
+                format!("[{lo}, {hi}]"),
+                r.unit.clone(),
+            ]
+        })
+        .collect();
+    let mut widths = header.clone().map(|h| h.chars().count());
+    for c in &cells {
+        for (i, s) in c.iter().enumerate() {
+            widths[i] = widths[i].max(s.chars().count());
+        }
+    }
+    let line = |w: &mut dyn Write, c: &[String; 5]| -> io::Result<()> {
+        writeln!(
+            w,
+            "  {}  {}  {}  {}  {}",
+            pad(&c[0], widths[0]),
+            lpad(&c[1], widths[1]),
+            pad(&c[2], widths[2]),
+            pad(&c[3], widths[3]),
+            c[4]
+        )
+    };
+    line(w, &header)?;
+    for c in &cells {
+        line(w, c)?;
+    }
+    writeln!(w)?;
+    writeln!(w, "fit statistics:")?;
+    for (k, v) in statistics_rows(fit) {
+        writeln!(w, "  {}  {v}", pad(&k, 28))?;
+    }
+    writeln!(w)?;
+    match &fit.comparison {
+        Some(c) => writeln!(w, "model comparison: {}", c.verdict)?,
+        None => writeln!(w, "model comparison: not possible with so few points")?,
+    }
+    let flagged: Vec<String> = job
+        .rows
+        .iter()
+        .zip(&fit.points)
+        .filter(|(_, d)| d.flags.any())
+        .take(50)
+        .map(|(r, d)| {
+            format!(
+                "  row {} (line {}, {}): {}; t_ext = {}, h = {}, D = {}",
+                r.row,
+                r.line,
+                show_t(r.t_k, job.temperature),
+                flag_words(d.flags),
+                d.student_ext
+                    .or(d.prediction_residual)
+                    .map_or("—".into(), |t| num(t, 2)),
+                num(d.leverage, 3),
+                d.cooks_d.map_or("—".into(), |c| num(c, 3))
+            )
+        })
+        .collect();
+    if !flagged.is_empty() {
+        writeln!(w, "flagged points:")?;
+        for f in flagged {
+            writeln!(w, "{f}")?;
+        }
+    }
+    let excluded: Vec<String> = job
+        .rows
+        .iter()
+        .filter(|r| !r.included)
+        .take(50)
+        .map(|r| {
+            format!(
+                "  row {} (line {}): {}",
+                r.row,
+                r.line,
+                r.exclusion_reason
+                    .as_deref()
+                    .unwrap_or("no reason recorded")
+            )
+        })
+        .collect();
+    if !excluded.is_empty() {
+        writeln!(w, "excluded points:")?;
+        for e in excluded {
+            writeln!(w, "{e}")?;
+        }
+    }
+    let warnings: Vec<&str> = job
+        .warnings
+        .iter()
+        .map(String::as_str)
+        .chain(fit.warnings.iter().map(|w| w.message.as_str()))
+        .collect();
+    if !warnings.is_empty() {
+        writeln!(w, "warnings:")?;
+        for m in warnings {
+            writeln!(w, "  - {m}")?;
+        }
+    }
+    Ok(())
+}
+
+/// One line of a batch summary.
+pub struct SummaryRow {
+    cells: Vec<String>,
+}
+
+impl SummaryRow {
+    /// The summary of one fit.
+    pub fn new(job: &Job, fit: &VantHoffFit) -> Self {
+        let ef = job.energy.joules_per_mole();
+        let (sf, _) = entropy_unit(job.energy);
+        let h = fit.delta_h().scaled(1.0 / ef);
+        let s = fit.delta_s().scaled(1.0 / sf);
+        let pm = |v: f64, se: f64| {
+            let d = decimals_for(se);
+            format!("{} ± {}", num(v, d), num(se, d))
+        };
+        let cp = fit
+            .delta_cp()
+            .map(|c| {
+                let c = c.scaled(1.0 / sf);
+                pm(c.value, c.se)
+            })
+            .unwrap_or_else(|| "—".to_string());
+        SummaryRow {
+            cells: vec![
+                job.source.clone(),
+                job.series.clone(),
+                format!("{}/{}", fit.n_used, fit.n_total),
+                fit.model().key().to_string(),
+                pm(h.value, h.se),
+                pm(s.value, s.se),
+                cp,
+                sig(fit.stats.r2, 5),
+                fit.flagged_points().len().to_string(),
+                (fit.warnings.len() + job.warnings.len()).to_string(),
+            ],
+        }
+    }
+}
+
+/// The batch table, with the units of the first row's job in the header.
+pub fn summary(w: &mut impl Write, rows: &[SummaryRow]) -> io::Result<()> {
+    let header: Vec<String> = [
+        "source", "series", "n", "model", "ΔH°", "ΔS°", "ΔCp°", "R²", "flagged", "warnings",
+    ]
+    .iter()
+    .map(|s| s.to_string())
+    .collect();
+    let mut widths: Vec<usize> = header.iter().map(|h| h.chars().count()).collect();
+    for r in rows {
+        for (i, c) in r.cells.iter().enumerate() {
+            widths[i] = widths[i].max(c.chars().count());
+        }
+    }
+    let write_row = |w: &mut dyn Write, cells: &[String]| -> io::Result<()> {
+        let parts: Vec<String> = cells
+            .iter()
+            .enumerate()
+            .map(|(i, c)| pad(c, widths[i]))
+            .collect();
+        writeln!(w, "{}", parts.join("  ").trim_end())
+    };
+    write_row(w, &header)?;
+    for r in rows {
+        write_row(w, &r.cells)?;
+    }
+    Ok(())
+}

@@ -1,0 +1,565 @@
+//! End-to-end checks of the `isochore` binary: the JSON contract parses and carries the
+//! library's numbers, `--exclude` moves ΔH° to the library's value without that point,
+//! every report format is produced and readable by an independent parser (lopdf for PDF,
+//! roxmltree for SVG), hostile series names stay text, and exit codes are 0/1/2 as promised.
+
+use isochore_data::{import_path, ImportOptions};
+use isochore_fit::{fit, FitOptions, VantHoffFit, Weighting};
+use serde_json::Value;
+use std::path::{Path, PathBuf};
+use std::process::{Command, Output};
+
+fn bin() -> Command {
+    Command::new(env!("CARGO_BIN_EXE_isochore"))
+}
+
+fn run(args: &[&str]) -> Output {
+    bin().args(args).output().expect("the binary runs")
+}
+
+fn root() -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+}
+
+fn demo(name: &str) -> String {
+    root()
+        .join("assets/demo")
+        .join(name)
+        .to_string_lossy()
+        .into_owned()
+}
+
+const DEMOS: [&str; 2] = ["acid_pka.csv", "binding_qx7_halo2.csv"];
+
+/// The library's own fit of a file, as the command line should do it (weighted when the
+/// file gives uncertainties, unweighted otherwise).
+fn library_fit(path: &str, excluded: &[usize], options: FitOptions) -> VantHoffFit {
+    let imp = import_path(path, &ImportOptions::default()).expect("demo imports");
+    let m = imp.series[0].measurements(excluded);
+    let mut o = options;
+    if m.iter().all(|p| p.sigma_ln_k.is_none()) {
+        o.weighting = Weighting::Unweighted;
+    }
+    fit(&m, &o).expect("demo fits")
+}
+
+fn json_of(out: &Output) -> Value {
+    let text = String::from_utf8(out.stdout.clone()).expect("utf-8 output");
+    assert!(
+        !text.contains("NaN") && !text.contains("Infinity"),
+        "JSON must hold no NaN/Infinity"
+    );
+    serde_json::from_str(&text).unwrap_or_else(|e| panic!("JSON does not parse: {e}\n{text}"))
+}
+
+fn close(a: f64, b: f64, rel: f64) -> bool {
+    (a - b).abs() <= rel * b.abs().max(1e-300)
+}
+
+#[test]
+fn fit_json_matches_the_library_for_each_demo() {
+    for name in DEMOS {
+        let path = demo(name);
+        let out = run(&["fit", &path, "--json"]);
+        assert_eq!(
+            out.status.code(),
+            Some(0),
+            "{name}: {}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        let j = json_of(&out);
+        let lib = library_fit(&path, &[], FitOptions::default());
+        assert_eq!(j["model"], "linear");
+        assert_eq!(j["n_used"].as_u64().unwrap() as usize, lib.n_used);
+        assert_eq!(j["dof"].as_u64().unwrap() as usize, lib.dof);
+        // The same computation in the same process order: agreement to rounding.
+        let h = &j["params"]["delta_h"];
+        assert!(close(
+            h["value"].as_f64().unwrap(),
+            lib.delta_h().value,
+            1e-12
+        ));
+        assert!(close(h["se"].as_f64().unwrap(), lib.delta_h().se, 1e-12));
+        assert!(close(
+            h["ci_low"].as_f64().unwrap(),
+            lib.delta_h().ci_low,
+            1e-12
+        ));
+        let s = &j["params"]["delta_s"];
+        assert!(close(
+            s["value"].as_f64().unwrap(),
+            lib.delta_s().value,
+            1e-12
+        ));
+        assert!(j["params"].get("delta_cp").is_none());
+        assert!(close(
+            j["cov"][0][1].as_f64().unwrap(),
+            lib.covariance[0][1],
+            1e-12
+        ));
+        assert!(close(j["corr_h_s"].as_f64().unwrap(), lib.corr_h_s, 1e-12));
+        assert!(close(j["chi2"].as_f64().unwrap(), lib.stats.chi2, 1e-12));
+        let points = j["points"].as_array().unwrap();
+        assert_eq!(points.len(), lib.points.len());
+        for (i, (p, d)) in points.iter().zip(&lib.points).enumerate() {
+            assert_eq!(
+                p["row"].as_u64().unwrap() as usize,
+                i + 1,
+                "rows in file order"
+            );
+            assert!(close(p["leverage"].as_f64().unwrap(), d.leverage, 1e-12));
+            assert!(close(p["residual"].as_f64().unwrap(), d.residual, 1e-9));
+            assert!(p["flags"].is_array());
+            assert!(p["sigma_ln_k"].is_number(), "the demos are weighted");
+        }
+        assert_eq!(j["version"], env!("CARGO_PKG_VERSION"));
+        assert!(j["warnings"].is_array());
+        // The ΔCp° model adds delta_cp and a 3×3 covariance.
+        let out = run(&["fit", &path, "--json", "--model", "cp", "--summary"]);
+        assert_eq!(out.status.code(), Some(0));
+        let j = json_of(&out);
+        let lib = library_fit(
+            &path,
+            &[],
+            FitOptions {
+                model: isochore_fit::Model::ConstantCp,
+                ..FitOptions::default()
+            },
+        );
+        assert!(close(
+            j["params"]["delta_cp"]["value"].as_f64().unwrap(),
+            lib.delta_cp().unwrap().value,
+            1e-10
+        ));
+        assert_eq!(j["cov"].as_array().unwrap().len(), 3);
+        assert!(j.get("points").is_none(), "--summary leaves the points out");
+    }
+}
+
+#[test]
+fn exclude_moves_delta_h_to_the_library_value_without_that_point() {
+    let path = demo("binding_qx7_halo2.csv");
+    let full = json_of(&run(&["fit", &path, "--json"]));
+    let out = run(&["fit", &path, "--json", "--exclude", "3"]);
+    assert_eq!(out.status.code(), Some(0));
+    let j = json_of(&out);
+    let lib = library_fit(&path, &[3], FitOptions::default());
+    let h = j["params"]["delta_h"]["value"].as_f64().unwrap();
+    assert!(close(h, lib.delta_h().value, 1e-12));
+    assert!(h != full["params"]["delta_h"]["value"].as_f64().unwrap());
+    assert_eq!(j["points"][2]["used"], false);
+    assert_eq!(j["points"][2]["row"], 3);
+    assert_eq!(
+        j["n_used"].as_u64().unwrap(),
+        full["n_used"].as_u64().unwrap() - 1
+    );
+    // A row that does not exist is refused, naming the series' size.
+    let out = run(&["fit", &path, "--exclude", "99"]);
+    assert_eq!(out.status.code(), Some(1));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("row 99"));
+}
+
+#[test]
+fn options_reach_the_fit() {
+    let path = demo("acid_pka.csv");
+    let j = json_of(&run(&[
+        "fit",
+        &path,
+        "--json",
+        "--level",
+        "0.9",
+        "--absolute-sigma",
+        "--tref",
+        "310",
+    ]));
+    let lib = library_fit(
+        &path,
+        &[],
+        FitOptions {
+            level: 0.9,
+            t_ref_k: 310.0,
+            convention: isochore_fit::SigmaConvention::Absolute,
+            ..FitOptions::default()
+        },
+    );
+    assert_eq!(j["level"], 0.9);
+    assert_eq!(j["t_ref_k"], 310.0);
+    let h = &j["params"]["delta_h"];
+    assert!(close(h["se"].as_f64().unwrap(), lib.delta_h().se, 1e-12));
+    assert!(close(
+        h["ci_high"].as_f64().unwrap(),
+        lib.delta_h().ci_high,
+        1e-12
+    ));
+}
+
+#[test]
+fn readable_output_and_batches() {
+    let a = demo("acid_pka.csv");
+    let b = demo("binding_qx7_halo2.csv");
+    let out = run(&["fit", &a, "--energy", "kcal"]);
+    assert_eq!(out.status.code(), Some(0));
+    let text = String::from_utf8(out.stdout).unwrap();
+    assert!(text.contains("ΔH° at θ"), "{text}");
+    assert!(text.contains("kcal/mol"), "{text}");
+    assert!(text.contains("fit statistics"), "{text}");
+
+    // Two good files and one missing: the good ones are fitted, the missing one named, exit 1.
+    let missing = root().join("tests/no-such-file.csv");
+    let missing = missing.to_string_lossy();
+    let out = run(&["fit", &a, &missing, &b, "--json", "--summary"]);
+    assert_eq!(out.status.code(), Some(1));
+    let j = json_of(&out);
+    let arr = j.as_array().expect("several files give an array");
+    assert_eq!(arr.len(), 3);
+    assert_eq!(arr[0]["source"], a.as_str());
+    assert!(arr[1]["error"].as_str().unwrap().contains("no-such-file"));
+    assert_eq!(arr[2]["source"], b.as_str());
+    assert!(arr[2]["params"]["delta_h"]["value"].is_number());
+    assert!(String::from_utf8_lossy(&out.stderr).contains("no-such-file"));
+
+    let out = run(&["fit", &a, &b]);
+    assert_eq!(out.status.code(), Some(0));
+    let text = String::from_utf8(out.stdout).unwrap();
+    assert_eq!(
+        text.lines().count(),
+        3,
+        "a header and one row per series:\n{text}"
+    );
+}
+
+#[test]
+fn bad_rows_are_refused_with_line_and_column_unless_skipped() {
+    let dir = tempfile::tempdir().unwrap();
+    let p = dir.path().join("bad.csv");
+    std::fs::write(
+        &p,
+        "T (°C),K,sigma_K\n10,1.20,0.05\n15,1.0x,0.05\n20,0.85,0.04\n25,0.71,0.04\n30,0.60,0.03\n",
+    )
+    .unwrap();
+    let p = p.to_string_lossy();
+    let out = run(&["fit", &p, "--json"]);
+    assert_eq!(out.status.code(), Some(1));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("bad.csv"), "{err}");
+    assert!(err.contains("line 3"), "{err}");
+    assert!(err.contains("column 2"), "{err}");
+    assert!(out.stdout.is_empty());
+    let out = run(&["fit", &p, "--json", "--skip-bad-rows"]);
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let j = json_of(&out);
+    assert_eq!(j["n_used"], 4);
+    let warnings: Vec<&str> = j["warnings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .filter_map(Value::as_str)
+        .collect();
+    assert!(
+        warnings.iter().any(|w| w.contains("line 3")),
+        "{warnings:?}"
+    );
+}
+
+#[test]
+fn usage_errors_exit_2() {
+    let a = demo("acid_pka.csv");
+    for args in [
+        vec!["fit"],
+        vec!["fit", a.as_str(), "--level", "1.5"],
+        vec!["fit", a.as_str(), "--model", "quadratic"],
+        vec!["fit", a.as_str(), "--exclude", "x"],
+        vec!["fit", a.as_str(), "--no-such-flag"],
+        vec!["predict", a.as_str()],
+        vec!["two-point", "--t1", "25", "--k1", "2", "--t2", "35"],
+        vec!["nonsense"],
+    ] {
+        let out = run(&args);
+        assert_eq!(
+            out.status.code(),
+            Some(2),
+            "{args:?}: {}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+    }
+    assert_eq!(run(&["--help"]).status.code(), Some(0));
+    assert_eq!(run(&["--version"]).status.code(), Some(0));
+}
+
+#[test]
+fn predict_matches_the_library() {
+    let path = demo("binding_qx7_halo2.csv");
+    let out = run(&["predict", &path, "--at", "37", "--json", "--for-k", "1e7"]);
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let j = json_of(&out);
+    let lib = library_fit(&path, &[], FitOptions::default());
+    let p = lib.predict(310.15).unwrap();
+    let q = &j["predictions"][0];
+    assert!(close(q["t_k"].as_f64().unwrap(), 310.15, 1e-12));
+    assert!(close(
+        q["ln_k"]["value"].as_f64().unwrap(),
+        p.ln_k.value,
+        1e-12
+    ));
+    assert!(close(
+        q["k"]["pi_high"].as_f64().unwrap(),
+        p.k.pi.high,
+        1e-10
+    ));
+    assert!(close(
+        q["delta_g"]["se"].as_f64().unwrap(),
+        p.delta_g.se,
+        1e-10
+    ));
+    let t = lib.temperature_for_k(1e7).unwrap();
+    assert!(close(
+        j["for_k"]["t_k"]["value"].as_f64().unwrap(),
+        t.value,
+        1e-10
+    ));
+    // Far outside the range: a warning in words.
+    let out = run(&["predict", &path, "--at", "90"]);
+    assert_eq!(out.status.code(), Some(0));
+    assert!(String::from_utf8_lossy(&out.stdout).contains("extrapolation"));
+}
+
+#[test]
+fn two_point_in_both_directions() {
+    // ΔH° from two pairs, then K₂ back from ΔH°: the round trip returns K₂.
+    let out = run(&[
+        "two-point",
+        "--t1",
+        "25",
+        "--k1",
+        "0.15",
+        "--t2",
+        "56.85",
+        "--k2",
+        "1.9",
+        "--u-k1",
+        "0.003",
+        "--u-k2",
+        "0.05",
+        "--json",
+    ]);
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let j = json_of(&out);
+    let dh = j["delta_h"]["value"].as_f64().unwrap();
+    let lib = isochore_fit::two_point::enthalpy_from_pairs(
+        isochore_fit::two_point::StatePoint {
+            t_k: 298.15,
+            sigma_t_k: 0.0,
+            k: 0.15,
+            sigma_ln_k: 0.003 / 0.15,
+        },
+        isochore_fit::two_point::StatePoint {
+            t_k: 330.0,
+            sigma_t_k: 0.0,
+            k: 1.9,
+            sigma_ln_k: 0.05 / 1.9,
+        },
+        0.95,
+    )
+    .unwrap();
+    assert!(close(dh, lib.delta_h.value, 1e-9));
+    assert!(close(
+        j["delta_h"]["se"].as_f64().unwrap(),
+        lib.delta_h.se,
+        1e-9
+    ));
+    let kj = format!("{}", dh / 1000.0);
+    let out = run(&[
+        "two-point",
+        "--t1",
+        "25",
+        "--k1",
+        "0.15",
+        "--t2",
+        "56.85",
+        "--delta-h",
+        &kj,
+        "--json",
+    ]);
+    assert_eq!(out.status.code(), Some(0));
+    let j = json_of(&out);
+    assert!(close(j["k2"]["value"].as_f64().unwrap(), 1.9, 1e-9));
+}
+
+fn hostile_csv(dir: &Path) -> PathBuf {
+    let p = dir.join("hostile.csv");
+    std::fs::write(
+        &p,
+        "series,T (°C),K,sigma_K\n\
+         <script>alert(1)</script>,10,1.20,0.05\n\
+         <script>alert(1)</script>,15,1.01,0.05\n\
+         <script>alert(1)</script>,20,0.85,0.04\n\
+         <script>alert(1)</script>,25,0.72,0.04\n\
+         <script>alert(1)</script>,30,0.60,0.03\n\
+         <script>alert(1)</script>,35,0.52,0.03\n",
+    )
+    .unwrap();
+    p
+}
+
+#[test]
+fn every_report_format_is_written_and_readable() {
+    let dir = tempfile::tempdir().unwrap();
+    let out_dir = dir.path().join("reports");
+    let src = hostile_csv(dir.path());
+    let out = run(&[
+        "fit",
+        &src.to_string_lossy(),
+        "--exclude",
+        "2",
+        "--report",
+        &out_dir.to_string_lossy(),
+    ]);
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let f = |name: &str| out_dir.join(name);
+
+    // HTML: the hostile name appears escaped, never as a raw tag.
+    let html = std::fs::read_to_string(f("hostile.html")).unwrap();
+    assert!(html.contains("&lt;script&gt;alert(1)&lt;/script&gt;"));
+    assert!(!html.contains("<script"), "no raw <script> in the HTML");
+    assert!(html.contains("<svg"), "figures are inline");
+    assert!(
+        !html.contains("http://") || !html.contains("src=\"http"),
+        "no network"
+    );
+    assert!(html.contains("ΔH°") && html.contains("CODATA 2018"));
+    assert!(html.contains("excluded on the command line"));
+
+    // Markdown: escaped too, with its figures beside it.
+    let md = std::fs::read_to_string(f("hostile.md")).unwrap();
+    assert!(!md.contains("<script>"));
+    assert!(md.contains("&lt;script&gt;"));
+    assert!(md.contains("hostile-vanthoff.svg"));
+
+    // PDF: an independent parser opens it and finds pages.
+    let pdf = lopdf::Document::load(f("hostile.pdf")).expect("lopdf opens the PDF");
+    assert!(!pdf.get_pages().is_empty());
+
+    // SVG figures parse as XML; PNGs are PNGs at 300 dpi.
+    for kind in ["vanthoff", "residuals", "influence", "ellipse"] {
+        let svg = std::fs::read_to_string(f(&format!("hostile-{kind}.svg"))).unwrap();
+        let doc = roxmltree::Document::parse(&svg).expect("SVG parses");
+        assert_eq!(doc.root_element().tag_name().name(), "svg");
+        assert!(doc.descendants().count() > 20, "{kind} has content");
+        let png = std::fs::read(f(&format!("hostile-{kind}.png"))).unwrap();
+        assert_eq!(&png[..8], b"\x89PNG\r\n\x1a\n");
+        assert!(png.windows(4).any(|w| w == b"pHYs"));
+        let width = u32::from_be_bytes([png[16], png[17], png[18], png[19]]);
+        assert!(width >= 1900, "publication width, got {width}");
+    }
+
+    // CSV tables: every row, with the exclusion reason.
+    let data = std::fs::read_to_string(f("hostile-data.csv")).unwrap();
+    assert_eq!(data.lines().count(), 7);
+    assert!(data.contains("excluded on the command line"));
+    let results = std::fs::read_to_string(f("hostile-results.csv")).unwrap();
+    assert!(results.starts_with("quantity,value,se,ci_low,ci_high,unit"));
+
+    // One file by extension.
+    let one = dir.path().join("one.pdf");
+    let out = run(&[
+        "fit",
+        &src.to_string_lossy(),
+        "--report",
+        &one.to_string_lossy(),
+    ]);
+    assert_eq!(out.status.code(), Some(0));
+    assert!(lopdf::Document::load(&one).is_ok());
+}
+
+#[test]
+fn demo_reports_in_a_batch_folder() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = run(&[
+        "fit",
+        &demo("acid_pka.csv"),
+        &demo("binding_qx7_halo2.csv"),
+        "--report",
+        &dir.path().to_string_lossy(),
+        "--summary",
+    ]);
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    for stem in ["acid_pka", "binding_qx7_halo2"] {
+        let pdf = lopdf::Document::load(dir.path().join(format!("{stem}.pdf"))).unwrap();
+        assert!(pdf.get_pages().len() >= 2, "{stem}: a real document");
+        let html = std::fs::read_to_string(dir.path().join(format!("{stem}.html"))).unwrap();
+        assert!(html.len() > 20_000);
+    }
+}
+
+#[test]
+fn import_test_files_are_fitted_or_refused_cleanly() {
+    let dir = root().join("tests/data/import");
+    let Ok(entries) = std::fs::read_dir(&dir) else {
+        eprintln!("{} is absent; nothing to check", dir.display());
+        return;
+    };
+    let mut checked = 0;
+    for e in entries.flatten() {
+        let p = e.path();
+        if !p.is_file() {
+            continue;
+        }
+        let path = p.to_string_lossy().into_owned();
+        let out = run(&["fit", &path, "--json", "--summary"]);
+        let code = out.status.code();
+        assert!(code == Some(0) || code == Some(1), "{path}: exit {code:?}");
+        match import_path(&p, &ImportOptions::default()).and_then(|i| i.strict()) {
+            Ok(imp) if code == Some(0) && imp.series.len() == 1 => {
+                let m = imp.series[0].measurements(&[]);
+                let mut o = FitOptions::default();
+                if m.iter().all(|x| x.sigma_ln_k.is_none()) {
+                    o.weighting = Weighting::Unweighted;
+                }
+                if let Ok(lib) = fit(&m, &o) {
+                    let j = json_of(&out);
+                    assert!(close(
+                        j["params"]["delta_h"]["value"].as_f64().unwrap(),
+                        lib.delta_h().value,
+                        1e-12
+                    ));
+                }
+            }
+            Ok(_) => {}
+            Err(_) => {
+                assert_eq!(
+                    code,
+                    Some(1),
+                    "{path}: a file the library refuses must exit 1"
+                );
+                assert!(!out.stderr.is_empty());
+            }
+        }
+        checked += 1;
+    }
+    eprintln!("checked {checked} import test files");
+}
