@@ -32,6 +32,12 @@ fn main() {
             for r in imp.rejected.iter().take(10) {
                 println!("rejected: {r}");
             }
+            // Peak resident memory so far (Linux), for the benchmark script.
+            if let Ok(status) = std::fs::read_to_string("/proc/self/status") {
+                if let Some(l) = status.lines().find(|l| l.starts_with("VmHWM:")) {
+                    println!("peak RSS: {}", l["VmHWM:".len()..].trim());
+                }
+            }
             println!(
                 "sha256 {} ({} bytes), {:.1} ms",
                 imp.source.sha256,

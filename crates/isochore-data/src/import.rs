@@ -694,18 +694,18 @@ fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Pars
     };
     let first_line = reader.line();
     let chunk = match cut {
-        None => ctx.run(data_start, text.len(), first_line)?,
+        None => ctx.run(data_start, text.len(), first_line, false)?,
         Some(cut) => {
             // The second half first counts the lines of the first (to number its own).
             let second_half = || {
                 let lines_before = memchr::memchr_iter(b'\n', &bytes[data_start..cut]).count();
-                ctx.run(cut, text.len(), first_line + lines_before)
+                ctx.run(cut, text.len(), first_line + lines_before, true)
             };
             let (a, b) = std::thread::scope(|sc| {
                 let second = std::thread::Builder::new()
                     .spawn_scoped(sc, second_half)
                     .ok();
-                let a = ctx.run(data_start, cut, first_line);
+                let a = ctx.run(data_start, cut, first_line, false);
                 let b = match second {
                     Some(h) => h.join().unwrap_or_else(|_| second_half()),
                     None => second_half(),
@@ -717,10 +717,12 @@ fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Pars
             a
         }
     };
+    // Only the second half is ever packed, and it has been joined into the first by now.
     let Chunk {
         mut series,
         rejected,
         any_data,
+        packed: _,
     } = chunk;
     // Give back the room reserved for rows that never came (it was never touched, so this
     // moves nothing).
@@ -792,6 +794,29 @@ struct Chunk {
     series: Vec<Series>,
     rejected: Vec<RejectedRow>,
     any_data: bool,
+    /// For a part read with `packed`, the rows of each data set (aligned with `series`,
+    /// whose `rows` are then empty).
+    packed: Vec<PackedRows>,
+}
+
+/// An accepted row in half the room of a [`Row`] (40 bytes instead of 80): the second half
+/// of a large file keeps its rows like this until they are moved into place, so that they
+/// are not written twice at full size. σ is NaN when absent (a present σ is finite, > 0).
+#[derive(Clone, Copy)]
+struct Packed {
+    t_k: f64,
+    ln_k: f64,
+    sigma: f64,
+    line: u32,
+    start: u32,
+    end: u32,
+}
+
+/// The packed rows of one data set, with its notes by index.
+#[derive(Default)]
+struct PackedRows {
+    rows: Vec<Packed>,
+    notes: Vec<(usize, String)>,
 }
 
 impl Chunk {
@@ -799,19 +824,47 @@ impl Chunk {
     fn append(&mut self, later: Chunk) {
         self.any_data |= later.any_data;
         self.rejected.extend(later.rejected);
+        let mut packs = later.packed.into_iter();
         for s in later.series {
-            match self.series.iter_mut().find(|m| m.name == s.name) {
-                Some(m) => {
+            let pack = packs.next().unwrap_or_default();
+            let i = match self.series.iter().position(|m| m.name == s.name) {
+                Some(i) => {
                     // Moved and renumbered in one pass, on all cores: the first touch of
                     // each new page is most of the cost.
+                    let m = &mut self.series[i];
                     let base = m.rows.len();
                     m.rows
                         .par_extend(s.rows.into_par_iter().enumerate().map(|(k, mut r)| {
                             r.row = base + k + 1;
                             r
                         }));
+                    i
                 }
-                None => self.series.push(s),
+                None => {
+                    self.series.push(s);
+                    self.series.len() - 1
+                }
+            };
+            if pack.rows.is_empty() {
+                continue;
+            }
+            let m = &mut self.series[i];
+            let base = m.rows.len();
+            m.rows
+                .par_extend(pack.rows.into_par_iter().enumerate().map(|(k, p)| Row {
+                    line: p.line as usize,
+                    row: base + k + 1,
+                    t_k: p.t_k,
+                    ln_k: p.ln_k,
+                    sigma_ln_k: (!p.sigma.is_nan()).then_some(p.sigma),
+                    note: None,
+                    start: p.start,
+                    end: p.end,
+                }));
+            for (k, note) in pack.notes {
+                if let Some(r) = m.rows.get_mut(base + k) {
+                    r.note = Some(note);
+                }
             }
         }
     }
@@ -819,7 +872,8 @@ impl Chunk {
 
 impl Scan<'_> {
     /// Reads the records in `text[start..end]`; `line` is the physical line before `start`.
-    fn run(&self, start: usize, end: usize, line: usize) -> Result<Chunk, Error> {
+    /// With `packed`, accepted rows are kept in [`Chunk::packed`] (see [`Packed`]).
+    fn run(&self, start: usize, end: usize, line: usize, packed: bool) -> Result<Chunk, Error> {
         let (text, o, mapping) = (self.text, self.o, self.mapping);
         let mut reader = Reader::new(
             &text[..end],
@@ -840,6 +894,8 @@ impl Scan<'_> {
             0
         };
         let mut series: Vec<Series> = Vec::new();
+        let mut packs: Vec<PackedRows> = Vec::new();
+        let (reserve, pack_reserve) = if packed { (0, reserve) } else { (reserve, 0) };
         let mut index: HashMap<String, usize> = HashMap::new();
         let mut last = 0usize;
         let mut rejected = Vec::new();
@@ -931,6 +987,27 @@ impl Scan<'_> {
                         }
                         Some(s.unescaped(text).trim().to_string())
                     });
+                    if packed {
+                        if packs.len() < series.len() {
+                            packs.resize_with(series.len(), || PackedRows {
+                                rows: Vec::with_capacity(pack_reserve),
+                                notes: Vec::new(),
+                            });
+                        }
+                        let p = &mut packs[si];
+                        if let Some(n) = note {
+                            p.notes.push((p.rows.len(), n));
+                        }
+                        p.rows.push(Packed {
+                            t_k: c.t_k,
+                            ln_k: c.ln_k,
+                            sigma: c.sigma_ln_k.unwrap_or(f64::NAN),
+                            line: rec.line as u32,
+                            start: rec.start,
+                            end: rec.end,
+                        });
+                        continue;
+                    }
                     let rows = &mut series[si].rows;
                     let row = rows.len() + 1;
                     rows.push(Row {
@@ -955,10 +1032,14 @@ impl Scan<'_> {
                 }
             }
         }
+        if packed {
+            packs.resize_with(series.len(), PackedRows::default);
+        }
         Ok(Chunk {
             series,
             rejected,
             any_data,
+            packed: packs,
         })
     }
 }

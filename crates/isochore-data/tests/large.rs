@@ -97,3 +97,58 @@ fn parallel_file_read_matches_bytes() {
     );
     assert_eq!(from_file.cells(last)[2], format!("row {}", i - 1));
 }
+
+/// A data set that first appears in the second half, and notes on only some rows: the
+/// second half's rows (kept packed until the halves are joined) come back with the right
+/// line, row number, σ and note.
+#[test]
+fn data_set_only_in_the_second_half() {
+    let n = 200_000usize;
+    let mut text = String::from("set,T (K),K,sd_K,note\n");
+    for i in 0..n {
+        let set = if i >= n * 3 / 4 && i % 2 == 1 {
+            "late"
+        } else {
+            "early"
+        };
+        let note = if i % 7 == 0 {
+            format!("x{i}")
+        } else {
+            String::new()
+        };
+        let sd = if i % 5 == 0 {
+            String::new()
+        } else {
+            "0.5".to_string()
+        };
+        text.push_str(&format!(
+            "{set},{},{},{sd},{note}\n",
+            280 + i % 40,
+            10 + i % 13
+        ));
+    }
+    assert!(text.len() > 2 * isochore_data::import::TWO_THREADS_ABOVE);
+    let imp = import_text("late.csv", &text, &ImportOptions::default()).unwrap();
+    assert!(imp.rejected.is_empty());
+    let names: Vec<&str> = imp.series.iter().map(|s| s.name.as_str()).collect();
+    assert_eq!(names, ["early", "late"]);
+    let mut total = 0;
+    for s in &imp.series {
+        for (k, r) in s.rows.iter().enumerate() {
+            assert_eq!(r.row, k + 1);
+            let i = r.line - 2; // the header is line 1
+            assert_eq!(s.name == "late", i >= n * 3 / 4 && i % 2 == 1);
+            assert_eq!(r.t_k, (280 + i % 40) as f64);
+            assert!((r.ln_k - ((10 + i % 13) as f64).ln()).abs() < 1e-12);
+            // σ(ln K) = σ(K)/K, first-order propagation (GUM).
+            match r.sigma_ln_k {
+                None => assert_eq!(i % 5, 0),
+                Some(v) => assert!((v - 0.5 / (10 + i % 13) as f64).abs() < 1e-15),
+            }
+            let want = (i % 7 == 0).then(|| format!("x{i}"));
+            assert_eq!(r.note, want, "line {}", r.line);
+        }
+        total += s.rows.len();
+    }
+    assert_eq!(total, n);
+}
