@@ -233,7 +233,7 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
     if array_open {
         out.write_all(b"]").map_err(io_fail)?;
     }
-    if a.json {
+    if a.json && (entries > 0 || array_open) {
         out.write_all(b"\n").map_err(io_fail)?;
     }
     if !summary_rows.is_empty() {

@@ -237,12 +237,27 @@ fn temperature_keys(x0: f64, x1: f64, unit: TemperatureUnit) -> (Vec<f64>, usize
 
 type Area<'a> = DrawingArea<SVGBackend<'a>, plotters::coord::Shift>;
 
-fn legend_position(rising: bool) -> SeriesLabelPosition {
-    if rising {
-        SeriesLabelPosition::LowerRight
-    } else {
-        SeriesLabelPosition::UpperRight
+/// The plot corner with the fewest points (positions normalised to the axes), for the legend.
+fn emptiest_corner(points: &[(f64, f64)], x: (f64, f64), y: (f64, f64)) -> SeriesLabelPosition {
+    let norm = |p: &(f64, f64)| ((p.0 - x.0) / (x.1 - x.0), (p.1 - y.0) / (y.1 - y.0));
+    let corners = [
+        (SeriesLabelPosition::UpperRight, 0.55, 1.0, 0.62, 1.0),
+        (SeriesLabelPosition::UpperLeft, 0.0, 0.45, 0.62, 1.0),
+        (SeriesLabelPosition::LowerRight, 0.55, 1.0, 0.0, 0.38),
+        (SeriesLabelPosition::LowerLeft, 0.0, 0.45, 0.0, 0.38),
+    ];
+    let mut best = (usize::MAX, SeriesLabelPosition::UpperRight);
+    for (pos, xa, xb, ya, yb) in corners {
+        let n = points
+            .iter()
+            .map(norm)
+            .filter(|(u, v)| *u >= xa && *u <= xb && *v >= ya && *v <= yb)
+            .count();
+        if n < best.0 {
+            best = (n, pos);
+        }
     }
+    best.1
 }
 
 fn no_data(root: &Area, what: &str) -> Result<(), ReportError> {
@@ -287,7 +302,7 @@ fn vant_hoff(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
         .margin_right(24)
         .set_label_area_size(LabelAreaPosition::Left, 72)
         .set_label_area_size(LabelAreaPosition::Bottom, 58)
-        .set_label_area_size(LabelAreaPosition::Top, 58)
+        .margin_top(70)
         .build_cartesian_2d(x0..x1, y0..y1)
         .map_err(fe)?;
     let xd = tick_decimals(x1 - x0);
@@ -301,7 +316,7 @@ fn vant_hoff(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
         .label_style((FONT, TICK_SIZE))
         .axis_desc_style((FONT, DESC_SIZE))
         .bold_line_style(RGBColor(200, 200, 200).stroke_width(1))
-        .light_line_style(RGBColor(238, 238, 238).stroke_width(1))
+        .light_line_style(TRANSPARENT)
         .draw()
         .map_err(fe)?;
     // Top axis: round temperatures in the user's unit, placed on the 1000/T scale.
@@ -393,13 +408,20 @@ fn vant_hoff(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
         |p| (1000.0 / p.t_k, p.ln_k),
         |p| p.sigma_ln_k,
     )?;
-    let rising = bands
-        .first()
-        .zip(bands.last())
-        .is_some_and(|(a, b)| b.ln_k > a.ln_k);
+    let mut occupied: Vec<(f64, f64)> = fit
+        .points
+        .iter()
+        .map(|p| (1000.0 / p.t_k, p.ln_k))
+        .collect();
+    occupied.extend(
+        bands
+            .iter()
+            .step_by(8)
+            .flat_map(|b| [(x_of(b), b.pi_low), (x_of(b), b.pi_high), (x_of(b), b.ln_k)]),
+    );
     chart
         .configure_series_labels()
-        .position(legend_position(rising))
+        .position(emptiest_corner(&occupied, (x0, x1), (y0, y1)))
         .margin(12)
         .label_font((FONT, NOTE_SIZE))
         .background_style(WHITE.mix(0.9))
@@ -524,7 +546,7 @@ fn residuals(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
         .label_style((FONT, TICK_SIZE))
         .axis_desc_style((FONT, DESC_SIZE))
         .bold_line_style(RGBColor(200, 200, 200).stroke_width(1))
-        .light_line_style(RGBColor(238, 238, 238).stroke_width(1))
+        .light_line_style(TRANSPARENT)
         .draw()
         .map_err(fe)?;
     chart
@@ -539,9 +561,14 @@ fn residuals(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
         |p| (tu.from_kelvin(p.t_k), p.residual),
         |p| p.sigma_ln_k,
     )?;
+    let occupied: Vec<(f64, f64)> = fit
+        .points
+        .iter()
+        .map(|p| (tu.from_kelvin(p.t_k), p.residual))
+        .collect();
     chart
         .configure_series_labels()
-        .position(SeriesLabelPosition::UpperRight)
+        .position(emptiest_corner(&occupied, (x0, x1), (y0, y1)))
         .margin(12)
         .label_font((FONT, NOTE_SIZE))
         .background_style(WHITE.mix(0.9))
@@ -595,7 +622,7 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
         .label_style((FONT, TICK_SIZE))
         .axis_desc_style((FONT, DESC_SIZE))
         .bold_line_style(RGBColor(200, 200, 200).stroke_width(1))
-        .light_line_style(RGBColor(238, 238, 238).stroke_width(1))
+        .light_line_style(TRANSPARENT)
         .draw()
         .map_err(fe)?;
     // Reference lines: residual ±threshold, leverage threshold.
@@ -650,7 +677,7 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
                         EmptyElement::at((h, r))
                             + Text::new(
                                 text,
-                                (-64, if sign > 0.0 { -20 } else { 6 }),
+                                (-70, if sign > 0.0 { -24 } else { 10 }),
                                 (FONT, NOTE_SIZE).into_font().color(&GREEN),
                             ),
                     ))
@@ -689,9 +716,10 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
             }))
             .map_err(fe)?;
     }
+    let occupied: Vec<(f64, f64)> = used.iter().map(|u| (u.1, u.2)).collect();
     chart
         .configure_series_labels()
-        .position(SeriesLabelPosition::LowerLeft)
+        .position(emptiest_corner(&occupied, (0.0, x1), (-ylim, ylim)))
         .margin(12)
         .label_font((FONT, NOTE_SIZE))
         .background_style(WHITE.mix(0.9))
@@ -735,7 +763,7 @@ fn ellipse(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
         .label_style((FONT, TICK_SIZE))
         .axis_desc_style((FONT, DESC_SIZE))
         .bold_line_style(RGBColor(200, 200, 200).stroke_width(1))
-        .light_line_style(RGBColor(238, 238, 238).stroke_width(1))
+        .light_line_style(TRANSPARENT)
         .draw()
         .map_err(fe)?;
     let level = num(fit.options.level * 100.0, 1)

@@ -23,6 +23,8 @@ const MARGIN_BOTTOM: f32 = 64.0;
 const BODY: f32 = 9.5;
 const SMALL: f32 = 8.0;
 const FIGURE_DPI: f32 = 300.0;
+/// Figure aspect ratio (height / width), for keeping headings with their figures.
+const HEIGHT_OVER_WIDTH: f32 = crate::figures::HEIGHT as f32 / crate::figures::WIDTH as f32;
 
 fn rgb(r: u8, g: u8, b: u8) -> Color {
     Color::Rgb(Rgb::new(
@@ -445,7 +447,15 @@ pub(crate) fn render(input: &ReportInput) -> Result<Vec<u8>, ReportError> {
         y: MARGIN_TOP,
     };
     let ink = rgb(30, 30, 30);
-    for block in build(input) {
+    let next_blocks = build(input);
+    let blocks = build(input);
+    for (i, block) in blocks.into_iter().enumerate() {
+        // Keep a heading on the same page as a figure that follows it.
+        if matches!(block, Block::Heading(_)) {
+            if let Some(Block::Figure(..)) = next_blocks.get(i + 1) {
+                l.ensure(40.0 + l.width() * HEIGHT_OVER_WIDTH + 40.0);
+            }
+        }
         match block {
             Block::Title(t) => {
                 l.paragraph(&t, 18.0, true, 0.0, rgb(0, 50, 95));
