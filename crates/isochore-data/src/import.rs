@@ -988,9 +988,13 @@ impl Scan<'_> {
                         Some(s.unescaped(text).trim().to_string())
                     });
                     if packed {
-                        if packs.len() < series.len() {
-                            packs.resize_with(series.len(), || PackedRows {
-                                rows: Vec::with_capacity(pack_reserve),
+                        while packs.len() < series.len() {
+                            // Room reserved ahead for the first eight data sets only (as
+                            // for full rows), so that many data sets cannot reserve
+                            // address space without bound.
+                            let cap = if packs.len() < 8 { pack_reserve } else { 0 };
+                            packs.push(PackedRows {
+                                rows: Vec::with_capacity(cap),
                                 notes: Vec::new(),
                             });
                         }

@@ -152,3 +152,30 @@ fn data_set_only_in_the_second_half() {
     }
     assert_eq!(total, n);
 }
+
+/// Thousands of data sets, half of them only in the second half of a large file: every one
+/// keeps all its rows, in order, numbered from 1.
+#[test]
+fn many_data_sets_across_the_halves() {
+    let n = 60_000usize;
+    let sets = 2_500usize;
+    let mut text = String::from("series,T (K),ln K\n");
+    for i in 0..n {
+        let s = if i < n / 2 { i % sets } else { sets + i % sets };
+        text.push_str(&format!(
+            "set_{s:05},{},{:.9}\n",
+            280 + (i / sets) % 12,
+            1.0 + i as f64 * 1e-6
+        ));
+    }
+    assert!(text.len() > isochore_data::import::TWO_THREADS_ABOVE);
+    let imp = import_text("many.csv", &text, &ImportOptions::default()).unwrap();
+    assert!(imp.rejected.is_empty());
+    assert_eq!(imp.series.len(), 2 * sets);
+    for (k, s) in imp.series.iter().enumerate() {
+        assert_eq!(s.name, format!("set_{k:05}"));
+        assert_eq!(s.rows.len(), n / 2 / sets);
+        assert!(s.rows.windows(2).all(|w| w[0].line < w[1].line));
+        assert!(s.rows.iter().enumerate().all(|(j, r)| r.row == j + 1));
+    }
+}
