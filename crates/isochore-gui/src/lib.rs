@@ -1,1 +1,101 @@
-//! Placeholder: see README.md.
+//! # isochore-gui
+//!
+//! The Isochore workbench window (eframe + egui, drawn with the glow OpenGL renderer, which
+//! runs on Mesa's software rasteriser where there is no GPU). It is a view: it holds the
+//! document and the undo history, shows what isochore-fit computes, reads and writes files
+//! through isochore-data and isochore-report, and computes no statistics itself.
+//!
+//! Entry point: [`run`]. The pieces: [`doc`] (the document), [`command`] (every edit, with
+//! undo), [`fitting`] (fits in and off the UI thread), [`decimate`] (drawing a million
+//! points), [`io`] (files), [`panels`] (one struct per panel) and [`app`] (the frame loop).
+
+#![deny(missing_docs)]
+
+pub mod app;
+pub mod command;
+pub mod decimate;
+pub mod doc;
+pub mod fitting;
+pub mod io;
+pub mod panels;
+
+pub use app::{Action, Prefs, Workbench};
+
+use std::path::PathBuf;
+use std::time::Instant;
+
+/// The eframe wrapper: the workbench plus a clock and persistence.
+struct WindowApp {
+    bench: Workbench,
+    start: Instant,
+}
+
+impl eframe::App for WindowApp {
+    fn update(&mut self, ctx: &egui::Context, _frame: &mut eframe::Frame) {
+        if ctx.input(|i| i.viewport().close_requested()) && !self.bench.may_close {
+            if self.bench.history.dirty() {
+                ctx.send_viewport_cmd(egui::ViewportCommand::CancelClose);
+                self.bench.asking_to_close = true;
+            } else {
+                self.bench.may_close = true;
+            }
+        }
+        let now = self.start.elapsed().as_secs_f64();
+        self.bench.frame(ctx, now);
+        if std::mem::take(&mut self.bench.close_now) {
+            ctx.send_viewport_cmd(egui::ViewportCommand::Close);
+        }
+    }
+
+    fn save(&mut self, storage: &mut dyn eframe::Storage) {
+        eframe::set_value(storage, app::PREFS_KEY, &self.bench.prefs);
+    }
+
+    fn auto_save_interval(&self) -> std::time::Duration {
+        std::time::Duration::from_secs(30)
+    }
+}
+
+/// Opens the workbench window on `project` (a project file or a data file), or on the
+/// demo project when `None`. Blocks until the window closes.
+///
+/// # Errors
+/// A message when no window can be opened (no display, no OpenGL).
+pub fn run(project: Option<PathBuf>) -> Result<(), String> {
+    let options = eframe::NativeOptions {
+        viewport: egui::ViewportBuilder::default()
+            .with_title("Isochore — van 't Hoff workbench")
+            .with_inner_size([1500.0, 950.0])
+            .with_min_inner_size([900.0, 600.0])
+            .with_drag_and_drop(true),
+        renderer: eframe::Renderer::Glow,
+        persist_window: true,
+        ..Default::default()
+    };
+    eframe::run_native(
+        "isochore",
+        options,
+        Box::new(move |cc| {
+            let prefs: Prefs = cc
+                .storage
+                .and_then(|s| eframe::get_value(s, app::PREFS_KEY))
+                .unwrap_or_default();
+            let mut bench = match &project {
+                Some(p) => {
+                    let mut b = Workbench::new(prefs);
+                    b.open_path(p);
+                    b.apply_pending();
+                    b
+                }
+                None => Workbench::with_demo(prefs),
+            };
+            bench.autosave_dir = eframe::storage_dir("isochore");
+            bench.check_recovery();
+            Ok(Box::new(WindowApp {
+                bench,
+                start: Instant::now(),
+            }))
+        }),
+    )
+    .map_err(|e| format!("The window could not be opened: {e}"))
+}

@@ -1,0 +1,108 @@
+//! Frame time of the workbench with a 10⁶-point series, headless: one egui pass (layout
+//! of every panel, decimation of the plots) plus tessellation into triangles, while the
+//! pointer drags (pans) the van 't Hoff plot. The GPU upload and the driver are not
+//! included. The fit of the million points runs once, before timing, on the worker
+//! thread; its duration is printed.
+//!
+//! Run: `cargo bench -p isochore-gui --bench frames`.
+
+use criterion::{criterion_group, criterion_main, Criterion};
+use isochore_gui::doc::Project;
+use isochore_gui::{Prefs, Workbench};
+use std::time::{Duration, Instant};
+
+/// A million invented points: ln K = 3000/T − 5 with deterministic noise, 5–45 °C, read by
+/// isochore-data from CSV text exactly as a file would be.
+fn big_project(n: usize) -> Project {
+    let mut state: u64 = 0x2545_f491_4f6c_dd1d;
+    let mut noise = || {
+        // xorshift64*: a fixed, portable pseudo-random stream.
+        state ^= state >> 12;
+        state ^= state << 25;
+        state ^= state >> 27;
+        let x = state.wrapping_mul(0x2545_f491_4f6c_dd1d);
+        (x >> 11) as f64 / (1u64 << 53) as f64 - 0.5
+    };
+    let mut text = String::from("T (°C),ln K,u(ln K)\n");
+    for i in 0..n {
+        let t = 5.0 + 40.0 * i as f64 / n as f64;
+        let ln_k = 3000.0 / (t + 273.15) - 5.0 + 0.05 * noise();
+        text.push_str(&format!("{t:.6},{ln_k:.6},0.03\n"));
+    }
+    let imp = isochore_data::import_text("synthetic.csv", &text, &Default::default())
+        .expect("synthetic data import");
+    Project::from_data(isochore_data::Project::from_import(&imp), None)
+}
+
+fn frames(c: &mut Criterion) {
+    let mut bench = Workbench::new(Prefs::default());
+    bench.block_fits = true;
+    let start = Instant::now();
+    let project = big_project(1_000_000);
+    eprintln!("import of 10⁶ rows: {:.2?}", start.elapsed());
+    bench.replace_project(project, false);
+    bench.apply_pending();
+    eprintln!(
+        "fit of 10⁶ points (worker thread, waited for): {:.2?}",
+        start.elapsed()
+    );
+    let ctx = egui::Context::default();
+    let size = egui::vec2(1600.0, 1000.0);
+    let mut t = 0.0;
+    let mut x = 700.0f32;
+    let mut dir = 1.0f32;
+    let mut run = |ctx: &egui::Context, bench: &mut Workbench, events: Vec<egui::Event>| {
+        t += 1.0 / 60.0;
+        let input = egui::RawInput {
+            screen_rect: Some(egui::Rect::from_min_size(egui::Pos2::ZERO, size)),
+            time: Some(t),
+            events,
+            ..Default::default()
+        };
+        let out = ctx.run(input, |ctx| bench.frame(ctx, t));
+        let prims = ctx.tessellate(out.shapes, out.pixels_per_point);
+        std::hint::black_box(prims);
+    };
+    // Warm up and press the button inside the plot.
+    for _ in 0..5 {
+        run(
+            &ctx,
+            &mut bench,
+            vec![egui::Event::PointerMoved(egui::pos2(x, 250.0))],
+        );
+    }
+    run(
+        &ctx,
+        &mut bench,
+        vec![egui::Event::PointerButton {
+            pos: egui::pos2(x, 250.0),
+            button: egui::PointerButton::Primary,
+            pressed: true,
+            modifiers: egui::Modifiers::NONE,
+        }],
+    );
+    let mut group = c.benchmark_group("workbench");
+    group.sample_size(30);
+    group.measurement_time(Duration::from_secs(15));
+    group.bench_function("frame, 10^6 points, panning", |b| {
+        b.iter(|| {
+            x += 3.0 * dir;
+            if !(500.0..900.0).contains(&x) {
+                dir = -dir;
+            }
+            run(
+                &ctx,
+                &mut bench,
+                vec![egui::Event::PointerMoved(egui::pos2(x, 250.0))],
+            );
+        })
+    });
+    group.finish();
+    eprintln!(
+        "markers drawn in the last frame: {}",
+        bench.plot.drawn_markers
+    );
+}
+
+criterion_group!(benches, frames);
+criterion_main!(benches);

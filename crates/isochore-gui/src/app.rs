@@ -1,0 +1,650 @@
+//! The workbench: owns the document, the undo history, the fits and one struct per panel.
+//! Each frame the panels draw from a read-only view of the document and *propose*
+//! [`Command`]s and [`Action`]s; after the UI pass the app applies them, so a frame never
+//! sees a half-changed document. The clock is passed in, so tests are deterministic.
+
+use crate::command::{Command, History};
+use crate::doc::Project;
+use crate::fitting::Fitter;
+use crate::io;
+use crate::panels::{
+    diagnostics::DiagnosticsPanel, files::FilesPanel, predict::PredictPanel, results::ResultsPanel,
+    settings::SettingsPanel, table::TablePanel, vh_plot::PlotPanel,
+};
+use egui::{Context, Key, KeyboardShortcut, Modifiers};
+use serde::{Deserialize, Serialize};
+use std::path::{Path, PathBuf};
+
+/// Key under which eframe keeps the preferences.
+pub const PREFS_KEY: &str = "isochore-workbench-prefs";
+
+/// How many recent files are remembered.
+pub const MAX_RECENT: usize = 8;
+
+/// What the window remembers between runs (besides egui's own layout memory).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(default)]
+pub struct Prefs {
+    /// Dark theme.
+    pub dark: bool,
+    /// Recently opened or saved files, newest first.
+    pub recent: Vec<PathBuf>,
+    /// Show the measurements table.
+    pub show_table: bool,
+    /// Show the residual and influence plots.
+    pub show_diagnostics: bool,
+    /// Show the results side panel.
+    pub show_results: bool,
+    /// Seconds between autosaves of unsaved changes.
+    pub autosave_secs: f64,
+}
+
+impl Default for Prefs {
+    fn default() -> Self {
+        Prefs {
+            dark: false,
+            recent: Vec::new(),
+            show_table: true,
+            show_diagnostics: true,
+            show_results: true,
+            autosave_secs: 60.0,
+        }
+    }
+}
+
+impl Prefs {
+    /// Puts `path` at the top of the recent list.
+    pub fn remember(&mut self, path: &Path) {
+        self.recent.retain(|p| p != path);
+        self.recent.insert(0, path.to_path_buf());
+        self.recent.truncate(MAX_RECENT);
+    }
+}
+
+/// Hover and selection shared by the table and every plot.
+#[derive(Debug, Clone, Copy, Default, PartialEq)]
+pub struct Links {
+    /// The point under the pointer last frame: (series id, row).
+    pub hovered: Option<(u64, usize)>,
+    /// The point clicked in the table.
+    pub selected: Option<(u64, usize)>,
+    /// Collected during this frame; becomes `hovered` after it.
+    pub next_hover: Option<(u64, usize)>,
+}
+
+/// Something a panel asks the app to do that is not an edit of the document.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Action {
+    /// Make this series the one shown in the table and results.
+    SetActive(u64),
+    /// Undo the last change.
+    Undo,
+    /// Redo.
+    Redo,
+    /// Open a file (project or data), chosen by extension.
+    Open(PathBuf),
+    /// Import data from pasted text.
+    ImportText(String),
+    /// Save the project to its path, or ask for one.
+    Save,
+    /// Save the project to this path.
+    SaveAs(PathBuf),
+    /// Start a new empty project.
+    New,
+    /// Reload the demo project.
+    Demo,
+    /// Restore the autosaved copy.
+    Recover,
+    /// Throw the autosaved copy away.
+    DiscardRecovery,
+    /// Close the window without saving.
+    QuitDiscarding,
+    /// Save, then close.
+    SaveAndQuit,
+}
+
+/// Read-only view of the app handed to panels, plus the outboxes they write to.
+pub struct Cx<'a> {
+    /// The document.
+    pub project: &'a Project,
+    /// Latest fits.
+    pub fitter: &'a Fitter,
+    /// The active series.
+    pub active: Option<u64>,
+    /// Hover and selection.
+    pub links: &'a mut Links,
+    /// Proposed edits.
+    pub out: &'a mut Vec<Command>,
+    /// Proposed actions.
+    pub actions: &'a mut Vec<Action>,
+    /// The app clock, seconds.
+    pub now: f64,
+    /// Dark theme in use.
+    pub dark: bool,
+    /// The wall-clock time as RFC 3339, recorded with exclusions.
+    pub stamp: String,
+}
+
+impl Cx<'_> {
+    /// The active series.
+    pub fn series(&self) -> Option<&crate::doc::Series> {
+        self.active.and_then(|id| self.project.get(id))
+    }
+}
+
+/// Recovery offer after a crash.
+#[derive(Debug, Clone)]
+pub struct Recovery {
+    /// The autosaved file.
+    pub path: PathBuf,
+    /// What it holds.
+    pub project: Project,
+}
+
+/// The whole workbench.
+pub struct Workbench {
+    /// The document.
+    pub project: Project,
+    /// Undo and redo.
+    pub history: History,
+    /// The fits.
+    pub fitter: Fitter,
+    /// Remembered preferences.
+    pub prefs: Prefs,
+    /// The series shown in the table and results.
+    pub active: Option<u64>,
+    /// Hover and selection.
+    pub links: Links,
+    /// Measurements table.
+    pub table: TablePanel,
+    /// Van 't Hoff plot.
+    pub plot: PlotPanel,
+    /// Residual and influence plots.
+    pub diagnostics: DiagnosticsPanel,
+    /// Results.
+    pub results: ResultsPanel,
+    /// Predictions and the two-point calculation.
+    pub predict: PredictPanel,
+    /// Per-series settings.
+    pub settings: SettingsPanel,
+    /// Files: open, import preview, save, export.
+    pub files: FilesPanel,
+    /// Messages for the chemist (errors while opening, saving, exporting).
+    pub messages: Vec<String>,
+    /// Where autosaves of never-saved projects go.
+    pub autosave_dir: Option<PathBuf>,
+    /// Wait for background fits (tests and benchmarks).
+    pub block_fits: bool,
+    /// Use this wall-clock time (seconds since 1970) instead of the system's (tests).
+    pub fixed_unix_time: Option<i64>,
+    /// An autosave found at start-up.
+    pub recovery: Option<Recovery>,
+    /// The close dialog is open.
+    pub asking_to_close: bool,
+    /// Set when the window may close (the eframe wrapper reads it).
+    pub may_close: bool,
+    /// Set when the window should close now (after the close question was answered).
+    pub close_now: bool,
+    pending: Vec<Command>,
+    actions: Vec<Action>,
+    now: f64,
+    last_autosave_time: f64,
+    last_autosave_rev: u64,
+}
+
+impl Workbench {
+    /// An empty workbench with these preferences.
+    pub fn new(prefs: Prefs) -> Self {
+        Workbench {
+            project: Project::default(),
+            history: History::default(),
+            fitter: Fitter::default(),
+            prefs,
+            active: None,
+            links: Links::default(),
+            table: TablePanel::default(),
+            plot: PlotPanel::default(),
+            diagnostics: DiagnosticsPanel::default(),
+            results: ResultsPanel::default(),
+            predict: PredictPanel::default(),
+            settings: SettingsPanel::default(),
+            files: FilesPanel::default(),
+            messages: Vec::new(),
+            autosave_dir: None,
+            block_fits: false,
+            fixed_unix_time: None,
+            recovery: None,
+            asking_to_close: false,
+            may_close: false,
+            close_now: false,
+            pending: Vec::new(),
+            actions: Vec::new(),
+            now: 0.0,
+            last_autosave_time: 0.0,
+            last_autosave_rev: 0,
+        }
+    }
+
+    /// A workbench showing the demo project.
+    pub fn with_demo(prefs: Prefs) -> Self {
+        let mut w = Workbench::new(prefs);
+        w.load_demo();
+        w
+    }
+
+    fn load_demo(&mut self) {
+        match io::demo_project() {
+            Ok(p) => self.replace_project(p, false),
+            Err(e) => self
+                .messages
+                .push(format!("The demo project could not be loaded: {e}")),
+        }
+    }
+
+    /// Replaces the project (undoable when `undoable`, otherwise a fresh history).
+    pub fn replace_project(&mut self, project: Project, undoable: bool) {
+        if undoable {
+            self.history.apply(
+                &mut self.project,
+                Command::ReplaceProject(Box::new(project)),
+            );
+        } else {
+            self.project = project;
+            self.history.clear();
+        }
+        self.active = self.project.series.first().map(|s| s.id);
+        self.links = Links::default();
+    }
+
+    /// Queues an edit (applied after the current frame, or at the next [`Self::apply_pending`]).
+    pub fn push(&mut self, cmd: Command) {
+        self.pending.push(cmd);
+    }
+
+    /// Queues an action.
+    pub fn act(&mut self, action: Action) {
+        self.actions.push(action);
+    }
+
+    /// Applies queued edits and actions, then brings the fits up to date.
+    pub fn apply_pending(&mut self) {
+        for cmd in std::mem::take(&mut self.pending) {
+            self.history.apply(&mut self.project, cmd);
+        }
+        for action in std::mem::take(&mut self.actions) {
+            self.perform(action);
+        }
+        if self.active.is_none_or(|id| self.project.get(id).is_none()) {
+            self.active = self.project.series.first().map(|s| s.id);
+        }
+        self.fitter
+            .update(&self.project.series, self.now, self.block_fits);
+    }
+
+    fn perform(&mut self, action: Action) {
+        match action {
+            Action::SetActive(id) => self.active = Some(id),
+            Action::Undo => {
+                self.history.undo(&mut self.project);
+            }
+            Action::Redo => {
+                self.history.redo(&mut self.project);
+            }
+            Action::Open(path) => self.open_path(&path),
+            Action::ImportText(text) => match io::import_text(&text, "pasted text") {
+                Ok(preview) => self.files.start_preview(preview),
+                Err(e) => self.messages.push(e),
+            },
+            Action::Save => match self.project.path.clone() {
+                Some(p) => self.save_to(&p),
+                None => self.files.ask_save_as(),
+            },
+            Action::SaveAs(p) => self.save_to(&p),
+            Action::New => {
+                self.replace_project(Project::default(), true);
+            }
+            Action::Demo => {
+                if let Ok(p) = io::demo_project() {
+                    self.replace_project(p, true);
+                }
+            }
+            Action::Recover => {
+                if let Some(r) = self.recovery.take() {
+                    let mut p = r.project;
+                    p.path = self.project.path.clone();
+                    self.replace_project(p, true);
+                    let _ = std::fs::remove_file(&r.path);
+                }
+            }
+            Action::DiscardRecovery => {
+                if let Some(r) = self.recovery.take() {
+                    let _ = std::fs::remove_file(&r.path);
+                }
+            }
+            Action::QuitDiscarding => {
+                self.remove_autosave();
+                self.may_close = true;
+                self.close_now = true;
+                self.asking_to_close = false;
+            }
+            Action::SaveAndQuit => {
+                match self.project.path.clone() {
+                    Some(p) => {
+                        self.save_to(&p);
+                        if !self.history.dirty() {
+                            self.may_close = true;
+                            self.close_now = true;
+                        }
+                    }
+                    None => self.files.ask_save_as(),
+                }
+                self.asking_to_close = false;
+            }
+        }
+    }
+
+    /// Opens a project or imports a data file, by extension. Errors go to the message
+    /// list and leave the project untouched.
+    pub fn open_path(&mut self, path: &Path) {
+        if io::is_project_file(path) {
+            match io::read_project(path) {
+                Ok(mut p) => {
+                    p.path = Some(path.to_path_buf());
+                    self.prefs.remember(path);
+                    if self.project.series.is_empty() && !self.history.dirty() {
+                        self.replace_project(p, false);
+                    } else {
+                        self.replace_project(p, true);
+                    }
+                    self.history.mark_saved();
+                    self.check_recovery();
+                }
+                Err(e) => self.messages.push(e),
+            }
+        } else {
+            match io::import_path(path) {
+                Ok(preview) => {
+                    self.prefs.remember(path);
+                    self.files.start_preview(preview);
+                }
+                Err(e) => self.messages.push(e),
+            }
+        }
+    }
+
+    /// Saves atomically to `path`; on success the project is clean and the autosave gone.
+    pub fn save_to(&mut self, path: &Path) {
+        match io::write_project(&self.project, path) {
+            Ok(()) => {
+                self.remove_autosave();
+                self.project.path = Some(path.to_path_buf());
+                self.history.mark_saved();
+                self.prefs.remember(path);
+            }
+            Err(e) => self.messages.push(e),
+        }
+    }
+
+    /// Where the autosave of the current project goes.
+    pub fn autosave_path(&self) -> Option<PathBuf> {
+        match &self.project.path {
+            Some(p) => {
+                let mut name = p.file_name()?.to_os_string();
+                name.push(".autosave");
+                Some(p.with_file_name(name))
+            }
+            None => self
+                .autosave_dir
+                .as_ref()
+                .map(|d| d.join(format!("untitled{}.autosave", io::PROJECT_SUFFIX))),
+        }
+    }
+
+    fn remove_autosave(&mut self) {
+        if let Some(p) = self.autosave_path() {
+            let _ = std::fs::remove_file(p);
+        }
+    }
+
+    /// Looks for an autosave of the current project newer than the project itself, and
+    /// offers it.
+    pub fn check_recovery(&mut self) {
+        let Some(auto) = self.autosave_path() else {
+            return;
+        };
+        let Ok(meta) = std::fs::metadata(&auto) else {
+            return;
+        };
+        let newer = match self
+            .project
+            .path
+            .as_ref()
+            .and_then(|p| std::fs::metadata(p).ok())
+        {
+            Some(pm) => match (meta.modified(), pm.modified()) {
+                (Ok(a), Ok(b)) => a >= b,
+                _ => true,
+            },
+            None => true,
+        };
+        if !newer {
+            return;
+        }
+        match io::read_project(&auto) {
+            Ok(project) => {
+                self.recovery = Some(Recovery {
+                    path: auto,
+                    project,
+                })
+            }
+            Err(e) => self
+                .messages
+                .push(format!("An autosaved copy exists but cannot be read: {e}")),
+        }
+    }
+
+    /// Writes the autosave when there are unsaved changes and the interval has passed.
+    /// Returns whether it wrote.
+    pub fn autosave_tick(&mut self) -> bool {
+        if !self.history.dirty()
+            || self.history.revision == self.last_autosave_rev
+            || self.now - self.last_autosave_time < self.prefs.autosave_secs
+        {
+            return false;
+        }
+        self.last_autosave_time = self.now;
+        let Some(path) = self.autosave_path() else {
+            return false;
+        };
+        match io::write_project(&self.project, &path) {
+            Ok(()) => {
+                self.last_autosave_rev = self.history.revision;
+                true
+            }
+            Err(e) => {
+                self.messages.push(format!("Autosave failed: {e}"));
+                false
+            }
+        }
+    }
+
+    /// The wall-clock time recorded with exclusions (fixed in tests).
+    pub fn stamp(&self) -> String {
+        let secs = self.fixed_unix_time.unwrap_or_else(|| {
+            std::time::SystemTime::now()
+                .duration_since(std::time::UNIX_EPOCH)
+                .map_or(0, |d| d.as_secs() as i64)
+        });
+        crate::command::rfc3339_utc(secs)
+    }
+
+    /// Sets the app clock (seconds); [`Self::frame`] does this every frame.
+    pub fn set_clock(&mut self, now: f64) {
+        self.now = now;
+    }
+
+    /// The app clock in seconds.
+    pub fn now(&self) -> f64 {
+        self.now
+    }
+
+    /// One frame: the whole UI, then the queued edits. `now` is the clock in seconds.
+    pub fn frame(&mut self, ctx: &Context, now: f64) {
+        self.now = now;
+        ctx.set_theme(if self.prefs.dark {
+            egui::Theme::Dark
+        } else {
+            egui::Theme::Light
+        });
+        // Bring fits up to date before drawing (first frame, or after outside changes).
+        self.fitter
+            .update(&self.project.series, self.now, self.block_fits);
+        self.shortcuts(ctx);
+        self.files_input(ctx);
+        self.ui(ctx);
+        self.links.hovered = self.links.next_hover.take();
+        self.apply_pending();
+        self.autosave_tick();
+        if !self.fitter.running(&self.project.series).is_empty() {
+            ctx.request_repaint_after(std::time::Duration::from_millis(100));
+        }
+    }
+
+    fn shortcuts(&mut self, ctx: &Context) {
+        let text_focus = ctx.wants_keyboard_input();
+        let (redo, undo, save_as, save, open) = ctx.input_mut(|i| {
+            let redo = !text_focus
+                && (i.consume_shortcut(&KeyboardShortcut::new(
+                    Modifiers::COMMAND | Modifiers::SHIFT,
+                    Key::Z,
+                )) || i.consume_shortcut(&KeyboardShortcut::new(Modifiers::COMMAND, Key::Y)));
+            let undo = !text_focus
+                && i.consume_shortcut(&KeyboardShortcut::new(Modifiers::COMMAND, Key::Z));
+            let save_as = i.consume_shortcut(&KeyboardShortcut::new(
+                Modifiers::COMMAND | Modifiers::SHIFT,
+                Key::S,
+            ));
+            let save = i.consume_shortcut(&KeyboardShortcut::new(Modifiers::COMMAND, Key::S));
+            let open = i.consume_shortcut(&KeyboardShortcut::new(Modifiers::COMMAND, Key::O));
+            (redo, undo, save_as, save, open)
+        });
+        if redo {
+            self.act(Action::Redo);
+        } else if undo {
+            self.act(Action::Undo);
+        }
+        if save_as {
+            self.files.ask_save_as();
+        } else if save {
+            self.act(Action::Save);
+        }
+        if open {
+            self.files.ask_open();
+        }
+    }
+
+    /// Dropped files and pasted text.
+    fn files_input(&mut self, ctx: &Context) {
+        let text_focus = ctx.wants_keyboard_input();
+        let (dropped, pasted) = ctx.input(|i| {
+            let dropped: Vec<PathBuf> = i
+                .raw
+                .dropped_files
+                .iter()
+                .filter_map(|f| f.path.clone())
+                .collect();
+            let pasted = if text_focus {
+                None
+            } else {
+                i.events.iter().find_map(|e| match e {
+                    egui::Event::Paste(t) => Some(t.clone()),
+                    _ => None,
+                })
+            };
+            (dropped, pasted)
+        });
+        for p in dropped {
+            self.act(Action::Open(p));
+        }
+        if let Some(t) = pasted {
+            self.act(Action::ImportText(t));
+        }
+    }
+
+    fn ui(&mut self, ctx: &Context) {
+        let mut out = Vec::new();
+        let mut actions = Vec::new();
+        let dark = self.prefs.dark;
+        let stamp = self.stamp();
+        let mut cx = Cx {
+            project: &self.project,
+            fitter: &self.fitter,
+            active: self.active,
+            links: &mut self.links,
+            out: &mut out,
+            actions: &mut actions,
+            now: self.now,
+            dark,
+            stamp,
+        };
+        crate::panels::menu::menu_bar(
+            ctx,
+            &mut cx,
+            &mut self.prefs,
+            &self.history,
+            &mut self.files,
+        );
+        crate::panels::status::status_bar(
+            ctx,
+            &mut cx,
+            &self.history,
+            &mut self.messages,
+            &self.recovery,
+        );
+        egui::SidePanel::left("series_and_settings")
+            .resizable(true)
+            .default_width(250.0)
+            .show(ctx, |ui| {
+                egui::ScrollArea::vertical().show(ui, |ui| {
+                    self.settings.ui(ui, &mut cx);
+                });
+            });
+        if self.prefs.show_results {
+            egui::SidePanel::right("results")
+                .resizable(true)
+                .default_width(380.0)
+                .show(ctx, |ui| {
+                    egui::ScrollArea::vertical().show(ui, |ui| {
+                        self.results.ui(ui, &mut cx);
+                        ui.separator();
+                        self.predict.ui(ui, &mut cx);
+                    });
+                });
+        }
+        if self.prefs.show_table {
+            egui::TopBottomPanel::bottom("measurements")
+                .resizable(true)
+                .default_height(260.0)
+                .show(ctx, |ui| {
+                    self.table.ui(ui, &mut cx);
+                });
+        }
+        egui::CentralPanel::default().show(ctx, |ui| {
+            let h = ui.available_height();
+            if self.prefs.show_diagnostics {
+                let top = (h * 0.62).max(150.0);
+                ui.allocate_ui(egui::vec2(ui.available_width(), top), |ui| {
+                    self.plot.ui(ui, &mut cx);
+                });
+                ui.separator();
+                self.diagnostics.ui(ui, &mut cx);
+            } else {
+                self.plot.ui(ui, &mut cx);
+            }
+        });
+        self.files.windows(ctx, &mut cx);
+        crate::panels::status::close_dialog(ctx, &mut cx, &mut self.asking_to_close);
+        self.pending.extend(out);
+        self.actions.extend(actions);
+    }
+}

@@ -1,0 +1,238 @@
+//! Runs isochore-fit for each series and keeps the latest result. Small series are fitted
+//! in the same frame; large ones on a worker thread, with the previous result kept on
+//! screen and a progress note until the new one arrives. The numbers all come from
+//! `isochore_fit`; this module only schedules the calls and orders points for drawing.
+
+use crate::doc::Series;
+use isochore_fit::{BandPoint, Measurement, VantHoffFit};
+use std::collections::HashMap;
+use std::sync::mpsc::{channel, Receiver, TryRecvError};
+use std::sync::Arc;
+
+/// Series with more rows than this are fitted off the UI thread.
+pub const BACKGROUND_ROWS: usize = 20_000;
+
+/// Number of abscissae for the fit line and bands.
+pub const BAND_POINTS: usize = 160;
+
+/// Everything the panels show about one series, computed by isochore-fit.
+#[derive(Debug)]
+pub struct Analysis {
+    /// The series revision this was computed from.
+    pub rev: u64,
+    /// Points on the fitting scale (empty when a row cannot be converted); one per row
+    /// unless replicates are averaged.
+    pub measurements: Vec<Measurement>,
+    /// 0-based rows of each point.
+    pub point_rows: Vec<Vec<usize>>,
+    /// For each 0-based row, its point.
+    pub point_of_row: Vec<Option<usize>>,
+    /// The fit, or the reason there is none, in words.
+    pub fit: Result<VantHoffFit, String>,
+    /// Fit line with confidence and prediction bands.
+    pub band: Vec<BandPoint>,
+    /// The joint (ΔH°, ΔS°) confidence region at the fit's level.
+    pub ellipse: Option<Vec<[f64; 2]>>,
+    /// Row indices sorted by 1/T (for decimated drawing).
+    pub order_by_inv_t: Vec<u32>,
+    /// Row indices sorted by T (large series only; for the residual plot).
+    pub order_by_t: Vec<u32>,
+    /// Row indices of used points sorted by leverage (large series only; influence view).
+    pub order_by_leverage: Vec<u32>,
+    /// Data extent on the van 't Hoff plot: [min 10³/T, max 10³/T, min ln K, max ln K].
+    pub extent: Option<[f64; 4]>,
+    /// Cook's-distance contours for the influence view: (D, upper branch points (h, r)).
+    pub cooks_contours: Vec<(f64, Vec<[f64; 2]>)>,
+}
+
+/// Fits one series (pure: the same series gives the same analysis).
+pub fn analyse(series: &Series) -> Analysis {
+    let rev = series.rev;
+    let points = match series.points() {
+        Ok(p) => p,
+        Err(e) => {
+            return Analysis {
+                rev,
+                measurements: Vec::new(),
+                point_rows: Vec::new(),
+                point_of_row: Vec::new(),
+                fit: Err(e),
+                band: Vec::new(),
+                ellipse: None,
+                order_by_inv_t: Vec::new(),
+                order_by_t: Vec::new(),
+                order_by_leverage: Vec::new(),
+                extent: None,
+                cooks_contours: Vec::new(),
+            }
+        }
+    };
+    let measurements = points.measurements;
+    let fit = isochore_fit::fit(&measurements, series.options()).map_err(|e| e.to_string());
+    let (band, ellipse, contours) = match &fit {
+        Ok(f) => {
+            let band = f.band_grid(BAND_POINTS, 0.08);
+            let ellipse = f.ellipse(f.options.level, 120).ok();
+            let p = f.model().n_params();
+            let contours = [0.5, 1.0]
+                .iter()
+                .map(|&d| {
+                    (
+                        d,
+                        isochore_fit::influence::cooks_contour(d, p, 0.01, 0.99, 80),
+                    )
+                })
+                .collect();
+            (band, ellipse, contours)
+        }
+        Err(_) => (Vec::new(), None, Vec::new()),
+    };
+    let mut order: Vec<u32> = (0..measurements.len() as u32).collect();
+    order.sort_by(|&a, &b| {
+        let xa = 1.0 / measurements[a as usize].t_k;
+        let xb = 1.0 / measurements[b as usize].t_k;
+        xa.total_cmp(&xb)
+    });
+    let (order_by_t, order_by_leverage) = match &fit {
+        Ok(f) if measurements.len() > crate::panels::vh_plot::DECIMATE_ABOVE => {
+            let by_t: Vec<u32> = order.iter().rev().copied().collect();
+            let mut by_h: Vec<u32> = f
+                .points
+                .iter()
+                .filter(|d| d.student_int.is_some())
+                .map(|d| d.index as u32)
+                .collect();
+            by_h.sort_by(|&a, &b| {
+                f.points[a as usize]
+                    .leverage
+                    .total_cmp(&f.points[b as usize].leverage)
+            });
+            (by_t, by_h)
+        }
+        _ => (Vec::new(), Vec::new()),
+    };
+    let extent = measurements.iter().fold(None, |acc: Option<[f64; 4]>, m| {
+        let x = 1e3 / m.t_k;
+        Some(match acc {
+            None => [x, x, m.ln_k, m.ln_k],
+            Some([a, b, c, d]) => [a.min(x), b.max(x), c.min(m.ln_k), d.max(m.ln_k)],
+        })
+    });
+    Analysis {
+        rev,
+        extent,
+        measurements,
+        point_rows: points.rows,
+        point_of_row: points.point_of_row,
+        fit,
+        band,
+        ellipse,
+        order_by_inv_t: order,
+        order_by_t,
+        order_by_leverage,
+        cooks_contours: contours,
+    }
+}
+
+#[derive(Default)]
+struct Slot {
+    current: Option<Arc<Analysis>>,
+    pending: Option<(u64, Receiver<Analysis>, f64)>,
+}
+
+/// The latest analysis of every series, and the fits in flight.
+#[derive(Default)]
+pub struct Fitter {
+    slots: HashMap<u64, Slot>,
+}
+
+/// A fit that is running: which series, how many rows, since when.
+#[derive(Debug, Clone)]
+pub struct Running {
+    /// Series id.
+    pub series: u64,
+    /// Rows being fitted.
+    pub rows: usize,
+    /// Start time in seconds (the app's clock).
+    pub since: f64,
+}
+
+impl Fitter {
+    /// Brings every series up to date: starts fits for changed series and collects
+    /// finished background fits. `now` is the app clock in seconds. When `block` is set,
+    /// background fits are waited for (tests and benchmarks).
+    pub fn update(&mut self, series: &[Series], now: f64, block: bool) {
+        self.slots
+            .retain(|id, _| series.iter().any(|s| s.id == *id));
+        for s in series {
+            let slot = self.slots.entry(s.id).or_default();
+            if let Some((_, rx, _)) = &slot.pending {
+                let got = if block {
+                    rx.recv().map_err(|_| TryRecvError::Disconnected)
+                } else {
+                    rx.try_recv()
+                };
+                match got {
+                    Ok(a) => {
+                        slot.current = Some(Arc::new(a));
+                        slot.pending = None;
+                    }
+                    Err(TryRecvError::Empty) => {}
+                    // The worker died: forget it, and the fit is started again below.
+                    Err(TryRecvError::Disconnected) => slot.pending = None,
+                }
+            }
+            let up_to_date = slot.current.as_ref().is_some_and(|a| a.rev == s.rev);
+            let in_flight = slot.pending.as_ref().is_some_and(|p| p.0 == s.rev);
+            if up_to_date || in_flight {
+                continue;
+            }
+            if s.n_rows() <= BACKGROUND_ROWS {
+                slot.current = Some(Arc::new(analyse(s)));
+                slot.pending = None;
+            } else {
+                let (tx, rx) = channel();
+                let copy = s.clone();
+                let spawned = std::thread::Builder::new()
+                    .name("isochore-fit".into())
+                    .spawn(move || {
+                        let _ = tx.send(analyse(&copy));
+                    });
+                match spawned {
+                    Ok(_) => slot.pending = Some((s.rev, rx, now)),
+                    Err(_) => slot.current = Some(Arc::new(analyse(s))),
+                }
+                if block {
+                    if let Some((_, rx, _)) = &slot.pending {
+                        if let Ok(a) = rx.recv() {
+                            slot.current = Some(Arc::new(a));
+                        }
+                    }
+                    slot.pending = None;
+                }
+            }
+        }
+    }
+
+    /// The latest analysis of a series (possibly of an older revision while a fit runs).
+    pub fn get(&self, id: u64) -> Option<Arc<Analysis>> {
+        self.slots.get(&id).and_then(|s| s.current.clone())
+    }
+
+    /// Fits in flight.
+    pub fn running(&self, series: &[Series]) -> Vec<Running> {
+        self.slots
+            .iter()
+            .filter_map(|(id, slot)| {
+                slot.pending.as_ref().map(|(_, _, since)| Running {
+                    series: *id,
+                    rows: series
+                        .iter()
+                        .find(|s| s.id == *id)
+                        .map_or(0, |s| s.n_rows()),
+                    since: *since,
+                })
+            })
+            .collect()
+    }
+}

@@ -1,0 +1,239 @@
+//! Two small plots under the van 't Hoff plot, linked to it and to the table: residuals
+//! (ln K − fit) against temperature, and the influence view — leverage against the
+//! internally studentized residual, with contours of Cook's distance from isochore-fit.
+//! Hovering a point here highlights it everywhere.
+
+use crate::app::Cx;
+use crate::decimate::envelope;
+use crate::panels::style;
+use egui::RichText;
+use egui_plot::{HLine, Legend, Line, LineStyle, Plot, PlotPoint, Points, VLine};
+
+/// The diagnostic plots' state (none beyond egui's own plot memory).
+#[derive(Debug, Default)]
+pub struct DiagnosticsPanel;
+
+impl DiagnosticsPanel {
+    /// Draws both plots side by side.
+    pub fn ui(&mut self, ui: &mut egui::Ui, cx: &mut Cx<'_>) {
+        let Some(s) = cx.series() else {
+            return;
+        };
+        let Some(a) = cx.fitter.get(s.id) else {
+            return;
+        };
+        let Ok(fit) = a.fit.as_ref() else {
+            return;
+        };
+        let idx = cx.project.index_of(s.id).unwrap_or(0);
+        let color = style::series_color(idx);
+        let shape = style::series_shape(idx);
+        let dark = cx.dark;
+        let flag = style::flag_color(dark);
+        let hl = style::highlight_color(dark);
+        let tu = s.data.settings.temperature_unit;
+        let px = (ui.available_width() / 2.0).max(100.0) as usize;
+        // Large series: the min/max envelope per pixel column along each plot's x axis.
+        let (resid_rows, infl_rows): (Vec<usize>, Vec<usize>) = if a.order_by_t.is_empty() {
+            (
+                (0..fit.points.len()).collect(),
+                (0..fit.points.len()).collect(),
+            )
+        } else {
+            let pts = &fit.points;
+            let span = |order: &[u32], f: &dyn Fn(usize) -> f64| {
+                let first = order.first().map_or(0.0, |&i| f(i as usize));
+                let last = order.last().map_or(1.0, |&i| f(i as usize));
+                (first, last)
+            };
+            let xt = |i: usize| pts[i].t_k;
+            let (lo, hi) = span(&a.order_by_t, &xt);
+            let r = envelope(&xt, &|i| pts[i].residual, &a.order_by_t, lo, hi, px);
+            let xh = |i: usize| pts[i].leverage;
+            let (lo, hi) = span(&a.order_by_leverage, &xh);
+            let q = envelope(
+                &xh,
+                &|i| pts[i].student_int.unwrap_or(f64::NAN),
+                &a.order_by_leverage,
+                lo,
+                hi * (1.0 + 1e-12),
+                px,
+            );
+            (
+                r.into_iter().map(|i| i as usize).collect(),
+                q.into_iter().map(|i| i as usize).collect(),
+            )
+        };
+        let highlight: Vec<usize> = [cx.links.hovered, cx.links.selected]
+            .into_iter()
+            .flatten()
+            .filter(|(sid, _)| *sid == s.id)
+            .filter_map(|(_, r)| a.point_of_row.get(r).copied().flatten())
+            .collect();
+        let h = ui.available_height().max(120.0);
+        let w = ui.available_width();
+        let mut hovered: Option<usize> = None;
+        ui.horizontal(|ui| {
+            let half = (w / 2.0 - 8.0).max(150.0);
+            // Residuals against T.
+            ui.vertical(|ui| {
+                ui.set_width(half);
+                ui.label(RichText::new("Residuals against temperature").strong());
+                let mut used = Vec::new();
+                let mut excl = Vec::new();
+                let mut flagged = Vec::new();
+                let mut marks = Vec::new();
+                for d in resid_rows.iter().filter_map(|&i| fit.points.get(i)) {
+                    let p = [tu.from_kelvin(d.t_k), d.residual];
+                    if d.used {
+                        used.push(p);
+                    } else {
+                        excl.push(p);
+                    }
+                    if d.flags.any() {
+                        flagged.push(p);
+                    }
+                    marks.push((d.index, p));
+                }
+                let hl_pts: Vec<[f64; 2]> = marks
+                    .iter()
+                    .filter(|(i, _)| highlight.contains(i))
+                    .map(|(_, p)| *p)
+                    .collect();
+                let resp = Plot::new("residual_plot")
+                    .height(h - 24.0)
+                    .x_axis_label(format!("T / {}", tu.symbol()))
+                    .y_axis_label("ln K − fit")
+                    .show_x(false)
+                    .show_y(false)
+                    .show(ui, |pu| {
+                        pu.hline(HLine::new("", 0.0).color(color).width(1.0));
+                        pu.points(Points::new("used", used).shape(shape).color(color).radius(3.5));
+                        pu.points(
+                            Points::new("excluded", excl)
+                                .shape(shape)
+                                .color(color)
+                                .filled(false)
+                                .radius(4.0),
+                        );
+                        if !flagged.is_empty() {
+                            pu.points(
+                                Points::new("flagged", flagged)
+                                    .color(flag)
+                                    .filled(false)
+                                    .radius(8.0),
+                            );
+                        }
+                        if !hl_pts.is_empty() {
+                            pu.points(Points::new("", hl_pts).color(hl).filled(false).radius(10.0));
+                        }
+                    });
+                if let Some(p) = resp.response.hover_pos() {
+                    hovered = nearest(&marks, &resp.transform, p);
+                }
+            });
+            // Influence: leverage against studentized residual.
+            ui.vertical(|ui| {
+                ui.set_width(half);
+                ui.label(RichText::new("Influence: leverage against studentized residual").strong())
+                    .on_hover_text("Dashed curves: Cook's distance 0.5 and 1. Vertical line: the leverage flag threshold.");
+                let mut marks = Vec::new();
+                let mut used = Vec::new();
+                let mut flagged = Vec::new();
+                for d in infl_rows.iter().filter_map(|&i| fit.points.get(i)) {
+                    let Some(r) = d.student_int else {
+                        continue;
+                    };
+                    let p = [d.leverage, r];
+                    used.push(p);
+                    if d.flags.any() {
+                        flagged.push(p);
+                    }
+                    marks.push((d.index, p));
+                }
+                let hl_pts: Vec<[f64; 2]> = marks
+                    .iter()
+                    .filter(|(i, _)| highlight.contains(i))
+                    .map(|(_, p)| *p)
+                    .collect();
+                let p = fit.model().n_params() as f64;
+                let lev_threshold = fit.options.thresholds.leverage_factor * p / fit.n_used.max(1) as f64;
+                let max_h = used.iter().map(|q| q[0]).fold(lev_threshold, f64::max);
+                let resp = Plot::new("influence_plot")
+                    .height(h - 24.0)
+                    .x_axis_label("leverage h")
+                    .y_axis_label("stud. residual")
+                    .legend(Legend::default())
+                    .include_x(0.0)
+                    .include_x((max_h * 1.15).min(1.0))
+                    .include_y(-2.5)
+                    .include_y(2.5)
+                    .show_x(false)
+                    .show_y(false)
+                    .show(ui, |pu| {
+                        let x_max = (max_h * 1.15).min(1.0);
+                        for (d, curve) in &a.cooks_contours {
+                            let upper: Vec<[f64; 2]> =
+                                curve.iter().filter(|q| q[0] <= x_max && q[1] < 6.0).copied().collect();
+                            let lower: Vec<[f64; 2]> = upper.iter().map(|q| [q[0], -q[1]]).collect();
+                            let name = format!("Cook's D = {d}");
+                            pu.line(
+                                Line::new(name.clone(), upper)
+                                    .style(LineStyle::Dashed { length: 6.0 })
+                                    .color(egui::Color32::GRAY)
+                                    .allow_hover(false),
+                            );
+                            pu.line(
+                                Line::new(name, lower)
+                                    .style(LineStyle::Dashed { length: 6.0 })
+                                    .color(egui::Color32::GRAY)
+                                    .allow_hover(false),
+                            );
+                        }
+                        pu.vline(
+                            VLine::new("leverage flag", lev_threshold)
+                                .color(flag.gamma_multiply(0.6))
+                                .style(LineStyle::Dotted { spacing: 4.0 }),
+                        );
+                        pu.points(Points::new("used points", used).shape(shape).color(color).radius(3.5));
+                        if !flagged.is_empty() {
+                            pu.points(Points::new("flagged", flagged).color(flag).filled(false).radius(8.0));
+                        }
+                        if !hl_pts.is_empty() {
+                            pu.points(Points::new("", hl_pts).color(hl).filled(false).radius(10.0));
+                        }
+                    });
+                if let Some(p) = resp.response.hover_pos() {
+                    hovered = hovered.or(nearest(&marks, &resp.transform, p));
+                }
+            });
+        });
+        if let Some(k) = hovered {
+            let row = a
+                .point_rows
+                .get(k)
+                .and_then(|r| r.first().copied())
+                .unwrap_or(k);
+            cx.links.next_hover = Some((s.id, row));
+        }
+    }
+}
+
+fn nearest(
+    marks: &[(usize, [f64; 2])],
+    t: &egui_plot::PlotTransform,
+    p: egui::Pos2,
+) -> Option<usize> {
+    marks
+        .iter()
+        .map(|(i, q)| {
+            (
+                *i,
+                t.position_from_point(&PlotPoint::new(q[0], q[1]))
+                    .distance(p),
+            )
+        })
+        .filter(|(_, d)| *d <= crate::panels::vh_plot::PICK_RADIUS)
+        .min_by(|a, b| a.1.total_cmp(&b.1))
+        .map(|(i, _)| i)
+}

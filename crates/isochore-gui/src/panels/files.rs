@@ -1,0 +1,367 @@
+//! File dialogs of the workbench: open (a system dialog when the desktop has one, and
+//! always a typed path), save as, export, and the import preview that shows which column
+//! was recognised as what and lets the chemist change it before anything enters the
+//! project.
+
+use crate::app::{Action, Cx};
+use crate::command::Command;
+use crate::io::{self, ImportPreview};
+use crate::panels::style;
+use egui::RichText;
+use std::path::PathBuf;
+
+/// Which path dialog is open.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum PathDialog {
+    /// Open a project or data file.
+    Open,
+    /// Save the project under a new name.
+    SaveAs,
+    /// Export report and figures into a folder.
+    Export,
+}
+
+/// The files panel's state.
+#[derive(Debug, Default)]
+pub struct FilesPanel {
+    /// The open path dialog.
+    pub dialog: Option<PathDialog>,
+    /// The typed path.
+    pub path_text: String,
+    /// The preview awaiting confirmation.
+    pub preview: Option<ImportPreview>,
+    /// An error inside a dialog.
+    pub error: Option<String>,
+    /// The last export's result, in words.
+    pub export_note: Option<String>,
+}
+
+impl FilesPanel {
+    /// Opens the "open" dialog.
+    pub fn ask_open(&mut self) {
+        self.dialog = Some(PathDialog::Open);
+        self.error = None;
+    }
+
+    /// Opens the "save as" dialog.
+    pub fn ask_save_as(&mut self) {
+        self.dialog = Some(PathDialog::SaveAs);
+        self.error = None;
+    }
+
+    /// Opens the export dialog.
+    pub fn ask_export(&mut self) {
+        self.dialog = Some(PathDialog::Export);
+        self.error = None;
+    }
+
+    /// Shows a preview for confirmation.
+    pub fn start_preview(&mut self, preview: ImportPreview) {
+        self.preview = Some(preview);
+    }
+
+    /// Draws whichever dialog is open.
+    pub fn windows(&mut self, ctx: &egui::Context, cx: &mut Cx<'_>) {
+        self.path_window(ctx, cx);
+        self.preview_window(ctx, cx);
+    }
+
+    fn path_window(&mut self, ctx: &egui::Context, cx: &mut Cx<'_>) {
+        let Some(kind) = self.dialog else {
+            return;
+        };
+        let title = match kind {
+            PathDialog::Open => "Open a data file or project",
+            PathDialog::SaveAs => "Save project as",
+            PathDialog::Export => "Export report and figures",
+        };
+        let mut open = true;
+        let mut go: Option<PathBuf> = None;
+        egui::Window::new(title)
+            .open(&mut open)
+            .collapsible(false)
+            .default_width(520.0)
+            .anchor(egui::Align2::CENTER_CENTER, [0.0, 0.0])
+            .show(ctx, |ui| {
+                let hint = match kind {
+                    PathDialog::Open => "CSV or TSV data, or an .isochore.json project",
+                    PathDialog::SaveAs => "a file name ending in .isochore.json",
+                    PathDialog::Export => "a folder; the report and figures are written into it",
+                };
+                ui.label(hint);
+                ui.horizontal(|ui| {
+                    let r = ui.add(
+                        egui::TextEdit::singleline(&mut self.path_text)
+                            .hint_text("/path/to/file")
+                            .desired_width(360.0),
+                    );
+                    r.widget_info(|| egui::WidgetInfo::labeled(egui::WidgetType::TextEdit, true, "path"));
+                    if r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter)) {
+                        go = Some(PathBuf::from(self.path_text.trim()));
+                    }
+                    if ui.button("Browse…").clicked() {
+                        if let Some(p) = system_dialog(kind) {
+                            self.path_text = p.display().to_string();
+                        } else {
+                            self.error = Some("No file dialog is available on this desktop: type the path instead.".into());
+                        }
+                    }
+                });
+                let verb = match kind {
+                    PathDialog::Open => "Open",
+                    PathDialog::SaveAs => "Save",
+                    PathDialog::Export => "Export",
+                };
+                if ui.button(verb).clicked() && !self.path_text.trim().is_empty() {
+                    go = Some(PathBuf::from(self.path_text.trim()));
+                }
+                if let Some(e) = &self.error {
+                    ui.colored_label(style::flag_color(cx.dark), e);
+                }
+                if let Some(n) = &self.export_note {
+                    ui.label(n);
+                }
+            });
+        if let Some(p) = go {
+            let mut p = p;
+            match kind {
+                PathDialog::Open => {
+                    cx.actions.push(Action::Open(p));
+                    self.dialog = None;
+                }
+                PathDialog::SaveAs => {
+                    p = io::with_project_suffix(p);
+                    cx.actions.push(Action::SaveAs(p));
+                    self.dialog = None;
+                }
+                PathDialog::Export => match io::export(cx.project, cx.fitter, &p) {
+                    Ok(note) => {
+                        self.export_note = Some(note);
+                        self.error = None;
+                    }
+                    Err(e) => self.error = Some(e),
+                },
+            }
+        }
+        if !open {
+            self.dialog = None;
+        }
+    }
+
+    fn preview_window(&mut self, ctx: &egui::Context, cx: &mut Cx<'_>) {
+        let Some(p) = self.preview.as_mut() else {
+            return;
+        };
+        let mut accept = false;
+        let mut cancel = false;
+        let mut reimport = false;
+        let dark = cx.dark;
+        let flag = style::flag_color(dark);
+        let problems = p.problems();
+        egui::Window::new(format!("Import {}", p.source))
+            .collapsible(false)
+            .default_width(680.0)
+            .anchor(egui::Align2::CENTER_CENTER, [0.0, 0.0])
+            .show(ctx, |ui| {
+                ui.label(
+                    RichText::new("Columns as recognised — change any that are wrong:").strong(),
+                );
+                if mapping_editor(ui, p) {
+                    reimport = true;
+                }
+                for d in p.import.describe_mapping() {
+                    ui.label(RichText::new(d).small());
+                }
+                ui.separator();
+                let n_series = p.import.series.len();
+                ui.label(format!(
+                    "{} rows read in {} data set{}; first rows:",
+                    p.accepted_rows(),
+                    n_series,
+                    if n_series == 1 { "" } else { "s" }
+                ));
+                egui::ScrollArea::both()
+                    .id_salt("preview_scroll")
+                    .max_height(220.0)
+                    .show(ui, |ui| {
+                        egui::Grid::new("preview_grid")
+                            .striped(true)
+                            .show(ui, |ui| {
+                                ui.strong("line");
+                                for h in &p.import.headers {
+                                    ui.strong(h);
+                                }
+                                ui.end_row();
+                                let rows =
+                                    p.import.series.iter().flat_map(|s| s.rows.iter()).take(8);
+                                for r in rows {
+                                    ui.label(r.line.to_string());
+                                    for c in p.import.cells(r) {
+                                        ui.label(c);
+                                    }
+                                    ui.end_row();
+                                }
+                            });
+                    });
+                if !problems.is_empty() {
+                    ui.label(
+                        RichText::new(format!("{} row(s) could not be read:", problems.len()))
+                            .color(flag)
+                            .strong(),
+                    );
+                    for e in problems.iter().take(12) {
+                        ui.colored_label(flag, e);
+                    }
+                }
+                if let Some(e) = &self.error {
+                    ui.colored_label(flag, e);
+                }
+                ui.horizontal(|ui| {
+                    let label = if problems.is_empty() {
+                        "Add to project".to_string()
+                    } else {
+                        format!("Add the {} readable rows", p.accepted_rows())
+                    };
+                    if ui.button(label).clicked() {
+                        accept = true;
+                    }
+                    if ui.button("Cancel").clicked() {
+                        cancel = true;
+                    }
+                });
+            });
+        if reimport {
+            match p.reimport() {
+                Ok(()) => self.error = None,
+                Err(e) => self.error = Some(e),
+            }
+        }
+        if accept {
+            let at = cx.project.series.len();
+            let mut first = None;
+            for (k, s) in p.series().into_iter().enumerate() {
+                first.get_or_insert(s.id);
+                cx.out.push(Command::InsertSeries {
+                    at: at + k,
+                    series: Box::new(s),
+                });
+            }
+            if let Some(id) = first {
+                cx.actions.push(Action::SetActive(id));
+            }
+            self.preview = None;
+            self.error = None;
+        } else if cancel {
+            self.preview = None;
+            self.error = None;
+        }
+    }
+}
+
+/// The mapping editor; returns true when the chemist changed something.
+fn mapping_editor(ui: &mut egui::Ui, p: &mut ImportPreview) -> bool {
+    use isochore_data::{UncertaintyColumn, UncertaintyKind};
+    use isochore_fit::{
+        ConcentrationUnit as C, EnergyUnit as E, QuantityKind as Q, TemperatureUnit as T,
+    };
+    let before = p.mapping.clone();
+    let headers = p.import.headers.clone();
+    let col_name = |c: usize| format!("{} · {}", c + 1, headers.get(c).map_or("", |s| s.as_str()));
+    let m = &mut p.mapping;
+    egui::Grid::new("mapping_grid")
+        .num_columns(3)
+        .show(ui, |ui| {
+            ui.label("temperature");
+            egui::ComboBox::from_id_salt("map_t")
+                .selected_text(col_name(m.temperature.column))
+                .show_ui(ui, |ui| {
+                    for c in 0..headers.len() {
+                        ui.selectable_value(&mut m.temperature.column, c, col_name(c));
+                    }
+                });
+            egui::ComboBox::from_id_salt("map_tu")
+                .selected_text(m.temperature.unit.symbol())
+                .show_ui(ui, |ui| {
+                    for u in [T::Celsius, T::Kelvin, T::Fahrenheit] {
+                        ui.selectable_value(&mut m.temperature.unit, u, u.symbol());
+                    }
+                });
+            ui.end_row();
+            ui.label("measured value");
+            egui::ComboBox::from_id_salt("map_v")
+                .selected_text(col_name(m.quantity.column))
+                .show_ui(ui, |ui| {
+                    for c in 0..headers.len() {
+                        ui.selectable_value(&mut m.quantity.column, c, col_name(c));
+                    }
+                });
+            egui::ComboBox::from_id_salt("map_kind")
+                .selected_text(m.quantity.kind.label())
+                .show_ui(ui, |ui| {
+                    for k in [
+                        Q::K,
+                        Q::LnK,
+                        Q::Log10K,
+                        Q::PK,
+                        Q::DissociationConstant(C::Molar),
+                        Q::DissociationConstant(C::Millimolar),
+                        Q::DissociationConstant(C::Micromolar),
+                        Q::DissociationConstant(C::Nanomolar),
+                        Q::DissociationConstant(C::Picomolar),
+                        Q::DeltaG(E::KilojoulePerMole),
+                        Q::DeltaG(E::KilocaloriePerMole),
+                    ] {
+                        ui.selectable_value(&mut m.quantity.kind, k, k.label());
+                    }
+                });
+            ui.end_row();
+            ui.label("uncertainty");
+            let mut col = m.uncertainty.map(|u| u.column);
+            egui::ComboBox::from_id_salt("map_s")
+                .selected_text(col.map_or("none".into(), col_name))
+                .show_ui(ui, |ui| {
+                    ui.selectable_value(&mut col, None, "none");
+                    for c in 0..headers.len() {
+                        ui.selectable_value(&mut col, Some(c), col_name(c));
+                    }
+                });
+            let mut relative = matches!(
+                m.uncertainty.map(|u| u.kind),
+                Some(UncertaintyKind::RelativePercent)
+            );
+            ui.checkbox(&mut relative, "in % of the value");
+            m.uncertainty = col.map(|column| UncertaintyColumn {
+                column,
+                kind: if relative {
+                    UncertaintyKind::RelativePercent
+                } else {
+                    match m.uncertainty.map(|u| u.kind) {
+                        Some(UncertaintyKind::Absolute(k))
+                            if std::mem::discriminant(&k)
+                                == std::mem::discriminant(&m.quantity.kind) =>
+                        {
+                            UncertaintyKind::Absolute(k)
+                        }
+                        _ => UncertaintyKind::Absolute(m.quantity.kind),
+                    }
+                },
+            });
+            ui.end_row();
+        });
+    if m.temperature != before.temperature {
+        m.temperature.assumed = false;
+    }
+    *m != before
+}
+
+/// The desktop's file dialog, when it has one (xdg portal); `None` otherwise.
+fn system_dialog(kind: PathDialog) -> Option<PathBuf> {
+    let d = rfd::FileDialog::new();
+    match kind {
+        PathDialog::Open => d
+            .add_filter("data or project", &["csv", "tsv", "txt", "json"])
+            .pick_file(),
+        PathDialog::SaveAs => d.add_filter("project", &["json"]).save_file(),
+        PathDialog::Export => d.pick_folder(),
+    }
+}

@@ -1,0 +1,105 @@
+//! The menu bar: File, Edit, View. Items only queue actions; the app carries them out.
+
+use crate::app::{Action, Cx, Prefs};
+use crate::command::History;
+use crate::panels::files::FilesPanel;
+use egui::Context;
+
+/// Draws the menu bar.
+pub fn menu_bar(
+    ctx: &Context,
+    cx: &mut Cx<'_>,
+    prefs: &mut Prefs,
+    history: &History,
+    files: &mut FilesPanel,
+) {
+    egui::TopBottomPanel::top("menu").show(ctx, |ui| {
+        egui::MenuBar::new().ui(ui, |ui| {
+            ui.menu_button("File", |ui| {
+                if ui.button("New project").clicked() {
+                    cx.actions.push(Action::New);
+                    ui.close();
+                }
+                if ui
+                    .add(egui::Button::new("Open…").shortcut_text("Ctrl+O"))
+                    .clicked()
+                {
+                    files.ask_open();
+                    ui.close();
+                }
+                ui.menu_button("Open recent", |ui| {
+                    if prefs.recent.is_empty() {
+                        ui.label("(none yet)");
+                    }
+                    for p in prefs.recent.clone() {
+                        if ui.button(p.display().to_string()).clicked() {
+                            cx.actions.push(Action::Open(p));
+                            ui.close();
+                        }
+                    }
+                });
+                if ui.button("Demo project").clicked() {
+                    cx.actions.push(Action::Demo);
+                    ui.close();
+                }
+                ui.separator();
+                if ui
+                    .add(egui::Button::new("Save").shortcut_text("Ctrl+S"))
+                    .clicked()
+                {
+                    cx.actions.push(Action::Save);
+                    ui.close();
+                }
+                if ui
+                    .add(egui::Button::new("Save as…").shortcut_text("Ctrl+Shift+S"))
+                    .clicked()
+                {
+                    files.ask_save_as();
+                    ui.close();
+                }
+                ui.separator();
+                if ui.button("Export report and figures…").clicked() {
+                    files.ask_export();
+                    ui.close();
+                }
+            });
+            ui.menu_button("Edit", |ui| {
+                let undo = match history.undo_label() {
+                    Some(l) => format!("Undo {l}"),
+                    None => "Undo".into(),
+                };
+                if ui
+                    .add_enabled(
+                        history.undo_label().is_some(),
+                        egui::Button::new(undo).shortcut_text("Ctrl+Z"),
+                    )
+                    .clicked()
+                {
+                    cx.actions.push(Action::Undo);
+                    ui.close();
+                }
+                let redo = match history.redo_label() {
+                    Some(l) => format!("Redo {l}"),
+                    None => "Redo".into(),
+                };
+                if ui
+                    .add_enabled(
+                        history.redo_label().is_some(),
+                        egui::Button::new(redo).shortcut_text("Ctrl+Shift+Z"),
+                    )
+                    .clicked()
+                {
+                    cx.actions.push(Action::Redo);
+                    ui.close();
+                }
+            });
+            ui.menu_button("View", |ui| {
+                ui.checkbox(&mut prefs.show_table, "Measurements table");
+                ui.checkbox(&mut prefs.show_diagnostics, "Residual and influence plots");
+                ui.checkbox(&mut prefs.show_results, "Results and predictions");
+                ui.separator();
+                ui.checkbox(&mut prefs.dark, "Dark theme");
+            });
+        });
+    });
+}

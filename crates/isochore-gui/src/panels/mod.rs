@@ -1,0 +1,13 @@
+//! One module per panel of the window. Panels read the document through
+//! [`crate::app::Cx`] and propose commands; none of them changes the document directly.
+
+pub mod diagnostics;
+pub mod files;
+pub mod menu;
+pub mod predict;
+pub mod results;
+pub mod settings;
+pub mod status;
+pub mod style;
+pub mod table;
+pub mod vh_plot;

@@ -1,0 +1,208 @@
+//! The prediction tool: K, ln K and ΔG° at any temperature with confidence and prediction
+//! intervals from the active fit; the temperature at which K reaches a target; and the
+//! two-point van 't Hoff calculation from two (T, K) pairs. All numbers come from
+//! isochore-fit; this panel only reads the typed inputs.
+
+use crate::app::Cx;
+use crate::panels::{results::unit_factors, style};
+use egui::RichText;
+use isochore_fit::two_point::{enthalpy_from_pairs, StatePoint};
+
+/// What the chemist typed.
+#[derive(Debug, Clone)]
+pub struct PredictPanel {
+    /// Temperature for the prediction, in the series' display unit.
+    pub t_text: String,
+    /// Target K.
+    pub k_text: String,
+    /// Two-point inputs: T₁, K₁, σ(ln K₁), T₂, K₂, σ(ln K₂) (temperatures in the display unit).
+    pub two_point: [String; 6],
+}
+
+impl Default for PredictPanel {
+    fn default() -> Self {
+        PredictPanel {
+            t_text: "37".into(),
+            k_text: "1".into(),
+            two_point: [
+                "25".into(),
+                "1.0e6".into(),
+                "0.05".into(),
+                "37".into(),
+                "4.0e5".into(),
+                "0.05".into(),
+            ],
+        }
+    }
+}
+
+fn num(s: &str) -> Result<f64, String> {
+    match s.trim().replace(',', ".").parse::<f64>() {
+        Ok(v) if v.is_finite() => Ok(v),
+        _ => Err(format!("'{}' is not a number", s.trim())),
+    }
+}
+
+impl PredictPanel {
+    /// Draws the tool.
+    pub fn ui(&mut self, ui: &mut egui::Ui, cx: &mut Cx<'_>) {
+        ui.heading("Predict");
+        let flag = style::flag_color(cx.dark);
+        let Some(s) = cx.series() else {
+            return;
+        };
+        let tu = s.data.settings.temperature_unit;
+        let (ef, _, eu, _) = unit_factors(s.data.settings.energy_unit);
+        let a = cx.fitter.get(s.id);
+        let fit = a.as_ref().and_then(|a| a.fit.as_ref().ok());
+        ui.horizontal(|ui| {
+            ui.label("at T =");
+            ui.add(egui::TextEdit::singleline(&mut self.t_text).desired_width(60.0));
+            ui.label(tu.symbol());
+        });
+        if let Some(fit) = fit {
+            match num(&self.t_text)
+                .and_then(|t| fit.predict(tu.to_kelvin(t)).map_err(|e| e.to_string()))
+            {
+                Ok(p) => {
+                    let lvl = fit.options.level * 100.0;
+                    egui::Grid::new("prediction")
+                        .num_columns(3)
+                        .striped(true)
+                        .show(ui, |ui| {
+                            ui.strong("");
+                            ui.strong(format!("value ({lvl:.0} % CI)"));
+                            ui.strong(format!("{lvl:.0} % PI"));
+                            ui.end_row();
+                            ui.label("K");
+                            ui.label(format!(
+                                "{} ({} … {})",
+                                style::sig(p.k.value, 4),
+                                style::sig(p.k.ci.low, 3),
+                                style::sig(p.k.ci.high, 3)
+                            ));
+                            ui.label(format!(
+                                "{} … {}",
+                                style::sig(p.k.pi.low, 3),
+                                style::sig(p.k.pi.high, 3)
+                            ));
+                            ui.end_row();
+                            ui.label("ln K");
+                            ui.label(format!(
+                                "{} ({} … {})",
+                                style::fixed(p.ln_k.value, 3),
+                                style::fixed(p.ln_k.ci.low, 3),
+                                style::fixed(p.ln_k.ci.high, 3)
+                            ));
+                            ui.label(format!(
+                                "{} … {}",
+                                style::fixed(p.ln_k.pi.low, 3),
+                                style::fixed(p.ln_k.pi.high, 3)
+                            ));
+                            ui.end_row();
+                            let g = p.delta_g.scaled(ef);
+                            ui.label("ΔG°");
+                            ui.label(format!(
+                                "{} {eu} ({} … {})",
+                                style::sig(g.value, 4),
+                                style::sig(g.ci_low, 4),
+                                style::sig(g.ci_high, 4)
+                            ));
+                            ui.label("");
+                            ui.end_row();
+                        });
+                    if let Some(w) = &p.warning {
+                        ui.horizontal_wrapped(|ui| {
+                            ui.colored_label(flag, "⚠");
+                            ui.label(w);
+                        });
+                    }
+                }
+                Err(e) => {
+                    ui.colored_label(flag, e);
+                }
+            }
+            ui.add_space(4.0);
+            ui.horizontal(|ui| {
+                ui.label("T where K =");
+                ui.add(egui::TextEdit::singleline(&mut self.k_text).desired_width(70.0));
+            });
+            match num(&self.k_text)
+                .and_then(|k| fit.temperature_for_k(k).map_err(|e| e.to_string()))
+            {
+                Ok(t) => {
+                    ui.label(format!(
+                        "T = {} {} (SE {} K, CI {} … {} {})",
+                        style::fixed(tu.from_kelvin(t.value), 2),
+                        tu.symbol(),
+                        style::sig(t.se, 2),
+                        style::fixed(tu.from_kelvin(t.ci_low), 1),
+                        style::fixed(tu.from_kelvin(t.ci_high), 1),
+                        tu.symbol()
+                    ));
+                }
+                Err(e) => {
+                    ui.colored_label(flag, e);
+                }
+            }
+        } else {
+            ui.label("No fit to predict from.");
+        }
+        ui.add_space(6.0);
+        ui.collapsing("Two-point calculation", |ui| {
+            ui.label(
+                RichText::new(
+                    "ΔH° and ΔS° from two (T, K) pairs, assuming ΔH° constant between them.",
+                )
+                .small(),
+            );
+            egui::Grid::new("two_point").num_columns(4).show(ui, |ui| {
+                ui.label("");
+                ui.label(format!("T / {}", tu.symbol()));
+                ui.label("K");
+                ui.label("σ(ln K)");
+                ui.end_row();
+                for (k, name) in ["pair 1", "pair 2"].iter().enumerate() {
+                    ui.label(*name);
+                    for j in 0..3 {
+                        ui.add(
+                            egui::TextEdit::singleline(&mut self.two_point[3 * k + j])
+                                .desired_width(64.0),
+                        );
+                    }
+                    ui.end_row();
+                }
+            });
+            let level = s.options().level;
+            let parse = |k: usize| -> Result<StatePoint, String> {
+                Ok(StatePoint {
+                    t_k: tu.to_kelvin(num(&self.two_point[3 * k])?),
+                    sigma_t_k: 0.0,
+                    k: num(&self.two_point[3 * k + 1])?,
+                    sigma_ln_k: num(&self.two_point[3 * k + 2])?,
+                })
+            };
+            let res = parse(0).and_then(|a| {
+                let b = parse(1)?;
+                enthalpy_from_pairs(a, b, level).map_err(|e| e.to_string())
+            });
+            match res {
+                Ok(r) => {
+                    let (ef, sf, eu, su) = unit_factors(s.data.settings.energy_unit);
+                    let h = r.delta_h.scaled(ef);
+                    let sd = r.delta_s.scaled(sf);
+                    ui.label(format!(
+                        "ΔH° = {} ± {} {eu}   ΔS° = {} ± {} {su}",
+                        style::sig(h.value, 4),
+                        style::sig(h.se, 2),
+                        style::sig(sd.value, 4),
+                        style::sig(sd.se, 2)
+                    ));
+                }
+                Err(e) => {
+                    ui.colored_label(flag, e);
+                }
+            }
+        });
+    }
+}

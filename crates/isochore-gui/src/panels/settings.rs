@@ -1,0 +1,236 @@
+//! The left panel: the list of series (choose the active one, show or hide it on the
+//! plots) and the active series' settings — model, θ, confidence level, weighting,
+//! σ convention, units for results and flag thresholds. Every change is one undoable
+//! command.
+
+use crate::app::{Action, Cx};
+use crate::command::Command;
+use crate::panels::style;
+use isochore_fit::{EnergyUnit, Model, SigmaConvention, TemperatureUnit, Weighting};
+
+/// Text being typed into a numeric setting, committed on Enter or when focus leaves.
+#[derive(Debug, Default)]
+pub struct SettingsPanel {
+    buffers: std::collections::HashMap<&'static str, String>,
+    /// The last typing error, in words.
+    pub error: Option<String>,
+}
+
+impl SettingsPanel {
+    /// Draws the panel.
+    pub fn ui(&mut self, ui: &mut egui::Ui, cx: &mut Cx<'_>) {
+        ui.heading("Series");
+        if cx.project.series.is_empty() {
+            ui.label("No data yet: open a CSV or TSV file (File ▸ Open…), drop one on the window, or paste a table with Ctrl+V.");
+        }
+        for (i, s) in cx.project.series.iter().enumerate() {
+            ui.horizontal(|ui| {
+                let mut shown = s.shown;
+                let r = ui.checkbox(&mut shown, "");
+                let label = format!("show series {}", s.name());
+                r.widget_info(|| {
+                    egui::WidgetInfo::selected(egui::WidgetType::Checkbox, true, shown, &label)
+                });
+                if r.changed() {
+                    cx.out.push(Command::SetShown {
+                        series: s.id,
+                        shown,
+                    });
+                }
+                let (rect, _) =
+                    ui.allocate_exact_size(egui::vec2(12.0, 12.0), egui::Sense::hover());
+                ui.painter().rect_filled(rect, 2.0, style::series_color(i));
+                let active = cx.active == Some(s.id);
+                if ui
+                    .selectable_label(active, s.name())
+                    .on_hover_text(format!(
+                        "{} rows; drawn as {}",
+                        s.n_rows(),
+                        style::shape_name(style::series_shape(i))
+                    ))
+                    .clicked()
+                {
+                    cx.actions.push(Action::SetActive(s.id));
+                }
+            });
+        }
+        let Some(s) = cx.series() else {
+            return;
+        };
+        let id = s.id;
+        let cur = s.data.settings;
+        let mut new = cur;
+        ui.separator();
+        ui.heading("Settings");
+        ui.label(egui::RichText::new(s.name()).italics());
+        egui::Grid::new("settings_grid")
+            .num_columns(2)
+            .spacing([8.0, 6.0])
+            .show(ui, |ui| {
+                ui.label("Model");
+                let combo = egui::ComboBox::from_id_salt("model")
+                    .selected_text(model_name(cur.fit.model))
+                    .show_ui(ui, |ui| {
+                        for m in [Model::Linear, Model::ConstantCp] {
+                            ui.selectable_value(&mut new.fit.model, m, model_name(m));
+                        }
+                    });
+                combo.response.widget_info(|| {
+                    egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "model")
+                });
+                ui.end_row();
+
+                ui.label("θ (ΔCp° model)").on_hover_text(
+                    "Reference temperature at which ΔH° and ΔS° are quoted in the ΔCp° model",
+                );
+                let theta = cur.temperature_unit.from_kelvin(cur.fit.t_ref_k);
+                if let Some(v) = self.number(ui, "theta", theta, 2, cur.temperature_unit.symbol()) {
+                    new.fit.t_ref_k = cur.temperature_unit.to_kelvin(v);
+                }
+                ui.end_row();
+
+                ui.label("Confidence level");
+                if let Some(v) = self.number(ui, "level", cur.fit.level * 100.0, 1, "%") {
+                    new.fit.level = v / 100.0;
+                }
+                ui.end_row();
+
+                ui.label("Weighting");
+                egui::ComboBox::from_id_salt("weighting")
+                    .selected_text(weighting_name(cur.fit.weighting))
+                    .show_ui(ui, |ui| {
+                        for w in [Weighting::InverseVariance, Weighting::Unweighted] {
+                            ui.selectable_value(&mut new.fit.weighting, w, weighting_name(w));
+                        }
+                    });
+                ui.end_row();
+
+                ui.label("σ taken as").on_hover_text(
+                    "Relative: the scatter sets the error bars. Absolute: the stated σ are true uncertainties.",
+                );
+                egui::ComboBox::from_id_salt("convention")
+                    .selected_text(convention_name(cur.fit.convention))
+                    .show_ui(ui, |ui| {
+                        for c in [SigmaConvention::ScaledByFit, SigmaConvention::Absolute] {
+                            ui.selectable_value(&mut new.fit.convention, c, convention_name(c));
+                        }
+                    });
+                ui.end_row();
+
+                ui.label("Energy unit");
+                egui::ComboBox::from_id_salt("energy")
+                    .selected_text(cur.energy_unit.symbol())
+                    .show_ui(ui, |ui| {
+                        for e in [EnergyUnit::KilojoulePerMole, EnergyUnit::KilocaloriePerMole] {
+                            ui.selectable_value(&mut new.energy_unit, e, e.symbol());
+                        }
+                    });
+                ui.end_row();
+
+                ui.label("Temperatures in");
+                egui::ComboBox::from_id_salt("tunit")
+                    .selected_text(cur.temperature_unit.symbol())
+                    .show_ui(ui, |ui| {
+                        for t in [TemperatureUnit::Celsius, TemperatureUnit::Kelvin] {
+                            ui.selectable_value(&mut new.temperature_unit, t, t.symbol());
+                        }
+                    });
+                ui.end_row();
+            });
+        ui.add_space(6.0);
+        ui.label(egui::RichText::new("Flag a point when").strong());
+        egui::Grid::new("threshold_grid")
+            .num_columns(2)
+            .spacing([8.0, 6.0])
+            .show(ui, |ui| {
+                let t = cur.fit.thresholds;
+                ui.label("|studentized residual| >");
+                if let Some(v) = self.number(ui, "t_out", t.outlier_studentized, 2, "") {
+                    new.fit.thresholds.outlier_studentized = v;
+                }
+                ui.end_row();
+                ui.label("leverage > factor × p/n");
+                if let Some(v) = self.number(ui, "t_lev", t.leverage_factor, 2, "") {
+                    new.fit.thresholds.leverage_factor = v;
+                }
+                ui.end_row();
+                ui.label("Cook's D > factor / n");
+                if let Some(v) = self.number(ui, "t_cook", t.cooks_factor, 2, "") {
+                    new.fit.thresholds.cooks_factor = v;
+                }
+                ui.end_row();
+            });
+        if let Some(e) = &self.error {
+            ui.colored_label(style::flag_color(cx.dark), e);
+        }
+        if new != cur {
+            if let Err(e) = new.fit.validate() {
+                self.error = Some(e.to_string());
+            } else {
+                self.error = None;
+                cx.out.push(Command::SetSettings {
+                    series: id,
+                    settings: new,
+                });
+            }
+        }
+    }
+
+    /// A number field that returns a value when the typing is committed.
+    fn number(
+        &mut self,
+        ui: &mut egui::Ui,
+        key: &'static str,
+        current: f64,
+        decimals: usize,
+        unit: &str,
+    ) -> Option<f64> {
+        let mut result = None;
+        ui.horizontal(|ui| {
+            let shown = style::fixed(current, decimals);
+            let buf = self.buffers.entry(key).or_insert_with(|| shown.clone());
+            let resp = ui.add(egui::TextEdit::singleline(buf).desired_width(70.0));
+            if resp.lost_focus() {
+                match buf.trim().replace(',', ".").parse::<f64>() {
+                    Ok(v) if v.is_finite() => {
+                        if (v - current).abs() > 1e-12 * current.abs().max(1.0) {
+                            result = Some(v);
+                        }
+                    }
+                    _ => {
+                        self.error = Some(format!("'{}' is not a number", buf.trim()));
+                        *buf = shown.clone();
+                    }
+                }
+            } else if !resp.has_focus() {
+                *buf = shown;
+            }
+            if !unit.is_empty() {
+                ui.label(unit);
+            }
+        });
+        result
+    }
+}
+
+/// Plain name of a model.
+pub fn model_name(m: Model) -> &'static str {
+    match m {
+        Model::Linear => "linear (constant ΔH°)",
+        Model::ConstantCp => "with ΔCp° (curved)",
+    }
+}
+
+fn weighting_name(w: Weighting) -> &'static str {
+    match w {
+        Weighting::InverseVariance => "1/σ² (from uncertainties)",
+        Weighting::Unweighted => "equal weights",
+    }
+}
+
+fn convention_name(c: SigmaConvention) -> &'static str {
+    match c {
+        SigmaConvention::ScaledByFit => "relative (scaled by fit)",
+        SigmaConvention::Absolute => "absolute",
+    }
+}

@@ -1,0 +1,107 @@
+//! Colours, marker shapes and number formats shared by the panels. Series colours are the
+//! Okabe–Ito set, chosen to stay distinct for the common forms of colour blindness; each
+//! series also gets its own marker shape so colour is never the only cue.
+
+use egui::Color32;
+use egui_plot::MarkerShape;
+
+const PALETTE: [Color32; 7] = [
+    Color32::from_rgb(0, 114, 178),   // blue
+    Color32::from_rgb(213, 94, 0),    // vermillion
+    Color32::from_rgb(0, 158, 115),   // bluish green
+    Color32::from_rgb(204, 121, 167), // reddish purple
+    Color32::from_rgb(230, 159, 0),   // orange
+    Color32::from_rgb(86, 180, 233),  // sky blue
+    Color32::from_rgb(120, 120, 120), // grey
+];
+
+const SHAPES: [MarkerShape; 7] = [
+    MarkerShape::Circle,
+    MarkerShape::Square,
+    MarkerShape::Diamond,
+    MarkerShape::Up,
+    MarkerShape::Down,
+    MarkerShape::Asterisk,
+    MarkerShape::Cross,
+];
+
+/// The colour of the series at position `index`.
+pub fn series_color(index: usize) -> Color32 {
+    PALETTE[index % PALETTE.len()]
+}
+
+/// The marker shape of the series at position `index`.
+pub fn series_shape(index: usize) -> MarkerShape {
+    SHAPES[index % SHAPES.len()]
+}
+
+/// The name of a marker shape, for legends in words.
+pub fn shape_name(shape: MarkerShape) -> &'static str {
+    match shape {
+        MarkerShape::Circle => "circles",
+        MarkerShape::Square => "squares",
+        MarkerShape::Diamond => "diamonds",
+        MarkerShape::Up => "triangles",
+        MarkerShape::Down => "inverted triangles",
+        MarkerShape::Asterisk => "stars",
+        MarkerShape::Cross => "crosses",
+        _ => "markers",
+    }
+}
+
+/// The colour used to mark flagged values (legible on light and dark backgrounds).
+pub fn flag_color(dark: bool) -> Color32 {
+    if dark {
+        Color32::from_rgb(255, 140, 90)
+    } else {
+        Color32::from_rgb(190, 40, 0)
+    }
+}
+
+/// The colour of the hover and selection halo.
+pub fn highlight_color(dark: bool) -> Color32 {
+    if dark {
+        Color32::from_rgb(255, 230, 80)
+    } else {
+        Color32::from_rgb(20, 20, 20)
+    }
+}
+
+/// A number with `sig` significant digits, in plain or scientific notation as suits.
+pub fn sig(x: f64, sig: usize) -> String {
+    if !x.is_finite() {
+        return "—".into();
+    }
+    if x == 0.0 {
+        return "0".into();
+    }
+    let mag = x.abs().log10().floor() as i32;
+    if !(-4..6).contains(&mag) {
+        return format!("{:.*e}", sig.saturating_sub(1), x);
+    }
+    let decimals = (sig as i32 - 1 - mag).max(0) as usize;
+    format!("{x:.decimals$}")
+}
+
+/// A number with a fixed count of decimals.
+pub fn fixed(x: f64, decimals: usize) -> String {
+    if x.is_finite() {
+        format!("{x:.decimals$}")
+    } else {
+        "—".into()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn numbers_read_naturally() {
+        assert_eq!(sig(-48.2371, 4), "-48.24");
+        assert_eq!(sig(0.012345, 3), "0.0123");
+        assert_eq!(sig(1.0e-7, 3), "1.00e-7");
+        assert_eq!(sig(f64::NAN, 3), "—");
+        assert_eq!(fixed(2.5, 2), "2.50");
+    }
+}

@@ -1,0 +1,344 @@
+//! The measurements table: every row with its cells exactly as typed in the file, an
+//! include checkbox, the exclusion reason and the diagnostics isochore-fit computed for the
+//! point, with flagged cells marked. Cells and reasons are edited in place; a committed
+//! edit is one undoable command and refits. Rows are virtualised, so a million rows scroll
+//! smoothly.
+
+use crate::app::Cx;
+use crate::command::Command;
+use crate::panels::style;
+use egui::{RichText, Sense};
+use egui_extras::{Column, TableBuilder};
+
+/// What a cell being edited holds.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum EditTarget {
+    /// A cell of the file (0-based column).
+    Cell(usize),
+    /// The exclusion reason.
+    Reason,
+}
+
+/// A cell being edited.
+#[derive(Debug, Clone)]
+pub struct Editing {
+    /// Series id.
+    pub series: u64,
+    /// 0-based row.
+    pub row: usize,
+    /// Which cell.
+    pub target: EditTarget,
+    /// The text typed so far.
+    pub text: String,
+    /// Focus has been requested.
+    pub focused: bool,
+}
+
+/// The table's own state.
+#[derive(Debug, Default)]
+pub struct TablePanel {
+    /// The cell being edited.
+    pub editing: Option<Editing>,
+    /// The last typing error, in words.
+    pub error: Option<String>,
+}
+
+const ROW_H: f32 = 22.0;
+
+impl TablePanel {
+    /// Starts editing a cell (used by the table and by tests).
+    pub fn start_edit(&mut self, series: u64, row: usize, target: EditTarget, text: String) {
+        self.editing = Some(Editing {
+            series,
+            row,
+            target,
+            text,
+            focused: false,
+        });
+    }
+
+    /// Draws the table.
+    pub fn ui(&mut self, ui: &mut egui::Ui, cx: &mut Cx<'_>) {
+        let project = cx.project;
+        let Some(series) = cx.active.and_then(|id| project.get(id)) else {
+            ui.label("No series.");
+            return;
+        };
+        let analysis = cx.fitter.get(series.id);
+        let a = analysis.as_deref();
+        let diag = a.and_then(|a| a.fit.as_ref().ok().map(|f| &f.points));
+        let n_excl = series.data.exclusions.len();
+        ui.horizontal(|ui| {
+            ui.heading("Measurements");
+            ui.label(format!(
+                "{} — {} rows, {} left out",
+                series.name(),
+                series.n_rows(),
+                n_excl
+            ));
+            if let Some(e) = &self.error {
+                ui.colored_label(style::flag_color(cx.dark), e);
+            }
+        });
+        ui.label(
+            RichText::new(
+                "Click a value or a reason to edit it (Enter keeps, Esc cancels); untick a row to leave it out of the fit.",
+            )
+            .small()
+            .weak(),
+        );
+        let flag = style::flag_color(cx.dark);
+        let value_cols = series.value_columns();
+        let note_col = series.note_column();
+        let mut headers: Vec<(String, String)> = vec![
+            ("#".into(), "row number (file line in the hover)".into()),
+            ("use".into(), "include the row in the fit".into()),
+        ];
+        for &c in &value_cols {
+            headers.push((series.header(c).to_string(), "as typed in the file".into()));
+        }
+        for (h, tip) in [
+            ("ln K", "on the fitting scale"),
+            ("leverage", "hᵢ: pull of the point on the fit"),
+            (
+                "stud. resid.",
+                "externally studentized residual (excluded rows: residual in prediction SDs)",
+            ),
+            ("Cook's D", "influence of the point on the fit"),
+            ("reason", "why the row is left out"),
+            ("note", "note from the file"),
+        ] {
+            headers.push((h.into(), tip.into()));
+        }
+        let table = TableBuilder::new(ui)
+            .id_salt(("measurements", series.id))
+            .striped(true)
+            .sense(Sense::click())
+            .cell_layout(egui::Layout::left_to_right(egui::Align::Center))
+            .column(Column::exact(44.0))
+            .column(Column::exact(34.0))
+            .columns(
+                Column::initial(92.0)
+                    .at_least(60.0)
+                    .resizable(true)
+                    .clip(true),
+                value_cols.len(),
+            )
+            .columns(Column::initial(80.0).at_least(60.0).resizable(true), 4)
+            .column(
+                Column::initial(220.0)
+                    .at_least(80.0)
+                    .resizable(true)
+                    .clip(true),
+            )
+            .column(Column::remainder().clip(true));
+        let mut commit: Option<(Editing, bool)> = None;
+        let sid = series.id;
+        table
+            .header(ROW_H, |mut h| {
+                for (title, tip) in &headers {
+                    h.col(|ui| {
+                        ui.strong(title).on_hover_text(tip);
+                    });
+                }
+            })
+            .body(|body| {
+                body.rows(ROW_H, series.n_rows(), |mut tr| {
+                    let i = tr.index();
+                    let key = (sid, i);
+                    let excl = series.exclusion(i);
+                    let point = a.and_then(|a| a.point_of_row.get(i).copied().flatten());
+                    let d = point.and_then(|k| diag.and_then(|d| d.get(k)));
+                    tr.set_selected(
+                        cx.links.selected == Some(key) || cx.links.hovered == Some(key),
+                    );
+                    tr.col(|ui| {
+                        let r = ui.label(format!("{}", i + 1));
+                        if let Some(line) = series.line(i) {
+                            r.on_hover_text(format!("line {line} of {}", series.data.source.name));
+                        }
+                    });
+                    tr.col(|ui| {
+                        let mut inc = excl.is_none();
+                        let r = ui.checkbox(&mut inc, "");
+                        let label = format!("include row {}", i + 1);
+                        r.widget_info(|| {
+                            egui::WidgetInfo::selected(
+                                egui::WidgetType::Checkbox,
+                                true,
+                                inc,
+                                &label,
+                            )
+                        });
+                        if r.changed() {
+                            cx.out.push(Command::SetExclusion {
+                                series: sid,
+                                row: i,
+                                exclusion: (!inc).then(|| (String::new(), cx.stamp.clone())),
+                            });
+                        }
+                    });
+                    for &c in &value_cols {
+                        tr.col(|ui| {
+                            let text = series.cell(i, c).to_string();
+                            self.editable(
+                                ui,
+                                sid,
+                                i,
+                                EditTarget::Cell(c),
+                                text,
+                                false,
+                                &mut commit,
+                            );
+                        });
+                    }
+                    tr.col(|ui| {
+                        if let Some(d) = d {
+                            ui.label(style::fixed(d.ln_k, 3));
+                        }
+                    });
+                    let cells = [
+                        (
+                            d.map(|d| d.leverage),
+                            d.is_some_and(|d| d.flags.high_leverage),
+                            "high leverage",
+                        ),
+                        (
+                            d.and_then(|d| d.student_ext.or(d.prediction_residual)),
+                            d.is_some_and(|d| d.flags.outlier),
+                            "outlier candidate",
+                        ),
+                        (
+                            d.and_then(|d| d.cooks_d),
+                            d.is_some_and(|d| d.flags.influential),
+                            "influential",
+                        ),
+                    ];
+                    for (v, flagged, why) in cells {
+                        tr.col(|ui| {
+                            let Some(v) = v else {
+                                ui.weak("—");
+                                return;
+                            };
+                            let text = style::fixed(v, 3);
+                            if flagged {
+                                ui.label(RichText::new(format!("{text} ⚑")).color(flag).strong())
+                                    .on_hover_text(format!("flagged: {why}"));
+                            } else {
+                                ui.label(text);
+                            }
+                        });
+                    }
+                    tr.col(|ui| match excl {
+                        Some(e) => {
+                            let r = e.reason.clone();
+                            self.editable(ui, sid, i, EditTarget::Reason, r, true, &mut commit);
+                        }
+                        None => {
+                            ui.label("");
+                        }
+                    });
+                    tr.col(|ui| {
+                        if let Some(c) = note_col {
+                            ui.label(RichText::new(series.cell(i, c)).weak());
+                        }
+                    });
+                    let resp = tr.response();
+                    if resp.hovered() {
+                        cx.links.next_hover = Some(key);
+                    }
+                    if resp.clicked() {
+                        cx.links.selected = Some(key);
+                    }
+                });
+            });
+        if let Some((e, ok)) = commit {
+            self.editing = None;
+            if ok {
+                self.commit(e, cx);
+            }
+        }
+    }
+
+    #[allow(clippy::too_many_arguments)]
+    fn editable(
+        &mut self,
+        ui: &mut egui::Ui,
+        series: u64,
+        row: usize,
+        target: EditTarget,
+        text: String,
+        placeholder: bool,
+        commit: &mut Option<(Editing, bool)>,
+    ) {
+        let editing_here = self
+            .editing
+            .as_ref()
+            .is_some_and(|e| e.series == series && e.row == row && e.target == target);
+        if editing_here {
+            let Some(e) = self.editing.as_mut() else {
+                return;
+            };
+            let resp = ui.add(egui::TextEdit::singleline(&mut e.text).desired_width(f32::INFINITY));
+            let label = format!("edit row {}", row + 1);
+            resp.widget_info(|| {
+                egui::WidgetInfo::labeled(egui::WidgetType::TextEdit, true, &label)
+            });
+            if !e.focused {
+                resp.request_focus();
+                e.focused = true;
+            } else if resp.lost_focus() {
+                let cancelled = ui.input(|i| i.key_pressed(egui::Key::Escape));
+                *commit = Some((e.clone(), !cancelled));
+            }
+        } else {
+            let shown = if text.is_empty() && placeholder {
+                RichText::new("(add a reason)").weak().italics()
+            } else {
+                RichText::new(text.clone())
+            };
+            let r = ui.add(egui::Label::new(shown).sense(Sense::click()));
+            if r.clicked() {
+                self.start_edit(series, row, target, text);
+            }
+        }
+    }
+
+    fn commit(&mut self, e: Editing, cx: &mut Cx<'_>) {
+        let Some(s) = cx.project.get(e.series) else {
+            return;
+        };
+        let text = e.text.trim().to_string();
+        match e.target {
+            EditTarget::Reason => {
+                let at = s
+                    .exclusion(e.row)
+                    .map_or_else(|| cx.stamp.clone(), |x| x.at.clone());
+                if s.exclusion(e.row).is_some_and(|x| x.reason != text) {
+                    cx.out.push(Command::SetExclusion {
+                        series: e.series,
+                        row: e.row,
+                        exclusion: Some((text, at)),
+                    });
+                }
+            }
+            EditTarget::Cell(column) => {
+                if s.cell(e.row, column) == text {
+                    return;
+                }
+                match s.check_edit(e.row, column, &text) {
+                    Ok(()) => {
+                        self.error = None;
+                        cx.out.push(Command::EditCell {
+                            series: e.series,
+                            row: e.row,
+                            column,
+                            text,
+                        });
+                    }
+                    Err(msg) => self.error = Some(format!("{msg} — the cell was kept.")),
+                }
+            }
+        }
+    }
+}
