@@ -38,7 +38,7 @@ pub fn run(a: &TwoPointArgs) -> Result<(), Failure> {
     let t2 = tu.to_kelvin(a.t2);
     let u_t = tu.difference_to_kelvin(a.u_t);
     let bad = |e: isochore_fit::Error| Failure::usage(e.to_string());
-    if !(a.k1 > 0.0) || !a.k1.is_finite() {
+    if !(a.k1.is_finite() && a.k1 > 0.0) {
         return Err(Failure::usage("--k1 must be a positive number"));
     }
     for (name, v) in [
@@ -64,7 +64,7 @@ pub fn run(a: &TwoPointArgs) -> Result<(), Failure> {
     let (sf, s_unit) = entropy_unit(e);
     let lp = num(a.level * 100.0, 1).trim_end_matches(".0").to_string();
     if let Some(k2) = a.k2 {
-        if !(k2 > 0.0) || !k2.is_finite() {
+        if !(k2.is_finite() && k2 > 0.0) {
             return Err(Failure::usage("--k2 must be a positive number"));
         }
         let p2 = StatePoint {

@@ -602,7 +602,7 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
         return no_data(root, "studentized residuals (too few degrees of freedom)");
     }
     let h_max = used.iter().map(|u| u.1).fold(0.0f64, f64::max);
-    let x1 = (h_max.max(h_thr) * 1.15).min(1.0).max(0.05);
+    let x1 = (h_max.max(h_thr) * 1.15).clamp(0.05, 1.0);
     let r_max = used.iter().map(|u| u.2.abs()).fold(0.0f64, f64::max);
     let ylim = (r_max * 1.15).max(th.outlier_studentized + 0.6);
     let mut chart = ChartBuilder::on(root)
