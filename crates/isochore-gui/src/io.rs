@@ -134,7 +134,12 @@ pub fn demo_project() -> Result<Project, String> {
             s.name = title.to_string();
         }
     }
-    Ok(Project::from_data(data, None))
+    let mut p = Project::from_data(data, None);
+    // The two scenarios lie far apart in ln K: draw the first, tick the other to compare.
+    for s in p.series.iter_mut().skip(1) {
+        s.shown = false;
+    }
+    Ok(p)
 }
 
 /// Reads a data file for preview.

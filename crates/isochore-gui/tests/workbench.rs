@@ -147,7 +147,12 @@ fn clicking_a_point_on_the_plot_excludes_it_and_records_a_reason() {
         active_row_excluded(&h, OUTLIER_ROW).as_deref(),
         Some("baseline drift")
     );
-    // Clicking the same (now hollow) point takes it back.
+    // Clicking the same (now hollow) point takes it back (the view may have moved).
+    let pos = {
+        let w = h.state();
+        let a = w.fitter.get(w.active.unwrap()).unwrap();
+        w.plot.screen_pos(&a, OUTLIER_ROW).expect("plot drawn")
+    };
     click_at(&mut h, pos);
     assert_eq!(active_row_excluded(&h, OUTLIER_ROW), None);
     h.get_by_label(&delta_h_label(dh_all));

@@ -131,6 +131,12 @@ impl PredictPanel {
                 .and_then(|k| fit.temperature_for_k(k).map_err(|e| e.to_string()))
             {
                 Ok(t) => {
+                    if fit.is_extrapolation(t.value) {
+                        ui.horizontal_wrapped(|ui| {
+                            ui.colored_label(flag, "⚠");
+                            ui.label("far outside the measured temperatures: an extrapolation");
+                        });
+                    }
                     ui.label(format!(
                         "T = {} {} (SE {} K, CI {} … {} {})",
                         style::fixed(tu.from_kelvin(t.value), 2),

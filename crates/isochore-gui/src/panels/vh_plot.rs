@@ -118,8 +118,19 @@ impl PlotPanel {
                 }
             });
         let bottom_axis = AxisHints::new_x().label("10³ K / T");
+        // Keep the legend in the corner the data leave free: ln K rises with 1/T when
+        // ΔH° < 0, leaving the upper left empty; otherwise the upper right.
+        let rising = active
+            .and_then(|s| cx.fitter.get(s.id))
+            .and_then(|a| a.fit.as_ref().ok().map(|f| f.delta_h().value < 0.0))
+            .unwrap_or(false);
+        let corner = if rising {
+            egui_plot::Corner::LeftTop
+        } else {
+            egui_plot::Corner::RightTop
+        };
         let mut plot = Plot::new("vant_hoff_plot")
-            .legend(Legend::default().position(egui_plot::Corner::RightTop))
+            .legend(Legend::default().position(corner))
             .custom_x_axes(vec![bottom_axis, top_axis])
             .y_axis_label("ln K")
             .show_x(false)
