@@ -5,6 +5,7 @@
 
 use crate::doc::{Project, Series};
 use isochore_data::{ColumnMapping, Import, ImportOptions};
+use isochore_report::{ReportInput, ReportRow};
 use std::path::{Path, PathBuf};
 
 /// File-name ending of project files.
@@ -196,17 +197,114 @@ pub fn write_project(project: &Project, path: &Path) -> Result<(), String> {
         .map_err(|e| e.to_string())
 }
 
-/// Writes the report and figures of every series into `folder`.
+/// The report input for one series and its latest analysis (rows in the order of the fit's
+/// points, cells as typed).
 ///
 /// # Errors
-/// A message naming the file that could not be written.
+/// A sentence when the series has no fit to report.
+pub fn report_input(s: &Series, a: &crate::fitting::Analysis) -> Result<ReportInput, String> {
+    let fit = a
+        .fit
+        .as_ref()
+        .map_err(|e| format!("{}: no fit to report: {e}", s.name()))?;
+    let rows = a
+        .measurements
+        .iter()
+        .enumerate()
+        .map(|(k, m)| {
+            let row = a
+                .point_rows
+                .get(k)
+                .and_then(|r| r.first().copied())
+                .unwrap_or(k);
+            ReportRow {
+                row: row + 1,
+                line: s.line(row).unwrap_or(0),
+                cells: s
+                    .data
+                    .rows
+                    .get(row)
+                    .map(|r| r.cells.clone())
+                    .unwrap_or_default(),
+                t_k: m.t_k,
+                ln_k: m.ln_k,
+                sigma_ln_k: m.sigma_ln_k,
+                included: m.included,
+                exclusion_reason: s
+                    .exclusion(row)
+                    .map(|e| e.reason.clone())
+                    .filter(|r| !r.is_empty()),
+            }
+        })
+        .collect();
+    Ok(ReportInput {
+        title: format!("Van 't Hoff analysis — {}", s.name()),
+        series_name: s.name().to_string(),
+        source_name: s.data.source.name.clone(),
+        source_sha256: s.data.source.sha256.clone(),
+        headers: s.data.headers.clone(),
+        rows,
+        conversions: s.data.mapping.describe(&s.data.headers),
+        fit: fit.clone(),
+        energy_unit: s.data.settings.energy_unit,
+        temperature_unit: s.data.settings.temperature_unit,
+        program_version: format!("isochore {}", env!("CARGO_PKG_VERSION")),
+        settings: vec![(
+            "replicates".to_string(),
+            format!("{:?}", s.data.settings.replicates).to_lowercase(),
+        )],
+    })
+}
+
+/// Writes the report (HTML, PDF, Markdown, CSV) and figures (PNG) of every series with a
+/// fit into `folder`, one file stem per series, atomically through isochore-report.
+///
+/// # Errors
+/// A message naming the file that could not be written, or the series with no fit.
 pub fn export(
-    _project: &Project,
-    _fitter: &crate::fitting::Fitter,
+    project: &Project,
+    fitter: &crate::fitting::Fitter,
     folder: &Path,
 ) -> Result<String, String> {
-    Err(format!(
-        "{}: reports arrive with isochore-report",
-        folder.display()
+    let mut written = 0usize;
+    let mut stems = Vec::new();
+    for s in &project.series {
+        let Some(a) = fitter.get(s.id) else {
+            continue;
+        };
+        let input = report_input(s, &a)?;
+        let stem = file_stem(s.name());
+        let paths =
+            isochore_report::write_report_set(&input, folder, &stem).map_err(|e| e.to_string())?;
+        written += paths.len();
+        stems.push(stem);
+    }
+    if written == 0 {
+        return Err("There is no fitted series to export.".into());
+    }
+    Ok(format!(
+        "{written} files written to {} ({}).",
+        folder.display(),
+        stems.join(", ")
     ))
+}
+
+/// A file-name stem from a series name: letters, digits and '-' only.
+pub fn file_stem(name: &str) -> String {
+    let s: String = name
+        .chars()
+        .map(|c| {
+            if c.is_alphanumeric() {
+                c.to_ascii_lowercase()
+            } else {
+                '-'
+            }
+        })
+        .collect();
+    let s = s.trim_matches('-').to_string();
+    if s.is_empty() {
+        "series".into()
+    } else {
+        s
+    }
 }
