@@ -116,6 +116,22 @@ impl ReportPlan {
     }
 }
 
+/// One `{"source", "error"}` element of the JSON array, after a comma when it is not the
+/// first.
+fn error_entry(
+    out: &mut impl Write,
+    entries: &mut usize,
+    source: &str,
+    error: &str,
+) -> std::io::Result<()> {
+    if *entries > 0 {
+        out.write_all(b",\n")?;
+    }
+    json::write_error(out, source, error)?;
+    *entries += 1;
+    Ok(())
+}
+
 /// Runs `isochore fit`.
 pub fn run(a: &FitArgs) -> Result<(), Failure> {
     let mut plan = match &a.report {
@@ -163,11 +179,7 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                         out.write_all(b"[").map_err(io_fail)?;
                         array_open = true;
                     }
-                    if entries > 0 {
-                        out.write_all(b",\n").map_err(io_fail)?;
-                    }
-                    json::write_error(&mut out, &source, &e).map_err(io_fail)?;
-                    entries += 1;
+                    error_entry(&mut out, &mut entries, &source, &e).map_err(io_fail)?;
                 }
                 failures.push(e);
                 continue;
@@ -192,11 +204,7 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                 Ok(f) => f,
                 Err(e) => {
                     if a.json && this_array {
-                        if entries > 0 {
-                            out.write_all(b",\n").map_err(io_fail)?;
-                        }
-                        json::write_error(&mut out, &source, &e).map_err(io_fail)?;
-                        entries += 1;
+                        error_entry(&mut out, &mut entries, &source, &e).map_err(io_fail)?;
                     }
                     failures.push(e);
                     continue;

@@ -157,6 +157,7 @@ pub fn write_fit(
         Some(e) => json!({
             "value": n.num("t_at_k1.value", e.value),
             "se": n.num("t_at_k1.se", e.se),
+            "extrapolated": fit.is_extrapolation(e.value),
         }),
         None => serde_json::Value::Null,
     };
@@ -180,6 +181,20 @@ pub fn write_fit(
     field(w, &mut first, "version", &json!(env!("CARGO_PKG_VERSION")))?;
     w.write_all(b"}")?;
     Ok(())
+}
+
+/// A number, or null when it is not finite (the JSON contract never holds NaN or Infinity).
+pub fn finite(v: f64) -> serde_json::Value {
+    if v.is_finite() {
+        serde_json::json!(v)
+    } else {
+        serde_json::Value::Null
+    }
+}
+
+/// An estimate as `{value, se, ci_low, ci_high}`.
+pub fn est(e: &isochore_fit::Estimate) -> serde_json::Value {
+    serde_json::json!({"value": finite(e.value), "se": finite(e.se), "ci_low": finite(e.ci_low), "ci_high": finite(e.ci_high)})
 }
 
 /// Writes an error entry of a batch: `{"source": …, "error": …}`.

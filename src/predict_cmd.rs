@@ -4,24 +4,13 @@
 
 use crate::cli::PredictArgs;
 use crate::fit_cmd::fit_job;
+use crate::json::{est, finite};
 use crate::load::load;
 use crate::Failure;
-use isochore_fit::{Estimate, Prediction, ValuePrediction, VantHoffFit};
+use isochore_fit::{Prediction, ValuePrediction, VantHoffFit};
 use isochore_report::content::{decimals_for, entropy_unit, num, show_t, sig};
 use serde_json::json;
 use std::io::Write;
-
-fn finite(v: f64) -> serde_json::Value {
-    if v.is_finite() {
-        json!(v)
-    } else {
-        serde_json::Value::Null
-    }
-}
-
-fn est(e: &Estimate) -> serde_json::Value {
-    json!({"value": finite(e.value), "se": finite(e.se), "ci_low": finite(e.ci_low), "ci_high": finite(e.ci_high)})
-}
 
 fn value(v: &ValuePrediction) -> serde_json::Value {
     json!({

@@ -2,23 +2,12 @@
 //! uncertainty — ΔH° and ΔS° from two (T, K) pairs, or K at T₂ from (T₁, K₁) and ΔH°.
 
 use crate::cli::TwoPointArgs;
+use crate::json::est;
 use crate::Failure;
 use isochore_fit::two_point::{enthalpy_from_pairs, predict_k, StatePoint};
 use isochore_fit::Estimate;
 use isochore_report::content::{decimals_for, entropy_unit, num, sig};
 use serde_json::json;
-
-fn finite(v: f64) -> serde_json::Value {
-    if v.is_finite() {
-        json!(v)
-    } else {
-        serde_json::Value::Null
-    }
-}
-
-fn est(e: &Estimate) -> serde_json::Value {
-    json!({"value": finite(e.value), "se": finite(e.se), "ci_low": finite(e.ci_low), "ci_high": finite(e.ci_high)})
-}
 
 fn line(name: &str, e: Estimate, unit: &str, lp: &str) -> String {
     let d = decimals_for(e.se);

@@ -563,3 +563,26 @@ fn import_test_files_are_fitted_or_refused_cleanly() {
     }
     eprintln!("checked {checked} import test files");
 }
+
+#[test]
+fn far_temperature_for_k_equal_one_is_called_an_extrapolation() {
+    // The binding demo's K stays far above 1 over 5–45 °C, so the temperature where K = 1 lies
+    // far outside the data: the number must come with the word, in JSON and in the table.
+    let path = demo("binding_qx7_halo2.csv");
+    let lib = library_fit(&path, &[], FitOptions::default());
+    let t1 = lib.t_at_k1.expect("the linear fit crosses K = 1 somewhere");
+    assert!(lib.is_extrapolation(t1.value), "{} K", t1.value);
+    let j = json_of(&run(&["fit", &path, "--json"]));
+    assert!(close(
+        j["t_at_k1"]["value"].as_f64().unwrap(),
+        t1.value,
+        1e-12
+    ));
+    assert_eq!(j["t_at_k1"]["extrapolated"], true);
+    let table = String::from_utf8(run(&["fit", &path]).stdout).unwrap();
+    let line = table
+        .lines()
+        .find(|l| l.contains("K = 1"))
+        .unwrap_or_else(|| panic!("no line for K = 1 in\n{table}"));
+    assert!(line.contains("extrapolated"), "{line}");
+}

@@ -390,6 +390,7 @@ fn finite(v: f64) -> Result<f64, RowProblem> {
 }
 
 /// Factor turning a value of kind `from` into the units of kind `to` (same family).
+#[inline]
 fn unit_factor(from: QuantityKind, to: QuantityKind) -> f64 {
     match (from, to) {
         (QuantityKind::DissociationConstant(a), QuantityKind::DissociationConstant(b)) => {
@@ -517,6 +518,26 @@ mod tests {
             if let Some(v) = fast_decimal(s.as_bytes(), false) {
                 let want: f64 = s.parse().unwrap();
                 prop_assert_eq!(v.to_bits(), want.to_bits(), "{}", s);
+            }
+        }
+
+        /// Short strings of digits, marks and signs (leading zeros, marks at either end,
+        /// long significands): the fast path agrees with `str::parse` bit for bit whenever
+        /// it answers, refuses what `str::parse` refuses, and answers every plain decimal.
+        #[test]
+        fn fast_path_matches_std_on_digit_soup(s in "[-+]?[0-9]{0,21}([.][0-9]{0,21})?([eE][-+]?[0-9]{1,3})?") {
+            let fast = fast_decimal(s.as_bytes(), false);
+            match s.parse::<f64>() {
+                Ok(want) => {
+                    if let Some(v) = fast {
+                        prop_assert_eq!(v.to_bits(), want.to_bits(), "{}", s);
+                    }
+                }
+                Err(_) => prop_assert!(fast.is_none(), "{}", s),
+            }
+            let digits = s.bytes().filter(u8::is_ascii_digit).count();
+            if !s.contains(['e', 'E']) && (1..=15).contains(&digits) {
+                prop_assert!(fast.is_some(), "plain decimal {} not answered", s);
             }
         }
 

@@ -27,7 +27,7 @@
 #![allow(clippy::needless_range_loop)]
 
 use crate::diagnostics::{diagnose_one, DiagnosticsSummary, Flags, PointContext, PointDiagnostics};
-use crate::least_squares::RANK_TOLERANCE;
+use crate::least_squares::{split, two_prod_split, two_sum, RANK_TOLERANCE};
 use crate::measurement::Measurement;
 use crate::model::{FitOptions, Model, SigmaConvention, Weighting};
 use nalgebra::DMatrix;
@@ -66,32 +66,6 @@ impl Row {
             self.y * self.sw,
         )
     }
-}
-
-/// Error-free sum (Knuth's TwoSum).
-#[inline]
-fn two_sum(a: f64, b: f64) -> (f64, f64) {
-    let s = a + b;
-    let bb = s - a;
-    (s, (a - (s - bb)) + (b - bb))
-}
-
-/// Veltkamp split of a into a high and a low half.
-#[inline]
-fn split(a: f64) -> (f64, f64) {
-    const SPLIT: f64 = 134_217_729.0; // 2^27 + 1
-    let ca = SPLIT * a;
-    let hi = ca - (ca - a);
-    (hi, a - hi)
-}
-
-/// Error-free product of a with a pre-split b (Dekker's TwoProduct).
-#[inline]
-fn two_prod_split(a: f64, b: f64, b_hi: f64, b_lo: f64) -> (f64, f64) {
-    let p = a * b;
-    let (a_hi, a_lo) = split(a);
-    let e = ((a_hi * b_hi - p) + a_hi * b_lo + a_lo * b_hi) + a_lo * b_lo;
-    (p, e)
 }
 
 /// Reduces the stack [R; block] to a triangle by four Householder reflections. `block` holds

@@ -69,24 +69,34 @@ fn power_of_two_near(v: f64) -> f64 {
 
 /// Error-free sum: a + b = s + e exactly (Knuth's TwoSum).
 #[inline]
-fn two_sum(a: f64, b: f64) -> (f64, f64) {
+pub(crate) fn two_sum(a: f64, b: f64) -> (f64, f64) {
     let s = a + b;
     let bb = s - a;
     (s, (a - (s - bb)) + (b - bb))
+}
+
+/// Veltkamp's split of `a` into a high and a low half of 26 bits each.
+#[inline]
+pub(crate) fn split(a: f64) -> (f64, f64) {
+    const SPLIT: f64 = 134_217_729.0; // 2^27 + 1
+    let ca = SPLIT * a;
+    let hi = ca - (ca - a);
+    (hi, a - hi)
 }
 
 /// Error-free product: a·b = p + e exactly (Dekker's TwoProduct with Veltkamp splitting;
 /// no fused multiply-add, which is a slow library call on baseline x86-64).
 #[inline]
 fn two_prod(a: f64, b: f64) -> (f64, f64) {
-    const SPLIT: f64 = 134_217_729.0; // 2^27 + 1
+    let (b_hi, b_lo) = split(b);
+    two_prod_split(a, b, b_hi, b_lo)
+}
+
+/// [`two_prod`] with `b` already split (for many products with one factor).
+#[inline]
+pub(crate) fn two_prod_split(a: f64, b: f64, b_hi: f64, b_lo: f64) -> (f64, f64) {
     let p = a * b;
-    let ca = SPLIT * a;
-    let a_hi = ca - (ca - a);
-    let a_lo = a - a_hi;
-    let cb = SPLIT * b;
-    let b_hi = cb - (cb - b);
-    let b_lo = b - b_hi;
+    let (a_hi, a_lo) = split(a);
     let e = ((a_hi * b_hi - p) + a_hi * b_lo + a_lo * b_hi) + a_lo * b_lo;
     (p, e)
 }

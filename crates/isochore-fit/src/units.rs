@@ -37,6 +37,7 @@ pub enum TemperatureUnit {
 
 impl TemperatureUnit {
     /// Converts a temperature on this scale to kelvin.
+    #[inline]
     pub fn to_kelvin(self, value: f64) -> f64 {
         match self {
             TemperatureUnit::Kelvin => value,
@@ -91,6 +92,7 @@ pub enum ConcentrationUnit {
 
 impl ConcentrationUnit {
     /// Moles per litre in one of this unit.
+    #[inline]
     pub fn mol_per_l(self) -> f64 {
         match self {
             ConcentrationUnit::Molar => 1.0,
@@ -128,6 +130,7 @@ pub enum EnergyUnit {
 
 impl EnergyUnit {
     /// J/mol in one of this unit.
+    #[inline]
     pub fn joules_per_mole(self) -> f64 {
         match self {
             EnergyUnit::JoulePerMole => 1.0,
@@ -137,6 +140,7 @@ impl EnergyUnit {
     }
 
     /// Converts a value in this unit to J/mol.
+    #[inline]
     pub fn to_joules(self, value: f64) -> f64 {
         value * self.joules_per_mole()
     }
@@ -200,6 +204,7 @@ impl QuantityKind {
     /// # Errors
     /// [`Error::NonFinite`] for NaN or infinite input, [`Error::NonPositiveConstant`] for
     /// K ≤ 0 or K_d ≤ 0, [`Error::NonPositiveTemperature`] for T ≤ 0 (ΔG° only).
+    #[inline]
     pub fn to_ln_k(self, value: f64, t_kelvin: f64) -> Result<f64, Error> {
         if !value.is_finite() {
             return Err(Error::NonFinite {
@@ -265,6 +270,7 @@ impl QuantityKind {
     ///
     /// # Errors
     /// [`Error::NonPositiveSigma`] for σ ≤ 0, plus the errors of [`QuantityKind::to_ln_k`].
+    #[inline]
     pub fn sigma_to_ln_k(self, value: f64, sigma: f64, t_kelvin: f64) -> Result<f64, Error> {
         if !sigma.is_finite() {
             return Err(Error::NonFinite {
@@ -325,6 +331,7 @@ impl QuantityKind {
 ///
 /// # Errors
 /// [`Error::NonFinite`] or [`Error::NonPositiveTemperature`].
+#[inline]
 pub fn check_temperature(t_kelvin: f64) -> Result<(), Error> {
     if !t_kelvin.is_finite() {
         return Err(Error::NonFinite {

@@ -184,8 +184,15 @@ pub fn result_rows_for(fit: &VantHoffFit, e: EnergyUnit, tu: TemperatureUnit) ->
     }
     if let Some(t1) = fit.t_at_k1 {
         let conv = |v: f64| tu.from_kelvin(v);
+        // Usually far outside the data (K = 1 is rarely near the measured range): say so
+        // next to the number.
+        let quantity = if fit.is_extrapolation(t1.value) {
+            "T where K = 1 (ΔG° = 0), extrapolated far outside the measured range".to_string()
+        } else {
+            "T where K = 1 (ΔG° = 0)".to_string()
+        };
         rows.push(ResultRow {
-            quantity: "T where K = 1 (ΔG° = 0)".to_string(),
+            quantity,
             estimate: Estimate {
                 value: conv(t1.value),
                 se: t_diff_from_kelvin(t1.se, tu),

@@ -260,6 +260,55 @@ fn emptiest_corner(points: &[(f64, f64)], x: (f64, f64), y: (f64, f64)) -> Serie
     best.1
 }
 
+/// What differs between the figures' frames; everything else (margins, grid, fonts, tick
+/// labels with decimals suited to the span) is shared by [`framed_chart`].
+struct Frame<'t> {
+    x: (f64, f64),
+    y: (f64, f64),
+    x_desc: &'t str,
+    y_desc: &'t str,
+    /// Width of the left label area in pixels.
+    left: u32,
+    /// Top margin in pixels (room for a second axis above the plot).
+    top: u32,
+    /// Decimals of the y tick labels, when not chosen from the span.
+    y_decimals: Option<usize>,
+}
+
+type Chart<'a, 'b> = ChartContext<
+    'a,
+    SVGBackend<'b>,
+    Cartesian2d<plotters::coord::types::RangedCoordf64, plotters::coord::types::RangedCoordf64>,
+>;
+
+/// A chart on `root` with the house frame drawn: light grid, axis titles, tick labels.
+fn framed_chart<'a, 'b>(root: &'a Area<'b>, f: Frame<'_>) -> Result<Chart<'a, 'b>, ReportError> {
+    let ((x0, x1), (y0, y1)) = (f.x, f.y);
+    let mut chart = ChartBuilder::on(root)
+        .margin(14)
+        .margin_right(24)
+        .margin_top(f.top)
+        .set_label_area_size(LabelAreaPosition::Left, f.left)
+        .set_label_area_size(LabelAreaPosition::Bottom, 58)
+        .build_cartesian_2d(x0..x1, y0..y1)
+        .map_err(fe)?;
+    let xd = tick_decimals(x1 - x0);
+    let yd = f.y_decimals.unwrap_or_else(|| tick_decimals(y1 - y0));
+    chart
+        .configure_mesh()
+        .x_desc(f.x_desc)
+        .y_desc(f.y_desc)
+        .x_label_formatter(&|v| num(*v, xd))
+        .y_label_formatter(&|v| num(*v, yd))
+        .label_style((FONT, TICK_SIZE))
+        .axis_desc_style((FONT, DESC_SIZE))
+        .bold_line_style(RGBColor(200, 200, 200).stroke_width(1))
+        .light_line_style(TRANSPARENT)
+        .draw()
+        .map_err(fe)?;
+    Ok(chart)
+}
+
 fn no_data(root: &Area, what: &str) -> Result<(), ReportError> {
     root.draw(&Text::new(
         format!("no {what} to draw"),
@@ -297,28 +346,18 @@ fn vant_hoff(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
     let (y0, y1) = padded(yr, 0.06);
     let (keys, t_dec) = temperature_keys(x0, x1, input.temperature_unit);
     let tu = input.temperature_unit;
-    let mut chart = ChartBuilder::on(root)
-        .margin(14)
-        .margin_right(24)
-        .set_label_area_size(LabelAreaPosition::Left, 72)
-        .set_label_area_size(LabelAreaPosition::Bottom, 58)
-        .margin_top(70)
-        .build_cartesian_2d(x0..x1, y0..y1)
-        .map_err(fe)?;
-    let xd = tick_decimals(x1 - x0);
-    let yd = tick_decimals(y1 - y0);
-    chart
-        .configure_mesh()
-        .x_desc("1000 K / T")
-        .y_desc("ln K")
-        .x_label_formatter(&|v| num(*v, xd))
-        .y_label_formatter(&|v| num(*v, yd))
-        .label_style((FONT, TICK_SIZE))
-        .axis_desc_style((FONT, DESC_SIZE))
-        .bold_line_style(RGBColor(200, 200, 200).stroke_width(1))
-        .light_line_style(TRANSPARENT)
-        .draw()
-        .map_err(fe)?;
+    let mut chart = framed_chart(
+        root,
+        Frame {
+            x: (x0, x1),
+            y: (y0, y1),
+            x_desc: "1000 K / T",
+            y_desc: "ln K",
+            left: 72,
+            top: 70,
+            y_decimals: None,
+        },
+    )?;
     // Top axis: round temperatures in the user's unit, placed on the 1000/T scale.
     let tick_style = (FONT, TICK_SIZE).into_font().color(&INK);
     let (left, top) = chart.backend_coord(&(x0, y1));
@@ -433,8 +472,8 @@ fn vant_hoff(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
 
 /// Draws error bars, used points (filled), excluded points (hollow), flag rings and row
 /// labels for excluded or flagged points, with legend entries for what is present.
-fn draw_points<'a, CT>(
-    chart: &mut ChartContext<'a, SVGBackend<'a>, CT>,
+fn draw_points<'a, 'b, CT>(
+    chart: &mut ChartContext<'a, SVGBackend<'b>, CT>,
     input: &ReportInput,
     pos: impl Fn(&isochore_fit::PointDiagnostics) -> (f64, f64),
     sigma: impl Fn(&isochore_fit::PointDiagnostics) -> Option<f64>,
@@ -528,27 +567,18 @@ fn residuals(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
     let (ylo, yhi) = finite_range(ys).unwrap_or((-1.0, 1.0));
     let m = ylo.abs().max(yhi.abs()).max(1e-9) * 1.18;
     let (y0, y1) = (-m, m);
-    let mut chart = ChartBuilder::on(root)
-        .margin(14)
-        .margin_right(24)
-        .set_label_area_size(LabelAreaPosition::Left, 80)
-        .set_label_area_size(LabelAreaPosition::Bottom, 58)
-        .build_cartesian_2d(x0..x1, y0..y1)
-        .map_err(fe)?;
-    let xd = tick_decimals(x1 - x0);
-    let yd = tick_decimals(y1 - y0);
-    chart
-        .configure_mesh()
-        .x_desc(format!("temperature / {}", tu.symbol()))
-        .y_desc("residual ln K − fitted")
-        .x_label_formatter(&|v| num(*v, xd))
-        .y_label_formatter(&|v| num(*v, yd))
-        .label_style((FONT, TICK_SIZE))
-        .axis_desc_style((FONT, DESC_SIZE))
-        .bold_line_style(RGBColor(200, 200, 200).stroke_width(1))
-        .light_line_style(TRANSPARENT)
-        .draw()
-        .map_err(fe)?;
+    let mut chart = framed_chart(
+        root,
+        Frame {
+            x: (x0, x1),
+            y: (y0, y1),
+            x_desc: &format!("temperature / {}", tu.symbol()),
+            y_desc: "residual ln K − fitted",
+            left: 80,
+            top: 14,
+            y_decimals: None,
+        },
+    )?;
     chart
         .draw_series(std::iter::once(PathElement::new(
             vec![(x0, 0.0), (x1, 0.0)],
@@ -605,26 +635,18 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
     let x1 = (h_max.max(h_thr) * 1.15).clamp(0.05, 1.0);
     let r_max = used.iter().map(|u| u.2.abs()).fold(0.0f64, f64::max);
     let ylim = (r_max * 1.15).max(th.outlier_studentized + 0.6);
-    let mut chart = ChartBuilder::on(root)
-        .margin(14)
-        .margin_right(24)
-        .set_label_area_size(LabelAreaPosition::Left, 72)
-        .set_label_area_size(LabelAreaPosition::Bottom, 58)
-        .build_cartesian_2d(0.0..x1, -ylim..ylim)
-        .map_err(fe)?;
-    let xd = tick_decimals(x1);
-    chart
-        .configure_mesh()
-        .x_desc("leverage h")
-        .y_desc("internally studentized residual")
-        .x_label_formatter(&|v| num(*v, xd))
-        .y_label_formatter(&|v| num(*v, 1))
-        .label_style((FONT, TICK_SIZE))
-        .axis_desc_style((FONT, DESC_SIZE))
-        .bold_line_style(RGBColor(200, 200, 200).stroke_width(1))
-        .light_line_style(TRANSPARENT)
-        .draw()
-        .map_err(fe)?;
+    let mut chart = framed_chart(
+        root,
+        Frame {
+            x: (0.0, x1),
+            y: (-ylim, ylim),
+            x_desc: "leverage h",
+            y_desc: "internally studentized residual",
+            left: 72,
+            top: 14,
+            y_decimals: Some(1),
+        },
+    )?;
     // Reference lines: residual ±threshold, leverage threshold.
     let dotted = GREY.stroke_width(2);
     for y in [th.outlier_studentized, -th.outlier_studentized, 0.0] {
@@ -745,27 +767,18 @@ fn ellipse(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
     };
     let (x0, x1) = padded(xr, 0.12);
     let (y0, y1) = padded(yr, 0.12);
-    let mut chart = ChartBuilder::on(root)
-        .margin(14)
-        .margin_right(24)
-        .set_label_area_size(LabelAreaPosition::Left, 80)
-        .set_label_area_size(LabelAreaPosition::Bottom, 58)
-        .build_cartesian_2d(x0..x1, y0..y1)
-        .map_err(fe)?;
-    let xd = tick_decimals(x1 - x0);
-    let yd = tick_decimals(y1 - y0);
-    chart
-        .configure_mesh()
-        .x_desc(format!("ΔH° / ({})", input.energy_unit.symbol()))
-        .y_desc(format!("ΔS° / ({s_unit})"))
-        .x_label_formatter(&|v| num(*v, xd))
-        .y_label_formatter(&|v| num(*v, yd))
-        .label_style((FONT, TICK_SIZE))
-        .axis_desc_style((FONT, DESC_SIZE))
-        .bold_line_style(RGBColor(200, 200, 200).stroke_width(1))
-        .light_line_style(TRANSPARENT)
-        .draw()
-        .map_err(fe)?;
+    let mut chart = framed_chart(
+        root,
+        Frame {
+            x: (x0, x1),
+            y: (y0, y1),
+            x_desc: &format!("ΔH° / ({})", input.energy_unit.symbol()),
+            y_desc: &format!("ΔS° / ({s_unit})"),
+            left: 80,
+            top: 14,
+            y_decimals: None,
+        },
+    )?;
     let level = num(fit.options.level * 100.0, 1)
         .trim_end_matches(".0")
         .to_string();
