@@ -1,0 +1,139 @@
+//! Every format renders from one synthetic fit and is readable by an independent parser
+//! (roxmltree for SVG, lopdf for PDF, the PNG signature and its resolution chunk), the
+//! numbers in the tables are the fit's, hostile text stays text, a full set is written with
+//! nothing half-written left behind, and inconsistent input is refused with a typed error.
+
+use isochore_fit::{fit, EnergyUnit, FitOptions, Measurement, TemperatureUnit, GAS_CONSTANT};
+use isochore_report::{
+    render, write_report_set, FigureKind, ReportError, ReportFormat, ReportInput, ReportRow,
+};
+
+fn input(name: &str) -> ReportInput {
+    // Exact data with ΔH° = −30 kJ/mol, ΔS° = −20 J/(mol K), plus a small alternating wobble
+    // so the fit has residual scatter (values invented for the test).
+    let temps = [283.15, 288.15, 293.15, 298.15, 303.15, 308.15, 313.15];
+    let mut m: Vec<Measurement> = temps
+        .iter()
+        .enumerate()
+        .map(|(i, &t)| {
+            let wobble = if i % 2 == 0 { 0.01 } else { -0.01 };
+            Measurement::new(t, 30e3 / (GAS_CONSTANT * t) - 20.0 / GAS_CONSTANT + wobble)
+                .with_sigma(0.02)
+        })
+        .collect();
+    m[3].included = false;
+    let f = fit(&m, &FitOptions::default()).unwrap();
+    let rows = m
+        .iter()
+        .enumerate()
+        .map(|(i, p)| ReportRow {
+            row: i + 1,
+            line: i + 2,
+            cells: vec![format!("{}", p.t_k), format!("{}", p.ln_k)],
+            t_k: p.t_k,
+            ln_k: p.ln_k,
+            sigma_ln_k: p.sigma_ln_k,
+            included: p.included,
+            exclusion_reason: (!p.included).then(|| "bubble in the cell <b>".to_string()),
+        })
+        .collect();
+    ReportInput {
+        title: format!("Report for {name}"),
+        series_name: name.to_string(),
+        source_name: "test.csv".into(),
+        source_sha256: "00".repeat(32),
+        headers: vec!["T/K".into(), "ln K".into()],
+        rows,
+        conversions: vec!["none".into()],
+        fit: f,
+        energy_unit: EnergyUnit::KilocaloriePerMole,
+        temperature_unit: TemperatureUnit::Celsius,
+        program_version: "test".into(),
+        settings: vec![],
+    }
+}
+
+#[test]
+fn all_formats_render_and_escape() {
+    let hostile = "<script>alert(1)</script>";
+    let inp = input(hostile);
+    let html = String::from_utf8(render(&inp, ReportFormat::Html).unwrap()).unwrap();
+    assert!(html.contains("&lt;script&gt;alert(1)&lt;/script&gt;"));
+    assert!(!html.contains("<script"));
+    assert!(html.contains("bubble in the cell &lt;b&gt;"));
+    assert!(html.contains("kcal/mol"));
+    let md = String::from_utf8(render(&inp, ReportFormat::Markdown).unwrap()).unwrap();
+    assert!(!md.contains("<script"));
+    let pdf = render(&inp, ReportFormat::Pdf).unwrap();
+    assert!(pdf.starts_with(b"%PDF"));
+    assert!(!lopdf::Document::load_mem(&pdf)
+        .unwrap()
+        .get_pages()
+        .is_empty());
+    for kind in FigureKind::ALL {
+        let svg = String::from_utf8(render(&inp, ReportFormat::FigureSvg(kind)).unwrap()).unwrap();
+        roxmltree::Document::parse(&svg).unwrap();
+        let png = render(&inp, ReportFormat::FigurePng(kind)).unwrap();
+        assert!(png.starts_with(b"\x89PNG\r\n\x1a\n"));
+        // 300 dpi = 11811 pixels per metre (300 / 0.0254, rounded), unit byte 1 = metre
+        // (PNG specification, W3C 2003, section 11.3.5.3 pHYs).
+        let phys = png
+            .windows(4)
+            .position(|w| w == b"pHYs")
+            .expect("a pHYs chunk");
+        let ppm = u32::from_be_bytes(png[phys + 4..phys + 8].try_into().unwrap());
+        assert_eq!(ppm, 11811, "{kind:?}");
+        assert_eq!(png[phys + 12], 1);
+    }
+    let data = String::from_utf8(render(&inp, ReportFormat::DataCsv).unwrap()).unwrap();
+    assert_eq!(data.lines().count(), 8);
+    let res = String::from_utf8(render(&inp, ReportFormat::ResultsCsv).unwrap()).unwrap();
+    // ΔH° in kcal/mol: −30 kJ/mol / 4.184 = −7.17 kcal/mol (definition of the calorie).
+    let dh: f64 = res
+        .lines()
+        .nth(1)
+        .unwrap()
+        .split(',')
+        .nth(1)
+        .unwrap()
+        .parse()
+        .unwrap();
+    assert!((dh + 30.0 / 4.184).abs() < 0.05, "{dh}");
+    // And exactly the fit's own value, converted (the table adds no arithmetic of its own).
+    let want = inp.fit.delta_h().value / 4184.0;
+    assert!((dh - want).abs() <= 1e-3 * want.abs(), "{dh} vs {want}");
+}
+
+#[test]
+fn a_full_set_is_written_and_nothing_half_written_is_left() {
+    let inp = input("set");
+    let dir = tempfile::tempdir().unwrap();
+    let written = write_report_set(&inp, dir.path(), "set").unwrap();
+    // HTML, PDF, Markdown, two CSV tables, and each figure as SVG and PNG (the Markdown
+    // figures are the same SVG files or further ones beside it).
+    assert!(
+        written.len() >= 5 + 2 * FigureKind::ALL.len(),
+        "{written:?}"
+    );
+    for p in &written {
+        let len = std::fs::metadata(p).unwrap().len();
+        assert!(len > 0, "{} is empty", p.display());
+    }
+    for entry in std::fs::read_dir(dir.path()).unwrap() {
+        let name = entry.unwrap().file_name().to_string_lossy().into_owned();
+        assert!(!name.ends_with(".tmp"), "temporary file left: {name}");
+    }
+    let html = std::fs::read_to_string(dir.path().join("set.html")).unwrap();
+    assert!(html.contains("<svg"), "figures are inline");
+    assert!(!html.contains("<script"), "no scripts");
+}
+
+#[test]
+fn mismatched_rows_are_an_error() {
+    let mut inp = input("x");
+    inp.rows.pop();
+    assert!(matches!(
+        render(&inp, ReportFormat::Html),
+        Err(ReportError::Input(_))
+    ));
+}
