@@ -4,6 +4,9 @@
 //! included. The fit of the million points runs once, before timing, on the worker
 //! thread; its duration is printed.
 //!
+//! A second group times the decimation alone on the same million points: one pass over
+//! every visible point against the block index the window uses.
+//!
 //! Run: `cargo bench -p isochore-gui --bench frames`.
 
 use criterion::{criterion_group, criterion_main, Criterion};
@@ -104,5 +107,34 @@ fn frames(c: &mut Criterion) {
     );
 }
 
-criterion_group!(benches, frames);
+fn decimation(c: &mut Criterion) {
+    let n = 1_000_000usize;
+    // x = 10³/T for 5–45 °C, y with a deterministic wiggle: a sorted, dense series.
+    let xs: Vec<f64> = (0..n)
+        .map(|i| 1e3 / (278.15 + 40.0 * i as f64 / n as f64))
+        .collect();
+    let ys: Vec<f64> = (0..n)
+        .map(|i| 3.0 * xs[i] - 5.0 + 0.05 * ((i * 7919) % 101) as f64 / 101.0)
+        .collect();
+    let mut order: Vec<u32> = (0..n as u32).collect();
+    order.sort_by(|&a, &b| xs[a as usize].total_cmp(&xs[b as usize]));
+    let start = Instant::now();
+    let index =
+        isochore_gui::decimate::EnvelopeIndex::new((0..n).map(|i| (i as u32, xs[i], ys[i])));
+    eprintln!(
+        "envelope index of 10⁶ points built in {:.2?}",
+        start.elapsed()
+    );
+    let (lo, hi) = index.x_range().expect("points");
+    let mut group = c.benchmark_group("decimation, 10^6 points to 1000 columns");
+    group.sample_size(20);
+    group.measurement_time(Duration::from_secs(5));
+    group.bench_function("one pass over the points", |b| {
+        b.iter(|| isochore_gui::decimate::envelope(&|i| xs[i], &|i| ys[i], &order, lo, hi, 1000))
+    });
+    group.bench_function("block index", |b| b.iter(|| index.envelope(lo, hi, 1000)));
+    group.finish();
+}
+
+criterion_group!(benches, frames, decimation);
 criterion_main!(benches);

@@ -204,7 +204,7 @@ impl Workbench {
             links: Links::default(),
             table: TablePanel::default(),
             plot: PlotPanel::default(),
-            diagnostics: DiagnosticsPanel,
+            diagnostics: DiagnosticsPanel::default(),
             results: ResultsPanel,
             predict: PredictPanel::default(),
             settings: SettingsPanel::default(),

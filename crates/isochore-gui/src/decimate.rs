@@ -2,8 +2,175 @@
 //! highest point, so a million-point series draws as at most two points per column and
 //! still shows its full visual envelope (every column's extent is exact; no outlier
 //! disappears). This is a rendering step, not a statistic.
+//!
+//! [`EnvelopeIndex`] keeps the points sorted by x with the lowest and highest point of
+//! every block of [`BLOCK`] consecutive points, built once per fit (off the UI thread for
+//! large series). A view then costs a binary search per pixel column plus one step per
+//! block, instead of a pass over every visible point, so panning a million points stays
+//! within a frame; the result is the same, point for point, as a full scan.
 
-/// Reduces points sorted by x to at most two per pixel column in `[x_min, x_max]`.
+/// Points per block of the summary.
+pub const BLOCK: usize = 64;
+
+/// Points sorted by x, with the extremes of each block of [`BLOCK`] points.
+#[derive(Debug, Clone, Default)]
+pub struct EnvelopeIndex {
+    xs: Vec<f64>,
+    ys: Vec<f64>,
+    ids: Vec<u32>,
+    /// Per block: positions (in sorted order) of its first lowest and first highest y.
+    blocks: Vec<(u32, u32)>,
+}
+
+impl EnvelopeIndex {
+    /// Builds the index from `(id, x, y)` triples; points with a non-finite coordinate are
+    /// left out (they cannot be drawn). Ties in x keep the ids in ascending order.
+    pub fn new(points: impl IntoIterator<Item = (u32, f64, f64)>) -> Self {
+        let mut pts: Vec<(u32, f64, f64)> = points
+            .into_iter()
+            .filter(|(_, x, y)| x.is_finite() && y.is_finite())
+            .collect();
+        pts.sort_by(|a, b| a.1.total_cmp(&b.1).then(a.0.cmp(&b.0)));
+        let xs: Vec<f64> = pts.iter().map(|p| p.1).collect();
+        let ys: Vec<f64> = pts.iter().map(|p| p.2).collect();
+        let ids: Vec<u32> = pts.iter().map(|p| p.0).collect();
+        let blocks = ys
+            .chunks(BLOCK)
+            .enumerate()
+            .map(|(b, chunk)| {
+                let (lo, hi) = extremes(chunk, 0, chunk.len());
+                ((b * BLOCK + lo) as u32, (b * BLOCK + hi) as u32)
+            })
+            .collect();
+        EnvelopeIndex {
+            xs,
+            ys,
+            ids,
+            blocks,
+        }
+    }
+
+    /// Number of drawable points.
+    pub fn len(&self) -> usize {
+        self.xs.len()
+    }
+
+    /// Whether there is nothing to draw.
+    pub fn is_empty(&self) -> bool {
+        self.xs.is_empty()
+    }
+
+    /// The smallest and largest x.
+    pub fn x_range(&self) -> Option<(f64, f64)> {
+        Some((*self.xs.first()?, *self.xs.last()?))
+    }
+
+    /// The ids of at most two points per pixel column in `[x_min, x_max]`, split into
+    /// `columns` equal columns: each column's lowest and highest point (one when they
+    /// coincide), columns left to right, the lower first. Identical to [`envelope`] over
+    /// the same points.
+    pub fn envelope(&self, x_min: f64, x_max: f64, columns: usize) -> Vec<u32> {
+        let columns = columns.max(1);
+        let span = x_max - x_min;
+        let mut out = Vec::new();
+        if self.xs.is_empty() || !span.is_finite() || span <= 0.0 {
+            return out;
+        }
+        let scale = columns as f64 / span;
+        let col_of = |x: f64| column(x, x_min, scale, columns);
+        let start = self.xs.partition_point(|&x| x < x_min);
+        let end = self.xs.partition_point(|&x| x <= x_max);
+        out.reserve(2 * columns.min(end.saturating_sub(start)));
+        let mut a = start;
+        while a < end {
+            let c = col_of(self.xs[a]);
+            let b = gallop(&self.xs, a, end, |x| col_of(x) <= c);
+            let (lo, hi) = self.extremes_between(a, b);
+            out.push(self.ids[lo]);
+            if hi != lo {
+                out.push(self.ids[hi]);
+            }
+            a = b;
+        }
+        out
+    }
+
+    /// Positions of the first lowest and first highest y in `a..b` (non-empty).
+    fn extremes_between(&self, a: usize, b: usize) -> (usize, usize) {
+        let first_full = a.div_ceil(BLOCK);
+        let last_full = b / BLOCK;
+        if first_full >= last_full {
+            return extremes(&self.ys, a, b);
+        }
+        let ys = &self.ys;
+        let (mut lo, mut hi) = if a < first_full * BLOCK {
+            extremes(ys, a, first_full * BLOCK)
+        } else {
+            let (l, h) = self.blocks[first_full];
+            (l as usize, h as usize)
+        };
+        let mut take = |l: usize, h: usize| {
+            if ys[l] < ys[lo] {
+                lo = l;
+            }
+            if ys[h] > ys[hi] {
+                hi = h;
+            }
+        };
+        for &(l, h) in &self.blocks[first_full..last_full] {
+            take(l as usize, h as usize);
+        }
+        if last_full * BLOCK < b {
+            let (l, h) = extremes(ys, last_full * BLOCK, b);
+            take(l, h);
+        }
+        (lo, hi)
+    }
+}
+
+/// The first position in `a..end` where `inside` turns false, given it holds at `a` and
+/// is monotone: steps of doubling length from `a`, then a binary search. The next column
+/// boundary is near, so this reads memory close to `a` (cache-friendly) instead of
+/// bisecting the whole array.
+fn gallop(xs: &[f64], a: usize, end: usize, inside: impl Fn(f64) -> bool) -> usize {
+    let mut lo = a + 1;
+    let mut step = 1;
+    let hi = loop {
+        let probe = a + step;
+        if probe >= end {
+            break end;
+        }
+        if !inside(xs[probe]) {
+            break probe;
+        }
+        lo = probe + 1;
+        step *= 2;
+    };
+    lo + xs[lo..hi].partition_point(|&x| inside(x))
+}
+
+/// The pixel column of `x`, with `scale` = columns / span (callers keep `x` ≥ `x_min`, so
+/// truncation is the floor; a NaN lands in column 0).
+fn column(x: f64, x_min: f64, scale: f64, columns: usize) -> usize {
+    (((x - x_min) * scale) as usize).min(columns - 1)
+}
+
+/// Positions of the first lowest and first highest value in `ys[a..b]` (non-empty).
+fn extremes(ys: &[f64], a: usize, b: usize) -> (usize, usize) {
+    let (mut lo, mut hi) = (a, a);
+    for i in a + 1..b {
+        if ys[i] < ys[lo] {
+            lo = i;
+        }
+        if ys[i] > ys[hi] {
+            hi = i;
+        }
+    }
+    (lo, hi)
+}
+
+/// Reduces points sorted by x to at most two per pixel column in `[x_min, x_max]` by one
+/// pass over the visible points (the reference for [`EnvelopeIndex::envelope`]).
 ///
 /// `order` lists indices into `xs`/`ys` sorted by x; `columns` is the plot width in
 /// pixels. Points outside the x range are skipped, and non-finite ones ignored. Each
@@ -44,8 +211,7 @@ pub fn envelope(
         if !y.is_finite() || !x.is_finite() {
             continue;
         }
-        let col = (((x - x_min) / span) * columns as f64).floor() as usize;
-        let col = col.min(columns - 1);
+        let col = column(x, x_min, columns as f64 / span, columns);
         if current != Some(col) {
             if current.is_some() {
                 flush(&mut out, lo, hi);
@@ -71,7 +237,6 @@ pub fn envelope(
     }
     out
 }
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -113,5 +278,49 @@ mod tests {
             envelope(&|i| xs[i], &|i| xs[i], &order, 0.0, 3.0, 0).len(),
             2
         );
+    }
+
+    #[test]
+    fn the_index_gives_the_same_points_as_a_full_scan() {
+        // Deterministic scattered data with repeated x and y values (ties) and a few
+        // non-finite values, queried over many ranges and widths.
+        let n = 20_000usize;
+        let mut state: u64 = 0x9e37_79b9_7f4a_7c15;
+        let mut next = || {
+            state ^= state << 13;
+            state ^= state >> 7;
+            state ^= state << 17;
+            state
+        };
+        let mut xs: Vec<f64> = (0..n).map(|_| (next() % 5_000) as f64 / 100.0).collect();
+        let mut ys: Vec<f64> = (0..n).map(|_| (next() % 300) as f64 - 150.0).collect();
+        ys[17] = f64::NAN;
+        ys[4_000] = f64::INFINITY;
+        xs[99] = f64::NAN;
+        let mut order: Vec<u32> = (0..n as u32)
+            .filter(|&i| !xs[i as usize].is_nan())
+            .collect();
+        order.sort_by(|&a, &b| xs[a as usize].total_cmp(&xs[b as usize]).then(a.cmp(&b)));
+        let index = EnvelopeIndex::new((0..n).map(|i| (i as u32, xs[i], ys[i])));
+        assert_eq!(index.len(), n - 3);
+        assert_eq!(index.x_range(), Some((0.0, 49.99)));
+        for (lo, hi, cols) in [
+            (0.0, 49.99, 1000),
+            (0.0, 49.99, 1),
+            (3.3, 3.31, 640),
+            (-10.0, 80.0, 777),
+            (12.345, 40.0, 64),
+            (20.0, 20.5, 5000),
+            (60.0, 70.0, 100),
+        ] {
+            let full = envelope(&|i| xs[i], &|i| ys[i], &order, lo, hi, cols);
+            assert_eq!(
+                index.envelope(lo, hi, cols),
+                full,
+                "range {lo}..{hi}, {cols} columns"
+            );
+        }
+        assert!(index.envelope(5.0, 5.0, 10).is_empty());
+        assert!(EnvelopeIndex::default().envelope(0.0, 1.0, 10).is_empty());
     }
 }

@@ -3,6 +3,7 @@
 //! screen and a progress note until the new one arrives. The numbers all come from
 //! `isochore_fit`; this module only schedules the calls and orders points for drawing.
 
+use crate::decimate::EnvelopeIndex;
 use crate::doc::Series;
 use isochore_fit::{BandPoint, Measurement, VantHoffFit};
 use std::collections::HashMap;
@@ -33,12 +34,13 @@ pub struct Analysis {
     pub band: Vec<BandPoint>,
     /// The joint (ΔH°, ΔS°) confidence region at the fit's level.
     pub ellipse: Option<Vec<[f64; 2]>>,
-    /// Row indices sorted by 1/T (for decimated drawing).
-    pub order_by_inv_t: Vec<u32>,
-    /// Row indices sorted by T (large series only; for the residual plot).
-    pub order_by_t: Vec<u32>,
-    /// Row indices of used points sorted by leverage (large series only; influence view).
-    pub order_by_leverage: Vec<u32>,
+    /// Large series only (else empty): points by 10³/T with ln K, for decimated drawing
+    /// of the van 't Hoff plot.
+    pub vh_index: EnvelopeIndex,
+    /// Large series only: points by T (kelvin) with their residual (residual plot).
+    pub resid_index: EnvelopeIndex,
+    /// Large series only: points with a studentized residual, by leverage (influence view).
+    pub infl_index: EnvelopeIndex,
     /// Data extent on the van 't Hoff plot: [min 10³/T, max 10³/T, min ln K, max ln K].
     pub extent: Option<[f64; 4]>,
     /// Cook's-distance contours for the influence view: (D, upper branch points (h, r)).
@@ -59,9 +61,9 @@ pub fn analyse(series: &Series) -> Analysis {
                 fit: Err(e),
                 band: Vec::new(),
                 ellipse: None,
-                order_by_inv_t: Vec::new(),
-                order_by_t: Vec::new(),
-                order_by_leverage: Vec::new(),
+                vh_index: EnvelopeIndex::default(),
+                resid_index: EnvelopeIndex::default(),
+                infl_index: EnvelopeIndex::default(),
                 extent: None,
                 cooks_contours: Vec::new(),
             }
@@ -87,29 +89,27 @@ pub fn analyse(series: &Series) -> Analysis {
         }
         Err(_) => (Vec::new(), None, Vec::new()),
     };
-    let mut order: Vec<u32> = (0..measurements.len() as u32).collect();
-    order.sort_by(|&a, &b| {
-        let xa = 1.0 / measurements[a as usize].t_k;
-        let xb = 1.0 / measurements[b as usize].t_k;
-        xa.total_cmp(&xb)
-    });
-    let (order_by_t, order_by_leverage) = match &fit {
-        Ok(f) if measurements.len() > crate::panels::vh_plot::DECIMATE_ABOVE => {
-            let by_t: Vec<u32> = order.iter().rev().copied().collect();
-            let mut by_h: Vec<u32> = f
-                .points
+    let large = measurements.len() > crate::panels::vh_plot::DECIMATE_ABOVE;
+    let vh_index = if large {
+        EnvelopeIndex::new(
+            measurements
                 .iter()
-                .filter(|d| d.student_int.is_some())
-                .map(|d| d.index as u32)
-                .collect();
-            by_h.sort_by(|&a, &b| {
-                f.points[a as usize]
-                    .leverage
-                    .total_cmp(&f.points[b as usize].leverage)
-            });
-            (by_t, by_h)
-        }
-        _ => (Vec::new(), Vec::new()),
+                .enumerate()
+                .map(|(k, m)| (k as u32, 1e3 / m.t_k, m.ln_k)),
+        )
+    } else {
+        EnvelopeIndex::default()
+    };
+    let (resid_index, infl_index) = match &fit {
+        Ok(f) if large => (
+            EnvelopeIndex::new(f.points.iter().map(|d| (d.index as u32, d.t_k, d.residual))),
+            EnvelopeIndex::new(
+                f.points
+                    .iter()
+                    .filter_map(|d| d.student_int.map(|r| (d.index as u32, d.leverage, r))),
+            ),
+        ),
+        _ => (EnvelopeIndex::default(), EnvelopeIndex::default()),
     };
     let extent = measurements.iter().fold(None, |acc: Option<[f64; 4]>, m| {
         let x = 1e3 / m.t_k;
@@ -127,9 +127,9 @@ pub fn analyse(series: &Series) -> Analysis {
         fit,
         band,
         ellipse,
-        order_by_inv_t: order,
-        order_by_t,
-        order_by_leverage,
+        vh_index,
+        resid_index,
+        infl_index,
         cooks_contours: contours,
     }
 }

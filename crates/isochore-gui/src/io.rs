@@ -62,12 +62,19 @@ impl ImportPreview {
         Ok(())
     }
 
-    /// The series this import adds to a project.
+    /// The series this import adds to a project. A data set with no uncertainty column
+    /// starts with equal weights (inverse-variance weights need σ), as the command line
+    /// does; the chemist can change it in the settings.
     pub fn series(&self) -> Vec<Series> {
         isochore_data::Project::from_import(&self.import)
             .series
             .into_iter()
-            .map(Series::new)
+            .map(|mut d| {
+                if d.mapping.uncertainty.is_none() {
+                    d.settings.fit.weighting = isochore_fit::Weighting::Unweighted;
+                }
+                Series::new(d)
+            })
             .collect()
     }
 }

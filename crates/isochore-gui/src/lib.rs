@@ -56,18 +56,33 @@ impl eframe::App for WindowApp {
     }
 }
 
+/// The application icon (assets/icons/isochore-256.png, drawn for Isochore), built into the
+/// binary so no file is needed at run time.
+pub const ICON_PNG: &[u8] = include_bytes!("../../../assets/icons/isochore-256.png");
+
+/// The window icon decoded from [`ICON_PNG`]; `None` (and the desktop's default icon) if it
+/// cannot be decoded.
+pub fn app_icon() -> Option<egui::IconData> {
+    eframe::icon_data::from_png_bytes(ICON_PNG).ok()
+}
+
 /// Opens the workbench window on `project` (a project file or a data file), or on the
 /// demo project when `None`. Blocks until the window closes.
 ///
 /// # Errors
 /// A message when no window can be opened (no display, no OpenGL).
 pub fn run(project: Option<PathBuf>) -> Result<(), String> {
+    let mut viewport = egui::ViewportBuilder::default()
+        .with_title("Isochore — van 't Hoff workbench")
+        .with_app_id("isochore")
+        .with_inner_size([1500.0, 950.0])
+        .with_min_inner_size([900.0, 600.0])
+        .with_drag_and_drop(true);
+    if let Some(icon) = app_icon() {
+        viewport = viewport.with_icon(icon);
+    }
     let options = eframe::NativeOptions {
-        viewport: egui::ViewportBuilder::default()
-            .with_title("Isochore — van 't Hoff workbench")
-            .with_inner_size([1500.0, 950.0])
-            .with_min_inner_size([900.0, 600.0])
-            .with_drag_and_drop(true),
+        viewport,
         renderer: eframe::Renderer::Glow,
         persist_window: true,
         ..Default::default()
@@ -98,4 +113,18 @@ pub fn run(project: Option<PathBuf>) -> Result<(), String> {
         }),
     )
     .map_err(|e| format!("The window could not be opened: {e}"))
+}
+
+#[cfg(test)]
+mod tests {
+    #[test]
+    fn the_icon_decodes_to_a_square_picture() {
+        let icon = super::app_icon().expect("icon decodes");
+        assert_eq!((icon.width, icon.height), (256, 256));
+        assert_eq!(icon.rgba.len(), 256 * 256 * 4);
+        // Corners are transparent (rounded tile), the centre is opaque.
+        assert_eq!(icon.rgba[3], 0);
+        let centre = (128 * 256 + 128) * 4;
+        assert_eq!(icon.rgba[centre + 3], 255);
+    }
 }

@@ -318,3 +318,190 @@ fn unsaved_work_is_autosaved_beside_the_project_and_offered_back() {
     assert!(!auto.exists());
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+/// Opens a menu and clicks one of its items, as a pointer would.
+fn menu_item(h: &mut Harness<'_, Workbench>, menu: &str, item: &str) {
+    h.get_by_label(menu).click();
+    h.run_steps(2);
+    h.get_by_label(item).click();
+    h.run_steps(2);
+}
+
+/// The value of the first "ΔH° at θ …" row of a results CSV written by isochore-report.
+fn delta_h_from_results_csv(text: &str) -> f64 {
+    let line = text
+        .lines()
+        .find(|l| l.starts_with("ΔH° at θ"))
+        .unwrap_or_else(|| panic!("no ΔH° row in:\n{text}"));
+    // quantity,value,se,ci_low,ci_high,unit — the quantity holds no comma.
+    line.split(',').nth(1).unwrap().parse().unwrap()
+}
+
+#[test]
+fn exporting_through_the_menu_writes_reports_with_the_library_delta_h() {
+    let dir = temp_dir("export");
+    let out = dir.join("reports");
+    let w = bench();
+    let (dh, _) = library_fit(&w, None, Model::Linear);
+    let mut h = harness(w);
+    menu_item(&mut h, "File", "Export report and figures…");
+    type_path_and_press(&mut h, &out, "Export");
+    // The dialog reports what it wrote.
+    assert!(
+        h.query_by_label_contains("files written to").is_some(),
+        "{:?} / {:?}",
+        h.state().files.error,
+        h.state().files.export_note
+    );
+    let stem = "qx-7-binding-halo-2";
+    for name in [
+        format!("{stem}.html"),
+        format!("{stem}.md"),
+        format!("{stem}.pdf"),
+        format!("{stem}-data.csv"),
+        format!("{stem}-results.csv"),
+        format!("{stem}-vanthoff.png"),
+        format!("{stem}-residuals.png"),
+        format!("{stem}-influence.png"),
+        format!("{stem}-ellipse.png"),
+    ] {
+        let p = out.join(&name);
+        let len = std::fs::metadata(&p)
+            .unwrap_or_else(|e| panic!("{} missing: {e}", p.display()))
+            .len();
+        assert!(len > 100, "{name} is only {len} bytes");
+    }
+    // The results table carries the library's ΔH° at full precision (kJ/mol).
+    let csv = std::fs::read_to_string(out.join(format!("{stem}-results.csv"))).unwrap();
+    let got = delta_h_from_results_csv(&csv);
+    assert!(
+        (got - dh / 1e3).abs() <= 1e-9 * (dh / 1e3).abs(),
+        "report {got} kJ/mol, library {} kJ/mol",
+        dh / 1e3
+    );
+    // The HTML and Markdown reports show the same value, rounded as the report rounds it.
+    let s = h.state().project.get(h.state().active.unwrap()).unwrap();
+    let fit = h.state().fitter.get(s.id).unwrap();
+    let fit = fit.fit.as_ref().unwrap();
+    let rows = isochore_report::content::result_rows_for(
+        fit,
+        s.data.settings.energy_unit,
+        s.data.settings.temperature_unit,
+    );
+    let shown = &rows[0];
+    assert!(shown.quantity.starts_with("ΔH°"));
+    assert!((shown.estimate.value - dh / 1e3).abs() < 1e-9);
+    let value = shown.cells()[0].clone();
+    for ext in ["html", "md"] {
+        let text = std::fs::read_to_string(out.join(format!("{stem}.{ext}"))).unwrap();
+        assert!(text.contains(&value), "{ext} report lacks ΔH° = {value}");
+    }
+    // The PDF and PNGs are what their names say (file signatures).
+    let pdf = std::fs::read(out.join(format!("{stem}.pdf"))).unwrap();
+    assert!(pdf.starts_with(b"%PDF-"));
+    let png = std::fs::read(out.join(format!("{stem}-vanthoff.png"))).unwrap();
+    assert!(png.starts_with(b"\x89PNG\r\n\x1a\n"));
+    let _ = std::fs::remove_dir_all(&dir);
+}
+
+/// An invented data set, as a spreadsheet puts it on the clipboard (tab-separated).
+const PASTED: &str =
+    "T/K\tK\n283.15\t5210\n290.15\t4180\n297.15\t3420\n304.15\t2790\n311.15\t2335\n318.15\t1930\n";
+
+/// ΔH° by isochore-fit straight from the numbers of [`PASTED`], with `options`.
+fn pasted_delta_h(options: &isochore_fit::FitOptions) -> f64 {
+    let m: Vec<isochore_fit::Measurement> = PASTED
+        .lines()
+        .skip(1)
+        .map(|l| {
+            let mut c = l.split('\t').map(|x| x.parse::<f64>().unwrap());
+            let (t, k) = (c.next().unwrap(), c.next().unwrap());
+            isochore_fit::Measurement::new(t, k.ln())
+        })
+        .collect();
+    isochore_fit::fit(&m, options).unwrap().delta_h().value
+}
+
+fn accept_import(h: &mut Harness<'_, Workbench>, n_before: usize) -> u64 {
+    assert!(h.state().files.preview.is_some(), "no import preview");
+    // Let the preview window settle its size (it is centred, so it moves while it grows).
+    h.run_steps(4);
+    h.get_by_label("Add to project").click();
+    h.run_steps(3);
+    let w = h.state();
+    assert_eq!(w.project.series.len(), n_before + 1);
+    let s = w.project.series.last().unwrap();
+    assert_eq!(w.active, Some(s.id), "the new series is made active");
+    s.id
+}
+
+#[test]
+fn pasting_a_table_imports_it_after_the_preview() {
+    let w = bench();
+    let n_before = w.project.series.len();
+    let mut h = harness(w);
+    // What egui-winit turns Ctrl+V into: a paste event with the clipboard's text.
+    h.input_mut()
+        .events
+        .push(egui::Event::Paste(PASTED.to_string()));
+    h.run_steps(2);
+    // The preview names the source and the recognised rows before anything is added.
+    assert!(h.query_by_label_contains("pasted text").is_some());
+    assert!(h.query_by_label_contains("6 rows read").is_some());
+    assert_eq!(h.state().project.series.len(), n_before);
+    let id = accept_import(&mut h, n_before);
+    let w = h.state();
+    let s = w.project.get(id).unwrap();
+    assert_eq!(s.n_rows(), 6);
+    assert_eq!(s.cell(5, 1), "1930");
+    // No uncertainty column: equal weights, as the command line does (weights need σ).
+    assert_eq!(s.options().weighting, isochore_fit::Weighting::Unweighted);
+    let dh = pasted_delta_h(s.options());
+    // Invented data with K falling as T rises: exothermic (a sign check on the scenario).
+    assert!(dh < 0.0);
+    h.get_by_label(&delta_h_label(dh));
+    // One undo takes the import back.
+    h.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::Z);
+    h.run_steps(3);
+    assert_eq!(h.state().project.series.len(), n_before);
+}
+
+#[test]
+fn a_file_dropped_on_the_window_is_imported() {
+    let dir = temp_dir("drop");
+    let path = dir.join("dropped.csv");
+    std::fs::write(&path, PASTED.replace('\t', ",")).unwrap();
+    let w = bench();
+    let n_before = w.project.series.len();
+    let mut h = harness(w);
+    // What egui-winit hands the frame when a file is dropped on the window.
+    h.input_mut().dropped_files.push(egui::DroppedFile {
+        path: Some(path.clone()),
+        ..Default::default()
+    });
+    h.run_steps(2);
+    assert!(h.query_by_label_contains("dropped.csv").is_some());
+    let id = accept_import(&mut h, n_before);
+    let w = h.state();
+    let s = w.project.get(id).unwrap();
+    assert_eq!(s.n_rows(), 6);
+    assert_eq!(w.prefs.recent.first(), Some(&path), "remembered as recent");
+    h.get_by_label(&delta_h_label(pasted_delta_h(s.options())));
+    // A dropped file that is not a table: an error naming it, the project untouched.
+    let before = h.state().project.clone();
+    let junk = dir.join("notes.csv");
+    std::fs::write(&junk, "just some words\nand more words\n").unwrap();
+    h.input_mut().dropped_files.push(egui::DroppedFile {
+        path: Some(junk),
+        ..Default::default()
+    });
+    h.run_steps(3);
+    let said = format!(
+        "{:?} {:?}",
+        h.state().messages,
+        h.state().files.preview.as_ref().map(|p| p.problems())
+    );
+    assert!(said.contains("notes.csv"), "{said}");
+    assert_eq!(h.state().project, before);
+    let _ = std::fs::remove_dir_all(&dir);
+}

@@ -4,14 +4,25 @@
 //! Hovering a point here highlights it everywhere.
 
 use crate::app::Cx;
-use crate::decimate::envelope;
 use crate::panels::style;
 use egui::RichText;
 use egui_plot::{HLine, Legend, Line, LineStyle, Plot, PlotPoint, Points, VLine};
 
-/// The diagnostic plots' state (none beyond egui's own plot memory).
+/// The diagnostic plots' state: the decimated rows of a large series, kept while the
+/// analysis and the plot width stay the same (both plots always show the whole series).
 #[derive(Debug, Default)]
-pub struct DiagnosticsPanel;
+pub struct DiagnosticsPanel {
+    decimated: Option<Decimated>,
+}
+
+/// Rows of the residual and influence plots of a large series, for one analysis and width.
+#[derive(Debug)]
+struct Decimated {
+    /// (series id, analysis revision, pixel columns).
+    key: (u64, u64, usize),
+    residual: Vec<usize>,
+    influence: Vec<usize>,
+}
 
 impl DiagnosticsPanel {
     /// Draws both plots side by side.
@@ -34,35 +45,24 @@ impl DiagnosticsPanel {
         let tu = s.data.settings.temperature_unit;
         let px = (ui.available_width() / 2.0).max(100.0) as usize;
         // Large series: the min/max envelope per pixel column along each plot's x axis.
-        let (resid_rows, infl_rows): (Vec<usize>, Vec<usize>) = if a.order_by_t.is_empty() {
-            (
-                (0..fit.points.len()).collect(),
-                (0..fit.points.len()).collect(),
-            )
+        let key = (s.id, a.rev, px);
+        let (resid_rows, infl_rows) = if a.resid_index.is_empty() {
+            let all: Vec<usize> = (0..fit.points.len()).collect();
+            (all.clone(), all)
         } else {
-            let pts = &fit.points;
-            let span = |order: &[u32], f: &dyn Fn(usize) -> f64| {
-                let first = order.first().map_or(0.0, |&i| f(i as usize));
-                let last = order.last().map_or(1.0, |&i| f(i as usize));
-                (first, last)
-            };
-            let xt = |i: usize| pts[i].t_k;
-            let (lo, hi) = span(&a.order_by_t, &xt);
-            let r = envelope(&xt, &|i| pts[i].residual, &a.order_by_t, lo, hi, px);
-            let xh = |i: usize| pts[i].leverage;
-            let (lo, hi) = span(&a.order_by_leverage, &xh);
-            let q = envelope(
-                &xh,
-                &|i| pts[i].student_int.unwrap_or(f64::NAN),
-                &a.order_by_leverage,
-                lo,
-                hi * (1.0 + 1e-12),
-                px,
-            );
-            (
-                r.into_iter().map(|i| i as usize).collect(),
-                q.into_iter().map(|i| i as usize).collect(),
-            )
+            match &self.decimated {
+                Some(d) if d.key == key => (d.residual.clone(), d.influence.clone()),
+                _ => {
+                    let residual = whole_envelope(&a.resid_index, px);
+                    let influence = whole_envelope(&a.infl_index, px);
+                    self.decimated = Some(Decimated {
+                        key,
+                        residual: residual.clone(),
+                        influence: influence.clone(),
+                    });
+                    (residual, influence)
+                }
+            }
         };
         let highlight: Vec<usize> = [cx.links.hovered, cx.links.selected]
             .into_iter()
@@ -217,6 +217,19 @@ impl DiagnosticsPanel {
             cx.links.next_hover = Some((s.id, row));
         }
     }
+}
+
+/// The envelope of a whole index across `px` pixel columns, as point indices.
+fn whole_envelope(index: &crate::decimate::EnvelopeIndex, px: usize) -> Vec<usize> {
+    index.x_range().map_or_else(Vec::new, |(lo, hi)| {
+        // All at one x: a single column.
+        let hi = if hi > lo { hi } else { lo + 1.0 };
+        index
+            .envelope(lo, hi, px)
+            .into_iter()
+            .map(|i| i as usize)
+            .collect()
+    })
 }
 
 fn nearest(

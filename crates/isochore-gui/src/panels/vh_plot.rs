@@ -7,7 +7,6 @@
 
 use crate::app::Cx;
 use crate::command::Command;
-use crate::decimate::envelope;
 use crate::doc::Series;
 use crate::fitting::Analysis;
 use crate::panels::style;
@@ -384,14 +383,7 @@ fn draw_points(
             lo = ext[0];
             hi = ext[1];
         }
-        let kept = envelope(
-            &|i| 1e3 / m[i].t_k,
-            &|i| m[i].ln_k,
-            &a.order_by_inv_t,
-            lo,
-            hi,
-            width_px,
-        );
+        let kept = a.vh_index.envelope(lo, hi, width_px);
         for i in kept {
             push(i as usize);
         }
