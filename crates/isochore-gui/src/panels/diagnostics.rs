@@ -6,7 +6,7 @@
 use crate::app::Cx;
 use crate::panels::style;
 use egui::RichText;
-use egui_plot::{HLine, Legend, Line, LineStyle, Plot, PlotPoint, Points, VLine};
+use egui_plot::{HLine, Line, LineStyle, Plot, PlotPoint, Points, Text, VLine};
 
 /// The diagnostic plots' state: the decimated rows of a large series, kept while the
 /// analysis and the plot width stay the same (both plots always show the whole series).
@@ -102,13 +102,18 @@ impl DiagnosticsPanel {
                     .collect();
                 let resp = Plot::new("residual_plot")
                     .height(h - 24.0)
-                    .x_axis_label(format!("T / {}", tu.symbol()))
-                    .y_axis_label("ln K − fit")
+                    .custom_x_axes(vec![style::x_axis(format!("T / {}", tu.symbol()))])
+                    .custom_y_axes(vec![style::y_axis("ln K − fit")])
                     .show_x(false)
                     .show_y(false)
                     .show(ui, |pu| {
                         pu.hline(HLine::new("", 0.0).color(color).width(1.0));
-                        pu.points(Points::new("used", used).shape(shape).color(color).radius(3.5));
+                        pu.points(
+                            Points::new("used", used)
+                                .shape(shape)
+                                .color(color)
+                                .radius(3.5),
+                        );
                         pu.points(
                             Points::new("excluded", excl)
                                 .shape(shape)
@@ -135,8 +140,18 @@ impl DiagnosticsPanel {
             // Influence: leverage against studentized residual.
             ui.vertical(|ui| {
                 ui.set_width(half);
-                ui.label(RichText::new("Influence: leverage against studentized residual").strong())
-                    .on_hover_text("Dashed curves: Cook's distance 0.5 and 1. Vertical line: the leverage flag threshold.");
+                ui.horizontal_wrapped(|ui| {
+                    ui.label(
+                        RichText::new("Influence: leverage against studentized residual").strong(),
+                    );
+                    ui.label(
+                        RichText::new(
+                            "dashed: Cook's distance · dotted: leverage flag · ring: flagged",
+                        )
+                        .small()
+                        .weak(),
+                    );
+                });
                 let mut marks = Vec::new();
                 let mut used = Vec::new();
                 let mut flagged = Vec::new();
@@ -157,13 +172,17 @@ impl DiagnosticsPanel {
                     .map(|(_, p)| *p)
                     .collect();
                 let p = fit.model().n_params() as f64;
-                let lev_threshold = fit.options.thresholds.leverage_factor * p / fit.n_used.max(1) as f64;
+                let lev_threshold =
+                    fit.options.thresholds.leverage_factor * p / fit.n_used.max(1) as f64;
                 let max_h = used.iter().map(|q| q[0]).fold(lev_threshold, f64::max);
+                // Contours are cut a little above the largest residual, so they do not
+                // stretch the axis (and squeeze the points) far beyond the data.
+                let r_lim = used.iter().map(|q| q[1].abs() * 1.2).fold(3.0, f64::max);
+                let ui_text = ui.visuals().weak_text_color();
                 let resp = Plot::new("influence_plot")
                     .height(h - 24.0)
-                    .x_axis_label("leverage h")
-                    .y_axis_label("stud. residual")
-                    .legend(Legend::default())
+                    .custom_x_axes(vec![style::x_axis("leverage h")])
+                    .custom_y_axes(vec![style::y_axis("stud. residual")])
                     .include_x(0.0)
                     .include_x((max_h * 1.15).min(1.0))
                     .include_y(-2.5)
@@ -173,10 +192,27 @@ impl DiagnosticsPanel {
                     .show(ui, |pu| {
                         let x_max = (max_h * 1.15).min(1.0);
                         for (d, curve) in &a.cooks_contours {
-                            let upper: Vec<[f64; 2]> =
-                                curve.iter().filter(|q| q[0] <= x_max && q[1] < 6.0).copied().collect();
-                            let lower: Vec<[f64; 2]> = upper.iter().map(|q| [q[0], -q[1]]).collect();
+                            let upper: Vec<[f64; 2]> = curve
+                                .iter()
+                                .filter(|q| q[0] <= x_max && q[1] <= r_lim)
+                                .copied()
+                                .collect();
+                            let lower: Vec<[f64; 2]> =
+                                upper.iter().map(|q| [q[0], -q[1]]).collect();
                             let name = format!("Cook's D = {d}");
+                            // Name each contour where it comes down through r = 2, where
+                            // the two curves stand apart (on the right they converge).
+                            if let Some(end) = upper.iter().find(|q| q[1] <= 2.0) {
+                                pu.text(
+                                    Text::new(
+                                        "",
+                                        PlotPoint::new(end[0], end[1]),
+                                        format!("D = {d}"),
+                                    )
+                                    .color(ui_text)
+                                    .anchor(egui::Align2::LEFT_BOTTOM),
+                                );
+                            }
                             pu.line(
                                 Line::new(name.clone(), upper)
                                     .style(LineStyle::Dashed { length: 6.0 })
@@ -195,9 +231,19 @@ impl DiagnosticsPanel {
                                 .color(flag.gamma_multiply(0.6))
                                 .style(LineStyle::Dotted { spacing: 4.0 }),
                         );
-                        pu.points(Points::new("used points", used).shape(shape).color(color).radius(3.5));
+                        pu.points(
+                            Points::new("used points", used)
+                                .shape(shape)
+                                .color(color)
+                                .radius(3.5),
+                        );
                         if !flagged.is_empty() {
-                            pu.points(Points::new("flagged", flagged).color(flag).filled(false).radius(8.0));
+                            pu.points(
+                                Points::new("flagged", flagged)
+                                    .color(flag)
+                                    .filled(false)
+                                    .radius(8.0),
+                            );
                         }
                         if !hl_pts.is_empty() {
                             pu.points(Points::new("", hl_pts).color(hl).filled(false).radius(10.0));

@@ -34,6 +34,8 @@ pub struct FilesPanel {
     pub error: Option<String>,
     /// The last export's result, in words.
     pub export_note: Option<String>,
+    /// Put the keyboard in the path field on the next frame (a dialog just opened).
+    focus_path: bool,
 }
 
 impl FilesPanel {
@@ -41,18 +43,21 @@ impl FilesPanel {
     pub fn ask_open(&mut self) {
         self.dialog = Some(PathDialog::Open);
         self.error = None;
+        self.focus_path = true;
     }
 
     /// Opens the "save as" dialog.
     pub fn ask_save_as(&mut self) {
         self.dialog = Some(PathDialog::SaveAs);
         self.error = None;
+        self.focus_path = true;
     }
 
     /// Opens the export dialog.
     pub fn ask_export(&mut self) {
         self.dialog = Some(PathDialog::Export);
         self.error = None;
+        self.focus_path = true;
     }
 
     /// Shows a preview for confirmation.
@@ -96,6 +101,9 @@ impl FilesPanel {
                             .desired_width(360.0),
                     );
                     r.widget_info(|| egui::WidgetInfo::labeled(egui::WidgetType::TextEdit, true, "path"));
+                    if std::mem::take(&mut self.focus_path) {
+                        r.request_focus();
+                    }
                     if r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter)) {
                         go = Some(PathBuf::from(self.path_text.trim()));
                     }

@@ -37,9 +37,7 @@ impl SettingsPanel {
                         shown,
                     });
                 }
-                let (rect, _) =
-                    ui.allocate_exact_size(egui::vec2(12.0, 12.0), egui::Sense::hover());
-                ui.painter().rect_filled(rect, 2.0, style::series_color(i));
+                style::marker_swatch(ui, i);
                 let active = cx.active == Some(s.id);
                 if ui
                     .selectable_label(active, s.name())

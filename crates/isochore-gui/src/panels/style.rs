@@ -49,6 +49,76 @@ pub fn shape_name(shape: MarkerShape) -> &'static str {
     }
 }
 
+/// Draws a series' marker (its shape, in its colour) in a small square, as in the plots:
+/// the key beside series names, so that colour is never the only cue.
+pub fn marker_swatch(ui: &mut egui::Ui, index: usize) -> egui::Response {
+    let (rect, resp) = ui.allocate_exact_size(egui::vec2(14.0, 14.0), egui::Sense::hover());
+    let c = rect.center();
+    let r = 5.0;
+    let color = series_color(index);
+    let p = ui.painter();
+    let poly = |pts: Vec<egui::Pos2>| egui::Shape::convex_polygon(pts, color, egui::Stroke::NONE);
+    let stroke = egui::Stroke::new(2.0, color);
+    match series_shape(index) {
+        MarkerShape::Square => {
+            p.rect_filled(
+                egui::Rect::from_center_size(c, egui::vec2(2.0 * r, 2.0 * r)),
+                0.0,
+                color,
+            );
+        }
+        MarkerShape::Diamond => {
+            p.add(poly(vec![
+                c + egui::vec2(0.0, -r),
+                c + egui::vec2(r, 0.0),
+                c + egui::vec2(0.0, r),
+                c + egui::vec2(-r, 0.0),
+            ]));
+        }
+        MarkerShape::Up => {
+            p.add(poly(vec![
+                c + egui::vec2(0.0, -r),
+                c + egui::vec2(r, r),
+                c + egui::vec2(-r, r),
+            ]));
+        }
+        MarkerShape::Down => {
+            p.add(poly(vec![
+                c + egui::vec2(-r, -r),
+                c + egui::vec2(r, -r),
+                c + egui::vec2(0.0, r),
+            ]));
+        }
+        MarkerShape::Asterisk | MarkerShape::Cross => {
+            p.line_segment([c + egui::vec2(-r, -r), c + egui::vec2(r, r)], stroke);
+            p.line_segment([c + egui::vec2(-r, r), c + egui::vec2(r, -r)], stroke);
+            if series_shape(index) == MarkerShape::Asterisk {
+                p.line_segment([c + egui::vec2(0.0, -r), c + egui::vec2(0.0, r)], stroke);
+            }
+        }
+        _ => {
+            p.circle_filled(c, r, color);
+        }
+    }
+    resp
+}
+
+/// Axis hints for the workbench's plots: tick labels are kept until they are 38 points
+/// apart (x) or 14 (y), so a short axis still shows several numbers (egui_plot's own
+/// defaults hide them below 60 and 20 points, which leaves short axes with a lone "0").
+pub fn x_axis(label: impl Into<egui::WidgetText>) -> egui_plot::AxisHints<'static> {
+    egui_plot::AxisHints::new_x()
+        .label(label)
+        .label_spacing(38.0..=54.0)
+}
+
+/// The y counterpart of [`x_axis`].
+pub fn y_axis(label: impl Into<egui::WidgetText>) -> egui_plot::AxisHints<'static> {
+    egui_plot::AxisHints::new_y()
+        .label(label)
+        .label_spacing(14.0..=22.0)
+}
+
 /// The colour used to mark flagged values (legible on light and dark backgrounds).
 pub fn flag_color(dark: bool) -> Color32 {
     if dark {

@@ -12,8 +12,8 @@ use crate::fitting::Analysis;
 use crate::panels::style;
 use egui::{Color32, RichText};
 use egui_plot::{
-    AxisHints, Legend, Line, LineStyle, MarkerShape, Plot, PlotPoint, PlotPoints, PlotTransform,
-    PlotUi, Points, Polygon, VPlacement,
+    AxisHints, Line, LineStyle, MarkerShape, Plot, PlotPoint, PlotPoints, PlotTransform, PlotUi,
+    Points, Polygon, VPlacement,
 };
 use std::sync::Arc;
 
@@ -92,6 +92,19 @@ impl PlotPanel {
             .filter(|(_, s)| s.shown || Some(s.id) == cx.active)
             .filter_map(|(i, s)| cx.fitter.get(s.id).map(|a| (i, s, a)))
             .collect();
+        // The key: one marker and name per series drawn (a legend inside the plot would
+        // cover points; the caption above says what fill, rings, shading and dashes mean).
+        ui.horizontal_wrapped(|ui| {
+            for (i, s, a) in &shown {
+                style::marker_swatch(ui, *i);
+                let text = match &a.fit {
+                    Ok(_) => s.name().to_string(),
+                    Err(_) => format!("{} (no fit)", s.name()),
+                };
+                ui.label(RichText::new(text).small());
+                ui.add_space(10.0);
+            }
+        });
         let mut extent: Option<[f64; 4]> = None;
         for (_, _, a) in &shown {
             if let Some(e) = a.extent {
@@ -109,6 +122,7 @@ impl PlotPanel {
         let top_axis = AxisHints::new_x()
             .label(format!("T / {}", t_unit.symbol()))
             .placement(VPlacement::Top)
+            .label_spacing(38.0..=54.0)
             .formatter(move |mark, _| {
                 if mark.value > 0.0 {
                     style::fixed(t_unit.from_kelvin(1e3 / mark.value), 1)
@@ -116,22 +130,10 @@ impl PlotPanel {
                     String::new()
                 }
             });
-        let bottom_axis = AxisHints::new_x().label("10³ K / T");
-        // Keep the legend in the corner the data leave free: ln K rises with 1/T when
-        // ΔH° < 0, leaving the upper left empty; otherwise the upper right.
-        let rising = active
-            .and_then(|s| cx.fitter.get(s.id))
-            .and_then(|a| a.fit.as_ref().ok().map(|f| f.delta_h().value < 0.0))
-            .unwrap_or(false);
-        let corner = if rising {
-            egui_plot::Corner::LeftTop
-        } else {
-            egui_plot::Corner::RightTop
-        };
+        let bottom_axis = style::x_axis("10³ K / T");
         let mut plot = Plot::new("vant_hoff_plot")
-            .legend(Legend::default().position(corner))
             .custom_x_axes(vec![bottom_axis, top_axis])
-            .y_axis_label("ln K")
+            .custom_y_axes(vec![style::y_axis("ln K")])
             .show_x(false)
             .show_y(false)
             .allow_double_click_reset(true);
@@ -157,7 +159,7 @@ impl PlotPanel {
             for (i, s, a) in &shown {
                 let color = style::series_color(*i);
                 let shape = style::series_shape(*i);
-                draw_fit(pu, s, a, color, level);
+                draw_fit(pu, s, a, color, level, dark);
                 drawn += draw_points(pu, s, a, color, shape, dark, &bounds, width_px, &mut marks);
             }
             for (sid, row) in &highlight {
@@ -285,12 +287,13 @@ fn pick(marks: &[Mark], t: &PlotTransform, p: egui::Pos2) -> Option<Mark> {
         .map(|(m, _)| *m)
 }
 
-fn draw_fit(pu: &mut PlotUi<'_>, s: &Series, a: &Analysis, color: Color32, level: f64) {
+fn draw_fit(pu: &mut PlotUi<'_>, s: &Series, a: &Analysis, color: Color32, level: f64, dark: bool) {
     if a.band.len() < 2 {
         return;
     }
     let ci_name = format!("{} — {:.0} % confidence band", s.name(), level * 100.0);
-    let fill = color.gamma_multiply(0.22);
+    // A dark background needs a stronger tint for the band to read.
+    let fill = color.gamma_multiply(if dark { 0.38 } else { 0.22 });
     for w in a.band.windows(2) {
         let (p, q) = (&w[0], &w[1]);
         let quad = vec![
