@@ -70,6 +70,13 @@ impl DiagnosticsPanel {
             .filter(|(sid, _)| *sid == s.id)
             .filter_map(|(_, r)| a.point_of_row.get(r).copied().flatten())
             .collect();
+        let look = Look {
+            color,
+            shape,
+            flag,
+            highlight: hl,
+            large: !a.resid_index.is_empty(),
+        };
         let h = ui.available_height().max(120.0);
         let w = ui.available_width();
         let mut hovered: Option<usize> = None;
@@ -108,30 +115,8 @@ impl DiagnosticsPanel {
                     .show_y(false)
                     .show(ui, |pu| {
                         pu.hline(HLine::new("", 0.0).color(color).width(1.0));
-                        pu.points(
-                            Points::new("used", used)
-                                .shape(shape)
-                                .color(color)
-                                .radius(3.5),
-                        );
-                        pu.points(
-                            Points::new("excluded", excl)
-                                .shape(shape)
-                                .color(color)
-                                .filled(false)
-                                .radius(4.0),
-                        );
-                        if !flagged.is_empty() {
-                            pu.points(
-                                Points::new("flagged", flagged)
-                                    .color(flag)
-                                    .filled(false)
-                                    .radius(8.0),
-                            );
-                        }
-                        if !hl_pts.is_empty() {
-                            pu.points(Points::new("", hl_pts).color(hl).filled(false).radius(10.0));
-                        }
+                        let all = marks.iter().map(|(_, p)| *p).collect();
+                        draw_marks(pu, &look, all, used, excl, flagged, hl_pts);
                     });
                 if let Some(p) = resp.response.hover_pos() {
                     hovered = nearest(&marks, &resp.transform, p);
@@ -231,23 +216,8 @@ impl DiagnosticsPanel {
                                 .color(flag.gamma_multiply(0.6))
                                 .style(LineStyle::Dotted { spacing: 4.0 }),
                         );
-                        pu.points(
-                            Points::new("used points", used)
-                                .shape(shape)
-                                .color(color)
-                                .radius(3.5),
-                        );
-                        if !flagged.is_empty() {
-                            pu.points(
-                                Points::new("flagged", flagged)
-                                    .color(flag)
-                                    .filled(false)
-                                    .radius(8.0),
-                            );
-                        }
-                        if !hl_pts.is_empty() {
-                            pu.points(Points::new("", hl_pts).color(hl).filled(false).radius(10.0));
-                        }
+                        let all = marks.iter().map(|(_, p)| *p).collect();
+                        draw_marks(pu, &look, all, used, Vec::new(), flagged, hl_pts);
                     });
                 if let Some(p) = resp.response.hover_pos() {
                     hovered = hovered.or(nearest(&marks, &resp.transform, p));
@@ -262,6 +232,65 @@ impl DiagnosticsPanel {
                 .unwrap_or(k);
             cx.links.next_hover = Some((s.id, row));
         }
+    }
+}
+
+/// How the points of both plots are drawn.
+struct Look {
+    color: egui::Color32,
+    shape: egui_plot::MarkerShape,
+    flag: egui::Color32,
+    highlight: egui::Color32,
+    /// A decimated series: envelope fill, small dots, flagged points as dots.
+    large: bool,
+}
+
+/// The points of one diagnostic plot: used filled, excluded hollow, flagged ringed (dots
+/// in the flag colour on a large series, where rings would merge), highlighted haloed.
+/// `all` is every drawn point in x order, for the envelope of a large series.
+fn draw_marks(
+    pu: &mut egui_plot::PlotUi<'_>,
+    look: &Look,
+    all: Vec<[f64; 2]>,
+    used: Vec<[f64; 2]>,
+    excluded: Vec<[f64; 2]>,
+    flagged: Vec<[f64; 2]>,
+    highlighted: Vec<[f64; 2]>,
+) {
+    let radius = if look.large { 1.5 } else { 3.5 };
+    if look.large {
+        style::envelope_fill(pu, "envelope", all, look.color);
+    }
+    pu.points(
+        Points::new("used", used)
+            .shape(look.shape)
+            .color(look.color)
+            .radius(radius),
+    );
+    if !excluded.is_empty() {
+        pu.points(
+            Points::new("excluded", excluded)
+                .shape(look.shape)
+                .color(look.color)
+                .filled(false)
+                .radius(radius + 0.5),
+        );
+    }
+    if !flagged.is_empty() {
+        pu.points(
+            Points::new("flagged", flagged)
+                .color(look.flag)
+                .filled(look.large)
+                .radius(if look.large { radius } else { 8.0 }),
+        );
+    }
+    if !highlighted.is_empty() {
+        pu.points(
+            Points::new("", highlighted)
+                .color(look.highlight)
+                .filled(false)
+                .radius(10.0),
+        );
     }
 }
 

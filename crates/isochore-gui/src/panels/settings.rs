@@ -21,7 +21,7 @@ impl SettingsPanel {
     pub fn ui(&mut self, ui: &mut egui::Ui, cx: &mut Cx<'_>) {
         ui.heading("Series");
         if cx.project.series.is_empty() {
-            ui.label("No data yet: open a CSV or TSV file (File ▸ Open…), drop one on the window, or paste a table with Ctrl+V.");
+            ui.label("No data yet: open a CSV or TSV file (Open… in the File menu), drop one on the window, or paste a table with Ctrl+V.");
         }
         for (i, s) in cx.project.series.iter().enumerate() {
             ui.horizontal(|ui| {

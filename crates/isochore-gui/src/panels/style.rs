@@ -103,6 +103,36 @@ pub fn marker_swatch(ui: &mut egui::Ui, index: usize) -> egui::Response {
     resp
 }
 
+/// Draws a decimated series' envelope as one thin polyline through the kept points in
+/// x order (each pixel column's lowest then highest point): the strokes run up and down
+/// every column, so the band the million points fill reads as filled, not as two edges.
+pub fn envelope_fill(
+    pu: &mut egui_plot::PlotUi<'_>,
+    name: &str,
+    pts: Vec<[f64; 2]>,
+    color: Color32,
+) {
+    if pts.len() < 2 {
+        return;
+    }
+    pu.line(
+        egui_plot::Line::new(name.to_string(), egui_plot::PlotPoints::new(pts))
+            .color(color.gamma_multiply(0.55))
+            .width(1.0)
+            .allow_hover(false),
+    );
+}
+
+/// A diagnostic value for a table cell: three decimals, or two significant digits when it
+/// is smaller than 0.01 (leverages of a large series are of order p/n).
+pub fn diag(x: f64) -> String {
+    if x != 0.0 && x.abs() < 0.01 {
+        sig(x, 2)
+    } else {
+        fixed(x, 3)
+    }
+}
+
 /// Axis hints for the workbench's plots: tick labels are kept until they are 38 points
 /// apart (x) or 14 (y), so a short axis still shows several numbers (egui_plot's own
 /// defaults hide them below 60 and 20 points, which leaves short axes with a lone "0").
@@ -173,5 +203,8 @@ mod tests {
         assert_eq!(sig(1.0e-7, 3), "1.00e-7");
         assert_eq!(sig(f64::NAN, 3), "—");
         assert_eq!(fixed(2.5, 2), "2.50");
+        assert_eq!(diag(0.4751), "0.475");
+        assert_eq!(diag(4.0e-6), "4.0e-6");
+        assert_eq!(diag(0.0012), "0.0012");
     }
 }

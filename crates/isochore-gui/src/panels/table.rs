@@ -220,7 +220,7 @@ impl TablePanel {
                                 ui.weak("—");
                                 return;
                             };
-                            let text = style::fixed(v, 3);
+                            let text = style::diag(v);
                             if flagged {
                                 ui.label(RichText::new(format!("{text} ⚑")).color(flag).strong())
                                     .on_hover_text(format!("flagged: {why}"));

@@ -119,12 +119,14 @@ impl PlotPanel {
                 });
             }
         }
+        let has_data = extent.is_some();
         let top_axis = AxisHints::new_x()
             .label(format!("T / {}", t_unit.symbol()))
             .placement(VPlacement::Top)
             .label_spacing(38.0..=54.0)
             .formatter(move |mark, _| {
-                if mark.value > 0.0 {
+                // Temperatures only beside data (an empty plot spans 1/T around 0).
+                if has_data && mark.value > 0.0 {
                     style::fixed(t_unit.from_kelvin(1e3 / mark.value), 1)
                 } else {
                     String::new()
@@ -353,11 +355,13 @@ fn draw_points(
     let mut used = Vec::new();
     let mut excluded = Vec::new();
     let mut flagged = Vec::new();
+    let mut all = Vec::new();
     let mut push = |k: usize| {
         let Some(mm) = m.get(k) else {
             return;
         };
         let xy = [1e3 / mm.t_k, mm.ln_k];
+        all.push(xy);
         if mm.included {
             used.push(xy);
         } else {
@@ -395,7 +399,11 @@ fn draw_points(
             push(i);
         }
     }
-    let radius = if m.len() > DECIMATE_ABOVE { 1.5 } else { 4.5 };
+    let large = m.len() > DECIMATE_ABOVE;
+    let radius = if large { 1.5 } else { 4.5 };
+    if large {
+        style::envelope_fill(pu, &format!("{} — envelope", s.name()), all, color);
+    }
     let n = used.len() + excluded.len();
     pu.points(
         Points::new(format!("{} — used", s.name()), PlotPoints::new(used))
@@ -423,8 +431,10 @@ fn draw_points(
             Points::new("flagged point", PlotPoints::new(flagged))
                 .shape(MarkerShape::Circle)
                 .color(style::flag_color(dark))
-                .filled(false)
-                .radius(radius + 4.0)
+                // Thousands of rings would merge into blots: on a large series a
+                // flagged point is a small dot in the flag colour instead.
+                .filled(large)
+                .radius(if large { radius } else { radius + 4.0 })
                 .allow_hover(false),
         );
     }
