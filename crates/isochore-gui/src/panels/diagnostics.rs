@@ -86,27 +86,9 @@ impl DiagnosticsPanel {
             ui.vertical(|ui| {
                 ui.set_width(half);
                 ui.label(RichText::new("Residuals against temperature").strong());
-                let mut used = Vec::new();
-                let mut excl = Vec::new();
-                let mut flagged = Vec::new();
-                let mut marks = Vec::new();
-                for d in resid_rows.iter().filter_map(|&i| fit.points.get(i)) {
-                    let p = [tu.from_kelvin(d.t_k), d.residual];
-                    if d.used {
-                        used.push(p);
-                    } else {
-                        excl.push(p);
-                    }
-                    if d.flags.any() {
-                        flagged.push(p);
-                    }
-                    marks.push((d.index, p));
-                }
-                let hl_pts: Vec<[f64; 2]> = marks
-                    .iter()
-                    .filter(|(i, _)| highlight.contains(i))
-                    .map(|(_, p)| *p)
-                    .collect();
+                let m = Marks::collect(&resid_rows, &fit.points, &highlight, |d| {
+                    Some([tu.from_kelvin(d.t_k), d.residual])
+                });
                 let resp = Plot::new("residual_plot")
                     .height(h - 24.0)
                     .custom_x_axes(vec![style::x_axis(format!("T / {}", tu.symbol()))])
@@ -115,11 +97,10 @@ impl DiagnosticsPanel {
                     .show_y(false)
                     .show(ui, |pu| {
                         pu.hline(HLine::new("", 0.0).color(color).width(1.0));
-                        let all = marks.iter().map(|(_, p)| *p).collect();
-                        draw_marks(pu, &look, all, used, excl, flagged, hl_pts);
+                        draw_marks(pu, &look, &m);
                     });
                 if let Some(p) = resp.response.hover_pos() {
-                    hovered = nearest(&marks, &resp.transform, p);
+                    hovered = nearest(&m.all, &resp.transform, p);
                 }
             });
             // Influence: leverage against studentized residual.
@@ -137,32 +118,16 @@ impl DiagnosticsPanel {
                         .weak(),
                     );
                 });
-                let mut marks = Vec::new();
-                let mut used = Vec::new();
-                let mut flagged = Vec::new();
-                for d in infl_rows.iter().filter_map(|&i| fit.points.get(i)) {
-                    let Some(r) = d.student_int else {
-                        continue;
-                    };
-                    let p = [d.leverage, r];
-                    used.push(p);
-                    if d.flags.any() {
-                        flagged.push(p);
-                    }
-                    marks.push((d.index, p));
-                }
-                let hl_pts: Vec<[f64; 2]> = marks
-                    .iter()
-                    .filter(|(i, _)| highlight.contains(i))
-                    .map(|(_, p)| *p)
-                    .collect();
+                let m = Marks::collect(&infl_rows, &fit.points, &highlight, |d| {
+                    d.student_int.map(|r| [d.leverage, r])
+                });
                 let p = fit.model().n_params() as f64;
                 let lev_threshold =
                     fit.options.thresholds.leverage_factor * p / fit.n_used.max(1) as f64;
-                let max_h = used.iter().map(|q| q[0]).fold(lev_threshold, f64::max);
+                let max_h = m.all.iter().map(|q| q.1[0]).fold(lev_threshold, f64::max);
                 // Contours are cut a little above the largest residual, so they do not
                 // stretch the axis (and squeeze the points) far beyond the data.
-                let r_lim = used.iter().map(|q| q[1].abs() * 1.2).fold(3.0, f64::max);
+                let r_lim = m.all.iter().map(|q| q.1[1].abs() * 1.2).fold(3.0, f64::max);
                 let ui_text = ui.visuals().weak_text_color();
                 let resp = Plot::new("influence_plot")
                     .height(h - 24.0)
@@ -216,11 +181,10 @@ impl DiagnosticsPanel {
                                 .color(flag.gamma_multiply(0.6))
                                 .style(LineStyle::Dotted { spacing: 4.0 }),
                         );
-                        let all = marks.iter().map(|(_, p)| *p).collect();
-                        draw_marks(pu, &look, all, used, Vec::new(), flagged, hl_pts);
+                        draw_marks(pu, &look, &m);
                     });
                 if let Some(p) = resp.response.hover_pos() {
-                    hovered = hovered.or(nearest(&marks, &resp.transform, p));
+                    hovered = hovered.or(nearest(&m.all, &resp.transform, p));
                 }
             });
         });
@@ -245,48 +209,86 @@ struct Look {
     large: bool,
 }
 
-/// The points of one diagnostic plot: used filled, excluded hollow, flagged ringed (dots
-/// in the flag colour on a large series, where rings would merge), highlighted haloed.
-/// `all` is every drawn point in x order, for the envelope of a large series.
-fn draw_marks(
-    pu: &mut egui_plot::PlotUi<'_>,
-    look: &Look,
-    all: Vec<[f64; 2]>,
+/// The points of one diagnostic plot, sorted into what is drawn how.
+struct Marks {
+    /// Every drawn point with its index, in x order (picking, and a large series' envelope).
+    all: Vec<(usize, [f64; 2])>,
     used: Vec<[f64; 2]>,
     excluded: Vec<[f64; 2]>,
     flagged: Vec<[f64; 2]>,
     highlighted: Vec<[f64; 2]>,
-) {
+}
+
+impl Marks {
+    /// The points of `rows`, placed by `at` (`None`: not drawn on this plot).
+    fn collect(
+        rows: &[usize],
+        points: &[isochore_fit::PointDiagnostics],
+        highlight: &[usize],
+        at: impl Fn(&isochore_fit::PointDiagnostics) -> Option<[f64; 2]>,
+    ) -> Self {
+        let mut m = Marks {
+            all: Vec::with_capacity(rows.len()),
+            used: Vec::new(),
+            excluded: Vec::new(),
+            flagged: Vec::new(),
+            highlighted: Vec::new(),
+        };
+        for d in rows.iter().filter_map(|&i| points.get(i)) {
+            let Some(p) = at(d) else {
+                continue;
+            };
+            if d.used {
+                m.used.push(p);
+            } else {
+                m.excluded.push(p);
+            }
+            if d.flags.any() {
+                m.flagged.push(p);
+            }
+            if highlight.contains(&d.index) {
+                m.highlighted.push(p);
+            }
+            m.all.push((d.index, p));
+        }
+        m
+    }
+}
+
+/// The points of one diagnostic plot: used filled, excluded hollow, flagged ringed (dots
+/// in the flag colour on a large series, where rings would merge), highlighted haloed.
+fn draw_marks(pu: &mut egui_plot::PlotUi<'_>, look: &Look, m: &Marks) {
     let radius = if look.large { 1.5 } else { 3.5 };
     if look.large {
+        let all = m.all.iter().map(|(_, p)| *p).collect();
         style::envelope_fill(pu, "envelope", all, look.color);
     }
     pu.points(
-        Points::new("used", used)
+        Points::new("used", m.used.clone())
             .shape(look.shape)
             .color(look.color)
             .radius(radius),
     );
-    if !excluded.is_empty() {
+    if !m.excluded.is_empty() {
         pu.points(
-            Points::new("excluded", excluded)
+            Points::new("excluded", m.excluded.clone())
                 .shape(look.shape)
                 .color(look.color)
                 .filled(false)
                 .radius(radius + 0.5),
         );
     }
-    if !flagged.is_empty() {
+    if !m.flagged.is_empty() {
         pu.points(
-            Points::new("flagged", flagged)
+            Points::new("flagged", m.flagged.clone())
                 .color(look.flag)
                 .filled(look.large)
                 .radius(if look.large { radius } else { 8.0 }),
         );
     }
-    if !highlighted.is_empty() {
+    if !m.highlighted.is_empty() {
         pu.points(
-            Points::new("", highlighted)
+            Points::new("", m.highlighted.clone())
                 .color(look.highlight)
                 .filled(false)
                 .radius(10.0),

@@ -36,6 +36,21 @@ impl Default for PredictPanel {
     }
 }
 
+/// One row of the prediction grid: the value with its confidence interval, then the
+/// prediction interval, the bounds written by `fmt`.
+fn interval_row(
+    ui: &mut egui::Ui,
+    name: &str,
+    v: &isochore_fit::derived::ValuePrediction,
+    value: String,
+    fmt: &dyn Fn(f64) -> String,
+) {
+    ui.label(name);
+    ui.label(format!("{value} ({} … {})", fmt(v.ci.low), fmt(v.ci.high)));
+    ui.label(format!("{} … {}", fmt(v.pi.low), fmt(v.pi.high)));
+    ui.end_row();
+}
+
 fn num(s: &str) -> Result<f64, String> {
     match s.trim().replace(',', ".").parse::<f64>() {
         Ok(v) if v.is_finite() => Ok(v),
@@ -74,32 +89,10 @@ impl PredictPanel {
                             ui.strong(format!("value ({lvl:.0} % CI)"));
                             ui.strong(format!("{lvl:.0} % PI"));
                             ui.end_row();
-                            ui.label("K");
-                            ui.label(format!(
-                                "{} ({} … {})",
-                                style::sig(p.k.value, 4),
-                                style::sig(p.k.ci.low, 3),
-                                style::sig(p.k.ci.high, 3)
-                            ));
-                            ui.label(format!(
-                                "{} … {}",
-                                style::sig(p.k.pi.low, 3),
-                                style::sig(p.k.pi.high, 3)
-                            ));
-                            ui.end_row();
-                            ui.label("ln K");
-                            ui.label(format!(
-                                "{} ({} … {})",
-                                style::fixed(p.ln_k.value, 3),
-                                style::fixed(p.ln_k.ci.low, 3),
-                                style::fixed(p.ln_k.ci.high, 3)
-                            ));
-                            ui.label(format!(
-                                "{} … {}",
-                                style::fixed(p.ln_k.pi.low, 3),
-                                style::fixed(p.ln_k.pi.high, 3)
-                            ));
-                            ui.end_row();
+                            let sig3 = |x: f64| style::sig(x, 3);
+                            let fix3 = |x: f64| style::fixed(x, 3);
+                            interval_row(ui, "K", &p.k, style::sig(p.k.value, 4), &sig3);
+                            interval_row(ui, "ln K", &p.ln_k, fix3(p.ln_k.value), &fix3);
                             let g = p.delta_g.scaled(ef);
                             ui.label("ΔG°");
                             ui.label(format!(
