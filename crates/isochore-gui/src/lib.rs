@@ -45,6 +45,12 @@ impl eframe::App for WindowApp {
         if std::mem::take(&mut self.bench.close_now) {
             ctx.send_viewport_cmd(egui::ViewportCommand::Close);
         }
+        // eframe writes preferences and layout at the end of a frame once the save interval
+        // has passed; an idle window draws no frames, so wake it once per interval, or a
+        // change made just before a crash would be lost.
+        ctx.request_repaint_after(
+            eframe::App::auto_save_interval(self) + std::time::Duration::from_secs(1),
+        );
     }
 
     fn save(&mut self, storage: &mut dyn eframe::Storage) {
