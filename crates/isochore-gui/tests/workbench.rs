@@ -505,3 +505,38 @@ fn a_file_dropped_on_the_window_is_imported() {
     assert_eq!(h.state().project, before);
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn typing_a_target_k_gives_the_library_temperature() {
+    let w = bench();
+    let s = w.project.get(w.active.unwrap()).unwrap();
+    let tu = s.data.settings.temperature_unit;
+    let fit = {
+        let m = s.points().unwrap().measurements;
+        isochore_fit::fit(&m, s.options()).unwrap()
+    };
+    // K = 5e6 lies inside the demo's range of K (about 3e6 to 1.5e7): no extrapolation.
+    let t = fit.temperature_for_k(5.0e6).unwrap();
+    let want = format!("T = {} {}", sig_fixed(tu.from_kelvin(t.value)), tu.symbol());
+    let mut h = harness(w);
+    // Nothing is claimed before a target is typed.
+    assert!(h.query_by_label_contains("T = ").is_none());
+    h.get_by_label("target K").click();
+    h.run_steps(1);
+    h.get_by_label("target K").type_text("5e6");
+    h.run_steps(3);
+    assert!(
+        h.query_by_label_contains(&want).is_some(),
+        "no label with {want}"
+    );
+    assert!(h.query_by_label_contains("extrapolation").is_none());
+    // A typing error is said, not hidden.
+    h.get_by_label("target K").type_text("x");
+    h.run_steps(3);
+    assert!(h.query_by_label_contains("is not a number").is_some());
+}
+
+/// Two decimals, as the prediction panel writes temperatures.
+fn sig_fixed(x: f64) -> String {
+    isochore_gui::panels::style::fixed(x, 2)
+}

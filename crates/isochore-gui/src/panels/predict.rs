@@ -23,7 +23,9 @@ impl Default for PredictPanel {
     fn default() -> Self {
         PredictPanel {
             t_text: "37".into(),
-            k_text: "1".into(),
+            // Empty until the chemist asks: a fixed default such as K = 1 lands far outside
+            // most data (e.g. above 1000 °C for a nanomolar binder) and reads as nonsense.
+            k_text: String::new(),
             two_point: [
                 "25".into(),
                 "1.0e6".into(),
@@ -118,12 +120,22 @@ impl PredictPanel {
             ui.add_space(4.0);
             ui.horizontal(|ui| {
                 ui.label("T where K =");
-                ui.add(egui::TextEdit::singleline(&mut self.k_text).desired_width(70.0));
+                let r = ui.add(
+                    egui::TextEdit::singleline(&mut self.k_text)
+                        .hint_text("target K")
+                        .desired_width(70.0),
+                );
+                r.widget_info(|| {
+                    egui::WidgetInfo::labeled(egui::WidgetType::TextEdit, true, "target K")
+                });
             });
-            match num(&self.k_text)
-                .and_then(|k| fit.temperature_for_k(k).map_err(|e| e.to_string()))
-            {
-                Ok(t) => {
+            // Nothing is shown until a target is typed.
+            let target = (!self.k_text.trim().is_empty()).then(|| {
+                num(&self.k_text).and_then(|k| fit.temperature_for_k(k).map_err(|e| e.to_string()))
+            });
+            match target {
+                None => {}
+                Some(Ok(t)) => {
                     if fit.is_extrapolation(t.value) {
                         ui.horizontal_wrapped(|ui| {
                             ui.colored_label(flag, "⚠");
@@ -140,7 +152,7 @@ impl PredictPanel {
                         tu.symbol()
                     ));
                 }
-                Err(e) => {
+                Some(Err(e)) => {
                     ui.colored_label(flag, e);
                 }
             }
