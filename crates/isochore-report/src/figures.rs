@@ -309,6 +309,22 @@ fn framed_chart<'a, 'b>(root: &'a Area<'b>, f: Frame<'_>) -> Result<Chart<'a, 'b
     Ok(chart)
 }
 
+/// Draws the key of the series that carry a label, in the house style, at `position`.
+fn draw_key<'a, 'b: 'a>(
+    chart: &mut Chart<'a, 'b>,
+    position: SeriesLabelPosition,
+) -> Result<(), ReportError> {
+    chart
+        .configure_series_labels()
+        .position(position)
+        .margin(12)
+        .label_font((FONT, NOTE_SIZE))
+        .background_style(WHITE.mix(0.9))
+        .border_style(RGBColor(160, 160, 160))
+        .draw()
+        .map_err(fe)
+}
+
 fn no_data(root: &Area, what: &str) -> Result<(), ReportError> {
     root.draw(&Text::new(
         format!("no {what} to draw"),
@@ -458,16 +474,7 @@ fn vant_hoff(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
             .step_by(8)
             .flat_map(|b| [(x_of(b), b.pi_low), (x_of(b), b.pi_high), (x_of(b), b.ln_k)]),
     );
-    chart
-        .configure_series_labels()
-        .position(emptiest_corner(&occupied, (x0, x1), (y0, y1)))
-        .margin(12)
-        .label_font((FONT, NOTE_SIZE))
-        .background_style(WHITE.mix(0.9))
-        .border_style(RGBColor(160, 160, 160))
-        .draw()
-        .map_err(fe)?;
-    Ok(())
+    draw_key(&mut chart, emptiest_corner(&occupied, (x0, x1), (y0, y1)))
 }
 
 /// Draws error bars, used points (filled), excluded points (hollow), flag rings and row
@@ -596,16 +603,7 @@ fn residuals(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
         .iter()
         .map(|p| (tu.from_kelvin(p.t_k), p.residual))
         .collect();
-    chart
-        .configure_series_labels()
-        .position(emptiest_corner(&occupied, (x0, x1), (y0, y1)))
-        .margin(12)
-        .label_font((FONT, NOTE_SIZE))
-        .background_style(WHITE.mix(0.9))
-        .border_style(RGBColor(160, 160, 160))
-        .draw()
-        .map_err(fe)?;
-    Ok(())
+    draw_key(&mut chart, emptiest_corner(&occupied, (x0, x1), (y0, y1)))
 }
 
 fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
@@ -739,16 +737,10 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
             .map_err(fe)?;
     }
     let occupied: Vec<(f64, f64)> = used.iter().map(|u| (u.1, u.2)).collect();
-    chart
-        .configure_series_labels()
-        .position(emptiest_corner(&occupied, (0.0, x1), (-ylim, ylim)))
-        .margin(12)
-        .label_font((FONT, NOTE_SIZE))
-        .background_style(WHITE.mix(0.9))
-        .border_style(RGBColor(160, 160, 160))
-        .draw()
-        .map_err(fe)?;
-    Ok(())
+    draw_key(
+        &mut chart,
+        emptiest_corner(&occupied, (0.0, x1), (-ylim, ylim)),
+    )
 }
 
 fn ellipse(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
@@ -804,20 +796,14 @@ fn ellipse(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
         .label(format!("estimate (r = {})", num(fit.corr_h_s, 4)))
         .legend(|(x, y)| Cross::new((x + 11, y), 6, INK.stroke_width(2)));
     let rising = fit.corr_h_s > 0.0;
-    chart
-        .configure_series_labels()
-        .position(if rising {
+    draw_key(
+        &mut chart,
+        if rising {
             SeriesLabelPosition::UpperLeft
         } else {
             SeriesLabelPosition::UpperRight
-        })
-        .margin(12)
-        .label_font((FONT, NOTE_SIZE))
-        .background_style(WHITE.mix(0.9))
-        .border_style(RGBColor(160, 160, 160))
-        .draw()
-        .map_err(fe)?;
-    Ok(())
+        },
+    )
 }
 
 #[cfg(test)]
