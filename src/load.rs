@@ -151,8 +151,6 @@ fn load_csv(path: &Path, a: &FitOptionsArgs, with_cells: bool) -> Result<Vec<Job
     let opts = options(FitOptions::default(), a);
     let mut jobs = Vec::new();
     for s in &imp.series {
-        let by_row: BTreeMap<usize, &isochore_data::Row> =
-            s.rows.iter().map(|r| (r.row, r)).collect();
         let points = s.points(&excluded);
         let mut job = Job {
             source: source.clone(),
@@ -170,11 +168,12 @@ fn load_csv(path: &Path, a: &FitOptionsArgs, with_cells: bool) -> Result<Vec<Job
         };
         for p in &points {
             let first = p.rows.first().copied().unwrap_or(0);
-            let row = by_row.get(&first);
+            // Row numbers run 1, 2, … in each data set.
+            let row = first.checked_sub(1).and_then(|i| s.rows.get(i));
             let m = p.measurement;
             job.rows.push(ReportRow {
                 row: first,
-                line: row.map_or(0, |r| r.line),
+                line: row.map_or(0, |r| r.line()),
                 cells: match (with_cells, row) {
                     (true, Some(r)) => imp.cells(r),
                     _ => Vec::new(),

@@ -30,7 +30,11 @@ fn main() {
                 for r in s.rows.iter().take(3) {
                     println!(
                         "    line {} row {}: T = {} K, ln K = {}, σ = {:?}",
-                        r.line, r.row, r.t_k, r.ln_k, r.sigma_ln_k
+                        r.line(),
+                        r.row(),
+                        r.t_k,
+                        r.ln_k,
+                        r.sigma_ln_k()
                     );
                 }
             }

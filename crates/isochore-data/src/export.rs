@@ -44,7 +44,11 @@ fn num(v: f64) -> String {
 /// `mapping.quantity.kind`).
 pub fn export_csv(series: &Series, kind: QuantityKind) -> String {
     let rows: Vec<ConvertedRow> = series.rows.iter().map(Row::converted).collect();
-    let notes: Vec<Option<String>> = series.rows.iter().map(|r| r.note.clone()).collect();
+    let notes: Vec<Option<String>> = series
+        .rows
+        .iter()
+        .map(|r| series.note(r).map(str::to_string))
+        .collect();
     write_csv(&series.name, "", kind, &rows, &notes, &[])
 }
 

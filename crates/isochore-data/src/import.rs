@@ -103,32 +103,61 @@ pub struct SourceInfo {
 }
 
 /// One accepted row, converted to the fitting scale.
-#[derive(Debug, Clone, PartialEq)]
+///
+/// Kept in 40 bytes (a 10⁶-row file holds a million of them): line and row numbers are
+/// stored as `u32` (files are limited to 4 GiB), an absent σ as NaN, and the note cell in
+/// the data set ([`Series::note`]).
+#[derive(Debug, Clone, Copy)]
 pub struct Row {
-    /// Physical 1-based line in the file.
-    pub line: usize,
-    /// 1-based number of this row among the accepted rows of its data set.
-    pub row: usize,
     /// Temperature in kelvin.
     pub t_k: f64,
     /// ln K (association sense for K_d, see `isochore_fit::units`).
     pub ln_k: f64,
-    /// σ(ln K), when the file gives an uncertainty for this row.
-    pub sigma_ln_k: Option<f64>,
-    /// The note cell, when not empty.
-    pub note: Option<String>,
+    /// σ(ln K), NaN when absent (a present σ is finite and > 0).
+    sigma: f64,
+    line: u32,
+    row: u32,
     pub(crate) start: u32,
     pub(crate) end: u32,
 }
 
+/// Rows are equal when every value is, an absent σ included (NaN stands for it).
+impl PartialEq for Row {
+    fn eq(&self, other: &Row) -> bool {
+        self.t_k == other.t_k
+            && self.ln_k == other.ln_k
+            && self.sigma_ln_k() == other.sigma_ln_k()
+            && (self.line, self.row, self.start, self.end)
+                == (other.line, other.row, other.start, other.end)
+    }
+}
+
 impl Row {
+    /// Physical 1-based line in the file.
+    #[inline]
+    pub fn line(&self) -> usize {
+        self.line as usize
+    }
+
+    /// 1-based number of this row among the accepted rows of its data set.
+    #[inline]
+    pub fn row(&self) -> usize {
+        self.row as usize
+    }
+
+    /// σ(ln K), when the file gives an uncertainty for this row.
+    #[inline]
+    pub fn sigma_ln_k(&self) -> Option<f64> {
+        (!self.sigma.is_nan()).then_some(self.sigma)
+    }
+
     /// The converted values of this row.
     pub fn converted(&self) -> ConvertedRow {
         ConvertedRow {
-            row: self.row,
+            row: self.row(),
             t_k: self.t_k,
             ln_k: self.ln_k,
-            sigma_ln_k: self.sigma_ln_k,
+            sigma_ln_k: self.sigma_ln_k(),
         }
     }
 }
@@ -167,9 +196,20 @@ pub struct Series {
     pub replicates: Replicates,
     /// Replicate temperature tolerance in K.
     pub replicate_tolerance_k: f64,
+    /// The non-empty note cells: (1-based row number, note), in row order.
+    notes: Vec<(u32, String)>,
 }
 
 impl Series {
+    /// The note cell of a row (trimmed), when the file has a note column and the cell is
+    /// not empty.
+    pub fn note(&self, row: &Row) -> Option<&str> {
+        self.notes
+            .binary_search_by_key(&row.row, |(r, _)| *r)
+            .ok()
+            .map(|i| self.notes[i].1.as_str())
+    }
+
     /// The points for the fit. `excluded` lists 1-based row numbers to leave out; they stay
     /// in the result, one point each, with `included = false`. With
     /// [`Replicates::Average`] the included rows at one temperature become one point.
@@ -693,19 +733,24 @@ fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Pars
         None
     };
     let first_line = reader.line();
+    // Room for this many rows per data set (a data line takes at least a few bytes; this
+    // covers the usual 20 to 60): the first part reserves for the whole file, so that the
+    // second can be appended without moving the first.
+    let reserve = |bytes: usize| if bytes > (1 << 20) { bytes / 16 } else { 0 };
     let chunk = match cut {
-        None => ctx.run(data_start, text.len(), first_line, false)?,
+        None => ctx.run(data_start, text.len(), first_line, reserve(data_len))?,
         Some(cut) => {
             // The second half first counts the lines of the first (to number its own).
             let second_half = || {
                 let lines_before = memchr::memchr_iter(b'\n', &bytes[data_start..cut]).count();
-                ctx.run(cut, text.len(), first_line + lines_before, true)
+                let n = text.len() - cut;
+                ctx.run(cut, text.len(), first_line + lines_before, reserve(n))
             };
             let (a, b) = std::thread::scope(|sc| {
                 let second = std::thread::Builder::new()
                     .spawn_scoped(sc, second_half)
                     .ok();
-                let a = ctx.run(data_start, cut, first_line, false);
+                let a = ctx.run(data_start, cut, first_line, reserve(data_len));
                 let b = match second {
                     Some(h) => h.join().unwrap_or_else(|_| second_half()),
                     None => second_half(),
@@ -717,12 +762,10 @@ fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Pars
             a
         }
     };
-    // Only the second half is ever packed, and it has been joined into the first by now.
     let Chunk {
         mut series,
         rejected,
         any_data,
-        packed: _,
     } = chunk;
     // Give back the room reserved for rows that never came (it was never touched, so this
     // moves nothing).
@@ -794,29 +837,6 @@ struct Chunk {
     series: Vec<Series>,
     rejected: Vec<RejectedRow>,
     any_data: bool,
-    /// For a part read with `packed`, the rows of each data set (aligned with `series`,
-    /// whose `rows` are then empty).
-    packed: Vec<PackedRows>,
-}
-
-/// An accepted row in half the room of a [`Row`] (40 bytes instead of 80): the second half
-/// of a large file keeps its rows like this until they are moved into place, so that they
-/// are not written twice at full size. σ is NaN when absent (a present σ is finite, > 0).
-#[derive(Clone, Copy)]
-struct Packed {
-    t_k: f64,
-    ln_k: f64,
-    sigma: f64,
-    line: u32,
-    start: u32,
-    end: u32,
-}
-
-/// The packed rows of one data set, with its notes by index.
-#[derive(Default)]
-struct PackedRows {
-    rows: Vec<Packed>,
-    notes: Vec<(usize, String)>,
 }
 
 impl Chunk {
@@ -824,47 +844,21 @@ impl Chunk {
     fn append(&mut self, later: Chunk) {
         self.any_data |= later.any_data;
         self.rejected.extend(later.rejected);
-        let mut packs = later.packed.into_iter();
         for s in later.series {
-            let pack = packs.next().unwrap_or_default();
-            let i = match self.series.iter().position(|m| m.name == s.name) {
+            match self.series.iter().position(|m| m.name == s.name) {
                 Some(i) => {
                     // Moved and renumbered in one pass, on all cores: the first touch of
                     // each new page is most of the cost.
                     let m = &mut self.series[i];
-                    let base = m.rows.len();
-                    m.rows
-                        .par_extend(s.rows.into_par_iter().enumerate().map(|(k, mut r)| {
-                            r.row = base + k + 1;
-                            r
-                        }));
-                    i
+                    let base = m.rows.len() as u32;
+                    m.notes
+                        .extend(s.notes.into_iter().map(|(r, n)| (r + base, n)));
+                    m.rows.par_extend(s.rows.into_par_iter().map(|mut r| {
+                        r.row += base;
+                        r
+                    }));
                 }
-                None => {
-                    self.series.push(s);
-                    self.series.len() - 1
-                }
-            };
-            if pack.rows.is_empty() {
-                continue;
-            }
-            let m = &mut self.series[i];
-            let base = m.rows.len();
-            m.rows
-                .par_extend(pack.rows.into_par_iter().enumerate().map(|(k, p)| Row {
-                    line: p.line as usize,
-                    row: base + k + 1,
-                    t_k: p.t_k,
-                    ln_k: p.ln_k,
-                    sigma_ln_k: (!p.sigma.is_nan()).then_some(p.sigma),
-                    note: None,
-                    start: p.start,
-                    end: p.end,
-                }));
-            for (k, note) in pack.notes {
-                if let Some(r) = m.rows.get_mut(base + k) {
-                    r.note = Some(note);
-                }
+                None => self.series.push(s),
             }
         }
     }
@@ -872,8 +866,10 @@ impl Chunk {
 
 impl Scan<'_> {
     /// Reads the records in `text[start..end]`; `line` is the physical line before `start`.
-    /// With `packed`, accepted rows are kept in [`Chunk::packed`] (see [`Packed`]).
-    fn run(&self, start: usize, end: usize, line: usize, packed: bool) -> Result<Chunk, Error> {
+    /// Each of the first eight data sets reserves room for `reserve` rows: pages never
+    /// written are never touched (so cost no memory), and growing by copying is avoided.
+    /// The room left over is given back in [`parse`].
+    fn run(&self, start: usize, end: usize, line: usize, reserve: usize) -> Result<Chunk, Error> {
         let (text, o, mapping) = (self.text, self.o, self.mapping);
         let mut reader = Reader::new(
             &text[..end],
@@ -886,16 +882,7 @@ impl Scan<'_> {
         .starting_after_line(line)
         .without_quotes(self.quote_free);
         let ncols = self.headers.len();
-        // Reserve room for every row of this part in each data set: pages never written are
-        // never touched (so cost no memory), and growing by copying is avoided. Trimmed below.
-        let reserve = if end - start > (1 << 20) {
-            (end - start) / 16
-        } else {
-            0
-        };
         let mut series: Vec<Series> = Vec::new();
-        let mut packs: Vec<PackedRows> = Vec::new();
-        let (reserve, pack_reserve) = if packed { (0, reserve) } else { (reserve, 0) };
         let mut index: HashMap<String, usize> = HashMap::new();
         let mut last = 0usize;
         let mut rejected = Vec::new();
@@ -980,47 +967,19 @@ impl Scan<'_> {
             };
             match convert_cells(mapping, self.comma_ok, cell) {
                 Ok(c) => {
-                    let note = mapping.note.and_then(|n| {
-                        let s = spans.get(n)?;
-                        if text::is_blank(s.raw(text)) {
-                            return None;
+                    let s = &mut series[si];
+                    let row = s.rows.len() as u32 + 1;
+                    if let Some(n) = mapping.note.and_then(|n| spans.get(n)) {
+                        if !text::is_blank(n.raw(text)) {
+                            s.notes.push((row, n.unescaped(text).trim().to_string()));
                         }
-                        Some(s.unescaped(text).trim().to_string())
-                    });
-                    if packed {
-                        while packs.len() < series.len() {
-                            // Room reserved ahead for the first eight data sets only (as
-                            // for full rows), so that many data sets cannot reserve
-                            // address space without bound.
-                            let cap = if packs.len() < 8 { pack_reserve } else { 0 };
-                            packs.push(PackedRows {
-                                rows: Vec::with_capacity(cap),
-                                notes: Vec::new(),
-                            });
-                        }
-                        let p = &mut packs[si];
-                        if let Some(n) = note {
-                            p.notes.push((p.rows.len(), n));
-                        }
-                        p.rows.push(Packed {
-                            t_k: c.t_k,
-                            ln_k: c.ln_k,
-                            sigma: c.sigma_ln_k.unwrap_or(f64::NAN),
-                            line: rec.line as u32,
-                            start: rec.start,
-                            end: rec.end,
-                        });
-                        continue;
                     }
-                    let rows = &mut series[si].rows;
-                    let row = rows.len() + 1;
-                    rows.push(Row {
-                        line: rec.line,
-                        row,
+                    s.rows.push(Row {
                         t_k: c.t_k,
                         ln_k: c.ln_k,
-                        sigma_ln_k: c.sigma_ln_k,
-                        note,
+                        sigma: c.sigma_ln_k.unwrap_or(f64::NAN),
+                        line: rec.line as u32,
+                        row,
                         start: rec.start,
                         end: rec.end,
                     });
@@ -1036,14 +995,10 @@ impl Scan<'_> {
                 }
             }
         }
-        if packed {
-            packs.resize_with(series.len(), PackedRows::default);
-        }
         Ok(Chunk {
             series,
             rejected,
             any_data,
-            packed: packs,
         })
     }
 }
@@ -1061,6 +1016,7 @@ fn new_series(name: String, o: &ImportOptions, capacity: usize) -> Series {
         rows: Vec::with_capacity(capacity),
         replicates: o.replicates,
         replicate_tolerance_k: o.replicate_tolerance_k,
+        notes: Vec::new(),
     }
 }
 
@@ -1115,4 +1071,29 @@ fn decide_temperature_unit(
     mapping.temperature.unit = unit;
     mapping.temperature.assumed = true;
     Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_row_takes_forty_bytes_and_keeps_an_absent_sigma() {
+        // A million rows of a large file: 40 MB, not the 80 MB of the first layout.
+        assert_eq!(std::mem::size_of::<Row>(), 40);
+        let mut r = Row {
+            t_k: 300.0,
+            ln_k: 1.0,
+            sigma: f64::NAN,
+            line: 2,
+            row: 1,
+            start: 0,
+            end: 0,
+        };
+        assert_eq!(r.sigma_ln_k(), None);
+        assert_eq!(r, r.clone(), "an absent σ equals itself");
+        r.sigma = 0.1;
+        assert_eq!(r.sigma_ln_k(), Some(0.1));
+        assert_eq!((r.line(), r.row()), (2, 1));
+    }
 }

@@ -295,7 +295,7 @@ impl Project {
                 .rows
                 .iter()
                 .map(|r| RawRow {
-                    line: r.line,
+                    line: r.line(),
                     cells: import.cells(r),
                 })
                 .collect();

@@ -107,7 +107,7 @@ proptest! {
                 prop_assert!(again.is_ok(), "{:?}", again);
                 prop_assert_eq!(again.unwrap(), s.measurements(&[]));
                 for r in &s.rows {
-                    prop_assert_eq!(imp.cells(r), ps.rows[r.row - 1].cells.clone());
+                    prop_assert_eq!(imp.cells(r), ps.rows[r.row() - 1].cells.clone());
                 }
             }
         }

@@ -203,7 +203,7 @@ impl FilesPanel {
                                 let rows =
                                     p.import.series.iter().flat_map(|s| s.rows.iter()).take(8);
                                 for r in rows {
-                                    ui.label(r.line.to_string());
+                                    ui.label(r.line().to_string());
                                     for c in p.import.cells(r) {
                                         ui.label(c);
                                     }
