@@ -425,8 +425,14 @@ pub fn import_path(path: impl AsRef<Path>, options: &ImportOptions) -> Result<Im
             limit,
         });
     }
-    let bytes = read_file(file, size, limit).map_err(io)?;
-    import_owned(&name, Some(path.display().to_string()), bytes, options)
+    let (bytes, clean) = read_file(file, size, limit).map_err(io)?;
+    import_owned(
+        &name,
+        Some(path.display().to_string()),
+        bytes,
+        clean,
+        options,
+    )
 }
 
 /// Files larger than this (bytes) are read in two halves on two threads.
@@ -434,8 +440,10 @@ const PARALLEL_READ_ABOVE: u64 = 4 << 20;
 
 /// Reads the whole file (at most `limit + 1` bytes, so that a file that grew past the
 /// limit is still caught). A large file is read in two halves at once: copying from the
-/// page cache and the first touch of each fresh page then happen on two cores.
-fn read_file(file: std::fs::File, size: u64, limit: u64) -> std::io::Result<Vec<u8>> {
+/// page cache and the first touch of each fresh page then happen on two cores, and each
+/// thread also looks for NUL bytes and quotes in its half while it is in the cache. The
+/// flag returned is true when the file was read that way and has neither.
+fn read_file(file: std::fs::File, size: u64, limit: u64) -> std::io::Result<(Vec<u8>, bool)> {
     if size > PARALLEL_READ_ABOVE {
         #[cfg(unix)]
         {
@@ -445,24 +453,31 @@ fn read_file(file: std::fs::File, size: u64, limit: u64) -> std::io::Result<Vec<
             let mid = bytes.len() / 2;
             let (lo, hi) = bytes.split_at_mut(mid);
             let f = &file;
-            let ok = std::thread::scope(|sc| {
+            let clean = |half: &[u8]| memchr::memchr2(0, b'"', half).is_none();
+            let (ok, clean) = std::thread::scope(|sc| {
                 let second = std::thread::Builder::new()
-                    .spawn_scoped(sc, move || f.read_exact_at(hi, mid as u64))
+                    .spawn_scoped(sc, move || {
+                        f.read_exact_at(hi, mid as u64).map(|()| clean(hi))
+                    })
                     .ok();
-                let first = f.read_exact_at(lo, 0);
+                let first = f.read_exact_at(lo, 0).map(|()| clean(lo));
                 let second = match second {
                     Some(h) => h.join().ok().and_then(Result::ok),
                     None => None,
                 };
-                first.is_ok() && second.is_some()
+                match (first, second) {
+                    (Ok(a), Some(b)) => (true, a && b),
+                    _ => (false, false),
+                }
             });
             if ok {
                 // Anything written after `size` was taken from the metadata.
                 let mut rest = &file;
                 std::io::Seek::seek(&mut rest, std::io::SeekFrom::Start(size))?;
-                rest.take(limit + 1 - size.min(limit + 1))
+                let more = rest
+                    .take(limit + 1 - size.min(limit + 1))
                     .read_to_end(&mut bytes)?;
-                return Ok(bytes);
+                return Ok((bytes, clean && more == 0));
             }
             // The file changed size while it was read: read it again from the start.
             let mut again = &file;
@@ -471,7 +486,7 @@ fn read_file(file: std::fs::File, size: u64, limit: u64) -> std::io::Result<Vec<
     }
     let mut bytes = Vec::with_capacity(size as usize + 1);
     file.take(limit + 1).read_to_end(&mut bytes)?;
-    Ok(bytes)
+    Ok((bytes, false))
 }
 
 /// Imports bytes (for example a file already in memory). `name` is used in messages.
@@ -486,7 +501,7 @@ pub fn import_bytes(name: &str, bytes: &[u8], options: &ImportOptions) -> Result
             limit: effective_limit(options),
         });
     }
-    import_owned(name, None, bytes.to_vec(), options)
+    import_owned(name, None, bytes.to_vec(), false, options)
 }
 
 /// Imports text pasted from a spreadsheet or typed in. `name` is used in messages.
@@ -511,10 +526,12 @@ pub fn sha256_hex(bytes: &[u8]) -> String {
     s
 }
 
+/// `clean`: the bytes are known to hold no NUL byte and no quote.
 fn import_owned(
     name: &str,
     path: Option<String>,
     bytes: Vec<u8>,
+    clean: bool,
     options: &ImportOptions,
 ) -> Result<Import, Error> {
     let n_bytes = bytes.len() as u64;
@@ -529,9 +546,11 @@ fn import_owned(
     // Hash now unless the text will be the very same bytes (then hash in parallel).
     let utf16 = bytes.starts_with(&[0xFF, 0xFE]) || bytes.starts_with(&[0xFE, 0xFF]);
     let early_hash = utf16.then(|| sha256_hex(&bytes));
-    let (text, start, early_hash) = match text::decode(bytes) {
-        (t, s, None) => (t, s, early_hash),
-        (t, s, Some(original)) => (t, s, Some(sha256_hex(&original))),
+    let (text, start, early_hash, clean) = match text::decode(bytes) {
+        // The very same bytes (or a part of them, after a byte-order mark).
+        (t, s, None) if !utf16 => (t, s, early_hash, clean),
+        (t, s, None) => (t, s, early_hash, false),
+        (t, s, Some(original)) => (t, s, Some(sha256_hex(&original)), false),
     };
     if text.len() as u64 > limit {
         return Err(Error::FileTooLarge {
@@ -548,7 +567,7 @@ fn import_owned(
         } else {
             None
         };
-        let parsed = parse(name, &text, start, options);
+        let parsed = parse(name, &text, start, clean, options);
         let sha = match (early_hash, worker) {
             (Some(h), _) => h,
             (None, Some(w)) => w.join().unwrap_or_else(|_| sha256_hex(text.as_bytes())),
@@ -607,10 +626,22 @@ fn binary(file: &str, text: &str, start: usize) -> Error {
     }
 }
 
-fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Parsed, Error> {
+/// `clean`: the text is known to hold no NUL byte and no quote (see [`read_file`]).
+fn parse(
+    file: &str,
+    text: &str,
+    start: usize,
+    clean: bool,
+    o: &ImportOptions,
+) -> Result<Parsed, Error> {
     // One pass finds the first NUL byte (a binary file) and the first quote.
     let bytes = text.as_bytes();
-    let first_quote = match memchr::memchr2(0, b'"', &bytes[start..]) {
+    let scan = if clean {
+        None
+    } else {
+        memchr::memchr2(0, b'"', &bytes[start..])
+    };
+    let first_quote = match scan {
         None => None,
         Some(i) if bytes[start + i] == 0 => return Err(binary(file, text, start)),
         Some(i) => {
@@ -793,12 +824,13 @@ fn parse(file: &str, text: &str, start: usize, o: &ImportOptions) -> Result<Pars
                 rejected: rejected.clone(),
             });
         }
+        let none = || (f64::INFINITY, f64::NEG_INFINITY);
         let (lo, hi) = s
             .rows
-            .iter()
-            .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), r| {
-                (a.min(r.t_k), b.max(r.t_k))
-            });
+            .par_iter()
+            .with_min_len(1 << 16)
+            .fold(none, |(a, b), r| (a.min(r.t_k), b.max(r.t_k)))
+            .reduce(none, |x, y| (x.0.min(y.0), x.1.max(y.1)));
         if hi - lo <= o.replicate_tolerance_k.max(0.0) && s.rows.len() > 1 {
             return Err(Error::SingleTemperature {
                 file: file.to_string(),

@@ -179,3 +179,49 @@ fn many_data_sets_across_the_halves() {
         assert!(s.rows.iter().enumerate().all(|(j, r)| r.row() == j + 1));
     }
 }
+
+/// The threads that read a large file in two halves also look for quotes and NUL bytes; a
+/// quote or a NUL byte in either half must still be seen: the quoted cell is read as
+/// quoted (as from memory), and the NUL byte makes the file binary, at its line.
+#[test]
+fn quotes_and_nul_bytes_in_a_large_file_are_seen() {
+    let mut text = String::from("sample,T (K),ln K\n");
+    let mut i = 0usize;
+    while text.len() < 5 << 20 {
+        text.push_str(&format!(
+            "a,{},{}\n",
+            280 + i % 50,
+            1.0 + (i % 7) as f64 / 8.0
+        ));
+        i += 1;
+    }
+    let dir = tempfile::tempdir().unwrap();
+    let o = ImportOptions::default();
+    let n_lines = text.lines().count();
+    for (what, at) in [("early", 1000usize), ("late", n_lines - 10)] {
+        let mut lines: Vec<String> = text.lines().map(str::to_string).collect();
+        // Three rows of a data set whose quoted name holds the delimiter.
+        for k in 0..3 {
+            lines[at + k] = format!("\"b,c\",{},2.5", 300 + k);
+        }
+        let quoted = lines.join("\n") + "\n";
+        let path = dir.path().join(format!("quoted-{what}.csv"));
+        std::fs::write(&path, &quoted).unwrap();
+        let from_file = isochore_data::import_path(&path, &o).unwrap();
+        let from_bytes = isochore_data::import_bytes("x.csv", quoted.as_bytes(), &o).unwrap();
+        assert_eq!(from_file.series, from_bytes.series, "{what}");
+        let names: Vec<&str> = from_file.series.iter().map(|s| s.name.as_str()).collect();
+        assert_eq!(names, ["a", "b,c"], "{what}");
+
+        lines[at + 5].push('\0');
+        let binary = lines.join("\n") + "\n";
+        let path = dir.path().join(format!("nul-{what}.csv"));
+        std::fs::write(&path, &binary).unwrap();
+        match isochore_data::import_path(&path, &o) {
+            Err(isochore_data::Error::Binary { line, .. }) => {
+                assert_eq!(line, at + 6, "{what}: physical line of the NUL byte")
+            }
+            other => panic!("{what}: {:?}", other.map(|i| i.series.len())),
+        }
+    }
+}
