@@ -6,13 +6,13 @@ interleaved round by round so that every program sees the same machine load:
   - pandas.read_csv(path) in this process: wall time and CPU time (process_time)
   - the Rust importer via the `inspect` example: its own timer around import_path, and the
     CPU time (user + system) of the whole child process
-and reports the best of the rounds and the peak resident memory (VmHWM) of the Rust process.
+and reports the best and the median of the rounds and the peak resident memory (VmHWM) of the Rust process.
 Further executables (for example a build of an older commit) are timed the same way.
 Usage (from the repository root):
   cargo build --release -p isochore-data --example inspect
   python3 crates/isochore-data/benches/compare_pandas.py [inspect [older-inspect …]] [--rounds N]
 """
-import os, random, resource, subprocess, sys, time
+import os, random, resource, statistics, subprocess, sys, time
 
 PATH = "/tmp/isochore_bench_1e6.csv"
 N = 1_000_000
@@ -71,13 +71,15 @@ def main():
                 lst.append(v)
     print(f"file: {size / 1e6:.1f} MB, {N} rows; {rounds} rounds; "
           f"load average (1 min) {min(loads):.1f}-{max(loads):.1f}")
-    print(f"pandas {pd.__version__} read_csv: best {min(pd_wall) * 1e3:.0f} ms wall "
-          f"(runs {', '.join(f'{x * 1e3:.0f}' for x in pd_wall)}), best {min(pd_cpu) * 1e3:.0f} ms CPU")
+    med = statistics.median
+    print(f"pandas {pd.__version__} read_csv: best {min(pd_wall) * 1e3:.0f} ms wall, "
+          f"median {med(pd_wall) * 1e3:.0f} ms (runs {', '.join(f'{x * 1e3:.0f}' for x in pd_wall)}), "
+          f"best {min(pd_cpu) * 1e3:.0f} ms CPU, median {med(pd_cpu) * 1e3:.0f} ms")
     for e in exes:
         wall, cpu, rss = res[e]
-        print(f"{e}: import_path best {min(wall) * 1e3:.0f} ms wall "
+        print(f"{e}: import_path best {min(wall) * 1e3:.0f} ms wall, median {med(wall) * 1e3:.0f} ms "
               f"(runs {', '.join(f'{x * 1e3:.0f}' for x in wall)}), "
-              f"best {min(cpu) * 1e3:.0f} ms CPU (whole process), "
+              f"best {min(cpu) * 1e3:.0f} ms CPU, median {med(cpu) * 1e3:.0f} ms (whole process), "
               f"peak RSS {max(rss) / 1024:.0f} MiB ({max(rss) * 1024 / size:.1f} x file)")
 
 

@@ -795,6 +795,7 @@ fn parse(
     };
     let Chunk {
         mut series,
+        mut ranges,
         rejected,
         any_data,
     } = chunk;
@@ -813,8 +814,9 @@ fn parse(
     }
     if series.is_empty() {
         series.push(new_series(default_name, o, 0));
+        ranges.push((f64::INFINITY, f64::NEG_INFINITY));
     }
-    for s in &series {
+    for (s, &(lo, hi)) in series.iter().zip(&ranges) {
         if s.rows.len() < o.min_points.max(1) {
             return Err(Error::TooFewPoints {
                 file: file.to_string(),
@@ -824,13 +826,6 @@ fn parse(
                 rejected: rejected.clone(),
             });
         }
-        let none = || (f64::INFINITY, f64::NEG_INFINITY);
-        let (lo, hi) = s
-            .rows
-            .par_iter()
-            .with_min_len(1 << 16)
-            .fold(none, |(a, b), r| (a.min(r.t_k), b.max(r.t_k)))
-            .reduce(none, |x, y| (x.0.min(y.0), x.1.max(y.1)));
         if hi - lo <= o.replicate_tolerance_k.max(0.0) && s.rows.len() > 1 {
             return Err(Error::SingleTemperature {
                 file: file.to_string(),
@@ -867,6 +862,9 @@ struct Scan<'a> {
 /// The rows read from one part of the data.
 struct Chunk {
     series: Vec<Series>,
+    /// The lowest and highest temperature (K) of each data set's rows, aligned with
+    /// `series` (taken while reading, so that no second pass over the rows is needed).
+    ranges: Vec<(f64, f64)>,
     rejected: Vec<RejectedRow>,
     any_data: bool,
 }
@@ -876,9 +874,11 @@ impl Chunk {
     fn append(&mut self, later: Chunk) {
         self.any_data |= later.any_data;
         self.rejected.extend(later.rejected);
-        for s in later.series {
+        for (s, (lo, hi)) in later.series.into_iter().zip(later.ranges) {
             match self.series.iter().position(|m| m.name == s.name) {
                 Some(i) => {
+                    let r = &mut self.ranges[i];
+                    *r = (r.0.min(lo), r.1.max(hi));
                     // Moved and renumbered in one pass, on all cores: the first touch of
                     // each new page is most of the cost.
                     let m = &mut self.series[i];
@@ -890,7 +890,10 @@ impl Chunk {
                         r
                     }));
                 }
-                None => self.series.push(s),
+                None => {
+                    self.series.push(s);
+                    self.ranges.push((lo, hi));
+                }
             }
         }
     }
@@ -915,6 +918,8 @@ impl Scan<'_> {
         .without_quotes(self.quote_free);
         let ncols = self.headers.len();
         let mut series: Vec<Series> = Vec::new();
+        let mut ranges: Vec<(f64, f64)> = Vec::new();
+        let none = (f64::INFINITY, f64::NEG_INFINITY);
         let mut index: HashMap<String, usize> = HashMap::new();
         // The names of the data sets in a form compared without a call (see `NameKey`).
         let mut keys: Vec<NameKey> = Vec::new();
@@ -961,6 +966,7 @@ impl Scan<'_> {
                 None => {
                     if series.is_empty() {
                         series.push(new_series(self.default_name.to_string(), o, reserve));
+                        ranges.push(none);
                     }
                     0
                 }
@@ -998,6 +1004,7 @@ impl Scan<'_> {
                             if series.len() < 8 { reserve } else { 0 },
                         ));
                         keys.push(key);
+                        ranges.push(none);
                         index.insert(name.to_string(), series.len() - 1);
                         last = series.len() - 1;
                         last
@@ -1012,6 +1019,13 @@ impl Scan<'_> {
                         if !text::is_blank(n.raw(text)) {
                             s.notes.push((row, n.unescaped(text).trim().to_string()));
                         }
+                    }
+                    let r = &mut ranges[si];
+                    if c.t_k < r.0 {
+                        r.0 = c.t_k;
+                    }
+                    if c.t_k > r.1 {
+                        r.1 = c.t_k;
                     }
                     s.rows.push(Row {
                         t_k: c.t_k,
@@ -1036,6 +1050,7 @@ impl Scan<'_> {
         }
         Ok(Chunk {
             series,
+            ranges,
             rejected,
             any_data,
         })

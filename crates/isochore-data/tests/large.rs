@@ -225,3 +225,35 @@ fn quotes_and_nul_bytes_in_a_large_file_are_seen() {
         }
     }
 }
+
+/// The temperature range of a data set is gathered while each half is read and combined
+/// at the join: a data set at one temperature in both halves is refused, one whose second
+/// half is at another temperature is not.
+#[test]
+fn one_temperature_is_judged_over_both_halves() {
+    for (late_t, refused) in [(300, true), (310, false)] {
+        let mut text = String::from("sample,T (K),ln K\n");
+        let mut i = 0usize;
+        while text.len() < 3 << 20 {
+            let late = text.len() > 2 << 20; // well inside the second half
+            let t = if late { late_t } else { 300 };
+            text.push_str(&format!(
+                "flat,{t},{}\nwide,{},1.5\n",
+                1.0 + (i % 7) as f64,
+                280 + i % 40
+            ));
+            i += 1;
+        }
+        match import_text("flat.csv", &text, &ImportOptions::default()) {
+            Err(isochore_data::Error::SingleTemperature { series, kelvin, .. }) => {
+                assert!(refused, "T = {late_t} late in the file");
+                assert_eq!((series.as_str(), kelvin), ("flat", 300.0));
+            }
+            Ok(imp) => {
+                assert!(!refused);
+                assert_eq!(imp.series.len(), 2);
+            }
+            Err(e) => panic!("{e}"),
+        }
+    }
+}
