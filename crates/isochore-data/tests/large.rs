@@ -66,16 +66,9 @@ fn two_halves_read_like_one() {
 /// the same as importing the very same bytes from memory (same SHA-256, rows, cells).
 #[test]
 fn parallel_file_read_matches_bytes() {
-    let mut text = String::from("T (K),ln K,note\n");
-    let mut i = 0usize;
-    while text.len() < 5 << 20 {
-        text.push_str(&format!(
-            "{},{},row {i}\n",
-            280 + i % 50,
-            1.0 + (i % 7) as f64 / 8.0
-        ));
-        i += 1;
-    }
+    let (text, i) = rows_up_to("T (K),ln K,note", 5 << 20, |i| {
+        format!("{},{},row {i}", 280 + i % 50, 1.0 + (i % 7) as f64 / 8.0)
+    });
     let dir = tempfile::tempdir().unwrap();
     let path = dir.path().join("big.csv");
     std::fs::write(&path, &text).unwrap();
@@ -185,16 +178,9 @@ fn many_data_sets_across_the_halves() {
 /// quoted (as from memory), and the NUL byte makes the file binary, at its line.
 #[test]
 fn quotes_and_nul_bytes_in_a_large_file_are_seen() {
-    let mut text = String::from("sample,T (K),ln K\n");
-    let mut i = 0usize;
-    while text.len() < 5 << 20 {
-        text.push_str(&format!(
-            "a,{},{}\n",
-            280 + i % 50,
-            1.0 + (i % 7) as f64 / 8.0
-        ));
-        i += 1;
-    }
+    let (text, _) = rows_up_to("sample,T (K),ln K", 5 << 20, |i| {
+        format!("a,{},{}", 280 + i % 50, 1.0 + (i % 7) as f64 / 8.0)
+    });
     let dir = tempfile::tempdir().unwrap();
     let o = ImportOptions::default();
     let n_lines = text.lines().count();
@@ -256,4 +242,17 @@ fn one_temperature_is_judged_over_both_halves() {
             Err(e) => panic!("{e}"),
         }
     }
+}
+
+/// A header line and then lines `row(0)`, `row(1)`, … until the text is at least `bytes`
+/// long; also returns the number of rows.
+fn rows_up_to(header: &str, bytes: usize, row: impl Fn(usize) -> String) -> (String, usize) {
+    let mut text = format!("{header}\n");
+    let mut i = 0usize;
+    while text.len() < bytes {
+        text.push_str(&row(i));
+        text.push('\n');
+        i += 1;
+    }
+    (text, i)
 }
