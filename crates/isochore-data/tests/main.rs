@@ -1,0 +1,6 @@
+//! The one integration-test binary of this crate: each module is a former test file.
+
+mod fixtures;
+mod fuzz;
+mod large;
+mod project;

@@ -1,0 +1,9 @@
+//! The one integration-test binary of this crate: each module is a former test file.
+
+mod garbage_in;
+mod handbook;
+mod known_answers;
+mod nist_strd;
+mod properties;
+mod regressions;
+mod weighted_reference;

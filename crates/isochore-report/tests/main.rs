@@ -1,0 +1,3 @@
+//! The one integration-test binary of this package: one module per subject.
+
+mod render;
