@@ -380,6 +380,7 @@ mod tests {
             (QuantityKind::DeltaG(EnergyUnit::KilojoulePerMole), dg / 1e3),
             (
                 QuantityKind::DeltaG(EnergyUnit::KilocaloriePerMole),
+                // J per kcal: the thermochemical calorie, 4.184 J exactly (NIST SP 811, B.8).
                 dg / 4184.0,
             ),
         ];

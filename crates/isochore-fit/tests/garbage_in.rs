@@ -238,6 +238,69 @@ fn huge_and_tiny_magnitudes() {
     try_everything(&flat);
 }
 
+/// Relative closeness for the scaling checks below (rounding only: the scalings are powers
+/// of ten applied to well-conditioned data).
+fn rel_close(a: f64, b: f64) -> bool {
+    (a - b).abs() <= 1e-9 * a.abs().max(b.abs()).max(f64::MIN_POSITIVE)
+}
+
+#[test]
+fn valid_scaled_inputs_fit_and_scale_as_they_must() {
+    // ln K and σ(ln K) multiplied by a power of ten are ordinary inputs: every option must
+    // fit them, and the results must move as the algebra says (the estimates are linear in
+    // ln K; a common factor on every σ cancels from the weights under the scaled-by-fit
+    // convention and multiplies the SEs under the absolute one).
+    for o in all_options() {
+        let base = fit(&good_points(), &o).expect("the unscaled points fit");
+        for scale in [1e-30, 1e-3, 1e3, 1e30] {
+            let what = format!(
+                "{:?}/{:?}/{:?} at scale {scale}",
+                o.model, o.weighting, o.convention
+            );
+            let ln_k: Vec<Measurement> = good_points()
+                .iter()
+                .map(|m| Measurement {
+                    ln_k: m.ln_k * scale,
+                    sigma_ln_k: m.sigma_ln_k.map(|s| s * scale),
+                    ..*m
+                })
+                .collect();
+            let f = fit(&ln_k, &o).unwrap_or_else(|e| panic!("ln K and σ scaled, {what}: {e}"));
+            check_fit(&f);
+            for (a, b) in f.params.iter().zip(&base.params) {
+                assert!(
+                    rel_close(a.estimate.value, b.estimate.value * scale),
+                    "{what}: {a:?} vs {b:?}"
+                );
+                assert!(
+                    rel_close(a.estimate.se, b.estimate.se * scale),
+                    "{what}: {a:?} vs {b:?}"
+                );
+            }
+            let sigma: Vec<Measurement> = good_points()
+                .iter()
+                .map(|m| m.with_sigma(m.sigma_ln_k.unwrap() * scale))
+                .collect();
+            let f = fit(&sigma, &o).unwrap_or_else(|e| panic!("σ scaled, {what}: {e}"));
+            check_fit(&f);
+            let se_factor = match (o.weighting, o.convention) {
+                (Weighting::InverseVariance, SigmaConvention::Absolute) => scale,
+                _ => 1.0,
+            };
+            for (a, b) in f.params.iter().zip(&base.params) {
+                assert!(
+                    rel_close(a.estimate.value, b.estimate.value),
+                    "{what}: {a:?} vs {b:?}"
+                );
+                assert!(
+                    rel_close(a.estimate.se, b.estimate.se * se_factor),
+                    "{what}: {a:?} vs {b:?}"
+                );
+            }
+        }
+    }
+}
+
 #[test]
 fn degenerate_designs() {
     // All at one temperature, or two temperatures for the three-parameter model.

@@ -252,7 +252,8 @@ fn harmonic_mean_temperature_decorrelates() {
     );
     // The reported values at T_h carry exactly these uncertainties.
     assert!((f.at_harmonic.delta_h.se - se_of(&f, &h_th)).abs() < 1e-9 * f.at_harmonic.delta_h.se);
-    // Re-expressed at T_h, ΔH° and ΔS° are less correlated than at θ (issue 2), though
+    // Re-expressed at T_h, ΔH° and ΔS° are less correlated than at θ (the design is centred
+    // near T_h), though
     // only slightly: ΔS° = (ΔH° − ΔG°)/T keeps them near ±1 at any temperature …
     assert!(c_hs_th.abs() < c_hs_0.abs());
     // … and ΔG°(T_h) is much less correlated with ΔH°(T_h) than at θ.

@@ -9,10 +9,12 @@
 //! deviation and R² is printed as a table (`cargo test -p isochore-fit --test nist_strd --
 //! --nocapture`) and required to be at least 9 (Filip, the ill-conditioned degree-10
 //! polynomial: at least 7). When the folder is absent (a fresh clone without `shared/`),
-//! the test prints why and passes.
+//! the test prints why (to the process's stderr, which the test runner does not capture)
+//! and passes.
 
 use isochore_fit::least_squares::solve;
 use nalgebra::DMatrix;
+use std::io::Write;
 use std::path::PathBuf;
 
 /// The 11 datasets of the NIST StRD linear least-squares suite.
@@ -192,7 +194,10 @@ fn score(d: &Dataset) -> Result<Scores, String> {
 fn nist_strd_linear_least_squares_lre() {
     let dir = reference_dir();
     if !dir.is_dir() {
-        eprintln!(
+        // Straight to the process's stderr: libtest captures `eprintln!` of a passing test
+        // and shows nothing, so the skip would look like a pass.
+        let _ = writeln!(
+            std::io::stderr(),
             "NIST StRD check skipped: folder {} not found (set ISOCHORE_SHARED to the shared folder that holds reference/nist-strd-lls)",
             dir.display()
         );
@@ -219,7 +224,8 @@ fn nist_strd_linear_least_squares_lre() {
                 continue;
             }
         };
-        // Requirement of issue 2: LRE ≥ 9 everywhere, Filip ≥ 7.
+        // Project requirement (set in issue 2, not a NIST figure): LRE ≥ 9 everywhere,
+        // Filip ≥ 7.
         let required = if name == "Filip" { 7.0 } else { 9.0 };
         match score(&d) {
             Ok(s) => {
