@@ -297,6 +297,9 @@ pub enum Error {
         path: String,
         /// What is wrong (with line and column where known).
         message: String,
+        /// The backup `<path>.bak` of the previous save, when one exists beside the file
+        /// (only then does the message point to it).
+        backup: Option<String>,
     },
     /// A project file written by a newer version of Isochore.
     ProjectTooNew {
@@ -417,10 +420,16 @@ impl fmt::Display for Error {
                 f,
                 "{file}: data set '{series}': every point is at one temperature ({kelvin:.2} K); a van 't Hoff analysis needs at least two temperatures"
             ),
-            Error::ProjectDamaged { path, message } => write!(
-                f,
-                "{path}: not a readable Isochore project ({message}); the file was not changed. If a save was interrupted, '{path}.bak' holds the previous version"
-            ),
+            Error::ProjectDamaged { path, message, backup } => {
+                write!(
+                    f,
+                    "{path}: not a readable Isochore project ({message}); the file was not changed"
+                )?;
+                if let Some(b) = backup {
+                    write!(f, ". If a save was interrupted, '{b}' holds the previous version")?;
+                }
+                Ok(())
+            }
             Error::ProjectTooNew { path, found, supported } => write!(
                 f,
                 "{path}: project schema version {found} is newer than this version of Isochore reads (up to {supported}); update Isochore. The file was not changed"

@@ -123,13 +123,13 @@ impl ColumnMapping {
             if c >= n_columns {
                 return Err(format!(
                     "the {role} column is column {} but the file has {n_columns} column(s)",
-                    c + 1
+                    one_based(c)
                 ));
             }
             if let Some(&(_, other)) = used[..i].iter().find(|(c2, _)| *c2 == c) {
                 return Err(format!(
                     "column {} is used both as {other} and as {role}",
-                    c + 1
+                    one_based(c)
                 ));
             }
         }
@@ -225,6 +225,12 @@ impl ColumnMapping {
 /// True when two quantity kinds are the same quantity (units may differ for K_d and ΔG°).
 pub(crate) fn same_family(a: QuantityKind, b: QuantityKind) -> bool {
     std::mem::discriminant(&a) == std::mem::discriminant(&b)
+}
+
+/// A 0-based column index shown 1-based, without overflow for any stored index (a project
+/// edited by hand may hold 2⁶⁴ − 1).
+pub(crate) fn one_based(c: usize) -> u128 {
+    c as u128 + 1
 }
 
 /// The converted values of one accepted row.

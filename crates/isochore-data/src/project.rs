@@ -337,7 +337,10 @@ impl Project {
         let damaged = |message: String| Error::ProjectDamaged {
             path: path.to_string(),
             message,
+            backup: existing_backup(path),
         };
+        // A byte-order mark, as some editors write, is accepted as it is for CSV files.
+        let text = text.strip_prefix('\u{FEFF}').unwrap_or(text);
         let v: Version = serde_json::from_str(text).map_err(|e| damaged(describe_json(&e)))?;
         if v.schema_version > SCHEMA_VERSION {
             return Err(Error::ProjectTooNew {
@@ -374,6 +377,7 @@ impl Project {
             .map_err(io)?;
         if bytes.len() as u64 > MAX_PROJECT_BYTES {
             return Err(Error::ProjectDamaged {
+                backup: existing_backup(&shown),
                 path: shown,
                 message: format!("larger than {MAX_PROJECT_BYTES} bytes"),
             });
@@ -381,6 +385,7 @@ impl Project {
         let text = String::from_utf8(bytes).map_err(|e| Error::ProjectDamaged {
             path: shown.clone(),
             message: format!("not UTF-8 text (byte {})", e.utf8_error().valid_up_to()),
+            backup: existing_backup(&shown),
         })?;
         Project::from_json(&text, &shown)
     }
@@ -425,10 +430,24 @@ impl Project {
     }
 }
 
+/// `<path>.bak` when such a file exists (a previous save kept by [`Project::save_atomic`]).
+fn existing_backup(path: &str) -> Option<String> {
+    if path.is_empty() {
+        return None;
+    }
+    let bak = format!("{path}.bak");
+    Path::new(&bak).is_file().then_some(bak)
+}
+
+/// serde_json's message with the location said once, in front: serde_json ends its own
+/// text with " at line L column C", which is cut off here.
 fn describe_json(e: &serde_json::Error) -> String {
+    let text = e.to_string();
     if e.line() > 0 {
-        format!("line {}, column {}: {e}", e.line(), e.column())
+        let suffix = format!(" at line {} column {}", e.line(), e.column());
+        let inner = text.strip_suffix(&suffix).unwrap_or(&text);
+        format!("line {}, column {}: {inner}", e.line(), e.column())
     } else {
-        e.to_string()
+        text
     }
 }

@@ -224,6 +224,7 @@ fn settings() -> impl Strategy<Value = SeriesSettings> {
                         leverage_factor: b,
                         cooks_factor: d,
                     },
+                    allow_extreme_temperatures: w,
                 },
                 energy_unit: if w {
                     EnergyUnit::KilocaloriePerMole

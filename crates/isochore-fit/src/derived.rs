@@ -83,6 +83,10 @@ pub const MAX_ELLIPSE_VERTICES: usize = 65_536;
 /// Most grid points [`VantHoffFit::band_grid`] evaluates; larger requests are capped.
 pub const MAX_BAND_GRID: usize = 1_000_000;
 
+/// Relative margin beyond the measured temperature range within which a temperature still
+/// counts as inside it (absorbs the rounding of a unit conversion, e.g. °C to K): 1e-12.
+pub const EXTRAPOLATION_RELATIVE_TOLERANCE: f64 = 1e-12;
+
 impl VantHoffFit {
     fn n_params(&self) -> usize {
         self.params.len()
@@ -162,9 +166,12 @@ impl VantHoffFit {
         }
     }
 
-    /// Whether `t_k` lies outside the range of the used temperatures.
+    /// Whether `t_k` lies outside the range of the used temperatures. The test is relative
+    /// ([`EXTRAPOLATION_RELATIVE_TOLERANCE`] of the range's ends), so it means the same at
+    /// 1e-10 K as at 300 K; a temperature that is not a finite number is an extrapolation.
     pub fn is_extrapolation(&self, t_k: f64) -> bool {
-        t_k < self.t_min_k - 1e-9 || t_k > self.t_max_k + 1e-9
+        let tol = EXTRAPOLATION_RELATIVE_TOLERANCE;
+        !t_k.is_finite() || t_k < self.t_min_k * (1.0 - tol) || t_k > self.t_max_k * (1.0 + tol)
     }
 
     fn ln_k_prediction(&self, t_k: f64) -> ValuePrediction {

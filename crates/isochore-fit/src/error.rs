@@ -67,6 +67,48 @@ pub enum Error {
     },
     /// A confidence level outside the open interval (0, 1).
     InvalidLevel(f64),
+    /// A confidence level so close to 1 (above [`crate::model::MAX_LEVEL`]) that its
+    /// interval cannot be computed in double precision.
+    LevelTooCloseToOne(f64),
+    /// A temperature outside the plausible range [`crate::model::MIN_PLAUSIBLE_K`] to
+    /// [`crate::model::MAX_PLAUSIBLE_K`], not confirmed with
+    /// [`crate::FitOptions::allow_extreme_temperatures`].
+    ImplausibleTemperature {
+        /// 0-based index of the point.
+        index: Option<usize>,
+        /// The temperature in kelvin.
+        kelvin: f64,
+    },
+    /// A reference temperature θ outside the plausible range, not confirmed.
+    ImplausibleReferenceTemperature(f64),
+    /// An uncertainty whose square (for the weight 1/σ²) overflows or underflows double
+    /// precision (σ above about 1e154 or below about 1e-154).
+    SigmaOutOfRange {
+        /// 0-based index of the point.
+        index: Option<usize>,
+        /// The uncertainty σ(ln K).
+        value: f64,
+    },
+    /// Fewer distinct temperatures (at [`crate::model::TEMPERATURE_RESOLUTION_K`]) than the
+    /// model needs: p for the estimates, p + 1 for any error estimate.
+    TooFewTemperatures {
+        /// Distinct temperatures found (counted up to `needed`).
+        distinct: usize,
+        /// Distinct temperatures needed.
+        needed: usize,
+        /// Parameters of the model.
+        parameters: usize,
+        /// Used points (rows), which may be many more than the temperatures.
+        points: usize,
+    },
+    /// The design is too ill-conditioned for a point's diagnostics to be computed, although
+    /// the point's temperature is ordinary.
+    IllConditioned {
+        /// 0-based index of the first point that could not be evaluated.
+        index: usize,
+        /// Its temperature in kelvin.
+        kelvin: f64,
+    },
     /// A model reference temperature θ that is not a positive finite number of kelvin.
     InvalidReferenceTemperature(f64),
     /// A flag threshold that is not a positive finite number.
@@ -79,6 +121,16 @@ pub enum Error {
     /// A requested quantity has no solution for this fit (for example, K never reaches the
     /// target value at any positive temperature).
     NoSolution(String),
+}
+
+/// A value for a message: at most 6 significant digits (a 300-digit number is never
+/// printed), in exponent form when very large or small.
+pub(crate) fn short(v: f64) -> String {
+    if !v.is_finite() {
+        return format!("{v}");
+    }
+    let rounded = format!("{v:.5e}").parse::<f64>().unwrap_or(v);
+    format!("{rounded:?}")
 }
 
 fn point(index: Option<usize>) -> String {
@@ -98,8 +150,9 @@ impl fmt::Display for Error {
             ),
             Error::NonPositiveTemperature { index, kelvin } => write!(
                 f,
-                "{}temperature {kelvin} K is at or below absolute zero; check the temperature unit (°C, K or °F)",
-                point(*index)
+                "{}temperature {} K is at or below absolute zero; check the temperature unit (°C, K or °F)",
+                point(*index),
+                short(*kelvin)
             ),
             Error::NonPositiveConstant { index, value } => write!(
                 f,
@@ -126,7 +179,7 @@ impl fmt::Display for Error {
             ),
             Error::RankDeficient { column } => write!(
                 f,
-                "the fit is singular: column {} depends on the others (too few distinct temperatures for this model?)",
+                "the fit is singular: design column {} is numerically dependent on the others, so its parameter cannot be told apart from them (temperatures too close together for this model, or θ far from the data)",
                 column + 1
             ),
             Error::DimensionMismatch { what, expected, found } => {
@@ -135,6 +188,45 @@ impl fmt::Display for Error {
             Error::InvalidLevel(l) => write!(
                 f,
                 "confidence level {l} is not between 0 and 1 (exclusive); for 95 % give 0.95"
+            ),
+            Error::LevelTooCloseToOne(l) => write!(
+                f,
+                "confidence level {l} is too close to 1: its interval would be infinitely wide in double precision; give at most {} (e.g. 0.999)",
+                crate::model::MAX_LEVEL
+            ),
+            Error::ImplausibleTemperature { index, kelvin } => write!(
+                f,
+                "{}temperature {} K is outside the plausible range {} to {} K; check the value and its unit, or confirm such temperatures explicitly (allow extreme temperatures)",
+                point(*index),
+                short(*kelvin),
+                crate::model::MIN_PLAUSIBLE_K,
+                crate::model::MAX_PLAUSIBLE_K
+            ),
+            Error::ImplausibleReferenceTemperature(t) => write!(
+                f,
+                "reference temperature θ = {} K is outside the plausible range {} to {} K; give θ in kelvin near the data (default 298.15), or confirm extreme temperatures explicitly",
+                short(*t),
+                crate::model::MIN_PLAUSIBLE_K,
+                crate::model::MAX_PLAUSIBLE_K
+            ),
+            Error::SigmaOutOfRange { index, value } => write!(
+                f,
+                "{}uncertainty σ(ln K) = {} is too {} for its weight 1/σ² to be computed in double precision; σ of ln K is usually between 1e-6 and 10 — check the value and its unit",
+                point(*index),
+                short(*value),
+                if value.abs() > 1.0 { "large" } else { "small" }
+            ),
+            Error::TooFewTemperatures { distinct, needed, parameters, points } => write!(
+                f,
+                "only {distinct} distinct temperature(s) among {points} used point(s) (temperatures closer than {} K count as one), but a model with {parameters} parameters needs at least {parameters} distinct temperatures, and {} for an error estimate: repeats at one temperature do not tell the model's shape; measure at {needed} or more temperatures, or choose a simpler model",
+                crate::model::TEMPERATURE_RESOLUTION_K,
+                parameters + 1
+            ),
+            Error::IllConditioned { index, kelvin } => write!(
+                f,
+                "point {} ({} K): the fit is too ill-conditioned to evaluate this point — the design is numerically singular (temperatures nearly alike, or θ far from the data); widen the temperature range or choose θ near the data",
+                index + 1,
+                short(*kelvin)
             ),
             Error::InvalidReferenceTemperature(t) => write!(
                 f,

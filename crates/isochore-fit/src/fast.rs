@@ -27,7 +27,7 @@
 #![allow(clippy::needless_range_loop)]
 
 use crate::diagnostics::{diagnose_one, DiagnosticsSummary, Flags, PointContext, PointDiagnostics};
-use crate::least_squares::{split, two_prod_split, two_sum, RANK_TOLERANCE};
+use crate::least_squares::{rank_tolerance, split, two_prod_split, two_sum};
 use crate::measurement::Measurement;
 use crate::model::{FitOptions, Model, SigmaConvention, Weighting};
 use nalgebra::DMatrix;
@@ -196,7 +196,7 @@ struct Sub {
 impl Sub {
     /// Solves the leading p×p block; `None` when rank deficient or ill-conditioned beyond
     /// what semi-normal refinement handles.
-    fn new(r4: &[[f64; 4]; 4], p: usize, scale: &[f64; 3]) -> Option<(Sub, bool)> {
+    fn new(r4: &[[f64; 4]; 4], p: usize, scale: &[f64; 3], n: usize) -> Option<(Sub, bool)> {
         let mut r = [[0.0; 3]; 3];
         for a in 0..p {
             for b in a..p {
@@ -208,7 +208,7 @@ impl Sub {
         let max_diag = diag.iter().cloned().fold(0.0, f64::max);
         if diag
             .iter()
-            .any(|d| d.is_nan() || *d <= RANK_TOLERANCE * max_diag)
+            .any(|d| d.is_nan() || *d <= rank_tolerance(n) * max_diag)
         {
             return None;
         }
@@ -440,10 +440,10 @@ impl FastFit {
             Model::Linear => Model::ConstantCp,
             Model::ConstantCp => Model::Linear,
         };
-        let (fitted, refine_fitted) = Sub::new(&r4, p, &scale)?;
+        let (fitted, refine_fitted) = Sub::new(&r4, p, &scale, n)?;
         let mut tracks = vec![Track::new(fitted, refine_fitted, &scale)];
         if n >= 4 {
-            let (o, r) = Sub::new(&r4, other_model.n_params(), &scale)?;
+            let (o, r) = Sub::new(&r4, other_model.n_params(), &scale, n)?;
             tracks.push(Track::new(o, r, &scale));
         }
         let mean = sum_wy / sum_w;
@@ -942,7 +942,17 @@ mod tests {
             })
             .collect();
         assert!(FastFit::try_new(&two, &opts).is_none());
-        assert!(crate::fit(&two, &opts).unwrap().comparison.is_none());
+        // Two temperatures leave the linear model no error estimate from the scatter …
+        assert!(matches!(
+            crate::fit(&two, &opts),
+            Err(crate::Error::TooFewTemperatures { distinct: 2, .. })
+        ));
+        // … but with absolute σ it is fitted, and the ΔCp° comparison is left out.
+        let absolute = FitOptions {
+            convention: crate::SigmaConvention::Absolute,
+            ..opts
+        };
+        assert!(crate::fit(&two, &absolute).unwrap().comparison.is_none());
         // A missing σ and a bad level are reported by the general path.
         let mut missing = pts.clone();
         missing[5].sigma_ln_k = None;

@@ -16,9 +16,20 @@ use crate::error::Error;
 use nalgebra::{DMatrix, DVector};
 
 /// Relative size of a diagonal element of R, against the largest, below which the design
-/// is declared rank deficient. Column scaling makes the diagonal comparable; a column that
-/// truly depends on the others leaves a diagonal element at rounding level (~1e-16).
+/// is declared rank deficient (the floor of [`rank_tolerance`]). Column scaling makes the
+/// diagonal comparable; a column that truly depends on the others leaves a diagonal element
+/// at rounding level.
 pub const RANK_TOLERANCE: f64 = 1e-13;
+
+/// The rank tolerance for a design of `n` rows, relative to the largest diagonal element
+/// of the column-equilibrated R: `max(RANK_TOLERANCE, n·ε)`. The rounding left in R by a
+/// dependent column grows with the number of rows accumulated (up to about n·ε), so a fixed
+/// tolerance at the edge of floating point would let rounding noise of many repeats pass
+/// for information (the rule of numerical rank used by LAPACK's and NumPy's rank
+/// estimates, which scale ε by the problem's size; common practice).
+pub fn rank_tolerance(n: usize) -> f64 {
+    RANK_TOLERANCE.max(n as f64 * f64::EPSILON)
+}
 
 /// The solution of a weighted linear least-squares problem and what diagnostics need.
 #[derive(Debug, Clone)]
@@ -423,9 +434,10 @@ fn solve_impl(
     let qr = a.qr();
     let r = qr.r();
     let max_diag = (0..p).map(|j| r[(j, j)].abs()).fold(0.0, f64::max);
+    let tolerance = rank_tolerance(n);
     for j in 0..p {
         let d = r[(j, j)].abs();
-        if d.is_nan() || d <= RANK_TOLERANCE * max_diag {
+        if d.is_nan() || d <= tolerance * max_diag {
             return Err(Error::RankDeficient { column: j });
         }
     }

@@ -51,7 +51,9 @@ pub use diagnostics::{FlagKind, Flags, PointDiagnostics};
 pub use error::Error;
 pub use measurement::Measurement;
 pub use model::{
-    FitOptions, FlagThresholds, Model, SigmaConvention, Weighting, DEFAULT_REFERENCE_K,
+    count_distinct_temperatures, is_plausible_temperature, FitOptions, FlagThresholds, Model,
+    SigmaConvention, Weighting, DEFAULT_REFERENCE_K, MAX_LEVEL, MAX_PLAUSIBLE_K, MIN_PLAUSIBLE_K,
+    TEMPERATURE_RESOLUTION_K,
 };
 pub use units::{ConcentrationUnit, EnergyUnit, QuantityKind, TemperatureUnit};
 pub use vant_hoff::{

@@ -20,6 +20,65 @@ use serde::{Deserialize, Serialize};
 /// temperature conventionally used for tabulated thermochemistry).
 pub const DEFAULT_REFERENCE_K: f64 = 298.15;
 
+/// Lowest temperature accepted without the user's confirmation, 1 K (see
+/// [`FitOptions::allow_extreme_temperatures`]). Equilibrium measurements below it are
+/// practically unknown; a value there is nearly always a unit or typing mistake.
+pub const MIN_PLAUSIBLE_K: f64 = 1.0;
+
+/// Highest temperature accepted without the user's confirmation, 10 000 K (see
+/// [`FitOptions::allow_extreme_temperatures`]); a value above it is nearly always a unit or
+/// typing mistake (e.g. `37.0e300`).
+pub const MAX_PLAUSIBLE_K: f64 = 10_000.0;
+
+/// The temperature resolution, 1 mK: two temperatures closer than this are the same
+/// temperature. A model with p parameters needs at least p temperatures that are distinct
+/// at this resolution, and p + 1 for any error estimate (see [`count_distinct_temperatures`]).
+/// The two-point calculation uses the same rule for its two temperatures.
+pub const TEMPERATURE_RESOLUTION_K: f64 = 1e-3;
+
+/// Highest confidence level accepted, 1 − 10⁻⁹: above it the critical value of an
+/// interval is not distinguishable from infinity in double precision for few degrees of
+/// freedom, and 0.5 + level/2 rounds to 1.
+pub const MAX_LEVEL: f64 = 1.0 - 1e-9;
+
+/// Whether a temperature in kelvin lies in the plausible range
+/// [[`MIN_PLAUSIBLE_K`], [`MAX_PLAUSIBLE_K`]].
+pub fn is_plausible_temperature(t_k: f64) -> bool {
+    (MIN_PLAUSIBLE_K..=MAX_PLAUSIBLE_K).contains(&t_k)
+}
+
+/// How many distinct temperatures `temps` holds at the resolution
+/// [`TEMPERATURE_RESOLUTION_K`], counting no further than `limit` (so the usual data answer
+/// after a few values). A temperature is new when it differs by at least the resolution
+/// from every temperature counted so far; non-finite values are skipped.
+///
+/// ```
+/// use isochore_fit::model::count_distinct_temperatures;
+/// let t = [300.0, 300.0004, 310.0, 300.0];
+/// assert_eq!(count_distinct_temperatures(t.iter().copied(), 10), 2);
+/// ```
+pub fn count_distinct_temperatures(temps: impl IntoIterator<Item = f64>, limit: usize) -> usize {
+    let mut seen: Vec<f64> = Vec::with_capacity(limit.min(8));
+    if limit == 0 {
+        return 0;
+    }
+    for t in temps {
+        if !t.is_finite() {
+            continue;
+        }
+        if seen
+            .iter()
+            .all(|s| (t - s).abs() >= TEMPERATURE_RESOLUTION_K)
+        {
+            seen.push(t);
+            if seen.len() >= limit {
+                break;
+            }
+        }
+    }
+    seen.len()
+}
+
 /// Which van 't Hoff model to fit.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
 pub enum Model {
@@ -132,6 +191,9 @@ pub struct FitOptions {
     pub level: f64,
     /// Flag thresholds.
     pub thresholds: FlagThresholds,
+    /// The user confirms temperatures (and θ) outside [[`MIN_PLAUSIBLE_K`],
+    /// [`MAX_PLAUSIBLE_K`]]; without it such a point or θ is refused (default false).
+    pub allow_extreme_temperatures: bool,
 }
 
 impl Default for FitOptions {
@@ -143,6 +205,7 @@ impl Default for FitOptions {
             convention: SigmaConvention::ScaledByFit,
             level: 0.95,
             thresholds: FlagThresholds::default(),
+            allow_extreme_temperatures: false,
         }
     }
 }
@@ -151,12 +214,16 @@ impl FitOptions {
     /// Checks the options.
     ///
     /// # Errors
-    /// [`Error::InvalidLevel`], [`Error::InvalidReferenceTemperature`] or
-    /// [`Error::InvalidThreshold`].
+    /// [`Error::InvalidLevel`], [`Error::InvalidReferenceTemperature`] (θ not a positive
+    /// finite number of kelvin, or outside the plausible range without
+    /// [`FitOptions::allow_extreme_temperatures`]) or [`Error::InvalidThreshold`].
     pub fn validate(&self) -> Result<(), Error> {
         check_level(self.level)?;
         if !(self.t_ref_k.is_finite() && self.t_ref_k > 0.0) {
             return Err(Error::InvalidReferenceTemperature(self.t_ref_k));
+        }
+        if !self.allow_extreme_temperatures && !is_plausible_temperature(self.t_ref_k) {
+            return Err(Error::ImplausibleReferenceTemperature(self.t_ref_k));
         }
         let t = self.thresholds;
         for (name, value) in [
@@ -172,15 +239,19 @@ impl FitOptions {
     }
 }
 
-/// Checks a confidence level lies in the open interval (0, 1).
+/// Checks a confidence level lies in the open interval (0, 1) and is at most
+/// [`MAX_LEVEL`].
 ///
 /// # Errors
-/// [`Error::InvalidLevel`].
+/// [`Error::InvalidLevel`] outside (0, 1); [`Error::LevelTooCloseToOne`] above
+/// [`MAX_LEVEL`].
 pub fn check_level(level: f64) -> Result<(), Error> {
-    if level.is_finite() && level > 0.0 && level < 1.0 {
-        Ok(())
-    } else {
+    if !(level.is_finite() && level > 0.0 && level < 1.0) {
         Err(Error::InvalidLevel(level))
+    } else if level > MAX_LEVEL {
+        Err(Error::LevelTooCloseToOne(level))
+    } else {
+        Ok(())
     }
 }
 

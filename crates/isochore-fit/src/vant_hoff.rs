@@ -10,7 +10,10 @@ use crate::error::Error;
 use crate::fast::FastFit;
 use crate::least_squares::{solve, weighted_rss, LinearFit};
 use crate::measurement::Measurement;
-use crate::model::{FitOptions, Model, SigmaConvention, Weighting};
+use crate::model::{
+    is_plausible_temperature, FitOptions, Model, SigmaConvention, Weighting,
+    TEMPERATURE_RESOLUTION_K,
+};
 use crate::stats::{chi2_upper_tail, f_upper_tail, normal_quantile, t_quantile};
 use nalgebra::DMatrix;
 use serde::{Deserialize, Serialize};
@@ -274,37 +277,96 @@ pub(crate) struct Prepared {
     pub(crate) y: Vec<f64>,
 }
 
+/// Checks points and options for `model` in one pass, before any arithmetic: every value
+/// valid ([`Measurement::validate`]); every temperature plausible unless
+/// [`FitOptions::allow_extreme_temperatures`]; enough used points; enough distinct
+/// temperatures at [`TEMPERATURE_RESOLUTION_K`] — p for a model with p parameters and p + 1
+/// for an error estimate from the scatter (p under absolute σ, whose errors come from σ);
+/// and, for a weighted fit, a σ on every used point whose weight 1/σ² is a normal number.
+///
+/// # Errors
+/// In this order: the first invalid or implausible point, [`Error::TooFewPoints`],
+/// [`Error::SingleTemperature`], [`Error::TooFewTemperatures`], then the first used point
+/// with [`Error::MissingSigma`] or [`Error::SigmaOutOfRange`].
+pub(crate) fn check_inputs(
+    points: &[Measurement],
+    options: &FitOptions,
+    model: Model,
+) -> Result<(), Error> {
+    options.validate()?;
+    let p = model.n_params();
+    let weighted = options.weighting == Weighting::InverseVariance;
+    let needed = if weighted && options.convention == SigmaConvention::Absolute {
+        p
+    } else {
+        p + 1
+    };
+    let mut used = 0usize;
+    let mut seen: Vec<f64> = Vec::with_capacity(needed);
+    let mut sigma_fault: Option<Error> = None;
+    for (i, pt) in points.iter().enumerate() {
+        pt.validate(i)?;
+        if !options.allow_extreme_temperatures && !is_plausible_temperature(pt.t_k) {
+            return Err(Error::ImplausibleTemperature {
+                index: Some(i),
+                kelvin: pt.t_k,
+            });
+        }
+        if !pt.included {
+            continue;
+        }
+        used += 1;
+        if seen.len() < needed
+            && seen
+                .iter()
+                .all(|s| (pt.t_k - s).abs() >= TEMPERATURE_RESOLUTION_K)
+        {
+            seen.push(pt.t_k);
+        }
+        if weighted && sigma_fault.is_none() {
+            match pt.sigma_ln_k {
+                None => sigma_fault = Some(Error::MissingSigma { index: i }),
+                Some(s) if !(1.0 / (s * s)).is_normal() => {
+                    sigma_fault = Some(Error::SigmaOutOfRange {
+                        index: Some(i),
+                        value: s,
+                    })
+                }
+                Some(_) => {}
+            }
+        }
+    }
+    if used < needed {
+        return Err(Error::TooFewPoints {
+            available: used,
+            needed,
+        });
+    }
+    if seen.len() == 1 {
+        return Err(Error::SingleTemperature);
+    }
+    if seen.len() < needed {
+        return Err(Error::TooFewTemperatures {
+            distinct: seen.len(),
+            needed,
+            parameters: p,
+            points: used,
+        });
+    }
+    match sigma_fault {
+        Some(e) => Err(e),
+        None => Ok(()),
+    }
+}
+
 /// Validates points and options for `model` and collects the used points and weights.
 pub(crate) fn prepare(
     points: &[Measurement],
     options: &FitOptions,
     model: Model,
 ) -> Result<Prepared, Error> {
-    options.validate()?;
-    for (i, p) in points.iter().enumerate() {
-        p.validate(i)?;
-    }
+    check_inputs(points, options, model)?;
     let used: Vec<usize> = (0..points.len()).filter(|&i| points[i].included).collect();
-    let p = model.n_params();
-    let needed = match options.convention {
-        SigmaConvention::ScaledByFit => p + 1,
-        SigmaConvention::Absolute => p,
-    };
-    let needed = if options.weighting == Weighting::Unweighted {
-        p + 1
-    } else {
-        needed
-    };
-    if used.len() < needed {
-        return Err(Error::TooFewPoints {
-            available: used.len(),
-            needed,
-        });
-    }
-    let t0 = points[used[0]].t_k;
-    if used.iter().all(|&i| points[i].t_k == t0) {
-        return Err(Error::SingleTemperature);
-    }
     let weights = match options.weighting {
         Weighting::Unweighted => None,
         Weighting::InverseVariance => {
@@ -484,6 +546,9 @@ pub(crate) fn fit_with(
     let model = options.model;
     // Well-behaved data take the streaming path (one QR for both models, no n×p matrix);
     // everything else, errors included, the general one.
+    // The rules of identifiability and plausibility hold on both paths (one pass, which
+    // stops counting temperatures once enough are found).
+    check_inputs(points, options, model)?;
     let fast = if allow_streaming {
         FastFit::try_new(points, options)
     } else {
@@ -614,10 +679,17 @@ pub(crate) fn fit_with(
         }
     };
     if let Some((index, t_k)) = summary.first_bad {
+        // An ordinary temperature that cannot be evaluated points at the design, not at the
+        // temperature.
+        if is_plausible_temperature(t_k) {
+            return Err(Error::IllConditioned { index, kelvin: t_k });
+        }
         return Err(Error::NoSolution(format!(
-            "point {}: the model cannot be evaluated at {} K (too far from any sensible temperature); correct or remove the point",
+            "point {}: the model cannot be evaluated at {} K (far outside the plausible range {} to {} K); correct or remove the point",
             index + 1,
-            t_k
+            crate::error::short(t_k),
+            crate::model::MIN_PLAUSIBLE_K,
+            crate::model::MAX_PLAUSIBLE_K
         )));
     }
 
