@@ -8,6 +8,65 @@ use isochore_data::{import_path, Import, ImportOptions, Replicates};
 use serde_json::Value;
 use std::path::PathBuf;
 
+/// Every good fixture in `tests/data/import/` (the files `make_fixtures.py` writes). A file
+/// lost, or one added without being listed here, fails the test.
+const GOOD_FILES: [&str; 17] = [
+    "comma_celsius_kd_crlf.csv",
+    "excel_sep_line.csv",
+    "latin1_degree_micro.csv",
+    "mixed_good_and_bad_rows.csv",
+    "no_unit_celsius.csv",
+    "no_unit_kelvin.csv",
+    "pipe_fahrenheit_ka.txt",
+    "quoted_multiline_note.csv",
+    "semicolon_decimal_comma_bom.csv",
+    "series_replicates_relative.csv",
+    "slash_units_dg_kj.csv",
+    "tab_kelvin_logk.tsv",
+    "trailing_delimiter_kd_first.csv",
+    "underscore_celsius_dg_kcal.csv",
+    "underscore_kelvin_kd_pm.csv",
+    "utf16le_tab.txt",
+    "whitespace_instrument.txt",
+];
+
+/// Every bad fixture in `tests/data/bad/` (the files `make_bad.py` writes, each with its
+/// entry in `expected.json`). A file lost, or one added without being listed here, fails.
+const BAD_FILES: [&str; 32] = [
+    "binary_image.png",
+    "comment_then_header_only.csv",
+    "dg_without_unit.csv",
+    "duplicate_header.csv",
+    "empty.csv",
+    "header_only.csv",
+    "header_without_line_break.csv",
+    "inf.csv",
+    "k_negative.csv",
+    "k_zero.csv",
+    "kd_negative.csv",
+    "kd_without_unit.csv",
+    "minus_300_celsius.csv",
+    "nan.csv",
+    "negative_kelvin.csv",
+    "no_temperature_column.csv",
+    "nul_bytes.csv",
+    "one_row.csv",
+    "one_temperature.csv",
+    "only_comments.csv",
+    "ragged.csv",
+    "sigma_negative.csv",
+    "sigma_zero.csv",
+    "temperature_unit_unclear.csv",
+    "ten_thousand_columns.csv",
+    "text_in_number.csv",
+    "two_quantity_columns.csv",
+    "uncertainty_of_other_quantity.csv",
+    "unknown_concentration_unit.csv",
+    "unknown_header.csv",
+    "unknown_temperature_unit.csv",
+    "very_long_line.csv",
+];
+
 fn data_dir(sub: &str) -> PathBuf {
     PathBuf::from(env!("CARGO_MANIFEST_DIR"))
         .join("../../tests/data")
@@ -22,7 +81,9 @@ fn close(a: f64, b: f64, what: &str, file: &str) {
     );
 }
 
-fn fixture_files(dir: &PathBuf) -> Vec<PathBuf> {
+/// The fixture files of `dir` (not the `.json` expectations or the `.py` generators), checked
+/// to be exactly the names in `pinned`.
+fn fixture_files(dir: &PathBuf, pinned: &[&str]) -> Vec<PathBuf> {
     let mut v: Vec<PathBuf> = std::fs::read_dir(dir)
         .expect("fixture folder")
         .map(|e| e.expect("entry").path())
@@ -32,6 +93,16 @@ fn fixture_files(dir: &PathBuf) -> Vec<PathBuf> {
         })
         .collect();
     v.sort();
+    let names: Vec<String> = v
+        .iter()
+        .map(|p| p.file_name().unwrap().to_string_lossy().into_owned())
+        .collect();
+    assert_eq!(
+        names,
+        pinned,
+        "the fixture files of {} differ from the list in fixtures.rs",
+        dir.display()
+    );
     v
 }
 
@@ -98,12 +169,8 @@ fn check_mapping(imp: &Import, exp: &Value, file: &str) {
 #[test]
 fn good_files_give_the_expected_values() {
     let dir = data_dir("import");
-    let files = fixture_files(&dir);
-    assert!(
-        files.len() >= 14,
-        "expected the good fixtures, found {}",
-        files.len()
-    );
+    let files = fixture_files(&dir, &GOOD_FILES);
+    assert_eq!(files.len(), 17);
     for path in files {
         let file = path.file_name().unwrap().to_string_lossy().to_string();
         let exp_path = dir.join(format!("{file}.expected.json"));
@@ -203,12 +270,12 @@ fn bad_files_give_the_expected_messages() {
     )
     .unwrap();
     let expected = expected.as_object().unwrap();
-    let files = fixture_files(&dir);
-    assert!(
-        files.len() >= 20,
-        "at least 20 bad files, found {}",
-        files.len()
-    );
+    let files = fixture_files(&dir, &BAD_FILES);
+    assert_eq!(files.len(), 32);
+    // expected.json names exactly these files: an entry whose file was lost fails too.
+    let mut keys: Vec<&str> = expected.keys().map(String::as_str).collect();
+    keys.sort_unstable();
+    assert_eq!(keys, BAD_FILES, "expected.json and the bad fixtures differ");
     for path in files {
         let file = path.file_name().unwrap().to_string_lossy().to_string();
         let fragments = expected
