@@ -191,9 +191,9 @@ pub struct TwoPointArgs {
     /// Standard uncertainty of ΔH° (unit from --energy).
     #[arg(long, default_value_t = 0.0)]
     pub u_delta_h: f64,
-    /// Unit of the temperatures (default °C).
-    #[arg(long, value_enum, default_value = "C")]
-    pub temp_unit: TempArg,
+    /// Unit of the temperatures (default °C, and the output says it was assumed).
+    #[arg(long, value_enum, value_name = "C|K|F")]
+    pub temp_unit: Option<TempArg>,
     /// Energy unit of ΔH° in and out (JSON is always J/mol).
     #[arg(long, value_enum, default_value = "kJ")]
     pub energy: EnergyArg,

@@ -4,11 +4,13 @@
 
 use crate::cli::FitArgs;
 use crate::load::{load, Job};
+use crate::output::{self, Style};
+use crate::report_files::Guard;
 use crate::{json, table, Failure};
 use isochore_fit::VantHoffFit;
 use isochore_report::{ReportFormat, ReportInput};
 use std::collections::HashSet;
-use std::io::{BufWriter, Write};
+use std::io::Write;
 use std::path::{Path, PathBuf};
 
 /// Fits one job with the library.
@@ -79,6 +81,7 @@ fn file_stem(job: &Job) -> String {
     base
 }
 
+/// Where the reports of this run go.
 struct ReportPlan {
     path: PathBuf,
     single_file: Option<ReportFormat>,
@@ -86,18 +89,11 @@ struct ReportPlan {
 }
 
 impl ReportPlan {
-    fn write(
-        &mut self,
-        job: &Job,
-        multi_series_file: bool,
-        fit: &VantHoffFit,
-    ) -> Result<Vec<PathBuf>, String> {
-        let input = report_input(job, fit.clone());
-        let fail = |e: isochore_report::ReportError| {
-            format!("{}: series '{}': {e}", job.source, job.series)
-        };
+    /// The files a job's report will be written to (a fresh stem for each job in folder
+    /// mode). Called once per job, in output order.
+    fn targets(&mut self, job: &Job, multi_series_file: bool) -> Vec<PathBuf> {
         if let Some(format) = self.single_file {
-            return isochore_report::write_report(&input, format, &self.path).map_err(fail);
+            return isochore_report::report_paths(format, &self.path);
         }
         let mut stem = if multi_series_file {
             format!("{}-{}", safe_stem(&file_stem(job)), safe_stem(&job.series))
@@ -112,9 +108,36 @@ impl ReportPlan {
             stem = format!("{stem}-{k}");
         }
         self.used_stems.insert(stem.clone());
-        isochore_report::write_report_set(&input, &self.path, &stem).map_err(fail)
+        isochore_report::report_set_paths(&self.path, &stem)
     }
 }
+
+/// Writes the report of one job to `targets` (from [`ReportPlan::targets`]).
+fn write_report(
+    plan: &ReportPlan,
+    job: &Job,
+    fit: &VantHoffFit,
+    targets: &[PathBuf],
+) -> Result<Vec<PathBuf>, String> {
+    let input = report_input(job, fit.clone());
+    let fail =
+        |e: isochore_report::ReportError| format!("{}: series '{}': {e}", job.source, job.series);
+    if let Some(format) = plan.single_file {
+        return isochore_report::write_report(&input, format, &plan.path).map_err(fail);
+    }
+    // The set's stem is the name of its Markdown file.
+    let stem = targets
+        .iter()
+        .find(|p| p.extension().is_some_and(|e| e == "md"))
+        .and_then(|p| p.file_stem())
+        .map(|s| s.to_string_lossy().into_owned())
+        .unwrap_or_else(|| "report".to_string());
+    isochore_report::write_report_set(&input, &plan.path, &stem).map_err(fail)
+}
+
+/// One input file after reading and fitting: its jobs with their fits, or why it could not
+/// be read.
+type Loaded = Result<Vec<(Job, Result<VantHoffFit, String>)>, String>;
 
 /// One `{"source", "error"}` element of the JSON array, after a comma when it is not the
 /// first.
@@ -133,6 +156,9 @@ fn error_entry(
 }
 
 /// Runs `isochore fit`.
+///
+/// Every input is read and fitted before anything is written, and the report files are
+/// checked (no input, nothing isochore did not write) before the first one is written.
 pub fn run(a: &FitArgs) -> Result<(), Failure> {
     let mut plan = match &a.report {
         None => None,
@@ -158,20 +184,83 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
             })
         }
     };
-    let stdout = std::io::stdout();
-    let mut out = BufWriter::with_capacity(1 << 16, stdout.lock());
+    // Read and fit everything first.
+    let loaded: Vec<(String, Loaded)> = a
+        .files
+        .iter()
+        .map(|path| {
+            let source = path.display().to_string();
+            let jobs = load(path, &a.fit, plan.is_some()).map(|jobs| {
+                jobs.into_iter()
+                    .map(|job| {
+                        let fit = fit_job(&job);
+                        (job, fit)
+                    })
+                    .collect()
+            });
+            (source, jobs)
+        })
+        .collect();
+    // Plan every report file and check it before writing any.
+    let mut targets: Vec<Vec<Vec<PathBuf>>> = Vec::new();
+    if let Some(p) = plan.as_mut() {
+        let guard = Guard::new(&a.files);
+        let mut refusals = Vec::new();
+        for (_, l) in &loaded {
+            let mut per_file = Vec::new();
+            if let Ok(jobs) = l {
+                let multi = jobs.len() > 1;
+                for (job, fit) in jobs {
+                    let t = if fit.is_ok() && !(multi && p.single_file.is_some()) {
+                        p.targets(job, multi)
+                    } else {
+                        Vec::new()
+                    };
+                    refusals.extend(t.iter().filter_map(|f| guard.refusal(f)));
+                    per_file.push(t);
+                }
+            }
+            targets.push(per_file);
+        }
+        if !refusals.is_empty() {
+            refusals.dedup();
+            return Err(Failure::usage(format!(
+                "no report was written:\n  {}",
+                refusals.join("\n  ")
+            )));
+        }
+        let folder = match p.single_file {
+            Some(_) => p
+                .path
+                .parent()
+                .filter(|d| !d.as_os_str().is_empty())
+                .map_or_else(|| PathBuf::from("."), Path::to_path_buf),
+            None => p.path.clone(),
+        };
+        let stale = isochore_report::remove_stale_temporaries(&folder);
+        if !stale.is_empty() {
+            let names: Vec<String> = stale.iter().map(|s| s.display().to_string()).collect();
+            output::note(&format!(
+                "removed {} left by an interrupted report write: {}",
+                output::count(stale.len(), "stale temporary file", "stale temporary files"),
+                names.join(", ")
+            ));
+        }
+    }
+    let guard = Guard::new(&a.files);
+    let style = if a.json { Style::Json } else { Style::Text };
+    let mut out = output::stdout(style);
     let mut failures: Vec<String> = Vec::new();
     let mut summary_rows: Vec<table::SummaryRow> = Vec::new();
     let array = a.files.len() > 1;
     let mut array_open = false;
     let mut entries = 0usize;
     let mut successes = 0usize;
-    let io_fail = |e: std::io::Error| Failure::input(format!("writing the output failed: {e}"));
+    let io_fail = output::stdout_failure;
     let detailed_text = !a.json && !a.summary && a.files.len() == 1;
 
-    for path in &a.files {
-        let source = path.display().to_string();
-        let jobs = match load(path, &a.fit, plan.is_some()) {
+    for (fi, (source, l)) in loaded.into_iter().enumerate() {
+        let jobs = match l {
             Ok(j) => j,
             Err(e) => {
                 if a.json && array {
@@ -199,14 +288,14 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                 ));
             }
         }
-        for job in &jobs {
-            let fit = match fit_job(job) {
+        for (ji, (job, fit)) in jobs.iter().enumerate() {
+            let fit = match fit {
                 Ok(f) => f,
                 Err(e) => {
                     if a.json && this_array {
-                        error_entry(&mut out, &mut entries, &source, &e).map_err(io_fail)?;
+                        error_entry(&mut out, &mut entries, &source, e).map_err(io_fail)?;
                     }
-                    failures.push(e);
+                    failures.push(e.clone());
                     continue;
                 }
             };
@@ -216,25 +305,32 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                     out.write_all(b",\n").map_err(io_fail)?;
                 }
                 let src = this_array.then_some(source.as_str());
-                json::write_fit(&mut out, job, &fit, src, !a.summary).map_err(io_fail)?;
+                json::write_fit(&mut out, job, fit, src, !a.summary).map_err(io_fail)?;
                 entries += 1;
             } else if detailed_text && !multi {
-                table::detailed(&mut out, job, &fit).map_err(io_fail)?;
+                table::detailed(&mut out, job, fit).map_err(io_fail)?;
             } else {
-                summary_rows.push(table::SummaryRow::new(job, &fit));
+                summary_rows.push(table::SummaryRow::new(job, fit));
             }
-            if let Some(p) = plan.as_mut() {
-                if p.single_file.is_some() && multi {
-                    continue;
-                }
-                match p.write(job, multi, &fit) {
-                    Ok(paths) => {
-                        for w in paths {
-                            eprintln!("isochore: wrote {}", w.display());
-                        }
+            let Some(p) = plan.as_ref() else { continue };
+            let t = targets
+                .get(fi)
+                .and_then(|f| f.get(ji))
+                .cloned()
+                .unwrap_or_default();
+            if t.is_empty() {
+                continue;
+            }
+            match write_report(p, job, fit, &t) {
+                Ok(paths) => {
+                    if let Err(e) = guard.record(&paths) {
+                        failures.push(e);
                     }
-                    Err(e) => failures.push(e),
+                    for w in paths {
+                        output::note(&format!("wrote {}", w.display()));
+                    }
                 }
+                Err(e) => failures.push(e),
             }
         }
     }
@@ -253,16 +349,39 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
         return Ok(());
     }
     for f in &failures {
-        eprintln!("isochore: {f}");
+        output::note(f);
     }
-    let ok = successes;
-    Err(Failure::input(format!(
-        "{} of the input(s) could not be used{}",
-        failures.len(),
-        if ok > 0 {
-            format!("; the other {ok} result(s) are above")
-        } else {
-            String::new()
-        }
-    )))
+    Err(Failure::input(batch_summary(failures.len(), successes)))
+}
+
+/// The closing line of a run where some input failed, in the right number.
+fn batch_summary(failed: usize, ok: usize) -> String {
+    let head = if failed == 1 {
+        "1 input could not be used".to_string()
+    } else {
+        format!("{failed} inputs could not be used")
+    };
+    match ok {
+        0 => head,
+        1 => format!("{head}; the 1 result that could be computed is above"),
+        n => format!("{head}; the {n} results that could be computed are above"),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::batch_summary;
+
+    #[test]
+    fn batch_summary_counts_in_words() {
+        assert_eq!(batch_summary(1, 0), "1 input could not be used");
+        assert_eq!(
+            batch_summary(1, 1),
+            "1 input could not be used; the 1 result that could be computed is above"
+        );
+        assert_eq!(
+            batch_summary(2, 3),
+            "2 inputs could not be used; the 3 results that could be computed are above"
+        );
+    }
 }

@@ -126,10 +126,27 @@ fn check_exclusions(job: &Job, a: &FitOptionsArgs) -> Result<(), String> {
     Ok(())
 }
 
+/// A message from isochore-data, which names the file by its base name, named instead by
+/// the path as given, so `d1/x.csv` and `d2/x.csv` are told apart.
+fn named_by_path(message: &str, path: &Path) -> String {
+    let shown = path.display().to_string();
+    let base = path
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_default();
+    match message.strip_prefix(&format!("{base}:")) {
+        Some(rest) if !base.is_empty() && !message.starts_with(&format!("{shown}:")) => {
+            format!("{shown}:{rest}")
+        }
+        _ if message.contains(&shown) => message.to_string(),
+        _ => format!("{shown}: {message}"),
+    }
+}
+
 fn load_csv(path: &Path, a: &FitOptionsArgs, with_cells: bool) -> Result<Vec<Job>, String> {
     let source = path.display().to_string();
-    let imp: Import =
-        isochore_data::import_path(path, &ImportOptions::default()).map_err(|e| e.to_string())?;
+    let imp: Import = isochore_data::import_path(path, &ImportOptions::default())
+        .map_err(|e| named_by_path(&e.to_string(), path))?;
     let mut warnings = Vec::new();
     if let Some(first) = imp.rejected.first() {
         if !a.skip_bad_rows {

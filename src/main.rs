@@ -3,13 +3,17 @@
 //! readable table or the JSON contract, and write reports.
 //!
 //! Exit codes: 0 success, 1 some input could not be used (the message on stderr names the
-//! file, line and column), 2 bad usage (clap's own usage errors included).
+//! file, line and column) or the output could not be written, 2 bad usage (clap's own usage
+//! errors included). A closed stdout (broken pipe) ends the run quietly with 0; see
+//! [`output`], the one path every byte to the terminal takes.
 
 mod cli;
 mod fit_cmd;
 mod json;
 mod load;
+mod output;
 mod predict_cmd;
+mod report_files;
 mod table;
 mod two_point_cmd;
 
@@ -57,20 +61,53 @@ impl Failure {
 }
 
 fn main() -> ExitCode {
-    let args = cli::Cli::parse();
+    let args = match cli::Cli::try_parse() {
+        Ok(a) => a,
+        Err(e) => return usage_or_help(&e),
+    };
     let result = match args.command {
         None => open_window(),
         Some(cli::Command::Fit(a)) => fit_cmd::run(&a),
         Some(cli::Command::Predict(a)) => predict_cmd::run(&a),
         Some(cli::Command::TwoPoint(a)) => two_point_cmd::run(&a),
     };
-    match result {
-        Ok(()) => ExitCode::SUCCESS,
+    let code = match result {
+        Ok(()) => 0,
         Err(f) => {
             if !f.message.is_empty() {
-                eprintln!("isochore: {}", f.message);
+                output::note(&f.message);
             }
-            ExitCode::from(f.code)
+            f.code
+        }
+    };
+    finish(code)
+}
+
+/// The exit code, made 1 when a message could not be written to stderr.
+fn finish(code: u8) -> ExitCode {
+    if code == 0 && output::stderr_failed() {
+        ExitCode::from(EXIT_INPUT)
+    } else {
+        ExitCode::from(code)
+    }
+}
+
+/// clap's help and version (stdout, exit 0) and usage errors (stderr, exit 2), written
+/// through the same path as everything else.
+fn usage_or_help(e: &clap::Error) -> ExitCode {
+    let text = e.render().to_string();
+    let code = u8::try_from(e.exit_code()).unwrap_or(EXIT_USAGE);
+    if e.use_stderr() {
+        output::stderr_raw(&text);
+        return finish(code);
+    }
+    match output::print(&text) {
+        Ok(()) => finish(code),
+        Err(f) => {
+            if !f.message.is_empty() {
+                output::note(&f.message);
+            }
+            finish(f.code)
         }
     }
 }

@@ -6,6 +6,7 @@ use crate::cli::PredictArgs;
 use crate::fit_cmd::fit_job;
 use crate::json::{est, finite};
 use crate::load::load;
+use crate::output::{self, Style};
 use crate::Failure;
 use isochore_fit::{Prediction, ValuePrediction, VantHoffFit};
 use isochore_report::content::{decimals_for, entropy_unit, num, show_t, sig};
@@ -40,7 +41,7 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
     if let Some(bad) = temps_k.iter().find(|t| !(t.is_finite() && **t > 0.0)) {
         return Err(Failure::usage(format!(
             "--at: {} K is not a temperature above absolute zero; check --temp-unit",
-            num(*bad, 2)
+            output::short(*bad)
         )));
     }
     if let Some(k) = a.for_k {
@@ -54,9 +55,8 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
         let fit = fit_job(&job).map_err(Failure::input)?;
         fits.push((job, fit));
     }
-    let stdout = std::io::stdout();
-    let mut out = stdout.lock();
-    let io = |e: std::io::Error| Failure::input(format!("writing the output failed: {e}"));
+    let mut out = output::stdout(if a.json { Style::Json } else { Style::Text });
+    let io = output::stdout_failure;
     if a.json {
         let items: Vec<serde_json::Value> = fits
             .iter()
@@ -93,7 +93,7 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
         };
         serde_json::to_writer_pretty(&mut out, &doc).map_err(|e| io(e.into()))?;
         writeln!(out).map_err(io)?;
-        return Ok(());
+        return out.flush().map_err(io);
     }
     for (job, fit) in &fits {
         let e = job.energy;
@@ -188,5 +188,5 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
             writeln!(out, "warning: {w}").map_err(io)?;
         }
     }
-    Ok(())
+    out.flush().map_err(io)
 }

@@ -1,32 +1,91 @@
 //! `isochore two-point`: the hand calculation in both directions with propagated
 //! uncertainty — ΔH° and ΔS° from two (T, K) pairs, or K at T₂ from (T₁, K₁) and ΔH°.
+//!
+//! Temperatures are printed in the unit they were given in (with kelvin beside them), and
+//! the output says when °C was assumed because no `--temp-unit` was given. Two temperatures
+//! closer than [`isochore_fit::TEMPERATURE_RESOLUTION_K`] (1 mK) are refused.
 
-use crate::cli::TwoPointArgs;
+use crate::cli::{TempArg, TwoPointArgs};
 use crate::json::est;
+use crate::output::{self, Style};
 use crate::Failure;
-use isochore_fit::two_point::{enthalpy_from_pairs, predict_k, StatePoint};
+use isochore_fit::two_point::{enthalpy_from_pairs, indistinguishable, predict_k, StatePoint};
 use isochore_fit::Estimate;
+use isochore_fit::TEMPERATURE_RESOLUTION_K;
 use isochore_report::content::{decimals_for, entropy_unit, num, sig};
 use serde_json::json;
+
+/// A value with `d` decimals, or in exponent form when fixed decimals would be too long.
+fn fixed(v: f64, d: usize) -> String {
+    if v.is_finite() && v.abs() >= 1e12 {
+        sig(v, 6)
+    } else {
+        num(v, d)
+    }
+}
 
 fn line(name: &str, e: Estimate, unit: &str, lp: &str) -> String {
     let d = decimals_for(e.se);
     format!(
         "{name} = {} ± {} {unit}   {lp}% CI [{}, {}]",
-        num(e.value, d),
-        num(e.se, d),
-        num(e.ci_low, d),
-        num(e.ci_high, d)
+        fixed(e.value, d),
+        fixed(e.se, d),
+        fixed(e.ci_low, d),
+        fixed(e.ci_high, d)
     )
+}
+
+/// A number as typed (the shortest form that reads back the same), or about six
+/// significant digits in exponent form when that would be very long.
+fn as_typed(v: f64) -> String {
+    if v == 0.0 || (1e-4..1e9).contains(&v.abs()) {
+        format!("{v}")
+    } else {
+        sig(v, 6)
+    }
+}
+
+/// A temperature as typed, in its unit, with kelvin beside it: "300 °C (573.150 K)".
+fn show_temperature(v: f64, unit: TempArg, t_k: f64) -> String {
+    let symbol = unit.unit().symbol();
+    if unit == TempArg::K {
+        format!("{} {symbol}", as_typed(v))
+    } else {
+        format!("{} {symbol} ({} K)", as_typed(v), fixed(t_k, 3))
+    }
+}
+
+fn unit_key(unit: TempArg) -> &'static str {
+    match unit {
+        TempArg::C => "C",
+        TempArg::K => "K",
+        TempArg::F => "F",
+    }
 }
 
 /// Runs `isochore two-point`.
 pub fn run(a: &TwoPointArgs) -> Result<(), Failure> {
-    let tu = a.temp_unit.unit();
+    let (unit, assumed) = match a.temp_unit {
+        Some(u) => (u, false),
+        None => (TempArg::C, true),
+    };
+    let tu = unit.unit();
     let t1 = tu.to_kelvin(a.t1);
     let t2 = tu.to_kelvin(a.t2);
     let u_t = tu.difference_to_kelvin(a.u_t);
-    let bad = |e: isochore_fit::Error| Failure::usage(e.to_string());
+    let assumed_note = if assumed {
+        "temperatures read as °C, the default; give --temp-unit K or F for other units"
+    } else {
+        ""
+    };
+    let bad = |e: isochore_fit::Error| {
+        let m = e.to_string();
+        Failure::usage(if assumed {
+            format!("{m}; {assumed_note}")
+        } else {
+            m
+        })
+    };
     if !(a.k1.is_finite() && a.k1 > 0.0) {
         return Err(Failure::usage("--k1 must be a positive number"));
     }
@@ -42,6 +101,20 @@ pub fn run(a: &TwoPointArgs) -> Result<(), Failure> {
             )));
         }
     }
+    for (name, v, k) in [("--t1", a.t1, t1), ("--t2", a.t2, t2)] {
+        if !(k.is_finite() && k > 0.0) {
+            return Err(Failure::usage(format!(
+                "{name} {} {} is not a temperature above absolute zero{}",
+                output::short(v),
+                tu.symbol(),
+                if assumed {
+                    format!("; {assumed_note}")
+                } else {
+                    String::new()
+                }
+            )));
+        }
+    }
     let p1 = StatePoint {
         t_k: t1,
         sigma_t_k: u_t,
@@ -52,9 +125,19 @@ pub fn run(a: &TwoPointArgs) -> Result<(), Failure> {
     let ef = e.joules_per_mole();
     let (sf, s_unit) = entropy_unit(e);
     let lp = num(a.level * 100.0, 1).trim_end_matches(".0").to_string();
-    if let Some(k2) = a.k2 {
+    let t1_text = show_temperature(a.t1, unit, t1);
+    let t2_text = show_temperature(a.t2, unit, t2);
+    let mut text = String::new();
+    let doc = if let Some(k2) = a.k2 {
         if !(k2.is_finite() && k2 > 0.0) {
             return Err(Failure::usage("--k2 must be a positive number"));
+        }
+        if indistinguishable(t1, t2) {
+            return Err(Failure::usage(format!(
+                "T₁ = {t1_text} and T₂ = {t2_text} differ by less than the temperature resolution of {} K (1 mK); ΔH° cannot be found from two temperatures that close — give temperatures further apart{}",
+                TEMPERATURE_RESOLUTION_K,
+                if assumed { format!("; {assumed_note}") } else { String::new() }
+            )));
         }
         let p2 = StatePoint {
             t_k: t2,
@@ -63,60 +146,63 @@ pub fn run(a: &TwoPointArgs) -> Result<(), Failure> {
             sigma_ln_k: a.u_k2 / k2,
         };
         let r = enthalpy_from_pairs(p1, p2, a.level).map_err(bad)?;
-        if a.json {
-            let doc = json!({
-                "direction": "enthalpy",
-                "t1_k": t1, "t2_k": t2, "k1": a.k1, "k2": k2, "level": a.level,
-                "delta_h": est(&r.delta_h), "delta_s": est(&r.delta_s),
-                "version": env!("CARGO_PKG_VERSION"),
-            });
-            println!("{}", serde_json::to_string_pretty(&doc).unwrap_or_default());
-        } else {
-            println!(
-                "two-point van 't Hoff: K₁ = {} at {} K, K₂ = {} at {} K (ΔH° assumed constant)",
-                sig(a.k1, 5),
-                num(t1, 2),
-                sig(k2, 5),
-                num(t2, 2)
-            );
-            println!(
-                "{}",
-                line("ΔH°", r.delta_h.scaled(1.0 / ef), e.symbol(), &lp)
-            );
-            println!("{}", line("ΔS°", r.delta_s.scaled(1.0 / sf), s_unit, &lp));
-        }
-        return Ok(());
-    }
-    let Some(dh) = a.delta_h else {
-        return Err(Failure::usage("give --k2 (for ΔH°) or --delta-h (for K₂)"));
-    };
-    let r = predict_k(p1, t2, u_t, dh * ef, a.u_delta_h * ef, a.level).map_err(bad)?;
-    if a.json {
-        let doc = json!({
-            "direction": "k",
-            "t1_k": t1, "t2_k": t2, "k1": a.k1, "delta_h": dh * ef, "level": a.level,
-            "ln_k2": est(&r.ln_k2), "k2": est(&r.k2),
-            "version": env!("CARGO_PKG_VERSION"),
-        });
-        println!("{}", serde_json::to_string_pretty(&doc).unwrap_or_default());
-    } else {
-        println!(
-            "two-point van 't Hoff: K₁ = {} at {} K, ΔH° = {} {} (assumed constant), T₂ = {} K",
+        text.push_str(&format!(
+            "two-point van 't Hoff: K₁ = {} at {t1_text}, K₂ = {} at {t2_text} (ΔH° assumed constant)\n",
             sig(a.k1, 5),
-            num(t1, 2),
+            sig(k2, 5),
+        ));
+        text.push_str(&line("ΔH°", r.delta_h.scaled(1.0 / ef), e.symbol(), &lp));
+        text.push('\n');
+        text.push_str(&line("ΔS°", r.delta_s.scaled(1.0 / sf), s_unit, &lp));
+        text.push('\n');
+        json!({
+            "direction": "enthalpy",
+            "t1_k": t1, "t2_k": t2, "k1": a.k1, "k2": k2, "level": a.level,
+            "t1": a.t1, "t2": a.t2, "temp_unit": unit_key(unit), "temp_unit_assumed": assumed,
+            "delta_h": est(&r.delta_h), "delta_s": est(&r.delta_s),
+            "version": env!("CARGO_PKG_VERSION"),
+        })
+    } else {
+        let Some(dh) = a.delta_h else {
+            return Err(Failure::usage("give --k2 (for ΔH°) or --delta-h (for K₂)"));
+        };
+        let r = predict_k(p1, t2, u_t, dh * ef, a.u_delta_h * ef, a.level).map_err(bad)?;
+        text.push_str(&format!(
+            "two-point van 't Hoff: K₁ = {} at {t1_text}, ΔH° = {} {} (assumed constant), T₂ = {t2_text}\n",
+            sig(a.k1, 5),
             sig(dh, 5),
             e.symbol(),
-            num(t2, 2)
-        );
+        ));
         let k = r.k2;
-        println!(
-            "K₂ = {} (SE {})   {lp}% CI [{}, {}]",
+        text.push_str(&format!(
+            "K₂ = {} (SE {})   {lp}% CI [{}, {}]\n",
             sig(k.value, 5),
             sig(k.se, 3),
             sig(k.ci_low, 5),
             sig(k.ci_high, 5)
-        );
-        println!("{}", line("ln K₂", r.ln_k2, "", &lp));
+        ));
+        text.push_str(&line("ln K₂", r.ln_k2, "", &lp));
+        text.push('\n');
+        json!({
+            "direction": "k",
+            "t1_k": t1, "t2_k": t2, "k1": a.k1, "delta_h": dh * ef, "level": a.level,
+            "t1": a.t1, "t2": a.t2, "temp_unit": unit_key(unit), "temp_unit_assumed": assumed,
+            "ln_k2": est(&r.ln_k2), "k2": est(&r.k2),
+            "version": env!("CARGO_PKG_VERSION"),
+        })
+    };
+    if a.json {
+        let mut out = output::stdout(Style::Json);
+        use std::io::Write;
+        serde_json::to_writer_pretty(&mut out, &doc)
+            .map_err(|e| output::stdout_failure(e.into()))?;
+        out.write_all(b"\n")
+            .and_then(|()| out.flush())
+            .map_err(output::stdout_failure)
+    } else {
+        if assumed {
+            text.push_str(&format!("note: {assumed_note}\n"));
+        }
+        output::print(&text)
     }
-    Ok(())
 }

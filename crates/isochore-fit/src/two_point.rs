@@ -6,11 +6,18 @@
 //! residual degrees of freedom.
 
 use crate::error::Error;
+use crate::model::TEMPERATURE_RESOLUTION_K;
 use crate::stats::normal_quantile;
 use crate::units::check_temperature;
 use crate::vant_hoff::Estimate;
 use crate::GAS_CONSTANT;
 use serde::{Deserialize, Serialize};
+
+/// Whether two temperatures in kelvin are closer than the resolution
+/// [`TEMPERATURE_RESOLUTION_K`] (1 mK), the rule `fit` uses to count distinct temperatures.
+pub fn indistinguishable(a_k: f64, b_k: f64) -> bool {
+    (a_k - b_k).abs() < TEMPERATURE_RESOLUTION_K
+}
 
 /// One (T, K) pair with optional standard uncertainties.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
@@ -161,7 +168,8 @@ pub fn predict_k(
 /// with first-order propagation of σ(ln K₁), σ(ln K₂), σ(T₁), σ(T₂) (independent).
 ///
 /// # Errors
-/// Invalid inputs, or [`Error::SingleTemperature`] when T₁ = T₂; [`Error::NoSolution`]
+/// Invalid inputs, or [`Error::SingleTemperature`] when T₁ and T₂ differ by less than
+/// [`TEMPERATURE_RESOLUTION_K`]; [`Error::NoSolution`]
 /// when the result overflows (temperatures equal to within rounding).
 pub fn enthalpy_from_pairs(
     a: StatePoint,
@@ -173,7 +181,7 @@ pub fn enthalpy_from_pairs(
     let z = level_z(level)?;
     let r = GAS_CONSTANT;
     let d = 1.0 / a.t_k - 1.0 / b.t_k;
-    if d == 0.0 {
+    if d == 0.0 || indistinguishable(a.t_k, b.t_k) {
         return Err(Error::SingleTemperature);
     }
     // ln K₂ − ln K₁ rather than ln(K₂/K₁): the ratio of extreme constants can overflow.

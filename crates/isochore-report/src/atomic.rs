@@ -1,13 +1,60 @@
 //! Atomic file writing: a temporary file in the destination folder, written, flushed and
 //! synced, then renamed over the destination, so a reader never sees half a report and an
 //! old report survives a failed write.
+//!
+//! The temporary file is created like any new file (`create_new`, default mode), so the
+//! finished report gets the usual permissions under the user's umask (0644 with the common
+//! umask 022), not the 0600 of a private temporary. Its name is
+//! `.isochore-<pid>-<n>.part`; a write killed half-way leaves one behind, and
+//! [`remove_stale_temporaries`] removes those whose process is gone (on systems with
+//! `/proc`) or that are older than [`STALE_AFTER`].
 
 use crate::ReportError;
 use std::io::Write;
-use std::path::Path;
+use std::path::{Path, PathBuf};
+use std::sync::atomic::{AtomicU64, Ordering};
+use std::time::{Duration, SystemTime};
+
+/// Prefix of every temporary file.
+pub const TEMP_PREFIX: &str = ".isochore-";
+/// Suffix of every temporary file.
+pub const TEMP_SUFFIX: &str = ".part";
+/// Age after which a temporary file is stale whatever its process (a report is written in
+/// seconds).
+pub const STALE_AFTER: Duration = Duration::from_secs(10 * 60);
+
+static COUNTER: AtomicU64 = AtomicU64::new(0);
+
+fn folder_of(path: &Path) -> &Path {
+    match path.parent() {
+        Some(d) if !d.as_os_str().is_empty() => d,
+        _ => Path::new("."),
+    }
+}
+
+/// Creates a new temporary file in `dir`, named after this process.
+fn create_temporary(dir: &Path) -> std::io::Result<(PathBuf, std::fs::File)> {
+    let pid = std::process::id();
+    let nanos = SystemTime::now()
+        .duration_since(SystemTime::UNIX_EPOCH)
+        .map_or(0, |d| d.subsec_nanos());
+    loop {
+        let n = COUNTER.fetch_add(1, Ordering::Relaxed);
+        let p = dir.join(format!("{TEMP_PREFIX}{pid}-{n}-{nanos:x}{TEMP_SUFFIX}"));
+        match std::fs::OpenOptions::new()
+            .write(true)
+            .create_new(true)
+            .open(&p)
+        {
+            Ok(f) => return Ok((p, f)),
+            Err(e) if e.kind() == std::io::ErrorKind::AlreadyExists && n < 1_000_000 => {}
+            Err(e) => return Err(e),
+        }
+    }
+}
 
 /// Writes `bytes` to `path` atomically (temporary file in the same folder, flush, sync,
-/// rename).
+/// rename). A new file gets the permissions any new file gets (the umask applies).
 ///
 /// # Errors
 /// [`ReportError::Io`] naming `path` when any step fails; the temporary file is removed.
@@ -16,20 +63,65 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), ReportError> {
         path: path.to_path_buf(),
         source,
     };
-    let dir = match path.parent() {
-        Some(d) if !d.as_os_str().is_empty() => d,
-        _ => Path::new("."),
-    };
-    let mut tmp = tempfile::Builder::new()
-        .prefix(".isochore-")
-        .suffix(".part")
-        .tempfile_in(dir)
-        .map_err(io)?;
-    tmp.write_all(bytes).map_err(io)?;
-    tmp.flush().map_err(io)?;
-    tmp.as_file().sync_all().map_err(io)?;
-    tmp.persist(path).map_err(|e| io(e.error))?;
+    let (tmp, mut file) = create_temporary(folder_of(path)).map_err(io)?;
+    let result = file
+        .write_all(bytes)
+        .and_then(|()| file.flush())
+        .and_then(|()| file.sync_all())
+        .and_then(|()| {
+            drop(file);
+            std::fs::rename(&tmp, path)
+        });
+    if let Err(e) = result {
+        let _ = &tmp;
+        return Err(io(e));
+    }
     Ok(())
+}
+
+/// The process id in a temporary file's name, if it has one.
+fn pid_of(name: &str) -> Option<u32> {
+    let rest = name.strip_prefix(TEMP_PREFIX)?.strip_suffix(TEMP_SUFFIX)?;
+    rest.split('-').next()?.parse().ok()
+}
+
+/// Whether process `pid` is known to be gone (only where `/proc` shows processes).
+fn process_gone(pid: u32) -> bool {
+    let proc_root = Path::new("/proc");
+    proc_root.join("self").exists() && !proc_root.join(pid.to_string()).exists()
+}
+
+/// Removes the temporary files (`.isochore-*.part`) that killed report writes left in
+/// `dir`: those named after a process that no longer runs (where `/proc` can tell) and
+/// those older than [`STALE_AFTER`]. Files of running writes are left alone. Returns the
+/// paths removed; a folder that cannot be read removes nothing.
+pub fn remove_stale_temporaries(dir: &Path) -> Vec<PathBuf> {
+    let mut removed = Vec::new();
+    let Ok(entries) = std::fs::read_dir(dir) else {
+        return removed;
+    };
+    let me = std::process::id();
+    for entry in entries.flatten() {
+        let name = entry.file_name().to_string_lossy().into_owned();
+        if !(name.starts_with(TEMP_PREFIX) && name.ends_with(TEMP_SUFFIX)) {
+            continue;
+        }
+        let Ok(meta) = entry.metadata() else { continue };
+        if !meta.is_file() {
+            continue;
+        }
+        let old = meta
+            .modified()
+            .ok()
+            .and_then(|t| SystemTime::now().duration_since(t).ok())
+            .is_some_and(|age| age > STALE_AFTER);
+        let orphan = pid_of(&name).is_some_and(|p| p != me && process_gone(p));
+        if (old || orphan) && std::fs::remove_file(entry.path()).is_ok() {
+            removed.push(entry.path());
+        }
+    }
+    removed.sort();
+    removed
 }
 
 #[cfg(test)]
@@ -49,5 +141,29 @@ mod tests {
         let bad = dir.path().join("missing/r.txt");
         let e = write_atomic(&bad, b"x").unwrap_err();
         assert!(e.to_string().contains("missing"), "{e}");
+    }
+
+    #[test]
+    fn stale_temporaries_go_and_live_ones_stay() {
+        let dir = tempfile::tempdir().unwrap();
+        let old = dir.path().join(".isochore-abc.part");
+        std::fs::write(&old, b"x").unwrap();
+        let f = std::fs::File::options().write(true).open(&old).unwrap();
+        f.set_modified(SystemTime::now() - Duration::from_secs(3600))
+            .unwrap();
+        drop(f);
+        // A temporary of this (running) process, just written: kept.
+        let mine = dir
+            .path()
+            .join(format!(".isochore-{}-0-0.part", std::process::id()));
+        std::fs::write(&mine, b"x").unwrap();
+        // Not a temporary of ours: kept whatever its age.
+        let other = dir.path().join("notes.part");
+        std::fs::write(&other, b"x").unwrap();
+        let removed = remove_stale_temporaries(dir.path());
+        assert_eq!(removed, vec![old.clone()]);
+        assert!(!old.exists() && mine.exists() && other.exists());
+        assert_eq!(pid_of(".isochore-123-4-ff.part"), Some(123));
+        assert_eq!(pid_of(".isochore-abc.part"), None);
     }
 }

@@ -14,6 +14,28 @@ use isochore_fit::{
 
 /// Data rows shown in a document table before the rest is left to the CSV.
 pub const MAX_TABLE_ROWS: usize = 500;
+/// Items of a list (flagged points, exclusions) shown before the rest is counted.
+pub const MAX_LIST_ITEMS: usize = 100;
+
+/// Where every row is when a document shows only some: the source file, and the data CSV.
+fn full_data_note(input: &ReportInput, shown: usize, of: usize, what: &str) -> String {
+    format!(
+        "The first {shown} of {of} {what} are shown. All {of} are in the source file “{}” and in the report's data CSV (the “-data.csv” file of a report set, or the data table written alone as .csv).",
+        input.source_name
+    )
+}
+
+/// Caps a list at [`MAX_LIST_ITEMS`], adding a last item that counts the rest.
+fn capped(mut items: Vec<String>, total: usize) -> Vec<String> {
+    if total > MAX_LIST_ITEMS {
+        items.truncate(MAX_LIST_ITEMS);
+        items.push(format!(
+            "… and {} more; the data CSV lists every row.",
+            total - MAX_LIST_ITEMS
+        ));
+    }
+    items
+}
 
 /// One piece of a report.
 #[derive(Debug, Clone, PartialEq)]
@@ -405,14 +427,8 @@ fn data_table(input: &ReportInput) -> Table {
             cells
         })
         .collect();
-    let note = if input.rows.len() > MAX_TABLE_ROWS {
-        Some(format!(
-            "The first {MAX_TABLE_ROWS} of {} rows are shown; the data CSV holds them all.",
-            input.rows.len()
-        ))
-    } else {
-        None
-    };
+    let note = (input.rows.len() > MAX_TABLE_ROWS)
+        .then(|| full_data_note(input, MAX_TABLE_ROWS, input.rows.len(), "rows"));
     Table {
         header,
         rows,
@@ -437,6 +453,9 @@ fn diagnostics_table(input: &ReportInput) -> Table {
     .map(|s| s.to_string())
     .collect();
     let opt = |v: Option<f64>| v.map_or("—".to_string(), |x| num(x, 3));
+    let used = fit.points.iter().filter(|d| d.used).count();
+    let note =
+        (used > MAX_TABLE_ROWS).then(|| full_data_note(input, MAX_TABLE_ROWS, used, "used points"));
     let rows = input
         .rows
         .iter()
@@ -460,7 +479,7 @@ fn diagnostics_table(input: &ReportInput) -> Table {
         header,
         rows,
         numeric: vec![true, true, true, true, true, true, true, false],
-        note: None,
+        note,
     }
 }
 
@@ -542,6 +561,7 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
         .iter()
         .zip(&fit.points)
         .filter(|(_, d)| d.flags.any())
+        .take(MAX_LIST_ITEMS + 1)
         .map(|(r, d)| {
             format!(
                 "Row {} ({}): {}.",
@@ -554,8 +574,9 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
     if flagged.is_empty() {
         b.push(Block::Paragraph("No point is flagged.".into()));
     } else {
+        let total = fit.points.iter().filter(|d| d.flags.any()).count();
         b.push(Block::Paragraph("Flagged points:".into()));
-        b.push(Block::Bullets(flagged));
+        b.push(Block::Bullets(capped(flagged, total)));
     }
 
     b.push(Block::Heading("ΔH° and ΔS° together".into()));
@@ -640,7 +661,8 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
     if ex.is_empty() {
         b.push(Block::Paragraph("No point was excluded.".into()));
     } else {
-        b.push(Block::Bullets(ex));
+        let total = ex.len();
+        b.push(Block::Bullets(capped(ex, total)));
     }
 
     b.push(Block::Heading("Methods".into()));

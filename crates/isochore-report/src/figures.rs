@@ -13,6 +13,7 @@ use crate::content::{entropy_unit, num};
 use crate::fonts;
 use crate::{ReportError, ReportInput};
 use isochore_fit::TemperatureUnit;
+use plotters::chart::SeriesAnno;
 use plotters::element::DashedPathElement;
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
@@ -38,6 +39,111 @@ const FONT: &str = "sans-serif";
 const TICK_SIZE: u32 = 16;
 const DESC_SIZE: u32 = 18;
 const NOTE_SIZE: u32 = 14;
+
+/// Above this many drawable points a series is drawn as its envelope: for each of
+/// [`ENVELOPE_COLUMNS`] columns of the plot, one bar from the lowest to the highest point
+/// in it. A million points then cost a few hundred SVG elements (resvg refuses documents of
+/// millions of nodes), and every column's extent is still exact, so no outlier disappears.
+pub const ENVELOPE_ABOVE: usize = 2000;
+/// Columns of an envelope: about one per 1.6 SVG pixels of plot width.
+pub const ENVELOPE_COLUMNS: usize = 400;
+
+/// The envelope of `points` over `columns` equal columns spanning `[x0, x1]`: for each
+/// column holding a point, its centre and the lowest and highest y. Non-finite points are
+/// left out. A rendering step, not a statistic: one pass, no sorting.
+pub fn column_envelope(
+    points: impl IntoIterator<Item = (f64, f64)>,
+    (x0, x1): (f64, f64),
+    columns: usize,
+) -> Vec<(f64, f64, f64)> {
+    let columns = columns.max(1);
+    let span = x1 - x0;
+    let mut lo = vec![f64::INFINITY; columns];
+    let mut hi = vec![f64::NEG_INFINITY; columns];
+    for (x, y) in points {
+        if !(x.is_finite() && y.is_finite()) {
+            continue;
+        }
+        let c = if span > 0.0 && span.is_finite() {
+            (((x - x0) / span) * columns as f64).floor()
+        } else {
+            0.0
+        };
+        let c = (c.max(0.0) as usize).min(columns - 1);
+        lo[c] = lo[c].min(y);
+        hi[c] = hi[c].max(y);
+    }
+    (0..columns)
+        .filter(|&c| lo[c] <= hi[c])
+        .map(|c| {
+            let xc = if span > 0.0 && span.is_finite() {
+                x0 + span * (c as f64 + 0.5) / columns as f64
+            } else {
+                x0
+            };
+            (xc, lo[c], hi[c])
+        })
+        .collect()
+}
+
+/// Draws the envelope of `points` (see [`column_envelope`]) as one bar per column, each
+/// at least a few pixels tall so a column holding a single value still shows.
+fn draw_envelope<'a, 'b, 'c, CT>(
+    chart: &'c mut ChartContext<'a, SVGBackend<'b>, CT>,
+    points: &[(f64, f64)],
+    style: ShapeStyle,
+) -> Result<&'c mut SeriesAnno<'a, SVGBackend<'b>>, ReportError>
+where
+    CT: CoordTranslate<From = (f64, f64)>,
+{
+    let xr = finite_range(points.iter().map(|p| p.0)).unwrap_or((0.0, 1.0));
+    let bars: Vec<_> = column_envelope(points.iter().copied(), xr, ENVELOPE_COLUMNS)
+        .into_iter()
+        .map(|(x, lo, hi)| {
+            let (_, py_lo) = chart.plotting_area().map_coordinate(&(x, lo));
+            let (_, py_hi) = chart.plotting_area().map_coordinate(&(x, hi));
+            EmptyElement::at((x, lo))
+                + PathElement::new(vec![(0, 2), (0, py_hi - py_lo - 2)], style)
+        })
+        .collect();
+    chart.draw_series(bars).map_err(fe)
+}
+
+/// At most two points per envelope column (its lowest and highest), for marking flagged
+/// points of a large series without drawing every one.
+fn envelope_extremes(points: &[(f64, f64)]) -> Vec<(f64, f64)> {
+    if points.len() <= ENVELOPE_ABOVE {
+        return points.to_vec();
+    }
+    let Some((x0, x1)) = finite_range(points.iter().map(|p| p.0)) else {
+        return Vec::new();
+    };
+    let columns = ENVELOPE_COLUMNS;
+    let span = x1 - x0;
+    let mut lo: Vec<Option<(f64, f64)>> = vec![None; columns];
+    let mut hi: Vec<Option<(f64, f64)>> = vec![None; columns];
+    for &(x, y) in points.iter().filter(|p| p.0.is_finite() && p.1.is_finite()) {
+        let c = if span > 0.0 {
+            ((((x - x0) / span) * columns as f64).floor().max(0.0) as usize).min(columns - 1)
+        } else {
+            0
+        };
+        if lo[c].is_none_or(|p| y < p.1) {
+            lo[c] = Some((x, y));
+        }
+        if hi[c].is_none_or(|p| y > p.1) {
+            hi[c] = Some((x, y));
+        }
+    }
+    lo.into_iter()
+        .zip(hi)
+        .flat_map(|(a, b)| {
+            let b = if a == b { None } else { b };
+            [a, b]
+        })
+        .flatten()
+        .collect()
+}
 
 /// Which figure.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
@@ -489,6 +595,13 @@ where
     CT: CoordTranslate<From = (f64, f64)>,
 {
     let pts = &input.fit.points;
+    let finite = |p: &&isochore_fit::PointDiagnostics| {
+        let (x, y) = pos(p);
+        x.is_finite() && y.is_finite()
+    };
+    if pts.iter().filter(finite).count() > ENVELOPE_ABOVE {
+        return draw_many_points(chart, input, pos);
+    }
     let bars: Vec<PathElement<(f64, f64)>> = pts
         .iter()
         .filter_map(|p| {
@@ -500,10 +613,6 @@ where
         })
         .collect();
     chart.draw_series(bars).map_err(fe)?;
-    let finite = |p: &&isochore_fit::PointDiagnostics| {
-        let (x, y) = pos(p);
-        x.is_finite() && y.is_finite()
-    };
     if pts.iter().filter(finite).any(|p| p.used) {
         chart
             .draw_series(
@@ -557,6 +666,51 @@ where
         })
         .collect();
     chart.draw_series(labels).map_err(fe)?;
+    Ok(())
+}
+
+/// A large series: used and excluded points as envelopes (no error bars, no row labels),
+/// flagged points as rings at the extremes of each column of flagged points.
+fn draw_many_points<'a, 'b, CT>(
+    chart: &mut ChartContext<'a, SVGBackend<'b>, CT>,
+    input: &ReportInput,
+    pos: impl Fn(&isochore_fit::PointDiagnostics) -> (f64, f64),
+) -> Result<(), ReportError>
+where
+    CT: CoordTranslate<From = (f64, f64)>,
+{
+    let pts = &input.fit.points;
+    let used: Vec<(f64, f64)> = pts.iter().filter(|p| p.used).map(&pos).collect();
+    let excluded: Vec<(f64, f64)> = pts.iter().filter(|p| !p.used).map(&pos).collect();
+    let flagged: Vec<(f64, f64)> = pts.iter().filter(|p| p.flags.any()).map(&pos).collect();
+    if !used.is_empty() {
+        let style = INK.mix(0.6).stroke_width(2);
+        draw_envelope(chart, &used, style)?
+            .label(format!("used points ({}, range per column)", used.len()))
+            .legend(move |(x, y)| PathElement::new(vec![(x + 11, y - 7), (x + 11, y + 7)], style));
+    }
+    if !excluded.is_empty() {
+        let style = VERMILLION.stroke_width(2);
+        draw_envelope(chart, &excluded, style)?
+            .label(format!("excluded points ({})", excluded.len()))
+            .legend(move |(x, y)| PathElement::new(vec![(x + 11, y - 7), (x + 11, y + 7)], style));
+    }
+    if !flagged.is_empty() {
+        let label = if flagged.len() > ENVELOPE_ABOVE {
+            format!("flagged points ({}; extremes shown)", flagged.len())
+        } else {
+            "flagged point".to_string()
+        };
+        chart
+            .draw_series(
+                envelope_extremes(&flagged)
+                    .into_iter()
+                    .map(|p| Circle::new(p, 8, ORANGE.stroke_width(2))),
+            )
+            .map_err(fe)?
+            .label(label)
+            .legend(|(x, y)| Circle::new((x + 11, y), 8, ORANGE.stroke_width(3)));
+    }
     Ok(())
 }
 
@@ -705,6 +859,30 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
             }
         }
     }
+    if used.len() > ENVELOPE_ABOVE {
+        let style = INK.mix(0.6).stroke_width(2);
+        let all: Vec<(f64, f64)> = used.iter().map(|u| (u.1, u.2)).collect();
+        draw_envelope(&mut chart, &all, style)?
+            .label(format!("used points ({}, range per column)", used.len()))
+            .legend(move |(x, y)| PathElement::new(vec![(x + 11, y - 7), (x + 11, y + 7)], style));
+        let flagged: Vec<(f64, f64)> = used.iter().filter(|u| u.3).map(|u| (u.1, u.2)).collect();
+        if !flagged.is_empty() {
+            chart
+                .draw_series(
+                    envelope_extremes(&flagged)
+                        .into_iter()
+                        .map(|p| Circle::new(p, 8, ORANGE.stroke_width(2))),
+                )
+                .map_err(fe)?
+                .label(format!("flagged points ({})", flagged.len()))
+                .legend(|(x, y)| Circle::new((x + 11, y), 8, ORANGE.stroke_width(3)));
+        }
+        let occupied = envelope_extremes(&all);
+        return draw_key(
+            &mut chart,
+            emptiest_corner(&occupied, (0.0, x1), (-ylim, ylim)),
+        );
+    }
     chart
         .draw_series(
             used.iter()
@@ -809,6 +987,37 @@ fn ellipse(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn envelope_keeps_every_columns_extremes() {
+        // 10,000 points on a saw-tooth with two planted outliers; the envelope over 50
+        // columns must hold, per column, exactly the lowest and highest y of the points
+        // whose x falls in it (checked by a direct scan), and both outliers.
+        let mut pts: Vec<(f64, f64)> = (0..10_000)
+            .map(|i| (i as f64 / 10_000.0, ((i * 37) % 101) as f64 / 100.0))
+            .collect();
+        pts[1234].1 = 40.0;
+        pts[8765].1 = -40.0;
+        pts.push((f64::NAN, 1e9)); // not drawable: ignored
+        let env = column_envelope(pts.iter().copied(), (0.0, 1.0), 50);
+        assert_eq!(env.len(), 50);
+        for (c, &(xc, lo, hi)) in env.iter().enumerate() {
+            let inside: Vec<f64> = pts
+                .iter()
+                .filter(|p| p.0.is_finite() && ((p.0 * 50.0).floor() as usize).min(49) == c)
+                .map(|p| p.1)
+                .collect();
+            let want_lo = inside.iter().copied().fold(f64::INFINITY, f64::min);
+            let want_hi = inside.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+            assert_eq!((lo, hi), (want_lo, want_hi), "column {c}");
+            assert!((xc - (c as f64 + 0.5) / 50.0).abs() < 1e-12);
+        }
+        assert!(env.iter().any(|e| e.2 == 40.0) && env.iter().any(|e| e.1 == -40.0));
+        // The flagged-point extremes: at most two per column, the outliers among them.
+        let ext = envelope_extremes(&pts[..10_000]);
+        assert!(ext.len() <= 2 * ENVELOPE_COLUMNS);
+        assert!(ext.contains(&pts[1234]) && ext.contains(&pts[8765]));
+    }
 
     #[test]
     fn crc_matches_the_png_check_value() {

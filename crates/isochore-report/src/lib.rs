@@ -38,7 +38,7 @@ use isochore_fit::{EnergyUnit, TemperatureUnit, VantHoffFit};
 use std::fmt;
 use std::path::{Path, PathBuf};
 
-pub use atomic::write_atomic;
+pub use atomic::{remove_stale_temporaries, write_atomic, STALE_AFTER};
 pub use figures::FigureKind;
 
 /// One measured row as the caller read it, with its values on the fitting scale.
@@ -235,8 +235,58 @@ pub fn render_markdown(input: &ReportInput, figure_stem: &str) -> Result<String,
     Ok(markdown::render(input, figure_stem))
 }
 
+/// The files [`write_report`] writes for `format` at `path`, in the order it writes them:
+/// for Markdown its figures `<file stem>-<kind>.svg` beside it, then the file itself.
+pub fn report_paths(format: ReportFormat, path: &Path) -> Vec<PathBuf> {
+    let mut paths = Vec::new();
+    if format == ReportFormat::Markdown {
+        let stem = markdown_stem(path);
+        let dir = path.parent().unwrap_or_else(|| Path::new(""));
+        for kind in FigureKind::ALL {
+            paths.push(dir.join(format!("{stem}-{}.svg", kind.key())));
+        }
+    }
+    paths.push(path.to_path_buf());
+    paths
+}
+
+fn markdown_stem(path: &Path) -> String {
+    path.file_stem()
+        .and_then(|s| s.to_str())
+        .unwrap_or("report")
+        .to_string()
+}
+
+/// The formats of a report set and their file names under `stem`, in writing order.
+fn set_plan(stem: &str) -> Vec<(ReportFormat, String)> {
+    let mut plan = vec![
+        (ReportFormat::Markdown, format!("{stem}.md")),
+        (ReportFormat::Html, format!("{stem}.html")),
+        (ReportFormat::Pdf, format!("{stem}.pdf")),
+        (ReportFormat::DataCsv, format!("{stem}-data.csv")),
+        (ReportFormat::ResultsCsv, format!("{stem}-results.csv")),
+    ];
+    for kind in FigureKind::ALL {
+        plan.push((
+            ReportFormat::FigurePng(kind),
+            format!("{stem}-{}.png", kind.key()),
+        ));
+    }
+    plan
+}
+
+/// Every file [`write_report_set`] writes into `dir` under `stem`, so a caller can check
+/// them before anything is written.
+pub fn report_set_paths(dir: &Path, stem: &str) -> Vec<PathBuf> {
+    set_plan(stem)
+        .into_iter()
+        .flat_map(|(format, name)| report_paths(format, &dir.join(name)))
+        .collect()
+}
+
 /// Writes one format to `path` atomically. For [`ReportFormat::Markdown`] the figures are
-/// written beside it as `<file stem>-<kind>.svg`. Returns every path written.
+/// written beside it as `<file stem>-<kind>.svg`. Returns every path written (the same
+/// as [`report_paths`]).
 ///
 /// # Errors
 /// As [`render`], and [`ReportError::Io`] when a file cannot be written (nothing is left
@@ -248,17 +298,12 @@ pub fn write_report(
 ) -> Result<Vec<PathBuf>, ReportError> {
     input.validate()?;
     if format == ReportFormat::Markdown {
-        let stem = path
-            .file_stem()
-            .and_then(|s| s.to_str())
-            .unwrap_or("report")
-            .to_string();
-        let dir = path.parent().unwrap_or_else(|| Path::new(""));
+        let stem = markdown_stem(path);
         let mut written = Vec::new();
-        for kind in FigureKind::ALL {
-            let p = dir.join(format!("{stem}-{}.svg", kind.key()));
-            write_atomic(&p, figures::figure_svg(input, kind)?.as_bytes())?;
-            written.push(p);
+        let paths = report_paths(format, path);
+        for (kind, p) in FigureKind::ALL.into_iter().zip(&paths) {
+            write_atomic(p, figures::figure_svg(input, kind)?.as_bytes())?;
+            written.push(p.clone());
         }
         write_atomic(path, render_markdown(input, &stem)?.as_bytes())?;
         written.push(path.to_path_buf());
@@ -269,9 +314,10 @@ pub fn write_report(
     Ok(vec![path.to_path_buf()])
 }
 
-/// Writes the full set into `dir` (created if missing): `<stem>.html`, `<stem>.pdf`,
-/// `<stem>.md` with its SVG figures, `<stem>-data.csv`, `<stem>-results.csv`, and every
-/// figure as `<stem>-<kind>.svg` and `.png`. Returns every path written.
+/// Writes the full set into `dir` (created if missing): `<stem>.md` with its SVG figures,
+/// `<stem>.html`, `<stem>.pdf`, `<stem>-data.csv`, `<stem>-results.csv`, and every figure
+/// as `<stem>-<kind>.png`. Returns every path written (the same as
+/// [`report_set_paths`]).
 ///
 /// # Errors
 /// As [`write_report`].
@@ -286,22 +332,8 @@ pub fn write_report_set(
         source,
     })?;
     let mut written = Vec::new();
-    written.extend(write_report(
-        input,
-        ReportFormat::Markdown,
-        &dir.join(format!("{stem}.md")),
-    )?);
-    for (format, name) in [
-        (ReportFormat::Html, format!("{stem}.html")),
-        (ReportFormat::Pdf, format!("{stem}.pdf")),
-        (ReportFormat::DataCsv, format!("{stem}-data.csv")),
-        (ReportFormat::ResultsCsv, format!("{stem}-results.csv")),
-    ] {
+    for (format, name) in set_plan(stem) {
         written.extend(write_report(input, format, &dir.join(name))?);
-    }
-    for kind in FigureKind::ALL {
-        let p = dir.join(format!("{stem}-{}.png", kind.key()));
-        written.extend(write_report(input, ReportFormat::FigurePng(kind), &p)?);
     }
     Ok(written)
 }
