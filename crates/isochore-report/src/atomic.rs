@@ -73,7 +73,7 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), ReportError> {
             std::fs::rename(&tmp, path)
         });
     if let Err(e) = result {
-        let _ = &tmp;
+        let _ = std::fs::remove_file(&tmp);
         return Err(io(e));
     }
     Ok(())
