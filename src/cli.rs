@@ -108,6 +108,27 @@ pub struct FitOptionsArgs {
     /// (by default such a file is refused).
     #[arg(long)]
     pub skip_bad_rows: bool,
+    /// Fit unweighted: every point counts the same and any σ is ignored (the way to fit a
+    /// file whose σ column has empty cells).
+    #[arg(long)]
+    pub unweighted: bool,
+    /// Accept temperatures (and θ) below 1 K or above 10 000 K, which are otherwise refused
+    /// as a likely unit or typing mistake.
+    #[arg(long)]
+    pub allow_extreme_temperatures: bool,
+    /// Decimal mark of CSV files (default: decided by the file; a file that mixes marks, or
+    /// whose commas could be thousands separators, is refused until this is given).
+    #[arg(long, value_enum, value_name = "point|comma")]
+    pub decimal_mark: Option<DecimalArg>,
+}
+
+/// The decimal mark of CSV files, as stated on the command line.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum DecimalArg {
+    /// '.' is the decimal mark (1,500 is not a number).
+    Point,
+    /// ',' is the decimal mark (1,500 is 1.5); needs a delimiter other than the comma.
+    Comma,
 }
 
 /// `isochore fit`.

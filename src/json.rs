@@ -8,13 +8,29 @@ use isochore_fit::{Estimate, VantHoffFit};
 use serde_json::json;
 use std::io::{self, Write};
 
-/// Writes numbers as JSON, turning non-finite ones into null and remembering where.
-struct Nums {
+/// Writes numbers as JSON, turning non-finite ones into null and remembering where. The
+/// one place of the rule for a value with statistics ([`Nums::stats`]): when the value is
+/// null, every statistic of it is null too, and the warning names the quantity.
+pub struct Nums {
     undefined: Vec<String>,
 }
 
+impl Default for Nums {
+    fn default() -> Self {
+        Nums::new()
+    }
+}
+
 impl Nums {
-    fn num(&mut self, what: &str, v: f64) -> serde_json::Value {
+    /// Nothing undefined yet.
+    pub fn new() -> Self {
+        Nums {
+            undefined: Vec::new(),
+        }
+    }
+
+    /// A number, or null (remembered under `what`) when it is not finite.
+    pub fn num(&mut self, what: &str, v: f64) -> serde_json::Value {
         if v.is_finite() {
             json!(v)
         } else {
@@ -23,20 +39,61 @@ impl Nums {
         }
     }
 
-    fn opt(&mut self, what: &str, v: Option<f64>) -> serde_json::Value {
+    /// An optional number: null when absent (not a warning) or not finite (a warning).
+    pub fn opt(&mut self, what: &str, v: Option<f64>) -> serde_json::Value {
         match v {
             Some(x) => self.num(what, x),
             None => serde_json::Value::Null,
         }
     }
 
-    fn estimate(&mut self, what: &str, e: &Estimate) -> serde_json::Value {
-        json!({
-            "value": self.num(&format!("{what}.value"), e.value),
-            "se": self.num(&format!("{what}.se"), e.se),
-            "ci_low": self.num(&format!("{what}.ci_low"), e.ci_low),
-            "ci_high": self.num(&format!("{what}.ci_high"), e.ci_high),
-        })
+    /// `{"value": …, name: …}` for a value and its statistics (SE, interval ends). When the
+    /// value is not finite, the value and every statistic are null (a standard error of an
+    /// undefined number means nothing) and one warning names `what`; otherwise each
+    /// statistic that is not finite is null and named on its own.
+    pub fn stats(&mut self, what: &str, value: f64, stats: &[(&str, f64)]) -> serde_json::Value {
+        let mut m = serde_json::Map::new();
+        if value.is_finite() {
+            m.insert("value".into(), json!(value));
+            for (name, v) in stats {
+                m.insert((*name).into(), self.num(&format!("{what}.{name}"), *v));
+            }
+        } else {
+            self.undefined
+                .push(format!("{what} (value and all its statistics)"));
+            m.insert("value".into(), serde_json::Value::Null);
+            for (name, _) in stats {
+                m.insert((*name).into(), serde_json::Value::Null);
+            }
+        }
+        serde_json::Value::Object(m)
+    }
+
+    /// An estimate as `{value, se, ci_low, ci_high}` under the rule of [`Nums::stats`].
+    pub fn estimate(&mut self, what: &str, e: &Estimate) -> serde_json::Value {
+        self.stats(
+            what,
+            e.value,
+            &[("se", e.se), ("ci_low", e.ci_low), ("ci_high", e.ci_high)],
+        )
+    }
+
+    /// The warning naming every undefined value, or `None` when all were defined.
+    pub fn warning(&self) -> Option<String> {
+        if self.undefined.is_empty() {
+            return None;
+        }
+        let shown: Vec<&str> = self.undefined.iter().take(20).map(String::as_str).collect();
+        let more = self.undefined.len().saturating_sub(shown.len());
+        Some(format!(
+            "undefined value(s) written as null: {}{}",
+            shown.join(", "),
+            if more > 0 {
+                format!(" and {more} more")
+            } else {
+                String::new()
+            }
+        ))
     }
 }
 
@@ -64,9 +121,7 @@ pub fn write_fit(
     source: Option<&str>,
     with_points: bool,
 ) -> io::Result<()> {
-    let mut n = Nums {
-        undefined: Vec::new(),
-    };
+    let mut n = Nums::new();
     let mut first = true;
     w.write_all(b"{")?;
     if let Some(s) = source {
@@ -164,19 +219,7 @@ pub fn write_fit(
     field(w, &mut first, "t_at_k1", &t1)?;
     let mut warnings: Vec<String> = job.warnings.clone();
     warnings.extend(fit.warnings.iter().map(|w| w.message.clone()));
-    if !n.undefined.is_empty() {
-        let shown: Vec<&str> = n.undefined.iter().take(20).map(String::as_str).collect();
-        let more = n.undefined.len().saturating_sub(shown.len());
-        warnings.push(format!(
-            "undefined value(s) written as null: {}{}",
-            shown.join(", "),
-            if more > 0 {
-                format!(" and {more} more")
-            } else {
-                String::new()
-            }
-        ));
-    }
+    warnings.extend(n.warning());
     field(w, &mut first, "warnings", &json!(warnings))?;
     field(w, &mut first, "version", &json!(env!("CARGO_PKG_VERSION")))?;
     w.write_all(b"}")?;
@@ -192,9 +235,10 @@ pub fn finite(v: f64) -> serde_json::Value {
     }
 }
 
-/// An estimate as `{value, se, ci_low, ci_high}`.
+/// An estimate as `{value, se, ci_low, ci_high}`, by the rule of [`Nums::stats`] (where no
+/// warning is collected; callers that can warn use [`Nums::estimate`]).
 pub fn est(e: &isochore_fit::Estimate) -> serde_json::Value {
-    serde_json::json!({"value": finite(e.value), "se": finite(e.se), "ci_low": finite(e.ci_low), "ci_high": finite(e.ci_high)})
+    Nums::new().estimate("", e)
 }
 
 /// Writes an error entry of a batch: `{"source": …, "error": …}`.

@@ -85,7 +85,27 @@ fn options(base: FitOptions, a: &FitOptionsArgs) -> FitOptions {
     if a.absolute_sigma {
         o.convention = SigmaConvention::Absolute;
     }
+    if a.unweighted {
+        o.weighting = Weighting::Unweighted;
+    }
+    if a.allow_extreme_temperatures {
+        o.allow_extreme_temperatures = true;
+    }
     o
+}
+
+/// Import options from the command line: the stated decimal mark and the confirmation of
+/// extreme temperatures.
+fn import_options(a: &FitOptionsArgs) -> ImportOptions {
+    ImportOptions {
+        decimal: match a.decimal_mark {
+            None => isochore_data::DecimalMark::Auto,
+            Some(crate::cli::DecimalArg::Point) => isochore_data::DecimalMark::Point,
+            Some(crate::cli::DecimalArg::Comma) => isochore_data::DecimalMark::Comma,
+        },
+        allow_extreme_temperatures: a.allow_extreme_temperatures,
+        ..ImportOptions::default()
+    }
 }
 
 /// Reads one path into jobs (one per data set).
@@ -145,7 +165,7 @@ fn named_by_path(message: &str, path: &Path) -> String {
 
 fn load_csv(path: &Path, a: &FitOptionsArgs, with_cells: bool) -> Result<Vec<Job>, String> {
     let source = path.display().to_string();
-    let imp: Import = isochore_data::import_path(path, &ImportOptions::default())
+    let imp: Import = isochore_data::import_path(path, &import_options(a))
         .map_err(|e| named_by_path(&e.to_string(), path))?;
     let mut warnings = Vec::new();
     if let Some(first) = imp.rejected.first() {
@@ -166,6 +186,10 @@ fn load_csv(path: &Path, a: &FitOptionsArgs, with_cells: bool) -> Result<Vec<Job
     }
     let excluded: Vec<usize> = a.exclude.as_ref().map(|r| r.0.clone()).unwrap_or_default();
     let opts = options(FitOptions::default(), a);
+    if opts.weighting == Weighting::InverseVariance {
+        // σ in some rows and an empty σ cell in another: refused with its line and column.
+        imp.check_sigma().map_err(|e| e.to_string())?;
+    }
     let mut jobs = Vec::new();
     for s in &imp.series {
         let points = s.points(&excluded);
@@ -232,6 +256,12 @@ fn load_project(path: &Path, a: &FitOptionsArgs, with_cells: bool) -> Result<Vec
                 s.exclude(r, CLI_EXCLUSION, "command line")
                     .map_err(|e| format!("{source}: {e}"))?;
             }
+        }
+        if a.allow_extreme_temperatures {
+            s.settings.fit.allow_extreme_temperatures = true;
+        }
+        if options(s.settings.fit, a).weighting == Weighting::InverseVariance {
+            s.check_sigma().map_err(|e| format!("{source}: {e}"))?;
         }
         let points = s.points().map_err(|e| format!("{source}: {e}"))?;
         let reasons: BTreeMap<usize, String> = s

@@ -4,7 +4,7 @@
 
 use crate::cli::PredictArgs;
 use crate::fit_cmd::fit_job;
-use crate::json::{est, finite};
+use crate::json::{finite, Nums};
 use crate::load::load;
 use crate::output::{self, Style};
 use crate::Failure;
@@ -13,22 +13,29 @@ use isochore_report::content::{decimals_for, entropy_unit, num, show_t, sig};
 use serde_json::json;
 use std::io::Write;
 
-fn value(v: &ValuePrediction) -> serde_json::Value {
-    json!({
-        "value": finite(v.value), "se": finite(v.se),
-        "ci_low": finite(v.ci.low), "ci_high": finite(v.ci.high),
-        "pi_low": finite(v.pi.low), "pi_high": finite(v.pi.high),
-    })
+fn value(n: &mut Nums, what: &str, v: &ValuePrediction) -> serde_json::Value {
+    n.stats(
+        what,
+        v.value,
+        &[
+            ("se", v.se),
+            ("ci_low", v.ci.low),
+            ("ci_high", v.ci.high),
+            ("pi_low", v.pi.low),
+            ("pi_high", v.pi.high),
+        ],
+    )
 }
 
-fn prediction_json(p: &Prediction) -> serde_json::Value {
+fn prediction_json(n: &mut Nums, p: &Prediction) -> serde_json::Value {
+    let at = format!("at {} K", isochore_report::content::sig(p.t_k, 6));
     json!({
         "t_k": finite(p.t_k),
-        "ln_k": value(&p.ln_k),
-        "k": value(&p.k),
-        "delta_g": est(&p.delta_g),
-        "delta_h": est(&p.delta_h),
-        "delta_s": est(&p.delta_s),
+        "ln_k": value(n, &format!("ln_k {at}"), &p.ln_k),
+        "k": value(n, &format!("k {at}"), &p.k),
+        "delta_g": n.estimate(&format!("delta_g {at}"), &p.delta_g),
+        "delta_h": n.estimate(&format!("delta_h {at}"), &p.delta_h),
+        "delta_s": n.estimate(&format!("delta_s {at}"), &p.delta_s),
         "extrapolated": p.extrapolated,
         "warning": p.warning,
     })
@@ -61,17 +68,19 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
         let items: Vec<serde_json::Value> = fits
             .iter()
             .map(|(job, fit)| {
+                let mut n = Nums::new();
                 let preds: Vec<serde_json::Value> = temps_k
                     .iter()
                     .filter_map(|&t| fit.predict(t).ok())
-                    .map(|p| prediction_json(&p))
+                    .map(|p| prediction_json(&mut n, &p))
                     .collect();
                 let for_k = a.for_k.map(|k| match fit.temperature_for_k(k) {
-                    Ok(e) => json!({"k": k, "t_k": est(&e), "extrapolated": fit.is_extrapolation(e.value)}),
+                    Ok(e) => json!({"k": k, "t_k": n.estimate("for_k.t_k", &e), "extrapolated": fit.is_extrapolation(e.value)}),
                     Err(err) => json!({"k": k, "t_k": null, "error": err.to_string()}),
                 });
                 let mut warnings: Vec<String> = job.warnings.clone();
                 warnings.extend(fit.warnings.iter().map(|w| w.message.clone()));
+                warnings.extend(n.warning());
                 json!({
                     "source": job.source,
                     "series": job.series,

@@ -28,6 +28,14 @@ pub enum RowProblem {
     NonPositiveSigma,
     /// The converted ln K or σ(ln K) is not a finite number (a value far out of range).
     OutOfRange,
+    /// A number so small that it underflows double precision to zero (e.g. `1e-400`).
+    Underflow,
+    /// A temperature outside the plausible range 1 to 10 000 K, not confirmed with
+    /// [`crate::ImportOptions::allow_extreme_temperatures`].
+    ImplausibleTemperature {
+        /// The temperature in kelvin.
+        kelvin: f64,
+    },
     /// The row has a different number of cells than the header.
     Ragged {
         /// Cells in the header.
@@ -87,12 +95,31 @@ impl RejectedRow {
             RowProblem::OutOfRange => s.push_str(&format!(
                 "'{cell}' is out of range: its logarithm is not a finite number"
             )),
+            RowProblem::Underflow => s.push_str(&format!(
+                "'{cell}' is too small to represent: it underflows to 0 in double precision (the smallest is about 1e-308); check the value and its unit"
+            )),
+            RowProblem::ImplausibleTemperature { kelvin } => s.push_str(&format!(
+                "'{cell}' is {} K, outside the plausible range {} to {} K; check the value and the temperature unit, or confirm such temperatures explicitly (--allow-extreme-temperatures)",
+                short(*kelvin),
+                isochore_fit::MIN_PLAUSIBLE_K,
+                isochore_fit::MAX_PLAUSIBLE_K
+            )),
             RowProblem::Ragged { expected, found } => s.push_str(&format!(
                 "the row has {found} cells but the header has {expected}; every row needs one cell per header column (check for a stray or missing delimiter)"
             )),
         }
         s
     }
+}
+
+/// A value for a message: at most 6 significant digits, in exponent form when very large
+/// or small.
+fn short(v: f64) -> String {
+    if !v.is_finite() {
+        return format!("{v}");
+    }
+    let rounded = format!("{v:.5e}").parse::<f64>().unwrap_or(v);
+    format!("{rounded:?}")
 }
 
 impl fmt::Display for RejectedRow {
@@ -319,6 +346,36 @@ pub enum Error {
         /// The fault, located in the original file.
         rejected: Box<RejectedRow>,
     },
+    /// Number cells use different decimal marks (or a comma that may be a thousands
+    /// separator while nothing settles the convention).
+    DecimalMark {
+        /// The file name.
+        file: String,
+        /// Physical line of the offending cell.
+        line: usize,
+        /// Its 1-based column.
+        column: usize,
+        /// The column's header.
+        header: String,
+        /// The cell as typed.
+        cell: String,
+        /// What is wrong and how to state the convention.
+        message: String,
+    },
+    /// A data set whose uncertainty column has values in some rows and an empty cell in
+    /// others, read for a weighted fit.
+    MissingSigma {
+        /// The file name.
+        file: String,
+        /// The data set.
+        series: String,
+        /// Physical line of the first row without σ.
+        line: usize,
+        /// 1-based column of the uncertainty.
+        column: usize,
+        /// Its header.
+        header: String,
+    },
     /// A data row number that the data set does not have.
     NoSuchRow {
         /// The data set.
@@ -437,6 +494,14 @@ impl fmt::Display for Error {
             Error::ProjectRow { series, row, rejected } => write!(
                 f,
                 "data set '{series}', row {row}: {rejected}"
+            ),
+            Error::DecimalMark { file, line, column, header, cell, message } => write!(
+                f,
+                "{file}: line {line}, column {column} ('{header}'): '{cell}': {message}"
+            ),
+            Error::MissingSigma { file, series, line, column, header } => write!(
+                f,
+                "{file}: line {line}, column {column} ('{header}'): the uncertainty cell is empty, while other rows of data set '{series}' give one; a weighted fit needs σ on every row. Fill in the cell, or fit unweighted (--unweighted), which ignores every σ"
             ),
             Error::NoSuchRow { series, row, rows } => write!(
                 f,

@@ -9,7 +9,7 @@
 
 use crate::error::{Error, RejectedRow, RowProblem};
 use crate::header;
-use crate::mapping::{convert_cells, ColumnMapping};
+use crate::mapping::{convert_cells, mark_of, ColumnMapping, Mark};
 use crate::text::{self, Delimiter, Reader, Record, Span};
 use isochore_fit::{Measurement, TemperatureUnit};
 use rayon::prelude::*;
@@ -19,16 +19,24 @@ use std::collections::HashMap;
 use std::io::Read;
 use std::path::Path;
 
-/// How the decimal mark is chosen.
+/// How the decimal mark is chosen. One convention holds for the whole file.
+///
+/// With a comma delimiter only '.' can be a decimal mark. Otherwise, under `Auto`, the
+/// number cells decide: all points, or all commas. A file that mixes the two, or whose
+/// only commas could also be thousands separators (`1,500`: one to three digits, a comma,
+/// three digits), is refused with the line and column of the cell at fault, and the user
+/// states the convention (`Point` or `Comma`). The check is made while the rows are read.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
 #[serde(rename_all = "snake_case")]
 pub enum DecimalMark {
-    /// A comma inside a number is a decimal mark unless the delimiter is a comma.
+    /// Decided by the file: a comma inside a number is a decimal mark unless the delimiter
+    /// is a comma; mixed or ambiguous marks are refused.
     #[default]
     Auto,
-    /// Only '.' is a decimal mark.
+    /// Only '.' is a decimal mark; a comma in a number cell makes it not a number.
     Point,
-    /// ',' is a decimal mark (as is '.'); not possible with a comma delimiter.
+    /// ',' is the decimal mark (`1,500` is 1.5); a cell with '.' is refused. Not possible
+    /// with a comma delimiter.
     Comma,
 }
 
@@ -69,6 +77,9 @@ pub struct ImportOptions {
     pub ignore_unknown_columns: bool,
     /// Use this mapping instead of reading the headers.
     pub mapping: Option<ColumnMapping>,
+    /// Accept temperatures outside the plausible range 1 to 10 000 K (the user confirms
+    /// them); by default such a row is rejected with its line and column.
+    pub allow_extreme_temperatures: bool,
 }
 
 impl Default for ImportOptions {
@@ -84,6 +95,7 @@ impl Default for ImportOptions {
             min_points: 3,
             ignore_unknown_columns: false,
             mapping: None,
+            allow_extreme_temperatures: false,
         }
     }
 }
@@ -216,6 +228,16 @@ impl Series {
     pub fn points(&self, excluded: &[usize]) -> Vec<Point> {
         let rows: Vec<ConvertedRow> = self.rows.iter().map(Row::converted).collect();
         make_points(&rows, excluded, self.replicates, self.replicate_tolerance_k)
+    }
+
+    /// The first row without σ, when some other row of the data set has one (the rule of
+    /// [`Import::check_sigma`]).
+    pub fn first_row_missing_sigma(&self) -> Option<&Row> {
+        let first_missing = self.rows.iter().find(|r| r.sigma.is_nan())?;
+        self.rows
+            .iter()
+            .any(|r| !r.sigma.is_nan())
+            .then_some(first_missing)
     }
 
     /// The measurements for the fit (see [`Series::points`]).
@@ -381,6 +403,32 @@ impl Import {
     /// The mapping in words, one line per column (see [`ColumnMapping::describe`]).
     pub fn describe_mapping(&self) -> Vec<String> {
         self.mapping.describe(&self.headers)
+    }
+
+    /// The rule for empty uncertainty cells, for a weighted fit: a data set whose σ column
+    /// is entirely empty has no uncertainties (it is fitted unweighted, see the README); a
+    /// data set with σ in some rows and an empty σ cell in another is refused, naming the
+    /// line and column of the first empty cell. Fitting unweighted ignores σ, so a caller
+    /// that fits unweighted need not call this.
+    ///
+    /// # Errors
+    /// [`Error::MissingSigma`].
+    pub fn check_sigma(&self) -> Result<(), Error> {
+        let Some(u) = self.mapping.uncertainty else {
+            return Ok(());
+        };
+        for s in &self.series {
+            if let Some(r) = s.first_row_missing_sigma() {
+                return Err(Error::MissingSigma {
+                    file: self.source.name.clone(),
+                    series: s.name.clone(),
+                    line: r.line(),
+                    column: u.column + 1,
+                    header: self.headers.get(u.column).cloned().unwrap_or_default(),
+                });
+            }
+        }
+        Ok(())
     }
 
     /// The data set with this name.
@@ -661,9 +709,6 @@ fn parse(
         DecimalMark::Point => false,
         DecimalMark::Comma | DecimalMark::Auto => delimiter != Delimiter::Comma,
     };
-    let decimal_comma = comma_ok
-        && (o.decimal == DecimalMark::Comma
-            || text::sample_has_decimal_comma(text, start, delimiter));
     let mut reader = Reader::new(
         text,
         start,
@@ -798,7 +843,25 @@ fn parse(
         mut ranges,
         rejected,
         any_data,
+        marks,
     } = chunk;
+    // One decimal convention per file, decided from the marks seen while reading.
+    let decimal_comma = match marks.decide(o.decimal, comma_ok) {
+        Ok(c) => c,
+        Err(fault) => {
+            return Err(Error::DecimalMark {
+                file: file.to_string(),
+                line: fault.at.line,
+                column: fault.at.column + 1,
+                header: headers.get(fault.at.column).cloned().unwrap_or_default(),
+                cell: fault.at.cell,
+                message: fault.message,
+            })
+        }
+    };
+    // Projects read their cells again with the convention found: a file of decimal points
+    // keeps commas out.
+    let comma_ok = comma_ok && (decimal_comma || o.decimal == DecimalMark::Comma);
     // Give back the room reserved for rows that never came (it was never touched, so this
     // moves nothing).
     for s in &mut series {
@@ -867,12 +930,122 @@ struct Chunk {
     ranges: Vec<(f64, f64)>,
     rejected: Vec<RejectedRow>,
     any_data: bool,
+    /// The first cell of each kind of decimal mark.
+    marks: Marks,
+}
+
+/// Where a number cell with a decimal mark was seen.
+#[derive(Debug, Clone, PartialEq)]
+struct MarkAt {
+    line: usize,
+    /// 0-based column.
+    column: usize,
+    cell: String,
+}
+
+/// The first cell with a decimal point, with an unambiguous decimal comma, and with a comma
+/// that may be a thousands separator, in one part of the file (kept while reading, so the
+/// one-convention rule needs no second pass).
+#[derive(Debug, Clone, Default, PartialEq)]
+struct Marks {
+    point: Option<MarkAt>,
+    comma: Option<MarkAt>,
+    ambiguous: Option<MarkAt>,
+}
+
+/// Why the decimal convention could not be settled.
+struct MarkFault {
+    at: MarkAt,
+    message: String,
+}
+
+impl Marks {
+    #[inline]
+    fn note(&mut self, mark: Mark, line: usize, column: usize, cell: &str) {
+        let slot = match mark {
+            Mark::None => return,
+            Mark::Point => &mut self.point,
+            Mark::Comma => &mut self.comma,
+            Mark::AmbiguousComma => &mut self.ambiguous,
+        };
+        if slot.is_none() {
+            *slot = Some(MarkAt {
+                line,
+                column,
+                cell: cell.trim().to_string(),
+            });
+        }
+    }
+
+    /// Keeps the earlier of each kind (`later` comes from further down the file).
+    fn merge(&mut self, later: Marks) {
+        for (a, b) in [
+            (&mut self.point, later.point),
+            (&mut self.comma, later.comma),
+            (&mut self.ambiguous, later.ambiguous),
+        ] {
+            if a.is_none() {
+                *a = b;
+            }
+        }
+    }
+
+    /// Whether commas are decimal marks in this file, or the cell that breaks the
+    /// one-convention rule. `comma_ok`: commas may be decimal marks at all.
+    fn decide(&self, stated: DecimalMark, comma_ok: bool) -> Result<bool, MarkFault> {
+        if !comma_ok {
+            return Ok(false);
+        }
+        let first_comma = match (&self.comma, &self.ambiguous) {
+            (Some(a), Some(b)) => Some(if (b.line, b.column) < (a.line, a.column) {
+                b
+            } else {
+                a
+            }),
+            (a, b) => a.as_ref().or(b.as_ref()),
+        };
+        const STATE: &str =
+            "one decimal convention per file: correct the cell, or state the convention (--decimal-mark point or --decimal-mark comma)";
+        match (stated, &self.point, first_comma) {
+            (DecimalMark::Comma, Some(p), _) => Err(MarkFault {
+                at: p.clone(),
+                message: "a decimal point, but the decimal mark is stated to be a comma; write it with a comma, or state --decimal-mark point".to_string(),
+            }),
+            (DecimalMark::Comma, None, _) => Ok(true),
+            (_, Some(p), Some(c)) => {
+                let (at, other, this_mark, other_mark) = if (p.line, p.column) < (c.line, c.column) {
+                    (c, p, "comma", "point")
+                } else {
+                    (p, c, "point", "comma")
+                };
+                Err(MarkFault {
+                    at: at.clone(),
+                    message: format!(
+                        "a decimal {this_mark}, but line {}, column {} ('{}') uses a decimal {other_mark}; {STATE}",
+                        other.line,
+                        other.column + 1,
+                        other.cell
+                    ),
+                })
+            }
+            (_, Some(_), None) => Ok(false),
+            (_, None, Some(_)) if self.comma.is_some() => Ok(true),
+            (_, None, Some(a)) => Err(MarkFault {
+                at: a.clone(),
+                message: format!(
+                    "the comma may be a decimal comma or a thousands separator, and no other cell settles which; {STATE}"
+                ),
+            }),
+            (_, None, None) => Ok(false),
+        }
+    }
 }
 
 impl Chunk {
     /// Appends a later part, merging data sets by name and renumbering rows.
     fn append(&mut self, later: Chunk) {
         self.any_data |= later.any_data;
+        self.marks.merge(later.marks);
         self.rejected.extend(later.rejected);
         for (s, (lo, hi)) in later.series.into_iter().zip(later.ranges) {
             match self.series.iter().position(|m| m.name == s.name) {
@@ -926,6 +1099,13 @@ impl Scan<'_> {
         let mut last = 0usize;
         let mut rejected = Vec::new();
         let mut any_data = false;
+        let mut marks = Marks::default();
+        // The number cells whose decimal marks are watched (only where a comma could be one).
+        let mut watched: Vec<usize> = vec![mapping.temperature.column, mapping.quantity.column];
+        if let Some(u) = mapping.uncertainty {
+            watched.push(u.column);
+        }
+        let watch = self.comma_ok;
         // Columns that may be missing at the end of a short row.
         let optional = |c: usize| {
             Some(c) == mapping.note
@@ -1011,8 +1191,14 @@ impl Scan<'_> {
                     }
                 }
             };
-            match convert_cells(mapping, self.comma_ok, cell) {
+            match convert_cells(mapping, self.comma_ok, o.allow_extreme_temperatures, cell) {
                 Ok(c) => {
+                    if watch {
+                        for &col in &watched {
+                            let text = cell(col);
+                            marks.note(mark_of(text), rec.line, col, text);
+                        }
+                    }
                     let s = &mut series[si];
                     let row = s.rows.len() as u32 + 1;
                     if let Some(n) = mapping.note.and_then(|n| spans.get(n)) {
@@ -1053,6 +1239,7 @@ impl Scan<'_> {
             ranges,
             rejected,
             any_data,
+            marks,
         })
     }
 }

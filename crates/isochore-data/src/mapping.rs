@@ -257,7 +257,7 @@ pub(crate) fn parse_number(cell: &str, comma_decimal: bool) -> Result<f64, RowPr
 #[inline(never)]
 fn parse_number_slow(cell: &str, comma_decimal: bool) -> Result<f64, RowProblem> {
     if let Ok(v) = cell.parse::<f64>() {
-        return finite(v);
+        return not_underflowed(finite(v)?, cell);
     }
     let s = cell.trim_matches(|c: char| c.is_whitespace());
     if s.is_empty() {
@@ -280,8 +280,58 @@ fn parse_number_slow(cell: &str, comma_decimal: bool) -> Result<f64, RowProblem>
     }
     let t = std::str::from_utf8(&buf[..n]).map_err(|_| RowProblem::NotANumber)?;
     match t.parse::<f64>() {
-        Ok(v) => finite(v),
+        Ok(v) => not_underflowed(finite(v)?, t),
         Err(_) => Err(RowProblem::NotANumber),
+    }
+}
+
+/// A parsed 0 whose text has a non-zero digit before its exponent underflowed
+/// (`1e-400`): that is not the zero the user wrote. (The fast path never underflows: its
+/// exponents stay within ±22.)
+fn not_underflowed(v: f64, text: &str) -> Result<f64, RowProblem> {
+    if v == 0.0 {
+        let mantissa = text.split(['e', 'E']).next().unwrap_or("");
+        if mantissa.bytes().any(|b| (b'1'..=b'9').contains(&b)) {
+            return Err(RowProblem::Underflow);
+        }
+    }
+    Ok(v)
+}
+
+/// The decimal mark a number cell uses, for the one-convention-per-file rule.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(crate) enum Mark {
+    /// No decimal mark (an integer, or not checked).
+    None,
+    /// A decimal point.
+    Point,
+    /// A comma that can only be a decimal comma (e.g. `7,6` or `1,2500`).
+    Comma,
+    /// A comma that may also be a thousands separator: one to three digits, a comma, and
+    /// exactly three digits (`1,500`).
+    AmbiguousComma,
+}
+
+/// Classifies a number cell that parsed with commas allowed as decimal marks.
+pub(crate) fn mark_of(cell: &str) -> Mark {
+    let b = cell.trim().as_bytes();
+    let Some(c) = memchr::memchr(b',', b) else {
+        return if memchr::memchr(b'.', b).is_some() {
+            Mark::Point
+        } else {
+            Mark::None
+        };
+    };
+    let int = match b.first() {
+        Some(b'+' | b'-') => &b[1..c],
+        _ => &b[..c],
+    };
+    let frac = &b[c + 1..];
+    let digits = |s: &[u8]| s.iter().all(u8::is_ascii_digit);
+    if (1..=3).contains(&int.len()) && digits(int) && frac.len() == 3 && digits(frac) {
+        Mark::AmbiguousComma
+    } else {
+        Mark::Comma
     }
 }
 
@@ -412,9 +462,12 @@ fn unit_factor(from: QuantityKind, to: QuantityKind) -> f64 {
 /// Converts one row. `cell(i)` returns the text of 0-based column `i`. On failure, returns
 /// the 0-based column at fault and the problem.
 #[inline]
+///
+/// A temperature outside 1 to 10 000 K is refused unless `allow_extreme_temperatures`.
 pub(crate) fn convert_cells<'a>(
     mapping: &ColumnMapping,
     comma_decimal: bool,
+    allow_extreme_temperatures: bool,
     cell: impl Fn(usize) -> &'a str,
 ) -> Result<Converted, (usize, RowProblem)> {
     let tc = mapping.temperature.column;
@@ -425,6 +478,9 @@ pub(crate) fn convert_cells<'a>(
     }
     if t_k <= 0.0 {
         return Err((tc, RowProblem::BelowAbsoluteZero { kelvin: t_k }));
+    }
+    if !allow_extreme_temperatures && !isochore_fit::is_plausible_temperature(t_k) {
+        return Err((tc, RowProblem::ImplausibleTemperature { kelvin: t_k }));
     }
     let qc = mapping.quantity.column;
     let kind = mapping.quantity.kind;

@@ -135,7 +135,12 @@ impl ProjectSeries {
         let mut out = Vec::with_capacity(self.rows.len());
         for (i, r) in self.rows.iter().enumerate() {
             let cell = |c: usize| r.cells.get(c).map(String::as_str).unwrap_or("");
-            match convert_cells(&self.mapping, self.decimal_comma, cell) {
+            match convert_cells(
+                &self.mapping,
+                self.decimal_comma,
+                self.settings.fit.allow_extreme_temperatures,
+                cell,
+            ) {
                 Ok(c) => out.push(ConvertedRow {
                     row: i + 1,
                     t_k: c.t_k,
@@ -181,6 +186,33 @@ impl ProjectSeries {
     /// As [`ProjectSeries::converted`].
     pub fn measurements(&self) -> Result<Vec<Measurement>, Error> {
         Ok(self.points()?.into_iter().map(|p| p.measurement).collect())
+    }
+
+    /// The rule for empty uncertainty cells (as [`Import::check_sigma`]): σ in some rows and
+    /// an empty σ cell in another is refused for a weighted fit, naming the line (in the
+    /// original file) and column of the first empty cell; an entirely empty σ column means
+    /// no uncertainties.
+    ///
+    /// # Errors
+    /// [`Error::MissingSigma`], or as [`ProjectSeries::converted`].
+    pub fn check_sigma(&self) -> Result<(), Error> {
+        let Some(u) = self.mapping.uncertainty else {
+            return Ok(());
+        };
+        let rows = self.converted()?;
+        let Some(missing) = rows.iter().position(|r| r.sigma_ln_k.is_none()) else {
+            return Ok(());
+        };
+        if rows.iter().all(|r| r.sigma_ln_k.is_none()) {
+            return Ok(());
+        }
+        Err(Error::MissingSigma {
+            file: self.source.name.clone(),
+            series: self.name.clone(),
+            line: self.rows.get(missing).map_or(0, |r| r.line),
+            column: u.column + 1,
+            header: self.headers.get(u.column).cloned().unwrap_or_default(),
+        })
     }
 
     /// The 1-based rows currently excluded, ascending.

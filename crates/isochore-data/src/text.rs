@@ -657,18 +657,6 @@ pub(crate) fn detect_delimiter(text: &str, start: usize) -> Delimiter {
     Delimiter::Comma
 }
 
-/// Whether the first data lines show numbers written with a decimal comma.
-pub(crate) fn sample_has_decimal_comma(text: &str, start: usize, d: Delimiter) -> bool {
-    if d == Delimiter::Comma {
-        return false;
-    }
-    let b = text.as_bytes();
-    let end = floor_char(text, (start + 65_536).min(text.len()));
-    let s = &b[start..end];
-    s.windows(3)
-        .any(|w| w[0].is_ascii_digit() && w[1] == b',' && w[2].is_ascii_digit())
-}
-
 /// Whether a cell is empty or only whitespace (quick answer for the usual printable start).
 #[inline]
 pub(crate) fn is_blank(s: &str) -> bool {

@@ -22,7 +22,13 @@ fn two_halves_read_like_one() {
         ));
     }
     assert!(text.len() > 4 * isochore_data::import::TWO_THREADS_ABOVE);
-    let imp = import_text("big.csv", &text, &ImportOptions::default()).unwrap();
+    // Every temperature is written d,ddd, which could be a thousands separator: the file
+    // states its decimal comma (the one-convention rule, README).
+    let comma = ImportOptions {
+        decimal: isochore_data::DecimalMark::Comma,
+        ..ImportOptions::default()
+    };
+    let imp = import_text("big.csv", &text, &comma).unwrap();
     // Data row i is on physical line i + 3 (a comment line and the header come first).
     let lines: Vec<usize> = imp.rejected.iter().map(|r| r.line).collect();
     assert_eq!(lines, bad_rows.iter().map(|i| i + 3).collect::<Vec<_>>());
