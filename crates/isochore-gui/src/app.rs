@@ -488,7 +488,8 @@ impl Workbench {
         self.now
     }
 
-    /// One frame: the whole UI, then the queued edits. `now` is the clock in seconds.
+    /// One frame: the close button, the whole UI, then the queued edits (and the window
+    /// is closed when the close question was answered). `now` is the clock in seconds.
     pub fn frame(&mut self, ctx: &Context, now: f64) {
         self.now = now;
         ctx.set_theme(if self.prefs.dark {
@@ -496,6 +497,7 @@ impl Workbench {
         } else {
             egui::Theme::Light
         });
+        self.close_request(ctx);
         // Bring fits up to date before drawing (first frame, or after outside changes).
         self.fitter
             .update(&self.project.series, self.now, self.block_fits);
@@ -505,8 +507,24 @@ impl Workbench {
         self.links.hovered = self.links.next_hover.take();
         self.apply_pending();
         self.autosave_tick();
+        if std::mem::take(&mut self.close_now) {
+            ctx.send_viewport_cmd(egui::ViewportCommand::Close);
+        }
         if !self.fitter.running(&self.project.series).is_empty() {
             ctx.request_repaint_after(std::time::Duration::from_millis(100));
+        }
+    }
+
+    /// The window's close button: with unsaved changes the close is cancelled and the
+    /// question asked; without them the window may close.
+    fn close_request(&mut self, ctx: &Context) {
+        if ctx.input(|i| i.viewport().close_requested()) && !self.may_close {
+            if self.history.dirty() {
+                ctx.send_viewport_cmd(egui::ViewportCommand::CancelClose);
+                self.asking_to_close = true;
+            } else {
+                self.may_close = true;
+            }
         }
     }
 

@@ -32,19 +32,9 @@ struct WindowApp {
 
 impl eframe::App for WindowApp {
     fn update(&mut self, ctx: &egui::Context, _frame: &mut eframe::Frame) {
-        if ctx.input(|i| i.viewport().close_requested()) && !self.bench.may_close {
-            if self.bench.history.dirty() {
-                ctx.send_viewport_cmd(egui::ViewportCommand::CancelClose);
-                self.bench.asking_to_close = true;
-            } else {
-                self.bench.may_close = true;
-            }
-        }
+        // The frame also answers the window's close button (the close question).
         let now = self.start.elapsed().as_secs_f64();
         self.bench.frame(ctx, now);
-        if std::mem::take(&mut self.bench.close_now) {
-            ctx.send_viewport_cmd(egui::ViewportCommand::Close);
-        }
         // eframe writes preferences and layout at the end of a frame once the save interval
         // has passed; an idle window draws no frames, so wake it once per interval, or a
         // change made just before a crash would be lost.

@@ -14,9 +14,9 @@ use std::path::PathBuf;
 const OUTLIER_ROW: usize = 6;
 
 /// A fixed wall clock for exclusion times: 2026-12-01T21:00:00Z.
-const CLOCK: i64 = 1_796_158_800;
+pub(crate) const CLOCK: i64 = 1_796_158_800;
 
-fn bench() -> Workbench {
+pub(crate) fn bench() -> Workbench {
     let mut w = Workbench::with_demo(Prefs::default());
     w.block_fits = true;
     w.autosave_dir = None;
@@ -24,7 +24,7 @@ fn bench() -> Workbench {
     w
 }
 
-fn harness(w: Workbench) -> Harness<'static, Workbench> {
+pub(crate) fn harness(w: Workbench) -> Harness<'static, Workbench> {
     let mut h = Harness::builder().with_size([1600.0, 1300.0]).build_state(
         |ctx, w: &mut Workbench| {
             let t = ctx.input(|i| i.time);
@@ -36,7 +36,7 @@ fn harness(w: Workbench) -> Harness<'static, Workbench> {
     h
 }
 
-fn temp_dir(tag: &str) -> PathBuf {
+pub(crate) fn temp_dir(tag: &str) -> PathBuf {
     let d = std::env::temp_dir().join(format!("isochore-gui-{tag}-{}", std::process::id()));
     let _ = std::fs::remove_dir_all(&d);
     std::fs::create_dir_all(&d).unwrap();
@@ -44,7 +44,7 @@ fn temp_dir(tag: &str) -> PathBuf {
 }
 
 /// The label the results panel gives ΔH° (value in kJ/mol, 4 significant digits).
-fn delta_h_label(joules: f64) -> String {
+pub(crate) fn delta_h_label(joules: f64) -> String {
     format!("ΔH° = {} kJ/mol", sig(joules / 1e3, 4))
 }
 
@@ -177,7 +177,11 @@ fn switching_to_the_cp_model_shows_delta_cp() {
     assert!(h.query_by_label(&label).is_none());
 }
 
-fn type_path_and_press(h: &mut Harness<'_, Workbench>, path: &std::path::Path, button: &str) {
+pub(crate) fn type_path_and_press(
+    h: &mut Harness<'_, Workbench>,
+    path: &std::path::Path,
+    button: &str,
+) {
     h.get_by_label("path").click();
     h.run_steps(1);
     h.get_by_label("path")
@@ -320,7 +324,7 @@ fn unsaved_work_is_autosaved_beside_the_project_and_offered_back() {
 }
 
 /// Opens a menu and clicks one of its items, as a pointer would.
-fn menu_item(h: &mut Harness<'_, Workbench>, menu: &str, item: &str) {
+pub(crate) fn menu_item(h: &mut Harness<'_, Workbench>, menu: &str, item: &str) {
     h.get_by_label(menu).click();
     h.run_steps(2);
     h.get_by_label(item).click();
@@ -422,7 +426,7 @@ fn pasted_delta_h(options: &isochore_fit::FitOptions) -> f64 {
     isochore_fit::fit(&m, options).unwrap().delta_h().value
 }
 
-fn accept_import(h: &mut Harness<'_, Workbench>, n_before: usize) -> u64 {
+pub(crate) fn accept_import(h: &mut Harness<'_, Workbench>, n_before: usize) -> u64 {
     assert!(h.state().files.preview.is_some(), "no import preview");
     // Let the preview window settle its size (it is centred, so it moves while it grows).
     h.run_steps(4);

@@ -266,7 +266,8 @@ impl FilesPanel {
     }
 }
 
-/// The mapping editor; returns true when the chemist changed something.
+/// The mapping editor; returns true when the chemist changed something. Each choice is
+/// named in the accessibility tree ("value column", "value kind", …).
 fn mapping_editor(ui: &mut egui::Ui, p: &mut ImportPreview) -> bool {
     use isochore_data::{UncertaintyColumn, UncertaintyKind};
     use isochore_fit::{
@@ -280,30 +281,39 @@ fn mapping_editor(ui: &mut egui::Ui, p: &mut ImportPreview) -> bool {
         .num_columns(3)
         .show(ui, |ui| {
             ui.label("temperature");
-            egui::ComboBox::from_id_salt("map_t")
+            let combo = egui::ComboBox::from_id_salt("map_t")
                 .selected_text(col_name(m.temperature.column))
                 .show_ui(ui, |ui| {
                     for c in 0..headers.len() {
                         ui.selectable_value(&mut m.temperature.column, c, col_name(c));
                     }
                 });
-            egui::ComboBox::from_id_salt("map_tu")
+            combo.response.widget_info(|| {
+                egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "temperature column")
+            });
+            let combo = egui::ComboBox::from_id_salt("map_tu")
                 .selected_text(m.temperature.unit.symbol())
                 .show_ui(ui, |ui| {
                     for u in [T::Celsius, T::Kelvin, T::Fahrenheit] {
                         ui.selectable_value(&mut m.temperature.unit, u, u.symbol());
                     }
                 });
+            combo.response.widget_info(|| {
+                egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "temperature scale")
+            });
             ui.end_row();
             ui.label("measured value");
-            egui::ComboBox::from_id_salt("map_v")
+            let combo = egui::ComboBox::from_id_salt("map_v")
                 .selected_text(col_name(m.quantity.column))
                 .show_ui(ui, |ui| {
                     for c in 0..headers.len() {
                         ui.selectable_value(&mut m.quantity.column, c, col_name(c));
                     }
                 });
-            egui::ComboBox::from_id_salt("map_kind")
+            combo.response.widget_info(|| {
+                egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "value column")
+            });
+            let combo = egui::ComboBox::from_id_salt("map_kind")
                 .selected_text(m.quantity.kind.label())
                 .show_ui(ui, |ui| {
                     for k in [
@@ -322,10 +332,13 @@ fn mapping_editor(ui: &mut egui::Ui, p: &mut ImportPreview) -> bool {
                         ui.selectable_value(&mut m.quantity.kind, k, k.label());
                     }
                 });
+            combo.response.widget_info(|| {
+                egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "value kind")
+            });
             ui.end_row();
             ui.label("uncertainty");
             let mut col = m.uncertainty.map(|u| u.column);
-            egui::ComboBox::from_id_salt("map_s")
+            let combo = egui::ComboBox::from_id_salt("map_s")
                 .selected_text(col.map_or("none".into(), col_name))
                 .show_ui(ui, |ui| {
                     ui.selectable_value(&mut col, None, "none");
@@ -333,6 +346,9 @@ fn mapping_editor(ui: &mut egui::Ui, p: &mut ImportPreview) -> bool {
                         ui.selectable_value(&mut col, Some(c), col_name(c));
                     }
                 });
+            combo.response.widget_info(|| {
+                egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "uncertainty column")
+            });
             let mut relative = matches!(
                 m.uncertainty.map(|u| u.kind),
                 Some(UncertaintyKind::RelativePercent)
@@ -359,6 +375,21 @@ fn mapping_editor(ui: &mut egui::Ui, p: &mut ImportPreview) -> bool {
     if m.temperature != before.temperature {
         m.temperature.assumed = false;
     }
+    // A column just given a role is no longer a note, a data-set column or ignored: the
+    // import refuses a column used twice, and those roles have no chooser here.
+    let used = [
+        Some(m.temperature.column),
+        Some(m.quantity.column),
+        m.uncertainty.map(|u| u.column),
+    ];
+    let taken = |c: usize| used.contains(&Some(c));
+    if m.note.is_some_and(taken) {
+        m.note = None;
+    }
+    if m.series.is_some_and(taken) {
+        m.series = None;
+    }
+    m.ignored.retain(|&c| !taken(c));
     *m != before
 }
 

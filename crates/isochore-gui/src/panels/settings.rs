@@ -82,57 +82,69 @@ impl SettingsPanel {
                     "Reference temperature at which ΔH° and ΔS° are quoted in the ΔCp° model",
                 );
                 let theta = cur.temperature_unit.from_kelvin(cur.fit.t_ref_k);
-                if let Some(v) = self.number(ui, "theta", theta, 2, cur.temperature_unit.symbol()) {
+                if let Some(v) = self.number(ui, "theta", "θ", theta, 2, cur.temperature_unit.symbol()) {
                     new.fit.t_ref_k = cur.temperature_unit.to_kelvin(v);
                 }
                 ui.end_row();
 
                 ui.label("Confidence level");
-                if let Some(v) = self.number(ui, "level", cur.fit.level * 100.0, 1, "%") {
+                if let Some(v) = self.number(ui, "level", "confidence level", cur.fit.level * 100.0, 1, "%") {
                     new.fit.level = v / 100.0;
                 }
                 ui.end_row();
 
                 ui.label("Weighting");
-                egui::ComboBox::from_id_salt("weighting")
+                let combo = egui::ComboBox::from_id_salt("weighting")
                     .selected_text(weighting_name(cur.fit.weighting))
                     .show_ui(ui, |ui| {
                         for w in [Weighting::InverseVariance, Weighting::Unweighted] {
                             ui.selectable_value(&mut new.fit.weighting, w, weighting_name(w));
                         }
                     });
+                combo.response.widget_info(|| {
+                    egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "weighting")
+                });
                 ui.end_row();
 
                 ui.label("σ taken as").on_hover_text(
                     "Relative: the scatter sets the error bars. Absolute: the stated σ are true uncertainties.",
                 );
-                egui::ComboBox::from_id_salt("convention")
+                let combo = egui::ComboBox::from_id_salt("convention")
                     .selected_text(convention_name(cur.fit.convention))
                     .show_ui(ui, |ui| {
                         for c in [SigmaConvention::ScaledByFit, SigmaConvention::Absolute] {
                             ui.selectable_value(&mut new.fit.convention, c, convention_name(c));
                         }
                     });
+                combo.response.widget_info(|| {
+                    egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "σ convention")
+                });
                 ui.end_row();
 
                 ui.label("Energy unit");
-                egui::ComboBox::from_id_salt("energy")
+                let combo = egui::ComboBox::from_id_salt("energy")
                     .selected_text(cur.energy_unit.symbol())
                     .show_ui(ui, |ui| {
                         for e in [EnergyUnit::KilojoulePerMole, EnergyUnit::KilocaloriePerMole] {
                             ui.selectable_value(&mut new.energy_unit, e, e.symbol());
                         }
                     });
+                combo.response.widget_info(|| {
+                    egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "energy unit")
+                });
                 ui.end_row();
 
                 ui.label("Temperatures in");
-                egui::ComboBox::from_id_salt("tunit")
+                let combo = egui::ComboBox::from_id_salt("tunit")
                     .selected_text(cur.temperature_unit.symbol())
                     .show_ui(ui, |ui| {
                         for t in [TemperatureUnit::Celsius, TemperatureUnit::Kelvin] {
                             ui.selectable_value(&mut new.temperature_unit, t, t.symbol());
                         }
                     });
+                combo.response.widget_info(|| {
+                    egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "temperature unit")
+                });
                 ui.end_row();
             });
         ui.add_space(6.0);
@@ -143,17 +155,27 @@ impl SettingsPanel {
             .show(ui, |ui| {
                 let t = cur.fit.thresholds;
                 ui.label("|studentized residual| >");
-                if let Some(v) = self.number(ui, "t_out", t.outlier_studentized, 2, "") {
+                if let Some(v) = self.number(
+                    ui,
+                    "t_out",
+                    "studentized residual threshold",
+                    t.outlier_studentized,
+                    2,
+                    "",
+                ) {
                     new.fit.thresholds.outlier_studentized = v;
                 }
                 ui.end_row();
                 ui.label("leverage > factor × p/n");
-                if let Some(v) = self.number(ui, "t_lev", t.leverage_factor, 2, "") {
+                if let Some(v) =
+                    self.number(ui, "t_lev", "leverage factor", t.leverage_factor, 2, "")
+                {
                     new.fit.thresholds.leverage_factor = v;
                 }
                 ui.end_row();
                 ui.label("Cook's D > factor / n");
-                if let Some(v) = self.number(ui, "t_cook", t.cooks_factor, 2, "") {
+                if let Some(v) = self.number(ui, "t_cook", "Cook's D factor", t.cooks_factor, 2, "")
+                {
                     new.fit.thresholds.cooks_factor = v;
                 }
                 ui.end_row();
@@ -174,11 +196,13 @@ impl SettingsPanel {
         }
     }
 
-    /// A number field that returns a value when the typing is committed.
+    /// A number field (named `label` in the accessibility tree) that returns a value when
+    /// the typing is committed.
     fn number(
         &mut self,
         ui: &mut egui::Ui,
         key: &'static str,
+        label: &str,
         current: f64,
         decimals: usize,
         unit: &str,
@@ -188,6 +212,8 @@ impl SettingsPanel {
             let shown = style::fixed(current, decimals);
             let buf = self.buffers.entry(key).or_insert_with(|| shown.clone());
             let resp = ui.add(egui::TextEdit::singleline(buf).desired_width(70.0));
+            // Named for screen readers and tests; the grid's label cell is not linked to it.
+            resp.widget_info(|| egui::WidgetInfo::labeled(egui::WidgetType::TextEdit, true, label));
             if resp.lost_focus() {
                 match buf.trim().replace(',', ".").parse::<f64>() {
                     Ok(v) if v.is_finite() => {
