@@ -2,3 +2,4 @@
 
 mod cli;
 mod promises;
+mod hostile_cli;
