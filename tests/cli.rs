@@ -750,3 +750,38 @@ fn undefined_values_are_null_and_named_in_a_warning() {
         .unwrap();
     assert!(!line.contains("NaN") && line.contains('—'), "{line}");
 }
+
+#[test]
+fn every_bad_test_file_is_refused_with_the_expected_message() {
+    // tests/data/bad/expected.json (written by make_bad.py beside it) gives, for each bad
+    // file, the fragments its message must hold; the command line must refuse each file
+    // with exit 1 and pass those fragments on to stderr.
+    let dir = root().join("tests/data/bad");
+    let expected: Value =
+        serde_json::from_str(&std::fs::read_to_string(dir.join("expected.json")).unwrap()).unwrap();
+    let expected = expected.as_object().expect("an object of file → fragments");
+    let mut files: Vec<String> = std::fs::read_dir(&dir)
+        .unwrap()
+        .flatten()
+        .map(|e| e.file_name().to_string_lossy().into_owned())
+        .filter(|n| n != "expected.json" && !n.ends_with(".py"))
+        .collect();
+    files.sort();
+    let mut listed: Vec<String> = expected.keys().cloned().collect();
+    listed.sort();
+    assert_eq!(
+        files, listed,
+        "every bad file has its expected message, and only those"
+    );
+    for (name, fragments) in expected {
+        let path = dir.join(name);
+        let out = run(&["fit", &path.to_string_lossy(), "--json"]);
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert_eq!(out.status.code(), Some(1), "{name}: {err}");
+        assert!(out.stdout.is_empty(), "{name}: nothing on stdout");
+        for frag in fragments.as_array().unwrap() {
+            let frag = frag.as_str().unwrap();
+            assert!(err.contains(frag), "{name}: '{frag}' not in {err}");
+        }
+    }
+}
