@@ -2,6 +2,7 @@
 
 mod garbage_in;
 mod handbook;
+mod hostile;
 mod known_answers;
 mod nist_strd;
 mod properties;
