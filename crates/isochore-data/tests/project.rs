@@ -199,6 +199,19 @@ fn child_save_into_read_only_folder() {
     child_save_must_fail();
 }
 
+/// Asserts that the file at `path` still holds exactly `want` (without printing both).
+#[cfg(unix)]
+fn same_bytes(path: &Path, want: &[u8], what: &str) {
+    let now = std::fs::read(path).unwrap();
+    assert!(
+        now == want,
+        "{what} changed: {} bytes now, {} before; now begins {:?}",
+        now.len(),
+        want.len(),
+        String::from_utf8_lossy(&now[..now.len().min(60)])
+    );
+}
+
 #[cfg(unix)]
 /// Saves two versions into `dir`, so that a project and its `.bak` exist; returns the path
 /// and both files' bytes.
@@ -225,12 +238,8 @@ fn a_save_failing_midway_keeps_project_and_backup() {
         "trap '' XFSZ; ulimit -f 2",
         false,
     );
-    assert_eq!(std::fs::read(&path).unwrap(), project, "project changed");
-    assert_eq!(
-        std::fs::read(dir.path().join("work.isochore.json.bak")).unwrap(),
-        bak,
-        "backup changed"
-    );
+    same_bytes(&path, &project, "project");
+    same_bytes(&dir.path().join("work.isochore.json.bak"), &bak, "backup");
     assert_eq!(
         names(dir.path()),
         ["work.isochore.json", "work.isochore.json.bak"],
@@ -258,12 +267,8 @@ fn a_read_only_folder_keeps_project_and_backup() {
     );
     mode(&dir, 0o755).unwrap();
     if ran {
-        assert_eq!(std::fs::read(&path).unwrap(), project, "project changed");
-        assert_eq!(
-            std::fs::read(dir.join("work.isochore.json.bak")).unwrap(),
-            bak,
-            "backup changed"
-        );
+        same_bytes(&path, &project, "project");
+        same_bytes(&dir.join("work.isochore.json.bak"), &bak, "backup");
         assert_eq!(
             names(&dir),
             ["work.isochore.json", "work.isochore.json.bak"],
