@@ -38,7 +38,7 @@ use isochore_fit::{EnergyUnit, TemperatureUnit, VantHoffFit};
 use std::fmt;
 use std::path::{Path, PathBuf};
 
-pub use atomic::{remove_stale_temporaries, write_atomic, STALE_AFTER};
+pub use atomic::{remove_stale_temporaries, write_atomic, STALE_AFTER, TEMP_PREFIX, TEMP_SUFFIX};
 pub use figures::FigureKind;
 
 /// One measured row as the caller read it, with its values on the fitting scale.

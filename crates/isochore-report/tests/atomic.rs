@@ -10,7 +10,7 @@
 
 #![cfg(unix)]
 
-use isochore_report::write_atomic;
+use isochore_report::{write_atomic, TEMP_PREFIX, TEMP_SUFFIX};
 use std::io::Write;
 use std::os::unix::fs::{MetadataExt, PermissionsExt};
 use std::path::Path;
@@ -27,13 +27,18 @@ fn new_report() -> Vec<u8> {
     b"<p>new report</p>\n".repeat(4096)
 }
 
-/// Sorted names in `dir`.
+/// Sorted names in `dir`; none may be one of the writer's temporary files.
 fn names(dir: &Path) -> Vec<String> {
     let mut v: Vec<String> = std::fs::read_dir(dir)
         .unwrap()
         .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
         .collect();
     v.sort();
+    assert!(
+        !v.iter()
+            .any(|n| n.starts_with(TEMP_PREFIX) && n.ends_with(TEMP_SUFFIX)),
+        "temporary file left: {v:?}"
+    );
     v
 }
 

@@ -6,6 +6,7 @@
 use isochore_fit::{fit, EnergyUnit, FitOptions, Measurement, TemperatureUnit, GAS_CONSTANT};
 use isochore_report::{
     render, write_report_set, FigureKind, ReportError, ReportFormat, ReportInput, ReportRow,
+    TEMP_PREFIX, TEMP_SUFFIX,
 };
 
 fn input(name: &str) -> ReportInput {
@@ -130,7 +131,7 @@ fn a_full_set_is_written_and_nothing_half_written_is_left() {
         assert!(len > 0, "{} is empty", p.display());
     }
     // The folder holds exactly the files reported as written: no temporary file (the
-    // writer's `.isochore-*.part`, src/atomic.rs) or anything else is left beside them.
+    // writer's TEMP_PREFIX…TEMP_SUFFIX, `.isochore-*.part`) or anything else beside them.
     let mut on_disk: Vec<String> = std::fs::read_dir(dir.path())
         .unwrap()
         .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
@@ -146,7 +147,7 @@ fn a_full_set_is_written_and_nothing_half_written_is_left() {
     assert!(
         !on_disk
             .iter()
-            .any(|n| n.starts_with(".isochore-") && n.ends_with(".part")),
+            .any(|n| n.starts_with(TEMP_PREFIX) && n.ends_with(TEMP_SUFFIX)),
         "temporary file left: {on_disk:?}"
     );
     let html = std::fs::read_to_string(dir.path().join("set.html")).unwrap();
