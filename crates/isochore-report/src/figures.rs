@@ -705,7 +705,7 @@ where
             .draw_series(
                 envelope_extremes(&flagged)
                     .into_iter()
-                    .map(|p| Circle::new(p, 8, ORANGE.stroke_width(2))),
+                    .map(|p| Circle::new(p, 6, ORANGE.stroke_width(2))),
             )
             .map_err(fe)?
             .label(label)
@@ -871,7 +871,7 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
                 .draw_series(
                     envelope_extremes(&flagged)
                         .into_iter()
-                        .map(|p| Circle::new(p, 8, ORANGE.stroke_width(2))),
+                        .map(|p| Circle::new(p, 6, ORANGE.stroke_width(2))),
                 )
                 .map_err(fe)?
                 .label(format!("flagged points ({})", flagged.len()))
