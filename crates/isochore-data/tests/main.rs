@@ -2,5 +2,6 @@
 
 mod fixtures;
 mod fuzz;
+mod hostile;
 mod large;
 mod project;
