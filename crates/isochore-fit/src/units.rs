@@ -380,7 +380,7 @@ mod tests {
             (QuantityKind::DeltaG(EnergyUnit::KilojoulePerMole), dg / 1e3),
             (
                 QuantityKind::DeltaG(EnergyUnit::KilocaloriePerMole),
-                // J per kcal: the thermochemical calorie, 4.184 J exactly (NIST SP 811, B.8).
+                // J per kcal: the thermochemical calorie, 4.184 J exactly (NIST SP 811, B.8; from memory).
                 dg / 4184.0,
             ),
         ];

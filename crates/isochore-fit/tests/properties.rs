@@ -245,7 +245,7 @@ proptest! {
             prop_assert!(close(unit.to_joules(unit.from_joules(j)), j, 1e-14, 1e-300));
         }
         // 1 kcal = 4.184 kJ (thermochemical calorie, exact by definition: NIST SP 811, 2008,
-        // appendix B.8); asserted exactly, so the International Table 4.1868 kJ fails.
+        // appendix B.8, section from memory); asserted exactly, so the International Table 4.1868 kJ fails.
         prop_assert!(close(EnergyUnit::KilocaloriePerMole.to_joules(1.0), 4184.0, 0.0, 1.0));
     }
 }

@@ -108,7 +108,7 @@ fn all_formats_render_and_escape() {
         .parse()
         .unwrap();
     // The table in kcal/mol: 1 kcal = 4184 J exactly, the thermochemical calorie (NIST SP 811,
-    // 2008, appendix B.8; ISO 80000-5). The division is the unit's definition, not a copy of
+    // 2008, appendix B.8; ISO 80000-5; section numbers from memory). The division is the unit's definition, not a copy of
     // a formula. The CSV carries full precision, so 1e-9 tells it from the International
     // Table calorie (4186.8 J), which would be 6.7e-4 off.
     let want = dh_j / 4184.0;
