@@ -203,8 +203,8 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
         .collect();
     // Plan every report file and check it before writing any.
     let mut targets: Vec<Vec<Vec<PathBuf>>> = Vec::new();
+    let guard = Guard::new(&a.files);
     if let Some(p) = plan.as_mut() {
-        let guard = Guard::new(&a.files);
         let mut refusals = Vec::new();
         for (_, l) in &loaded {
             let mut per_file = Vec::new();
@@ -247,7 +247,6 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
             ));
         }
     }
-    let guard = Guard::new(&a.files);
     let style = if a.json { Style::Json } else { Style::Text };
     let mut out = output::stdout(style);
     let mut failures: Vec<String> = Vec::new();
@@ -260,6 +259,14 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
     let detailed_text = !a.json && !a.summary && a.files.len() == 1;
 
     for (fi, (source, l)) in loaded.into_iter().enumerate() {
+        // A closed reader with no reports to write: nothing left to do but say failures.
+        if out.closed() && plan.is_none() {
+            match l {
+                Err(e) => failures.push(e),
+                Ok(jobs) => failures.extend(jobs.into_iter().filter_map(|(_, f)| f.err())),
+            }
+            continue;
+        }
         let jobs = match l {
             Ok(j) => j,
             Err(e) => {

@@ -5,9 +5,10 @@
 //! multi-line text passes through.
 //!
 //! Failures of the streams never panic:
-//! - stdout: a closed reader (broken pipe, as with `| head`) ends the run quietly with exit
-//!   code 0 ([`EXIT_BROKEN_PIPE`]); any other failure (disk full, I/O error) is said on
-//!   stderr and the run ends with exit code 1.
+//! - stdout: a closed reader (broken pipe, as with `| head`) is quiet: nothing more is
+//!   printed, nothing is said, and the run ends as it would have (reports still written,
+//!   exit code 0 unless an input failed; see [`Escaped::closed`]); any other failure (disk
+//!   full, I/O error) is said on stderr and the run ends with exit code 1.
 //! - stderr: a closed reader is ignored; any other failure cannot be reported anywhere, so
 //!   it turns an otherwise successful run into exit code 1 ([`stderr_failed`]).
 
@@ -15,8 +16,9 @@ use crate::Failure;
 use std::io::{self, Write};
 use std::sync::atomic::{AtomicBool, Ordering};
 
-/// Exit code when stdout's reader has gone away (a broken pipe): 0, quietly, as tools
-/// that are read through `head` usually do, so `set -o pipefail` scripts are not upset.
+/// Exit code when stdout's reader has gone away (a broken pipe) and nothing else failed:
+/// 0, quietly, as tools that are read through `head` usually do, so `set -o pipefail`
+/// scripts are not upset.
 pub const EXIT_BROKEN_PIPE: u8 = 0;
 
 static STDERR_FAILED: AtomicBool = AtomicBool::new(false);
@@ -42,6 +44,7 @@ pub struct Escaped<W: Write> {
     inner: W,
     style: Style,
     carry: Vec<u8>,
+    closed: bool,
 }
 
 impl<W: Write> Escaped<W> {
@@ -51,6 +54,26 @@ impl<W: Write> Escaped<W> {
             inner,
             style,
             carry: Vec::new(),
+            closed: false,
+        }
+    }
+
+    /// Whether the reader has gone away (a broken pipe). From then on writes succeed and
+    /// go nowhere, so a command finishes its other work quietly; a long output can stop
+    /// early by checking this.
+    pub fn closed(&self) -> bool {
+        self.closed
+    }
+
+    /// Turns a broken pipe into a closed stream; other errors pass.
+    fn settle(&mut self, r: io::Result<()>) -> io::Result<()> {
+        match r {
+            Err(e) if e.kind() == io::ErrorKind::BrokenPipe => {
+                self.closed = true;
+                self.carry.clear();
+                Ok(())
+            }
+            other => other,
         }
     }
 }
@@ -132,26 +155,30 @@ impl<W: Write> Write for Escaped<W> {
     }
 
     fn write_all(&mut self, buf: &[u8]) -> io::Result<()> {
-        if self.carry.is_empty() {
+        if self.closed {
+            return Ok(());
+        }
+        let r = if self.carry.is_empty() {
             let cut = complete_prefix(buf);
-            escape_into(&mut self.inner, &buf[..cut], self.style)?;
             self.carry.extend_from_slice(&buf[cut..]);
+            escape_into(&mut self.inner, &buf[..cut], self.style)
         } else {
             let mut data = std::mem::take(&mut self.carry);
             data.extend_from_slice(buf);
             let cut = complete_prefix(&data);
-            escape_into(&mut self.inner, &data[..cut], self.style)?;
             self.carry = data[cut..].to_vec();
-        }
-        Ok(())
+            escape_into(&mut self.inner, &data[..cut], self.style)
+        };
+        self.settle(r)
     }
 
     fn flush(&mut self) -> io::Result<()> {
-        if !self.carry.is_empty() {
-            let rest = std::mem::take(&mut self.carry);
-            escape_into(&mut self.inner, &rest, self.style)?;
+        if self.closed {
+            return Ok(());
         }
-        self.inner.flush()
+        let rest = std::mem::take(&mut self.carry);
+        let r = escape_into(&mut self.inner, &rest, self.style).and_then(|()| self.inner.flush());
+        self.settle(r)
     }
 }
 
@@ -163,8 +190,9 @@ pub fn stdout(style: Style) -> Escaped<io::BufWriter<io::StdoutLock<'static>>> {
     )
 }
 
-/// The failure a stdout write error earns: quiet success for a closed reader, exit 1
-/// with a message otherwise.
+/// The failure a stdout write error earns: exit 1 with a message (a closed reader never
+/// gets here, see [`Escaped::closed`], but would end the run quietly with
+/// [`EXIT_BROKEN_PIPE`]).
 pub fn stdout_failure(e: io::Error) -> Failure {
     if e.kind() == io::ErrorKind::BrokenPipe {
         Failure {
@@ -287,6 +315,57 @@ mod tests {
         for cut in 0..s.len() {
             let t = through(&[&s[..cut], &s[cut..]], Style::Text);
             assert_eq!(t, "x\\u{9b}y°\\u{202e}z", "cut at {cut}");
+        }
+    }
+
+    /// A writer whose reader is gone after `room` bytes.
+    struct Pipe {
+        room: usize,
+        got: Vec<u8>,
+    }
+
+    impl Write for Pipe {
+        fn write(&mut self, buf: &[u8]) -> io::Result<usize> {
+            if self.got.len() + buf.len() > self.room {
+                return Err(io::ErrorKind::BrokenPipe.into());
+            }
+            self.got.extend_from_slice(buf);
+            Ok(buf.len())
+        }
+        fn flush(&mut self) -> io::Result<()> {
+            Ok(())
+        }
+    }
+
+    #[test]
+    fn a_broken_pipe_closes_quietly_and_other_errors_pass() {
+        let mut w = Escaped::new(
+            Pipe {
+                room: 4,
+                got: Vec::new(),
+            },
+            Style::Text,
+        );
+        w.write_all(b"abc").unwrap();
+        assert!(!w.closed());
+        w.write_all(b"defgh").unwrap();
+        assert!(w.closed());
+        w.write_all(b"more").unwrap();
+        w.flush().unwrap();
+        assert_eq!(w.inner.got, b"abc");
+        let mut full = Escaped::new(Full, Style::Text);
+        assert!(full.write_all(b"x").is_err());
+        assert!(!full.closed());
+    }
+
+    /// A writer that fails as a full disk does.
+    struct Full;
+    impl Write for Full {
+        fn write(&mut self, _: &[u8]) -> io::Result<usize> {
+            Err(io::Error::other("no space left"))
+        }
+        fn flush(&mut self) -> io::Result<()> {
+            Ok(())
         }
     }
 

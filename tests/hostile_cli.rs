@@ -265,6 +265,11 @@ fn a_closed_pipe_ends_the_run_quietly() {
     write(dir.path(), "bad.csv", "T (K),K\n300,abc\n310,2\n");
     let mut lines = command_lines("big.csv", "bad.csv");
     lines.push(vec!["fit".into(), "big.csv".into(), "--json".into()]);
+    lines.push(
+        ["fit", "big.csv", "--json", "--report", "closed.html"]
+            .map(String::from)
+            .to_vec(),
+    );
     for args in lines {
         // stdout closed.
         let mut child = bin()
@@ -291,6 +296,13 @@ fn a_closed_pipe_ends_the_run_quietly() {
         );
         if args == ["fit", "big.csv", "--json"] {
             assert_eq!(status.code(), Some(0), "quiet exit on a broken pipe: {err}");
+        }
+        if args == ["fit", "big.csv", "--json", "--report", "closed.html"] {
+            assert_eq!(status.code(), Some(0), "{err}");
+            assert!(
+                dir.path().join("closed.html").is_file(),
+                "the report is still written when stdout's reader is gone"
+            );
         }
         // stderr closed.
         let mut child = bin()
