@@ -431,7 +431,7 @@ fn control_characters_never_reach_the_terminal() {
     assert_eq!(out.status.code(), Some(1));
     assert!(!has_raw_controls(&out.stderr), "{:?}", text(&out.stderr));
     // A file name with a control character.
-    let odd = format!("odd\u{1b}]0;title\u{7}.csv");
+    let odd = "odd\u{1b}]0;title\u{7}.csv".to_string();
     let out = run_in(dir.path(), &["fit", &odd]);
     assert_eq!(out.status.code(), Some(1));
     assert!(!has_raw_controls(&out.stderr), "{:?}", text(&out.stderr));
