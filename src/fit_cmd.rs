@@ -5,18 +5,23 @@
 use crate::cli::FitArgs;
 use crate::load::{load, Job};
 use crate::output::{self, Style};
-use crate::report_files::Guard;
 use crate::{json, table, Failure};
 use isochore_fit::VantHoffFit;
-use isochore_report::{ReportFormat, ReportInput};
+use isochore_report::{OverwriteGuard, ReportFormat, ReportInput};
 use std::collections::HashSet;
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
 /// Fits one job with the library.
 pub fn fit_job(job: &Job) -> Result<VantHoffFit, String> {
-    isochore_fit::fit(&job.measurements(), &job.options)
-        .map_err(|e| format!("{}: series '{}': {e}", job.source, job.series))
+    isochore_fit::fit(&job.measurements(), &job.options).map_err(|e| {
+        let hint = match e {
+            isochore_fit::Error::ImplausibleTemperature { .. }
+            | isochore_fit::Error::ImplausibleReferenceTemperature(_) => crate::load::EXTREME_HINT,
+            _ => "",
+        };
+        format!("{}: series '{}': {e}{hint}", job.source, job.series)
+    })
 }
 
 /// The report input for a fitted job.
@@ -203,7 +208,7 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
         .collect();
     // Plan every report file and check it before writing any.
     let mut targets: Vec<Vec<Vec<PathBuf>>> = Vec::new();
-    let guard = Guard::new(&a.files);
+    let guard = OverwriteGuard::new(&a.files);
     if let Some(p) = plan.as_mut() {
         let mut refusals = Vec::new();
         for (_, l) in &loaded {

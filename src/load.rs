@@ -108,6 +108,36 @@ fn import_options(a: &FitOptionsArgs) -> ImportOptions {
     }
 }
 
+/// The command line's way out, appended to a library message: the libraries name the cause
+/// and the remedy in words (no library knows the command line exists); the flag that takes
+/// that remedy is named here.
+pub fn data_hint(e: &isochore_data::Error) -> &'static str {
+    match e {
+        isochore_data::Error::DecimalMark { .. } => {
+            " (on the command line: --decimal-mark point or --decimal-mark comma)"
+        }
+        isochore_data::Error::MissingSigma { .. } => " (on the command line: --unweighted)",
+        isochore_data::Error::ProjectRow { rejected, .. } => row_hint(rejected),
+        _ => "",
+    }
+}
+
+/// [`data_hint`] for one rejected row.
+pub fn row_hint(r: &isochore_data::RejectedRow) -> &'static str {
+    match r.problem {
+        isochore_data::RowProblem::ImplausibleTemperature { .. } => EXTREME_HINT,
+        _ => "",
+    }
+}
+
+/// The flag that confirms temperatures (and θ) outside 1–10 000 K.
+pub const EXTREME_HINT: &str = " (on the command line: --allow-extreme-temperatures)";
+
+/// A library message with the command line's hint, for data errors.
+fn with_hint(e: &isochore_data::Error) -> String {
+    format!("{e}{}", data_hint(e))
+}
+
 /// Reads one path into jobs (one per data set).
 ///
 /// `with_cells` asks for the cells as read (needed for reports only; costly for huge files).
@@ -166,7 +196,7 @@ fn named_by_path(message: &str, path: &Path) -> String {
 fn load_csv(path: &Path, a: &FitOptionsArgs, with_cells: bool) -> Result<Vec<Job>, String> {
     let source = path.display().to_string();
     let imp: Import = isochore_data::import_path(path, &import_options(a))
-        .map_err(|e| named_by_path(&e.to_string(), path))?;
+        .map_err(|e| named_by_path(&with_hint(&e), path))?;
     let mut warnings = Vec::new();
     if let Some(first) = imp.rejected.first() {
         if !a.skip_bad_rows {
@@ -178,7 +208,11 @@ fn load_csv(path: &Path, a: &FitOptionsArgs, with_cells: bool) -> Result<Vec<Job
             } else {
                 " (--skip-bad-rows fits the good rows)".to_string()
             };
-            return Err(format!("{source}: {}{more}", first.message()));
+            return Err(format!(
+                "{source}: {}{}{more}",
+                first.message(),
+                row_hint(first)
+            ));
         }
         for r in &imp.rejected {
             warnings.push(format!("skipped {}", r.message()));
@@ -188,7 +222,7 @@ fn load_csv(path: &Path, a: &FitOptionsArgs, with_cells: bool) -> Result<Vec<Job
     let opts = options(FitOptions::default(), a);
     if opts.weighting == Weighting::InverseVariance {
         // σ in some rows and an empty σ cell in another: refused with its line and column.
-        imp.check_sigma().map_err(|e| e.to_string())?;
+        imp.check_sigma().map_err(|e| with_hint(&e))?;
     }
     let mut jobs = Vec::new();
     for s in &imp.series {
@@ -261,9 +295,12 @@ fn load_project(path: &Path, a: &FitOptionsArgs, with_cells: bool) -> Result<Vec
             s.settings.fit.allow_extreme_temperatures = true;
         }
         if options(s.settings.fit, a).weighting == Weighting::InverseVariance {
-            s.check_sigma().map_err(|e| format!("{source}: {e}"))?;
+            s.check_sigma()
+                .map_err(|e| format!("{source}: {}", with_hint(&e)))?;
         }
-        let points = s.points().map_err(|e| format!("{source}: {e}"))?;
+        let points = s
+            .points()
+            .map_err(|e| format!("{source}: {}", with_hint(&e)))?;
         let reasons: BTreeMap<usize, String> = s
             .exclusions
             .iter()

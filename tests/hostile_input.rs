@@ -62,6 +62,12 @@ fn an_implausible_temperature_is_refused_with_its_line_unless_confirmed() {
     let err = refused(&["fit", &path]);
     assert!(err.contains("line 3, column 1"), "{err}");
     assert!(err.contains("plausible range"), "{err}");
+    // The library names the remedy in words; the command line adds its flag.
+    assert!(
+        err.contains("confirm such temperatures explicitly"),
+        "{err}"
+    );
+    assert!(err.contains("--allow-extreme-temperatures"), "{err}");
     // Confirmed, the row is read (the fit may still refuse such numbers, for another cause).
     let out = run(&["fit", &path, "--allow-extreme-temperatures", "--json"]);
     assert!(
@@ -106,6 +112,10 @@ fn mixed_decimal_marks_are_refused_until_the_convention_is_stated() {
     let err = refused(&["fit", &mixed]);
     assert!(err.contains("line 3, column 2"), "{err}");
     assert!(err.contains("--decimal-mark"), "{err}");
+    assert!(
+        err.contains("state the decimal mark (point or comma)"),
+        "{err}"
+    );
     // Stating a comma still refuses the point on line 3.
     let err = refused(&["fit", &mixed, "--decimal-mark", "comma"]);
     assert!(err.contains("line 3, column 2"), "{err}");
@@ -136,6 +146,7 @@ fn an_empty_sigma_cell_is_located_and_unweighted_fits_the_file() {
     let err = refused(&["fit", &path]);
     assert!(err.contains("line 3, column 3 ('u(K)')"), "{err}");
     assert!(err.contains("--unweighted"), "{err}");
+    assert!(err.contains("fit unweighted"), "{err}");
     assert!(!err.contains("point 2"), "{err}");
     let out = run(&["fit", &path, "--unweighted", "--json"]);
     assert!(out.status.success(), "{}", stderr(&out));

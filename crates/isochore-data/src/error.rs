@@ -99,7 +99,7 @@ impl RejectedRow {
                 "'{cell}' is too small to represent: it underflows to 0 in double precision (the smallest is about 1e-308); check the value and its unit"
             )),
             RowProblem::ImplausibleTemperature { kelvin } => s.push_str(&format!(
-                "'{cell}' is {} K, outside the plausible range {} to {} K; check the value and the temperature unit, or confirm such temperatures explicitly (--allow-extreme-temperatures)",
+                "'{cell}' is {} K, outside the plausible range {} to {} K; check the value and the temperature unit, or confirm such temperatures explicitly",
                 short(*kelvin),
                 isochore_fit::MIN_PLAUSIBLE_K,
                 isochore_fit::MAX_PLAUSIBLE_K
@@ -501,7 +501,7 @@ impl fmt::Display for Error {
             ),
             Error::MissingSigma { file, series, line, column, header } => write!(
                 f,
-                "{file}: line {line}, column {column} ('{header}'): the uncertainty cell is empty, while other rows of data set '{series}' give one; a weighted fit needs σ on every row. Fill in the cell, or fit unweighted (--unweighted), which ignores every σ"
+                "{file}: line {line}, column {column} ('{header}'): the uncertainty cell is empty, while other rows of data set '{series}' give one; a weighted fit needs σ on every row. Fill in the cell, or fit unweighted, which ignores every σ"
             ),
             Error::NoSuchRow { series, row, rows } => write!(
                 f,

@@ -1005,11 +1005,11 @@ impl Marks {
             (a, b) => a.as_ref().or(b.as_ref()),
         };
         const STATE: &str =
-            "one decimal convention per file: correct the cell, or state the convention (--decimal-mark point or --decimal-mark comma)";
+            "one decimal convention per file: correct the cell, or state the decimal mark (point or comma)";
         match (stated, &self.point, first_comma) {
             (DecimalMark::Comma, Some(p), _) => Err(MarkFault {
                 at: p.clone(),
-                message: "a decimal point, but the decimal mark is stated to be a comma; write it with a comma, or state --decimal-mark point".to_string(),
+                message: "a decimal point, but the decimal mark is stated to be a comma; write it with a comma, or state the decimal mark as point".to_string(),
             }),
             (DecimalMark::Comma, None, _) => Ok(true),
             (_, Some(p), Some(c)) => {

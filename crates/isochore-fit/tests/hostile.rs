@@ -123,6 +123,9 @@ fn implausible_temperatures_are_refused_unless_confirmed() {
         "{e:?}"
     );
     assert!(e.to_string().starts_with("point 1:"), "{e}");
+    // The cause and the way out in words; no front end's flag (DEVELOPERS.md).
+    assert!(e.to_string().contains("confirm such temperatures"), "{e}");
+    assert!(!e.to_string().contains("--"), "{e}");
     // The point above the range is named too.
     let e = fit(&pts[1..], &FitOptions::default()).unwrap_err();
     assert!(
@@ -154,6 +157,7 @@ fn reference_temperature_outside_the_range_names_theta() {
         let msg = e.to_string();
         assert!(msg.contains("θ"), "{msg}");
         assert!(!msg.contains("units") && !msg.contains("distinct"), "{msg}");
+        assert!(!msg.contains("--"), "no command-line flag: {msg}");
         // At most 6 significant digits of the value.
         assert!(msg.len() < 300, "{msg}");
     }
