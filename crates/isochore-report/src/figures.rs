@@ -266,25 +266,13 @@ fn with_dpi(png: Vec<u8>, dpi: f64) -> Vec<u8> {
     body.extend_from_slice(&ppm.to_be_bytes());
     body.push(1); // unit: metre
     chunk.extend_from_slice(&body);
-    chunk.extend_from_slice(&crc32(&body).to_be_bytes());
+    // CRC-32 of ISO 3309, as the PNG specification prescribes for every chunk.
+    chunk.extend_from_slice(&crc32fast::hash(&body).to_be_bytes());
     let mut out = Vec::with_capacity(png.len() + chunk.len());
     out.extend_from_slice(&png[..IHDR_END]);
     out.extend_from_slice(&chunk);
     out.extend_from_slice(&png[IHDR_END..]);
     out
-}
-
-/// CRC-32 (ISO 3309, as used by PNG).
-fn crc32(data: &[u8]) -> u32 {
-    let mut crc = 0xFFFF_FFFFu32;
-    for &b in data {
-        crc ^= b as u32;
-        for _ in 0..8 {
-            let mask = (crc & 1).wrapping_neg();
-            crc = (crc >> 1) ^ (0xEDB8_8320 & mask);
-        }
-    }
-    !crc
 }
 
 fn finite_range(values: impl Iterator<Item = f64>) -> Option<(f64, f64)> {
@@ -1021,8 +1009,9 @@ mod tests {
 
     #[test]
     fn crc_matches_the_png_check_value() {
-        // CRC-32 check value of "123456789" is 0xCBF43926 (ISO 3309 / PNG specification).
-        assert_eq!(crc32(b"123456789"), 0xCBF4_3926);
+        // CRC-32 check value of "123456789" is 0xCBF43926 (ISO 3309 / PNG specification):
+        // the crate computes the CRC variant the pHYs chunk needs.
+        assert_eq!(crc32fast::hash(b"123456789"), 0xCBF4_3926);
     }
 
     #[test]
