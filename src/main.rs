@@ -13,7 +13,6 @@ mod json;
 mod load;
 mod output;
 mod predict_cmd;
-mod report_files;
 mod table;
 mod two_point_cmd;
 

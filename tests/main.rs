@@ -1,6 +1,6 @@
 //! The one integration-test binary of this package: one module per subject.
 
 mod cli;
+mod hostile_cli;
 mod hostile_input;
 mod promises;
-mod hostile_cli;

@@ -419,7 +419,7 @@ fn report_format_follows_the_suffix() {
         );
         let bytes = std::fs::read(&target).unwrap_or_else(|e| panic!("{ext}: {e}"));
         // The report files, leaving out the manifest the command line keeps of the files
-        // it wrote (".isochore-written", src/report_files.rs).
+        // it wrote (".isochore-written", isochore_report::guard).
         let mut names: Vec<String> = std::fs::read_dir(dir.path())
             .unwrap()
             .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())

@@ -4,7 +4,7 @@
 //! open project until the caller applies the result as a command.
 
 use crate::doc::{Project, Series};
-use isochore_data::{ColumnMapping, Import, ImportOptions};
+use isochore_data::{ColumnMapping, DecimalMark, Import, ImportOptions};
 use isochore_report::{ReportInput, ReportRow};
 use std::path::{Path, PathBuf};
 
@@ -25,6 +25,73 @@ pub struct ImportPreview {
     pub import: Import,
     /// The mapping being edited (starts as the recognised one).
     pub mapping: ColumnMapping,
+    /// The decimal mark the file is read with: decided by the file (one convention per
+    /// file), or stated by the chemist.
+    pub decimal: DecimalMark,
+    /// The chemist confirms temperatures outside 1–10 000 K (kept in each data set's
+    /// settings, so refits accept them too).
+    pub allow_extreme_temperatures: bool,
+    /// The chemist asks for equal weights (every σ ignored), the way out of a σ column
+    /// with some empty cells.
+    pub unweighted: bool,
+}
+
+/// An import refused because the decimal marks break the one-convention rule: the
+/// message of isochore-data (line and column) and what is needed to read the source
+/// again with a stated mark.
+#[derive(Debug, Clone)]
+pub struct DecimalQuestion {
+    /// File name or "pasted text".
+    pub source: String,
+    /// The file, when it is one.
+    pub path: Option<PathBuf>,
+    /// Pasted text, when it is that.
+    pub text: Option<String>,
+    /// isochore-data's message, naming the line and column.
+    pub message: String,
+    /// Whether extreme temperatures were confirmed for this reading.
+    pub allow_extreme_temperatures: bool,
+}
+
+impl DecimalQuestion {
+    /// Reads the source again with the decimal mark stated.
+    ///
+    /// # Errors
+    /// As [`import_path`]: a new question when the stated mark is broken too.
+    pub fn retry(&self, mark: DecimalMark) -> Result<ImportPreview, ImportFailure> {
+        preview(
+            &self.source,
+            self.path.as_deref(),
+            self.text.as_deref(),
+            mark,
+            self.allow_extreme_temperatures,
+        )
+    }
+}
+
+/// Why a source could not be previewed.
+#[derive(Debug, Clone)]
+pub enum ImportFailure {
+    /// Mixed or ambiguous decimal marks: the chemist can state the convention.
+    Decimal(Box<DecimalQuestion>),
+    /// Any other refusal, in words (file, line and column named).
+    Message(String),
+}
+
+impl ImportFailure {
+    /// The message, in words.
+    pub fn message(&self) -> &str {
+        match self {
+            ImportFailure::Decimal(q) => &q.message,
+            ImportFailure::Message(m) => m,
+        }
+    }
+}
+
+impl std::fmt::Display for ImportFailure {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(self.message())
+    }
 }
 
 impl ImportPreview {
@@ -49,6 +116,8 @@ impl ImportPreview {
     pub fn reimport(&mut self) -> Result<(), String> {
         let opts = ImportOptions {
             mapping: Some(self.mapping.clone()),
+            decimal: self.decimal,
+            allow_extreme_temperatures: self.allow_extreme_temperatures,
             ..ImportOptions::default()
         };
         let import = read(
@@ -56,23 +125,40 @@ impl ImportPreview {
             self.path.as_deref(),
             self.text.as_deref(),
             &opts,
-        )?;
+        )
+        .map_err(|e| e.to_string())?;
         self.mapping = import.mapping.clone();
         self.import = import;
         Ok(())
     }
 
-    /// The series this import adds to a project. A data set with no uncertainty column
-    /// starts with equal weights (inverse-variance weights need σ), as the command line
-    /// does; the chemist can change it in the settings.
+    /// The empty-σ rule of isochore-data for a weighted fit: σ in some rows and an empty
+    /// σ cell in another is refused, naming the line and column. `None` when the data
+    /// sets will be fitted unweighted or every σ is given (or none is).
+    pub fn sigma_problem(&self) -> Option<String> {
+        if self.unweighted {
+            return None;
+        }
+        self.import.check_sigma().err().map(|e| e.to_string())
+    }
+
+    /// The series this import adds to a project. A data set with no uncertainties (no σ
+    /// column, or one with every cell empty) starts with equal weights (inverse-variance
+    /// weights need σ), as the command line does; the chemist can change it in the
+    /// settings. The confirmation of extreme temperatures and the choice to fit
+    /// unweighted are kept in each data set's settings.
     pub fn series(&self) -> Vec<Series> {
         isochore_data::Project::from_import(&self.import)
             .series
             .into_iter()
             .map(|mut d| {
-                if d.mapping.uncertainty.is_none() {
+                let no_sigma = d.mapping.uncertainty.is_none()
+                    || d.converted()
+                        .is_ok_and(|rows| rows.iter().all(|r| r.sigma_ln_k.is_none()));
+                if no_sigma || self.unweighted {
                     d.settings.fit.weighting = isochore_fit::Weighting::Unweighted;
                 }
+                d.settings.fit.allow_extreme_temperatures = self.allow_extreme_temperatures;
                 Series::new(d)
             })
             .collect()
@@ -84,13 +170,57 @@ fn read(
     path: Option<&Path>,
     text: Option<&str>,
     opts: &ImportOptions,
-) -> Result<Import, String> {
-    let r = match (path, text) {
+) -> Result<Import, isochore_data::Error> {
+    match (path, text) {
         (Some(p), _) => isochore_data::import_path(p, opts),
         (None, Some(t)) => isochore_data::import_text(source, t, opts),
-        (None, None) => return Err(format!("{source}: nothing to read")),
+        (None, None) => Err(isochore_data::Error::Io {
+            path: source.to_string(),
+            message: "nothing to read".to_string(),
+        }),
+    }
+}
+
+/// Reads a file or pasted text for preview with the decimal mark and the confirmation of
+/// extreme temperatures given.
+///
+/// # Errors
+/// [`ImportFailure::Decimal`] when the decimal marks break the one-convention rule (the
+/// chemist may state the mark), else isochore-data's message naming file, line and column.
+pub fn preview(
+    source: &str,
+    path: Option<&Path>,
+    text: Option<&str>,
+    decimal: DecimalMark,
+    allow_extreme_temperatures: bool,
+) -> Result<ImportPreview, ImportFailure> {
+    let opts = ImportOptions {
+        decimal,
+        allow_extreme_temperatures,
+        ..ImportOptions::default()
     };
-    r.map_err(|e| e.to_string())
+    match read(source, path, text, &opts) {
+        Ok(import) => Ok(ImportPreview {
+            source: source.to_string(),
+            path: path.map(Path::to_path_buf),
+            text: text.map(str::to_string),
+            mapping: import.mapping.clone(),
+            import,
+            decimal,
+            allow_extreme_temperatures,
+            unweighted: false,
+        }),
+        Err(e @ isochore_data::Error::DecimalMark { .. }) => {
+            Err(ImportFailure::Decimal(Box::new(DecimalQuestion {
+                source: source.to_string(),
+                path: path.map(Path::to_path_buf),
+                text: text.map(str::to_string),
+                message: e.to_string(),
+                allow_extreme_temperatures,
+            })))
+        }
+        Err(e) => Err(ImportFailure::Message(e.to_string())),
+    }
 }
 
 /// Whether a path names a project file (or its autosave).
@@ -150,38 +280,24 @@ pub fn demo_project() -> Result<Project, String> {
     Ok(p)
 }
 
-/// Reads a data file for preview.
+/// Reads a data file for preview (the decimal mark decided by the file).
 ///
 /// # Errors
-/// isochore-data's message naming the file, line and column.
-pub fn import_path(path: &Path) -> Result<ImportPreview, String> {
+/// As [`preview`].
+pub fn import_path(path: &Path) -> Result<ImportPreview, ImportFailure> {
     let source = path.file_name().map_or_else(
         || path.display().to_string(),
         |n| n.to_string_lossy().into_owned(),
     );
-    let import = read(&source, Some(path), None, &ImportOptions::default())?;
-    Ok(ImportPreview {
-        source,
-        path: Some(path.to_path_buf()),
-        text: None,
-        mapping: import.mapping.clone(),
-        import,
-    })
+    preview(&source, Some(path), None, DecimalMark::Auto, false)
 }
 
-/// Reads pasted text for preview.
+/// Reads pasted text for preview (the decimal mark decided by the text).
 ///
 /// # Errors
-/// isochore-data's message naming the line and column.
-pub fn import_text(text: &str, source: &str) -> Result<ImportPreview, String> {
-    let import = read(source, None, Some(text), &ImportOptions::default())?;
-    Ok(ImportPreview {
-        source: source.to_string(),
-        path: None,
-        text: Some(text.to_string()),
-        mapping: import.mapping.clone(),
-        import,
-    })
+/// As [`preview`].
+pub fn import_text(text: &str, source: &str) -> Result<ImportPreview, ImportFailure> {
+    preview(source, None, Some(text), DecimalMark::Auto, false)
 }
 
 /// Reads a project file.
@@ -273,18 +389,43 @@ pub fn export(
     fitter: &crate::fitting::Fitter,
     folder: &Path,
 ) -> Result<String, String> {
-    let mut written = 0usize;
-    let mut stems = Vec::new();
+    // The project file and every series' source file are inputs: a report never replaces
+    // them, nor any file isochore did not write (the same guard as the command line's).
+    let inputs: Vec<PathBuf> = project
+        .path
+        .iter()
+        .cloned()
+        .chain(
+            project
+                .series
+                .iter()
+                .filter_map(|s| s.data.source.path.as_ref().map(PathBuf::from)),
+        )
+        .collect();
+    let guard = isochore_report::OverwriteGuard::new(&inputs);
+    let mut jobs = Vec::new();
     for s in &project.series {
         let Some(a) = fitter.get(s.id) else {
             continue;
         };
-        let input = report_input(s, &a)?;
-        let stem = file_stem(s.name());
+        jobs.push((report_input(s, &a)?, file_stem(s.name())));
+    }
+    let refusals: Vec<String> = jobs
+        .iter()
+        .flat_map(|(_, stem)| isochore_report::report_set_paths(folder, stem))
+        .filter_map(|p| guard.refusal(&p))
+        .collect();
+    if !refusals.is_empty() {
+        return Err(format!("No report was written:\n{}", refusals.join("\n")));
+    }
+    let mut written = 0usize;
+    let mut stems = Vec::new();
+    for (input, stem) in &jobs {
         let paths =
-            isochore_report::write_report_set(&input, folder, &stem).map_err(|e| e.to_string())?;
+            isochore_report::write_report_set(input, folder, stem).map_err(|e| e.to_string())?;
+        guard.record(&paths)?;
         written += paths.len();
-        stems.push(stem);
+        stems.push(stem.clone());
     }
     if written == 0 {
         return Err("There is no fitted series to export.".into());

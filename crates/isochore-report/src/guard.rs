@@ -1,4 +1,4 @@
-//! Which files `fit --report` may write. A report never replaces a file given as input in
+//! Which files a report may replace, for the command line and the window alike. A report never replaces a file given as input in
 //! the same call (same canonical path, or the same file by device and inode), nor a file
 //! that isochore did not write itself: each folder that receives reports keeps a small
 //! manifest, [`MANIFEST`], listing the files isochore wrote there with their size and
@@ -98,14 +98,15 @@ fn read_manifest(dir: &Path) -> BTreeMap<String, (u64, u128)> {
 }
 
 /// The guard of one run: the inputs, and the manifests of the folders written to.
-pub struct Guard {
+pub struct OverwriteGuard {
     inputs: Vec<(PathBuf, Identity)>,
 }
 
-impl Guard {
-    /// A guard protecting `inputs` (the paths as given on the command line).
+impl OverwriteGuard {
+    /// A guard protecting `inputs` (the data and project files the report is made from, as
+    /// the user named them).
     pub fn new(inputs: &[PathBuf]) -> Self {
-        Guard {
+        OverwriteGuard {
             inputs: inputs
                 .iter()
                 .map(|p| (p.clone(), Identity::of(p)))
@@ -119,12 +120,12 @@ impl Guard {
         if let Some((input, _)) = self.inputs.iter().find(|(_, i)| i.same(&id)) {
             return Some(if input.as_path() == target {
                 format!(
-                    "{}: this is an input of the same command; a report never overwrites its input (give another --report path)",
+                    "{}: this is an input of the same command; a report never overwrites its input (choose another name or folder for the report)",
                     target.display()
                 )
             } else {
                 format!(
-                    "{}: this is the input {} of the same command; a report never overwrites its input (give another --report path)",
+                    "{}: this is the input {} of the same command; a report never overwrites its input (choose another name or folder for the report)",
                     target.display(),
                     input.display()
                 )
@@ -143,7 +144,7 @@ impl Guard {
             return None;
         }
         Some(format!(
-            "{}: the file exists and {}; isochore does not overwrite it (move it away, or give another --report path)",
+            "{}: the file exists and {}; isochore does not overwrite it (move it away, or choose another name or folder for the report)",
             target.display(),
             if ours.is_some() {
                 "was changed since isochore wrote it"
@@ -180,7 +181,7 @@ impl Guard {
                 text.push_str(&format!("{size}\t{time}\t{name}\n"));
             }
             let path = dir.join(MANIFEST);
-            isochore_report::write_atomic(&path, text.as_bytes()).map_err(|e| e.to_string())?;
+            crate::write_atomic(&path, text.as_bytes()).map_err(|e| e.to_string())?;
         }
         Ok(())
     }

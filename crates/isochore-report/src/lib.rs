@@ -30,6 +30,7 @@ pub mod content;
 mod csv_tables;
 pub mod figures;
 mod fonts;
+pub mod guard;
 mod html;
 mod markdown;
 mod pdf;
@@ -40,6 +41,7 @@ use std::path::{Path, PathBuf};
 
 pub use atomic::{remove_stale_temporaries, write_atomic, STALE_AFTER, TEMP_PREFIX, TEMP_SUFFIX};
 pub use figures::FigureKind;
+pub use guard::{OverwriteGuard, MANIFEST};
 
 /// One measured row as the caller read it, with its values on the fitting scale.
 ///
