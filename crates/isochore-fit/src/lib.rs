@@ -15,6 +15,7 @@
 //!   confidence and prediction intervals, bands, the (ΔH°, ΔS°) ellipse and the temperature
 //!   for a target K.
 //! - [`two_point`] is the hand calculation with propagated uncertainty.
+//! - [`average_replicates`] makes one point of replicates at one temperature.
 //! - [`least_squares`] is the general Householder-QR solver underneath.
 //!
 //! All energies are J/mol and entropies and heat capacities J mol⁻¹ K⁻¹.
@@ -41,6 +42,7 @@ pub mod influence;
 pub mod least_squares;
 pub mod measurement;
 pub mod model;
+pub mod replicates;
 pub mod stats;
 pub mod two_point;
 pub mod units;
@@ -55,6 +57,7 @@ pub use model::{
     SigmaConvention, Weighting, DEFAULT_REFERENCE_K, MAX_LEVEL, MAX_PLAUSIBLE_K, MIN_PLAUSIBLE_K,
     TEMPERATURE_RESOLUTION_K,
 };
+pub use replicates::average_replicates;
 pub use units::{ConcentrationUnit, EnergyUnit, QuantityKind, TemperatureUnit};
 pub use vant_hoff::{
     compare_models, fit, Estimate, FitStatistics, ModelComparison, Parameter, ParameterName,

@@ -1,0 +1,330 @@
+//! Import of a delimited text file (or pasted text) into data sets of measurements.
+//!
+//! [`import_path`], [`import_bytes`] and [`import_text`] decode the bytes, detect the
+//! dialect, read the header into a [`ColumnMapping`] (or take the caller's), then convert
+//! every row. Good rows go into [`Series`] (one per distinct value of the series column);
+//! rows with a bad cell go into [`Import::rejected`] with line, column and reason. Faults
+//! of the whole file (empty, header only, unknown header, size limits, too few points,
+//! one temperature) are an [`Error`].
+//!
+//! The reading is a pipeline, one stage per file: `source` (the bytes, size limits,
+//! decoding, SHA-256), `dialect` (binary check, delimiter, header row, decimal mark),
+//! `unit_guess` (a temperature column without a unit), `scan` (the row scanner, where the
+//! speed tricks live) and `series` (the data sets and their points). This file holds the
+//! options, the [`Import`] result and the order of the stages (`parse`).
+
+mod dialect;
+mod scan;
+mod series;
+mod source;
+mod unit_guess;
+
+pub use scan::TWO_THREADS_ABOVE;
+pub(crate) use series::make_points;
+pub use series::{ConvertedRow, Point, Row, Series};
+pub use source::{import_bytes, import_path, import_text, sha256_hex, SourceInfo};
+
+use crate::error::{Error, RejectedRow};
+use crate::header;
+use crate::mapping::ColumnMapping;
+use crate::text::{Delimiter, Reader};
+use serde::{Deserialize, Serialize};
+
+/// How the decimal mark is chosen. One convention holds for the whole file.
+///
+/// With a comma delimiter only '.' can be a decimal mark. Otherwise, under `Auto`, the
+/// number cells decide: all points, or all commas. A file that mixes the two, or whose
+/// only commas could also be thousands separators (`1,500`: one to three digits, a comma,
+/// three digits), is refused with the line and column of the cell at fault, and the user
+/// states the convention (`Point` or `Comma`). The check is made while the rows are read.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
+#[serde(rename_all = "snake_case")]
+pub enum DecimalMark {
+    /// Decided by the file: a comma inside a number is a decimal mark unless the delimiter
+    /// is a comma; mixed or ambiguous marks are refused.
+    #[default]
+    Auto,
+    /// Only '.' is a decimal mark; a comma in a number cell makes it not a number.
+    Point,
+    /// ',' is the decimal mark (`1,500` is 1.5); a cell with '.' is refused. Not possible
+    /// with a comma delimiter.
+    Comma,
+}
+
+/// What to do with replicates: rows of one data set whose temperatures agree within
+/// [`ImportOptions::replicate_tolerance_k`].
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
+#[serde(rename_all = "snake_case")]
+pub enum Replicates {
+    /// Every row is its own point (the default).
+    #[default]
+    Keep,
+    /// Replicates become one point: the mean temperature and the mean ln K, inverse-variance
+    /// weighted when every replicate has σ (then σ = 1/√Σw); otherwise the plain mean with
+    /// σ = s/√n from the spread (none when n = 1 or the spread is zero).
+    Average,
+}
+
+/// Options of an import. `Default` gives automatic detection and generous limits.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ImportOptions {
+    /// The delimiter, or `None` to detect it (tab, semicolon, comma, pipe, whitespace).
+    pub delimiter: Option<Delimiter>,
+    /// The decimal mark.
+    pub decimal: DecimalMark,
+    /// Replicate handling, carried into each [`Series`].
+    pub replicates: Replicates,
+    /// Temperatures closer than this (K) are replicates (default 0.05 K).
+    pub replicate_tolerance_k: f64,
+    /// Largest file accepted, in bytes (default 256 MiB; at most 4 GiB − 1).
+    pub max_file_bytes: u64,
+    /// Longest line accepted, in bytes (default 64 KiB).
+    pub max_line_bytes: usize,
+    /// Most cells accepted in a row (default 256).
+    pub max_columns: usize,
+    /// Fewest usable points a data set needs (default 3; 2 allows the two-point estimate).
+    pub min_points: usize,
+    /// Treat unrecognised headers as unused columns instead of an error.
+    pub ignore_unknown_columns: bool,
+    /// Use this mapping instead of reading the headers.
+    pub mapping: Option<ColumnMapping>,
+    /// Accept temperatures outside the plausible range 1 to 10 000 K (the user confirms
+    /// them); by default such a row is rejected with its line and column.
+    pub allow_extreme_temperatures: bool,
+}
+
+impl Default for ImportOptions {
+    fn default() -> Self {
+        ImportOptions {
+            delimiter: None,
+            decimal: DecimalMark::Auto,
+            replicates: Replicates::Keep,
+            replicate_tolerance_k: 0.05,
+            max_file_bytes: 256 << 20,
+            max_line_bytes: 64 << 10,
+            max_columns: 256,
+            min_points: 3,
+            ignore_unknown_columns: false,
+            mapping: None,
+            allow_extreme_temperatures: false,
+        }
+    }
+}
+
+/// The result of an import: the data sets, the rejected rows and what was detected.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Import {
+    /// Where the data came from.
+    pub source: SourceInfo,
+    /// Header cells as typed (trimmed).
+    pub headers: Vec<String>,
+    /// Physical line of the header.
+    pub header_line: usize,
+    /// What each column means.
+    pub mapping: ColumnMapping,
+    /// The delimiter used.
+    pub delimiter: Delimiter,
+    /// True when commas inside numbers are read as decimal marks and the file uses them.
+    pub decimal_comma: bool,
+    /// The data sets, in order of first appearance.
+    pub series: Vec<Series>,
+    /// Rows not accepted, in file order, with reasons.
+    pub rejected: Vec<RejectedRow>,
+    pub(crate) comma_ok: bool,
+    pub(crate) text: String,
+}
+
+impl Import {
+    /// The cells of an accepted row exactly as typed (quotes removed, doubled quotes undone).
+    pub fn cells(&self, row: &Row) -> Vec<String> {
+        let Ok(mut r) = self.reader_at(row.start as usize, row.end as usize) else {
+            return Vec::new();
+        };
+        match r.next_record() {
+            Ok(Some(_)) => r.spans.iter().map(|s| s.unescaped(&self.text)).collect(),
+            _ => Vec::new(),
+        }
+    }
+
+    fn reader_at(&self, start: usize, end: usize) -> Result<Reader<'_>, ()> {
+        let text = self.text.get(..end).ok_or(())?;
+        Ok(Reader::new(
+            text,
+            start,
+            self.delimiter,
+            usize::MAX,
+            usize::MAX,
+            &self.source.name,
+        ))
+    }
+
+    /// Whether commas in number cells are decimal marks in this import (stored in projects
+    /// so that the raw cells are read the same way again).
+    pub fn comma_is_decimal(&self) -> bool {
+        self.comma_ok
+    }
+
+    /// Every rejected row as a full message, starting with the file name, e.g.
+    /// `data.csv: line 14, column 2 ('Kd (nM)'): 'abc' is not a number; …`.
+    pub fn rejected_messages(&self) -> Vec<String> {
+        self.rejected
+            .iter()
+            .map(|r| format!("{}: {}", self.source.name, r.message()))
+            .collect()
+    }
+
+    /// The mapping in words, one line per column (see [`ColumnMapping::describe`]).
+    pub fn describe_mapping(&self) -> Vec<String> {
+        self.mapping.describe(&self.headers)
+    }
+
+    /// The rule for empty uncertainty cells, for a weighted fit: a data set whose σ column
+    /// is entirely empty has no uncertainties (it is fitted unweighted, see the README); a
+    /// data set with σ in some rows and an empty σ cell in another is refused, naming the
+    /// line and column of the first empty cell. Fitting unweighted ignores σ, so a caller
+    /// that fits unweighted need not call this.
+    ///
+    /// # Errors
+    /// [`Error::MissingSigma`].
+    pub fn check_sigma(&self) -> Result<(), Error> {
+        let Some(u) = self.mapping.uncertainty else {
+            return Ok(());
+        };
+        for s in &self.series {
+            if let Some(r) = s.first_row_missing_sigma() {
+                return Err(Error::MissingSigma {
+                    file: self.source.name.clone(),
+                    series: s.name.clone(),
+                    line: r.line(),
+                    column: u.column + 1,
+                    header: self.headers.get(u.column).cloned().unwrap_or_default(),
+                });
+            }
+        }
+        Ok(())
+    }
+
+    /// The data set with this name.
+    pub fn series_named(&self, name: &str) -> Option<&Series> {
+        self.series.iter().find(|s| s.name == name)
+    }
+
+    /// Strict reading: the import itself if no row was rejected, otherwise the first
+    /// rejected row as an error.
+    pub fn strict(self) -> Result<Import, Error> {
+        match self.rejected.first() {
+            None => Ok(self),
+            Some(r) => Err(Error::Row {
+                file: self.source.name.clone(),
+                rejected: Box::new(r.clone()),
+            }),
+        }
+    }
+}
+
+struct Parsed {
+    headers: Vec<String>,
+    header_line: usize,
+    mapping: ColumnMapping,
+    delimiter: Delimiter,
+    decimal_comma: bool,
+    comma_ok: bool,
+    series: Vec<Series>,
+    rejected: Vec<RejectedRow>,
+}
+
+fn stem(name: &str) -> String {
+    let base = name.rsplit(['/', '\\']).next().unwrap_or(name);
+    match base.rfind('.') {
+        Some(i) if i > 0 => base[..i].to_string(),
+        _ => base.to_string(),
+    }
+}
+
+/// The reading pipeline over decoded text: dialect and header, mapping, unit guess, scan,
+/// decimal convention, data sets. `clean`: the text is known to hold no NUL byte and no
+/// quote (see `source::read_file`).
+fn parse(
+    file: &str,
+    text: &str,
+    start: usize,
+    clean: bool,
+    o: &ImportOptions,
+) -> Result<Parsed, Error> {
+    let first_quote = dialect::first_quote(file, text, start, clean)?;
+    let dialect::Header {
+        delimiter,
+        comma_ok,
+        header_line,
+        headers,
+        data_start,
+        first_line,
+    } = dialect::read_header(file, text, start, o)?;
+    let (mut mapping, t_known) = match &o.mapping {
+        Some(m) => {
+            m.check(headers.len())
+                .map_err(|message| Error::InvalidMapping {
+                    file: file.to_string(),
+                    message,
+                })?;
+            (m.clone(), true)
+        }
+        None => {
+            let d = header::detect(&headers, file, header_line, o.ignore_unknown_columns)?;
+            (d.mapping, d.temperature_unit_known)
+        }
+    };
+    if !t_known {
+        unit_guess::decide_temperature_unit(
+            file,
+            text,
+            data_start,
+            delimiter,
+            o,
+            &headers,
+            header_line,
+            &mut mapping,
+        )?;
+    }
+    let default_name = stem(file);
+    let scan::Chunk {
+        series,
+        ranges,
+        rejected,
+        any_data,
+        marks,
+    } = scan::Scan {
+        file,
+        text,
+        delimiter,
+        o,
+        mapping: &mapping,
+        headers: &headers,
+        comma_ok,
+        default_name: &default_name,
+        quote_free: false,
+    }
+    .read_all(data_start, first_line, first_quote)?;
+    // One decimal convention per file, decided from the marks seen while reading.
+    let decimal_comma = dialect::decimal_comma(&marks, o.decimal, comma_ok, file, &headers)?;
+    // Projects read their cells again with the convention found: a file of decimal points
+    // keeps commas out.
+    let comma_ok = comma_ok && (decimal_comma || o.decimal == DecimalMark::Comma);
+    if !any_data {
+        return Err(Error::HeaderOnly {
+            file: file.to_string(),
+            line: header_line,
+        });
+    }
+    let series = series::assemble(file, o, default_name, series, ranges, &rejected)?;
+    Ok(Parsed {
+        headers,
+        header_line,
+        mapping,
+        delimiter,
+        decimal_comma,
+        comma_ok,
+        series,
+        rejected,
+    })
+}
