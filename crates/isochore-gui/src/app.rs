@@ -293,7 +293,8 @@ impl Workbench {
             Action::Open(path) => self.open_path(&path),
             Action::ImportText(text) => match io::import_text(&text, "pasted text") {
                 Ok(preview) => self.files.start_preview(preview),
-                Err(e) => self.messages.push(e),
+                Err(io::ImportFailure::Question(q)) => self.files.ask(*q),
+                Err(io::ImportFailure::Message(e)) => self.messages.push(e),
             },
             Action::Save => match self.project.path.clone() {
                 Some(p) => self.save_to(&p),
@@ -367,7 +368,11 @@ impl Workbench {
                     self.prefs.remember(path);
                     self.files.start_preview(preview);
                 }
-                Err(e) => self.messages.push(e),
+                Err(io::ImportFailure::Question(q)) => {
+                    self.prefs.remember(path);
+                    self.files.ask(*q);
+                }
+                Err(io::ImportFailure::Message(e)) => self.messages.push(e),
             }
         }
     }

@@ -30,6 +30,9 @@ pub struct Analysis {
     pub point_of_row: Vec<Option<usize>>,
     /// The fit, or the reason there is none, in words.
     pub fit: Result<VantHoffFit, String>,
+    /// The way out the window offers when the fit was refused for a reason the chemist
+    /// can settle with a setting (the command line's flags, as controls).
+    pub remedy: Option<Remedy>,
     /// Fit line with confidence and prediction bands.
     pub band: Vec<BandPoint>,
     /// The joint (ΔH°, ΔS°) confidence region at the fit's level.
@@ -47,18 +50,45 @@ pub struct Analysis {
     pub cooks_contours: Vec<(f64, Vec<[f64; 2]>)>,
 }
 
+/// A setting that settles why a fit was refused, offered beside the message.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Remedy {
+    /// A weighted series with σ in some rows and an empty σ cell in others (or no σ at
+    /// all): fit with equal weights, which ignores every σ.
+    FitUnweighted,
+    /// A temperature (or θ) outside the plausible 1–10 000 K: the chemist confirms such
+    /// temperatures for this series.
+    ConfirmExtremeTemperatures,
+}
+
+/// Whether a data-set message is a row refused for an implausible temperature.
+fn implausible_row(e: &isochore_data::Error) -> bool {
+    matches!(
+        e,
+        isochore_data::Error::ProjectRow { rejected, .. }
+            if matches!(rejected.problem, isochore_data::RowProblem::ImplausibleTemperature { .. })
+    )
+}
+
 /// Fits one series (pure: the same series gives the same analysis).
 pub fn analyse(series: &Series) -> Analysis {
     let rev = series.rev;
     let points = match series.points() {
         Ok(p) => p,
         Err(e) => {
+            // Only on this error path is the series converted a second time, to tell a
+            // refusal the chemist can confirm from one to correct.
+            let remedy = match series.data.converted() {
+                Err(d) if implausible_row(&d) => Some(Remedy::ConfirmExtremeTemperatures),
+                _ => None,
+            };
             return Analysis {
                 rev,
                 measurements: Vec::new(),
                 point_rows: Vec::new(),
                 point_of_row: Vec::new(),
                 fit: Err(e),
+                remedy,
                 band: Vec::new(),
                 ellipse: None,
                 vh_index: EnvelopeIndex::default(),
@@ -66,11 +96,36 @@ pub fn analyse(series: &Series) -> Analysis {
                 infl_index: EnvelopeIndex::default(),
                 extent: None,
                 cooks_contours: Vec::new(),
-            }
+            };
         }
     };
     let measurements = points.measurements;
-    let fit = isochore_fit::fit(&measurements, series.options()).map_err(|e| e.to_string());
+    let weighted = series.options().weighting == isochore_fit::Weighting::InverseVariance;
+    // The rule the command line follows: a weighted fit of a data set with σ in some rows
+    // and an empty σ cell in another is refused with the line and column of that cell
+    // (isochore-data), never fitted silently; fitting unweighted is the way out.
+    let sigma_check = if weighted && measurements.iter().any(|m| m.sigma_ln_k.is_none()) {
+        series.data.check_sigma().map_err(|e| e.to_string())
+    } else {
+        Ok(())
+    };
+    let (fit, remedy) = match sigma_check {
+        Err(e) => (Err(e), Some(Remedy::FitUnweighted)),
+        Ok(()) => match isochore_fit::fit(&measurements, series.options()) {
+            Ok(f) => (Ok(f), None),
+            Err(e) => {
+                let remedy = match e {
+                    isochore_fit::Error::ImplausibleTemperature { .. }
+                    | isochore_fit::Error::ImplausibleReferenceTemperature(_) => {
+                        Some(Remedy::ConfirmExtremeTemperatures)
+                    }
+                    isochore_fit::Error::MissingSigma { .. } => Some(Remedy::FitUnweighted),
+                    _ => None,
+                };
+                (Err(e.to_string()), remedy)
+            }
+        },
+    };
     let (band, ellipse, contours) = match &fit {
         Ok(f) => {
             let band = f.band_grid(BAND_POINTS, 0.08);
@@ -125,6 +180,7 @@ pub fn analyse(series: &Series) -> Analysis {
         point_rows: points.rows,
         point_of_row: points.point_of_row,
         fit,
+        remedy,
         band,
         ellipse,
         vh_index,

@@ -34,13 +34,27 @@ pub struct ImportPreview {
     /// The chemist asks for equal weights (every σ ignored), the way out of a σ column
     /// with some empty cells.
     pub unweighted: bool,
+    /// isochore-data's message for a σ column with some empty cells (read once per
+    /// reading, see [`ImportPreview::sigma_problem`]).
+    missing_sigma: Option<String>,
 }
 
-/// An import refused because the decimal marks break the one-convention rule: the
-/// message of isochore-data (line and column) and what is needed to read the source
-/// again with a stated mark.
+/// What a refused import asks the chemist to settle.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum QuestionKind {
+    /// The decimal marks break the one-convention rule: which mark does the file use?
+    DecimalMark,
+    /// No data set has enough rows inside 1–10 000 K: are such temperatures meant?
+    ExtremeTemperatures,
+}
+
+/// An import refused for a reason the chemist can settle (the decimal mark, or extreme
+/// temperatures): the message of isochore-data (line and column) and what is needed to
+/// read the source again.
 #[derive(Debug, Clone)]
-pub struct DecimalQuestion {
+pub struct ImportQuestion {
+    /// What is asked.
+    pub kind: QuestionKind,
     /// File name or "pasted text".
     pub source: String,
     /// The file, when it is one.
@@ -49,11 +63,13 @@ pub struct DecimalQuestion {
     pub text: Option<String>,
     /// isochore-data's message, naming the line and column.
     pub message: String,
-    /// Whether extreme temperatures were confirmed for this reading.
+    /// The decimal mark of the refused reading.
+    pub decimal: DecimalMark,
+    /// Whether extreme temperatures were confirmed for the refused reading.
     pub allow_extreme_temperatures: bool,
 }
 
-impl DecimalQuestion {
+impl ImportQuestion {
     /// Reads the source again with the decimal mark stated.
     ///
     /// # Errors
@@ -67,13 +83,28 @@ impl DecimalQuestion {
             self.allow_extreme_temperatures,
         )
     }
+
+    /// Reads the source again with temperatures outside 1–10 000 K confirmed.
+    ///
+    /// # Errors
+    /// As [`import_path`].
+    pub fn confirm_extreme(&self) -> Result<ImportPreview, ImportFailure> {
+        preview(
+            &self.source,
+            self.path.as_deref(),
+            self.text.as_deref(),
+            self.decimal,
+            true,
+        )
+    }
 }
 
 /// Why a source could not be previewed.
 #[derive(Debug, Clone)]
 pub enum ImportFailure {
-    /// Mixed or ambiguous decimal marks: the chemist can state the convention.
-    Decimal(Box<DecimalQuestion>),
+    /// Mixed or ambiguous decimal marks, or only extreme temperatures: the chemist can
+    /// state the convention or confirm the temperatures.
+    Question(Box<ImportQuestion>),
     /// Any other refusal, in words (file, line and column named).
     Message(String),
 }
@@ -82,7 +113,7 @@ impl ImportFailure {
     /// The message, in words.
     pub fn message(&self) -> &str {
         match self {
-            ImportFailure::Decimal(q) => &q.message,
+            ImportFailure::Question(q) => &q.message,
             ImportFailure::Message(m) => m,
         }
     }
@@ -128,6 +159,7 @@ impl ImportPreview {
         )
         .map_err(|e| e.to_string())?;
         self.mapping = import.mapping.clone();
+        self.missing_sigma = import.check_sigma().err().map(|e| e.to_string());
         self.import = import;
         Ok(())
     }
@@ -135,11 +167,11 @@ impl ImportPreview {
     /// The empty-σ rule of isochore-data for a weighted fit: σ in some rows and an empty
     /// σ cell in another is refused, naming the line and column. `None` when the data
     /// sets will be fitted unweighted or every σ is given (or none is).
-    pub fn sigma_problem(&self) -> Option<String> {
+    pub fn sigma_problem(&self) -> Option<&str> {
         if self.unweighted {
             return None;
         }
-        self.import.check_sigma().err().map(|e| e.to_string())
+        self.missing_sigma.as_deref()
     }
 
     /// The series this import adds to a project. A data set with no uncertainties (no σ
@@ -201,6 +233,7 @@ pub fn preview(
     };
     match read(source, path, text, &opts) {
         Ok(import) => Ok(ImportPreview {
+            missing_sigma: import.check_sigma().err().map(|e| e.to_string()),
             source: source.to_string(),
             path: path.map(Path::to_path_buf),
             text: text.map(str::to_string),
@@ -210,16 +243,35 @@ pub fn preview(
             allow_extreme_temperatures,
             unweighted: false,
         }),
-        Err(e @ isochore_data::Error::DecimalMark { .. }) => {
-            Err(ImportFailure::Decimal(Box::new(DecimalQuestion {
-                source: source.to_string(),
-                path: path.map(Path::to_path_buf),
-                text: text.map(str::to_string),
-                message: e.to_string(),
-                allow_extreme_temperatures,
-            })))
+        Err(e) => {
+            let kind = match &e {
+                isochore_data::Error::DecimalMark { .. } => Some(QuestionKind::DecimalMark),
+                isochore_data::Error::TooFewPoints { rejected, .. }
+                    if !allow_extreme_temperatures
+                        && rejected.iter().any(|r| {
+                            matches!(
+                                r.problem,
+                                isochore_data::RowProblem::ImplausibleTemperature { .. }
+                            )
+                        }) =>
+                {
+                    Some(QuestionKind::ExtremeTemperatures)
+                }
+                _ => None,
+            };
+            Err(match kind {
+                Some(kind) => ImportFailure::Question(Box::new(ImportQuestion {
+                    kind,
+                    source: source.to_string(),
+                    path: path.map(Path::to_path_buf),
+                    text: text.map(str::to_string),
+                    message: e.to_string(),
+                    decimal,
+                    allow_extreme_temperatures,
+                })),
+                None => ImportFailure::Message(e.to_string()),
+            })
         }
-        Err(e) => Err(ImportFailure::Message(e.to_string())),
     }
 }
 

@@ -3,3 +3,4 @@
 mod export_guard;
 mod features;
 mod workbench;
+mod ways_out;

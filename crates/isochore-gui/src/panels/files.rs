@@ -5,7 +5,7 @@
 
 use crate::app::{Action, Cx};
 use crate::command::Command;
-use crate::io::{self, ImportPreview};
+use crate::io::{self, ImportFailure, ImportPreview, ImportQuestion, QuestionKind};
 use crate::panels::style;
 use egui::RichText;
 use std::path::PathBuf;
@@ -30,6 +30,9 @@ pub struct FilesPanel {
     pub path_text: String,
     /// The preview awaiting confirmation.
     pub preview: Option<ImportPreview>,
+    /// A source refused for its decimal marks or its extreme temperatures, waiting for
+    /// the chemist to state the mark or confirm the temperatures.
+    pub question: Option<ImportQuestion>,
     /// An error inside a dialog.
     pub error: Option<String>,
     /// The last export's result, in words.
@@ -65,10 +68,94 @@ impl FilesPanel {
         self.preview = Some(preview);
     }
 
+    /// Asks which decimal mark a refused source uses, or whether its extreme temperatures
+    /// are meant (isochore-data's message shown).
+    pub fn ask(&mut self, question: ImportQuestion) {
+        self.question = Some(question);
+    }
+
     /// Draws whichever dialog is open.
     pub fn windows(&mut self, ctx: &egui::Context, cx: &mut Cx<'_>) {
         self.path_window(ctx, cx);
+        self.question_window(ctx, cx);
         self.preview_window(ctx, cx);
+    }
+
+    fn question_window(&mut self, ctx: &egui::Context, cx: &mut Cx<'_>) {
+        let Some(q) = self.question.as_mut() else {
+            return;
+        };
+        let flag = style::flag_color(cx.dark);
+        let mut choice = None;
+        let mut confirm = false;
+        let mut cancel = false;
+        let title = match q.kind {
+            QuestionKind::DecimalMark => format!("Decimal mark of {}", q.source),
+            QuestionKind::ExtremeTemperatures => format!("Temperatures of {}", q.source),
+        };
+        egui::Window::new(title)
+            .collapsible(false)
+            .default_width(560.0)
+            .anchor(egui::Align2::CENTER_CENTER, [0.0, 0.0])
+            .show(ctx, |ui| {
+                ui.colored_label(flag, &q.message);
+                match q.kind {
+                    QuestionKind::DecimalMark => {
+                        ui.label(
+                            "A file uses one decimal convention throughout. Say which mark \
+                             this one uses, and it is read again; a cell written the other \
+                             way is then named.",
+                        );
+                    }
+                    QuestionKind::ExtremeTemperatures => {
+                        ui.label(
+                            "A temperature below 1 K or above 10 000 K is nearly always a \
+                             typing or unit mistake (37.0e300 °C, kelvin read as °C). Confirm \
+                             only when the data really lie there; the confirmation is kept \
+                             with each data set, and its refits accept them too.",
+                        );
+                    }
+                }
+                ui.horizontal(|ui| {
+                    match q.kind {
+                        QuestionKind::DecimalMark => {
+                            if ui.button("Read with decimal point (1.5)").clicked() {
+                                choice = Some(isochore_data::DecimalMark::Point);
+                            }
+                            if ui.button("Read with decimal comma (1,5)").clicked() {
+                                choice = Some(isochore_data::DecimalMark::Comma);
+                            }
+                        }
+                        QuestionKind::ExtremeTemperatures => {
+                            if ui
+                                .button("Confirm temperatures outside 1–10 000 K and read again")
+                                .clicked()
+                            {
+                                confirm = true;
+                            }
+                        }
+                    }
+                    if ui.button("Cancel").clicked() {
+                        cancel = true;
+                    }
+                });
+            });
+        let result = match choice {
+            Some(mark) => Some(q.retry(mark)),
+            None if confirm => Some(q.confirm_extreme()),
+            None => None,
+        };
+        match result {
+            Some(Ok(p)) => {
+                self.question = None;
+                self.error = None;
+                self.preview = Some(p);
+            }
+            Some(Err(ImportFailure::Question(again))) => *q = *again,
+            Some(Err(ImportFailure::Message(m))) => q.message = m,
+            None if cancel => self.question = None,
+            None => {}
+        }
     }
 
     fn path_window(&mut self, ctx: &egui::Context, cx: &mut Cx<'_>) {
@@ -180,6 +267,9 @@ impl FilesPanel {
                 for d in p.import.describe_mapping() {
                     ui.label(RichText::new(d).small());
                 }
+                if reading_choices(ui, p) {
+                    reimport = true;
+                }
                 ui.separator();
                 let n_series = p.import.series.len();
                 ui.label(format!(
@@ -224,6 +314,7 @@ impl FilesPanel {
                 if let Some(e) = &self.error {
                     ui.colored_label(flag, e);
                 }
+                weighting_choice(ui, p, flag);
                 ui.horizontal(|ui| {
                     let label = if problems.is_empty() {
                         "Add to project".to_string()
@@ -263,6 +354,68 @@ impl FilesPanel {
             self.preview = None;
             self.error = None;
         }
+    }
+}
+
+fn decimal_name(d: isochore_data::DecimalMark) -> &'static str {
+    match d {
+        isochore_data::DecimalMark::Auto => "as the file shows (one convention)",
+        isochore_data::DecimalMark::Point => "decimal point (1.5)",
+        isochore_data::DecimalMark::Comma => "decimal comma (1,5)",
+    }
+}
+
+/// The decimal mark and the confirmation of extreme temperatures, each said in words
+/// beside its control; returns true when the source must be read again.
+fn reading_choices(ui: &mut egui::Ui, p: &mut ImportPreview) -> bool {
+    use isochore_data::DecimalMark as D;
+    let before = (p.decimal, p.allow_extreme_temperatures);
+    ui.horizontal(|ui| {
+        ui.label("decimal mark");
+        let combo = egui::ComboBox::from_id_salt("map_decimal")
+            .selected_text(decimal_name(p.decimal))
+            .show_ui(ui, |ui| {
+                for d in [D::Auto, D::Point, D::Comma] {
+                    ui.selectable_value(&mut p.decimal, d, decimal_name(d));
+                }
+            });
+        combo.response.widget_info(|| {
+            egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "decimal mark")
+        });
+    });
+    ui.label(
+        RichText::new(
+            "One decimal convention per file: a cell that mixes marks, or a comma that could \
+             be a thousands separator, is refused with its line and column until the mark is stated.",
+        )
+        .small(),
+    );
+    ui.checkbox(
+        &mut p.allow_extreme_temperatures,
+        "accept temperatures below 1 K or above 10 000 K",
+    );
+    ui.label(
+        RichText::new(
+            "Such a temperature is nearly always a typing or unit mistake (37.0e300 °C, kelvin \
+             read as °C). Tick this only when the data really lie there; the confirmation is \
+             kept with the data set, and its refits accept them too.",
+        )
+        .small(),
+    );
+    (p.decimal, p.allow_extreme_temperatures) != before
+}
+
+/// The empty-σ rule: isochore-data's message (line and column) when a σ column has some
+/// empty cells, and the choice to fit unweighted (equal weights, every σ ignored).
+fn weighting_choice(ui: &mut egui::Ui, p: &mut ImportPreview, flag: egui::Color32) {
+    if let Some(m) = p.sigma_problem() {
+        ui.colored_label(flag, m.to_string());
+    }
+    if p.sigma_problem().is_some() || p.unweighted {
+        ui.checkbox(
+            &mut p.unweighted,
+            "fit unweighted (equal weights; every σ is ignored)",
+        );
     }
 }
 

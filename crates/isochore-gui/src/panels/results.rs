@@ -4,10 +4,12 @@
 //! comparison in words, and every warning beside the numbers it qualifies.
 
 use crate::app::Cx;
+use crate::command::Command;
+use crate::fitting::Remedy;
 use crate::panels::{settings::model_name, style};
 use egui::RichText;
 use egui_plot::{Line, Plot, PlotPoints, Points};
-use isochore_fit::{EnergyUnit, Estimate, VantHoffFit, WarningKind};
+use isochore_fit::{EnergyUnit, Estimate, VantHoffFit, WarningKind, Weighting};
 
 /// The results panel (no state of its own).
 #[derive(Debug, Default)]
@@ -50,6 +52,41 @@ impl ResultsPanel {
             Ok(f) => f,
             Err(e) => {
                 ui.colored_label(flag, format!("No fit: {e}"));
+                let (id, mut settings) = (s.id, s.data.settings);
+                let mut apply = false;
+                match a.remedy {
+                    Some(Remedy::FitUnweighted) => {
+                        ui.label(
+                            "Fitting unweighted gives every point the same weight and ignores \
+                             every σ; the intervals then come from the scatter.",
+                        );
+                        if ui.button("Fit unweighted").clicked() {
+                            settings.fit.weighting = Weighting::Unweighted;
+                            apply = true;
+                        }
+                    }
+                    Some(Remedy::ConfirmExtremeTemperatures) => {
+                        ui.label(
+                            "A temperature below 1 K or above 10 000 K (or such a θ) is nearly \
+                             always a typing or unit mistake. Confirm only when the data \
+                             really lie there; the setting is kept with the series.",
+                        );
+                        if ui
+                            .button("Confirm temperatures outside 1–10 000 K")
+                            .clicked()
+                        {
+                            settings.fit.allow_extreme_temperatures = true;
+                            apply = true;
+                        }
+                    }
+                    None => {}
+                }
+                if apply {
+                    cx.out.push(Command::SetSettings {
+                        series: id,
+                        settings,
+                    });
+                }
                 return;
             }
         };

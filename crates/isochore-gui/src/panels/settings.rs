@@ -106,6 +106,15 @@ impl SettingsPanel {
                 });
                 ui.end_row();
 
+                ui.label("Extreme temperatures").on_hover_text(
+                    "Temperatures (and θ) below 1 K or above 10 000 K are refused as a likely typing or unit mistake unless confirmed here",
+                );
+                ui.checkbox(
+                    &mut new.fit.allow_extreme_temperatures,
+                    "accept below 1 K or above 10 000 K",
+                );
+                ui.end_row();
+
                 ui.label("σ taken as").on_hover_text(
                     "Relative: the scatter sets the error bars. Absolute: the stated σ are true uncertainties.",
                 );
