@@ -222,7 +222,8 @@ fn load_csv(path: &Path, a: &FitOptionsArgs, with_cells: bool) -> Result<Vec<Job
     let opts = options(FitOptions::default(), a);
     if opts.weighting == Weighting::InverseVariance {
         // σ in some rows and an empty σ cell in another: refused with its line and column.
-        imp.check_sigma().map_err(|e| with_hint(&e))?;
+        imp.check_sigma()
+            .map_err(|e| named_by_path(&with_hint(&e), path))?;
     }
     let mut jobs = Vec::new();
     for s in &imp.series {

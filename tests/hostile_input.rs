@@ -87,6 +87,11 @@ fn theta_outside_the_range_is_named() {
         let err = refused(&["fit", &path, "--model", "cp", "--tref", theta]);
         assert!(err.contains("θ"), "{theta}: {err}");
         assert!(err.contains("plausible range"), "{theta}: {err}");
+        // The fit library says "confirm"; the command line names its flag.
+        assert!(
+            err.contains("--allow-extreme-temperatures"),
+            "{theta}: {err}"
+        );
         assert!(!err.contains("units") && !err.contains("distinct"), "{err}");
     }
 }
@@ -145,6 +150,10 @@ fn an_empty_sigma_cell_is_located_and_unweighted_fits_the_file() {
     );
     let err = refused(&["fit", &path]);
     assert!(err.contains("line 3, column 3 ('u(K)')"), "{err}");
+    assert!(
+        err.contains(&format!("{path}: line 3")),
+        "the path as given: {err}"
+    );
     assert!(err.contains("--unweighted"), "{err}");
     assert!(err.contains("fit unweighted"), "{err}");
     assert!(!err.contains("point 2"), "{err}");
