@@ -2,5 +2,5 @@
 
 mod export_guard;
 mod features;
-mod workbench;
 mod ways_out;
+mod workbench;
