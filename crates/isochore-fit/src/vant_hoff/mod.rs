@@ -1,0 +1,262 @@
+//! The van 't Hoff fit: estimates of (ΔH°, ΔS°[, ΔCp°]) with their covariance, fit
+//! statistics, per-point diagnostics, warnings in words, and the comparison of the
+//! linear and constant-ΔCp° models on the same points.
+//!
+//! [`fit`] is the pipeline, in this order: validate the input once ([`inputs`]), let an
+//! engine solve it ([`engines`]: the streaming path or the general solver), score it
+//! ([`statistics`]), assemble the result ([`result`]) with its per-point diagnostics, compare
+//! it with the other model ([`comparison`]) and write the cautions ([`warnings`]).
+//! Derived quantities (predictions, bands, the confidence ellipse, temperatures for a
+//! target K) are methods on [`VantHoffFit`] in [`crate::derived`].
+
+mod comparison;
+mod engines;
+mod inputs;
+mod result;
+mod statistics;
+mod warnings;
+
+pub use comparison::{compare_models, format_p, ModelComparison};
+pub use result::{Estimate, Parameter, ParameterName, ThermoAt, VantHoffFit};
+pub use statistics::FitStatistics;
+pub use warnings::{Warning, WarningKind, FEW_DOF, STRONG_CORRELATION};
+
+pub(crate) use engines::Solved;
+#[cfg(test)]
+pub(crate) use inputs::design;
+
+use crate::error::Error;
+use crate::measurement::Measurement;
+use crate::model::{is_plausible_temperature, FitOptions, Model, SigmaConvention};
+use crate::stats::{normal_quantile, t_quantile};
+use comparison::comparison_from;
+use engines::Engine;
+use inputs::check_inputs;
+use statistics::statistics;
+
+/// Fits a van 't Hoff model by weighted least squares and computes every diagnostic.
+///
+/// # Formula
+/// ```text
+/// ln Kᵢ = xᵢ(Tᵢ)·β + εᵢ,   Var εᵢ = s² σᵢ²  (scaled)  or  σᵢ² (absolute)
+/// Cov β̂ = s² (XᵀWX)⁻¹ with s² = χ²/(n − p)  (scaled),   (XᵀWX)⁻¹  (absolute)
+/// ```
+/// where xᵢ is [`crate::Model::row`], W = diag(1/σᵢ²) (identity when unweighted), χ² = Σ wᵢ eᵢ².
+/// Intervals: β̂ⱼ ± t_{(1+level)/2, n−p} SEⱼ (scaled) or ± z_{(1+level)/2} SEⱼ (absolute).
+///
+/// Excluded points (`included == false`) take no part in the estimates but are returned
+/// with a predicted value and a prediction-standardised residual.
+///
+/// # Errors
+/// Any invalid point or option ([`Error::NonFinite`], [`Error::NonPositiveTemperature`],
+/// [`Error::NonPositiveSigma`], [`Error::InvalidLevel`], …); [`Error::MissingSigma`] for a
+/// weighted fit with a used point lacking σ; [`Error::TooFewPoints`] when fewer than p + 1
+/// points are used (p under absolute σ); [`Error::SingleTemperature`]; [`Error::RankDeficient`];
+/// [`Error::NoSolution`] when the numbers overflow (absurd units or reference temperature).
+///
+/// # Examples
+/// ```
+/// use isochore_fit::{fit, FitOptions, Measurement, Weighting, GAS_CONSTANT};
+/// // Exact data with ΔH° = 40 kJ/mol, ΔS° = 100 J/(mol K).
+/// let pts: Vec<Measurement> = [280.0, 290.0, 300.0, 310.0]
+///     .iter()
+///     .map(|&t| Measurement::new(t, -40e3 / (GAS_CONSTANT * t) + 100.0 / GAS_CONSTANT))
+///     .collect();
+/// let opts = FitOptions { weighting: Weighting::Unweighted, ..FitOptions::default() };
+/// let f = fit(&pts, &opts).unwrap();
+/// assert!((f.delta_h().value - 40e3).abs() < 1e-6);
+/// ```
+pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, Error> {
+    fit_with(points, options, true)
+}
+
+/// [`fit`], with the streaming path allowed or not (tests compare the two).
+pub(crate) fn fit_with(
+    points: &[Measurement],
+    options: &FitOptions,
+    allow_streaming: bool,
+) -> Result<VantHoffFit, Error> {
+    let model = options.model;
+    // Well-behaved data take the streaming path (one QR for both models, no n×p matrix);
+    // everything else, errors included, the general one.
+    // The rules of identifiability and plausibility hold on both paths (one pass, which
+    // stops counting temperatures once enough are found).
+    check_inputs(points, options, model)?;
+    let engine = Engine::run(points, options, allow_streaming)?;
+    let (lin, weighted, sums) = engine.solution(options);
+    let lin = lin.as_ref();
+    let p = lin.p;
+    let dof = lin.dof();
+    let stats = statistics(lin.rss, p, &sums, options.convention);
+
+    let absolute = options.convention == SigmaConvention::Absolute && weighted;
+    let s2 = stats.reduced_chi2;
+    let variance_scale = if absolute { 1.0 } else { s2 };
+    let critical_value = if absolute {
+        normal_quantile(0.5 + options.level / 2.0)
+    } else {
+        t_quantile(0.5 + options.level / 2.0, dof as f64)
+    };
+    let cov = &lin.unscaled_covariance * variance_scale;
+    let covariance: Vec<Vec<f64>> = (0..p)
+        .map(|a| (0..p).map(|b| cov[(a, b)]).collect())
+        .collect();
+    let names = [
+        ParameterName::DeltaH,
+        ParameterName::DeltaS,
+        ParameterName::DeltaCp,
+    ];
+    let params: Vec<Parameter> = (0..p)
+        .map(|j| Parameter {
+            name: names[j],
+            estimate: Estimate::symmetric(lin.coefficients[j], cov[(j, j)].sqrt(), critical_value),
+        })
+        .collect();
+    // The scale s² cancels in a correlation; taking it from (XᵀWX)⁻¹ keeps it defined
+    // when the data are exact (s² = 0).
+    let uc = &lin.unscaled_covariance;
+    let corr_h_s = uc[(0, 1)] / (uc[(0, 0)] * uc[(1, 1)]).sqrt();
+
+    // Temperature range and weighted harmonic mean.
+    let (t_min_k, t_max_k, sum_w, sum_w_inv_t) = engine.temperatures(points);
+    let t_harmonic_k = sum_w / sum_w_inv_t;
+
+    // New-observation variance: s² × (typical σ² = n/Σw) weighted, s² unweighted.
+    let typical_sigma2 = if weighted { lin.n as f64 / sum_w } else { 1.0 };
+    let new_observation_variance = variance_scale * typical_sigma2;
+
+    let (points_diag, summary) = engine.diagnose(
+        points,
+        options,
+        lin,
+        &cov,
+        s2,
+        variance_scale,
+        weighted,
+        sum_w,
+    );
+    if let Some((index, t_k)) = summary.first_bad {
+        // An ordinary temperature that cannot be evaluated points at the design, not at the
+        // temperature.
+        if is_plausible_temperature(t_k) {
+            return Err(Error::IllConditioned { index, kelvin: t_k });
+        }
+        return Err(Error::NoSolution(format!(
+            "point {}: the model cannot be evaluated at {} K (far outside the plausible range {} to {} K); correct or remove the point",
+            index + 1,
+            crate::error::short(t_k),
+            crate::model::MIN_PLAUSIBLE_K,
+            crate::model::MAX_PLAUSIBLE_K
+        )));
+    }
+
+    let mut out = VantHoffFit {
+        options: *options,
+        n_used: lin.n,
+        n_total: points.len(),
+        dof,
+        weighted,
+        params,
+        covariance,
+        corr_h_s,
+        stats,
+        critical_value,
+        new_observation_variance,
+        variance_scale,
+        t_min_k,
+        t_max_k,
+        t_harmonic_k,
+        at_reference: ThermoAt::placeholder(options.t_ref_k),
+        at_harmonic: ThermoAt::placeholder(t_harmonic_k),
+        t_at_k1: None,
+        points: points_diag,
+        comparison: None,
+        warnings: Vec::new(),
+    };
+    out.at_reference = out.thermo_at(options.t_ref_k);
+    out.at_harmonic = out.thermo_at(t_harmonic_k);
+    if !out.all_estimates_finite() {
+        return Err(Error::NoSolution(
+            "the numbers are too large or too small to compute with; check the units (temperatures in kelvin, ln K rather than K, σ of ln K) and the reference temperature".into(),
+        ));
+    }
+    out.t_at_k1 = out.temperature_for_k(1.0).ok();
+    // The comparison needs only the other model's χ² on the same points and weights.
+    out.comparison = if lin.n >= 4 {
+        let other = match model {
+            Model::Linear => Model::ConstantCp,
+            Model::ConstantCp => Model::Linear,
+        };
+        match engine.chi2_other(points, options, other, lin.n) {
+            Ok(chi2_other) => {
+                let (chi2_lin, chi2_cp) = match model {
+                    Model::Linear => (lin.rss, chi2_other),
+                    Model::ConstantCp => (chi2_other, lin.rss),
+                };
+                Some(comparison_from(
+                    chi2_lin,
+                    chi2_cp,
+                    &sums,
+                    options.convention,
+                ))
+            }
+            Err(_) => None,
+        }
+    } else {
+        None
+    };
+
+    out.warnings = warnings::cautions(&out, summary.flagged, summary.leverage_one);
+    Ok(out)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::GAS_CONSTANT;
+
+    fn exact(dh: f64, ds: f64, temps: &[f64]) -> Vec<Measurement> {
+        temps
+            .iter()
+            .map(|&t| {
+                Measurement::new(t, -dh / (GAS_CONSTANT * t) + ds / GAS_CONSTANT).with_sigma(0.05)
+            })
+            .collect()
+    }
+
+    #[test]
+    fn too_few_and_single_temperature() {
+        let opts = FitOptions::default();
+        let pts = exact(1e4, 10.0, &[290.0, 300.0]);
+        assert!(matches!(fit(&pts, &opts), Err(Error::TooFewPoints { .. })));
+        let pts = exact(1e4, 10.0, &[300.0, 300.0, 300.0, 300.0]);
+        assert_eq!(fit(&pts, &opts).unwrap_err(), Error::SingleTemperature);
+        let mut pts = exact(1e4, 10.0, &[290.0, 300.0, 310.0]);
+        pts[1].sigma_ln_k = None;
+        assert_eq!(
+            fit(&pts, &opts).unwrap_err(),
+            Error::MissingSigma { index: 1 }
+        );
+    }
+
+    #[test]
+    fn cp_model_recovers_curved_exact_data() {
+        // Exact ΔCp° data: ΔH°(θ) = −20 kJ/mol, ΔS°(θ) = −30 J/(mol K), ΔCp° = −800 J/(mol K).
+        let theta = 298.15;
+        let temps = [278.0, 283.0, 288.0, 293.0, 298.0, 303.0, 308.0, 313.0];
+        let pts: Vec<Measurement> = temps
+            .iter()
+            .map(|&t| {
+                let x = Model::ConstantCp.row(t, theta);
+                Measurement::new(t, x[0] * -20e3 + x[1] * -30.0 + x[2] * -800.0).with_sigma(0.02)
+            })
+            .collect();
+        let opts = FitOptions {
+            model: Model::ConstantCp,
+            ..FitOptions::default()
+        };
+        let f = fit(&pts, &opts).unwrap();
+        assert!((f.delta_h().value + 20e3).abs() < 1e-6 * 20e3);
+        assert!((f.delta_cp().unwrap().value + 800.0).abs() < 1e-6 * 800.0);
+    }
+}

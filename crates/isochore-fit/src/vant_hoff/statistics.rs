@@ -1,0 +1,118 @@
+//! Goodness-of-fit numbers shared by every model: χ², the reduced χ² and residual SD, the
+//! weighted R² and adjusted R², the Gaussian log-likelihood with AICc and BIC, and under
+//! absolute σ the χ² tail probability. [`WeightSums`] holds the sums over the used points
+//! that a model's statistics need besides its χ², so the model comparison can score the
+//! other model on the same points without refitting anything else.
+
+use crate::model::SigmaConvention;
+use crate::stats::chi2_upper_tail;
+use serde::{Deserialize, Serialize};
+
+/// Goodness-of-fit numbers.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct FitStatistics {
+    /// χ² = Σ wᵢ eᵢ² (the plain residual sum of squares when unweighted).
+    pub chi2: f64,
+    /// χ² / (n − p).
+    pub reduced_chi2: f64,
+    /// Residual standard deviation √(χ²/(n − p)): in ln K units when unweighted, in units of
+    /// σ when weighted.
+    pub residual_sd: f64,
+    /// Weighted coefficient of determination 1 − χ²/Σ wᵢ (yᵢ − ȳ_w)².
+    pub r2: f64,
+    /// Adjusted R² = 1 − (1 − R²)(n − 1)/(n − p).
+    pub adj_r2: f64,
+    /// Gaussian log-likelihood with the variance estimated (k = p + 1 parameters).
+    pub log_likelihood: f64,
+    /// Small-sample Akaike criterion; `None` when n − k − 1 ≤ 0.
+    pub aicc: Option<f64>,
+    /// Bayesian (Schwarz) criterion.
+    pub bic: f64,
+    /// Under the absolute-σ convention, P(χ²_{n−p} ≥ χ²): a tiny value says the stated
+    /// uncertainties are too small for the scatter. `None` otherwise.
+    pub chi2_p_value: Option<f64>,
+}
+
+/// Sums over the used points that every model's statistics share.
+pub(crate) struct WeightSums {
+    /// Used points.
+    pub(crate) n: usize,
+    /// Whether weights 1/σ² were applied.
+    pub(crate) weighted: bool,
+    /// Σ wᵢ (yᵢ − ȳ_w)².
+    pub(crate) tss: f64,
+    /// Σ ln wᵢ.
+    pub(crate) sum_ln_w: f64,
+}
+
+impl WeightSums {
+    pub(crate) fn new(weights: Option<&[f64]>, y: &[f64]) -> Self {
+        let (sum_w, sum_wy, sum_ln_w) = match weights {
+            Some(w) => w.iter().zip(y).fold((0.0, 0.0, 0.0), |(a, b, c), (w, y)| {
+                (a + w, b + w * y, c + w.ln())
+            }),
+            None => (y.len() as f64, y.iter().sum(), 0.0),
+        };
+        let mean = sum_wy / sum_w;
+        let tss = match weights {
+            Some(w) => w.iter().zip(y).map(|(w, y)| w * (y - mean).powi(2)).sum(),
+            None => y.iter().map(|y| (y - mean).powi(2)).sum(),
+        };
+        WeightSums {
+            n: y.len(),
+            weighted: weights.is_some(),
+            tss,
+            sum_ln_w,
+        }
+    }
+}
+
+/// Fit statistics for a model with `p` coefficients and weighted residual sum of squares
+/// `chi2` on the used points summarised by `sums`.
+pub(crate) fn statistics(
+    chi2: f64,
+    p: usize,
+    sums: &WeightSums,
+    convention: SigmaConvention,
+) -> FitStatistics {
+    let n = sums.n as f64;
+    let dof = n - p as f64;
+    let p = p as f64;
+    let tss = sums.tss;
+    let sum_ln_w = sums.sum_ln_w;
+    let reduced = chi2 / dof;
+    let r2 = if tss > 0.0 {
+        1.0 - chi2 / tss
+    } else {
+        f64::NAN
+    };
+    let adj_r2 = 1.0 - (1.0 - r2) * (n - 1.0) / dof;
+    // Gaussian likelihood, σᵢ² = σ²/wᵢ with σ² estimated by RSS/n (floored so exact data
+    // give a large finite value rather than infinity).
+    let sigma2 = (chi2 / n).max(f64::MIN_POSITIVE);
+    let log_likelihood =
+        -0.5 * n * ((2.0 * std::f64::consts::PI * sigma2).ln() + 1.0) + 0.5 * sum_ln_w;
+    let k = p + 1.0;
+    let aic = 2.0 * k - 2.0 * log_likelihood;
+    let aicc = if n - k - 1.0 > 0.0 {
+        Some(aic + 2.0 * k * (k + 1.0) / (n - k - 1.0))
+    } else {
+        None
+    };
+    let bic = k * n.ln() - 2.0 * log_likelihood;
+    let chi2_p_value = match (convention, sums.weighted) {
+        (SigmaConvention::Absolute, true) if dof > 0.0 => chi2_upper_tail(chi2, dof),
+        _ => None,
+    };
+    FitStatistics {
+        chi2,
+        reduced_chi2: reduced,
+        residual_sd: reduced.sqrt(),
+        r2,
+        adj_r2,
+        log_likelihood,
+        aicc,
+        bic,
+        chi2_p_value,
+    }
+}
