@@ -62,7 +62,7 @@ fn frames(c: &mut Criterion) {
             events,
             ..Default::default()
         };
-        let out = ctx.run(input, |ctx| bench.frame(ctx, t));
+        let out = ctx.run_ui(input, |ui| bench.frame(ui, t));
         let prims = ctx.tessellate(out.shapes, out.pixels_per_point);
         std::hint::black_box(prims);
     };

@@ -493,9 +493,11 @@ impl Workbench {
         self.now
     }
 
-    /// One frame: the close button, the whole UI, then the queued edits (and the window
+    /// One frame, drawn into `root` (the root [`egui::Ui`] that eframe or a test harness
+    /// hands over): the close button, the whole UI, then the queued edits (and the window
     /// is closed when the close question was answered). `now` is the clock in seconds.
-    pub fn frame(&mut self, ctx: &Context, now: f64) {
+    pub fn frame(&mut self, root: &mut egui::Ui, now: f64) {
+        let ctx = &root.ctx().clone();
         self.now = now;
         ctx.set_theme(if self.prefs.dark {
             egui::Theme::Dark
@@ -508,7 +510,7 @@ impl Workbench {
             .update(&self.project.series, self.now, self.block_fits);
         self.shortcuts(ctx);
         self.files_input(ctx);
-        self.ui(ctx);
+        self.ui(root);
         self.links.hovered = self.links.next_hover.take();
         self.apply_pending();
         self.autosave_tick();
@@ -534,7 +536,7 @@ impl Workbench {
     }
 
     fn shortcuts(&mut self, ctx: &Context) {
-        let text_focus = ctx.wants_keyboard_input();
+        let text_focus = ctx.egui_wants_keyboard_input();
         let (redo, undo, save_as, save, open) = ctx.input_mut(|i| {
             let redo = !text_focus
                 && (i.consume_shortcut(&KeyboardShortcut::new(
@@ -568,13 +570,13 @@ impl Workbench {
 
     /// Dropped files and pasted text.
     fn files_input(&mut self, ctx: &Context) {
-        let text_focus = ctx.wants_keyboard_input();
+        let text_focus = ctx.egui_wants_keyboard_input();
         let (dropped, pasted) = ctx.input(|i| {
             let dropped: Vec<PathBuf> = i
                 .raw
                 .dropped_files
                 .iter()
-                .filter_map(|f| f.path.clone())
+                .map(|f| f.path().to_path_buf())
                 .collect();
             let pasted = if text_focus {
                 None
@@ -594,7 +596,8 @@ impl Workbench {
         }
     }
 
-    fn ui(&mut self, ctx: &Context) {
+    fn ui(&mut self, root: &mut egui::Ui) {
+        let ctx = &root.ctx().clone();
         let mut out = Vec::new();
         let mut actions = Vec::new();
         let dark = self.prefs.dark;
@@ -611,32 +614,32 @@ impl Workbench {
             stamp,
         };
         crate::panels::menu::menu_bar(
-            ctx,
+            root,
             &mut cx,
             &mut self.prefs,
             &self.history,
             &mut self.files,
         );
         crate::panels::status::status_bar(
-            ctx,
+            root,
             &mut cx,
             &self.history,
             &mut self.messages,
             &self.recovery,
         );
-        egui::SidePanel::left("series_and_settings")
+        egui::Panel::left("series_and_settings")
             .resizable(true)
-            .default_width(250.0)
-            .show(ctx, |ui| {
+            .default_size(250.0)
+            .show(root, |ui| {
                 egui::ScrollArea::vertical().show(ui, |ui| {
                     self.settings.ui(ui, &mut cx);
                 });
             });
         if self.prefs.show_results {
-            egui::SidePanel::right("results")
+            egui::Panel::right("results")
                 .resizable(true)
-                .default_width(380.0)
-                .show(ctx, |ui| {
+                .default_size(380.0)
+                .show(root, |ui| {
                     egui::ScrollArea::vertical().show(ui, |ui| {
                         self.results.ui(ui, &mut cx);
                         ui.separator();
@@ -645,14 +648,14 @@ impl Workbench {
                 });
         }
         if self.prefs.show_table {
-            egui::TopBottomPanel::bottom("measurements")
+            egui::Panel::bottom("measurements")
                 .resizable(true)
-                .default_height(260.0)
-                .show(ctx, |ui| {
+                .default_size(260.0)
+                .show(root, |ui| {
                     self.table.ui(ui, &mut cx);
                 });
         }
-        egui::CentralPanel::default().show(ctx, |ui| {
+        egui::CentralPanel::default().show(root, |ui| {
             let h = ui.available_height();
             if self.prefs.show_diagnostics {
                 let top = (h * 0.62).max(150.0);

@@ -31,14 +31,14 @@ struct WindowApp {
 }
 
 impl eframe::App for WindowApp {
-    fn update(&mut self, ctx: &egui::Context, _frame: &mut eframe::Frame) {
+    fn ui(&mut self, ui: &mut egui::Ui, _frame: &mut eframe::Frame) {
         // The frame also answers the window's close button (the close question).
         let now = self.start.elapsed().as_secs_f64();
-        self.bench.frame(ctx, now);
+        self.bench.frame(ui, now);
         // eframe writes preferences and layout at the end of a frame once the save interval
         // has passed; an idle window draws no frames, so wake it once per interval, or a
         // change made just before a crash would be lost.
-        ctx.request_repaint_after(
+        ui.ctx().request_repaint_after(
             eframe::App::auto_save_interval(self) + std::time::Duration::from_secs(1),
         );
     }

@@ -846,10 +846,9 @@ fn a_project_from_a_newer_version_is_refused_and_left_untouched() {
     assert_eq!(h.state().project, before);
     assert!(!h.state().history.dirty());
     // Dropped on the window: refused the same way.
-    h.input_mut().dropped_files.push(egui::DroppedFile {
-        path: Some(path.clone()),
-        ..Default::default()
-    });
+    h.input_mut()
+        .dropped_files
+        .push(crate::workbench::dropped(path.clone()));
     h.run_steps(3);
     assert_eq!(h.state().messages.len(), 2);
     assert_eq!(h.state().project, before);

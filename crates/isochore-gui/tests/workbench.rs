@@ -25,15 +25,37 @@ pub(crate) fn bench() -> Workbench {
 }
 
 pub(crate) fn harness(w: Workbench) -> Harness<'static, Workbench> {
-    let mut h = Harness::builder().with_size([1600.0, 1300.0]).build_state(
-        |ctx, w: &mut Workbench| {
-            let t = ctx.input(|i| i.time);
-            w.frame(ctx, t);
-        },
-        w,
-    );
+    let mut h = Harness::builder()
+        .with_size([1600.0, 1300.0])
+        .build_ui_state(
+            |ui, w: &mut Workbench| {
+                let t = ui.input(|i| i.time);
+                w.frame(ui, t);
+            },
+            w,
+        );
     h.run_steps(3);
     h
+}
+
+/// A file dropped on the window, as egui-winit hands it over (egui-winit's own type for
+/// this is private): a path, read from disk when asked.
+#[derive(Debug)]
+pub(crate) struct DroppedPath(pub(crate) PathBuf);
+
+impl egui::DroppedFile for DroppedPath {
+    fn path(&self) -> &std::path::Path {
+        &self.0
+    }
+
+    fn bytes(&self) -> Result<Vec<u8>, String> {
+        std::fs::read(&self.0).map_err(|e| e.to_string())
+    }
+}
+
+/// What egui-winit puts into the frame's raw input when `path` is dropped on the window.
+pub(crate) fn dropped(path: PathBuf) -> egui::DroppedFileHandle {
+    std::sync::Arc::new(DroppedPath(path))
 }
 
 pub(crate) fn temp_dir(tag: &str) -> PathBuf {
@@ -243,7 +265,10 @@ fn saving_and_reopening_keeps_exclusions_and_reasons() {
         .click();
     h.run_steps(3);
     // Give the reason in the table's reason cell.
-    h.get_by_label("(add a reason)").click();
+    // The reason column runs on past the table's visible edge (the table scrolls
+    // sideways), so the placeholder is clicked on its visible left end, not its centre.
+    let r = h.get_by_label("(add a reason)").rect();
+    click_at(&mut h, egui::pos2(r.left() + 8.0, r.center().y));
     h.run_steps(2);
     h.get_by_label(&format!("edit row {}", OUTLIER_ROW + 1))
         .type_text("baseline drift");
@@ -448,7 +473,9 @@ fn pasting_a_table_imports_it_after_the_preview() {
     h.input_mut()
         .events
         .push(egui::Event::Paste(PASTED.to_string()));
-    h.run_steps(2);
+    // The paste is read in the first frame; the preview window's first frame is a sizing
+    // pass that egui 0.37 leaves out of the accessibility tree, so it shows in the third.
+    h.run_steps(3);
     // The preview names the source and the recognised rows before anything is added.
     assert!(h.query_by_label_contains("pasted text").is_some());
     assert!(h.query_by_label_contains("6 rows read").is_some());
@@ -479,11 +506,9 @@ fn a_file_dropped_on_the_window_is_imported() {
     let n_before = w.project.series.len();
     let mut h = harness(w);
     // What egui-winit hands the frame when a file is dropped on the window.
-    h.input_mut().dropped_files.push(egui::DroppedFile {
-        path: Some(path.clone()),
-        ..Default::default()
-    });
-    h.run_steps(2);
+    h.input_mut().dropped_files.push(dropped(path.clone()));
+    // As for a paste: the preview window is in the accessibility tree from the third frame.
+    h.run_steps(3);
     assert!(h.query_by_label_contains("dropped.csv").is_some());
     let id = accept_import(&mut h, n_before);
     let w = h.state();
@@ -495,10 +520,7 @@ fn a_file_dropped_on_the_window_is_imported() {
     let before = h.state().project.clone();
     let junk = dir.join("notes.csv");
     std::fs::write(&junk, "just some words\nand more words\n").unwrap();
-    h.input_mut().dropped_files.push(egui::DroppedFile {
-        path: Some(junk),
-        ..Default::default()
-    });
+    h.input_mut().dropped_files.push(dropped(junk));
     h.run_steps(3);
     let said = format!(
         "{:?} {:?}",

@@ -187,7 +187,7 @@ impl FilesPanel {
                             .hint_text("/path/to/file")
                             .desired_width(360.0),
                     );
-                    r.widget_info(|| egui::WidgetInfo::labeled(egui::WidgetType::TextEdit, true, "path"));
+                    r.widget_info(|| egui::WidgetInfo::labeled(egui::Role::TextInput, true, "path"));
                     if std::mem::take(&mut self.focus_path) {
                         r.request_focus();
                     }
@@ -379,9 +379,9 @@ fn reading_choices(ui: &mut egui::Ui, p: &mut ImportPreview) -> bool {
                     ui.selectable_value(&mut p.decimal, d, decimal_name(d));
                 }
             });
-        combo.response.widget_info(|| {
-            egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "decimal mark")
-        });
+        combo
+            .response
+            .widget_info(|| egui::WidgetInfo::labeled(egui::Role::ComboBox, true, "decimal mark"));
     });
     ui.label(
         RichText::new(
@@ -442,7 +442,7 @@ fn mapping_editor(ui: &mut egui::Ui, p: &mut ImportPreview) -> bool {
                     }
                 });
             combo.response.widget_info(|| {
-                egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "temperature column")
+                egui::WidgetInfo::labeled(egui::Role::ComboBox, true, "temperature column")
             });
             let combo = egui::ComboBox::from_id_salt("map_tu")
                 .selected_text(m.temperature.unit.symbol())
@@ -452,7 +452,7 @@ fn mapping_editor(ui: &mut egui::Ui, p: &mut ImportPreview) -> bool {
                     }
                 });
             combo.response.widget_info(|| {
-                egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "temperature scale")
+                egui::WidgetInfo::labeled(egui::Role::ComboBox, true, "temperature scale")
             });
             ui.end_row();
             ui.label("measured value");
@@ -464,7 +464,7 @@ fn mapping_editor(ui: &mut egui::Ui, p: &mut ImportPreview) -> bool {
                     }
                 });
             combo.response.widget_info(|| {
-                egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "value column")
+                egui::WidgetInfo::labeled(egui::Role::ComboBox, true, "value column")
             });
             let combo = egui::ComboBox::from_id_salt("map_kind")
                 .selected_text(m.quantity.kind.label())
@@ -486,7 +486,7 @@ fn mapping_editor(ui: &mut egui::Ui, p: &mut ImportPreview) -> bool {
                     }
                 });
             combo.response.widget_info(|| {
-                egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "value kind")
+                egui::WidgetInfo::labeled(egui::Role::ComboBox, true, "value kind")
             });
             ui.end_row();
             ui.label("uncertainty");
@@ -500,7 +500,7 @@ fn mapping_editor(ui: &mut egui::Ui, p: &mut ImportPreview) -> bool {
                     }
                 });
             combo.response.widget_info(|| {
-                egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "uncertainty column")
+                egui::WidgetInfo::labeled(egui::Role::ComboBox, true, "uncertainty column")
             });
             let mut relative = matches!(
                 m.uncertainty.map(|u| u.kind),

@@ -3,17 +3,17 @@
 use crate::app::{Action, Cx, Prefs};
 use crate::command::History;
 use crate::panels::files::FilesPanel;
-use egui::Context;
+use egui::Ui;
 
 /// Draws the menu bar.
 pub fn menu_bar(
-    ctx: &Context,
+    root: &mut Ui,
     cx: &mut Cx<'_>,
     prefs: &mut Prefs,
     history: &History,
     files: &mut FilesPanel,
 ) {
-    egui::TopBottomPanel::top("menu").show(ctx, |ui| {
+    egui::Panel::top("menu").show(root, |ui| {
         egui::MenuBar::new().ui(ui, |ui| {
             ui.menu_button("File", |ui| {
                 if ui.button("New project").clicked() {

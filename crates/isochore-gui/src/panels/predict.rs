@@ -73,8 +73,9 @@ impl PredictPanel {
         let a = cx.fitter.get(s.id);
         let fit = a.as_ref().and_then(|a| a.fit.as_ref().ok());
         ui.horizontal(|ui| {
-            ui.label("at T =");
-            ui.add(egui::TextEdit::singleline(&mut self.t_text).desired_width(60.0));
+            let name = ui.label("at T =");
+            ui.add(egui::TextEdit::singleline(&mut self.t_text).desired_width(60.0))
+                .labelled_by(name.id);
             ui.label(tu.symbol());
         });
         if let Some(fit) = fit {
@@ -126,7 +127,7 @@ impl PredictPanel {
                         .desired_width(70.0),
                 );
                 r.widget_info(|| {
-                    egui::WidgetInfo::labeled(egui::WidgetType::TextEdit, true, "target K")
+                    egui::WidgetInfo::labeled(egui::Role::TextInput, true, "target K")
                 });
             });
             // Nothing is shown until a target is typed.
@@ -175,11 +176,12 @@ impl PredictPanel {
                 ui.end_row();
                 for (k, name) in ["pair 1", "pair 2"].iter().enumerate() {
                     ui.label(*name);
-                    for j in 0..3 {
+                    for (j, column) in ["T", "K", "σ(ln K)"].iter().enumerate() {
                         ui.add(
                             egui::TextEdit::singleline(&mut self.two_point[3 * k + j])
                                 .desired_width(64.0),
-                        );
+                        )
+                        .accessible_name(format!("{name} {column}"));
                     }
                     ui.end_row();
                 }

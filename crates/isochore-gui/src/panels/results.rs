@@ -132,7 +132,7 @@ impl ResultsPanel {
                     let v = ui.label(RichText::new(value.clone()).monospace());
                     v.widget_info(|| {
                         egui::WidgetInfo::labeled(
-                            egui::WidgetType::Label,
+                            egui::Role::Label,
                             true,
                             format!("{name} = {value}"),
                         )

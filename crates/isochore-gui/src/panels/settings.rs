@@ -29,7 +29,7 @@ impl SettingsPanel {
                 let r = ui.checkbox(&mut shown, "");
                 let label = format!("show series {}", s.name());
                 r.widget_info(|| {
-                    egui::WidgetInfo::selected(egui::WidgetType::Checkbox, true, shown, &label)
+                    egui::WidgetInfo::selected(egui::Role::CheckBox, true, shown, &label)
                 });
                 if r.changed() {
                     cx.out.push(Command::SetShown {
@@ -74,7 +74,7 @@ impl SettingsPanel {
                         }
                     });
                 combo.response.widget_info(|| {
-                    egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "model")
+                    egui::WidgetInfo::labeled(egui::Role::ComboBox, true, "model")
                 });
                 ui.end_row();
 
@@ -102,7 +102,7 @@ impl SettingsPanel {
                         }
                     });
                 combo.response.widget_info(|| {
-                    egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "weighting")
+                    egui::WidgetInfo::labeled(egui::Role::ComboBox, true, "weighting")
                 });
                 ui.end_row();
 
@@ -126,7 +126,7 @@ impl SettingsPanel {
                         }
                     });
                 combo.response.widget_info(|| {
-                    egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "σ convention")
+                    egui::WidgetInfo::labeled(egui::Role::ComboBox, true, "σ convention")
                 });
                 ui.end_row();
 
@@ -139,7 +139,7 @@ impl SettingsPanel {
                         }
                     });
                 combo.response.widget_info(|| {
-                    egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "energy unit")
+                    egui::WidgetInfo::labeled(egui::Role::ComboBox, true, "energy unit")
                 });
                 ui.end_row();
 
@@ -152,7 +152,7 @@ impl SettingsPanel {
                         }
                     });
                 combo.response.widget_info(|| {
-                    egui::WidgetInfo::labeled(egui::WidgetType::ComboBox, true, "temperature unit")
+                    egui::WidgetInfo::labeled(egui::Role::ComboBox, true, "temperature unit")
                 });
                 ui.end_row();
             });
@@ -222,7 +222,7 @@ impl SettingsPanel {
             let buf = self.buffers.entry(key).or_insert_with(|| shown.clone());
             let resp = ui.add(egui::TextEdit::singleline(buf).desired_width(70.0));
             // Named for screen readers and tests; the grid's label cell is not linked to it.
-            resp.widget_info(|| egui::WidgetInfo::labeled(egui::WidgetType::TextEdit, true, label));
+            resp.widget_info(|| egui::WidgetInfo::labeled(egui::Role::TextInput, true, label));
             if resp.lost_focus() {
                 match buf.trim().replace(',', ".").parse::<f64>() {
                     Ok(v) if v.is_finite() => {

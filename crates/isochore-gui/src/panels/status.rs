@@ -3,17 +3,17 @@
 
 use crate::app::{Action, Cx, Recovery};
 use crate::command::History;
-use egui::Context;
+use egui::{Context, Ui};
 
 /// Draws the status bar with messages and fits in progress.
 pub fn status_bar(
-    ctx: &Context,
+    root: &mut Ui,
     cx: &mut Cx<'_>,
     history: &History,
     messages: &mut Vec<String>,
     recovery: &Option<Recovery>,
 ) {
-    egui::TopBottomPanel::bottom("status").show(ctx, |ui| {
+    egui::Panel::bottom("status").show(root, |ui| {
         if let Some(r) = recovery {
             ui.horizontal_wrapped(|ui| {
                 ui.colored_label(
@@ -75,7 +75,7 @@ pub fn close_dialog(ctx: &Context, cx: &mut Cx<'_>, open: &mut bool) {
     if !*open {
         return;
     }
-    let modal = egui::Modal::new(egui::Id::new("close_question")).show(ctx, |ui| {
+    let modal = egui::Modal::new(egui::Id::unique("close_question")).show(ctx, |ui| {
         ui.heading("Unsaved changes");
         ui.label("This project has changes that are not saved.");
         ui.horizontal(|ui| {

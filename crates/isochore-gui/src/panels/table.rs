@@ -163,12 +163,7 @@ impl TablePanel {
                         let r = ui.checkbox(&mut inc, "");
                         let label = format!("include row {}", i + 1);
                         r.widget_info(|| {
-                            egui::WidgetInfo::selected(
-                                egui::WidgetType::Checkbox,
-                                true,
-                                inc,
-                                &label,
-                            )
+                            egui::WidgetInfo::selected(egui::Role::CheckBox, true, inc, &label)
                         });
                         if r.changed() {
                             cx.out.push(Command::SetExclusion {
@@ -281,9 +276,7 @@ impl TablePanel {
             };
             let resp = ui.add(egui::TextEdit::singleline(&mut e.text).desired_width(f32::INFINITY));
             let label = format!("edit row {}", row + 1);
-            resp.widget_info(|| {
-                egui::WidgetInfo::labeled(egui::WidgetType::TextEdit, true, &label)
-            });
+            resp.widget_info(|| egui::WidgetInfo::labeled(egui::Role::TextInput, true, &label));
             if !e.focused {
                 resp.request_focus();
                 e.focused = true;

@@ -239,7 +239,7 @@ impl PlotPanel {
                         .desired_width(300.0),
                 );
                 r.widget_info(|| {
-                    egui::WidgetInfo::labeled(egui::WidgetType::TextEdit, true, "exclusion reason")
+                    egui::WidgetInfo::labeled(egui::Role::TextInput, true, "exclusion reason")
                 });
                 if r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter)) {
                     save = true;
