@@ -4,6 +4,7 @@
 //! Weighted diagnostics are the ordinary ones of the √w-scaled problem (√w·y on √w·X).
 //! Excluded points get a predicted value and a prediction-standardised residual instead.
 
+use crate::least_squares::LinearFit;
 use crate::measurement::Measurement;
 use crate::model::FitOptions;
 use crate::vant_hoff::Solved;
@@ -138,23 +139,23 @@ pub(crate) struct PointContext {
 }
 
 impl PointContext {
-    /// The context of a fit with `n` used points, coefficients `beta`, covariance `cov`
-    /// (scaled) and `unscaled_cov`, s², the covariance multiplier, and `typical_w` = Σw/n,
-    /// the weight given to a point without σ (1 unweighted).
-    #[allow(clippy::too_many_arguments)]
+    /// The context of the solved fit `lin` (its used points, coefficients and unscaled
+    /// covariance) with covariance `cov` (scaled), s², the covariance multiplier, and
+    /// `typical_w` = Σw/n, the weight given to a point without σ (1 unweighted). Both engines
+    /// build their diagnostics on it.
     pub(crate) fn new(
-        n: usize,
-        beta: &[f64],
+        lin: &LinearFit,
         cov: &DMatrix<f64>,
-        unscaled_cov: &DMatrix<f64>,
         s2: f64,
         variance_scale: f64,
         weighted: bool,
         typical_w: f64,
         th: crate::model::FlagThresholds,
     ) -> Self {
+        let beta = &lin.coefficients;
+        let unscaled_cov = &lin.unscaled_covariance;
         let p = beta.len();
-        let n = n as f64;
+        let n = lin.n as f64;
         let dof = n - p as f64;
         let mut c = [[0.0; 3]; 3];
         let mut u = [[0.0; 3]; 3];
@@ -327,10 +328,8 @@ pub(crate) fn diagnose_points(
         .as_ref()
         .map_or(1.0, |w| w.iter().sum::<f64>() / n);
     let ctx = PointContext::new(
-        lin.n,
-        &lin.coefficients,
+        lin,
         cov,
-        &lin.unscaled_covariance,
         s2,
         variance_scale,
         solved.weights.is_some(),

@@ -15,11 +15,14 @@
 //! same first-order error bound asks for it, the solution is refined with residuals
 //! `b − Aβ` evaluated in twice the working precision and corrections from the triangular
 //! factor (`RᵀR δ = Aᵀs`, the corrected semi-normal equations, which converge like
-//! ε·κ²); designs too ill-conditioned for that (κ > ~10⁶), non-finite or extreme numbers,
-//! rank deficiency and every input error return `None`, and the caller takes the general
-//! path of [`crate::least_squares::solve`], which reports errors and handles the hard cases.
+//! ε·κ²); designs too ill-conditioned for that (κ > ~10⁶), non-finite or extreme numbers
+//! and rank deficiency return `None`, and the caller takes the general path of
+//! [`crate::least_squares::solve`], which reports errors and handles the hard cases. Input
+//! errors never reach this path: the one validation both paths share
+//! ([`crate::vant_hoff::check_inputs`]) reports them first. The refinement settings (error
+//! bound, threshold, step limit, power-of-two scaling) are those of `least_squares`.
 //!
-//! Passes over the data: one to read, validate and factorise; one per refinement step
+//! Passes over the data: one to read and factorise; one per refinement step
 //! (usually none or one, both models together); one for the residual sums of squares of
 //! both models; one to write the per-point diagnostics.
 
@@ -27,19 +30,16 @@
 #![allow(clippy::needless_range_loop)]
 
 use crate::diagnostics::{diagnose_one, DiagnosticsSummary, Flags, PointContext, PointDiagnostics};
-use crate::least_squares::{rank_tolerance, split, two_prod_split, two_sum};
+use crate::least_squares::{
+    first_order_bound, power_of_two_near, rank_tolerance, refinement_needed, split, two_prod_split,
+    two_sum, MAX_REFINEMENT_STEPS,
+};
 use crate::measurement::Measurement;
-use crate::model::{FitOptions, Model, SigmaConvention, Weighting};
+use crate::model::{FitOptions, Model, Weighting};
 use nalgebra::DMatrix;
 
 /// Rows absorbed into the triangle per block (the block stays in the L1 cache).
 const BLOCK: usize = 128;
-
-/// Relative error bound above which the solution is refined (as in `least_squares`).
-const REFINE_ABOVE: f64 = 1e-13;
-
-/// Most refinement steps (as in `least_squares`).
-const MAX_REFINEMENT_STEPS: usize = 6;
 
 /// Above this estimate of the contraction factor c·ε·κ² of semi-normal refinement the
 /// general path is taken instead.
@@ -114,15 +114,6 @@ fn dot(a: &[f64], b: &[f64]) -> f64 {
         t += x * y;
     }
     t
-}
-
-/// The power of two nearest to a positive finite `v`.
-fn power_of_two_near(v: f64) -> Option<f64> {
-    if !(v.is_finite() && v > 0.0) {
-        return None;
-    }
-    let d = 2f64.powi(v.log2().round().clamp(-1000.0, 1000.0) as i32);
-    (d.is_finite() && d > 0.0).then_some(d)
 }
 
 /// Σ ln wᵢ of positive normal numbers without a logarithm per term: the binary exponents
@@ -243,13 +234,8 @@ impl Sub {
             .map(|j| (beta[j] * scale[j]).powi(2))
             .sum::<f64>()
             .sqrt();
-        let rel_resid = if x_norm > 0.0 {
-            res_norm / (r_f * x_norm)
-        } else {
-            f64::INFINITY
-        };
         let c = 10.0 * p as f64 * f64::EPSILON;
-        let bound = c * kappa * (1.0 + kappa * rel_resid);
+        let bound = first_order_bound(kappa, r_f, x_norm, res_norm, p);
         let all_finite = beta
             .iter()
             .chain(r_inv.iter().flatten())
@@ -257,7 +243,7 @@ impl Sub {
         if !all_finite || !kappa.is_finite() {
             return None;
         }
-        let refine = bound.is_nan() || bound > REFINE_ABOVE;
+        let refine = refinement_needed(bound);
         if refine && c * kappa * kappa > CSNE_LIMIT {
             return None;
         }
@@ -347,8 +333,12 @@ impl FastFit {
     }
 
     /// Tries the streaming path; `None` sends the caller to the general path.
+    ///
+    /// The points and options must have passed [`crate::vant_hoff::check_inputs`], the one
+    /// validation both paths share (valid values and options, enough used points and
+    /// distinct temperatures, a σ with a normal weight on every used point of a weighted
+    /// fit); this path repeats none of it.
     pub(crate) fn try_new(points: &[Measurement], options: &FitOptions) -> Option<FastFit> {
-        options.validate().ok()?;
         let weighted = options.weighting == Weighting::InverseVariance;
         let theta = options.t_ref_k;
         let mut rows = Vec::with_capacity(points.len());
@@ -361,17 +351,13 @@ impl FastFit {
         let mut log_w = LogSum::default();
         let mut t_min = f64::INFINITY;
         let mut t_max = f64::NEG_INFINITY;
-        for (i, pt) in points.iter().enumerate() {
-            pt.validate(i).ok()?;
+        for pt in points {
             if !pt.included {
                 continue;
             }
             let (w, sw) = if weighted {
                 let s = pt.sigma_ln_k?;
                 let w = 1.0 / (s * s);
-                if !w.is_normal() {
-                    return None;
-                }
                 (w, w.sqrt())
             } else {
                 (1.0, 1.0)
@@ -413,14 +399,6 @@ impl FastFit {
         let n = rows.len();
         let sum_ln_w = log_w.total();
         let p = options.model.n_params();
-        let needed = if !weighted || options.convention == SigmaConvention::ScaledByFit {
-            p + 1
-        } else {
-            p
-        };
-        if n < needed || t_min >= t_max {
-            return None;
-        }
         // Keep to numbers whose squares and sums of squares are safely representable;
         // anything else goes the general way (which scales before squaring).
         for j in 0..4 {
@@ -782,6 +760,7 @@ fn residual_passes(rows: &[Row], tracks: &mut [Track], scale: &[f64; 3], mean: f
 mod tests {
     use super::*;
     use crate::least_squares::{solve, weighted_rss};
+    use crate::model::SigmaConvention;
     use crate::vant_hoff::design;
 
     /// Curved, noisy, unequally weighted data with one excluded point (invented).
@@ -953,11 +932,17 @@ mod tests {
             ..opts
         };
         assert!(crate::fit(&two, &absolute).unwrap().comparison.is_none());
-        // A missing σ and a bad level are reported by the general path.
+        // A missing σ and a bad level are reported by the one validation before either path.
         let mut missing = pts.clone();
         missing[5].sigma_ln_k = None;
-        assert!(FastFit::try_new(&missing, &opts).is_none());
+        assert_eq!(
+            crate::fit(&missing, &opts).unwrap_err(),
+            crate::Error::MissingSigma { index: 5 }
+        );
         let bad = FitOptions { level: 2.0, ..opts };
-        assert!(FastFit::try_new(&pts, &bad).is_none());
+        assert_eq!(
+            crate::fit(&pts, &bad).unwrap_err(),
+            crate::Error::InvalidLevel(2.0)
+        );
     }
 }

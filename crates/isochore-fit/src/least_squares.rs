@@ -60,22 +60,21 @@ impl LinearFit {
     }
 }
 
+// Refinement settings, shared with the streaming path of `fit` (`crate::fast`): the
+// column scaling, the error bound, when to refine and for how long.
+
 /// Most refinement steps taken; each gains roughly −log10(ε·κ) digits, so a few suffice
 /// whenever refinement can help at all.
-const MAX_REFINEMENT_STEPS: usize = 6;
+pub(crate) const MAX_REFINEMENT_STEPS: usize = 6;
 
-/// The power of two nearest to a positive finite `v` (1 for anything else).
-fn power_of_two_near(v: f64) -> f64 {
+/// The power of two nearest to a positive finite `v`; `None` for anything else (the
+/// general solver then scales by 1, the streaming path gives way to it).
+pub(crate) fn power_of_two_near(v: f64) -> Option<f64> {
     if !(v.is_finite() && v > 0.0) {
-        return 1.0;
+        return None;
     }
-    let e = v.log2().round().clamp(-1000.0, 1000.0) as i32;
-    let d = 2f64.powi(e);
-    if d.is_finite() && d > 0.0 {
-        d
-    } else {
-        1.0
-    }
+    let d = 2f64.powi(v.log2().round().clamp(-1000.0, 1000.0) as i32);
+    (d.is_finite() && d > 0.0).then_some(d)
 }
 
 /// Error-free sum: a + b = s + e exactly (Knuth's TwoSum).
@@ -128,7 +127,24 @@ fn dot2(start: f64, x: &[f64], c: &[f64]) -> f64 {
 }
 
 /// Relative error bound above which the solution is refined (see [`qr_error_bound`]).
-const REFINE_ABOVE: f64 = 1e-13;
+pub(crate) const REFINE_ABOVE: f64 = 1e-13;
+
+/// Whether a solution with first-order error bound `bound` is refined: above
+/// [`REFINE_ABOVE`], or when the bound is not a number.
+pub(crate) fn refinement_needed(bound: f64) -> bool {
+    bound.is_nan() || bound > REFINE_ABOVE
+}
+
+/// The first-order relative error bound `c·ε·κ·(1 + κ‖r‖/(‖R‖_F‖x‖))` with c = 10·p, from
+/// κ = ‖R‖_F‖R⁻¹‖_F, ‖R‖_F, ‖x‖ and the residual norm ‖r‖ (NaN passes through).
+pub(crate) fn first_order_bound(kappa: f64, r_f: f64, x_norm: f64, r_norm: f64, p: usize) -> f64 {
+    let rel_resid = if x_norm > 0.0 {
+        r_norm / (r_f * x_norm)
+    } else {
+        f64::INFINITY
+    };
+    10.0 * p as f64 * f64::EPSILON * kappa * (1.0 + kappa * rel_resid)
+}
 
 /// First-order bound on the relative error of the Householder-QR least-squares solution:
 /// `c·ε·κ·(1 + κ‖r‖/(‖R‖‖x‖))`, with κ = ‖R‖_F‖R⁻¹‖_F and c = 10·p for the constants the
@@ -140,12 +156,7 @@ fn qr_error_bound(r: &DMatrix<f64>, x_norm: f64, r_norm: f64, p: usize) -> f64 {
         None => return f64::INFINITY,
     };
     let kappa = r_f * inv_f;
-    let rel_resid = if x_norm > 0.0 {
-        r_norm / (r_f * x_norm)
-    } else {
-        f64::INFINITY
-    };
-    let bound = 10.0 * p as f64 * f64::EPSILON * kappa * (1.0 + kappa * rel_resid);
+    let bound = first_order_bound(kappa, r_f, x_norm, r_norm, p);
     if bound.is_nan() {
         f64::INFINITY
     } else {
@@ -217,7 +228,7 @@ fn refined_solution(
     // are right: well-conditioned fits (most van 't Hoff data) skip the extra passes.
     let r_norm = res.iter().map(|v| v * v).sum::<f64>().sqrt();
     let bound = qr_error_bound(r, x.norm(), r_norm, p);
-    if bound <= REFINE_ABOVE {
+    if !refinement_needed(bound) {
         return Some((x, res));
     }
     let mut f = vec![0.0; n];
@@ -407,7 +418,7 @@ fn solve_impl(
                 .map(|(v, s)| (v * s / big).powi(2))
                 .sum::<f64>()
                 .sqrt();
-        *d = power_of_two_near(norm);
+        *d = power_of_two_near(norm).unwrap_or(1.0);
     }
     let inv_scale: Vec<f64> = scale.iter().map(|d| 1.0 / d).collect();
     let xs = Scaled {

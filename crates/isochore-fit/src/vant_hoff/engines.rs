@@ -140,10 +140,8 @@ impl Engine {
         match self {
             Engine::Fast(f) => {
                 let ctx = PointContext::new(
-                    lin.n,
-                    &lin.coefficients,
+                    lin,
                     cov,
-                    &lin.unscaled_covariance,
                     s2,
                     variance_scale,
                     weighted,

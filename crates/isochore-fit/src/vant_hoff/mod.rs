@@ -2,10 +2,10 @@
 //! statistics, per-point diagnostics, warnings in words, and the comparison of the
 //! linear and constant-ΔCp° models on the same points.
 //!
-//! [`fit`] is the pipeline, in this order: validate the input once ([`inputs`]), let an
-//! engine solve it ([`engines`]: the streaming path or the general solver), score it
-//! ([`statistics`]), assemble the result ([`result`]) with its per-point diagnostics, compare
-//! it with the other model ([`comparison`]) and write the cautions ([`warnings`]).
+//! [`fit`] is the pipeline, in this order: validate the input once (`inputs`), let an
+//! engine solve it (`engines`: the streaming path or the general solver), score it
+//! (`statistics`), assemble the result (`result`) with its per-point diagnostics, compare
+//! it with the other model (`comparison`) and write the cautions (`warnings`).
 //! Derived quantities (predictions, bands, the confidence ellipse, temperatures for a
 //! target K) are methods on [`VantHoffFit`] in [`crate::derived`].
 
@@ -31,7 +31,7 @@ use crate::model::{is_plausible_temperature, FitOptions, Model, SigmaConvention}
 use crate::stats::{normal_quantile, t_quantile};
 use comparison::comparison_from;
 use engines::Engine;
-use inputs::check_inputs;
+pub(crate) use inputs::check_inputs;
 use statistics::statistics;
 
 /// Fits a van 't Hoff model by weighted least squares and computes every diagnostic.
