@@ -116,6 +116,14 @@ impl Model {
         }
     }
 
+    /// Writes the design row x(T) such that ln K(T) = x(T)·β into `out`, whose length must
+    /// be [`Model::n_params`]; extra entries are left alone.
+    pub fn row_into(self, t_k: f64, t_ref_k: f64, out: &mut [f64]) {
+        let row = self.row(t_k, t_ref_k);
+        let n = self.n_params().min(out.len());
+        out[..n].copy_from_slice(&row[..n]);
+    }
+
     /// The design row x(T) such that ln K(T) = x(T)·β, with β = (ΔH°, ΔS°[, ΔCp°]).
     /// Only the first [`Model::n_params`] entries are meaningful.
     pub fn row(self, t_k: f64, t_ref_k: f64) -> [f64; 3] {
