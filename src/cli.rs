@@ -28,13 +28,16 @@ pub enum Command {
     TwoPoint(TwoPointArgs),
 }
 
-/// The van 't Hoff model.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
-pub enum ModelArg {
-    /// ΔH° and ΔS° constant.
-    Linear,
-    /// ΔCp° constant.
-    Cp,
+/// The parser of `--model`: the command-line names of the shipped models (`linear`, `cp`,
+/// `clarke-glew`), listed from the fit crate so that a new model needs no change here.
+fn model_parser() -> impl clap::builder::TypedValueParser<Value = isochore_fit::Model> {
+    let names: Vec<clap::builder::PossibleValue> = isochore_fit::Model::all()
+        .iter()
+        .map(|m| clap::builder::PossibleValue::new(m.cli_name()).help(m.describe()))
+        .collect();
+    clap::builder::PossibleValuesParser::new(names).try_map(|name: String| {
+        isochore_fit::Model::from_key(&name).ok_or_else(|| format!("unknown model \"{name}\""))
+    })
 }
 
 /// Energy unit for readable output and reports (JSON is always SI).
@@ -86,9 +89,10 @@ impl TempArg {
 /// Options shared by `fit` and `predict`: how to read the files and how to fit.
 #[derive(Debug, Clone, Args)]
 pub struct FitOptionsArgs {
-    /// Model: linear (constant ΔH°) or cp (constant ΔCp°). Default: the project's, else linear.
-    #[arg(long, value_enum)]
-    pub model: Option<ModelArg>,
+    /// Model: linear (constant ΔH°), cp (constant ΔCp°) or clarke-glew (ΔCp° linear in T).
+    /// Default: the project's, else linear.
+    #[arg(long, value_parser = model_parser())]
+    pub model: Option<isochore_fit::Model>,
     /// Reference temperature θ of the ΔCp° model, in kelvin (default 298.15).
     #[arg(long, value_name = "KELVIN", value_parser = parse_positive)]
     pub tref: Option<f64>,

@@ -139,7 +139,7 @@ pub fn write_fit(
     field(w, &mut first, "dof", &json!(fit.dof))?;
     let mut params = serde_json::Map::new();
     for p in &fit.params {
-        let key = p.name.key();
+        let key = p.key();
         params.insert(key.to_string(), n.estimate(key, &p.estimate));
     }
     field(w, &mut first, "params", &serde_json::Value::Object(params))?;

@@ -2,7 +2,7 @@
 //! strict unless `--skip-bad-rows`) or a project file (its series, exclusions and settings),
 //! one job per data set, with the command-line options laid over the file's settings.
 
-use crate::cli::{FitOptionsArgs, ModelArg};
+use crate::cli::FitOptionsArgs;
 use isochore_data::{Import, ImportOptions, Project};
 use isochore_fit::{
     EnergyUnit, FitOptions, Measurement, Model, SigmaConvention, TemperatureUnit, Weighting,
@@ -71,10 +71,7 @@ fn is_project(path: &Path) -> bool {
 fn options(base: FitOptions, a: &FitOptionsArgs) -> FitOptions {
     let mut o = base;
     if let Some(m) = a.model {
-        o.model = match m {
-            ModelArg::Linear => Model::Linear,
-            ModelArg::Cp => Model::ConstantCp,
-        };
+        o.model = m;
     }
     if let Some(t) = a.tref {
         o.t_ref_k = t;

@@ -120,7 +120,7 @@ fn fit_json_matches_the_library_for_each_demo() {
             &path,
             &[],
             FitOptions {
-                model: isochore_fit::Model::ConstantCp,
+                model: isochore_fit::Model::CONSTANT_CP,
                 ..FitOptions::default()
             },
         );

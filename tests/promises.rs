@@ -290,7 +290,7 @@ fn demo_project(dir: &Path) -> (PathBuf, Project) {
     project.series[0]
         .exclude(7, "baseline drift during titration", "2026-12-02T10:00:00Z")
         .unwrap();
-    project.series[1].settings.fit.model = Model::ConstantCp;
+    project.series[1].settings.fit.model = Model::CONSTANT_CP;
     project.series[1].settings.fit.level = 0.9;
     let path = dir.join("demo.isochore.json");
     project.save_atomic(&path).unwrap();
@@ -712,7 +712,7 @@ fn cp_model_temperature_for_a_target_k_with_its_standard_error() {
         &path,
         &[],
         FitOptions {
-            model: Model::ConstantCp,
+            model: Model::CONSTANT_CP,
             ..FitOptions::default()
         },
     );
@@ -802,7 +802,7 @@ fn cp_model_says_no_root_when_k_is_out_of_reach() {
         &s(&p),
         &[],
         FitOptions {
-            model: Model::ConstantCp,
+            model: Model::CONSTANT_CP,
             ..FitOptions::default()
         },
     );
@@ -906,9 +906,9 @@ fn text_table_numbers_match_the_library() {
             TemperatureUnit::Celsius
         };
         for (model, energy) in [
-            (Model::Linear, EnergyUnit::KilojoulePerMole),
-            (Model::ConstantCp, EnergyUnit::KilojoulePerMole),
-            (Model::Linear, EnergyUnit::KilocaloriePerMole),
+            (Model::LINEAR, EnergyUnit::KilojoulePerMole),
+            (Model::CONSTANT_CP, EnergyUnit::KilojoulePerMole),
+            (Model::LINEAR, EnergyUnit::KilocaloriePerMole),
         ] {
             let lib = library_fit(
                 &path,
@@ -919,7 +919,7 @@ fn text_table_numbers_match_the_library() {
                 },
             );
             let mut args = vec!["fit", path.as_str()];
-            if model == Model::ConstantCp {
+            if model == Model::CONSTANT_CP {
                 args.extend(["--model", "cp"]);
             }
             // 1 kJ = 1000 J; 1 kcal (thermochemical) = 4184 J exactly (NIST SP 811, B.8).

@@ -206,7 +206,7 @@ fn settings() -> impl Strategy<Value = SeriesSettings> {
         .prop_map(
             |(cp, t_ref, w, c, level, (a, b, d), avg, tol)| SeriesSettings {
                 fit: FitOptions {
-                    model: if cp { Model::ConstantCp } else { Model::Linear },
+                    model: if cp { Model::CONSTANT_CP } else { Model::LINEAR },
                     t_ref_k: t_ref,
                     weighting: if w {
                         Weighting::Unweighted

@@ -40,7 +40,7 @@ fn data(n: usize, seed: u64) -> Vec<Measurement> {
     (0..n)
         .map(|i| {
             let t = 278.15 + 60.0 * (i as f64 + rng.uniform()) / n as f64;
-            let x = Model::ConstantCp.row(t, 298.15);
+            let x = Model::CONSTANT_CP.row(t, 298.15);
             let sigma = 0.02 + 0.06 * rng.uniform();
             let ln_k = x[0] * -45e3 + x[1] * -60.0 + x[2] * -600.0 + sigma * rng.normal();
             Measurement::new(t, ln_k).with_sigma(sigma)
@@ -56,7 +56,7 @@ fn analysis(points: &[Measurement], options: &FitOptions) -> usize {
 
 fn bench_fit(c: &mut Criterion) {
     let _ = GAS_CONSTANT;
-    for model in [Model::Linear, Model::ConstantCp] {
+    for model in [Model::LINEAR, Model::CONSTANT_CP] {
         let mut group = c.benchmark_group(format!("fit+diagnostics+bands/{}", model.key()));
         for &n in &[10usize, 1_000, 1_000_000] {
             if n >= 1_000_000 {

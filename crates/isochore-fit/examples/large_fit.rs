@@ -16,8 +16,8 @@ fn main() {
         .and_then(|a| a.parse().ok())
         .unwrap_or(1_000_000);
     let model = match args.next().as_deref() {
-        Some("cp") => Model::ConstantCp,
-        _ => Model::Linear,
+        Some("cp") => Model::CONSTANT_CP,
+        _ => Model::LINEAR,
     };
     let repeats: usize = args.next().and_then(|a| a.parse().ok()).unwrap_or(1);
     // Deterministic pseudo-noise (an additive recurrence), no generator crate needed.
@@ -26,7 +26,7 @@ fn main() {
         .map(|i| {
             u = (u + 0.618_033_988_749_894_9) % 1.0;
             let t = 278.15 + 60.0 * (i as f64 + 0.5) / n as f64;
-            let x = Model::ConstantCp.row(t, 298.15);
+            let x = Model::CONSTANT_CP.row(t, 298.15);
             let sigma = 0.02 + 0.06 * u;
             let noise = sigma * (u - 0.5) * 3.0;
             Measurement::new(t, x[0] * -45e3 + x[1] * -60.0 + x[2] * -600.0 + noise)

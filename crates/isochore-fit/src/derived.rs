@@ -8,7 +8,7 @@
 //! derivative.
 
 use crate::error::Error;
-use crate::model::{check_level, Model, SigmaConvention};
+use crate::model::{check_level, SigmaConvention};
 use crate::stats::{chi2_quantile, f_quantile};
 use crate::vant_hoff::{Estimate, ThermoAt, VantHoffFit};
 use crate::GAS_CONSTANT;
@@ -114,33 +114,27 @@ impl VantHoffFit {
         Estimate::symmetric(value, self.quadratic_form(g).sqrt(), self.critical_value)
     }
 
-    fn gradients(&self, t_k: f64) -> ([f64; 3], [f64; 3], [f64; 3]) {
-        let theta = self.options.t_ref_k;
-        let cp = self.model() == Model::ConstantCp;
-        let dh = [1.0, 0.0, if cp { t_k - theta } else { 0.0 }];
-        let ds = [0.0, 1.0, if cp { (t_k / theta).ln() } else { 0.0 }];
-        let dg = [
-            1.0,
-            -t_k,
-            if cp {
-                (t_k - theta) - t_k * (t_k / theta).ln()
-            } else {
-                0.0
-            },
-        ];
-        (dh, ds, dg)
+    /// ΔH°(T) in J/mol, with delta-method SE: the model's ΔH° row c(T), value c·β, variance
+    /// cᵀΣc. For the constant-ΔCp° model ΔH°(T) = ΔH°(θ) + ΔCp°(T − θ); constant for the
+    /// linear model.
+    pub fn delta_h_at(&self, t_k: f64) -> Estimate {
+        let g = self.model().delta_h_row(t_k, self.options.t_ref_k);
+        self.linear_estimate(&g)
     }
 
-    /// ΔH°(T) = ΔH°(θ) + ΔCp°(T − θ), J/mol, with delta-method SE. Constant for the linear model.
-    pub fn delta_h_at(&self, t_k: f64) -> Estimate {
-        let (g, _, _) = self.gradients(t_k);
-        self.linear_estimate(&g[..self.n_params()])
+    /// ΔCp°(T) in J mol⁻¹ K⁻¹, with delta-method SE, for a model with a heat capacity.
+    pub fn delta_cp_at(&self, t_k: f64) -> Option<Estimate> {
+        let model = self.model();
+        model.has_heat_capacity().then(|| {
+            let g = model.delta_cp_row(t_k, self.options.t_ref_k);
+            self.linear_estimate(&g)
+        })
     }
 
     /// ΔS°(T) = ΔS°(θ) + ΔCp° ln(T/θ), J mol⁻¹ K⁻¹, with delta-method SE.
     pub fn delta_s_at(&self, t_k: f64) -> Estimate {
-        let (_, g, _) = self.gradients(t_k);
-        self.linear_estimate(&g[..self.n_params()])
+        let g = self.model().delta_s_row(t_k, self.options.t_ref_k);
+        self.linear_estimate(&g)
     }
 
     /// ΔG°(T) = ΔH°(T) − T ΔS°(T), J/mol, with delta-method SE from the full covariance.
@@ -151,8 +145,8 @@ impl VantHoffFit {
     /// Var = gᵀ Σ g,  g = (1, −T, (T − θ) − T ln(T/θ))
     /// ```
     pub fn delta_g(&self, t_k: f64) -> Estimate {
-        let (_, _, g) = self.gradients(t_k);
-        self.linear_estimate(&g[..self.n_params()])
+        let g = self.model().delta_g_row(t_k, self.options.t_ref_k);
+        self.linear_estimate(&g)
     }
 
     /// ΔH°, ΔS°, ΔG° (and ΔCp°) at temperature `t_k`.
@@ -162,7 +156,7 @@ impl VantHoffFit {
             delta_h: self.delta_h_at(t_k),
             delta_s: self.delta_s_at(t_k),
             delta_g: self.delta_g(t_k),
-            delta_cp: self.delta_cp(),
+            delta_cp: self.delta_cp_at(t_k),
         }
     }
 
@@ -176,7 +170,7 @@ impl VantHoffFit {
 
     fn ln_k_prediction(&self, t_k: f64) -> ValuePrediction {
         let row = self.model().row(t_k, self.options.t_ref_k);
-        let e = self.linear_estimate(&row[..self.n_params()]);
+        let e = self.linear_estimate(&row);
         let pred_se = (e.se * e.se + self.new_observation_variance).sqrt();
         let c = self.critical_value;
         ValuePrediction {
@@ -232,10 +226,10 @@ impl VantHoffFit {
         let extrapolated = self.is_extrapolation(t_k);
         let warning = extrapolated.then(|| {
             format!(
-                "{t_k:.2} K lies outside the measured range {:.2}–{:.2} K: this is an extrapolation, valid only if the model holds there{}",
+                "{t_k:.2} K lies outside the measured range {:.2}–{:.2} K: this is an extrapolation, valid only if the model holds there ({})",
                 self.t_min_k,
                 self.t_max_k,
-                if self.model() == Model::Linear { " (ΔCp° assumed zero)" } else { " (ΔCp° assumed constant)" }
+                self.model().assumption()
             )
         });
         Ok(Prediction {
@@ -347,9 +341,11 @@ impl VantHoffFit {
     /// ```text
     /// x(T*)·β̂ = ln K_target,   SE(T*) = √(x(T*)ᵀ Σ x(T*)) / |∂ln K/∂T|,  ∂ln K/∂T = ΔH°(T*)/(R T*²)
     /// ```
-    /// The linear model has one root, T* = ΔH°/(ΔS° − R ln K_target), given when positive.
-    /// The ΔCp° model is searched between a third of the lowest and three times the highest
-    /// measured temperature; the root nearest the harmonic-mean temperature is returned.
+    /// A model with a closed form ([`crate::ModelSpec::solve_ln_k`]; the linear model's one
+    /// root T* = ΔH°/(ΔS° − R ln K_target)) gives it when positive. Any other model is
+    /// searched between a third of the lowest and three times the highest measured
+    /// temperature, cut where ΔH°(T) changes sign; the root nearest the harmonic-mean
+    /// temperature is returned.
     ///
     /// # Errors
     /// [`Error::NonPositiveConstant`] for a target ≤ 0; [`Error::NoSolution`] when K never
@@ -369,37 +365,47 @@ impl VantHoffFit {
         }
         let target = k_target.ln();
         let theta = self.options.t_ref_k;
-        let p = self.n_params();
         let beta = self.coefficients();
         let g = |t: f64| -> f64 {
             let row = self.model().row(t, theta);
-            (0..p).map(|j| row[j] * beta[j]).sum::<f64>() - target
+            row.iter().zip(&beta).map(|(x, b)| x * b).sum::<f64>() - target
         };
         let none = || {
             Error::NoSolution(format!(
                 "K never reaches {k_target} at a positive temperature near the data for this fit"
             ))
         };
-        let t_star = match self.model() {
-            Model::Linear => {
-                let denom = beta[1] - GAS_CONSTANT * target;
-                let t = beta[0] / denom;
-                if !(t.is_finite() && t > 0.0) {
-                    return Err(none());
-                }
-                t
-            }
-            Model::ConstantCp => {
-                // d ln K/dT = ΔH°(T)/(RT²) and ΔH°(T) = ΔH°(θ) + ΔCp°(T − θ) is linear in T,
-                // so ln K(T) − ln K_target has at most one turning point, at
-                // T_turn = θ − ΔH°(θ)/ΔCp°: on each side it is monotone and has at most one
-                // root, found by bisection.
+        let model = self.model();
+        let t_star = match model.spec().solve_ln_k(&beta, theta, target) {
+            Some(closed) => closed.ok_or_else(none)?,
+            None => {
+                // d ln K/dT = ΔH°(T)/(RT²), so ln K(T) − ln K_target turns only where ΔH°(T)
+                // changes sign. The searched range is cut at those turning points (found on a
+                // fine grid and refined by bisection); on each piece the function is monotone
+                // and has at most one root, found by bisection.
                 let lo = self.t_min_k / 3.0;
                 let hi = self.t_max_k * 3.0;
+                let dh = |t: f64| -> f64 {
+                    let c = model.delta_h_row(t, theta);
+                    c.iter().zip(&beta).map(|(c, b)| c * b).sum()
+                };
                 let mut cuts = vec![lo];
-                let t_turn = theta - beta[0] / beta[2];
-                if t_turn.is_finite() && t_turn > lo && t_turn < hi {
-                    cuts.push(t_turn);
+                const GRID: usize = 512;
+                let mut prev = (lo, dh(lo));
+                for k in 1..=GRID {
+                    let t = lo + (hi - lo) * k as f64 / GRID as f64;
+                    let v = dh(t);
+                    if v.is_finite()
+                        && prev.1.is_finite()
+                        && v != 0.0
+                        && v.signum() != prev.1.signum()
+                    {
+                        let turn = bisect(&dh, prev.0, t);
+                        if turn > lo && turn < hi {
+                            cuts.push(turn);
+                        }
+                    }
+                    prev = (t, v);
                 }
                 cuts.push(hi);
                 let mut best: Option<f64> = None;
@@ -428,9 +434,9 @@ impl VantHoffFit {
                 best.ok_or_else(none)?
             }
         };
-        let row = self.model().row(t_star, theta);
+        let row = model.row(t_star, theta);
         let slope = self.delta_h_at(t_star).value / (GAS_CONSTANT * t_star * t_star);
-        let se = self.quadratic_form(&row[..p]).sqrt() / slope.abs();
+        let se = self.quadratic_form(&row).sqrt() / slope.abs();
         if !se.is_finite() {
             return Err(none());
         }

@@ -126,10 +126,10 @@ pub(crate) struct PointContext {
     /// 1/(n − p − 1).
     pub(crate) inv_dof_less_one: f64,
     pub(crate) variance_scale: f64,
-    /// Scaled and unscaled covariance, padded to 3×3.
-    pub(crate) cov: [[f64; 3]; 3],
-    pub(crate) unscaled_cov: [[f64; 3]; 3],
-    pub(crate) beta: [f64; 3],
+    /// Scaled and unscaled covariance, p×p row-major.
+    pub(crate) cov: Vec<f64>,
+    pub(crate) unscaled_cov: Vec<f64>,
+    pub(crate) beta: Vec<f64>,
     pub(crate) weighted: bool,
     /// 1/w of a point with no σ of its own: Σw/n of the used points inverted (1 unweighted).
     pub(crate) typical_inv_w: f64,
@@ -157,14 +157,13 @@ impl PointContext {
         let p = beta.len();
         let n = lin.n as f64;
         let dof = n - p as f64;
-        let mut c = [[0.0; 3]; 3];
-        let mut u = [[0.0; 3]; 3];
-        let mut b = [0.0; 3];
+        let mut c = vec![0.0; p * p];
+        let mut u = vec![0.0; p * p];
+        let b = beta.clone();
         for a in 0..p {
-            b[a] = beta[a];
             for k in 0..p {
-                c[a][k] = cov[(a, k)];
-                u[a][k] = unscaled_cov[(a, k)];
+                c[a * p + k] = cov[(a, k)];
+                u[a * p + k] = unscaled_cov[(a, k)];
             }
         }
         PointContext {
@@ -186,14 +185,14 @@ impl PointContext {
     }
 }
 
-/// xᵀ M x over the first p entries.
+/// xᵀ M x over the first p entries of x, M p×p row-major.
 #[inline]
-pub(crate) fn quadratic(m: &[[f64; 3]; 3], x: &[f64], p: usize) -> f64 {
+pub(crate) fn quadratic(m: &[f64], x: &[f64], p: usize) -> f64 {
     let mut q = 0.0;
     for a in 0..p {
         let mut r = 0.0;
         for b in 0..p {
-            r += m[a][b] * x[b];
+            r += m[a * p + b] * x[b];
         }
         q += x[a] * r;
     }
@@ -336,11 +335,12 @@ pub(crate) fn diagnose_points(
         typical_w,
         options.thresholds,
     );
+    let mut row = vec![0.0; lin.p];
     points
         .iter()
         .enumerate()
         .map(|(i, m)| {
-            let row = options.model.row(m.t_k, theta);
+            options.model.row_into(m.t_k, theta, &mut row);
             let r = position[i];
             let used = (r != usize::MAX).then(|| {
                 let sw = solved.weights.as_ref().map_or(1.0, |w| w[r].sqrt());

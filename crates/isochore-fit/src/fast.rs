@@ -302,6 +302,8 @@ pub(crate) struct FastFit {
     pub(crate) rss: f64,
     /// χ² of the other model on the same points, when there are at least 4.
     pub(crate) rss_other: Option<f64>,
+    /// Which model `rss_other` belongs to.
+    pub(crate) other_model: Option<Model>,
     /// Σw, Σw·y, Σ ln w over the used points.
     pub(crate) sum_w: f64,
     /// Σ ln w (0 unweighted).
@@ -339,6 +341,9 @@ impl FastFit {
     /// distinct temperatures, a σ with a normal weight on every used point of a weighted
     /// fit); this path repeats none of it.
     pub(crate) fn try_new(points: &[Measurement], options: &FitOptions) -> Option<FastFit> {
+        if !options.model.streams() {
+            return None;
+        }
         let weighted = options.weighting == Weighting::InverseVariance;
         let theta = options.t_ref_k;
         let mut rows = Vec::with_capacity(points.len());
@@ -362,7 +367,8 @@ impl FastFit {
             } else {
                 (1.0, 1.0)
             };
-            let x = Model::ConstantCp.row(pt.t_k, theta);
+            let mut x = [0.0; 3];
+            Model::CONSTANT_CP.row_into(pt.t_k, theta, &mut x);
             debug_assert_eq!(x[1], C1);
             let row = Row {
                 c0: x[0],
@@ -414,9 +420,12 @@ impl FastFit {
         for j in 0..3 {
             scale[j] = power_of_two_near(sumsq[j].sqrt())?;
         }
-        let other_model = match options.model {
-            Model::Linear => Model::ConstantCp,
-            Model::ConstantCp => Model::Linear,
+        // The streaming design is the constant-ΔCp° one; the linear model is its leading
+        // two columns, and the comparison takes the other of the pair.
+        let other_model = if p == Model::LINEAR.n_params() {
+            Model::CONSTANT_CP
+        } else {
+            Model::LINEAR
         };
         let (fitted, refine_fitted) = Sub::new(&r4, p, &scale, n)?;
         let mut tracks = vec![Track::new(fitted, refine_fitted, &scale)];
@@ -435,6 +444,7 @@ impl FastFit {
             fitted,
             rss,
             rss_other,
+            other_model: rss_other.map(|_| other_model),
             sum_w,
             sum_ln_w,
             tss,
@@ -770,7 +780,7 @@ mod tests {
             .map(|i| {
                 u = (u + 0.618_033_988_749_894_9) % 1.0;
                 let t = 278.15 + 60.0 * (i as f64 + u) / n as f64;
-                let x = Model::ConstantCp.row(t, 298.15);
+                let x = Model::CONSTANT_CP.row(t, 298.15);
                 let sigma = 0.02 + 0.06 * u;
                 let m = Measurement::new(
                     t,
@@ -796,7 +806,7 @@ mod tests {
         // the reference; both are least squares, so they agree to rounding.
         for n in [6usize, 50, 3000] {
             let pts = data(n);
-            for model in [Model::Linear, Model::ConstantCp] {
+            for model in [Model::LINEAR, Model::CONSTANT_CP] {
                 for weighting in [Weighting::InverseVariance, Weighting::Unweighted] {
                     let opts = FitOptions {
                         model,
@@ -822,9 +832,10 @@ mod tests {
                     for (a, b) in uc.iter().zip(general.unscaled_covariance.iter()) {
                         assert!(rel(*a, *b) < 1e-9, "{a} vs {b}");
                     }
-                    let other = match model {
-                        Model::Linear => Model::ConstantCp,
-                        Model::ConstantCp => Model::Linear,
+                    let other = if model == Model::LINEAR {
+                        Model::CONSTANT_CP
+                    } else {
+                        Model::LINEAR
                     };
                     let xo = design(&pts, &used, other, 298.15);
                     let rss_o = weighted_rss(&xo, &y, w.as_deref()).unwrap();
@@ -857,7 +868,7 @@ mod tests {
         for n in [5usize, 40, 2000] {
             let mut pts = data(n);
             pts[1].ln_k += 0.5; // an outlier, so flags are exercised
-            for model in [Model::Linear, Model::ConstantCp] {
+            for model in [Model::LINEAR, Model::CONSTANT_CP] {
                 for weighting in [Weighting::InverseVariance, Weighting::Unweighted] {
                     for convention in [SigmaConvention::ScaledByFit, SigmaConvention::Absolute] {
                         let opts = FitOptions {

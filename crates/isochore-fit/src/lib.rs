@@ -38,10 +38,12 @@ pub mod derived;
 pub mod diagnostics;
 pub mod error;
 mod fast;
+pub mod global;
 pub mod influence;
 pub mod least_squares;
 pub mod measurement;
 pub mod model;
+pub mod models;
 pub mod replicates;
 pub mod stats;
 pub mod two_point;
@@ -51,16 +53,21 @@ pub mod vant_hoff;
 pub use derived::{BandPoint, Interval, Prediction, ValuePrediction};
 pub use diagnostics::{FlagKind, Flags, PointDiagnostics};
 pub use error::Error;
+pub use global::{
+    fit_global, test_equal_across_series, EqualityTest, GlobalColumn, GlobalError, GlobalFit,
+    SeriesInput, Sharing, SharingMap,
+};
 pub use measurement::Measurement;
 pub use model::{
     count_distinct_temperatures, is_plausible_temperature, FitOptions, FlagThresholds, Model,
     SigmaConvention, Weighting, DEFAULT_REFERENCE_K, MAX_LEVEL, MAX_PLAUSIBLE_K, MIN_PLAUSIBLE_K,
     TEMPERATURE_RESOLUTION_K,
 };
+pub use models::{ModelSpec, ParamDimension, ParamInfo};
 pub use replicates::average_replicates;
 pub use units::{ConcentrationUnit, EnergyUnit, QuantityKind, TemperatureUnit};
 pub use vant_hoff::{
-    compare_models, fit, Estimate, FitStatistics, ModelComparison, Parameter, ParameterName,
+    compare_models, fit, ComparisonStep, Estimate, FitStatistics, ModelComparison, Parameter,
     ThermoAt, VantHoffFit, Warning, WarningKind,
 };
 

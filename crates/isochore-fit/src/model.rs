@@ -1,19 +1,9 @@
-//! The van 't Hoff models, written directly in thermodynamic parameters, and the options
-//! that steer a fit (weighting, confidence convention, level, flag thresholds).
-//!
-//! Linear model (ΔH° and ΔS° independent of T):
-//! ```text
-//! ln K = −ΔH°/(R T) + ΔS°/R                      columns: −1/(RT), 1/R
-//! ```
-//! Constant-ΔCp° model (Clarke–Glew form truncated after ΔCp°), about a reference θ:
-//! ```text
-//! ln K = −ΔH°(θ)/(R T) + ΔS°(θ)/R + ΔCp° (θ/T − 1 + ln(T/θ))/R
-//! ```
-//! Because the columns are in these units, the least-squares coefficients *are*
-//! (ΔH°, ΔS°[, ΔCp°]) in J/mol, J mol⁻¹ K⁻¹, and their covariance needs no conversion.
+//! The options that steer a fit (model, weighting, confidence convention, level, flag
+//! thresholds) and the rules on temperatures every fit shares. The models themselves are in
+//! [`crate::models`].
 
 use crate::error::Error;
-use crate::GAS_CONSTANT;
+pub use crate::models::Model;
 use serde::{Deserialize, Serialize};
 
 /// Default reference temperature θ of the ΔCp° model, 298.15 K (the standard-state
@@ -77,63 +67,6 @@ pub fn count_distinct_temperatures(temps: impl IntoIterator<Item = f64>, limit: 
         }
     }
     seen.len()
-}
-
-/// Which van 't Hoff model to fit.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
-pub enum Model {
-    /// ΔH° and ΔS° constant over the temperature range: ln K linear in 1/T.
-    #[default]
-    #[serde(rename = "linear")]
-    Linear,
-    /// ΔCp° constant; ΔH° and ΔS° quoted at the reference temperature θ.
-    #[serde(rename = "cp")]
-    ConstantCp,
-}
-
-impl Model {
-    /// Number of fitted parameters.
-    pub fn n_params(self) -> usize {
-        match self {
-            Model::Linear => 2,
-            Model::ConstantCp => 3,
-        }
-    }
-
-    /// The short machine name used in files and on the command line: "linear" or "cp".
-    pub fn key(self) -> &'static str {
-        match self {
-            Model::Linear => "linear",
-            Model::ConstantCp => "cp",
-        }
-    }
-
-    /// A plain description for people.
-    pub fn describe(self) -> &'static str {
-        match self {
-            Model::Linear => "linear van 't Hoff (constant ΔH° and ΔS°)",
-            Model::ConstantCp => "constant ΔCp° (ΔH° and ΔS° vary with T)",
-        }
-    }
-
-    /// Writes the design row x(T) such that ln K(T) = x(T)·β into `out`, whose length must
-    /// be [`Model::n_params`]; extra entries are left alone.
-    pub fn row_into(self, t_k: f64, t_ref_k: f64, out: &mut [f64]) {
-        let row = self.row(t_k, t_ref_k);
-        let n = self.n_params().min(out.len());
-        out[..n].copy_from_slice(&row[..n]);
-    }
-
-    /// The design row x(T) such that ln K(T) = x(T)·β, with β = (ΔH°, ΔS°[, ΔCp°]).
-    /// Only the first [`Model::n_params`] entries are meaningful.
-    pub fn row(self, t_k: f64, t_ref_k: f64) -> [f64; 3] {
-        let r = GAS_CONSTANT;
-        let cp = match self {
-            Model::Linear => 0.0,
-            Model::ConstantCp => (t_ref_k / t_k - 1.0 + (t_k / t_ref_k).ln()) / r,
-        };
-        [-1.0 / (r * t_k), 1.0 / r, cp]
-    }
 }
 
 /// How points are weighted.
@@ -207,7 +140,7 @@ pub struct FitOptions {
 impl Default for FitOptions {
     fn default() -> Self {
         FitOptions {
-            model: Model::Linear,
+            model: Model::LINEAR,
             t_ref_k: DEFAULT_REFERENCE_K,
             weighting: Weighting::InverseVariance,
             convention: SigmaConvention::ScaledByFit,
@@ -272,11 +205,11 @@ mod tests {
         // At T = θ the ΔCp° term and its first derivative are zero, so ΔH°(θ), ΔS°(θ) keep
         // their meaning (analytic property of the Clarke–Glew form).
         let theta = 310.0;
-        let row = Model::ConstantCp.row(theta, theta);
+        let row = Model::CONSTANT_CP.row(theta, theta);
         assert!(row[2].abs() < 1e-18);
         let h = 1e-3;
-        let d = (Model::ConstantCp.row(theta + h, theta)[2]
-            - Model::ConstantCp.row(theta - h, theta)[2])
+        let d = (Model::CONSTANT_CP.row(theta + h, theta)[2]
+            - Model::CONSTANT_CP.row(theta - h, theta)[2])
             / (2.0 * h);
         assert!(d.abs() < 1e-9);
     }

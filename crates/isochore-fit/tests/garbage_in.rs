@@ -120,7 +120,7 @@ fn check_fit(f: &VantHoffFit) {
 
 fn all_options() -> Vec<FitOptions> {
     let mut out = Vec::new();
-    for model in [Model::Linear, Model::ConstantCp] {
+    for model in [Model::LINEAR, Model::CONSTANT_CP] {
         for weighting in [Weighting::InverseVariance, Weighting::Unweighted] {
             for convention in [SigmaConvention::ScaledByFit, SigmaConvention::Absolute] {
                 out.push(FitOptions {
@@ -189,7 +189,7 @@ fn impossible_options_are_refused() {
     }
     for theta in NASTY {
         let o = FitOptions {
-            model: Model::ConstantCp,
+            model: Model::CONSTANT_CP,
             t_ref_k: theta,
             ..FitOptions::default()
         };

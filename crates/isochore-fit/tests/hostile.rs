@@ -13,7 +13,7 @@ use isochore_fit::{
 /// own formula is the definition of the data here; only refusals are tested).
 fn ln_k(t: f64, cp: f64) -> f64 {
     let theta = 298.15;
-    let x = Model::ConstantCp.row(t, theta);
+    let x = Model::CONSTANT_CP.row(t, theta);
     x[0] * -40e3 + x[1] * -60.0 + x[2] * cp
 }
 
@@ -32,7 +32,7 @@ fn repeats(temps: &[f64], per: usize) -> Vec<Measurement> {
 
 fn cp() -> FitOptions {
     FitOptions {
-        model: Model::ConstantCp,
+        model: Model::CONSTANT_CP,
         ..FitOptions::default()
     }
 }

@@ -20,7 +20,7 @@ fn curved() -> Vec<Measurement> {
     (0..10)
         .map(|i| {
             let t = 278.15 + 5.0 * i as f64;
-            let x = Model::ConstantCp.row(t, THETA);
+            let x = Model::CONSTANT_CP.row(t, THETA);
             let y = x[0] * -45e3 + x[1] * -60.0 + x[2] * -600.0 + wobble[i];
             Measurement::new(t, y).with_sigma(0.01 + 0.003 * i as f64)
         })
@@ -78,7 +78,7 @@ fn se_fd(f: &VantHoffFit, q: impl Fn(&[f64]) -> f64) -> f64 {
 
 #[test]
 fn derived_quantities_match_finite_differences() {
-    for model in [Model::Linear, Model::ConstantCp] {
+    for model in [Model::LINEAR, Model::CONSTANT_CP] {
         let f = fit(&curved(), &options(model)).unwrap();
         let beta = f.coefficients();
         for t in [270.0, 298.15, 310.0, 330.0, 360.0] {
@@ -124,9 +124,9 @@ fn derived_quantities_match_finite_differences() {
 #[test]
 fn ellipse_points_lie_on_the_quadratic_form() {
     for (model, convention) in [
-        (Model::Linear, SigmaConvention::ScaledByFit),
-        (Model::ConstantCp, SigmaConvention::ScaledByFit),
-        (Model::Linear, SigmaConvention::Absolute),
+        (Model::LINEAR, SigmaConvention::ScaledByFit),
+        (Model::CONSTANT_CP, SigmaConvention::ScaledByFit),
+        (Model::LINEAR, SigmaConvention::Absolute),
     ] {
         let f = fit(
             &curved(),
@@ -156,7 +156,7 @@ fn ellipse_points_lie_on_the_quadratic_form() {
                 2.0 * lo
             }
         };
-        if model == Model::Linear && convention == SigmaConvention::ScaledByFit {
+        if model == Model::LINEAR && convention == SigmaConvention::ScaledByFit {
             // F(0.95; 2, 8) = 4.459 (F-distribution table, from memory).
             assert!((r2 / 2.0 - 4.459).abs() < 1e-3, "{}", r2 / 2.0);
         }
@@ -182,7 +182,7 @@ fn ellipse_points_lie_on_the_quadratic_form() {
 
 #[test]
 fn band_at_a_data_temperature_equals_predict() {
-    for model in [Model::Linear, Model::ConstantCp] {
+    for model in [Model::LINEAR, Model::CONSTANT_CP] {
         let f = fit(&curved(), &options(model)).unwrap();
         for m in curved() {
             let b = f.bands(&[1.0 / m.t_k])[0];
@@ -219,7 +219,7 @@ fn harmonic_mean_temperature_decorrelates() {
         .iter()
         .map(|m| {
             let t = m.t_k + 42.0;
-            let x = Model::ConstantCp.row(t, THETA);
+            let x = Model::CONSTANT_CP.row(t, THETA);
             Measurement::new(
                 t,
                 x[0] * -45e3 + x[1] * -60.0 + x[2] * -600.0 + (m.ln_k - ln_model(m.t_k)),
@@ -227,7 +227,7 @@ fn harmonic_mean_temperature_decorrelates() {
             .with_sigma(m.sigma_ln_k.unwrap())
         })
         .collect();
-    let f = fit(&pts, &options(Model::ConstantCp)).unwrap();
+    let f = fit(&pts, &options(Model::CONSTANT_CP)).unwrap();
     let th = f.t_harmonic_k;
     // T_h is the weighted harmonic mean, computed here from the points.
     let (sw, swt) = pts.iter().fold((0.0, 0.0), |(a, b), m| {
@@ -260,7 +260,7 @@ fn harmonic_mean_temperature_decorrelates() {
     assert!(c_hg_th.abs() < 0.6 * c_hg_0.abs());
 
     // Linear model: ΔG°(T_h) and ΔH° are exactly uncorrelated (the centred 1/T design).
-    let lin = fit(&pts, &options(Model::Linear)).unwrap();
+    let lin = fit(&pts, &options(Model::LINEAR)).unwrap();
     let c = corr(&lin, &[1.0, 0.0], &[1.0, -lin.t_harmonic_k]);
     assert!(c.abs() < 1e-9, "{c}");
 }
@@ -276,13 +276,13 @@ fn se_of(f: &VantHoffFit, g: &[f64]) -> f64 {
 }
 
 fn ln_model(t: f64) -> f64 {
-    let x = Model::ConstantCp.row(t, THETA);
+    let x = Model::CONSTANT_CP.row(t, THETA);
     x[0] * -45e3 + x[1] * -60.0 + x[2] * -600.0
 }
 
 #[test]
 fn excluded_point_residual_matches_a_refit_without_it() {
-    for model in [Model::Linear, Model::ConstantCp] {
+    for model in [Model::LINEAR, Model::CONSTANT_CP] {
         for convention in [SigmaConvention::ScaledByFit, SigmaConvention::Absolute] {
             for k in [0usize, 4, 9] {
                 let mut pts = curved();
@@ -333,11 +333,11 @@ fn temperature_for_k_finds_the_root_nearest_the_data() {
     let pts: Vec<Measurement> = (0..9)
         .map(|i| {
             let t = 278.15 + 5.0 * i as f64;
-            let x = Model::ConstantCp.row(t, THETA);
+            let x = Model::CONSTANT_CP.row(t, THETA);
             Measurement::new(t, x[1] * 20.0 + x[2] * -2000.0).with_sigma(0.01)
         })
         .collect();
-    let f = fit(&pts, &options(Model::ConstantCp)).unwrap();
+    let f = fit(&pts, &options(Model::CONSTANT_CP)).unwrap();
     let peak = f.predict(THETA).unwrap().ln_k.value;
     for drop in [0.01, 0.1, 0.5] {
         let target = (peak - drop).exp();

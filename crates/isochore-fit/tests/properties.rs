@@ -51,7 +51,7 @@ fn noisy(design: &[(f64, f64)], beta: [f64; 3], noise: &[f64]) -> Vec<Measuremen
         .iter()
         .zip(noise.iter().cycle())
         .map(|(&(t, s), e)| {
-            let x = Model::ConstantCp.row(t, THETA);
+            let x = Model::CONSTANT_CP.row(t, THETA);
             let y = x[0] * beta[0] + x[1] * beta[1] + x[2] * beta[2] + e * s;
             Measurement::new(t, y).with_sigma(s)
         })
@@ -98,11 +98,11 @@ proptest! {
         ds in -300.0..300.0f64,
         dcp in -3000.0..3000.0f64,
     ) {
-        for model in [Model::Linear, Model::ConstantCp] {
-            if model == Model::ConstantCp && d.len() < 4 {
+        for model in [Model::LINEAR, Model::CONSTANT_CP] {
+            if model == Model::CONSTANT_CP && d.len() < 4 {
                 continue;
             }
-            let cp = if model == Model::Linear { 0.0 } else { dcp };
+            let cp = if model == Model::LINEAR { 0.0 } else { dcp };
             let pts = noisy(&d, [dh, ds, cp], &[0.0]);
             for weighting in [Weighting::InverseVariance, Weighting::Unweighted] {
                 let f = fit(&pts, &FitOptions { weighting, ..opts(model, SigmaConvention::ScaledByFit) }).unwrap();
@@ -111,7 +111,7 @@ proptest! {
                 // for parameters drawn near zero.
                 prop_assert!(close(got[0], dh, 1e-9, 1e3), "ΔH° {} vs {dh}", got[0]);
                 prop_assert!(close(got[1], ds, 1e-9, 1.0), "ΔS° {} vs {ds}", got[1]);
-                if model == Model::ConstantCp {
+                if model == Model::CONSTANT_CP {
                     prop_assert!(close(got[2], cp, 1e-9, 10.0), "ΔCp° {} vs {cp}", got[2]);
                 }
             }
@@ -131,7 +131,7 @@ proptest! {
             .iter()
             .map(|m| m.with_sigma(m.sigma_ln_k.unwrap() * factor))
             .collect();
-        for model in [Model::Linear, Model::ConstantCp] {
+        for model in [Model::LINEAR, Model::CONSTANT_CP] {
             if d.len() < 5 {
                 continue;
             }
@@ -175,7 +175,7 @@ proptest! {
         let mut order: Vec<usize> = (0..pts.len()).collect();
         order.sort_by_key(|&i| (perm_key[i], i));
         let shuffled: Vec<Measurement> = order.iter().map(|&i| pts[i]).collect();
-        for model in [Model::Linear, Model::ConstantCp] {
+        for model in [Model::LINEAR, Model::CONSTANT_CP] {
             let (Ok(a), Ok(b)) = (
                 fit(&pts, &opts(model, SigmaConvention::ScaledByFit)),
                 fit(&shuffled, &opts(model, SigmaConvention::ScaledByFit)),

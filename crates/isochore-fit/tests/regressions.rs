@@ -87,7 +87,7 @@ fn both_models_exact_is_no_evidence_of_curvature() {
     };
     let c = compare_models(&pts, &opts).unwrap().unwrap();
     assert_eq!(c.f_statistic, 0.0);
-    assert_eq!(c.preferred, Model::Linear);
+    assert_eq!(c.preferred, Model::LINEAR);
     assert!((c.f_p_value - 1.0).abs() < 1e-12);
 }
 

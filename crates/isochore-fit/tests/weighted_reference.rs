@@ -153,7 +153,7 @@ fn check_model(r: &HashMap<String, Vec<f64>>, key: &str, model: Model) -> VantHo
 #[test]
 fn linear_model_matches_statsmodels() {
     let r = reference();
-    let f = check_model(&r, "linear", Model::Linear);
+    let f = check_model(&r, "linear", Model::LINEAR);
     // The displaced point (index 6, 308.15 K) has the largest externally studentized
     // residual (3.01 in the reference), above the default threshold 3 (common practice).
     let worst = f
@@ -173,7 +173,7 @@ fn linear_model_matches_statsmodels() {
 #[test]
 fn cp_model_matches_statsmodels() {
     let r = reference();
-    let f = check_model(&r, "cp", Model::ConstantCp);
+    let f = check_model(&r, "cp", Model::CONSTANT_CP);
     assert!(f.points[6].flags.outlier, "{:?}", f.points[6]);
 }
 
@@ -182,7 +182,7 @@ fn model_comparison_matches_statsmodels() {
     let r = reference();
     let pts = points(&r);
     let theta = r["theta"][0];
-    for model in [Model::Linear, Model::ConstantCp] {
+    for model in [Model::LINEAR, Model::CONSTANT_CP] {
         let f = fit(&pts, &options(model, SigmaConvention::ScaledByFit, theta)).unwrap();
         let c = f.comparison.expect("ten points allow the comparison");
         check("F statistic", &[c.f_statistic], &r["compare.f_statistic"]);
@@ -193,6 +193,6 @@ fn model_comparison_matches_statsmodels() {
         assert!((got - want).abs() <= REL * want.abs(), "{got} vs {want}");
         // The verdict follows the stated rule: ΔCp° preferred iff p < 0.05 and ΔAICc < 0.
         let supports = c.f_p_value < 0.05 && got < 0.0;
-        assert_eq!(c.preferred == Model::ConstantCp, supports);
+        assert_eq!(c.preferred == Model::CONSTANT_CP, supports);
     }
 }

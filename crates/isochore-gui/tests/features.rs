@@ -779,7 +779,7 @@ fn a_large_series_is_fitted_on_the_background_thread() {
 fn the_cp_model_gives_the_temperature_for_a_target_k_or_says_there_is_none() {
     let w = bench();
     let id = w.active.unwrap();
-    let f = library(&w, id, |o| o.model = Model::ConstantCp);
+    let f = library(&w, id, |o| o.model = Model::CONSTANT_CP);
     // K = 5e6 lies inside the demo's K (about 3e6 to 1.5e7).
     let t = f.temperature_for_k(5.0e6).unwrap();
     assert!(!f.is_extrapolation(t.value));
@@ -799,10 +799,10 @@ fn the_cp_model_gives_the_temperature_for_a_target_k_or_says_there_is_none() {
     assert!(none.contains("never reaches"), "{none}");
 
     let mut h = harness(w);
-    choose(&mut h, "model", "with ΔCp° (curved)");
+    choose(&mut h, "model", isochore_fit::Model::CONSTANT_CP.describe());
     assert_eq!(
         h.state().project.get(id).unwrap().options().model,
-        Model::ConstantCp
+        Model::CONSTANT_CP
     );
     h.get_by_label("target K").click();
     h.run_steps(1);

@@ -94,7 +94,7 @@ fn active_row_excluded(h: &Harness<'_, Workbench>, row: usize) -> Option<String>
 #[test]
 fn demo_shows_the_library_delta_h() {
     let w = bench();
-    let (dh, _) = library_fit(&w, None, Model::Linear);
+    let (dh, _) = library_fit(&w, None, Model::LINEAR);
     // The invented binding data weaken with temperature (K_d rises), so binding is
     // exothermic: a sign check on the scenario itself.
     assert!(dh < 0.0);
@@ -106,8 +106,8 @@ fn demo_shows_the_library_delta_h() {
 #[test]
 fn excluding_through_the_table_refits_and_undo_restores() {
     let w = bench();
-    let (dh_all, _) = library_fit(&w, None, Model::Linear);
-    let (dh_wo, _) = library_fit(&w, Some(OUTLIER_ROW), Model::Linear);
+    let (dh_all, _) = library_fit(&w, None, Model::LINEAR);
+    let (dh_wo, _) = library_fit(&w, Some(OUTLIER_ROW), Model::LINEAR);
     assert_ne!(delta_h_label(dh_all), delta_h_label(dh_wo));
     let mut h = harness(w);
     h.get_by_label(&format!("include row {}", OUTLIER_ROW + 1))
@@ -147,8 +147,8 @@ fn click_at(h: &mut Harness<'_, Workbench>, pos: egui::Pos2) {
 #[test]
 fn clicking_a_point_on_the_plot_excludes_it_and_records_a_reason() {
     let w = bench();
-    let (dh_all, _) = library_fit(&w, None, Model::Linear);
-    let (dh_wo, _) = library_fit(&w, Some(OUTLIER_ROW), Model::Linear);
+    let (dh_all, _) = library_fit(&w, None, Model::LINEAR);
+    let (dh_wo, _) = library_fit(&w, Some(OUTLIER_ROW), Model::LINEAR);
     let mut h = harness(w);
     let pos = {
         let w = h.state();
@@ -183,14 +183,15 @@ fn clicking_a_point_on_the_plot_excludes_it_and_records_a_reason() {
 #[test]
 fn switching_to_the_cp_model_shows_delta_cp() {
     let w = bench();
-    let (_, cp) = library_fit(&w, None, Model::ConstantCp);
+    let (_, cp) = library_fit(&w, None, Model::CONSTANT_CP);
     let cp = cp.expect("ΔCp° fitted");
     let label = format!("ΔCp° = {} J/(mol·K)", sig(cp, 4));
     let mut h = harness(w);
     assert!(h.query_by_label(&label).is_none());
     h.get_by_label("model").click();
     h.run_steps(2);
-    h.get_by_label("with ΔCp° (curved)").click();
+    h.get_by_label(isochore_fit::Model::CONSTANT_CP.describe())
+        .click();
     h.run_steps(3);
     h.get_by_label(&label);
     // One undo brings the linear model back.
@@ -259,7 +260,7 @@ fn saving_and_reopening_keeps_exclusions_and_reasons() {
     let dir = temp_dir("save");
     let path = dir.join("binding.isochore.json");
     let w = bench();
-    let (dh_wo, _) = library_fit(&w, Some(OUTLIER_ROW), Model::Linear);
+    let (dh_wo, _) = library_fit(&w, Some(OUTLIER_ROW), Model::LINEAR);
     let mut h = harness(w);
     h.get_by_label(&format!("include row {}", OUTLIER_ROW + 1))
         .click();
@@ -371,7 +372,7 @@ fn exporting_through_the_menu_writes_reports_with_the_library_delta_h() {
     let dir = temp_dir("export");
     let out = dir.join("reports");
     let w = bench();
-    let (dh, _) = library_fit(&w, None, Model::Linear);
+    let (dh, _) = library_fit(&w, None, Model::LINEAR);
     let mut h = harness(w);
     menu_item(&mut h, "File", "Export report and figures…");
     type_path_and_press(&mut h, &out, "Export");

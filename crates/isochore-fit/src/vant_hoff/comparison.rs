@@ -1,7 +1,10 @@
-//! The comparison of the linear and constant-ΔCp° models on the same used points and
-//! weights: the F-test for the extra parameter, ΔAICc, the preferred model and a verdict in
-//! words ([`ModelComparison`]); [`compare_models`] runs it on its own, and [`super::fit`]
-//! runs it with the other model's χ² from whichever engine fitted.
+//! The comparison of nested models on the same used points and weights, step by step up
+//! the ladder (linear ⊂ constant ΔCp° ⊂ Clarke–Glew for the shipped models; see
+//! [`Model::ladder`]): for each step the extra-sum-of-squares F-test, ΔAICc, whether the
+//! extra term is resolved, and a verdict in words ([`ComparisonStep`]); the preferred model
+//! climbs the ladder while each step is supported ([`ModelComparison`]).
+//! [`compare_models`] runs it on its own, and [`super::fit`] runs it with the χ² its engine
+//! already has.
 
 use super::inputs::{design, prepare};
 use super::statistics::{statistics, WeightSums};
@@ -9,121 +12,244 @@ use crate::error::Error;
 use crate::least_squares::weighted_rss;
 use crate::measurement::Measurement;
 use crate::model::{FitOptions, Model, SigmaConvention};
-use crate::stats::f_upper_tail;
-use serde::{Deserialize, Serialize};
+use crate::stats::{f_upper_tail, normal_quantile};
+use serde::Serialize;
 
-/// The verdict of the model comparison.
-#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
-pub struct ModelComparison {
-    /// F statistic for adding ΔCp° to the linear model.
+/// Significance level of the F-test in the ladder's rule, 0.05 (common practice).
+pub const LADDER_ALPHA: f64 = 0.05;
+
+/// One step of the ladder: a model against the next larger one that extends it.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct ComparisonStep {
+    /// The smaller model.
+    pub smaller: Model,
+    /// The larger model (it extends the smaller).
+    pub larger: Model,
+    /// Keys of the parameters the larger model adds.
+    pub added: Vec<&'static str>,
+    /// F = ((χ²_s − χ²_l)/q) / (χ²_l/(n − p_l)), q the number of added parameters.
     pub f_statistic: f64,
-    /// Its p-value from F(1, n − 3).
+    /// P(F(q, n − p_l) ≥ F).
     pub f_p_value: f64,
-    /// AICc(ΔCp° model) − AICc(linear); negative favours ΔCp°. `None` with too few points.
+    /// q, the numerator degrees of freedom.
+    pub df_extra: usize,
+    /// n − p_l, the denominator degrees of freedom.
+    pub df_residual: usize,
+    /// AICc(larger) − AICc(smaller); negative favours the larger. `None` with too few points.
     pub delta_aicc: Option<f64>,
-    /// The model the evidence prefers.
-    pub preferred: Model,
+    /// Whether the evidence supports the larger model (p < 0.05 and ΔAICc < 0 or unavailable).
+    pub supported: bool,
+    /// Whether the added term is resolved: its interval at the fit's level excludes zero
+    /// (for one added term under the scaled convention this is F above the critical F, since
+    /// t² = F; under absolute σ it is the χ² drop above z²).
+    pub resolved: bool,
     /// The verdict in plain words.
     pub verdict: String,
 }
 
-/// Compares the linear and constant-ΔCp° models on the same included points with the same
-/// weights: an F-test for the extra parameter and the difference in AICc.
+/// The verdict of the model comparison along the ladder.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct ModelComparison {
+    /// F statistic of the first step (linear against constant ΔCp° for the shipped models).
+    pub f_statistic: f64,
+    /// Its p-value.
+    pub f_p_value: f64,
+    /// ΔAICc of the first step; negative favours the larger model. `None` with too few points.
+    pub delta_aicc: Option<f64>,
+    /// The model the evidence prefers: the ladder is climbed while each step is supported.
+    pub preferred: Model,
+    /// The verdict in plain words (every step's, in order).
+    pub verdict: String,
+    /// Every step that the points allow, simplest first.
+    pub steps: Vec<ComparisonStep>,
+}
+
+/// Compares the models of the fitted model's ladder on the same included points with the
+/// same weights: an F-test for each added term and the difference in AICc.
 ///
-/// Returns `Ok(None)` when there are too few points for the ΔCp° model to leave a residual
-/// degree of freedom (fewer than 4 used points).
+/// Returns `Ok(None)` when there are too few points for even the first step to leave a
+/// residual degree of freedom (fewer than 4 used points for the shipped models).
 ///
 /// # Formula
 /// ```text
-/// F = (χ²_lin − χ²_cp) / (χ²_cp / (n − 3)),   p = P(F(1, n − 3) ≥ F)
-/// ΔAICc = AICc_cp − AICc_lin
+/// F = ((χ²_s − χ²_l)/q) / (χ²_l / (n − p_l)),   p = P(F(q, n − p_l) ≥ F)
+/// ΔAICc = AICc_l − AICc_s
 /// ```
-/// The ΔCp° model is preferred when p < 0.05 and ΔAICc < 0 (or ΔAICc is unavailable); the
-/// linear model otherwise. Both numbers are reported so the chemist can judge.
+/// The larger model of a step is supported when p < 0.05 and ΔAICc < 0 (or ΔAICc is
+/// unavailable). Both numbers are reported so the chemist can judge.
 ///
 /// # Errors
-/// As [`super::fit`].
+/// As [`super::fit`] for the smallest model of the ladder.
 pub fn compare_models(
     points: &[Measurement],
     options: &FitOptions,
 ) -> Result<Option<ModelComparison>, Error> {
+    let ladder = options.model.ladder();
+    let (Some(&root), Some(&next)) = (ladder.first(), ladder.get(1)) else {
+        return Ok(None);
+    };
+    // Too few points for the first step to leave a residual degree of freedom: nothing to
+    // compare (and nothing to validate against).
     let n_used = points.iter().filter(|p| p.included).count();
-    if n_used < 4 {
+    if n_used <= next.n_params() {
         return Ok(None);
     }
-    let prepared = prepare(points, options, Model::Linear)?;
-    let w = prepared.weights.as_deref();
-    let theta = options.t_ref_k;
-    let x_lin = design(points, &prepared.used, Model::Linear, theta);
-    let chi2_lin = weighted_rss(&x_lin, &prepared.y, w)?;
-    let x_cp = design(points, &prepared.used, Model::ConstantCp, theta);
-    let chi2_cp = match weighted_rss(&x_cp, &prepared.y, w) {
-        Ok(c) => c,
-        Err(Error::RankDeficient { .. }) | Err(Error::TooFewPoints { .. }) => return Ok(None),
-        Err(e) => return Err(e),
-    };
-    let sums = WeightSums::new(w, &prepared.y);
-    Ok(Some(comparison_from(
-        chi2_lin,
-        chi2_cp,
-        &sums,
-        options.convention,
-    )))
+    let prepared = prepare(points, options, root)?;
+    let sums = WeightSums::new(prepared.weights.as_deref(), &prepared.y);
+    let chi2 = |m: Model| chi2_on_points(points, options, m);
+    Ok(ladder_comparison(&ladder, &sums, options, chi2))
 }
 
-/// The comparison of the linear and ΔCp° models from their χ² on the same points.
-pub(super) fn comparison_from(
-    chi2_lin: f64,
-    chi2_cp: f64,
+/// χ² of `model` on the included points with the options' weights, by the general solver.
+pub(super) fn chi2_on_points(
+    points: &[Measurement],
+    options: &FitOptions,
+    model: Model,
+) -> Result<f64, Error> {
+    let prepared = prepare(points, options, model)?;
+    let x = design(points, &prepared.used, model, options.t_ref_k);
+    weighted_rss(&x, &prepared.y, prepared.weights.as_deref())
+}
+
+/// The comparison along `ladder`, with `chi2` giving each model's χ² on the same points.
+/// The ladder stops at the first model that has no residual degree of freedom or cannot be
+/// solved; `None` when no step is possible.
+pub(super) fn ladder_comparison(
+    ladder: &[Model],
     sums: &WeightSums,
-    convention: SigmaConvention,
-) -> ModelComparison {
-    let s_lin = statistics(chi2_lin, 2, sums, convention);
-    let s_cp = statistics(chi2_cp, 3, sums, convention);
-    let dof_cp = sums.n as f64 - 3.0;
-    let drop = (s_lin.chi2 - s_cp.chi2).max(0.0);
-    // With χ²_cp = 0 the ΔCp° model is exact: any drop is infinitely significant, and no
+    options: &FitOptions,
+    mut chi2: impl FnMut(Model) -> Result<f64, Error>,
+) -> Option<ModelComparison> {
+    let mut steps = Vec::new();
+    let mut prev: Option<(Model, f64)> = None;
+    for &m in ladder {
+        if sums.n <= m.n_params() {
+            break;
+        }
+        let Ok(c) = chi2(m) else { break };
+        if let Some((s, cs)) = prev {
+            steps.push(step(s, cs, m, c, sums, options));
+        }
+        prev = Some((m, c));
+    }
+    let first = steps.first()?;
+    let mut preferred = first.smaller;
+    for s in &steps {
+        if !s.supported {
+            break;
+        }
+        preferred = s.larger;
+    }
+    let verdict = if steps.len() == 1 {
+        first.verdict.clone()
+    } else {
+        steps
+            .iter()
+            .map(|s| {
+                format!(
+                    "{} → {}: {}",
+                    s.smaller.short_name(),
+                    s.larger.short_name(),
+                    s.verdict
+                )
+            })
+            .collect::<Vec<_>>()
+            .join("; ")
+    };
+    Some(ModelComparison {
+        f_statistic: first.f_statistic,
+        f_p_value: first.f_p_value,
+        delta_aicc: first.delta_aicc,
+        preferred,
+        verdict,
+        steps,
+    })
+}
+
+/// One step from `smaller` (χ² `chi2_s`) to `larger` (χ² `chi2_l`).
+fn step(
+    smaller: Model,
+    chi2_s: f64,
+    larger: Model,
+    chi2_l: f64,
+    sums: &WeightSums,
+    options: &FitOptions,
+) -> ComparisonStep {
+    let (ps, pl) = (smaller.n_params(), larger.n_params());
+    let q = pl.saturating_sub(ps).max(1);
+    let s_s = statistics(chi2_s, ps, sums, options.convention);
+    let s_l = statistics(chi2_l, pl, sums, options.convention);
+    let dof_l = sums.n as f64 - pl as f64;
+    let drop = (s_s.chi2 - s_l.chi2).max(0.0);
+    // With χ²_l = 0 the larger model is exact: any drop is infinitely significant, and no
     // drop at all (both models exact) is no evidence.
-    let f_statistic = if s_cp.chi2 > 0.0 {
-        drop / (s_cp.chi2 / dof_cp)
+    let f_statistic = if s_l.chi2 > 0.0 {
+        (drop / q as f64) / (s_l.chi2 / dof_l)
     } else if drop > 0.0 {
         f64::INFINITY
     } else {
         0.0
     };
-    let f_p_value = f_upper_tail(f_statistic, 1.0, dof_cp).unwrap_or(1.0);
-    let delta_aicc = match (s_cp.aicc, s_lin.aicc) {
+    let f_p_value = f_upper_tail(f_statistic, q as f64, dof_l).unwrap_or(1.0);
+    let delta_aicc = match (s_l.aicc, s_s.aicc) {
         (Some(a), Some(b)) => Some(a - b),
         _ => None,
     };
-    let supports = f_p_value < 0.05 && delta_aicc.is_none_or(|d| d < 0.0);
-    let preferred = if supports {
-        Model::ConstantCp
+    let supported = f_p_value < LADDER_ALPHA && delta_aicc.is_none_or(|d| d < 0.0);
+    let resolved = if options.convention == SigmaConvention::Absolute && sums.weighted {
+        let z = normal_quantile(0.5 + options.level / 2.0);
+        drop > z * z * q as f64
     } else {
-        Model::Linear
+        f_p_value < 1.0 - options.level
     };
+    let added: Vec<&'static str> = larger.params()[ps.min(pl)..]
+        .iter()
+        .map(|p| p.key)
+        .collect();
+    let symbols: Vec<&'static str> = larger.params()[ps.min(pl)..]
+        .iter()
+        .map(|p| p.symbol)
+        .collect();
+    let symbols = symbols.join(" and ");
+    let phrase = larger.spec().evidence_phrase();
     let aicc_text = match delta_aicc {
         Some(d) => format!("ΔAICc = {d:+.2}"),
         None => "ΔAICc unavailable with so few points".to_string(),
     };
-    let verdict = if supports {
+    let mut verdict = if supported {
         format!(
-            "curvature is supported: adding ΔCp° improves the fit (F-test {}, {aicc_text})",
+            "{phrase} is supported: adding {symbols} improves the fit (F-test {}, {aicc_text})",
             format_p(f_p_value)
         )
-    } else if f_p_value < 0.05 {
-        format!("evidence for curvature is mixed: the F-test says yes ({}) but {aicc_text} favours the linear model", format_p(f_p_value))
+    } else if f_p_value < LADDER_ALPHA {
+        format!(
+            "evidence for {phrase} is mixed: the F-test says yes ({}) but {aicc_text} favours the {} model",
+            format_p(f_p_value),
+            smaller.short_name()
+        )
     } else {
         format!(
-            "no evidence of curvature: ΔCp° does not improve the fit (F-test {}, {aicc_text})",
+            "no evidence of {phrase}: {symbols} does not improve the fit (F-test {}, {aicc_text})",
             format_p(f_p_value)
         )
     };
-    ModelComparison {
+    if !resolved {
+        verdict.push_str(&format!(
+            "; the data cannot resolve {symbols}: its {}% interval spans zero",
+            crate::error::short(options.level * 100.0)
+        ));
+    }
+    ComparisonStep {
+        smaller,
+        larger,
+        added,
         f_statistic,
         f_p_value,
+        df_extra: q,
+        df_residual: dof_l.max(0.0) as usize,
         delta_aicc,
-        preferred,
+        supported,
+        resolved,
         verdict,
     }
 }

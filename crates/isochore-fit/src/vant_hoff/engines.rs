@@ -5,12 +5,13 @@
 //! solution with its weight sums, the temperature range, the per-point diagnostics and the
 //! other model's χ² for the comparison, each read from whichever path ran.
 
+use super::comparison::chi2_on_points;
 use super::inputs::{design, prepare};
 use super::statistics::WeightSums;
 use crate::diagnostics::{diagnose_points, DiagnosticsSummary, PointContext, PointDiagnostics};
 use crate::error::Error;
 use crate::fast::FastFit;
-use crate::least_squares::{solve, weighted_rss, LinearFit};
+use crate::least_squares::{solve, LinearFit};
 use crate::measurement::Measurement;
 use crate::model::{FitOptions, Model, Weighting};
 use nalgebra::DMatrix;
@@ -161,23 +162,22 @@ impl Engine {
         }
     }
 
-    /// χ² of the `other` model on the same used points and weights (`n` of them).
-    pub(super) fn chi2_other(
+    /// χ² of `other` on the same used points and weights: the streaming path's second
+    /// model when it is that one, the general solver otherwise.
+    pub(super) fn chi2_of(
         &self,
         points: &[Measurement],
         options: &FitOptions,
         other: Model,
-        n: usize,
     ) -> Result<f64, Error> {
         match self {
-            Engine::Fast(f) => f.rss_other.ok_or(Error::TooFewPoints {
-                available: n,
-                needed: 4,
-            }),
-            Engine::General { solved, y } => {
-                let x = design(points, &solved.used, other, options.t_ref_k);
-                weighted_rss(&x, y, solved.weights.as_deref())
+            Engine::Fast(f) if f.other_model == Some(other) => {
+                f.rss_other.ok_or(Error::TooFewPoints {
+                    available: f.n(),
+                    needed: other.n_params() + 1,
+                })
             }
+            _ => chi2_on_points(points, options, other),
         }
     }
 }

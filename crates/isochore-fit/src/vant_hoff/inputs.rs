@@ -135,9 +135,10 @@ pub(crate) fn design(
     let n = used.len();
     let p = model.n_params();
     let mut x = DMatrix::zeros(n, p);
+    let mut row = vec![0.0; p];
     for (r, &i) in used.iter().enumerate() {
-        let row = model.row(points[i].t_k, theta);
-        for (c, v) in row.iter().take(p).enumerate() {
+        model.row_into(points[i].t_k, theta, &mut row);
+        for (c, v) in row.iter().enumerate() {
             x[(r, c)] = *v;
         }
     }

@@ -16,8 +16,8 @@ mod result;
 mod statistics;
 mod warnings;
 
-pub use comparison::{compare_models, format_p, ModelComparison};
-pub use result::{Estimate, Parameter, ParameterName, ThermoAt, VantHoffFit};
+pub use comparison::{compare_models, format_p, ComparisonStep, ModelComparison, LADDER_ALPHA};
+pub use result::{Estimate, Parameter, ThermoAt, VantHoffFit};
 pub use statistics::FitStatistics;
 pub use warnings::{Warning, WarningKind, FEW_DOF, STRONG_CORRELATION};
 
@@ -27,12 +27,12 @@ pub(crate) use inputs::design;
 
 use crate::error::Error;
 use crate::measurement::Measurement;
-use crate::model::{is_plausible_temperature, FitOptions, Model, SigmaConvention};
+use crate::model::{is_plausible_temperature, FitOptions, SigmaConvention};
 use crate::stats::{normal_quantile, t_quantile};
-use comparison::comparison_from;
+use comparison::ladder_comparison;
 use engines::Engine;
 pub(crate) use inputs::check_inputs;
-use statistics::statistics;
+pub(crate) use statistics::{statistics, WeightSums};
 
 /// Fits a van 't Hoff model by weighted least squares and computes every diagnostic.
 ///
@@ -101,14 +101,9 @@ pub(crate) fn fit_with(
     let covariance: Vec<Vec<f64>> = (0..p)
         .map(|a| (0..p).map(|b| cov[(a, b)]).collect())
         .collect();
-    let names = [
-        ParameterName::DeltaH,
-        ParameterName::DeltaS,
-        ParameterName::DeltaCp,
-    ];
     let params: Vec<Parameter> = (0..p)
         .map(|j| Parameter {
-            name: names[j],
+            info: &model.params()[j],
             estimate: Estimate::symmetric(lin.coefficients[j], cov[(j, j)].sqrt(), critical_value),
         })
         .collect();
@@ -181,30 +176,14 @@ pub(crate) fn fit_with(
         ));
     }
     out.t_at_k1 = out.temperature_for_k(1.0).ok();
-    // The comparison needs only the other model's χ² on the same points and weights.
-    out.comparison = if lin.n >= 4 {
-        let other = match model {
-            Model::Linear => Model::ConstantCp,
-            Model::ConstantCp => Model::Linear,
-        };
-        match engine.chi2_other(points, options, other, lin.n) {
-            Ok(chi2_other) => {
-                let (chi2_lin, chi2_cp) = match model {
-                    Model::Linear => (lin.rss, chi2_other),
-                    Model::ConstantCp => (chi2_other, lin.rss),
-                };
-                Some(comparison_from(
-                    chi2_lin,
-                    chi2_cp,
-                    &sums,
-                    options.convention,
-                ))
-            }
-            Err(_) => None,
+    // The comparison needs only each ladder model's χ² on the same points and weights.
+    out.comparison = ladder_comparison(&model.ladder(), &sums, options, |m| {
+        if m == model {
+            Ok(lin.rss)
+        } else {
+            engine.chi2_of(points, options, m)
         }
-    } else {
-        None
-    };
+    });
 
     out.warnings = warnings::cautions(&out, summary.flagged, summary.leverage_one);
     Ok(out)
@@ -213,7 +192,7 @@ pub(crate) fn fit_with(
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::GAS_CONSTANT;
+    use crate::{Model, GAS_CONSTANT};
 
     fn exact(dh: f64, ds: f64, temps: &[f64]) -> Vec<Measurement> {
         temps
@@ -247,12 +226,12 @@ mod tests {
         let pts: Vec<Measurement> = temps
             .iter()
             .map(|&t| {
-                let x = Model::ConstantCp.row(t, theta);
+                let x = Model::CONSTANT_CP.row(t, theta);
                 Measurement::new(t, x[0] * -20e3 + x[1] * -30.0 + x[2] * -800.0).with_sigma(0.02)
             })
             .collect();
         let opts = FitOptions {
-            model: Model::ConstantCp,
+            model: Model::CONSTANT_CP,
             ..FitOptions::default()
         };
         let f = fit(&pts, &opts).unwrap();

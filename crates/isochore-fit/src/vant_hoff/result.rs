@@ -9,6 +9,7 @@ use super::statistics::FitStatistics;
 use super::warnings::Warning;
 use crate::diagnostics::PointDiagnostics;
 use crate::model::{FitOptions, Model};
+use crate::models::{ParamDimension, ParamInfo};
 use serde::{Deserialize, Serialize};
 
 /// A number with its standard error and a confidence interval at the fit's level.
@@ -46,50 +47,38 @@ impl Estimate {
     }
 }
 
-/// Names of the fitted parameters, in design-column order.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
-#[serde(rename_all = "snake_case")]
-pub enum ParameterName {
-    /// ΔH° in J/mol (at θ for the ΔCp° model).
-    DeltaH,
-    /// ΔS° in J mol⁻¹ K⁻¹ (at θ for the ΔCp° model).
-    DeltaS,
-    /// ΔCp° in J mol⁻¹ K⁻¹.
-    DeltaCp,
-}
-
-impl ParameterName {
-    /// The machine key: "delta_h", "delta_s", "delta_cp".
-    pub fn key(self) -> &'static str {
-        match self {
-            ParameterName::DeltaH => "delta_h",
-            ParameterName::DeltaS => "delta_s",
-            ParameterName::DeltaCp => "delta_cp",
-        }
-    }
-
-    /// The symbol: "ΔH°", "ΔS°", "ΔCp°".
-    pub fn symbol(self) -> &'static str {
-        match self {
-            ParameterName::DeltaH => "ΔH°",
-            ParameterName::DeltaS => "ΔS°",
-            ParameterName::DeltaCp => "ΔCp°",
-        }
-    }
-}
-
-/// One fitted parameter.
-#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+/// One fitted parameter: which one (from the model's list) and its estimate. Serialised as
+/// `{"name": key, "value", "se", "ci_low", "ci_high"}`.
+#[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Parameter {
-    /// Which parameter.
-    pub name: ParameterName,
+    /// Which parameter (key, symbol, unit).
+    pub info: &'static ParamInfo,
     /// Value, SE and confidence interval, in SI units.
-    #[serde(flatten)]
     pub estimate: Estimate,
 }
 
+impl Parameter {
+    /// The machine key, e.g. "delta_h".
+    pub fn key(&self) -> &'static str {
+        self.info.key
+    }
+}
+
+impl Serialize for Parameter {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        use serde::ser::SerializeStruct;
+        let mut st = s.serialize_struct("Parameter", 5)?;
+        st.serialize_field("name", self.info.key)?;
+        st.serialize_field("value", &self.estimate.value)?;
+        st.serialize_field("se", &self.estimate.se)?;
+        st.serialize_field("ci_low", &self.estimate.ci_low)?;
+        st.serialize_field("ci_high", &self.estimate.ci_high)?;
+        st.end()
+    }
+}
+
 /// ΔH°, ΔS°, ΔG° (and ΔCp°) re-expressed at one temperature.
-#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct ThermoAt {
     /// The temperature in kelvin.
     pub t_k: f64,
@@ -99,12 +88,12 @@ pub struct ThermoAt {
     pub delta_s: Estimate,
     /// ΔG°(T) in J/mol.
     pub delta_g: Estimate,
-    /// ΔCp° in J mol⁻¹ K⁻¹ (ΔCp° model only).
+    /// ΔCp°(T) in J mol⁻¹ K⁻¹ (models with a heat capacity only).
     pub delta_cp: Option<Estimate>,
 }
 
 /// A finished van 't Hoff fit.
-#[derive(Debug, Clone, Serialize, Deserialize)]
+#[derive(Debug, Clone, Serialize)]
 pub struct VantHoffFit {
     /// The options the fit was made with.
     pub options: FitOptions,
@@ -116,7 +105,7 @@ pub struct VantHoffFit {
     pub dof: usize,
     /// Whether weights 1/σ² were applied.
     pub weighted: bool,
-    /// The fitted parameters in order ΔH°, ΔS°[, ΔCp°], SI units.
+    /// The fitted parameters in the model's order (ΔH°, ΔS°, …), SI units.
     pub params: Vec<Parameter>,
     /// Full covariance of the parameters, same order, SI units.
     pub covariance: Vec<Vec<f64>>,
@@ -150,7 +139,7 @@ pub struct VantHoffFit {
     pub t_at_k1: Option<Estimate>,
     /// Per-point diagnostics, in the order of the input slice.
     pub points: Vec<PointDiagnostics>,
-    /// Comparison of the linear and ΔCp° models on the same points, when enough points.
+    /// Comparison along the ladder of nested models on the same points, when enough points.
     pub comparison: Option<ModelComparison>,
     /// Cautions in words.
     pub warnings: Vec<Warning>,
@@ -196,7 +185,7 @@ impl VantHoffFit {
         self.options.model
     }
 
-    /// The coefficient vector β = (ΔH°, ΔS°[, ΔCp°]) in SI units.
+    /// The coefficient vector β in the model's parameter order, SI units.
     pub fn coefficients(&self) -> Vec<f64> {
         self.params.iter().map(|p| p.estimate.value).collect()
     }
@@ -211,9 +200,20 @@ impl VantHoffFit {
         self.params[1].estimate
     }
 
-    /// ΔCp°, J mol⁻¹ K⁻¹, for the ΔCp° model.
+    /// ΔCp° (at θ where it varies), J mol⁻¹ K⁻¹, for a model with a heat capacity.
     pub fn delta_cp(&self) -> Option<Estimate> {
-        self.params.get(2).map(|p| p.estimate)
+        self.params
+            .iter()
+            .find(|p| p.info.dimension == ParamDimension::HeatCapacity)
+            .map(|p| p.estimate)
+    }
+
+    /// The estimate of the parameter with this key ("delta_cp_slope", …), if the model has it.
+    pub fn param(&self, key: &str) -> Option<Estimate> {
+        self.params
+            .iter()
+            .find(|p| p.info.key == key)
+            .map(|p| p.estimate)
     }
 
     /// Indices (into the input slice) of points carrying any flag.

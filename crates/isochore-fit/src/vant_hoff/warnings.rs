@@ -4,7 +4,7 @@
 //! order.
 
 use super::result::VantHoffFit;
-use crate::model::{Model, SigmaConvention};
+use crate::model::SigmaConvention;
 use serde::{Deserialize, Serialize};
 
 /// |corr(ΔH°, ΔS°)| above which a warning explains the correlation (common practice:
@@ -109,16 +109,32 @@ pub(super) fn cautions(fit: &VantHoffFit, flagged: usize, leverage_one: bool) ->
         ));
     }
     if let Some(c) = &fit.comparison {
-        match (model, c.preferred) {
-            (Model::Linear, Model::ConstantCp) => warnings.push(Warning::new(
-                WarningKind::CurvatureIgnored,
-                format!("the van 't Hoff plot curves ({}); the linear model ignores this — consider the ΔCp° model", c.verdict),
-            )),
-            (Model::ConstantCp, Model::Linear) => warnings.push(Warning::new(
-                WarningKind::CurvatureUnsupported,
-                format!("the data do not support a non-zero ΔCp° ({}); the linear model is simpler and its ΔH° more precise", c.verdict),
-            )),
-            _ => {}
+        let ladder = model.ladder();
+        let rank = |m| ladder.iter().position(|&l| l == m);
+        if let (Some(fitted), Some(preferred)) = (rank(model), rank(c.preferred)) {
+            if preferred > fitted {
+                warnings.push(Warning::new(
+                    WarningKind::CurvatureIgnored,
+                    format!(
+                        "the van 't Hoff plot curves ({}); the {} model ignores this — consider the {} model",
+                        c.verdict,
+                        model.short_name(),
+                        c.preferred.short_name()
+                    ),
+                ));
+            } else if preferred < fitted {
+                // The first term the data do not support is the one the preferred model lacks.
+                let p = c.preferred.n_params();
+                let symbol = model.params().get(p).map_or("term", |i| i.symbol);
+                warnings.push(Warning::new(
+                    WarningKind::CurvatureUnsupported,
+                    format!(
+                        "the data do not support a non-zero {symbol} ({}); the {} model is simpler and its ΔH° more precise",
+                        c.verdict,
+                        c.preferred.short_name()
+                    ),
+                ));
+            }
         }
     }
     if let Some(pv) = fit.stats.chi2_p_value {

@@ -69,7 +69,7 @@ impl SettingsPanel {
                 let combo = egui::ComboBox::from_id_salt("model")
                     .selected_text(model_name(cur.fit.model))
                     .show_ui(ui, |ui| {
-                        for m in [Model::Linear, Model::ConstantCp] {
+                        for &m in Model::all() {
                             ui.selectable_value(&mut new.fit.model, m, model_name(m));
                         }
                     });
@@ -246,12 +246,9 @@ impl SettingsPanel {
     }
 }
 
-/// Plain name of a model.
+/// Plain name of a model: its description, the same words as the reports'.
 pub fn model_name(m: Model) -> &'static str {
-    match m {
-        Model::Linear => "linear (constant ΔH°)",
-        Model::ConstantCp => "with ΔCp° (curved)",
-    }
+    m.describe()
 }
 
 fn weighting_name(w: Weighting) -> &'static str {
