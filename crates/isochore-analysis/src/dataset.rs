@@ -1,0 +1,527 @@
+//! Data sets ready to fit: a file on disk (delimited text or a project file) or one data set
+//! of the window's document becomes a [`DataSet`] — the fit's measurements, where each point
+//! came from (row, line, cells as typed, why it is excluded), the fit options after the
+//! [weighting rule](crate::weighting) and the caller's [`Overrides`], the units to show,
+//! and the cautions from reading. The command line and the window both build theirs here.
+
+use crate::files::is_project_file;
+use crate::rows::RowNumber;
+use crate::weighting;
+use isochore_data::{DecimalMark, Import, ImportOptions, Project, ProjectSeries, RejectedRow};
+use isochore_fit::{
+    EnergyUnit, FitOptions, Measurement, Model, SigmaConvention, TemperatureUnit, Weighting,
+};
+use std::collections::BTreeMap;
+use std::fmt;
+use std::path::Path;
+
+/// The note given when replicates were averaged.
+pub const REPLICATES_NOTE: &str =
+    "replicates were averaged as the project asks; each point is named by its first row";
+
+/// Where one point of a data set came from.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PointOrigin {
+    /// The data row that names the point (the first of averaged replicates).
+    pub row: RowNumber,
+    /// Physical 1-based line of that row in its file (0 when unknown).
+    pub line: usize,
+    /// The row's cells as typed (empty unless asked for: they cost memory on huge files).
+    pub cells: Vec<String>,
+    /// Why the point is left out, when it is and a reason was given.
+    pub exclusion_reason: Option<String>,
+}
+
+/// One data set ready to fit.
+#[derive(Debug, Clone)]
+pub struct DataSet {
+    /// The input as the user named it (the path as given), for messages and JSON.
+    pub source: String,
+    /// Name of the file the data were read from.
+    pub file_name: String,
+    /// SHA-256 of that file's bytes.
+    pub sha256: String,
+    /// Name of the data set.
+    pub name: String,
+    /// Header cells as read.
+    pub headers: Vec<String>,
+    /// The unit conversions made, in words.
+    pub conversions: Vec<String>,
+    /// The points for the fit, in row order.
+    pub measurements: Vec<Measurement>,
+    /// Where each point came from (same order and count as `measurements`).
+    pub origins: Vec<PointOrigin>,
+    /// The fit options: the file's settings, the caller's overrides and the weighting rule.
+    pub options: FitOptions,
+    /// Energy unit for people.
+    pub energy_unit: EnergyUnit,
+    /// Temperature unit for people.
+    pub temperature_unit: TemperatureUnit,
+    /// Cautions from reading (skipped rows, replicates averaged, weighting adapted).
+    pub notes: Vec<String>,
+    /// Settings worth recording in reports (name, value), beyond the fit options.
+    pub settings: Vec<(String, String)>,
+}
+
+/// Rows to leave out of every data set read, with the reason and time recorded.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct Exclusions {
+    /// The rows, 1-based.
+    pub rows: Vec<RowNumber>,
+    /// The reason recorded with each.
+    pub reason: String,
+    /// When (recorded in a project's exclusions).
+    pub at: String,
+}
+
+/// What the caller lays over a file's own settings (the command line's options; the
+/// window passes none).
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct Overrides {
+    /// Model.
+    pub model: Option<Model>,
+    /// Reference temperature θ in kelvin.
+    pub t_ref_k: Option<f64>,
+    /// Confidence level.
+    pub level: Option<f64>,
+    /// Take σ as absolute.
+    pub absolute_sigma: bool,
+    /// Equal weights, every σ ignored.
+    pub unweighted: bool,
+    /// Accept temperatures (and θ) outside 1–10 000 K.
+    pub allow_extreme_temperatures: bool,
+    /// Energy unit for people.
+    pub energy_unit: Option<EnergyUnit>,
+    /// Decimal mark of delimited text.
+    pub decimal: DecimalMark,
+    /// Rows to leave out.
+    pub exclude: Exclusions,
+    /// Fit the good rows of a file with bad rows (otherwise the file is refused).
+    pub skip_bad_rows: bool,
+    /// Keep the cells as typed (for reports).
+    pub with_cells: bool,
+}
+
+impl Overrides {
+    /// `base` with these overrides applied.
+    pub fn apply(&self, base: FitOptions) -> FitOptions {
+        let mut o = base;
+        if let Some(m) = self.model {
+            o.model = m;
+        }
+        if let Some(t) = self.t_ref_k {
+            o.t_ref_k = t;
+        }
+        if let Some(l) = self.level {
+            o.level = l;
+        }
+        if self.absolute_sigma {
+            o.convention = SigmaConvention::Absolute;
+        }
+        if self.unweighted {
+            o.weighting = Weighting::Unweighted;
+        }
+        if self.allow_extreme_temperatures {
+            o.allow_extreme_temperatures = true;
+        }
+        o
+    }
+
+    fn import_options(&self) -> ImportOptions {
+        ImportOptions {
+            decimal: self.decimal,
+            allow_extreme_temperatures: self.allow_extreme_temperatures,
+            ..ImportOptions::default()
+        }
+    }
+}
+
+/// A setting that settles a refusal: the command line names its flag, the window offers a
+/// control.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Remedy {
+    /// State the decimal mark of the file.
+    StateDecimalMark,
+    /// Fit with equal weights (every σ ignored).
+    FitUnweighted,
+    /// Confirm temperatures (or θ) outside 1–10 000 K.
+    ConfirmExtremeTemperatures,
+    /// Fit the good rows and list the bad ones.
+    SkipBadRows,
+}
+
+impl Remedy {
+    /// The remedy for a refusal by isochore-data, if a setting settles it.
+    pub fn for_data(e: &isochore_data::Error) -> Option<Remedy> {
+        match e {
+            isochore_data::Error::DecimalMark { .. } => Some(Remedy::StateDecimalMark),
+            isochore_data::Error::MissingSigma { .. } => Some(Remedy::FitUnweighted),
+            isochore_data::Error::ProjectRow { rejected, .. } => Remedy::for_row(rejected),
+            _ => None,
+        }
+    }
+
+    /// The remedy for one rejected row, if a setting settles it.
+    pub fn for_row(r: &RejectedRow) -> Option<Remedy> {
+        matches!(
+            r.problem,
+            isochore_data::RowProblem::ImplausibleTemperature { .. }
+        )
+        .then_some(Remedy::ConfirmExtremeTemperatures)
+    }
+
+    /// The remedy for a refusal by isochore-fit, if a setting settles it.
+    pub fn for_fit(e: &isochore_fit::Error) -> Option<Remedy> {
+        match e {
+            isochore_fit::Error::ImplausibleTemperature { .. }
+            | isochore_fit::Error::ImplausibleReferenceTemperature(_) => {
+                Some(Remedy::ConfirmExtremeTemperatures)
+            }
+            isochore_fit::Error::MissingSigma { .. } => Some(Remedy::FitUnweighted),
+            _ => None,
+        }
+    }
+}
+
+/// Why an input could not be turned into data sets. Each message names the input by the
+/// path as given.
+#[derive(Debug, Clone)]
+pub enum LoadError {
+    /// isochore-data refused the file or one of its data sets.
+    Data {
+        /// The input as given.
+        source: String,
+        /// isochore-data's error (line and column where there is one).
+        error: isochore_data::Error,
+    },
+    /// Rows that could not be read (the file is refused unless bad rows may be skipped).
+    BadRows {
+        /// The input as given.
+        source: String,
+        /// Every rejected row, in file order (at least one).
+        rejected: Vec<RejectedRow>,
+    },
+    /// A row to exclude that the data set does not have.
+    NoSuchRow {
+        /// The input as given.
+        source: String,
+        /// The data set.
+        series: String,
+        /// The row asked for.
+        row: RowNumber,
+        /// How many rows the data set has.
+        rows: usize,
+    },
+    /// Nothing to fit.
+    Empty {
+        /// The input as given.
+        source: String,
+        /// Whether the input is a project file.
+        project: bool,
+    },
+}
+
+impl LoadError {
+    /// The setting that settles this refusal, if there is one.
+    pub fn remedy(&self) -> Option<Remedy> {
+        match self {
+            LoadError::Data { error, .. } => Remedy::for_data(error),
+            LoadError::BadRows { .. } => Some(Remedy::SkipBadRows),
+            _ => None,
+        }
+    }
+}
+
+/// A message from isochore-data, which names the file by its base name, named instead by the
+/// path as given, so `d1/x.csv` and `d2/x.csv` are told apart.
+pub fn named_by_path(message: &str, shown: &str) -> String {
+    let base = Path::new(shown)
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_default();
+    match message.strip_prefix(&format!("{base}:")) {
+        Some(rest) if !base.is_empty() && !message.starts_with(&format!("{shown}:")) => {
+            format!("{shown}:{rest}")
+        }
+        _ if message.contains(shown) => message.to_string(),
+        _ => format!("{shown}: {message}"),
+    }
+}
+
+impl fmt::Display for LoadError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self {
+            LoadError::Data { source, error } => {
+                f.write_str(&named_by_path(&error.to_string(), source))
+            }
+            LoadError::BadRows { source, rejected } => {
+                let first = rejected.first().map(RejectedRow::message).unwrap_or_default();
+                write!(f, "{source}: {first}")?;
+                if rejected.len() > 1 {
+                    write!(f, " ({} bad rows in all)", rejected.len())?;
+                }
+                Ok(())
+            }
+            LoadError::NoSuchRow {
+                source,
+                series,
+                row,
+                rows,
+            } => write!(
+                f,
+                "{source}: series '{series}': row {row} is to be excluded, but the series has {rows} data rows"
+            ),
+            LoadError::Empty { source, project } => {
+                if *project {
+                    write!(f, "{source}: the project holds no data sets")
+                } else {
+                    write!(f, "{source}: no data rows to fit")
+                }
+            }
+        }
+    }
+}
+
+impl std::error::Error for LoadError {}
+
+/// Reads one input into data sets (one per data set of the file): a project file (see
+/// [`is_project_file`]) with its series, exclusions and settings, or delimited text.
+///
+/// # Errors
+/// [`LoadError`], naming the input by the path as given.
+pub fn load(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
+    if is_project_file(path) {
+        load_project(path, o)
+    } else {
+        load_text(path, o)
+    }
+}
+
+fn load_text(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
+    let source = path.display().to_string();
+    let data_error = |error| LoadError::Data {
+        source: source.clone(),
+        error,
+    };
+    let imp: Import = isochore_data::import_path(path, &o.import_options()).map_err(data_error)?;
+    let mut notes = Vec::new();
+    if !imp.rejected.is_empty() {
+        if !o.skip_bad_rows {
+            return Err(LoadError::BadRows {
+                source,
+                rejected: imp.rejected.clone(),
+            });
+        }
+        notes.extend(imp.rejected.iter().map(|r| format!("skipped {}", r.message())));
+    }
+    let excluded: Vec<usize> = o.exclude.rows.iter().map(|r| r.get()).collect();
+    let requested = o.apply(FitOptions::default());
+    let conversions = imp.describe_mapping();
+    let mut sets = Vec::with_capacity(imp.series.len());
+    for (i, s) in imp.series.iter().enumerate() {
+        if let Some(&row) = o.exclude.rows.iter().find(|r| r.get() > s.rows.len()) {
+            return Err(LoadError::NoSuchRow {
+                source,
+                series: s.name.clone(),
+                row,
+                rows: s.rows.len(),
+            });
+        }
+        let weighed = weighting::for_import(&imp, i, requested).map_err(data_error)?;
+        let points = s.points(&excluded);
+        let mut measurements = Vec::with_capacity(points.len());
+        let mut origins = Vec::with_capacity(points.len());
+        let mut averaged = false;
+        for p in &points {
+            averaged |= p.rows.len() > 1;
+            let row = RowNumber::from_index(p.rows.first().map_or(0, |&r| r.saturating_sub(1)));
+            let raw = s.rows.get(row.index());
+            measurements.push(p.measurement);
+            origins.push(PointOrigin {
+                row,
+                line: raw.map_or(0, |r| r.line()),
+                cells: match (o.with_cells, raw) {
+                    (true, Some(r)) => imp.cells(r),
+                    _ => Vec::new(),
+                },
+                exclusion_reason: (!p.measurement.included)
+                    .then(|| o.exclude.reason.clone())
+                    .filter(|r| !r.is_empty()),
+            });
+        }
+        let mut set = DataSet {
+            source: source.clone(),
+            file_name: imp.source.name.clone(),
+            sha256: imp.source.sha256.clone(),
+            name: s.name.clone(),
+            headers: imp.headers.clone(),
+            conversions: conversions.clone(),
+            measurements,
+            origins,
+            options: weighed.options,
+            energy_unit: o.energy_unit.unwrap_or(EnergyUnit::KilojoulePerMole),
+            temperature_unit: imp.mapping.temperature.unit,
+            notes: notes.clone(),
+            settings: vec![replicates_setting(s.replicates)],
+        };
+        set.finish(averaged, weighed.note);
+        sets.push(set);
+    }
+    if sets.is_empty() {
+        return Err(LoadError::Empty {
+            source,
+            project: false,
+        });
+    }
+    Ok(sets)
+}
+
+fn load_project(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
+    let source = path.display().to_string();
+    let data_error = |error| LoadError::Data {
+        source: source.clone(),
+        error,
+    };
+    let mut project = Project::load(path).map_err(data_error)?;
+    let mut sets = Vec::with_capacity(project.series.len());
+    for s in &mut project.series {
+        for r in &o.exclude.rows {
+            s.exclude(r.get(), &o.exclude.reason, &o.exclude.at)
+                .map_err(data_error)?;
+        }
+        if o.allow_extreme_temperatures {
+            s.settings.fit.allow_extreme_temperatures = true;
+        }
+        let mut set = DataSet::from_project_series(s, &source, o)?;
+        set.settings
+            .insert(0, ("project file".to_string(), source.clone()));
+        sets.push(set);
+    }
+    if sets.is_empty() {
+        return Err(LoadError::Empty {
+            source,
+            project: true,
+        });
+    }
+    Ok(sets)
+}
+
+fn replicates_setting(r: isochore_data::Replicates) -> (String, String) {
+    ("replicates".to_string(), format!("{r:?}").to_lowercase())
+}
+
+impl DataSet {
+    /// One data set of a project (or of the window's document), its settings overlaid by
+    /// `o` (exclusions in `o` are not applied here: they belong in the series' own list).
+    /// `source` names the input in messages.
+    ///
+    /// # Errors
+    /// [`LoadError::Data`]: a cell that no longer converts, or σ in some rows only under
+    /// inverse-variance weights (line and column named).
+    pub fn from_project_series(
+        s: &ProjectSeries,
+        source: &str,
+        o: &Overrides,
+    ) -> Result<DataSet, LoadError> {
+        let data_error = |error| LoadError::Data {
+            source: source.to_string(),
+            error,
+        };
+        let weighed =
+            weighting::for_project_series(s, o.apply(s.settings.fit)).map_err(data_error)?;
+        let points = s.points().map_err(data_error)?;
+        let reasons: BTreeMap<usize, &str> = s
+            .exclusions
+            .iter()
+            .map(|e| (e.row, e.reason.as_str()))
+            .collect();
+        let mut measurements = Vec::with_capacity(points.len());
+        let mut origins = Vec::with_capacity(points.len());
+        let mut averaged = false;
+        for p in &points {
+            averaged |= p.rows.len() > 1;
+            let row = RowNumber::from_index(p.rows.first().map_or(0, |&r| r.saturating_sub(1)));
+            let raw = s.rows.get(row.index());
+            measurements.push(p.measurement);
+            origins.push(PointOrigin {
+                row,
+                line: raw.map_or(0, |r| r.line),
+                cells: match (o.with_cells, raw) {
+                    (true, Some(r)) => r.cells.clone(),
+                    _ => Vec::new(),
+                },
+                exclusion_reason: if p.measurement.included {
+                    None
+                } else {
+                    p.rows
+                        .iter()
+                        .find_map(|r| reasons.get(r).copied())
+                        .filter(|r| !r.is_empty())
+                        .map(str::to_string)
+                },
+            });
+        }
+        let mut set = DataSet {
+            source: source.to_string(),
+            file_name: s.source.name.clone(),
+            sha256: s.source.sha256.clone(),
+            name: s.name.clone(),
+            headers: s.headers.clone(),
+            conversions: s.mapping.describe(&s.headers),
+            measurements,
+            origins,
+            options: weighed.options,
+            energy_unit: o.energy_unit.unwrap_or(s.settings.energy_unit),
+            temperature_unit: s.settings.temperature_unit,
+            notes: Vec::new(),
+            settings: vec![replicates_setting(s.settings.replicates)],
+        };
+        set.finish(averaged, weighed.note);
+        Ok(set)
+    }
+
+    fn finish(&mut self, averaged: bool, weighting_note: Option<&str>) {
+        if averaged {
+            self.notes.push(REPLICATES_NOTE.to_string());
+        }
+        self.notes.extend(weighting_note.map(str::to_string));
+    }
+
+    /// Fits the data set with isochore-fit.
+    ///
+    /// # Errors
+    /// isochore-fit's refusal, with the data set named.
+    pub fn fit(&self) -> Result<isochore_fit::VantHoffFit, FitFailure> {
+        isochore_fit::fit(&self.measurements, &self.options).map_err(|error| FitFailure {
+            source: self.source.clone(),
+            series: self.name.clone(),
+            error,
+        })
+    }
+}
+
+/// A data set isochore-fit refused.
+#[derive(Debug, Clone)]
+pub struct FitFailure {
+    /// The input as given.
+    pub source: String,
+    /// The data set.
+    pub series: String,
+    /// isochore-fit's reason.
+    pub error: isochore_fit::Error,
+}
+
+impl FitFailure {
+    /// The setting that settles this refusal, if there is one.
+    pub fn remedy(&self) -> Option<Remedy> {
+        Remedy::for_fit(&self.error)
+    }
+}
+
+impl fmt::Display for FitFailure {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(f, "{}: series '{}': {}", self.source, self.series, self.error)
+    }
+}
+
+impl std::error::Error for FitFailure {}

@@ -1,0 +1,396 @@
+//! The JSON contract, as typed serde structs: `fit --json` ([`FitJson`], one object per data
+//! set, or an array with `"source"` fields and [`ErrorJson`] entries), `predict --json`
+//! ([`predict`]) and `two-point --json` ([`two_point`]).
+//!
+//! SI units throughout (J/mol, J mol⁻¹ K⁻¹, K). Never NaN or Infinity: an undefined number is
+//! written as null, and a warning names every such value ([`Nulls`]). A value whose own number
+//! is undefined has every statistic null too (a standard error of an undefined number means
+//! nothing). Parameters are written by looping over the fit's parameters, so a model with
+//! another parameter appears under its key without new code here.
+//!
+//! The points of a fit are streamed ([`PointsJson`]), so a 10⁶-row file never holds its whole
+//! document in memory.
+
+pub mod predict;
+pub mod two_point;
+
+use crate::dataset::DataSet;
+use crate::report::VERSION;
+use crate::rows::RowNumber;
+use isochore_fit::{Estimate, Flags, VantHoffFit};
+use serde::ser::{SerializeMap, Serializer};
+use serde::Serialize;
+use std::io::{self, Write};
+
+/// Turns numbers into JSON values, null when not finite, and remembers which were null.
+#[derive(Debug, Default)]
+pub struct Nulls {
+    undefined: Vec<String>,
+}
+
+impl Nulls {
+    /// Nothing undefined yet.
+    pub fn new() -> Self {
+        Nulls::default()
+    }
+
+    /// `v`, or null (remembered under the name `what` gives) when it is not finite.
+    pub fn num(&mut self, what: impl FnOnce() -> String, v: f64) -> Option<f64> {
+        if v.is_finite() {
+            Some(v)
+        } else {
+            self.undefined.push(what());
+            None
+        }
+    }
+
+    /// An optional number: null when absent (not remembered) or not finite (remembered).
+    pub fn opt(&mut self, what: impl FnOnce() -> String, v: Option<f64>) -> Option<f64> {
+        v.and_then(|x| self.num(what, x))
+    }
+
+    /// A value with its statistics under the rule of the module: when the value is not
+    /// finite, all are null and `what` is remembered once; otherwise each statistic that is
+    /// not finite is null and remembered as `what.name`.
+    pub fn stats<const N: usize>(
+        &mut self,
+        what: &str,
+        value: f64,
+        stats: [(&str, f64); N],
+    ) -> (Option<f64>, [Option<f64>; N]) {
+        if !value.is_finite() {
+            self.undefined
+                .push(format!("{what} (value and all its statistics)"));
+            return (None, [None; N]);
+        }
+        let out = stats.map(|(name, v)| self.num(|| format!("{what}.{name}"), v));
+        (Some(value), out)
+    }
+
+    /// An estimate under the rule of [`Nulls::stats`].
+    pub fn estimate(&mut self, what: &str, e: &Estimate) -> EstimateJson {
+        let (value, [se, ci_low, ci_high]) = self.stats(
+            what,
+            e.value,
+            [("se", e.se), ("ci_low", e.ci_low), ("ci_high", e.ci_high)],
+        );
+        EstimateJson {
+            value,
+            se,
+            ci_low,
+            ci_high,
+        }
+    }
+
+    /// The warning naming every undefined value (the first 20, then a count), or `None`.
+    pub fn warning(&self) -> Option<String> {
+        if self.undefined.is_empty() {
+            return None;
+        }
+        let shown: Vec<&str> = self.undefined.iter().take(20).map(String::as_str).collect();
+        let more = self.undefined.len() - shown.len();
+        Some(format!(
+            "undefined value(s) written as null: {}{}",
+            shown.join(", "),
+            if more > 0 {
+                format!(" and {more} more")
+            } else {
+                String::new()
+            }
+        ))
+    }
+}
+
+/// `{value, se, ci_low, ci_high}`.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct EstimateJson {
+    /// The value.
+    pub value: Option<f64>,
+    /// Its standard error.
+    pub se: Option<f64>,
+    /// Lower confidence limit.
+    pub ci_low: Option<f64>,
+    /// Upper confidence limit.
+    pub ci_high: Option<f64>,
+}
+
+impl EstimateJson {
+    /// An estimate where nobody collects warnings (the rule of [`Nulls::stats`] still holds).
+    pub fn of(e: &Estimate) -> EstimateJson {
+        Nulls::new().estimate("", e)
+    }
+}
+
+/// The fitted parameters, written as an object keyed by each parameter's key, in the
+/// model's order.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ParamsJson(pub Vec<(&'static str, EstimateJson)>);
+
+impl Serialize for ParamsJson {
+    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        let mut m = s.serialize_map(Some(self.0.len()))?;
+        for (k, v) in &self.0 {
+            m.serialize_entry(k, v)?;
+        }
+        m.end()
+    }
+}
+
+/// `model_comparison`: the first step up the ladder of nested models, and the model the
+/// evidence prefers.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct ComparisonJson {
+    /// p-value of the F-test.
+    pub f_p_value: Option<f64>,
+    /// ΔAICc (larger − smaller model); null with too few points.
+    pub delta_aicc: Option<f64>,
+    /// Key of the preferred model.
+    pub preferred: &'static str,
+}
+
+/// `t_at_k1`: the temperature where K = 1.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct TAtK1Json {
+    /// Kelvin.
+    pub value: Option<f64>,
+    /// Standard error, K.
+    pub se: Option<f64>,
+    /// Whether it lies outside the measured range.
+    pub extrapolated: bool,
+}
+
+/// One element of `points`.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct PointJson<'a> {
+    /// The 1-based data row (the first of averaged replicates).
+    pub row: RowNumber,
+    /// The data set's name.
+    pub series: &'a str,
+    /// Temperature, K.
+    pub t_k: Option<f64>,
+    /// ln K.
+    pub ln_k: Option<f64>,
+    /// σ(ln K); null for an unweighted fit.
+    pub sigma_ln_k: Option<f64>,
+    /// Whether the point took part in the fit.
+    pub used: bool,
+    /// Fitted ln K.
+    pub fitted: Option<f64>,
+    /// Residual.
+    pub residual: Option<f64>,
+    /// Internally studentized residual (null for excluded points).
+    pub student_int: Option<f64>,
+    /// Externally studentized residual.
+    pub student_ext: Option<f64>,
+    /// Leverage.
+    pub leverage: Option<f64>,
+    /// Cook's distance.
+    pub cooks_d: Option<f64>,
+    /// DFFITS.
+    pub dffits: Option<f64>,
+    /// Zero or more of "outlier", "high_leverage", "influential".
+    pub flags: &'a Flags,
+}
+
+/// The points of a fit, streamed: each element is built as it is written.
+pub struct PointsJson<'a> {
+    set: &'a DataSet,
+    fit: &'a VantHoffFit,
+}
+
+impl PointsJson<'_> {
+    fn each<'n>(&'n self, n: &'n mut Nulls) -> impl Iterator<Item = PointJson<'n>> + 'n {
+        let set = self.set;
+        set.origins
+            .iter()
+            .zip(&self.fit.points)
+            .map(move |(o, d)| {
+                let row = o.row;
+                let at = |field: &'static str| move || format!("points[row {row}].{field}");
+                PointJson {
+                    row,
+                    series: &set.name,
+                    t_k: n.num(at("t_k"), d.t_k),
+                    ln_k: n.num(at("ln_k"), d.ln_k),
+                    sigma_ln_k: n.opt(at("sigma_ln_k"), d.sigma_ln_k),
+                    used: d.used,
+                    fitted: n.num(at("fitted"), d.fitted),
+                    residual: n.num(at("residual"), d.residual),
+                    student_int: n.opt(at("student_int"), d.student_int),
+                    student_ext: n.opt(at("student_ext"), d.student_ext),
+                    leverage: n.num(at("leverage"), d.leverage),
+                    cooks_d: n.opt(at("cooks_d"), d.cooks_d),
+                    dffits: n.opt(at("dffits"), d.dffits),
+                    flags: &d.flags,
+                }
+            })
+    }
+}
+
+impl Serialize for PointsJson<'_> {
+    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        // The undefined values were counted when the document was built; this pass only
+        // writes.
+        let mut scratch = Nulls::new();
+        s.collect_seq(self.each(&mut scratch))
+    }
+}
+
+/// One fit in the JSON contract of `isochore fit --json`.
+#[derive(Serialize)]
+pub struct FitJson<'a> {
+    /// The input as given (in arrays only).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub source: Option<&'a str>,
+    /// The model's key.
+    pub model: &'static str,
+    /// θ, K.
+    pub t_ref_k: Option<f64>,
+    /// Confidence level.
+    pub level: Option<f64>,
+    /// Points used.
+    pub n_used: usize,
+    /// Residual degrees of freedom.
+    pub dof: usize,
+    /// The parameters, by key.
+    pub params: ParamsJson,
+    /// Covariance of the parameters, in the model's order.
+    pub cov: Vec<Vec<Option<f64>>>,
+    /// Correlation of ΔH° and ΔS°.
+    pub corr_h_s: Option<f64>,
+    /// Residual standard deviation.
+    pub residual_sd: Option<f64>,
+    /// R².
+    pub r2: Option<f64>,
+    /// χ².
+    pub chi2: Option<f64>,
+    /// χ²/(n − p).
+    pub reduced_chi2: Option<f64>,
+    /// AICc (null with too few points).
+    pub aicc: Option<f64>,
+    /// BIC.
+    pub bic: Option<f64>,
+    /// The comparison of nested models (null with too few points).
+    pub model_comparison: Option<ComparisonJson>,
+    /// Per-point values (left out by `--summary`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub points: Option<PointsJson<'a>>,
+    /// The temperature where K = 1.
+    pub t_at_k1: Option<TAtK1Json>,
+    /// Cautions in words: from reading, from the fit, and undefined values.
+    pub warnings: Vec<String>,
+    /// The program's version.
+    pub version: &'static str,
+}
+
+impl<'a> FitJson<'a> {
+    /// The document of one fitted data set. `source` adds the "source" field (in arrays);
+    /// `with_points` adds "points".
+    pub fn new(
+        set: &'a DataSet,
+        fit: &'a VantHoffFit,
+        source: Option<&'a str>,
+        with_points: bool,
+    ) -> FitJson<'a> {
+        let mut n = Nulls::new();
+        let name = |s: &'static str| move || s.to_string();
+        let t_ref_k = n.num(name("t_ref_k"), fit.options.t_ref_k);
+        let level = n.num(name("level"), fit.options.level);
+        let params = ParamsJson(
+            fit.params
+                .iter()
+                .map(|p| (p.key(), n.estimate(p.key(), &p.estimate)))
+                .collect(),
+        );
+        let cov = fit
+            .covariance
+            .iter()
+            .enumerate()
+            .map(|(a, row)| {
+                row.iter()
+                    .enumerate()
+                    .map(|(b, v)| n.num(|| format!("cov[{a}][{b}]"), *v))
+                    .collect()
+            })
+            .collect();
+        let s = &fit.stats;
+        let corr_h_s = n.num(name("corr_h_s"), fit.corr_h_s);
+        let residual_sd = n.num(name("residual_sd"), s.residual_sd);
+        let r2 = n.num(name("r2"), s.r2);
+        let chi2 = n.num(name("chi2"), s.chi2);
+        let reduced_chi2 = n.num(name("reduced_chi2"), s.reduced_chi2);
+        let aicc = n.opt(name("aicc"), s.aicc);
+        let bic = n.num(name("bic"), s.bic);
+        let model_comparison = fit.comparison.as_ref().map(|c| ComparisonJson {
+            f_p_value: n.num(name("model_comparison.f_p_value"), c.f_p_value),
+            delta_aicc: n.opt(name("model_comparison.delta_aicc"), c.delta_aicc),
+            preferred: c.preferred.key(),
+        });
+        let points = with_points.then_some(PointsJson { set, fit });
+        if let Some(p) = &points {
+            // Counts the undefined values of the points, in row order.
+            p.each(&mut n).for_each(drop);
+        }
+        let t_at_k1 = fit.t_at_k1.as_ref().map(|e| TAtK1Json {
+            value: n.num(name("t_at_k1.value"), e.value),
+            se: n.num(name("t_at_k1.se"), e.se),
+            extrapolated: fit.is_extrapolation(e.value),
+        });
+        let mut warnings = set.notes.clone();
+        warnings.extend(fit.warnings.iter().map(|w| w.message.clone()));
+        warnings.extend(n.warning());
+        FitJson {
+            source,
+            model: fit.model().key(),
+            t_ref_k,
+            level,
+            n_used: fit.n_used,
+            dof: fit.dof,
+            params,
+            cov,
+            corr_h_s,
+            residual_sd,
+            r2,
+            chi2,
+            reduced_chi2,
+            aicc,
+            bic,
+            model_comparison,
+            points,
+            t_at_k1,
+            warnings,
+            version: VERSION,
+        }
+    }
+}
+
+/// An input that could not be used, as an element of a batch array.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct ErrorJson<'a> {
+    /// The input as given.
+    pub source: &'a str,
+    /// Why, in words.
+    pub error: &'a str,
+}
+
+/// Writes one fit as a JSON object (see [`FitJson::new`]).
+///
+/// # Errors
+/// The writer's.
+pub fn write_fit(
+    w: &mut impl Write,
+    set: &DataSet,
+    fit: &VantHoffFit,
+    source: Option<&str>,
+    with_points: bool,
+) -> io::Result<()> {
+    serde_json::to_writer(w, &FitJson::new(set, fit, source, with_points)).map_err(io::Error::from)
+}
+
+/// Writes an error element of a batch: `{"source": …, "error": …}`.
+///
+/// # Errors
+/// The writer's.
+pub fn write_error(w: &mut impl Write, source: &str, error: &str) -> io::Result<()> {
+    serde_json::to_writer(w, &ErrorJson { source, error }).map_err(io::Error::from)
+}

@@ -1,0 +1,36 @@
+//! # isochore-analysis
+//!
+//! The application layer of Isochore, between the data and fit crates and the two front ends
+//! (the `isochore` command line and the desktop window). Data flow one way: bytes →
+//! isochore-data → isochore-fit → here → report, window, command line. Every rule both front
+//! ends follow lives here once:
+//!
+//! - [`weighting`]: the weighting a data set gets (no σ at all: unweighted, with a note;
+//!   σ in some rows only: refused with the line and column of the first empty cell).
+//! - [`files`]: how a project file is recognised, and the names of report files.
+//! - [`rows`]: row numbers, 1-based for people, converted to 0-based indices in one place.
+//! - [`dataset`]: a file or a project's data set turned into a [`DataSet`] ready to fit, the
+//!   caller's [`Overrides`] laid over the file's settings, and typed refusals that name the
+//!   [`Remedy`] (the command line names its flag, the window offers a control).
+//! - [`report`]: the report input of a fitted data set, its title and the program line.
+//! - [`json`]: the JSON contract as typed serde structs.
+//!
+//! No statistics (isochore-fit), no parsing of files (isochore-data), no drawing
+//! (isochore-report, the window), and nothing that knows about command-line flags or widgets.
+
+#![deny(missing_docs)]
+
+pub mod dataset;
+pub mod files;
+pub mod json;
+pub mod report;
+pub mod rows;
+pub mod weighting;
+
+pub use dataset::{
+    load, DataSet, Exclusions, FitFailure, LoadError, Overrides, PointOrigin, Remedy,
+};
+pub use files::{is_project_file, ReportStems, PROJECT_SUFFIX};
+pub use report::{report_input, report_title, VERSION};
+pub use rows::RowNumber;
+pub use weighting::{SigmaCoverage, Weighed};
