@@ -47,7 +47,8 @@ SERIES = [(T_A, LNK_A, SIG_A), (T_B, LNK_B, SIG_B)]
 
 def out(name, values):
     values = np.atleast_1d(values)
-    print(name + " " + " ".join(f"{v:.17g}" for v in values))
+    # Shortest digits that round-trip to the same double (at most 17 significant).
+    print(name + " " + " ".join(repr(float(v)) for v in values))
 
 
 def design(shared_gamma):
