@@ -500,7 +500,7 @@ fn check_single_series(model: Model, weighting: Weighting) {
 
 #[test]
 fn one_series_is_the_single_fit() {
-    for model in [Model::LINEAR, Model::CONSTANT_CP] {
+    for model in [Model::LINEAR, Model::CONSTANT_CP, Model::CLARKE_GLEW] {
         for weighting in [Weighting::InverseVariance, Weighting::Unweighted] {
             check_single_series(model, weighting);
         }
