@@ -395,12 +395,13 @@ fn unweighted_shared_cp_equals_statsmodels_ols() {
 /// One series, every parameter per series, is the single fit: estimates, SEs, covariance,
 /// statistics and every point's diagnostics (an excluded point included). The single fit
 /// may take its streaming path, so agreement is to rounding, not to the bit.
-fn check_single_series(model: Model, weighting: Weighting) {
+fn check_single_series(model: Model, weighting: Weighting, convention: SigmaConvention) {
     let mut pts = series(&T_A, &LNK_A, &SIG_A);
     pts[3] = pts[3].excluded();
     let opts = FitOptions {
         model,
         weighting,
+        convention,
         ..cp_options(weighting)
     };
     let single = fit(&pts, &opts).unwrap();
@@ -413,8 +414,10 @@ fn check_single_series(model: Model, weighting: Weighting) {
     ] {
         let g = fit_global(&input, &sharing, &opts).unwrap();
         let rel = 1e-12;
-        let what = format!("{} {:?}", model.key(), weighting);
+        let what = format!("{} {:?} {:?}", model.key(), weighting, convention);
         assert_eq!(g.n_params(), model.n_params(), "{what}");
+        close(&what, g.critical_value(), single.critical_value, rel);
+        close(&what, g.variance_scale(), single.variance_scale, rel);
         for (k, p) in single.params.iter().enumerate() {
             let e = g.estimates()[k];
             close(&format!("{what} value {k}"), e.value, p.estimate.value, rel);
@@ -502,7 +505,9 @@ fn check_single_series(model: Model, weighting: Weighting) {
 fn one_series_is_the_single_fit() {
     for model in [Model::LINEAR, Model::CONSTANT_CP, Model::CLARKE_GLEW] {
         for weighting in [Weighting::InverseVariance, Weighting::Unweighted] {
-            check_single_series(model, weighting);
+            for convention in [SigmaConvention::ScaledByFit, SigmaConvention::Absolute] {
+                check_single_series(model, weighting, convention);
+            }
         }
     }
 }

@@ -4,7 +4,7 @@
 //! Column j of the design is (parameter k, series s) for a per-series parameter or
 //! (parameter k, shared); a shared column carries the model's column value in every
 //! series' rows, a per-series column only in its own series' rows and zero elsewhere
-//! ([`design`]). The design is solved by the general Householder-QR solver of
+//! (`design.rs`). The design is solved by the general Householder-QR solver of
 //! [`crate::least_squares`], weighted by 1/σ² and scaled as a single fit is
 //! ([`crate::SigmaConvention`]); the statistics and the per-point diagnostics are those of a
 //! single fit, computed by the same functions on the block design. A single series with
