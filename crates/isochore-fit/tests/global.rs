@@ -512,6 +512,35 @@ fn one_series_is_the_single_fit() {
     }
 }
 
+/// Every parameter shared is one fit of the pooled points: the same estimates, SEs and
+/// χ², and each point's diagnostics under its series.
+#[test]
+fn all_shared_is_the_pooled_single_fit() {
+    let a = series(&T_A, &LNK_A, &SIG_A);
+    let b = series(&T_B, &LNK_B, &SIG_B);
+    let pooled: Vec<Measurement> = a.iter().chain(&b).copied().collect();
+    let opts = cp_options(Weighting::InverseVariance);
+    let single = fit(&pooled, &opts).unwrap();
+    let all_shared = ["delta_h", "delta_s", "delta_cp"]
+        .iter()
+        .fold(SharingMap::per_series(), |m, k| m.with(k, Sharing::Shared));
+    let input = [SeriesInput::new("A", &a), SeriesInput::new("B", &b)];
+    let g = fit_global(&input, &all_shared, &opts).unwrap();
+    let rel = 1e-11;
+    for (k, p) in single.params.iter().enumerate() {
+        let e = g.shared(p.key()).unwrap();
+        close(&format!("value {k}"), e.value, p.estimate.value, rel);
+        close(&format!("SE {k}"), e.se, p.estimate.se, rel);
+    }
+    close("χ²", g.statistics().chi2, single.stats.chi2, rel);
+    for ((s, d), p) in g.all_points().zip(&single.points) {
+        let index = if s == 0 { d.index } else { d.index + a.len() };
+        assert_eq!(index, p.index);
+        close("leverage", d.leverage, p.leverage, rel);
+        close("Cook's", d.cooks_d.unwrap(), p.cooks_d.unwrap(), 1e-9);
+    }
+}
+
 #[test]
 fn singular_sharing_is_a_typed_error() {
     let a = series(&T_A, &LNK_A, &SIG_A);
