@@ -31,6 +31,7 @@ pub enum Command {
 /// The parser of `--model`: the command-line names of the shipped models (`linear`, `cp`,
 /// `clarke-glew`), listed from the fit crate so that a new model needs no change here.
 fn model_parser() -> impl clap::builder::TypedValueParser<Value = isochore_fit::Model> {
+    use clap::builder::TypedValueParser;
     let names: Vec<clap::builder::PossibleValue> = isochore_fit::Model::all()
         .iter()
         .map(|m| clap::builder::PossibleValue::new(m.cli_name()).help(m.describe()))

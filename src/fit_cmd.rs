@@ -3,94 +3,37 @@
 //! table or streamed as the JSON contract, and reports written atomically.
 
 use crate::cli::FitArgs;
-use crate::load::{load, Job};
+use crate::load::{hint, load, Job};
 use crate::output::{self, Style};
-use crate::{json, table, Failure};
+use crate::{table, Failure};
+use isochore_analysis::json;
+use isochore_analysis::ReportStems;
 use isochore_fit::VantHoffFit;
 use isochore_report::{OverwriteGuard, ReportFormat, ReportInput};
-use std::collections::HashSet;
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
-/// Fits one job with the library.
+/// Fits one data set with the library; a refusal names the flag that settles it.
 pub fn fit_job(job: &Job) -> Result<VantHoffFit, String> {
-    isochore_fit::fit(&job.measurements(), &job.options).map_err(|e| {
-        let hint = match e {
-            isochore_fit::Error::ImplausibleTemperature { .. }
-            | isochore_fit::Error::ImplausibleReferenceTemperature(_) => crate::load::EXTREME_HINT,
-            _ => "",
-        };
-        format!("{}: series '{}': {e}{hint}", job.source, job.series)
-    })
+    job.fit().map_err(|e| format!("{e}{}", hint(e.remedy())))
 }
 
-/// The report input for a fitted job.
+/// The report input for a fitted data set: isochore-analysis' with this command line
+/// recorded among the settings.
 pub fn report_input(job: &Job, fit: VantHoffFit) -> ReportInput {
-    let mut settings = job.settings.clone();
     let args: Vec<String> = std::env::args().skip(1).collect();
-    settings.push((
+    let command = (
         "command line".to_string(),
         format!("isochore {}", args.join(" ")),
-    ));
-    for w in &job.warnings {
-        settings.push(("reading".to_string(), w.clone()));
-    }
-    ReportInput {
-        title: format!("Van 't Hoff analysis: {}", job.series),
-        series_name: job.series.clone(),
-        source_name: job.file_name.clone(),
-        source_sha256: job.sha256.clone(),
-        headers: job.headers.clone(),
-        rows: job.rows.clone(),
-        conversions: job.conversions.clone(),
-        fit,
-        energy_unit: job.energy,
-        temperature_unit: job.temperature,
-        program_version: env!("CARGO_PKG_VERSION").to_string(),
-        settings,
-    }
-}
-
-/// A file-name stem made only of safe characters.
-fn safe_stem(s: &str) -> String {
-    let t: String = s
-        .chars()
-        .map(|c| {
-            if c.is_alphanumeric() || c == '-' || c == '_' || c == '.' {
-                c
-            } else {
-                '_'
-            }
-        })
-        .collect();
-    let t = t.trim_matches(|c| c == '.' || c == '_').to_string();
-    if t.is_empty() {
-        "series".to_string()
-    } else {
-        t.chars().take(80).collect()
-    }
-}
-
-fn file_stem(job: &Job) -> String {
-    let p = Path::new(&job.source);
-    let name = p
-        .file_name()
-        .and_then(|n| n.to_str())
-        .unwrap_or("report")
-        .to_string();
-    let base = name
-        .strip_suffix(".isochore.json")
-        .or_else(|| name.rsplit_once('.').map(|(a, _)| a))
-        .unwrap_or(&name)
-        .to_string();
-    base
+    );
+    isochore_analysis::report_input(job, fit, &[command])
 }
 
 /// Where the reports of this run go.
 struct ReportPlan {
     path: PathBuf,
     single_file: Option<ReportFormat>,
-    used_stems: HashSet<String>,
+    stems: ReportStems,
 }
 
 impl ReportPlan {
@@ -100,19 +43,7 @@ impl ReportPlan {
         if let Some(format) = self.single_file {
             return isochore_report::report_paths(format, &self.path);
         }
-        let mut stem = if multi_series_file {
-            format!("{}-{}", safe_stem(&file_stem(job)), safe_stem(&job.series))
-        } else {
-            safe_stem(&file_stem(job))
-        };
-        if self.used_stems.contains(&stem) {
-            let mut k = 2;
-            while self.used_stems.contains(&format!("{stem}-{k}")) {
-                k += 1;
-            }
-            stem = format!("{stem}-{k}");
-        }
-        self.used_stems.insert(stem.clone());
+        let stem = self.stems.next(&job.source, &job.series, multi_series_file);
         isochore_report::report_set_paths(&self.path, &stem)
     }
 }
@@ -185,7 +116,7 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
             Some(ReportPlan {
                 path: p.clone(),
                 single_file: format,
-                used_stems: HashSet::new(),
+                stems: ReportStems::new(),
             })
         }
     };

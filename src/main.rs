@@ -9,7 +9,6 @@
 
 mod cli;
 mod fit_cmd;
-mod json;
 mod load;
 mod output;
 mod predict_cmd;

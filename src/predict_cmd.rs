@@ -4,42 +4,13 @@
 
 use crate::cli::PredictArgs;
 use crate::fit_cmd::fit_job;
-use crate::json::{finite, Nums};
-use crate::load::load;
+use crate::load::{load, Job};
 use crate::output::{self, Style};
 use crate::Failure;
-use isochore_fit::{Prediction, ValuePrediction, VantHoffFit};
+use isochore_analysis::json::predict::PredictJson;
+use isochore_fit::VantHoffFit;
 use isochore_report::content::{decimals_for, entropy_unit, num, show_t, sig};
-use serde_json::json;
 use std::io::Write;
-
-fn value(n: &mut Nums, what: &str, v: &ValuePrediction) -> serde_json::Value {
-    n.stats(
-        what,
-        v.value,
-        &[
-            ("se", v.se),
-            ("ci_low", v.ci.low),
-            ("ci_high", v.ci.high),
-            ("pi_low", v.pi.low),
-            ("pi_high", v.pi.high),
-        ],
-    )
-}
-
-fn prediction_json(n: &mut Nums, p: &Prediction) -> serde_json::Value {
-    let at = format!("at {} K", isochore_report::content::sig(p.t_k, 6));
-    json!({
-        "t_k": finite(p.t_k),
-        "ln_k": value(n, &format!("ln_k {at}"), &p.ln_k),
-        "k": value(n, &format!("k {at}"), &p.k),
-        "delta_g": n.estimate(&format!("delta_g {at}"), &p.delta_g),
-        "delta_h": n.estimate(&format!("delta_h {at}"), &p.delta_h),
-        "delta_s": n.estimate(&format!("delta_s {at}"), &p.delta_s),
-        "extrapolated": p.extrapolated,
-        "warning": p.warning,
-    })
-}
 
 /// Runs `isochore predict`.
 pub fn run(a: &PredictArgs) -> Result<(), Failure> {
@@ -57,7 +28,7 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
         }
     }
     let jobs = load(&a.file, &a.fit, false).map_err(Failure::input)?;
-    let mut fits: Vec<(crate::load::Job, VantHoffFit)> = Vec::new();
+    let mut fits: Vec<(Job, VantHoffFit)> = Vec::new();
     for job in jobs {
         let fit = fit_job(&job).map_err(Failure::input)?;
         fits.push((job, fit));
@@ -65,42 +36,19 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
     let mut out = output::stdout(if a.json { Style::Json } else { Style::Text });
     let io = output::stdout_failure;
     if a.json {
-        let items: Vec<serde_json::Value> = fits
+        let docs: Vec<PredictJson> = fits
             .iter()
             .map(|(job, fit)| {
-                let mut n = Nums::new();
-                let preds: Vec<serde_json::Value> = temps_k
-                    .iter()
-                    .filter_map(|&t| fit.predict(t).ok())
-                    .map(|p| prediction_json(&mut n, &p))
-                    .collect();
-                let for_k = a.for_k.map(|k| match fit.temperature_for_k(k) {
-                    Ok(e) => json!({"k": k, "t_k": n.estimate("for_k.t_k", &e), "extrapolated": fit.is_extrapolation(e.value)}),
-                    Err(err) => json!({"k": k, "t_k": null, "error": err.to_string()}),
-                });
-                let mut warnings: Vec<String> = job.warnings.clone();
-                warnings.extend(fit.warnings.iter().map(|w| w.message.clone()));
-                warnings.extend(n.warning());
-                json!({
-                    "source": job.source,
-                    "series": job.series,
-                    "model": fit.model().key(),
-                    "level": fit.options.level,
-                    "t_min_k": finite(fit.t_min_k),
-                    "t_max_k": finite(fit.t_max_k),
-                    "predictions": preds,
-                    "for_k": for_k,
-                    "warnings": warnings,
-                    "version": env!("CARGO_PKG_VERSION"),
+                PredictJson::new(job, fit, &temps_k, a.for_k, |t| {
+                    format!("at {} K", sig(t, 6))
                 })
             })
             .collect();
-        let doc = if items.len() == 1 {
-            items.into_iter().next().unwrap_or(serde_json::Value::Null)
-        } else {
-            serde_json::Value::Array(items)
+        let written = match docs.as_slice() {
+            [one] => serde_json::to_writer_pretty(&mut out, one),
+            several => serde_json::to_writer_pretty(&mut out, several),
         };
-        serde_json::to_writer_pretty(&mut out, &doc).map_err(|e| io(e.into()))?;
+        written.map_err(|e| io(e.into()))?;
         writeln!(out).map_err(io)?;
         return out.flush().map_err(io);
     }

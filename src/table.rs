@@ -117,7 +117,7 @@ pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<
                 "  row {} (line {}, {}): {}; t_ext = {}, h = {}, D = {}",
                 r.row,
                 r.line,
-                show_t(r.t_k, job.temperature),
+                show_t(d.t_k, job.temperature),
                 flag_words(d.flags),
                 d.student_ext
                     .or(d.prediction_residual)
@@ -136,9 +136,10 @@ pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<
     let excluded: Vec<String> = job
         .rows
         .iter()
-        .filter(|r| !r.included)
+        .zip(&job.measurements)
+        .filter(|(_, m)| !m.included)
         .take(50)
-        .map(|r| {
+        .map(|(r, _)| {
             format!(
                 "  row {} (line {}): {}",
                 r.row,

@@ -6,14 +6,13 @@
 //! closer than [`isochore_fit::TEMPERATURE_RESOLUTION_K`] (1 mK) are refused.
 
 use crate::cli::{TempArg, TwoPointArgs};
-use crate::json::est;
 use crate::output::{self, Style};
 use crate::Failure;
+use isochore_analysis::json::two_point::{EnthalpyJson, KJson, TwoPointInputs};
 use isochore_fit::two_point::{enthalpy_from_pairs, indistinguishable, predict_k, StatePoint};
 use isochore_fit::Estimate;
 use isochore_fit::TEMPERATURE_RESOLUTION_K;
 use isochore_report::content::{decimals_for, entropy_unit, num, sig};
-use serde_json::json;
 
 /// A value with `d` decimals, or in exponent form when fixed decimals would be too long.
 fn fixed(v: f64, d: usize) -> String {
@@ -128,6 +127,16 @@ pub fn run(a: &TwoPointArgs) -> Result<(), Failure> {
     let t1_text = show_temperature(a.t1, unit, t1);
     let t2_text = show_temperature(a.t2, unit, t2);
     let mut text = String::new();
+    let inputs = TwoPointInputs {
+        t1_k: t1,
+        t2_k: t2,
+        k1: a.k1,
+        level: a.level,
+        t1: a.t1,
+        t2: a.t2,
+        temp_unit: unit_key(unit),
+        temp_unit_assumed: assumed,
+    };
     let doc = if let Some(k2) = a.k2 {
         if !(k2.is_finite() && k2 > 0.0) {
             return Err(Failure::usage("--k2 must be a positive number"));
@@ -155,13 +164,7 @@ pub fn run(a: &TwoPointArgs) -> Result<(), Failure> {
         text.push('\n');
         text.push_str(&line("ΔS°", r.delta_s.scaled(1.0 / sf), s_unit, &lp));
         text.push('\n');
-        json!({
-            "direction": "enthalpy",
-            "t1_k": t1, "t2_k": t2, "k1": a.k1, "k2": k2, "level": a.level,
-            "t1": a.t1, "t2": a.t2, "temp_unit": unit_key(unit), "temp_unit_assumed": assumed,
-            "delta_h": est(&r.delta_h), "delta_s": est(&r.delta_s),
-            "version": env!("CARGO_PKG_VERSION"),
-        })
+        serde_json::to_string_pretty(&EnthalpyJson::new(inputs, k2, &r.delta_h, &r.delta_s))
     } else {
         let Some(dh) = a.delta_h else {
             return Err(Failure::usage("give --k2 (for ΔH°) or --delta-h (for K₂)"));
@@ -183,20 +186,14 @@ pub fn run(a: &TwoPointArgs) -> Result<(), Failure> {
         ));
         text.push_str(&line("ln K₂", r.ln_k2, "", &lp));
         text.push('\n');
-        json!({
-            "direction": "k",
-            "t1_k": t1, "t2_k": t2, "k1": a.k1, "delta_h": dh * ef, "level": a.level,
-            "t1": a.t1, "t2": a.t2, "temp_unit": unit_key(unit), "temp_unit_assumed": assumed,
-            "ln_k2": est(&r.ln_k2), "k2": est(&r.k2),
-            "version": env!("CARGO_PKG_VERSION"),
-        })
+        serde_json::to_string_pretty(&KJson::new(inputs, dh * ef, &r.ln_k2, &r.k2))
     };
     if a.json {
         let mut out = output::stdout(Style::Json);
         use std::io::Write;
-        serde_json::to_writer_pretty(&mut out, &doc)
-            .map_err(|e| output::stdout_failure(e.into()))?;
-        out.write_all(b"\n")
+        let doc = doc.map_err(|e| output::stdout_failure(e.into()))?;
+        out.write_all(doc.as_bytes())
+            .and_then(|()| out.write_all(b"\n"))
             .and_then(|()| out.flush())
             .map_err(output::stdout_failure)
     } else {

@@ -42,7 +42,7 @@ pub struct DataSet {
     /// SHA-256 of that file's bytes.
     pub sha256: String,
     /// Name of the data set.
-    pub name: String,
+    pub series: String,
     /// Header cells as read.
     pub headers: Vec<String>,
     /// The unit conversions made, in words.
@@ -50,15 +50,15 @@ pub struct DataSet {
     /// The points for the fit, in row order.
     pub measurements: Vec<Measurement>,
     /// Where each point came from (same order and count as `measurements`).
-    pub origins: Vec<PointOrigin>,
+    pub rows: Vec<PointOrigin>,
     /// The fit options: the file's settings, the caller's overrides and the weighting rule.
     pub options: FitOptions,
     /// Energy unit for people.
-    pub energy_unit: EnergyUnit,
+    pub energy: EnergyUnit,
     /// Temperature unit for people.
-    pub temperature_unit: TemperatureUnit,
+    pub temperature: TemperatureUnit,
     /// Cautions from reading (skipped rows, replicates averaged, weighting adapted).
-    pub notes: Vec<String>,
+    pub warnings: Vec<String>,
     /// Settings worth recording in reports (name, value), beyond the fit options.
     pub settings: Vec<(String, String)>,
 }
@@ -319,6 +319,7 @@ fn load_text(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
     let conversions = imp.describe_mapping();
     let mut sets = Vec::with_capacity(imp.series.len());
     for (i, s) in imp.series.iter().enumerate() {
+        let weighed = weighting::for_import(&imp, i, requested).map_err(data_error)?;
         if let Some(&row) = o.exclude.rows.iter().find(|r| r.get() > s.rows.len()) {
             return Err(LoadError::NoSuchRow {
                 source,
@@ -327,7 +328,6 @@ fn load_text(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
                 rows: s.rows.len(),
             });
         }
-        let weighed = weighting::for_import(&imp, i, requested).map_err(data_error)?;
         let points = s.points(&excluded);
         let mut measurements = Vec::with_capacity(points.len());
         let mut origins = Vec::with_capacity(points.len());
@@ -353,15 +353,15 @@ fn load_text(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
             source: source.clone(),
             file_name: imp.source.name.clone(),
             sha256: imp.source.sha256.clone(),
-            name: s.name.clone(),
+            series: s.name.clone(),
             headers: imp.headers.clone(),
             conversions: conversions.clone(),
             measurements,
-            origins,
+            rows: origins,
             options: weighed.options,
-            energy_unit: o.energy_unit.unwrap_or(EnergyUnit::KilojoulePerMole),
-            temperature_unit: imp.mapping.temperature.unit,
-            notes: notes.clone(),
+            energy: o.energy_unit.unwrap_or(EnergyUnit::KilojoulePerMole),
+            temperature: imp.mapping.temperature.unit,
+            warnings: notes.clone(),
             settings: vec![replicates_setting(s.replicates)],
         };
         set.finish(averaged, weighed.note);
@@ -465,15 +465,15 @@ impl DataSet {
             source: source.to_string(),
             file_name: s.source.name.clone(),
             sha256: s.source.sha256.clone(),
-            name: s.name.clone(),
+            series: s.name.clone(),
             headers: s.headers.clone(),
             conversions: s.mapping.describe(&s.headers),
             measurements,
-            origins,
+            rows: origins,
             options: weighed.options,
-            energy_unit: o.energy_unit.unwrap_or(s.settings.energy_unit),
-            temperature_unit: s.settings.temperature_unit,
-            notes: Vec::new(),
+            energy: o.energy_unit.unwrap_or(s.settings.energy_unit),
+            temperature: s.settings.temperature_unit,
+            warnings: Vec::new(),
             settings: vec![replicates_setting(s.settings.replicates)],
         };
         set.finish(averaged, weighed.note);
@@ -482,9 +482,9 @@ impl DataSet {
 
     fn finish(&mut self, averaged: bool, weighting_note: Option<&str>) {
         if averaged {
-            self.notes.push(REPLICATES_NOTE.to_string());
+            self.warnings.push(REPLICATES_NOTE.to_string());
         }
-        self.notes.extend(weighting_note.map(str::to_string));
+        self.warnings.extend(weighting_note.map(str::to_string));
     }
 
     /// Fits the data set with isochore-fit.
@@ -494,7 +494,7 @@ impl DataSet {
     pub fn fit(&self) -> Result<isochore_fit::VantHoffFit, FitFailure> {
         isochore_fit::fit(&self.measurements, &self.options).map_err(|error| FitFailure {
             source: self.source.clone(),
-            series: self.name.clone(),
+            series: self.series.clone(),
             error,
         })
     }

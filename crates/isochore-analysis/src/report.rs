@@ -22,7 +22,7 @@ pub fn report_title(series: &str) -> String {
 /// The rows pair each point's origin with its measurement, in the order of `fit.points`.
 pub fn report_input(set: &DataSet, fit: VantHoffFit, extra: &[(String, String)]) -> ReportInput {
     let rows = set
-        .origins
+        .rows
         .iter()
         .zip(&set.measurements)
         .map(|(o, m)| ReportRow {
@@ -38,18 +38,18 @@ pub fn report_input(set: &DataSet, fit: VantHoffFit, extra: &[(String, String)])
         .collect();
     let mut settings = set.settings.clone();
     settings.extend(extra.iter().cloned());
-    settings.extend(set.notes.iter().map(|n| ("reading".to_string(), n.clone())));
+    settings.extend(set.warnings.iter().map(|n| ("reading".to_string(), n.clone())));
     ReportInput {
-        title: report_title(&set.name),
-        series_name: set.name.clone(),
+        title: report_title(&set.series),
+        series_name: set.series.clone(),
         source_name: set.file_name.clone(),
         source_sha256: set.sha256.clone(),
         headers: set.headers.clone(),
         rows,
         conversions: set.conversions.clone(),
         fit,
-        energy_unit: set.energy_unit,
-        temperature_unit: set.temperature_unit,
+        energy_unit: set.energy,
+        temperature_unit: set.temperature,
         program_version: VERSION.to_string(),
         settings,
     }

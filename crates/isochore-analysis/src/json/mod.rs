@@ -201,7 +201,7 @@ pub struct PointsJson<'a> {
 impl PointsJson<'_> {
     fn each<'n>(&'n self, n: &'n mut Nulls) -> impl Iterator<Item = PointJson<'n>> + 'n {
         let set = self.set;
-        set.origins
+        set.rows
             .iter()
             .zip(&self.fit.points)
             .map(move |(o, d)| {
@@ -209,7 +209,7 @@ impl PointsJson<'_> {
                 let at = |field: &'static str| move || format!("points[row {row}].{field}");
                 PointJson {
                     row,
-                    series: &set.name,
+                    series: &set.series,
                     t_k: n.num(at("t_k"), d.t_k),
                     ln_k: n.num(at("ln_k"), d.ln_k),
                     sigma_ln_k: n.opt(at("sigma_ln_k"), d.sigma_ln_k),
@@ -336,7 +336,7 @@ impl<'a> FitJson<'a> {
             se: n.num(name("t_at_k1.se"), e.se),
             extrapolated: fit.is_extrapolation(e.value),
         });
-        let mut warnings = set.notes.clone();
+        let mut warnings = set.warnings.clone();
         warnings.extend(fit.warnings.iter().map(|w| w.message.clone()));
         warnings.extend(n.warning());
         FitJson {

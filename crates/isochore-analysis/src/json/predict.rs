@@ -156,12 +156,12 @@ impl<'a> PredictJson<'a> {
                 error: Some(err.to_string()),
             },
         });
-        let mut warnings = set.notes.clone();
+        let mut warnings = set.warnings.clone();
         warnings.extend(fit.warnings.iter().map(|w| w.message.clone()));
         warnings.extend(n.warning());
         PredictJson {
             source: &set.source,
-            series: &set.name,
+            series: &set.series,
             model: fit.model().key(),
             level: fit.options.level,
             t_min_k: fit.t_min_k.is_finite().then_some(fit.t_min_k),
