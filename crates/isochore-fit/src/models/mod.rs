@@ -9,7 +9,7 @@
 //! temperature T is a coefficient row c(T): its value is c·β and its variance cᵀΣc. The ln K
 //! row follows from the van 't Hoff relation ln K = −ΔG°/(RT) = −ΔH°/(RT) + ΔS°/R.
 //!
-//! Adding a model: write one file beside [`linear`] implementing [`ModelSpec`], add one line
+//! Adding a model: write one file beside `linear.rs` implementing [`ModelSpec`], add one line
 //! to [`Model::all`]'s list, and give it a `const` handle (see DEVELOPERS.md).
 
 mod clarke_glew;

@@ -180,6 +180,112 @@ impl VantHoffFit {
             && self.new_observation_variance.is_finite()
     }
 
+    // Readers of every field, so that callers need not touch the fields themselves.
+    /// The options the fit was made with.
+    pub fn options(&self) -> FitOptions {
+        self.options
+    }
+
+    /// Points used.
+    pub fn n_used(&self) -> usize {
+        self.n_used
+    }
+
+    /// Points given (used and excluded).
+    pub fn n_total(&self) -> usize {
+        self.n_total
+    }
+
+    /// Residual degrees of freedom n − p.
+    pub fn dof(&self) -> usize {
+        self.dof
+    }
+
+    /// Whether weights 1/σ² were applied.
+    pub fn weighted(&self) -> bool {
+        self.weighted
+    }
+
+    /// The fitted parameters in the model's order, SI units.
+    pub fn params(&self) -> &[Parameter] {
+        &self.params
+    }
+
+    /// Full covariance of the parameters, same order, SI units.
+    pub fn covariance(&self) -> &[Vec<f64>] {
+        &self.covariance
+    }
+
+    /// Correlation coefficient of ΔH° and ΔS° (at θ).
+    pub fn corr_h_s(&self) -> f64 {
+        self.corr_h_s
+    }
+
+    /// Goodness of fit.
+    pub fn stats(&self) -> &FitStatistics {
+        &self.stats
+    }
+
+    /// Critical value for two-sided intervals at the level.
+    pub fn critical_value(&self) -> f64 {
+        self.critical_value
+    }
+
+    /// Variance of a new measurement of ln K with typical precision.
+    pub fn new_observation_variance(&self) -> f64 {
+        self.new_observation_variance
+    }
+
+    /// Covariance multiplier s² (scaled convention) or 1 (absolute σ).
+    pub fn variance_scale(&self) -> f64 {
+        self.variance_scale
+    }
+
+    /// Lowest used temperature, K.
+    pub fn t_min_k(&self) -> f64 {
+        self.t_min_k
+    }
+
+    /// Highest used temperature, K.
+    pub fn t_max_k(&self) -> f64 {
+        self.t_max_k
+    }
+
+    /// Weighted harmonic-mean temperature of the used points, K.
+    pub fn t_harmonic_k(&self) -> f64 {
+        self.t_harmonic_k
+    }
+
+    /// The parameters at the reference temperature θ.
+    pub fn at_reference(&self) -> &ThermoAt {
+        &self.at_reference
+    }
+
+    /// The parameters at the harmonic-mean temperature.
+    pub fn at_harmonic(&self) -> &ThermoAt {
+        &self.at_harmonic
+    }
+
+    /// The temperature where K = 1, when there is one near the data.
+    pub fn t_at_k1(&self) -> Option<Estimate> {
+        self.t_at_k1
+    }
+
+    /// Per-point diagnostics, in the order of the input slice.
+    pub fn points(&self) -> &[PointDiagnostics] {
+        &self.points
+    }
+
+    /// The comparison along the ladder of nested models, when enough points.
+    pub fn comparison(&self) -> Option<&ModelComparison> {
+        self.comparison.as_ref()
+    }
+
+    /// Cautions in words.
+    pub fn warnings(&self) -> &[Warning] {
+        &self.warnings
+    }
+
     /// The model fitted.
     pub fn model(&self) -> Model {
         self.options.model
