@@ -24,10 +24,10 @@ use std::collections::HashMap;
 /// Relative agreement required with statsmodels (see the file comment).
 const REL: f64 = 1e-9;
 
-/// ADA, N-(2-acetamido)iminodiacetic acid, reaction HL⁻ = H⁺ + L²⁻ at I = 0: (T/K, pK) as
-/// tabulated by R. N. Goldberg, N. Kishore and R. M. Lennen, "Thermodynamic quantities for
-/// the ionization reactions of buffers", J. Phys. Chem. Ref. Data 31, 231–370 (2002),
-/// section 7.3 (ADA), table "Values from literature", p. 242: the electrochemical-cell (no
+/// ADA, N-(2-acetamido)iminodiacetic acid, reaction (3) HL⁻ = H⁺ + L²⁻ at I = 0: (T/K, pK)
+/// as tabulated by R. N. Goldberg, N. Kishore and R. M. Lennen, "Thermodynamic quantities for
+/// the ionization reactions of buffers", J. Phys. Chem. Ref. Data 31, 231–370 (2002), ADA
+/// entry, table "Values from literature" (continued), p. 242: the electrochemical-cell (no
 /// liquid junction) results the compilation cites as 81ROY/GIB.
 const ADA: [(f64, f64); 12] = [
     (278.15, 7.011),
@@ -44,14 +44,16 @@ const ADA: [(f64, f64); 12] = [
     (328.15, 6.678),
 ];
 
-/// The compilation's selected ΔrH°(298.15 K) for this reaction, J/mol: 12.23 kJ/mol
-/// (Goldberg, Kishore & Lennen 2002, as above, ADA, reaction 3).
+/// ΔrH°(298.15 K) for this reaction, J/mol: 12.23 kJ/mol (same source and page: the line
+/// "6.844  12.23  −144  81ROY/GIB" of the table "Values adjusted to T = 298.15 K and I = 0";
+/// the compilation adopts these as its selected values for ADA, which the CRC Handbook's
+/// table of buffer thermodynamics repeats — that last part from memory).
 const ADA_PUBLISHED_DH: f64 = 12.23e3;
-/// Its selected ΔrCp°, J K⁻¹ mol⁻¹: −144 (same source; "calculated from the temperature
-/// dependency" of the pKs above). The sign is lost in the stored text of the table we read;
-/// negative is what the table's pKs give (their slope dpK/dT flattens with T) and what the
-/// later study of the same laboratory reports, ΔCp° = −148 J K⁻¹ mol⁻¹ (R. N. Roy et al.,
-/// Open J. Phys. Chem. 4, 73–79 (2014), abstract).
+/// ΔrCp°, J K⁻¹ mol⁻¹: −144 (same line; the compilation's comment says it was calculated
+/// from the temperature dependence of the reported pKs). The sign is lost in the stored text
+/// of the page we read; negative is what the table's pKs give (their slope dpK/dT flattens
+/// with T) and what the later study of the same laboratory reports, ΔCp° = −148 J K⁻¹ mol⁻¹
+/// (R. N. Roy et al., Open J. Phys. Chem. 4, 73–79 (2014), abstract).
 const ADA_PUBLISHED_DCP: f64 = -144.0;
 
 fn reference() -> HashMap<String, Vec<f64>> {
@@ -248,10 +250,10 @@ fn ada_buffer_clarke_glew_ladder_matches_statsmodels() {
 #[test]
 fn ada_buffer_against_the_published_enthalpy_and_heat_capacity() {
     let pts = ada();
-    // The compilation derived its ΔrH° and ΔrCp° from these pKs with a constant ΔCp°, and
-    // publishes them to 0.01 kJ/mol and 1 J K⁻¹ mol⁻¹ with no uncertainty beside them in the
-    // table; the constant-ΔCp° fit must give them to those published digits (±0.005 kJ/mol,
-    // ±0.5 J K⁻¹ mol⁻¹).
+    // The compilation's ΔrH° and ΔrCp° were calculated from these pKs (its comment) and are
+    // published to 0.01 kJ/mol and 1 J K⁻¹ mol⁻¹ with no uncertainty beside them. A constant
+    // ΔCp° is the form of its equations for pK(T), so the constant-ΔCp° fit must give them to
+    // the published digits: ±0.005 kJ/mol and ±0.5 J K⁻¹ mol⁻¹, half a unit in the last place.
     let cp = fit(&pts, &unweighted(Model::CONSTANT_CP)).unwrap();
     let (dh, dcp) = (cp.delta_h().value, cp.delta_cp().unwrap().value);
     eprintln!(
@@ -291,8 +293,9 @@ fn ada_buffer_against_the_published_enthalpy_and_heat_capacity() {
     assert!(last.verdict.contains("cannot resolve"), "{}", last.verdict);
     assert_eq!(last.added, vec!["delta_cp_slope"]);
     eprintln!("ADA ladder: {}", comparison.verdict);
-    // The table's 303.15 K entry (6.796) sits 0.011 below its neighbours' trend: every model
-    // flags it (statsmodels' externally studentized residual 5.47 under Clarke–Glew).
+    // The table's 303.15 K entry (6.796) sits 0.011 below the trend of its neighbours (the
+    // 2014 study's fitted equation, pK = 2943.784/T − 47.05762 + 7.72703 ln T, gives 6.807
+    // there): the Clarke–Glew fit flags it (statsmodels' externally studentized residual 5.47).
     let worst = cg
         .points
         .iter()

@@ -55,14 +55,15 @@ LN10 = np.log(10.0)
 THETA = 298.15
 HERE = __file__.rsplit("/", 1)[0] if "/" in __file__ else "."
 
-# ADA, N-(2-acetamido)iminodiacetic acid, reaction HL⁻ = H⁺ + L²⁻ at I = 0: pK at twelve
+# ADA, N-(2-acetamido)iminodiacetic acid, reaction (3) HL⁻ = H⁺ + L²⁻ at I = 0: pK at twelve
 # temperatures, as tabulated in R. N. Goldberg, N. Kishore and R. M. Lennen, "Thermodynamic
 # quantities for the ionization reactions of buffers", J. Phys. Chem. Ref. Data 31 (2002)
-# 231–370, section 7.3 (ADA), table "Values from literature" (p. 242), from the
+# 231–370, ADA entry, table "Values from literature" (continued), p. 242, from the
 # electrochemical-cell (no liquid junction) study the compilation cites as 81ROY/GIB.
-# The compilation's selected values for this reaction at 298.15 K: pK = 6.844,
+# The same page lists for that study, adjusted to 298.15 K and I = 0: pK = 6.844,
 # ΔrH° = 12.23 kJ/mol, ΔrCp° = −144 J K⁻¹ mol⁻¹ (calculated, it says, from the temperature
-# dependence of those pKs).
+# dependence of the pKs); the sign of ΔrCp° is lost in the stored text we read and is
+# negative by the pKs themselves (the constant-ΔCp° fit below gives −144.4).
 ADA_T_K = [278.15, 283.15, 288.15, 293.15, 298.15, 303.15,
            308.15, 310.15, 313.15, 318.15, 323.15, 328.15]
 ADA_PK = [7.011, 6.968, 6.924, 6.884, 6.844, 6.796,
