@@ -141,23 +141,23 @@ fn check_fit(
     let want = |s: &str| &r[&format!("{name}.{key}.{s}")];
     let what = |s: &str| format!("{name} {key} {s}");
     assert_eq!(f.model(), model);
-    let keys: Vec<&str> = f.params.iter().map(|p| p.key()).collect();
+    let keys: Vec<&str> = f.params().iter().map(|p| p.key()).collect();
     let expected: Vec<&str> = model.params().iter().map(|p| p.key).collect();
     assert_eq!(keys, expected);
     check(&what("estimates"), &f.coefficients(), want("params"));
-    let se: Vec<f64> = f.params.iter().map(|p| p.estimate.se).collect();
+    let se: Vec<f64> = f.params().iter().map(|p| p.estimate.se).collect();
     check(&what("SE"), &se, want("se"));
-    let cov: Vec<f64> = f.covariance.iter().flatten().copied().collect();
+    let cov: Vec<f64> = f.covariance().iter().flatten().copied().collect();
     check(&what("covariance"), &cov, want("cov"));
-    check(&what("χ²"), &[f.stats.chi2], want("chi2"));
+    check(&what("χ²"), &[f.stats().chi2], want("chi2"));
     check(
         &what("log-likelihood"),
-        &[f.stats.log_likelihood],
+        &[f.stats().log_likelihood],
         want("log_likelihood"),
     );
-    check(&what("AICc"), &[f.stats.aicc.unwrap()], want("aicc"));
-    check(&what("BIC"), &[f.stats.bic], want("bic"));
-    check(&what("R²"), &[f.stats.r2], want("r2"));
+    check(&what("AICc"), &[f.stats().aicc.unwrap()], want("aicc"));
+    check(&what("BIC"), &[f.stats().bic], want("bic"));
+    check(&what("R²"), &[f.stats().r2], want("r2"));
     // ΔH° and ΔCp° away from θ (the model's T-dependence and its delta-method SE).
     let h = f.delta_h_at(318.15);
     check(&what("ΔH°(318.15 K)"), &[h.value, h.se], want("dh_318.15"));
@@ -172,7 +172,7 @@ fn check_fit(
     }
     // Per-point diagnostics: they loop over the model's p columns.
     let col = |g: fn(&isochore_fit::PointDiagnostics) -> Option<f64>| -> Vec<f64> {
-        f.points.iter().map(|d| g(d).unwrap()).collect()
+        f.points().iter().map(|d| g(d).unwrap()).collect()
     };
     check(&what("fitted"), &col(|d| Some(d.fitted)), want("fitted"));
     check(
@@ -201,8 +201,7 @@ fn check_fit(
 /// The two ladder steps of a Clarke–Glew fit against statsmodels' compare_f_test and AICc.
 fn check_ladder(r: &HashMap<String, Vec<f64>>, name: &str, f: &VantHoffFit) {
     let c = f
-        .comparison
-        .as_ref()
+        .comparison()
         .expect("twelve or more points allow every step");
     assert_eq!(c.steps.len(), 2, "{name}: linear → cp → clarke_glew");
     let ladder = [
@@ -285,7 +284,7 @@ fn ada_buffer_against_the_published_enthalpy_and_heat_capacity() {
     // Twelve pKs to three decimals cannot resolve dΔCp°/dT: its interval spans zero, the
     // ladder stops at the constant-ΔCp° model and says so in words.
     assert!(slope.ci_low < 0.0 && 0.0 < slope.ci_high, "{slope:?}");
-    let comparison = cg.comparison.as_ref().unwrap();
+    let comparison = cg.comparison().unwrap();
     assert_eq!(comparison.preferred, Model::CONSTANT_CP);
     let last = &comparison.steps[1];
     assert!(!last.supported && !last.resolved, "{}", last.verdict);
@@ -317,7 +316,7 @@ fn water_clarke_glew_ladder_matches_statsmodels() {
     let cg = check_fit(&r, "water", "clarke_glew", &pts, Model::CLARKE_GLEW);
     check_ladder(&r, "water", &cg);
     // Both steps are supported: the IAPWS ΔCp° runs from −283 to −193 J/(mol K) over 0–60 °C.
-    let c = cg.comparison.as_ref().unwrap();
+    let c = cg.comparison().unwrap();
     assert_eq!(c.preferred, Model::CLARKE_GLEW, "{}", c.verdict);
     assert!(c.steps.iter().all(|s| s.supported && s.resolved));
 }

@@ -148,13 +148,17 @@ fn toy_model_fits_like_statsmodels() {
     let r = reference();
     let f = fit(&water(), &options()).unwrap();
     assert_eq!(f.model(), TOY);
-    let keys: Vec<&str> = f.params.iter().map(|p| p.key()).collect();
+    let keys: Vec<&str> = f.params().iter().map(|p| p.key()).collect();
     assert_eq!(keys, ["delta_h", "delta_s", "cubic_amplitude"]);
     check("estimates", &f.coefficients(), &r["toy.params"]);
-    let se: Vec<f64> = f.params.iter().map(|p| p.estimate.se).collect();
+    let se: Vec<f64> = f.params().iter().map(|p| p.estimate.se).collect();
     check("SE", &se, &r["toy.se"]);
-    check("χ²", &[f.stats.chi2], &r["toy.chi2"]);
-    check("AICc (k = p + 1)", &[f.stats.aicc.unwrap()], &r["toy.aicc"]);
+    check("χ²", &[f.stats().chi2], &r["toy.chi2"]);
+    check(
+        "AICc (k = p + 1)",
+        &[f.stats().aicc.unwrap()],
+        &r["toy.aicc"],
+    );
     // ΔH°(T) away from θ through the model's own ΔH° row: statsmodels' −R b + A((T − θ)/τ)³
     // with the delta-method SE on its covariance.
     let h = f.delta_h_at(318.15);
@@ -166,7 +170,7 @@ fn toy_model_per_point_diagnostics() {
     let r = reference();
     let f = fit(&water(), &options()).unwrap();
     let col = |g: fn(&isochore_fit::PointDiagnostics) -> Option<f64>| -> Vec<f64> {
-        f.points.iter().map(|d| g(d).unwrap()).collect()
+        f.points().iter().map(|d| g(d).unwrap()).collect()
     };
     check("fitted", &col(|d| Some(d.fitted)), &r["toy.fitted"]);
     check("leverage", &col(|d| Some(d.leverage)), &r["toy.leverage"]);
@@ -177,7 +181,7 @@ fn toy_model_per_point_diagnostics() {
     );
     check("Cook's distance", &col(|d| d.cooks_d), &r["toy.cooks_d"]);
     // Three parameters: the leverages sum to p (the trace of the hat matrix).
-    let trace: f64 = f.points.iter().map(|d| d.leverage).sum();
+    let trace: f64 = f.points().iter().map(|d| d.leverage).sum();
     assert!((trace - 3.0).abs() < 1e-12, "{trace}");
 }
 
@@ -231,7 +235,7 @@ fn toy_model_predicts_with_intervals() {
 fn toy_model_is_compared_with_the_model_it_extends() {
     let r = reference();
     let f = fit(&water(), &options()).unwrap();
-    let c = f.comparison.as_ref().expect("13 points allow the step");
+    let c = f.comparison().expect("13 points allow the step");
     assert_eq!(c.steps.len(), 1, "the toy's ladder is linear → toy");
     let step = &c.steps[0];
     assert_eq!((step.smaller, step.larger), (Model::LINEAR, TOY));
