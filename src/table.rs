@@ -4,8 +4,9 @@
 
 use crate::load::Job;
 use isochore_fit::VantHoffFit;
-use isochore_report::content::{
-    decimals_for, entropy_unit, flag_words, num, result_rows_for, show_t, sig, statistics_rows,
+use isochore_report::present::{
+    fitted_params, fixed, flag_words, is_absolute, level_percent, plus_minus, result_rows, show_t,
+    sig, statistics_rows, unit_of, MISSING,
 };
 use std::io::{self, Write};
 
@@ -27,12 +28,6 @@ fn lpad(s: &str, w: usize) -> String {
     }
 }
 
-fn level_pct(fit: &VantHoffFit) -> String {
-    num(fit.options.level * 100.0, 1)
-        .trim_end_matches(".0")
-        .to_string()
-}
-
 /// The full readable account of one fit.
 pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<()> {
     writeln!(w, "{} — series “{}”", job.source, job.series)?;
@@ -40,21 +35,21 @@ pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<
         w,
         "model: {}; {}; {}% intervals ({})",
         fit.model().describe(),
-        if fit.weighted {
+        if fit.weighted() {
             "weighted by 1/σ²"
         } else {
             "unweighted"
         },
-        level_pct(fit),
-        if fit.options.convention == isochore_fit::SigmaConvention::Absolute && fit.weighted {
+        level_percent(fit),
+        if is_absolute(fit) {
             "σ absolute, normal quantile".to_string()
         } else {
-            format!("Student's t, {} dof", fit.dof)
+            format!("Student's t, {} dof", fit.dof())
         }
     )?;
     writeln!(w)?;
-    let rows = result_rows_for(fit, job.energy, job.temperature);
-    let lp = level_pct(fit);
+    let rows = result_rows(fit, job.energy, job.temperature);
+    let lp = level_percent(fit);
     let header = [
         "quantity".to_string(),
         "value".to_string(),
@@ -102,14 +97,14 @@ pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<
         writeln!(w, "  {}  {v}", pad(&k, 28))?;
     }
     writeln!(w)?;
-    match &fit.comparison {
+    match fit.comparison() {
         Some(c) => writeln!(w, "model comparison: {}", c.verdict)?,
         None => writeln!(w, "model comparison: not possible with so few points")?,
     }
     let flagged: Vec<String> = job
         .rows
         .iter()
-        .zip(&fit.points)
+        .zip(fit.points())
         .filter(|(_, d)| d.flags.any())
         .take(50)
         .map(|(r, d)| {
@@ -121,9 +116,9 @@ pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<
                 flag_words(d.flags),
                 d.student_ext
                     .or(d.prediction_residual)
-                    .map_or("—".into(), |t| num(t, 2)),
-                num(d.leverage, 3),
-                d.cooks_d.map_or("—".into(), |c| num(c, 3))
+                    .map_or(MISSING.into(), |t| fixed(t, 2)),
+                fixed(d.leverage, 3),
+                d.cooks_d.map_or(MISSING.into(), |c| fixed(c, 3))
             )
         })
         .collect();
@@ -160,7 +155,7 @@ pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<
         .warnings
         .iter()
         .map(String::as_str)
-        .chain(fit.warnings.iter().map(|w| w.message.as_str()))
+        .chain(fit.warnings().iter().map(|w| w.message.as_str()))
         .collect();
     if !warnings.is_empty() {
         writeln!(w, "warnings:")?;
@@ -173,55 +168,73 @@ pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<
 
 /// One line of a batch summary.
 pub struct SummaryRow {
-    cells: Vec<String>,
+    /// Source, series, points used/given and model.
+    lead: Vec<String>,
+    /// Each fitted parameter's symbol with "value ± SE" in display units, in model order.
+    params: Vec<(&'static str, String)>,
+    /// R², flagged points and warnings.
+    tail: Vec<String>,
 }
 
 impl SummaryRow {
     /// The summary of one fit.
     pub fn new(job: &Job, fit: &VantHoffFit) -> Self {
-        let ef = job.energy.joules_per_mole();
-        let (sf, _) = entropy_unit(job.energy);
-        let h = fit.delta_h().scaled(1.0 / ef);
-        let s = fit.delta_s().scaled(1.0 / sf);
-        let pm = |v: f64, se: f64| {
-            let d = decimals_for(se);
-            format!("{} ± {}", num(v, d), num(se, d))
-        };
-        let cp = fit
-            .delta_cp()
-            .map(|c| {
-                let c = c.scaled(1.0 / sf);
-                pm(c.value, c.se)
+        let params = fitted_params(fit)
+            .iter()
+            .map(|p| {
+                let e = unit_of(p.info.dimension, job.energy).estimate(p.estimate);
+                (p.info.symbol, plus_minus(e.value, e.se))
             })
-            .unwrap_or_else(|| "—".to_string());
+            .collect();
         SummaryRow {
-            cells: vec![
+            lead: vec![
                 job.source.clone(),
                 job.series.clone(),
-                format!("{}/{}", fit.n_used, fit.n_total),
+                format!("{}/{}", fit.n_used(), fit.n_total()),
                 fit.model().key().to_string(),
-                pm(h.value, h.se),
-                pm(s.value, s.se),
-                cp,
-                sig(fit.stats.r2, 5),
+            ],
+            params,
+            tail: vec![
+                sig(fit.stats().r2, 5),
                 fit.flagged_points().len().to_string(),
-                (fit.warnings.len() + job.warnings.len()).to_string(),
+                (fit.warnings().len() + job.warnings.len()).to_string(),
             ],
         }
     }
 }
 
-/// The batch table, with the units of the first row's job in the header.
+/// The batch table: one column per parameter any row's model fits (in model order; "—"
+/// where a row's model has no such parameter).
 pub fn summary(w: &mut impl Write, rows: &[SummaryRow]) -> io::Result<()> {
-    let header: Vec<String> = [
-        "source", "series", "n", "model", "ΔH°", "ΔS°", "ΔCp°", "R²", "flagged", "warnings",
-    ]
-    .iter()
-    .map(|s| s.to_string())
-    .collect();
+    let mut symbols: Vec<&'static str> = Vec::new();
+    for (symbol, _) in rows.iter().flat_map(|r| &r.params) {
+        if !symbols.contains(symbol) {
+            symbols.push(symbol);
+        }
+    }
+    let mut header: Vec<String> = ["source", "series", "n", "model"]
+        .iter()
+        .map(|s| s.to_string())
+        .collect();
+    header.extend(symbols.iter().map(|s| s.to_string()));
+    header.extend(["R²", "flagged", "warnings"].iter().map(|s| s.to_string()));
+    let cells: Vec<Vec<String>> = rows
+        .iter()
+        .map(|r| {
+            let mut c = r.lead.clone();
+            c.extend(symbols.iter().map(|s| {
+                r.params
+                    .iter()
+                    .find(|(p, _)| p == s)
+                    .map_or(MISSING.to_string(), |(_, v)| v.clone())
+            }));
+            c.extend(r.tail.iter().cloned());
+            c
+        })
+        .collect();
     let mut widths: Vec<usize> = header.iter().map(|h| h.chars().count()).collect();
-    for r in rows {
-        for (i, c) in r.cells.iter().enumerate() {
+    for r in &cells {
+        for (i, c) in r.iter().enumerate() {
             widths[i] = widths[i].max(c.chars().count());
         }
     }
@@ -234,8 +247,8 @@ pub fn summary(w: &mut impl Write, rows: &[SummaryRow]) -> io::Result<()> {
         writeln!(w, "{}", parts.join("  ").trim_end())
     };
     write_row(w, &header)?;
-    for r in rows {
-        write_row(w, &r.cells)?;
+    for r in &cells {
+        write_row(w, r)?;
     }
     Ok(())
 }

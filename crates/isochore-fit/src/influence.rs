@@ -1,11 +1,51 @@
-//! Curves for the influence view: the loci of constant Cook's distance in the plane of
-//! leverage h against internally studentized residual r.
+//! The influence view's limits and curves: the limits a point is flagged against
+//! ([`FlagLimits`]: |t|, leverage factor·p/n, Cook's factor/n), and the loci of constant
+//! Cook's distance in the plane of leverage h against internally studentized residual r.
+//! Front ends draw these rather than recompute them.
 //!
 //! # Formula
 //! ```text
 //! Dᵢ = rᵢ² hᵢ / (p (1 − hᵢ))   ⇒   |r| = √(D p (1 − h) / h)
 //! ```
 //! (Cook 1977; the same relation the diagnostics use for each point.)
+
+use crate::model::FlagThresholds;
+use crate::vant_hoff::VantHoffFit;
+
+/// The limits a point's diagnostics are flagged against, for a fit of `p` parameters on
+/// `n` used points (the same limits the per-point diagnostics apply).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct FlagLimits {
+    /// |externally studentized residual| above this flags an outlier.
+    pub studentized: f64,
+    /// Leverage above this (leverage factor × p/n) flags high leverage.
+    pub leverage: f64,
+    /// Cook's distance above this (Cook's factor / n) flags an influential point.
+    pub cooks_d: f64,
+}
+
+impl FlagLimits {
+    /// The limits of `thresholds` for `p` parameters and `n` used points (n taken as at
+    /// least 1).
+    pub fn new(thresholds: FlagThresholds, p: usize, n: usize) -> Self {
+        let n = n.max(1) as f64;
+        FlagLimits {
+            studentized: thresholds.outlier_studentized,
+            leverage: thresholds.leverage_factor * p as f64 / n,
+            cooks_d: thresholds.cooks_factor / n,
+        }
+    }
+
+    /// The limits a finished fit flagged its points against.
+    pub fn of(fit: &VantHoffFit) -> Self {
+        FlagLimits::new(fit.options.thresholds, fit.params.len(), fit.n_used)
+    }
+
+    /// The Cook's distances an influence plot draws contours of: the flag limit and 1.
+    pub fn contour_levels(self) -> [f64; 2] {
+        [self.cooks_d, 1.0]
+    }
+}
 
 /// Points (h, r) of the upper branch r > 0 of the contour Cook's D = `d` for a model with
 /// `p` parameters, at `n` leverages evenly spaced in [`h_min`, `h_max`] (clamped to the
@@ -39,6 +79,52 @@ mod tests {
         for [h, r] in cooks_contour(0.5, p, 0.05, 0.95, 19) {
             let d = r * r * h / (p as f64 * (1.0 - h));
             assert!((d - 0.5).abs() < 1e-12, "h={h} r={r} d={d}");
+        }
+    }
+
+    #[test]
+    fn flag_limits_are_the_rules_of_thumb() {
+        // Common practice: |t| > 3, h > 2p/n, D > 4/n; p = 2, n = 10 gives 0.4 and 0.4.
+        let l = FlagLimits::new(FlagThresholds::default(), 2, 10);
+        assert_eq!(l.studentized, 3.0);
+        assert!((l.leverage - 0.4).abs() < 1e-15);
+        assert!((l.cooks_d - 0.4).abs() < 1e-15);
+        assert_eq!(l.contour_levels(), [l.cooks_d, 1.0]);
+        // No points is not a division by zero.
+        assert!(FlagLimits::new(FlagThresholds::default(), 3, 0)
+            .leverage
+            .is_finite());
+    }
+
+    #[test]
+    fn a_fits_flags_agree_with_its_limits() {
+        use crate::{fit, FitOptions, Measurement, GAS_CONSTANT};
+        // Invented: ΔH° = −30 kJ/mol, ΔS° = −20 J/(mol K), one far temperature and one
+        // wild point, so some flags are raised.
+        let data: Vec<Measurement> = [280.0, 285.0, 290.0, 295.0, 300.0, 305.0, 360.0]
+            .iter()
+            .enumerate()
+            .map(|(i, &t)| {
+                let wild = if i == 3 { 0.8 } else { 0.01 * (i as f64 - 3.0) };
+                Measurement::new(t, 30e3 / (GAS_CONSTANT * t) - 20.0 / GAS_CONSTANT + wild)
+                    .with_sigma(0.05)
+            })
+            .collect();
+        let f = fit(&data, &FitOptions::default()).unwrap();
+        let l = FlagLimits::of(&f);
+        assert!(f.points.iter().any(|d| d.flags.any()));
+        for d in f.points.iter().filter(|d| d.used) {
+            assert_eq!(d.flags.high_leverage, d.leverage > l.leverage, "{d:?}");
+            assert_eq!(
+                d.flags.influential,
+                d.cooks_d.is_some_and(|c| c > l.cooks_d),
+                "{d:?}"
+            );
+            assert_eq!(
+                d.flags.outlier,
+                d.student_ext.is_some_and(|t| t.abs() > l.studentized),
+                "{d:?}"
+            );
         }
     }
 

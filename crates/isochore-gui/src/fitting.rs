@@ -131,7 +131,9 @@ pub fn analyse(series: &Series) -> Analysis {
             let band = f.band_grid(BAND_POINTS, 0.08);
             let ellipse = f.ellipse(f.options.level, 120).ok();
             let p = f.model().n_params();
-            let contours = [0.5, 1.0]
+            // At the limit the points are flagged against, and at D = 1, as in the reports.
+            let contours = isochore_fit::influence::FlagLimits::of(f)
+                .contour_levels()
                 .iter()
                 .map(|&d| {
                     (

@@ -6,10 +6,15 @@
 //! All text in blocks is plain (unescaped); each writer escapes for its own format.
 
 use crate::figures::FigureKind;
+use crate::present::{self, fixed, percent};
 use crate::ReportInput;
 use isochore_fit::{
-    EnergyUnit, Estimate, Model, SigmaConvention, TemperatureUnit, VantHoffFit, Weighting,
-    GAS_CONSTANT,
+    EnergyUnit, SigmaConvention, TemperatureUnit, VantHoffFit, Weighting, GAS_CONSTANT,
+};
+
+// The presentation rules live in `present`; these names stay here for existing callers.
+pub use crate::present::{
+    decimals_for, fixed as num, flag_words, show_t, sig, statistics_rows, ResultRow,
 };
 
 /// Data rows shown in a document table before the rest is left to the CSV.
@@ -73,220 +78,21 @@ pub struct Table {
     pub note: Option<String>,
 }
 
-/// The entropy unit that goes with an energy unit: J mol⁻¹ K⁻¹ for J and kJ, cal mol⁻¹ K⁻¹
-/// for kcal (chemists quote ΔS° per kelvin in the small unit). Returns (J per unit, symbol).
+/// The entropy unit that goes with an energy unit, as (J per unit, symbol): the ΔS° rule
+/// of [`present::per_kelvin`], in the form the command line's callers use.
 pub fn entropy_unit(energy: EnergyUnit) -> (f64, &'static str) {
-    match energy {
-        EnergyUnit::KilocaloriePerMole => (isochore_fit::units::JOULES_PER_CALORIE, "cal/(mol·K)"),
-        _ => (1.0, "J/(mol·K)"),
-    }
+    let u = present::per_kelvin(energy);
+    (u.si_per_unit, u.symbol)
 }
 
-/// Number of decimals that shows `se` to two significant figures (0 to 8).
-pub fn decimals_for(se: f64) -> usize {
-    if !(se.is_finite() && se > 0.0) {
-        return 3;
-    }
-    let d = 1 - se.log10().floor() as i64;
-    d.clamp(0, 8) as usize
-}
-
-/// A number with `decimals` places, or "—" when it is not finite.
-pub fn num(v: f64, decimals: usize) -> String {
-    if v.is_finite() {
-        let s = format!("{v:.decimals$}");
-        // Avoid "-0.00".
-        if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
-            s[1..].to_string()
-        } else {
-            s
-        }
-    } else {
-        "—".to_string()
-    }
-}
-
-/// A number with about `sig` significant figures, switching to exponent form for very
-/// large or small magnitudes; "—" when not finite.
-pub fn sig(v: f64, sig: usize) -> String {
-    if !v.is_finite() {
-        return "—".to_string();
-    }
-    if v == 0.0 {
-        return "0".to_string();
-    }
-    let mag = v.abs().log10().floor() as i64;
-    if !(-4..6).contains(&mag) {
-        return format!("{:.*e}", sig.saturating_sub(1), v);
-    }
-    let d = (sig as i64 - 1 - mag).max(0) as usize;
-    num(v, d)
-}
-
-/// One row of the results table, already in display units.
-#[derive(Debug, Clone, PartialEq)]
-pub struct ResultRow {
-    /// Quantity, e.g. "ΔH° at θ = 298.15 K".
-    pub quantity: String,
-    /// The estimate in display units.
-    pub estimate: Estimate,
-    /// Unit symbol.
-    pub unit: String,
-}
-
-impl ResultRow {
-    /// Value, SE, CI low, CI high formatted with decimals suited to the SE.
-    pub fn cells(&self) -> [String; 4] {
-        let d = decimals_for(self.estimate.se);
-        [
-            num(self.estimate.value, d),
-            num(self.estimate.se, d),
-            num(self.estimate.ci_low, d),
-            num(self.estimate.ci_high, d),
-        ]
-    }
-}
-
-/// Shows a temperature in kelvin in `unit`, e.g. "25.00 °C".
-pub fn show_t(t_k: f64, unit: TemperatureUnit) -> String {
-    format!("{} {}", num(unit.from_kelvin(t_k), 2), unit.symbol())
-}
-
-/// Converts a temperature *difference or SE* in kelvin to `unit`.
-fn t_diff_from_kelvin(v: f64, unit: TemperatureUnit) -> f64 {
-    match unit {
-        TemperatureUnit::Fahrenheit => v * 9.0 / 5.0,
-        _ => v,
-    }
-}
-
-/// The results rows: ΔH°, ΔS°, ΔG° at θ and at the harmonic-mean temperature, ΔCp° where
-/// fitted, and the temperature where K = 1 when there is one.
+/// The results rows of a report (see [`present::result_rows`]).
 pub fn result_rows(input: &ReportInput) -> Vec<ResultRow> {
-    result_rows_for(&input.fit, input.energy_unit, input.temperature_unit)
+    present::result_rows(&input.fit, input.energy_unit, input.temperature_unit)
 }
 
 /// As [`result_rows`], from a fit and the display units alone.
 pub fn result_rows_for(fit: &VantHoffFit, e: EnergyUnit, tu: TemperatureUnit) -> Vec<ResultRow> {
-    let ef = 1.0 / e.joules_per_mole();
-    let (sf, s_unit) = entropy_unit(e);
-    let mut rows = Vec::new();
-    for (label, at) in [
-        (
-            format!("θ = {}", show_t(fit.at_reference.t_k, tu)),
-            &fit.at_reference,
-        ),
-        (
-            format!("T_hm = {}", show_t(fit.at_harmonic.t_k, tu)),
-            &fit.at_harmonic,
-        ),
-    ] {
-        rows.push(ResultRow {
-            quantity: format!("ΔH° at {label}"),
-            estimate: at.delta_h.scaled(ef),
-            unit: e.symbol().to_string(),
-        });
-        rows.push(ResultRow {
-            quantity: format!("ΔS° at {label}"),
-            estimate: at.delta_s.scaled(1.0 / sf),
-            unit: s_unit.to_string(),
-        });
-        rows.push(ResultRow {
-            quantity: format!("ΔG° at {label}"),
-            estimate: at.delta_g.scaled(ef),
-            unit: e.symbol().to_string(),
-        });
-    }
-    if let Some(cp) = fit.delta_cp() {
-        rows.push(ResultRow {
-            quantity: "ΔCp° (constant)".to_string(),
-            estimate: cp.scaled(1.0 / sf),
-            unit: s_unit.to_string(),
-        });
-    }
-    if let Some(t1) = fit.t_at_k1 {
-        let conv = |v: f64| tu.from_kelvin(v);
-        // Usually far outside the data (K = 1 is rarely near the measured range): say so
-        // next to the number.
-        let quantity = if fit.is_extrapolation(t1.value) {
-            "T where K = 1 (ΔG° = 0), extrapolated far outside the measured range".to_string()
-        } else {
-            "T where K = 1 (ΔG° = 0)".to_string()
-        };
-        rows.push(ResultRow {
-            quantity,
-            estimate: Estimate {
-                value: conv(t1.value),
-                se: t_diff_from_kelvin(t1.se, tu),
-                ci_low: conv(t1.ci_low),
-                ci_high: conv(t1.ci_high),
-            },
-            unit: tu.symbol().to_string(),
-        });
-    }
-    rows
-}
-
-/// The fit statistics as (name, value) pairs.
-pub fn statistics_rows(fit: &VantHoffFit) -> Vec<(String, String)> {
-    let s = &fit.stats;
-    let mut v = vec![
-        (
-            "points used / given".to_string(),
-            format!("{} / {}", fit.n_used, fit.n_total),
-        ),
-        (
-            "residual degrees of freedom".to_string(),
-            fit.dof.to_string(),
-        ),
-        ("χ²".to_string(), sig(s.chi2, 5)),
-        ("reduced χ²".to_string(), sig(s.reduced_chi2, 4)),
-        ("residual SD".to_string(), sig(s.residual_sd, 4)),
-        ("R²".to_string(), num(s.r2, 6)),
-        ("adjusted R²".to_string(), num(s.adj_r2, 6)),
-        (
-            "AICc".to_string(),
-            s.aicc
-                .map_or("— (too few points)".to_string(), |a| num(a, 3)),
-        ),
-        ("BIC".to_string(), num(s.bic, 3)),
-        ("corr(ΔH°, ΔS°) at θ".to_string(), num(fit.corr_h_s, 5)),
-        (
-            "critical value".to_string(),
-            format!(
-                "{} ({})",
-                num(fit.critical_value, 4),
-                if is_absolute(fit) {
-                    "normal".to_string()
-                } else {
-                    format!("Student's t, {} dof", fit.dof)
-                }
-            ),
-        ),
-    ];
-    if let Some(p) = s.chi2_p_value {
-        v.push(("P(χ² ≥ observed)".to_string(), sig(p, 3)));
-    }
-    v
-}
-
-fn is_absolute(fit: &VantHoffFit) -> bool {
-    fit.options.convention == SigmaConvention::Absolute && fit.weighted
-}
-
-/// Flags of a point in words.
-pub fn flag_words(flags: isochore_fit::Flags) -> String {
-    let mut v = Vec::new();
-    if flags.outlier {
-        v.push("outlier");
-    }
-    if flags.high_leverage {
-        v.push("high leverage");
-    }
-    if flags.influential {
-        v.push("influential");
-    }
-    v.join(", ")
+    present::result_rows(fit, e, tu)
 }
 
 /// The exclusions, one sentence each.
@@ -316,48 +122,39 @@ pub fn job_line(input: &ReportInput) -> String {
         "Van 't Hoff fit of series “{}” from {}: {} of {} points used, {} model, {}, {}% confidence intervals.",
         input.series_name,
         input.source_name,
-        fit.n_used,
-        fit.n_total,
-        match fit.model() {
-            Model::Linear => "linear",
-            Model::ConstantCp => "constant-ΔCp°",
-        },
-        if fit.weighted { "weighted by 1/σ²" } else { "unweighted" },
-        num(fit.options.level * 100.0, 1).trim_end_matches(".0"),
+        fit.n_used(),
+        fit.n_total(),
+        present::model_name(fit.model()),
+        if fit.weighted() { "weighted by 1/σ²" } else { "unweighted" },
+        percent(fit.options().level),
     )
 }
 
 fn methods(input: &ReportInput) -> Vec<Block> {
     let fit = &input.fit;
-    let o = &fit.options;
+    let o = &fit.options();
     let mut out = Vec::new();
-    let equation = match fit.model() {
-        Model::Linear => "ln K = −ΔH°/(R·T) + ΔS°/R".to_string(),
-        Model::ConstantCp => format!(
-            "ln K = −ΔH°(θ)/(R·T) + ΔS°(θ)/R + (ΔCp°/R)·(θ/T − 1 + ln(T/θ)),  θ = {} K",
-            num(o.t_ref_k, 2)
-        ),
-    };
-    let weighting = match (o.weighting, fit.weighted) {
+    let equation = present::equation(fit.model(), o.t_ref_k);
+    let weighting = match (o.weighting, fit.weighted()) {
         (Weighting::InverseVariance, true) => {
             "Each point is weighted by 1/σ(ln K)², with σ(ln K) propagated to first order from the uncertainty given in the file."
         }
         _ => "All points carry equal weight (unweighted least squares).",
     };
-    let convention = if is_absolute(fit) {
+    let convention = if present::is_absolute(fit) {
         "The stated uncertainties are taken as absolute: the parameter covariance is (XᵀWX)⁻¹ without rescaling, and intervals use the normal distribution."
     } else {
         "The parameter covariance is scaled by the reduced χ² (the scatter about the fit sets the error scale), and intervals use Student's t with n − p degrees of freedom."
     };
     out.push(Block::Paragraph(format!(
-        "The {} model was fitted to ln K by least squares written directly in the thermodynamic parameters, so the fitted coefficients are ΔH° and ΔS°{} with their full covariance:",
+        "The {} model was fitted to ln K by least squares written directly in the thermodynamic parameters, so the fitted coefficients are {} with their full covariance:",
         fit.model().describe(),
-        if fit.model() == Model::ConstantCp { " (at θ) and ΔCp°" } else { "" }
+        present::coefficients_phrase(fit.model())
     )));
     out.push(Block::Equation(equation));
     out.push(Block::Paragraph(format!(
         "{weighting} {convention} Intervals are two-sided at the {}% level. ΔG°(T) = ΔH°(T) − T·ΔS°(T) and its standard error come from the full covariance (delta method, exact for these linear combinations). The harmonic-mean temperature T_hm (1/T_hm = Σwᵢ/Tᵢ / Σwᵢ) is where ΔH° and ΔS° are least correlated. R = {} J mol⁻¹ K⁻¹ (CODATA 2018, exact in the 2019 SI). Points are flagged as outliers when |externally studentized residual| > {}, as high leverage when h > {}·p/n, and as influential when Cook's distance D > {}/n (common rules of thumb).",
-        num(o.level * 100.0, 1).trim_end_matches(".0"),
+        percent(o.level),
         GAS_CONSTANT,
         sig(o.thresholds.outlier_studentized, 3),
         sig(o.thresholds.leverage_factor, 3),
@@ -371,14 +168,11 @@ fn cautions(input: &ReportInput) -> Vec<String> {
     let tu = input.temperature_unit;
     vec![
         "Activities are taken as concentrations relative to the standard state c° = 1 mol/L (dissociation constants are converted as K = c°/K_d); activity coefficients are assumed constant over the temperature range.".to_string(),
-        match fit.model() {
-            Model::Linear => "ΔCp° is neglected: ΔH° and ΔS° are assumed independent of temperature over the measured range.".to_string(),
-            Model::ConstantCp => "ΔCp° is assumed constant over the measured range; higher temperature derivatives are neglected.".to_string(),
-        },
+        present::model_caution(fit.model()),
         format!(
             "Values outside the measured range {} to {} are extrapolations that hold only if the model does.",
-            show_t(fit.t_min_k, tu),
-            show_t(fit.t_max_k, tu)
+            show_t(fit.t_min_k(), tu),
+            show_t(fit.t_max_k(), tu)
         ),
         "Van 't Hoff enthalpies can differ from calorimetric ones (coupled equilibria, protonation, or a two-state assumption that does not hold); compare with calorimetry where it matters.".to_string(),
         "This report documents a calculation; it does not replace the laboratory's own validated methods, which take precedence for any decision.".to_string(),
@@ -409,19 +203,22 @@ fn data_table(input: &ReportInput) -> Table {
     let rows: Vec<Vec<String>> = input
         .rows
         .iter()
-        .zip(&fit.points)
+        .zip(fit.points())
         .take(MAX_TABLE_ROWS)
         .map(|(r, d)| {
             let mut cells = vec![r.row.to_string(), r.line.to_string()];
             for i in 0..input.headers.len() {
                 cells.push(r.cells.get(i).cloned().unwrap_or_default());
             }
-            cells.push(num(r.t_k, 2));
-            cells.push(num(r.ln_k, 4));
-            cells.push(r.sigma_ln_k.map_or("—".to_string(), |s| num(s, 4)));
+            cells.push(fixed(r.t_k, 2));
+            cells.push(fixed(r.ln_k, 4));
+            cells.push(
+                r.sigma_ln_k
+                    .map_or(present::MISSING.to_string(), |s| fixed(s, 4)),
+            );
             cells.push(if r.included { "yes" } else { "no" }.to_string());
-            cells.push(num(d.fitted, 4));
-            cells.push(num(d.residual, 4));
+            cells.push(fixed(d.fitted, 4));
+            cells.push(fixed(d.residual, 4));
             cells.push(flag_words(d.flags));
             cells.resize(n_cols, String::new());
             cells
@@ -452,21 +249,21 @@ fn diagnostics_table(input: &ReportInput) -> Table {
     .iter()
     .map(|s| s.to_string())
     .collect();
-    let opt = |v: Option<f64>| v.map_or("—".to_string(), |x| num(x, 3));
-    let used = fit.points.iter().filter(|d| d.used).count();
+    let opt = |v: Option<f64>| v.map_or(present::MISSING.to_string(), |x| fixed(x, 3));
+    let used = fit.points().iter().filter(|d| d.used).count();
     let note =
         (used > MAX_TABLE_ROWS).then(|| full_data_note(input, MAX_TABLE_ROWS, used, "used points"));
     let rows = input
         .rows
         .iter()
-        .zip(&fit.points)
+        .zip(fit.points())
         .filter(|(_, d)| d.used)
         .take(MAX_TABLE_ROWS)
         .map(|(r, d)| {
             vec![
                 r.row.to_string(),
                 show_t(r.t_k, input.temperature_unit),
-                num(d.leverage, 3),
+                fixed(d.leverage, 3),
                 opt(d.student_int),
                 opt(d.student_ext),
                 opt(d.cooks_d),
@@ -483,11 +280,38 @@ fn diagnostics_table(input: &ReportInput) -> Table {
     }
 }
 
+/// The model comparison: the ladder's verdict in words and each step's F-test and ΔAICc.
+fn comparison(fit: &VantHoffFit) -> Vec<Block> {
+    let Some(c) = fit.comparison() else {
+        return vec![Block::Paragraph(
+            "The models could not be compared: the next larger model needs more used points at more distinct temperatures than there are.".into(),
+        )];
+    };
+    vec![
+        Block::Paragraph(format!(
+            "The nested models {} compared on the same points: {}. The evidence prefers the {} model; this report uses the {} model.",
+            present::ladder_text(c),
+            c.verdict,
+            present::model_name(c.preferred),
+            present::model_name(fit.model()),
+        )),
+        Block::Table(Table {
+            header: vec!["test".into(), "value".into()],
+            rows: present::comparison_rows(c)
+                .into_iter()
+                .map(|(k, v)| vec![k, v])
+                .collect(),
+            numeric: vec![false, true],
+            note: None,
+        }),
+    ]
+}
+
 /// Builds the whole report as blocks, in reading order.
 pub fn build(input: &ReportInput) -> Vec<Block> {
     let fit = &input.fit;
     let e = input.energy_unit;
-    let (_, s_unit) = entropy_unit(e);
+    let s_unit = present::per_kelvin(e).symbol;
     let tu = input.temperature_unit;
     let mut b = vec![
         Block::Title(input.title.clone()),
@@ -512,12 +336,12 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
         numeric: vec![false, true, true, true, true, false],
         note: Some(format!(
             "SE = standard error; CI = {}% confidence interval. θ is the reference temperature, T_hm the weighted harmonic-mean temperature of the used points.",
-            num(fit.options.level * 100.0, 1).trim_end_matches(".0")
+            percent(fit.options().level)
         )),
     }));
-    if !fit.warnings.is_empty() {
+    if !fit.warnings().is_empty() {
         b.push(Block::Warnings(
-            fit.warnings.iter().map(|w| w.message.clone()).collect(),
+            fit.warnings().iter().map(|w| w.message.clone()).collect(),
         ));
     }
     b.push(Block::Table(Table {
@@ -535,8 +359,8 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
         FigureKind::VantHoff,
         format!(
             "ln K against 1000/T with the fitted {} model (line), its {}% confidence band (shaded) and prediction band (dashed). Filled circles are used points (bars ±σ where given), hollow circles are excluded points, and a ring marks a flagged point. The top axis gives the temperature in {}.",
-            if fit.model() == Model::Linear { "linear" } else { "constant-ΔCp°" },
-            num(fit.options.level * 100.0, 1).trim_end_matches(".0"),
+            present::model_name(fit.model()),
+            percent(fit.options().level),
             tu.symbol()
         ),
     ));
@@ -550,16 +374,16 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
         FigureKind::Influence,
         format!(
             "Internally studentized residual against leverage for the used points, with contours of Cook's distance D = {}/n and D = 1; dotted lines mark the leverage threshold {}·p/n and residuals of ±{}.",
-            sig(fit.options.thresholds.cooks_factor, 3),
-            sig(fit.options.thresholds.leverage_factor, 3),
-            sig(fit.options.thresholds.outlier_studentized, 3)
+            sig(fit.options().thresholds.cooks_factor, 3),
+            sig(fit.options().thresholds.leverage_factor, 3),
+            sig(fit.options().thresholds.outlier_studentized, 3)
         ),
     ));
     b.push(Block::Table(diagnostics_table(input)));
     let flagged: Vec<String> = input
         .rows
         .iter()
-        .zip(&fit.points)
+        .zip(fit.points())
         .filter(|(_, d)| d.flags.any())
         .take(MAX_LIST_ITEMS + 1)
         .map(|(r, d)| {
@@ -574,7 +398,7 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
     if flagged.is_empty() {
         b.push(Block::Paragraph("No point is flagged.".into()));
     } else {
-        let total = fit.points.iter().filter(|d| d.flags.any()).count();
+        let total = fit.points().iter().filter(|d| d.flags.any()).count();
         b.push(Block::Paragraph("Flagged points:".into()));
         b.push(Block::Bullets(capped(flagged, total)));
     }
@@ -582,9 +406,9 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
     b.push(Block::Heading("ΔH° and ΔS° together".into()));
     b.push(Block::Paragraph(format!(
         "ΔH° and ΔS° are estimated jointly and their errors are correlated (r = {} at θ). The ellipse is their joint {}% confidence region; quoting them separately overstates what is known about each. At T_hm = {} they are least correlated.",
-        num(fit.corr_h_s, 4),
-        num(fit.options.level * 100.0, 1).trim_end_matches(".0"),
-        show_t(fit.t_harmonic_k, tu)
+        fixed(fit.corr_h_s(), 4),
+        percent(fit.options().level),
+        show_t(fit.t_harmonic_k(), tu)
     )));
     b.push(Block::Figure(
         FigureKind::Ellipse,
@@ -592,58 +416,23 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
             "Joint confidence region of ΔH° ({}) and ΔS° ({}) at θ = {}.",
             e.symbol(),
             s_unit,
-            show_t(fit.options.t_ref_k, tu)
+            show_t(fit.options().t_ref_k, tu)
         ),
     ));
-    let cov = &fit.covariance;
-    if cov.len() >= 2 {
+    let (header, rows) = present::covariance_table(fit);
+    if rows.len() >= 2 {
+        let mut numeric = vec![true; header.len()];
+        numeric[0] = false;
         b.push(Block::Table(Table {
-            header: vec![
-                "covariance (SI)".into(),
-                "ΔH° / J mol⁻¹".into(),
-                "ΔS° / J mol⁻¹ K⁻¹".into(),
-            ],
-            rows: vec![
-                vec!["ΔH°".into(), sig(cov[0][0], 5), sig(cov[0][1], 5)],
-                vec!["ΔS°".into(), sig(cov[1][0], 5), sig(cov[1][1], 5)],
-            ],
-            numeric: vec![false, true, true],
+            header,
+            rows,
+            numeric,
             note: None,
         }));
     }
 
     b.push(Block::Heading("Model comparison".into()));
-    match &fit.comparison {
-        Some(c) => {
-            b.push(Block::Paragraph(format!(
-                "Linear against constant-ΔCp° on the same points: {}. The evidence prefers the {} model; this report uses the {} model.",
-                c.verdict,
-                if c.preferred == Model::Linear { "linear" } else { "constant-ΔCp°" },
-                if fit.model() == Model::Linear { "linear" } else { "constant-ΔCp°" },
-            )));
-            b.push(Block::Table(Table {
-                header: vec!["test".into(), "value".into()],
-                rows: vec![
-                    vec!["F statistic (1 extra parameter)".into(), sig(c.f_statistic, 4)],
-                    vec!["p-value of F".into(), sig(c.f_p_value, 3)],
-                    vec![
-                        "ΔAICc (ΔCp° − linear)".into(),
-                        c.delta_aicc.map_or("—".to_string(), |d| num(d, 2)),
-                    ],
-                    vec![
-                        "preferred".into(),
-                        if c.preferred == Model::Linear { "linear" } else { "constant ΔCp°" }
-                            .to_string(),
-                    ],
-                ],
-                numeric: vec![false, true],
-                note: None,
-            }));
-        }
-        None => b.push(Block::Paragraph(
-            "The models could not be compared: the constant-ΔCp° model needs at least four used points at three or more temperatures.".into(),
-        )),
-    }
+    b.extend(comparison(fit));
 
     b.push(Block::Heading("Data".into()));
     b.push(Block::Paragraph(format!(
@@ -671,7 +460,7 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
     b.push(Block::Bullets(cautions(input)));
 
     b.push(Block::Heading("Reproducibility".into()));
-    let o = &fit.options;
+    let o = &fit.options();
     let mut settings: Vec<Vec<String>> = vec![
         vec![
             "program".into(),
@@ -683,7 +472,7 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
         vec!["model".into(), o.model.key().to_string()],
         vec![
             "reference temperature θ".into(),
-            format!("{} K", num(o.t_ref_k, 2)),
+            format!("{} K", fixed(o.t_ref_k, 2)),
         ],
         vec![
             "weighting".into(),
@@ -704,12 +493,7 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
         vec!["confidence level".into(), sig(o.level, 4)],
         vec![
             "flag thresholds".into(),
-            format!(
-                "|t| > {}, h > {}·p/n, D > {}/n",
-                sig(o.thresholds.outlier_studentized, 3),
-                sig(o.thresholds.leverage_factor, 3),
-                sig(o.thresholds.cooks_factor, 3)
-            ),
+            present::thresholds_text(o.thresholds),
         ],
         vec!["energy unit".into(), e.symbol().to_string()],
         vec!["R".into(), format!("{GAS_CONSTANT} J mol⁻¹ K⁻¹")],

@@ -2,7 +2,8 @@
 //! per-point diagnostics) and the results (estimates with SE and interval in the user's
 //! units, then the fit statistics). Written with the csv crate so quoting is always right.
 
-use crate::content::{flag_words, result_rows, statistics_rows};
+use crate::content::result_rows;
+use crate::present::{flag_words, statistics_rows};
 use crate::{ReportError, ReportInput};
 use std::fmt::Write as _;
 
@@ -53,7 +54,7 @@ pub(crate) fn data_csv(input: &ReportInput) -> Result<Vec<u8>, ReportError> {
         }
         w.write_field(b.as_bytes()).map_err(csv_err)
     };
-    for (r, d) in input.rows.iter().zip(&input.fit.points) {
+    for (r, d) in input.rows.iter().zip(input.fit.points()) {
         w.write_field(r.row.to_string()).map_err(csv_err)?;
         w.write_field(r.line.to_string()).map_err(csv_err)?;
         for i in 0..input.headers.len() {

@@ -9,9 +9,10 @@
 //! font lookup is needed. Colours come from a colour-blind-safe set (blue, vermillion,
 //! orange, bluish green, grey) and every distinction is also carried by shape or line style.
 
-use crate::content::{entropy_unit, num};
 use crate::fonts;
+use crate::present::{self, fixed};
 use crate::{ReportError, ReportInput};
+use isochore_fit::influence::{cooks_contour, FlagLimits};
 use isochore_fit::TemperatureUnit;
 use plotters::chart::SeriesAnno;
 use plotters::element::DashedPathElement;
@@ -392,8 +393,8 @@ fn framed_chart<'a, 'b>(root: &'a Area<'b>, f: Frame<'_>) -> Result<Chart<'a, 'b
         .configure_mesh()
         .x_desc(f.x_desc)
         .y_desc(f.y_desc)
-        .x_label_formatter(&|v| num(*v, xd))
-        .y_label_formatter(&|v| num(*v, yd))
+        .x_label_formatter(&|v| fixed(*v, xd))
+        .y_label_formatter(&|v| fixed(*v, yd))
         .label_style((FONT, TICK_SIZE))
         .axis_desc_style((FONT, DESC_SIZE))
         .bold_line_style(RGBColor(200, 200, 200).stroke_width(1))
@@ -430,10 +431,8 @@ fn no_data(root: &Area, what: &str) -> Result<(), ReportError> {
 
 fn vant_hoff(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
     let fit = &input.fit;
-    let level = num(fit.options.level * 100.0, 1)
-        .trim_end_matches(".0")
-        .to_string();
-    let xs = fit.points.iter().map(|p| 1000.0 / p.t_k);
+    let level = present::level_percent(fit);
+    let xs = fit.points().iter().map(|p| 1000.0 / p.t_k);
     let Some(xr) = finite_range(xs) else {
         return no_data(root, "points");
     };
@@ -484,7 +483,7 @@ fn vant_hoff(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
             INK.stroke_width(1),
         ))
         .map_err(fe)?;
-        let label = num(tu.from_kelvin(1000.0 / k), t_dec);
+        let label = fixed(tu.from_kelvin(1000.0 / k), t_dec);
         root.draw(&Text::new(
             label,
             (px, top - 9),
@@ -582,7 +581,7 @@ fn draw_points<'a, 'b, CT>(
 where
     CT: CoordTranslate<From = (f64, f64)>,
 {
-    let pts = &input.fit.points;
+    let pts = input.fit.points();
     let finite = |p: &&isochore_fit::PointDiagnostics| {
         let (x, y) = pos(p);
         x.is_finite() && y.is_finite()
@@ -625,17 +624,14 @@ where
             .label("excluded point")
             .legend(|(x, y)| Circle::new((x + 11, y), 6, VERMILLION.stroke_width(2)));
     }
-    if pts.iter().filter(finite).any(|p| p.flags.any()) {
-        chart
-            .draw_series(
-                pts.iter()
-                    .filter(finite)
-                    .filter(|p| p.flags.any())
-                    .map(|p| Circle::new(pos(p), 11, ORANGE.stroke_width(3))),
-            )
-            .map_err(fe)?
-            .label("flagged point")
-            .legend(|(x, y)| Circle::new((x + 11, y), 8, ORANGE.stroke_width(3)));
+    let flagged: Vec<(f64, f64)> = pts
+        .iter()
+        .filter(finite)
+        .filter(|p| p.flags.any())
+        .map(&pos)
+        .collect();
+    if !flagged.is_empty() {
+        draw_flag_rings(chart, &flagged, Rings::Each, "flagged point".into())?;
     }
     // Row labels for the points a reader will look for.
     let labels: Vec<_> = input
@@ -657,6 +653,57 @@ where
     Ok(())
 }
 
+/// How flagged points are ringed: one large ring around each point of a small series, or
+/// small rings at the extremes of each envelope column of a large one.
+#[derive(Clone, Copy, PartialEq, Eq)]
+enum Rings {
+    /// Every point, ringed wide.
+    Each,
+    /// The column extremes of a large series ([`envelope_extremes`]), ringed small.
+    Extremes,
+}
+
+/// Rings flagged points in the flag colour, with the key entry `label`.
+fn draw_flag_rings<'a, 'b, CT>(
+    chart: &mut ChartContext<'a, SVGBackend<'b>, CT>,
+    flagged: &[(f64, f64)],
+    rings: Rings,
+    label: String,
+) -> Result<(), ReportError>
+where
+    CT: CoordTranslate<From = (f64, f64)>,
+{
+    let (points, radius, width) = match rings {
+        Rings::Each => (flagged.to_vec(), 11, 3),
+        Rings::Extremes => (envelope_extremes(flagged), 6, 2),
+    };
+    chart
+        .draw_series(
+            points
+                .into_iter()
+                .map(|p| Circle::new(p, radius, ORANGE.stroke_width(width))),
+        )
+        .map_err(fe)?
+        .label(label)
+        .legend(|(x, y)| Circle::new((x + 11, y), 8, ORANGE.stroke_width(3)));
+    Ok(())
+}
+
+/// Draws the used points of a large series as their envelope, with its key entry.
+fn draw_used_envelope<'a, 'b, CT>(
+    chart: &mut ChartContext<'a, SVGBackend<'b>, CT>,
+    used: &[(f64, f64)],
+) -> Result<(), ReportError>
+where
+    CT: CoordTranslate<From = (f64, f64)>,
+{
+    let style = INK.mix(0.6).stroke_width(2);
+    draw_envelope(chart, used, style)?
+        .label(format!("used points ({}, range per column)", used.len()))
+        .legend(move |(x, y)| PathElement::new(vec![(x + 11, y - 7), (x + 11, y + 7)], style));
+    Ok(())
+}
+
 /// A large series: used and excluded points as envelopes (no error bars, no row labels),
 /// flagged points as rings at the extremes of each column of flagged points.
 fn draw_many_points<'a, 'b, CT>(
@@ -667,15 +714,12 @@ fn draw_many_points<'a, 'b, CT>(
 where
     CT: CoordTranslate<From = (f64, f64)>,
 {
-    let pts = &input.fit.points;
+    let pts = input.fit.points();
     let used: Vec<(f64, f64)> = pts.iter().filter(|p| p.used).map(&pos).collect();
     let excluded: Vec<(f64, f64)> = pts.iter().filter(|p| !p.used).map(&pos).collect();
     let flagged: Vec<(f64, f64)> = pts.iter().filter(|p| p.flags.any()).map(&pos).collect();
     if !used.is_empty() {
-        let style = INK.mix(0.6).stroke_width(2);
-        draw_envelope(chart, &used, style)?
-            .label(format!("used points ({}, range per column)", used.len()))
-            .legend(move |(x, y)| PathElement::new(vec![(x + 11, y - 7), (x + 11, y + 7)], style));
+        draw_used_envelope(chart, &used)?;
     }
     if !excluded.is_empty() {
         let style = VERMILLION.stroke_width(2);
@@ -689,15 +733,7 @@ where
         } else {
             "flagged point".to_string()
         };
-        chart
-            .draw_series(
-                envelope_extremes(&flagged)
-                    .into_iter()
-                    .map(|p| Circle::new(p, 6, ORANGE.stroke_width(2))),
-            )
-            .map_err(fe)?
-            .label(label)
-            .legend(|(x, y)| Circle::new((x + 11, y), 8, ORANGE.stroke_width(3)));
+        draw_flag_rings(chart, &flagged, Rings::Extremes, label)?;
     }
     Ok(())
 }
@@ -705,11 +741,11 @@ where
 fn residuals(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
     let fit = &input.fit;
     let tu = input.temperature_unit;
-    let Some(xr) = finite_range(fit.points.iter().map(|p| tu.from_kelvin(p.t_k))) else {
+    let Some(xr) = finite_range(fit.points().iter().map(|p| tu.from_kelvin(p.t_k))) else {
         return no_data(root, "points");
     };
     let (x0, x1) = padded(xr, 0.08);
-    let ys = fit.points.iter().flat_map(|p| {
+    let ys = fit.points().iter().flat_map(|p| {
         let s = p.sigma_ln_k.unwrap_or(0.0);
         [p.residual - s, p.residual + s]
     });
@@ -750,14 +786,13 @@ fn residuals(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
 
 fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
     let fit = &input.fit;
-    let p = fit.params.len() as f64;
-    let n = fit.n_used.max(1) as f64;
-    let th = fit.options.thresholds;
-    let h_thr = th.leverage_factor * p / n;
+    // The limits and contours come from the fit crate, as the diagnostics applied them.
+    let limits = FlagLimits::of(fit);
+    let h_thr = limits.leverage;
     let used: Vec<(usize, f64, f64, bool)> = input
         .rows
         .iter()
-        .zip(&fit.points)
+        .zip(fit.points())
         .filter_map(|(r, d)| {
             let s = d.student_int?;
             (d.used && s.is_finite() && d.leverage.is_finite()).then_some((
@@ -774,7 +809,7 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
     let h_max = used.iter().map(|u| u.1).fold(0.0f64, f64::max);
     let x1 = (h_max.max(h_thr) * 1.15).clamp(0.05, 1.0);
     let r_max = used.iter().map(|u| u.2.abs()).fold(0.0f64, f64::max);
-    let ylim = (r_max * 1.15).max(th.outlier_studentized + 0.6);
+    let ylim = (r_max * 1.15).max(limits.studentized + 0.6);
     let mut chart = framed_chart(
         root,
         Frame {
@@ -789,7 +824,7 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
     )?;
     // Reference lines: residual ±threshold, leverage threshold.
     let dotted = GREY.stroke_width(2);
-    for y in [th.outlier_studentized, -th.outlier_studentized, 0.0] {
+    for y in [limits.studentized, -limits.studentized, 0.0] {
         chart
             .draw_series(DashedLineSeries::new(vec![(0.0, y), (x1, y)], 3, 5, dotted))
             .map_err(fe)?;
@@ -804,14 +839,14 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
             ))
             .map_err(fe)?;
     }
-    // Cook's distance contours: D = r² h / (p (1 − h))  ⇒  r = ±√(D p (1 − h)/h).
-    for (i, d) in [th.cooks_factor / n, 1.0].into_iter().enumerate() {
+    // Cook's distance contours at the flag limit and at D = 1, 200 leverages across the plot.
+    for (i, d) in limits.contour_levels().into_iter().enumerate() {
         let style = GREEN.stroke_width(2);
+        let upper = cooks_contour(d, fit.params().len(), x1 / 200.0, x1, 200);
         let curve = |sign: f64| -> Vec<(f64, f64)> {
-            (1..=200)
-                .map(|k| x1 * k as f64 / 200.0)
-                .filter(|h| *h < 1.0)
-                .map(|h| (h, sign * (d * p * (1.0 - h) / h).sqrt()))
+            upper
+                .iter()
+                .map(|&[h, r]| (h, sign * r))
                 .filter(|(_, r)| r.abs() <= ylim)
                 .collect()
         };
@@ -830,7 +865,7 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
             }
             if let Some(&(h, r)) = c.last() {
                 let text = if i == 0 {
-                    format!("D = {}", num(d, 2))
+                    format!("D = {}", fixed(d, 2))
                 } else {
                     "D = 1".to_string()
                 };
@@ -847,23 +882,13 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
             }
         }
     }
+    let flagged: Vec<(f64, f64)> = used.iter().filter(|u| u.3).map(|u| (u.1, u.2)).collect();
     if used.len() > ENVELOPE_ABOVE {
-        let style = INK.mix(0.6).stroke_width(2);
         let all: Vec<(f64, f64)> = used.iter().map(|u| (u.1, u.2)).collect();
-        draw_envelope(&mut chart, &all, style)?
-            .label(format!("used points ({}, range per column)", used.len()))
-            .legend(move |(x, y)| PathElement::new(vec![(x + 11, y - 7), (x + 11, y + 7)], style));
-        let flagged: Vec<(f64, f64)> = used.iter().filter(|u| u.3).map(|u| (u.1, u.2)).collect();
+        draw_used_envelope(&mut chart, &all)?;
         if !flagged.is_empty() {
-            chart
-                .draw_series(
-                    envelope_extremes(&flagged)
-                        .into_iter()
-                        .map(|p| Circle::new(p, 6, ORANGE.stroke_width(2))),
-                )
-                .map_err(fe)?
-                .label(format!("flagged points ({})", flagged.len()))
-                .legend(|(x, y)| Circle::new((x + 11, y), 8, ORANGE.stroke_width(3)));
+            let label = format!("flagged points ({})", flagged.len());
+            draw_flag_rings(&mut chart, &flagged, Rings::Extremes, label)?;
         }
         let occupied = envelope_extremes(&all);
         return draw_key(
@@ -879,16 +904,8 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
         .map_err(fe)?
         .label("used point")
         .legend(|(x, y)| Circle::new((x + 11, y), 5, INK.filled()));
-    if used.iter().any(|u| u.3) {
-        chart
-            .draw_series(
-                used.iter()
-                    .filter(|u| u.3)
-                    .map(|&(_, h, r, _)| Circle::new((h, r), 11, ORANGE.stroke_width(3))),
-            )
-            .map_err(fe)?
-            .label("flagged point")
-            .legend(|(x, y)| Circle::new((x + 11, y), 8, ORANGE.stroke_width(3)));
+    if !flagged.is_empty() {
+        draw_flag_rings(&mut chart, &flagged, Rings::Each, "flagged point".into())?;
     }
     if used.len() <= 40 {
         chart
@@ -911,12 +928,15 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
 
 fn ellipse(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
     let fit = &input.fit;
-    let ef = input.energy_unit.joules_per_mole();
-    let (sf, s_unit) = entropy_unit(input.energy_unit);
-    let Ok(poly) = fit.ellipse(fit.options.level, 180) else {
+    let eu = present::energy(input.energy_unit);
+    let su = present::per_kelvin(input.energy_unit);
+    let Ok(poly) = fit.ellipse(fit.options().level, 180) else {
         return no_data(root, "confidence region (degenerate covariance)");
     };
-    let pts: Vec<(f64, f64)> = poly.iter().map(|v| (v[0] / ef, v[1] / sf)).collect();
+    let pts: Vec<(f64, f64)> = poly
+        .iter()
+        .map(|v| (eu.from_si(v[0]), su.from_si(v[1])))
+        .collect();
     let Some(xr) = finite_range(pts.iter().map(|p| p.0)) else {
         return no_data(root, "confidence region");
     };
@@ -930,16 +950,14 @@ fn ellipse(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
         Frame {
             x: (x0, x1),
             y: (y0, y1),
-            x_desc: &format!("ΔH° / ({})", input.energy_unit.symbol()),
-            y_desc: &format!("ΔS° / ({s_unit})"),
+            x_desc: &format!("ΔH° / ({})", eu.symbol),
+            y_desc: &format!("ΔS° / ({})", su.symbol),
             left: 80,
             top: 14,
             y_decimals: None,
         },
     )?;
-    let level = num(fit.options.level * 100.0, 1)
-        .trim_end_matches(".0")
-        .to_string();
+    let level = present::level_percent(fit);
     chart
         .draw_series(std::iter::once(Polygon::new(
             pts.clone(),
@@ -955,13 +973,16 @@ fn ellipse(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
     chart
         .draw_series(LineSeries::new(closed, FIT_BLUE.stroke_width(2)))
         .map_err(fe)?;
-    let (h, s) = (fit.delta_h().value / ef, fit.delta_s().value / sf);
+    let (h, s) = (
+        eu.from_si(fit.delta_h().value),
+        su.from_si(fit.delta_s().value),
+    );
     chart
         .draw_series(std::iter::once(Cross::new((h, s), 7, INK.stroke_width(2))))
         .map_err(fe)?
-        .label(format!("estimate (r = {})", num(fit.corr_h_s, 4)))
+        .label(format!("estimate (r = {})", fixed(fit.corr_h_s(), 4)))
         .legend(|(x, y)| Cross::new((x + 11, y), 6, INK.stroke_width(2)));
-    let rising = fit.corr_h_s > 0.0;
+    let rising = fit.corr_h_s() > 0.0;
     draw_key(
         &mut chart,
         if rising {

@@ -34,6 +34,7 @@ pub mod guard;
 mod html;
 mod markdown;
 mod pdf;
+pub mod present;
 
 use isochore_fit::{EnergyUnit, TemperatureUnit, VantHoffFit};
 use std::fmt;

@@ -7,6 +7,7 @@ use crate::app::Cx;
 use crate::panels::style;
 use egui::RichText;
 use egui_plot::{HLine, Line, LineStyle, Plot, PlotPoint, Points, Text, VLine};
+use isochore_report::present;
 
 /// The diagnostic plots' state: the decimated rows of a large series, kept while the
 /// analysis and the plot width stay the same (both plots always show the whole series).
@@ -47,7 +48,7 @@ impl DiagnosticsPanel {
         // Large series: the min/max envelope per pixel column along each plot's x axis.
         let key = (s.id, a.rev, px);
         let (resid_rows, infl_rows) = if a.resid_index.is_empty() {
-            let all: Vec<usize> = (0..fit.points.len()).collect();
+            let all: Vec<usize> = (0..fit.points().len()).collect();
             (all.clone(), all)
         } else {
             match &self.decimated {
@@ -86,7 +87,7 @@ impl DiagnosticsPanel {
             ui.vertical(|ui| {
                 ui.set_width(half);
                 ui.label(RichText::new("Residuals against temperature").strong());
-                let m = Marks::collect(&resid_rows, &fit.points, &highlight, |d| {
+                let m = Marks::collect(&resid_rows, fit.points(), &highlight, |d| {
                     Some([tu.from_kelvin(d.t_k), d.residual])
                 });
                 let resp = Plot::new("residual_plot")
@@ -118,12 +119,10 @@ impl DiagnosticsPanel {
                         .weak(),
                     );
                 });
-                let m = Marks::collect(&infl_rows, &fit.points, &highlight, |d| {
+                let m = Marks::collect(&infl_rows, fit.points(), &highlight, |d| {
                     d.student_int.map(|r| [d.leverage, r])
                 });
-                let p = fit.model().n_params() as f64;
-                let lev_threshold =
-                    fit.options.thresholds.leverage_factor * p / fit.n_used.max(1) as f64;
+                let lev_threshold = isochore_fit::influence::FlagLimits::of(fit).leverage;
                 let max_h = m.all.iter().map(|q| q.1[0]).fold(lev_threshold, f64::max);
                 // Contours are cut a little above the largest residual, so they do not
                 // stretch the axis (and squeeze the points) far beyond the data.
@@ -149,6 +148,7 @@ impl DiagnosticsPanel {
                                 .collect();
                             let lower: Vec<[f64; 2]> =
                                 upper.iter().map(|q| [q[0], -q[1]]).collect();
+                            let d = present::fixed(*d, 2);
                             let name = format!("Cook's D = {d}");
                             // Name each contour where it comes down through r = 2, where
                             // the two curves stand apart (on the right they converge).

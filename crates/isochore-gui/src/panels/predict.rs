@@ -4,9 +4,10 @@
 //! isochore-fit; this panel only reads the typed inputs.
 
 use crate::app::Cx;
-use crate::panels::{results::unit_factors, style};
+use crate::panels::style;
 use egui::RichText;
 use isochore_fit::two_point::{enthalpy_from_pairs, StatePoint};
+use isochore_report::present;
 
 /// What the chemist typed.
 #[derive(Debug, Clone)]
@@ -69,7 +70,7 @@ impl PredictPanel {
             return;
         };
         let tu = s.data.settings.temperature_unit;
-        let (ef, _, eu, _) = unit_factors(s.data.settings.energy_unit);
+        let eu = present::energy(s.data.settings.energy_unit);
         let a = cx.fitter.get(s.id);
         let fit = a.as_ref().and_then(|a| a.fit.as_ref().ok());
         ui.horizontal(|ui| {
@@ -83,24 +84,25 @@ impl PredictPanel {
                 .and_then(|t| fit.predict(tu.to_kelvin(t)).map_err(|e| e.to_string()))
             {
                 Ok(p) => {
-                    let lvl = fit.options.level * 100.0;
+                    let lvl = present::level_percent(fit);
                     egui::Grid::new("prediction")
                         .num_columns(3)
                         .striped(true)
                         .show(ui, |ui| {
                             ui.strong("");
-                            ui.strong(format!("value ({lvl:.0} % CI)"));
-                            ui.strong(format!("{lvl:.0} % PI"));
+                            ui.strong(format!("value ({lvl} % CI)"));
+                            ui.strong(format!("{lvl} % PI"));
                             ui.end_row();
                             let sig3 = |x: f64| style::sig(x, 3);
                             let fix3 = |x: f64| style::fixed(x, 3);
                             interval_row(ui, "K", &p.k, style::sig(p.k.value, 4), &sig3);
                             interval_row(ui, "ln K", &p.ln_k, fix3(p.ln_k.value), &fix3);
-                            let g = p.delta_g.scaled(ef);
+                            let g = eu.estimate(p.delta_g);
                             ui.label("ΔG°");
                             ui.label(format!(
-                                "{} {eu} ({} … {})",
+                                "{} {} ({} … {})",
                                 style::sig(g.value, 4),
+                                eu.symbol,
                                 style::sig(g.ci_low, 4),
                                 style::sig(g.ci_high, 4)
                             ));
@@ -144,13 +146,11 @@ impl PredictPanel {
                         });
                     }
                     ui.label(format!(
-                        "T = {} {} (SE {} K, CI {} … {} {})",
-                        style::fixed(tu.from_kelvin(t.value), 2),
-                        tu.symbol(),
+                        "T = {} (SE {} K, CI {} … {})",
+                        present::show_t(t.value, tu),
                         style::sig(t.se, 2),
                         style::fixed(tu.from_kelvin(t.ci_low), 1),
-                        style::fixed(tu.from_kelvin(t.ci_high), 1),
-                        tu.symbol()
+                        present::show_t_with(t.ci_high, tu, 1),
                     ));
                 }
                 Some(Err(e)) => {
@@ -201,15 +201,21 @@ impl PredictPanel {
             });
             match res {
                 Ok(r) => {
-                    let (ef, sf, eu, su) = unit_factors(s.data.settings.energy_unit);
-                    let h = r.delta_h.scaled(ef);
-                    let sd = r.delta_s.scaled(sf);
+                    let energy_unit = s.data.settings.energy_unit;
+                    let (eu, su) = (
+                        present::energy(energy_unit),
+                        present::per_kelvin(energy_unit),
+                    );
+                    let h = eu.estimate(r.delta_h);
+                    let sd = su.estimate(r.delta_s);
                     ui.label(format!(
-                        "ΔH° = {} ± {} {eu}   ΔS° = {} ± {} {su}",
+                        "ΔH° = {} ± {} {}   ΔS° = {} ± {} {}",
                         style::sig(h.value, 4),
                         style::sig(h.se, 2),
+                        eu.symbol,
                         style::sig(sd.value, 4),
-                        style::sig(sd.se, 2)
+                        style::sig(sd.se, 2),
+                        su.symbol
                     ));
                 }
                 Err(e) => {

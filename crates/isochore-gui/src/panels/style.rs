@@ -1,9 +1,11 @@
-//! Colours, marker shapes and number formats shared by the panels. Series colours are the
+//! Colours and marker shapes shared by the panels; numbers are written by
+//! `isochore_report::present` (re-exported here as `sig`, `fixed` and `diag`). Series colours are the
 //! Okabe–Ito set, chosen to stay distinct for the common forms of colour blindness; each
 //! series also gets its own marker shape so colour is never the only cue.
 
 use egui::Color32;
 use egui_plot::MarkerShape;
+pub use isochore_report::present::{diag, fixed, sig};
 
 const PALETTE: [Color32; 7] = [
     Color32::from_rgb(0, 114, 178),   // blue
@@ -123,16 +125,6 @@ pub fn envelope_fill(
     );
 }
 
-/// A diagnostic value for a table cell: three decimals, or two significant digits when it
-/// is smaller than 0.01 (leverages of a large series are of order p/n).
-pub fn diag(x: f64) -> String {
-    if x != 0.0 && x.abs() < 0.01 {
-        sig(x, 2)
-    } else {
-        fixed(x, 3)
-    }
-}
-
 /// Axis hints for the workbench's plots: tick labels are kept until they are 38 points
 /// apart (x) or 14 (y), so a short axis still shows several numbers (egui_plot's own
 /// defaults hide them below 60 and 20 points, which leaves short axes with a lone "0").
@@ -164,47 +156,5 @@ pub fn highlight_color(dark: bool) -> Color32 {
         Color32::from_rgb(255, 230, 80)
     } else {
         Color32::from_rgb(20, 20, 20)
-    }
-}
-
-/// A number with `sig` significant digits, in plain or scientific notation as suits.
-pub fn sig(x: f64, sig: usize) -> String {
-    if !x.is_finite() {
-        return "—".into();
-    }
-    if x == 0.0 {
-        return "0".into();
-    }
-    let mag = x.abs().log10().floor() as i32;
-    if !(-4..6).contains(&mag) {
-        return format!("{:.*e}", sig.saturating_sub(1), x);
-    }
-    let decimals = (sig as i32 - 1 - mag).max(0) as usize;
-    format!("{x:.decimals$}")
-}
-
-/// A number with a fixed count of decimals.
-pub fn fixed(x: f64, decimals: usize) -> String {
-    if x.is_finite() {
-        format!("{x:.decimals$}")
-    } else {
-        "—".into()
-    }
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn numbers_read_naturally() {
-        assert_eq!(sig(-48.2371, 4), "-48.24");
-        assert_eq!(sig(0.012345, 3), "0.0123");
-        assert_eq!(sig(1.0e-7, 3), "1.00e-7");
-        assert_eq!(sig(f64::NAN, 3), "—");
-        assert_eq!(fixed(2.5, 2), "2.50");
-        assert_eq!(diag(0.4751), "0.475");
-        assert_eq!(diag(4.0e-6), "4.0e-6");
-        assert_eq!(diag(0.0012), "0.0012");
     }
 }

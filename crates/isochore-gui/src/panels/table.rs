@@ -66,7 +66,7 @@ impl TablePanel {
         };
         let analysis = cx.fitter.get(series.id);
         let a = analysis.as_deref();
-        let diag = a.and_then(|a| a.fit.as_ref().ok().map(|f| &f.points));
+        let diag = a.and_then(|a| a.fit.as_ref().ok().map(|f| f.points()));
         let n_excl = series.data.exclusions.len();
         ui.horizontal(|ui| {
             ui.heading("Measurements");

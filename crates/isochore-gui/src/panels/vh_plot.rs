@@ -351,7 +351,7 @@ fn draw_points(
     if m.is_empty() {
         return 0;
     }
-    let points = a.fit.as_ref().ok().map(|f| &f.points);
+    let points = a.fit.as_ref().ok().map(|f| f.points());
     let mut used = Vec::new();
     let mut excluded = Vec::new();
     let mut flagged = Vec::new();
@@ -474,7 +474,7 @@ pub fn point_card(
         }
         let d = a
             .and_then(|a| a.fit.as_ref().ok())
-            .and_then(|f| f.points.get(point));
+            .and_then(|f| f.points().get(point));
         if let Some(d) = d {
             ui.label("ln K (fit)");
             ui.label(format!(

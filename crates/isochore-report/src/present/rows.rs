@@ -1,0 +1,434 @@
+//! The result and statistic rows every front end shows, each a label, an estimate (value,
+//! SE, interval) and a unit, built by looping over the fit's parameters — so a model with
+//! another parameter shows it in the window, the command line and every report format with
+//! no new code. Each front end only chooses how the cells of a row are written.
+
+use super::model::model_name;
+use super::number::{decimals_for, fixed, percent, sig, MISSING};
+use super::units::{energy, order, per_kelvin, show_t, show_t_with, t_difference, unit_of};
+use isochore_fit::{
+    ComparisonStep, EnergyUnit, Estimate, Flags, Model, ModelComparison, ParamDimension, ParamInfo,
+    Parameter, SigmaConvention, TemperatureUnit, VantHoffFit,
+};
+
+/// The fitted parameters in the model's order, each with what it is (key, symbol,
+/// dimension) and its estimate in SI units.
+pub fn fitted_params(fit: &VantHoffFit) -> &[Parameter] {
+    fit.params()
+}
+
+/// Whether parameter `p` of `model` varies with temperature, so that its value is quoted
+/// at the reference temperature θ: it does exactly when the model also fits a parameter of
+/// a higher order (ΔH° and ΔS° vary when ΔCp° is fitted, ΔCp° when dΔCp°/dT is).
+pub fn varies_with_t(model: Model, p: &ParamInfo) -> bool {
+    model
+        .params()
+        .iter()
+        .any(|q| order(q.dimension) > order(p.dimension))
+}
+
+/// One row of a results table, already in display units.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ResultRow {
+    /// What the row shows, e.g. "ΔH° at θ = 25.00 °C".
+    pub quantity: String,
+    /// The fitted parameter the row shows, when it shows one.
+    pub param: Option<&'static ParamInfo>,
+    /// The estimate in display units.
+    pub estimate: Estimate,
+    /// The unit symbol.
+    pub unit: String,
+}
+
+impl ResultRow {
+    fn new(
+        quantity: String,
+        param: Option<&'static ParamInfo>,
+        estimate: Estimate,
+        unit: &str,
+    ) -> Self {
+        ResultRow {
+            quantity,
+            param,
+            estimate,
+            unit: unit.to_string(),
+        }
+    }
+
+    /// Value, SE, CI low, CI high, all with the decimals that show the SE to two
+    /// significant digits (the tables of the documents and the command line).
+    pub fn cells(&self) -> [String; 4] {
+        let d = decimals_for(self.estimate.se);
+        let e = self.estimate;
+        [
+            fixed(e.value, d),
+            fixed(e.se, d),
+            fixed(e.ci_low, d),
+            fixed(e.ci_high, d),
+        ]
+    }
+
+    /// The value to four significant digits with its unit, "-48.21 kJ/mol" (the window).
+    pub fn value_with_unit(&self) -> String {
+        format!("{} {}", sig(self.estimate.value, 4), self.unit)
+    }
+
+    /// The standard error to two significant digits (the window).
+    pub fn se_short(&self) -> String {
+        sig(self.estimate.se, 2)
+    }
+
+    /// The interval "low … high" to four significant digits (the window).
+    pub fn interval_short(&self) -> String {
+        format!(
+            "{} … {}",
+            sig(self.estimate.ci_low, 4),
+            sig(self.estimate.ci_high, 4)
+        )
+    }
+
+    /// Whether the row shows ΔH° or ΔS° themselves (the pair whose correlation is warned of).
+    pub fn is_enthalpy_or_entropy(&self) -> bool {
+        self.param.is_some_and(|p| {
+            matches!(
+                p.dimension,
+                ParamDimension::Energy | ParamDimension::Entropy
+            )
+        })
+    }
+}
+
+/// The parameter row of `p`: its symbol, "at θ" where it varies with T, in its unit.
+fn param_row(
+    fit: &VantHoffFit,
+    p: &Parameter,
+    e: EnergyUnit,
+    label: impl Fn(&str, bool) -> String,
+) -> ResultRow {
+    let unit = unit_of(p.info.dimension, e);
+    ResultRow::new(
+        label(p.info.symbol, varies_with_t(fit.model(), p.info)),
+        Some(p.info),
+        unit.estimate(p.estimate),
+        unit.symbol,
+    )
+}
+
+/// The results of the documents and the command line: ΔH°, ΔS° and ΔG° at θ and at the
+/// harmonic-mean temperature, then every further parameter of the model (ΔCp°, …; "at θ"
+/// where it varies with T, "(constant)" where it does not), and the temperature where
+/// K = 1 when there is one.
+pub fn result_rows(fit: &VantHoffFit, e: EnergyUnit, tu: TemperatureUnit) -> Vec<ResultRow> {
+    let (eu, su) = (energy(e), per_kelvin(e));
+    let theta = show_t(fit.at_reference().t_k, tu);
+    let mut rows = Vec::new();
+    for (label, at) in [
+        (format!("θ = {theta}"), &fit.at_reference()),
+        (
+            format!("T_hm = {}", show_t(fit.at_harmonic().t_k, tu)),
+            &fit.at_harmonic(),
+        ),
+    ] {
+        rows.push(ResultRow::new(
+            format!("ΔH° at {label}"),
+            None,
+            eu.estimate(at.delta_h),
+            eu.symbol,
+        ));
+        rows.push(ResultRow::new(
+            format!("ΔS° at {label}"),
+            None,
+            su.estimate(at.delta_s),
+            su.symbol,
+        ));
+        rows.push(ResultRow::new(
+            format!("ΔG° at {label}"),
+            None,
+            eu.estimate(at.delta_g),
+            eu.symbol,
+        ));
+    }
+    for p in fitted_params(fit)
+        .iter()
+        .filter(|p| order(p.info.dimension) > 0)
+    {
+        rows.push(param_row(fit, p, e, |symbol, varies| {
+            if varies {
+                format!("{symbol} at θ = {theta}")
+            } else {
+                format!("{symbol} (constant)")
+            }
+        }));
+    }
+    if let Some(t1) = fit.t_at_k1() {
+        // Usually far outside the data (K = 1 is rarely near the measured range): say so
+        // next to the number.
+        let quantity = if fit.is_extrapolation(t1.value) {
+            "T where K = 1 (ΔG° = 0), extrapolated far outside the measured range"
+        } else {
+            "T where K = 1 (ΔG° = 0)"
+        };
+        rows.push(ResultRow::new(
+            quantity.to_string(),
+            None,
+            Estimate {
+                value: tu.from_kelvin(t1.value),
+                se: t_difference(t1.se, tu),
+                ci_low: tu.from_kelvin(t1.ci_low),
+                ci_high: tu.from_kelvin(t1.ci_high),
+            },
+            tu.symbol(),
+        ));
+    }
+    rows
+}
+
+/// The results of the window: every parameter of the model ("ΔH° (25.00 °C)" where it
+/// varies with T), then ΔG° at θ and at the harmonic-mean temperature.
+pub fn parameter_rows(fit: &VantHoffFit, e: EnergyUnit, tu: TemperatureUnit) -> Vec<ResultRow> {
+    let eu = energy(e);
+    let theta = show_t(fit.at_reference().t_k, tu);
+    let mut rows: Vec<ResultRow> = fitted_params(fit)
+        .iter()
+        .map(|p| {
+            param_row(fit, p, e, |symbol, varies| {
+                if varies {
+                    format!("{symbol} ({theta})")
+                } else {
+                    symbol.to_string()
+                }
+            })
+        })
+        .collect();
+    rows.push(ResultRow::new(
+        format!("ΔG° ({theta})"),
+        None,
+        eu.estimate(fit.at_reference().delta_g),
+        eu.symbol,
+    ));
+    rows.push(ResultRow::new(
+        format!("ΔG° ({})", show_t_with(fit.at_harmonic().t_k, tu, 1)),
+        None,
+        eu.estimate(fit.at_harmonic().delta_g),
+        eu.symbol,
+    ));
+    rows
+}
+
+/// Whether the intervals are taken from absolute σ (normal quantile, no rescaling).
+pub fn is_absolute(fit: &VantHoffFit) -> bool {
+    fit.options().convention == SigmaConvention::Absolute && fit.weighted()
+}
+
+/// The distribution the critical value comes from: "normal" or "Student's t, 5 dof".
+pub fn critical_distribution(fit: &VantHoffFit) -> String {
+    if is_absolute(fit) {
+        "normal".to_string()
+    } else {
+        format!("Student's t, {} dof", fit.dof())
+    }
+}
+
+/// The fit statistics as (name, value) pairs, for every front end.
+pub fn statistics_rows(fit: &VantHoffFit) -> Vec<(String, String)> {
+    let s = fit.stats();
+    let mut v = vec![
+        (
+            "points used / given".to_string(),
+            format!("{} / {}", fit.n_used(), fit.n_total()),
+        ),
+        (
+            "residual degrees of freedom".to_string(),
+            fit.dof().to_string(),
+        ),
+        ("χ²".to_string(), sig(s.chi2, 5)),
+        ("reduced χ²".to_string(), sig(s.reduced_chi2, 4)),
+        ("residual SD".to_string(), sig(s.residual_sd, 4)),
+        ("R²".to_string(), fixed(s.r2, 6)),
+        ("adjusted R²".to_string(), fixed(s.adj_r2, 6)),
+        (
+            "AICc".to_string(),
+            s.aicc
+                .map_or(format!("{MISSING} (too few points)"), |a| fixed(a, 3)),
+        ),
+        ("BIC".to_string(), fixed(s.bic, 3)),
+        ("corr(ΔH°, ΔS°) at θ".to_string(), fixed(fit.corr_h_s(), 5)),
+        (
+            "critical value".to_string(),
+            format!(
+                "{} ({})",
+                fixed(fit.critical_value(), 4),
+                critical_distribution(fit)
+            ),
+        ),
+    ];
+    if let Some(p) = s.chi2_p_value {
+        v.push(("P(χ² ≥ observed)".to_string(), sig(p, 3)));
+    }
+    v
+}
+
+/// The fit statistics in the window's short form, as (name, value) pairs: fewer digits
+/// than the documents ([`statistics_rows`]), R² beside its adjusted value, p of χ² in words,
+/// and the weighting, the range of T and the temperature where K = 1.
+pub fn compact_statistics_rows(fit: &VantHoffFit, tu: TemperatureUnit) -> Vec<(String, String)> {
+    let st = fit.stats();
+    let mut v = vec![
+        (
+            "points used / given".to_string(),
+            format!("{} / {}", fit.n_used(), fit.n_total()),
+        ),
+        ("degrees of freedom".to_string(), fit.dof().to_string()),
+        (
+            "weighting".to_string(),
+            if fit.weighted() { "1/σ²" } else { "equal" }.to_string(),
+        ),
+        ("χ²".to_string(), sig(st.chi2, 4)),
+        ("reduced χ²".to_string(), sig(st.reduced_chi2, 4)),
+        ("residual SD".to_string(), sig(st.residual_sd, 3)),
+        (
+            "R² (adjusted)".to_string(),
+            format!("{} ({})", fixed(st.r2, 5), fixed(st.adj_r2, 5)),
+        ),
+        (
+            "AICc".to_string(),
+            st.aicc.map_or(MISSING.to_string(), |a| fixed(a, 2)),
+        ),
+        ("BIC".to_string(), fixed(st.bic, 2)),
+    ];
+    if let Some(p) = st.chi2_p_value {
+        v.push((
+            "χ² against stated σ".to_string(),
+            isochore_fit::vant_hoff::format_p(p),
+        ));
+    }
+    v.push((
+        "range of T".to_string(),
+        format!(
+            "{} – {}",
+            fixed(tu.from_kelvin(fit.t_min_k()), 1),
+            show_t_with(fit.t_max_k(), tu, 1)
+        ),
+    ));
+    if let Some(t1) = fit.t_at_k1() {
+        v.push(("T where K = 1".to_string(), show_t_with(t1.value, tu, 1)));
+    }
+    v
+}
+
+/// The SI unit of a dimension as the covariance table heads it: "J mol⁻¹", "J mol⁻¹ K⁻¹".
+pub fn si_symbol(d: ParamDimension) -> &'static str {
+    match d {
+        ParamDimension::Energy => "J mol⁻¹",
+        ParamDimension::Entropy | ParamDimension::HeatCapacity => "J mol⁻¹ K⁻¹",
+        ParamDimension::HeatCapacitySlope => "J mol⁻¹ K⁻²",
+    }
+}
+
+/// The full parameter covariance in SI units: a header ("covariance (SI)", then
+/// "ΔH° / J mol⁻¹", …) and one row per parameter, to five significant digits.
+pub fn covariance_table(fit: &VantHoffFit) -> (Vec<String>, Vec<Vec<String>>) {
+    let params = fitted_params(fit);
+    let mut header = vec!["covariance (SI)".to_string()];
+    header.extend(
+        params
+            .iter()
+            .map(|p| format!("{} / {}", p.info.symbol, si_symbol(p.info.dimension))),
+    );
+    let rows = params
+        .iter()
+        .enumerate()
+        .map(|(i, p)| {
+            let mut row = vec![p.info.symbol.to_string()];
+            row.extend((0..params.len()).map(|j| {
+                fit.covariance()
+                    .get(i)
+                    .and_then(|r| r.get(j))
+                    .map_or(MISSING.to_string(), |v| sig(*v, 5))
+            }));
+            row
+        })
+        .collect();
+    (header, rows)
+}
+
+/// The flags of a point in words: "outlier, high leverage, influential".
+pub fn flag_words(flags: Flags) -> String {
+    let mut v = Vec::new();
+    if flags.outlier {
+        v.push("outlier");
+    }
+    if flags.high_leverage {
+        v.push("high leverage");
+    }
+    if flags.influential {
+        v.push("influential");
+    }
+    v.join(", ")
+}
+
+/// The confidence level of a fit as a percentage: "95".
+pub fn level_percent(fit: &VantHoffFit) -> String {
+    percent(fit.options().level)
+}
+
+/// A comparison step named by its models: "ΔCp° against linear".
+pub fn step_name(step: &ComparisonStep) -> String {
+    format!(
+        "{} against {}",
+        model_name(step.larger),
+        model_name(step.smaller)
+    )
+}
+
+/// One line for a comparison step: "ΔCp° against linear: F = 12.3, p = 0.004, ΔAICc = −5.21".
+pub fn step_summary(step: &ComparisonStep) -> String {
+    format!(
+        "{}: F = {}, {}{}",
+        step_name(step),
+        sig(step.f_statistic, 3),
+        isochore_fit::vant_hoff::format_p(step.f_p_value),
+        step.delta_aicc
+            .map_or(String::new(), |d| format!(", ΔAICc = {}", fixed(d, 2)))
+    )
+}
+
+/// The comparison's table as (test, value) pairs: each step's F statistic with its extra
+/// parameters, the p-value of F and ΔAICc, then the preferred model.
+pub fn comparison_rows(c: &ModelComparison) -> Vec<(String, String)> {
+    let mut rows = Vec::new();
+    for s in &c.steps {
+        let step = step_name(s);
+        let plural = if s.df_extra == 1 { "" } else { "s" };
+        rows.push((
+            format!(
+                "F statistic, {step} ({} extra parameter{plural})",
+                s.df_extra
+            ),
+            sig(s.f_statistic, 4),
+        ));
+        rows.push((format!("p-value of F, {step}"), sig(s.f_p_value, 3)));
+        rows.push((
+            format!(
+                "ΔAICc ({} − {})",
+                model_name(s.larger),
+                model_name(s.smaller)
+            ),
+            s.delta_aicc.map_or(MISSING.to_string(), |d| fixed(d, 2)),
+        ));
+    }
+    rows.push(("preferred".into(), model_name(c.preferred).to_string()));
+    rows
+}
+
+/// The models of the comparison's ladder, simplest first: "linear ⊂ ΔCp° ⊂ Clarke–Glew".
+pub fn ladder_text(c: &ModelComparison) -> String {
+    let names: Vec<&str> = c
+        .steps
+        .first()
+        .map(|s| model_name(s.smaller))
+        .into_iter()
+        .chain(c.steps.iter().map(|s| model_name(s.larger)))
+        .collect();
+    names.join(" ⊂ ")
+}
