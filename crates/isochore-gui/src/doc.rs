@@ -5,6 +5,7 @@
 //! [`crate::command::Command`] so that it can be undone. Reading cells and converting
 //! units is done by isochore-data; nothing here parses or computes a statistic.
 
+use isochore_analysis::RowNumber;
 use isochore_data::{Exclusion, ProjectSeries};
 use isochore_fit::{FitOptions, Measurement};
 use std::path::PathBuf;
@@ -69,7 +70,8 @@ impl Series {
 
     /// The exclusion of 0-based row `row`, if it is excluded.
     pub fn exclusion(&self, row: usize) -> Option<&Exclusion> {
-        self.data.exclusions.iter().find(|e| e.row == row + 1)
+        let number = RowNumber::from_index(row).get();
+        self.data.exclusions.iter().find(|e| e.row == number)
     }
 
     /// Whether 0-based row `row` takes part in the fit.
@@ -154,7 +156,12 @@ impl Series {
         let mut rows = Vec::with_capacity(pts.len());
         let mut measurements = Vec::with_capacity(pts.len());
         for (k, p) in pts.into_iter().enumerate() {
-            let r: Vec<usize> = p.rows.iter().map(|&r| r.saturating_sub(1)).collect();
+            // isochore-data numbers rows from 1; the window indexes them from 0.
+            let r: Vec<usize> = p
+                .rows
+                .iter()
+                .map(|&r| RowNumber::new(r).map_or(0, RowNumber::index))
+                .collect();
             for &i in &r {
                 if let Some(slot) = point_of_row.get_mut(i) {
                     *slot = Some(k);

@@ -100,32 +100,39 @@ pub fn analyse(series: &Series) -> Analysis {
         }
     };
     let measurements = points.measurements;
-    let weighted = series.options().weighting == isochore_fit::Weighting::InverseVariance;
-    // The rule the command line follows: a weighted fit of a data set with σ in some rows
-    // and an empty σ cell in another is refused with the line and column of that cell
-    // (isochore-data), never fitted silently; fitting unweighted is the way out.
-    let sigma_check = if weighted && measurements.iter().any(|m| m.sigma_ln_k.is_none()) {
-        series.data.check_sigma().map_err(|e| e.to_string())
-    } else {
-        Ok(())
-    };
-    let (fit, remedy) = match sigma_check {
-        Err(e) => (Err(e), Some(Remedy::FitUnweighted)),
-        Ok(()) => match isochore_fit::fit(&measurements, series.options()) {
-            Ok(f) => (Ok(f), None),
-            Err(e) => {
-                let remedy = match e {
-                    isochore_fit::Error::ImplausibleTemperature { .. }
-                    | isochore_fit::Error::ImplausibleReferenceTemperature(_) => {
-                        Some(Remedy::ConfirmExtremeTemperatures)
+    // The weighting rule the command line follows, from isochore-analysis: no σ at all is
+    // fitted with equal weights (and says so among the fit's cautions); σ in some rows and an
+    // empty σ cell in another is refused with the line and column of that cell, never fitted
+    // silently, and fitting unweighted is the way out.
+    let (fit, remedy) =
+        match isochore_analysis::weighting::for_project_series(&series.data, *series.options()) {
+            Err(e) => (Err(e.to_string()), Some(Remedy::FitUnweighted)),
+            Ok(weighed) => match isochore_fit::fit(&measurements, &weighed.options) {
+                Ok(mut f) => {
+                    if let Some(note) = weighed.note {
+                        f.warnings.insert(
+                            0,
+                            isochore_fit::Warning::new(
+                                isochore_fit::WarningKind::SettingIgnored,
+                                note,
+                            ),
+                        );
                     }
-                    isochore_fit::Error::MissingSigma { .. } => Some(Remedy::FitUnweighted),
-                    _ => None,
-                };
-                (Err(e.to_string()), remedy)
-            }
-        },
-    };
+                    (Ok(f), None)
+                }
+                Err(e) => {
+                    let remedy = match e {
+                        isochore_fit::Error::ImplausibleTemperature { .. }
+                        | isochore_fit::Error::ImplausibleReferenceTemperature(_) => {
+                            Some(Remedy::ConfirmExtremeTemperatures)
+                        }
+                        isochore_fit::Error::MissingSigma { .. } => Some(Remedy::FitUnweighted),
+                        _ => None,
+                    };
+                    (Err(e.to_string()), remedy)
+                }
+            },
+        };
     let (band, ellipse, contours) = match &fit {
         Ok(f) => {
             let band = f.band_grid(BAND_POINTS, 0.08);

@@ -4,12 +4,14 @@
 //! open project until the caller applies the result as a command.
 
 use crate::doc::{Project, Series};
+use isochore_analysis::{DataSet, Overrides, ReportStems};
 use isochore_data::{ColumnMapping, DecimalMark, Import, ImportOptions};
-use isochore_report::{ReportInput, ReportRow};
+use isochore_report::ReportInput;
 use std::path::{Path, PathBuf};
 
-/// File-name ending of project files.
-pub const PROJECT_SUFFIX: &str = ".isochore.json";
+/// How a project file is recognised and named: isochore-analysis' rules, the same as the
+/// command line's.
+pub use isochore_analysis::files::{is_project_file, with_project_suffix, PROJECT_SUFFIX};
 
 /// A data file read but not yet accepted: what was recognised, shown for confirmation,
 /// with a copy of the mapping the chemist may change.
@@ -174,23 +176,24 @@ impl ImportPreview {
         self.missing_sigma.as_deref()
     }
 
-    /// The series this import adds to a project. A data set with no uncertainties (no σ
-    /// column, or one with every cell empty) starts with equal weights (inverse-variance
-    /// weights need σ), as the command line does; the chemist can change it in the
-    /// settings. The confirmation of extreme temperatures and the choice to fit
-    /// unweighted are kept in each data set's settings.
+    /// The series this import adds to a project. Each starts with the weighting
+    /// isochore-analysis' rule gives it (a data set with no uncertainties — no σ column, or
+    /// one with every cell empty — is fitted with equal weights, as on the command line);
+    /// the chemist can change it in the settings. The confirmation of extreme temperatures
+    /// and the choice to fit unweighted are kept in each data set's settings.
     pub fn series(&self) -> Vec<Series> {
         isochore_data::Project::from_import(&self.import)
             .series
             .into_iter()
             .map(|mut d| {
-                let no_sigma = d.mapping.uncertainty.is_none()
-                    || d.converted()
-                        .is_ok_and(|rows| rows.iter().all(|r| r.sigma_ln_k.is_none()));
-                if no_sigma || self.unweighted {
-                    d.settings.fit.weighting = isochore_fit::Weighting::Unweighted;
-                }
                 d.settings.fit.allow_extreme_temperatures = self.allow_extreme_temperatures;
+                if self.unweighted {
+                    d.settings.fit.weighting = isochore_fit::Weighting::Unweighted;
+                } else if let Ok(w) =
+                    isochore_analysis::weighting::for_project_series(&d, d.settings.fit)
+                {
+                    d.settings.fit.weighting = w.options.weighting;
+                }
                 Series::new(d)
             })
             .collect()
@@ -275,26 +278,6 @@ pub fn preview(
     }
 }
 
-/// Whether a path names a project file (or its autosave).
-pub fn is_project_file(path: &Path) -> bool {
-    let name = path
-        .file_name()
-        .map(|n| n.to_string_lossy().to_lowercase())
-        .unwrap_or_default();
-    name.ends_with(".json") || name.ends_with(".autosave")
-}
-
-/// A project path with the usual ending added when it has none.
-pub fn with_project_suffix(path: PathBuf) -> PathBuf {
-    if path.extension().is_some() {
-        path
-    } else {
-        let mut s = path.into_os_string();
-        s.push(PROJECT_SUFFIX);
-        PathBuf::from(s)
-    }
-}
-
 const DEMO: [(&str, &str, &str); 2] = [
     (
         "binding_qx7_halo2.csv",
@@ -372,8 +355,9 @@ pub fn write_project(project: &Project, path: &Path) -> Result<(), String> {
         .map_err(|e| e.to_string())
 }
 
-/// The report input for one series and its latest analysis (rows in the order of the fit's
-/// points, cells as typed).
+/// The report input for one series and its latest analysis: the series read as a data set
+/// by isochore-analysis (cells as typed, rows numbered from 1), exactly as the command line
+/// reads a project's series, and the window's fit.
 ///
 /// # Errors
 /// A sentence when the series has no fit to report.
@@ -382,53 +366,13 @@ pub fn report_input(s: &Series, a: &crate::fitting::Analysis) -> Result<ReportIn
         .fit
         .as_ref()
         .map_err(|e| format!("{}: no fit to report: {e}", s.name()))?;
-    let rows = a
-        .measurements
-        .iter()
-        .enumerate()
-        .map(|(k, m)| {
-            let row = a
-                .point_rows
-                .get(k)
-                .and_then(|r| r.first().copied())
-                .unwrap_or(k);
-            ReportRow {
-                row: row + 1,
-                line: s.line(row).unwrap_or(0),
-                cells: s
-                    .data
-                    .rows
-                    .get(row)
-                    .map(|r| r.cells.clone())
-                    .unwrap_or_default(),
-                t_k: m.t_k,
-                ln_k: m.ln_k,
-                sigma_ln_k: m.sigma_ln_k,
-                included: m.included,
-                exclusion_reason: s
-                    .exclusion(row)
-                    .map(|e| e.reason.clone())
-                    .filter(|r| !r.is_empty()),
-            }
-        })
-        .collect();
-    Ok(ReportInput {
-        title: format!("Van 't Hoff analysis — {}", s.name()),
-        series_name: s.name().to_string(),
-        source_name: s.data.source.name.clone(),
-        source_sha256: s.data.source.sha256.clone(),
-        headers: s.data.headers.clone(),
-        rows,
-        conversions: s.data.mapping.describe(&s.data.headers),
-        fit: fit.clone(),
-        energy_unit: s.data.settings.energy_unit,
-        temperature_unit: s.data.settings.temperature_unit,
-        program_version: format!("isochore {}", env!("CARGO_PKG_VERSION")),
-        settings: vec![(
-            "replicates".to_string(),
-            format!("{:?}", s.data.settings.replicates).to_lowercase(),
-        )],
-    })
+    let with_cells = Overrides {
+        with_cells: true,
+        ..Overrides::default()
+    };
+    let set = DataSet::from_project_series(&s.data, &s.data.source.name, &with_cells)
+        .map_err(|e| format!("{}: no fit to report: {e}", s.name()))?;
+    Ok(isochore_analysis::report_input(&set, fit.clone(), &[]))
 }
 
 /// Writes the report (HTML, PDF, Markdown, CSV) and figures (PNG) of every series with a
@@ -456,11 +400,21 @@ pub fn export(
         .collect();
     let guard = isochore_report::OverwriteGuard::new(&inputs);
     let mut jobs = Vec::new();
+    let mut stems = ReportStems::new();
     for s in &project.series {
         let Some(a) = fitter.get(s.id) else {
             continue;
         };
-        jobs.push((report_input(s, &a)?, file_stem(s.name())));
+        // Named as the command line names them: after the source file, with the data set's
+        // name when that file gave several.
+        let file = &s.data.source.name;
+        let several = project
+            .series
+            .iter()
+            .filter(|t| &t.data.source.name == file)
+            .count()
+            > 1;
+        jobs.push((report_input(s, &a)?, stems.next(file, s.name(), several)));
     }
     let refusals: Vec<String> = jobs
         .iter()
@@ -487,24 +441,4 @@ pub fn export(
         folder.display(),
         stems.join(", ")
     ))
-}
-
-/// A file-name stem from a series name: letters, digits and '-' only.
-pub fn file_stem(name: &str) -> String {
-    let s: String = name
-        .chars()
-        .map(|c| {
-            if c.is_alphanumeric() {
-                c.to_ascii_lowercase()
-            } else {
-                '-'
-            }
-        })
-        .collect();
-    let s = s.trim_matches('-').to_string();
-    if s.is_empty() {
-        "series".into()
-    } else {
-        s
-    }
 }

@@ -383,7 +383,7 @@ fn exporting_through_the_menu_writes_reports_with_the_library_delta_h() {
         h.state().files.error,
         h.state().files.export_note
     );
-    let stem = "qx-7-binding-halo-2";
+    let stem = "binding_qx7_halo2";
     for name in [
         format!("{stem}.html"),
         format!("{stem}.md"),
