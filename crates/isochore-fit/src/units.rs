@@ -158,15 +158,6 @@ impl EnergyUnit {
             EnergyUnit::KilocaloriePerMole => "kcal/mol",
         }
     }
-
-    /// The matching entropy/heat-capacity symbol: "J/(mol·K)", "kJ/(mol·K)" or "kcal/(mol·K)".
-    pub fn per_kelvin_symbol(self) -> &'static str {
-        match self {
-            EnergyUnit::JoulePerMole => "J/(mol·K)",
-            EnergyUnit::KilojoulePerMole => "kJ/(mol·K)",
-            EnergyUnit::KilocaloriePerMole => "kcal/(mol·K)",
-        }
-    }
 }
 
 /// What the measured column holds. Every kind converts to ln K of the association-sense,

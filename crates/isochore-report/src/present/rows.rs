@@ -432,3 +432,101 @@ pub fn ladder_text(c: &ModelComparison) -> String {
         .collect();
     names.join(" ⊂ ")
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use isochore_fit::{fit, FitOptions, Measurement, Weighting, GAS_CONSTANT};
+
+    /// A fit of invented ln K with curvature (ΔCp° about −400 J/(mol K), ΔCp° slope
+    /// 3 J/(mol K²)), plus a small alternating wobble so every SE is positive.
+    fn fitted(model: Model) -> VantHoffFit {
+        let theta = 298.15;
+        let data: Vec<Measurement> = (0..9)
+            .map(|i| {
+                let t = 278.15 + 7.5 * i as f64;
+                let (h, s, cp, b) = (-30e3, -20.0, -400.0, 3.0);
+                let x = t / theta;
+                let ln_k = -h / (GAS_CONSTANT * t)
+                    + s / GAS_CONSTANT
+                    + cp * (theta / t - 1.0 + x.ln()) / GAS_CONSTANT
+                    + b * (theta / 2.0) * (x - 1.0 / x - 2.0 * x.ln()) / GAS_CONSTANT;
+                Measurement::new(t, ln_k + if i % 2 == 0 { 2e-3 } else { -2e-3 })
+            })
+            .collect();
+        let o = FitOptions {
+            model,
+            weighting: Weighting::Unweighted,
+            ..FitOptions::default()
+        };
+        fit(&data, &o).unwrap()
+    }
+
+    fn quantities(rows: &[ResultRow]) -> Vec<&str> {
+        rows.iter().map(|r| r.quantity.as_str()).collect()
+    }
+
+    #[test]
+    fn a_fourth_parameter_gets_a_row_in_its_unit() {
+        let f = fitted(Model::CLARKE_GLEW);
+        let slope = f.param("delta_cp_slope").unwrap();
+        let rows = result_rows(&f, EnergyUnit::KilojoulePerMole, TemperatureUnit::Celsius);
+        let q = quantities(&rows);
+        assert!(q.contains(&"ΔCp° at θ = 25.00 °C"), "{q:?}");
+        let r = rows
+            .iter()
+            .find(|r| r.quantity == "dΔCp°/dT (constant)")
+            .unwrap();
+        assert_eq!(r.unit, "J/(mol·K²)");
+        assert_eq!(r.estimate, slope);
+        // kcal/mol: per K² in cal, 1 cal = 4.184 J (thermochemical, NIST SP 811, B.8).
+        let rows = result_rows(&f, EnergyUnit::KilocaloriePerMole, TemperatureUnit::Kelvin);
+        let r = rows
+            .iter()
+            .find(|r| r.quantity.starts_with("dΔCp°/dT"))
+            .unwrap();
+        assert_eq!(r.unit, "cal/(mol·K²)");
+        assert!((r.estimate.value * 4.184 - slope.value).abs() <= 1e-12 * slope.value.abs());
+        // The window's rows: every parameter, then ΔG° at θ and at T_hm.
+        let w = parameter_rows(&f, EnergyUnit::KilojoulePerMole, TemperatureUnit::Celsius);
+        assert_eq!(
+            quantities(&w)[..5],
+            [
+                "ΔH° (25.00 °C)",
+                "ΔS° (25.00 °C)",
+                "ΔCp° (25.00 °C)",
+                "dΔCp°/dT",
+                "ΔG° (25.00 °C)"
+            ]
+        );
+        assert_eq!(w.len(), 6);
+        // The covariance table holds all four.
+        let (header, cov) = covariance_table(&f);
+        assert_eq!(header.len(), 5);
+        assert_eq!(header[4], "dΔCp°/dT / J mol⁻¹ K⁻²");
+        assert_eq!(cov.len(), 4);
+    }
+
+    #[test]
+    fn the_highest_order_parameter_is_constant_and_the_others_at_theta() {
+        let f = fitted(Model::CONSTANT_CP);
+        let rows = result_rows(&f, EnergyUnit::KilojoulePerMole, TemperatureUnit::Kelvin);
+        let q = quantities(&rows);
+        assert!(q.contains(&"ΔCp° (constant)"), "{q:?}");
+        assert!(q.iter().all(|q| !q.starts_with("dΔCp°")));
+        let w = parameter_rows(&f, EnergyUnit::KilojoulePerMole, TemperatureUnit::Kelvin);
+        assert_eq!(
+            quantities(&w)[..3],
+            ["ΔH° (298.15 K)", "ΔS° (298.15 K)", "ΔCp°"]
+        );
+        let lin = fitted(Model::LINEAR);
+        let w = parameter_rows(&lin, EnergyUnit::KilojoulePerMole, TemperatureUnit::Kelvin);
+        assert_eq!(quantities(&w)[..2], ["ΔH°", "ΔS°"]);
+        assert!(w[0].is_enthalpy_or_entropy() && !w[2].is_enthalpy_or_entropy());
+        // ΔH° in kJ/mol: the SI value over 1000; ΔS° stays in J/(mol·K).
+        assert_eq!(w[0].unit, "kJ/mol");
+        assert!((w[0].estimate.value * 1000.0 - lin.delta_h().value).abs() < 1e-9);
+        assert_eq!(w[1].unit, "J/(mol·K)");
+        assert_eq!(w[1].estimate.value, lin.delta_s().value);
+    }
+}
