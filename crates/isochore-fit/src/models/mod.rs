@@ -234,11 +234,16 @@ impl Model {
     pub fn streams(self) -> bool {
         self.0.streams()
     }
-    /// Whether the model lets ΔCp° be non-zero (it has a heat-capacity parameter).
+    /// Whether the model lets ΔCp° be non-zero: its ΔCp°(T) row is not zero about a
+    /// reference temperature (so a model whose ΔH°(T) varies through a parameter of another
+    /// kind counts too).
     pub fn has_heat_capacity(self) -> bool {
-        self.params()
-            .iter()
-            .any(|p| p.dimension == ParamDimension::HeatCapacity)
+        let theta = crate::model::DEFAULT_REFERENCE_K;
+        [0.9, 1.0, 1.1].iter().any(|f| {
+            self.delta_cp_row(theta * f, theta)
+                .iter()
+                .any(|c| *c != 0.0)
+        })
     }
 
     /// Writes the ln K design row at `t_k` into `out` (length [`Model::n_params`]).

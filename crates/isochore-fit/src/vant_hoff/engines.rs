@@ -1,9 +1,10 @@
-//! Which solver path computes a fit, and what each path hands to the rest of the pipeline.
-//! Well-behaved data take the streaming path of [`crate::fast`] (one QR for both models, no
-//! n×p matrix); everything else, errors included, the general solver of
-//! [`crate::least_squares`]. [`Engine`] hides the difference from [`super::fit`]: the
-//! solution with its weight sums, the temperature range, the per-point diagnostics and the
-//! other model's χ² for the comparison, each read from whichever path ran.
+//! Which solver computes a fit, and the one interface through which the rest of the pipeline
+//! reads it ([`SolvedFit`]). Well-behaved data of a model that streams take the streaming
+//! path of [`crate::fast`] (one QR for the linear and constant-ΔCp° models, no n×p matrix);
+//! everything else, errors included, the general Householder-QR solver of
+//! [`crate::least_squares`], which takes any number of columns. Both implement [`SolvedFit`]:
+//! the solution with its weight sums, the temperature range, the per-point diagnostics and
+//! another model's χ² for the comparison.
 
 use super::comparison::chi2_on_points;
 use super::inputs::{design, prepare};
@@ -17,12 +18,44 @@ use crate::model::{FitOptions, Model, Weighting};
 use nalgebra::DMatrix;
 use std::borrow::Cow;
 
-/// Internal: how a fit was computed, and what its diagnostics pass reads.
-pub(super) enum Engine {
-    /// The streaming path of [`crate::fast`].
-    Fast(FastFit),
-    /// The general solver, with the used ln K.
-    General { solved: Solved, y: Vec<f64> },
+/// Internal: the one interface of a solved fit, whichever solver made it. The pipeline in
+/// [`super::fit`] reads everything through it: the solution with its weight sums, the
+/// temperature range, the per-point diagnostics and another model's χ² on the same points.
+pub(super) trait SolvedFit {
+    /// The solution of the fitted model (without per-point vectors on the streaming path),
+    /// whether it was weighted, and the weight sums its statistics need.
+    fn solution(&self, options: &FitOptions) -> (Cow<'_, LinearFit>, bool, WeightSums);
+
+    /// Lowest and highest used temperature, Σwᵢ and Σwᵢ/Tᵢ over the used points.
+    fn temperatures(&self, points: &[Measurement]) -> (f64, f64, f64, f64);
+
+    /// Per-point diagnostics of every point, with what the warnings need from them.
+    #[allow(clippy::too_many_arguments)]
+    fn diagnose(
+        &self,
+        points: &[Measurement],
+        options: &FitOptions,
+        lin: &LinearFit,
+        cov: &DMatrix<f64>,
+        s2: f64,
+        variance_scale: f64,
+        weighted: bool,
+        sum_w: f64,
+    ) -> (Vec<PointDiagnostics>, DiagnosticsSummary);
+
+    /// χ² of `other` on the same used points and weights.
+    fn chi2_of(
+        &self,
+        points: &[Measurement],
+        options: &FitOptions,
+        other: Model,
+    ) -> Result<f64, Error>;
+}
+
+/// The general solver's fit, with the used ln K.
+pub(super) struct General {
+    solved: Solved,
+    y: Vec<f64>,
 }
 
 /// Internal: a solved model on the used points.
@@ -48,86 +81,53 @@ pub(crate) fn solve_model(
     })
 }
 
-impl Engine {
-    /// Runs the streaming path when allowed and it accepts the data, the general solver
-    /// otherwise. The inputs must already have passed [`super::inputs::check_inputs`].
-    pub(super) fn run(
-        points: &[Measurement],
-        options: &FitOptions,
-        allow_streaming: bool,
-    ) -> Result<Engine, Error> {
-        let fast = if allow_streaming {
-            FastFit::try_new(points, options)
-        } else {
-            None
+/// Solves with the streaming path of [`crate::fast`] when allowed and it accepts the data
+/// (the model [streams](crate::Model::streams) and the numbers are well behaved), with the
+/// general solver of [`crate::least_squares`] otherwise. The inputs must already have passed
+/// [`super::inputs::check_inputs`].
+pub(super) fn run(
+    points: &[Measurement],
+    options: &FitOptions,
+    allow_streaming: bool,
+) -> Result<Box<dyn SolvedFit>, Error> {
+    if allow_streaming {
+        if let Some(fast) = FastFit::try_new(points, options) {
+            return Ok(Box::new(fast));
+        }
+    }
+    let solved = solve_model(points, options, options.model)?;
+    let y: Vec<f64> = solved.used.iter().map(|&i| points[i].ln_k).collect();
+    Ok(Box::new(General { solved, y }))
+}
+
+impl SolvedFit for FastFit {
+    fn solution(&self, options: &FitOptions) -> (Cow<'_, LinearFit>, bool, WeightSums) {
+        let f = self;
+        let fast_lin = LinearFit {
+            coefficients: f.coefficients(),
+            unscaled_covariance: f.unscaled_covariance(),
+            fitted: Vec::new(),
+            residuals: Vec::new(),
+            leverages: Vec::new(),
+            rss: f.rss,
+            n: f.n(),
+            p: options.model.n_params(),
         };
-        Ok(match fast {
-            Some(fast) => Engine::Fast(fast),
-            None => {
-                let solved = solve_model(points, options, options.model)?;
-                let y: Vec<f64> = solved.used.iter().map(|&i| points[i].ln_k).collect();
-                Engine::General { solved, y }
-            }
-        })
+        let weighted = options.weighting == Weighting::InverseVariance;
+        let sums = WeightSums {
+            n: f.n(),
+            weighted,
+            tss: f.tss,
+            sum_ln_w: f.sum_ln_w,
+        };
+        (Cow::Owned(fast_lin), weighted, sums)
     }
 
-    /// The solution of the fitted model (without per-point vectors on the streaming path),
-    /// whether it was weighted, and the weight sums its statistics need.
-    pub(super) fn solution(&self, options: &FitOptions) -> (Cow<'_, LinearFit>, bool, WeightSums) {
-        match self {
-            Engine::Fast(f) => {
-                let fast_lin = LinearFit {
-                    coefficients: f.coefficients(),
-                    unscaled_covariance: f.unscaled_covariance(),
-                    fitted: Vec::new(),
-                    residuals: Vec::new(),
-                    leverages: Vec::new(),
-                    rss: f.rss,
-                    n: f.n(),
-                    p: options.model.n_params(),
-                };
-                let weighted = options.weighting == Weighting::InverseVariance;
-                let sums = WeightSums {
-                    n: f.n(),
-                    weighted,
-                    tss: f.tss,
-                    sum_ln_w: f.sum_ln_w,
-                };
-                (Cow::Owned(fast_lin), weighted, sums)
-            }
-            Engine::General { solved, y } => (
-                Cow::Borrowed(&solved.lin),
-                solved.weights.is_some(),
-                WeightSums::new(solved.weights.as_deref(), y),
-            ),
-        }
+    fn temperatures(&self, _points: &[Measurement]) -> (f64, f64, f64, f64) {
+        (self.t_min, self.t_max, self.sum_w, self.sum_w_inv_t)
     }
 
-    /// Lowest and highest used temperature, Σwᵢ and Σwᵢ/Tᵢ over the used points.
-    pub(super) fn temperatures(&self, points: &[Measurement]) -> (f64, f64, f64, f64) {
-        match self {
-            Engine::Fast(f) => (f.t_min, f.t_max, f.sum_w, f.sum_w_inv_t),
-            Engine::General { solved, .. } => {
-                let mut t_min_k = f64::INFINITY;
-                let mut t_max_k = f64::NEG_INFINITY;
-                let mut sum_w = 0.0;
-                let mut sum_w_inv_t = 0.0;
-                for (r, &i) in solved.used.iter().enumerate() {
-                    let t = points[i].t_k;
-                    t_min_k = t_min_k.min(t);
-                    t_max_k = t_max_k.max(t);
-                    let w = solved.weights.as_ref().map_or(1.0, |w| w[r]);
-                    sum_w += w;
-                    sum_w_inv_t += w / t;
-                }
-                (t_min_k, t_max_k, sum_w, sum_w_inv_t)
-            }
-        }
-    }
-
-    /// Per-point diagnostics of every point, with what the warnings need from them.
-    #[allow(clippy::too_many_arguments)]
-    pub(super) fn diagnose(
+    fn diagnose(
         &self,
         points: &[Measurement],
         options: &FitOptions,
@@ -138,46 +138,86 @@ impl Engine {
         weighted: bool,
         sum_w: f64,
     ) -> (Vec<PointDiagnostics>, DiagnosticsSummary) {
-        match self {
-            Engine::Fast(f) => {
-                let ctx = PointContext::new(
-                    lin,
-                    cov,
-                    s2,
-                    variance_scale,
-                    weighted,
-                    if weighted { sum_w / lin.n as f64 } else { 1.0 },
-                    options.thresholds,
-                );
-                f.diagnose(points, options, &ctx)
-            }
-            Engine::General { solved, .. } => {
-                let d = diagnose_points(points, solved, options, cov, variance_scale, s2);
-                let mut summary = DiagnosticsSummary::default();
-                for p in &d {
-                    summary.note(p);
-                }
-                (d, summary)
-            }
-        }
+        let ctx = PointContext::new(
+            lin,
+            cov,
+            s2,
+            variance_scale,
+            weighted,
+            if weighted { sum_w / lin.n as f64 } else { 1.0 },
+            options.thresholds,
+        );
+        FastFit::diagnose(self, points, options, &ctx)
     }
 
-    /// χ² of `other` on the same used points and weights: the streaming path's second
-    /// model when it is that one, the general solver otherwise.
-    pub(super) fn chi2_of(
+    fn chi2_of(
         &self,
         points: &[Measurement],
         options: &FitOptions,
         other: Model,
     ) -> Result<f64, Error> {
-        match self {
-            Engine::Fast(f) if f.other_model == Some(other) => {
-                f.rss_other.ok_or(Error::TooFewPoints {
-                    available: f.n(),
-                    needed: other.n_params() + 1,
-                })
-            }
-            _ => chi2_on_points(points, options, other),
+        if self.other_model == Some(other) {
+            self.rss_other.ok_or(Error::TooFewPoints {
+                available: self.n(),
+                needed: other.n_params() + 1,
+            })
+        } else {
+            chi2_on_points(points, options, other)
         }
+    }
+}
+
+impl SolvedFit for General {
+    fn solution(&self, _options: &FitOptions) -> (Cow<'_, LinearFit>, bool, WeightSums) {
+        (
+            Cow::Borrowed(&self.solved.lin),
+            self.solved.weights.is_some(),
+            WeightSums::new(self.solved.weights.as_deref(), &self.y),
+        )
+    }
+
+    fn temperatures(&self, points: &[Measurement]) -> (f64, f64, f64, f64) {
+        let solved = &self.solved;
+        let mut t_min_k = f64::INFINITY;
+        let mut t_max_k = f64::NEG_INFINITY;
+        let mut sum_w = 0.0;
+        let mut sum_w_inv_t = 0.0;
+        for (r, &i) in solved.used.iter().enumerate() {
+            let t = points[i].t_k;
+            t_min_k = t_min_k.min(t);
+            t_max_k = t_max_k.max(t);
+            let w = solved.weights.as_ref().map_or(1.0, |w| w[r]);
+            sum_w += w;
+            sum_w_inv_t += w / t;
+        }
+        (t_min_k, t_max_k, sum_w, sum_w_inv_t)
+    }
+
+    fn diagnose(
+        &self,
+        points: &[Measurement],
+        options: &FitOptions,
+        _lin: &LinearFit,
+        cov: &DMatrix<f64>,
+        s2: f64,
+        variance_scale: f64,
+        _weighted: bool,
+        _sum_w: f64,
+    ) -> (Vec<PointDiagnostics>, DiagnosticsSummary) {
+        let d = diagnose_points(points, &self.solved, options, cov, variance_scale, s2);
+        let mut summary = DiagnosticsSummary::default();
+        for p in &d {
+            summary.note(p);
+        }
+        (d, summary)
+    }
+
+    fn chi2_of(
+        &self,
+        points: &[Measurement],
+        options: &FitOptions,
+        other: Model,
+    ) -> Result<f64, Error> {
+        chi2_on_points(points, options, other)
     }
 }

@@ -30,7 +30,7 @@ use crate::measurement::Measurement;
 use crate::model::{is_plausible_temperature, FitOptions, SigmaConvention};
 use crate::stats::{normal_quantile, t_quantile};
 use comparison::ladder_comparison;
-use engines::Engine;
+
 pub(crate) use inputs::check_inputs;
 pub(crate) use statistics::{statistics, WeightSums};
 
@@ -82,7 +82,7 @@ pub(crate) fn fit_with(
     // The rules of identifiability and plausibility hold on both paths (one pass, which
     // stops counting temperatures once enough are found).
     check_inputs(points, options, model)?;
-    let engine = Engine::run(points, options, allow_streaming)?;
+    let engine = engines::run(points, options, allow_streaming)?;
     let (lin, weighted, sums) = engine.solution(options);
     let lin = lin.as_ref();
     let p = lin.p;
