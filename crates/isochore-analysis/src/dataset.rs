@@ -192,7 +192,7 @@ pub enum LoadError {
         /// The input as given.
         source: String,
         /// isochore-data's error (line and column where there is one).
-        error: isochore_data::Error,
+        error: Box<isochore_data::Error>,
     },
     /// Rows that could not be read (the file is refused unless bad rows may be skipped).
     BadRows {
@@ -301,7 +301,7 @@ fn load_text(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
     let source = path.display().to_string();
     let data_error = |error| LoadError::Data {
         source: source.clone(),
-        error,
+        error: Box::new(error),
     };
     let imp: Import = isochore_data::import_path(path, &o.import_options()).map_err(data_error)?;
     let mut notes = Vec::new();
@@ -380,7 +380,7 @@ fn load_project(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
     let source = path.display().to_string();
     let data_error = |error| LoadError::Data {
         source: source.clone(),
-        error,
+        error: Box::new(error),
     };
     let mut project = Project::load(path).map_err(data_error)?;
     let mut sets = Vec::with_capacity(project.series.len());
@@ -425,7 +425,7 @@ impl DataSet {
     ) -> Result<DataSet, LoadError> {
         let data_error = |error| LoadError::Data {
             source: source.to_string(),
-            error,
+            error: Box::new(error),
         };
         let weighed =
             weighting::for_project_series(s, o.apply(s.settings.fit)).map_err(data_error)?;
