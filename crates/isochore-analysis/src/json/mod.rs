@@ -136,16 +136,45 @@ impl Serialize for ParamsJson {
     }
 }
 
-/// `model_comparison`: the first step up the ladder of nested models, and the model the
-/// evidence prefers.
+/// `model_comparison`: the first step up the ladder of nested models, the model the
+/// evidence prefers, and every step the points allow.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct ComparisonJson {
-    /// p-value of the F-test.
+    /// p-value of the F-test of the first step.
     pub f_p_value: Option<f64>,
-    /// ΔAICc (larger − smaller model); null with too few points.
+    /// ΔAICc (larger − smaller model) of the first step; null with too few points.
     pub delta_aicc: Option<f64>,
     /// Key of the preferred model.
     pub preferred: &'static str,
+    /// Every step of the ladder, simplest first.
+    pub steps: Vec<ComparisonStepJson>,
+}
+
+/// One step of `model_comparison.steps`: a model against the next larger one.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct ComparisonStepJson {
+    /// Key of the smaller model.
+    pub smaller: &'static str,
+    /// Key of the larger model.
+    pub larger: &'static str,
+    /// Keys of the parameters the larger model adds.
+    pub added: Vec<&'static str>,
+    /// F statistic (null when not finite).
+    pub f_statistic: Option<f64>,
+    /// Its p-value.
+    pub f_p_value: Option<f64>,
+    /// Numerator degrees of freedom.
+    pub df_extra: usize,
+    /// Denominator degrees of freedom.
+    pub df_residual: usize,
+    /// ΔAICc (larger − smaller); null with too few points.
+    pub delta_aicc: Option<f64>,
+    /// Whether the evidence supports the larger model.
+    pub supported: bool,
+    /// Whether the added term's interval excludes zero.
+    pub resolved: bool,
+    /// The verdict in words.
+    pub verdict: String,
 }
 
 /// `t_at_k1`: the temperature where K = 1.
@@ -201,29 +230,26 @@ pub struct PointsJson<'a> {
 impl PointsJson<'_> {
     fn each<'n>(&'n self, n: &'n mut Nulls) -> impl Iterator<Item = PointJson<'n>> + 'n {
         let set = self.set;
-        set.rows
-            .iter()
-            .zip(&self.fit.points)
-            .map(move |(o, d)| {
-                let row = o.row;
-                let at = |field: &'static str| move || format!("points[row {row}].{field}");
-                PointJson {
-                    row,
-                    series: &set.series,
-                    t_k: n.num(at("t_k"), d.t_k),
-                    ln_k: n.num(at("ln_k"), d.ln_k),
-                    sigma_ln_k: n.opt(at("sigma_ln_k"), d.sigma_ln_k),
-                    used: d.used,
-                    fitted: n.num(at("fitted"), d.fitted),
-                    residual: n.num(at("residual"), d.residual),
-                    student_int: n.opt(at("student_int"), d.student_int),
-                    student_ext: n.opt(at("student_ext"), d.student_ext),
-                    leverage: n.num(at("leverage"), d.leverage),
-                    cooks_d: n.opt(at("cooks_d"), d.cooks_d),
-                    dffits: n.opt(at("dffits"), d.dffits),
-                    flags: &d.flags,
-                }
-            })
+        set.rows.iter().zip(&self.fit.points).map(move |(o, d)| {
+            let row = o.row;
+            let at = |field: &'static str| move || format!("points[row {row}].{field}");
+            PointJson {
+                row,
+                series: &set.series,
+                t_k: n.num(at("t_k"), d.t_k),
+                ln_k: n.num(at("ln_k"), d.ln_k),
+                sigma_ln_k: n.opt(at("sigma_ln_k"), d.sigma_ln_k),
+                used: d.used,
+                fitted: n.num(at("fitted"), d.fitted),
+                residual: n.num(at("residual"), d.residual),
+                student_int: n.opt(at("student_int"), d.student_int),
+                student_ext: n.opt(at("student_ext"), d.student_ext),
+                leverage: n.num(at("leverage"), d.leverage),
+                cooks_d: n.opt(at("cooks_d"), d.cooks_d),
+                dffits: n.opt(at("dffits"), d.dffits),
+                flags: &d.flags,
+            }
+        })
     }
 }
 
@@ -325,6 +351,33 @@ impl<'a> FitJson<'a> {
             f_p_value: n.num(name("model_comparison.f_p_value"), c.f_p_value),
             delta_aicc: n.opt(name("model_comparison.delta_aicc"), c.delta_aicc),
             preferred: c.preferred.key(),
+            steps: c
+                .steps
+                .iter()
+                .enumerate()
+                .map(|(i, st)| ComparisonStepJson {
+                    smaller: st.smaller.key(),
+                    larger: st.larger.key(),
+                    added: st.added.clone(),
+                    f_statistic: n.num(
+                        || format!("model_comparison.steps[{i}].f_statistic"),
+                        st.f_statistic,
+                    ),
+                    f_p_value: n.num(
+                        || format!("model_comparison.steps[{i}].f_p_value"),
+                        st.f_p_value,
+                    ),
+                    df_extra: st.df_extra,
+                    df_residual: st.df_residual,
+                    delta_aicc: n.opt(
+                        || format!("model_comparison.steps[{i}].delta_aicc"),
+                        st.delta_aicc,
+                    ),
+                    supported: st.supported,
+                    resolved: st.resolved,
+                    verdict: st.verdict.clone(),
+                })
+                .collect(),
         });
         let points = with_points.then_some(PointsJson { set, fit });
         if let Some(p) = &points {

@@ -236,7 +236,7 @@ fn step(
     if !resolved {
         verdict.push_str(&format!(
             "; the data cannot resolve {symbols}: its {}% interval spans zero",
-            crate::error::short(options.level * 100.0)
+            percent(options.level)
         ));
     }
     ComparisonStep {
@@ -261,4 +261,11 @@ pub fn format_p(p: f64) -> String {
     } else {
         format!("p = {p:.3}")
     }
+}
+
+/// A confidence level as a percentage without needless digits: 0.95 → "95", 0.955 → "95.5".
+fn percent(level: f64) -> String {
+    let p = level * 100.0;
+    let t = format!("{p:.6}");
+    t.trim_end_matches('0').trim_end_matches('.').to_string()
 }

@@ -117,7 +117,7 @@ pub(super) fn cautions(fit: &VantHoffFit, flagged: usize, leverage_one: bool) ->
                     WarningKind::CurvatureIgnored,
                     format!(
                         "the van 't Hoff plot curves ({}); the {} model ignores this — consider the {} model",
-                        c.verdict,
+                        step_verdict(c, |s| s.larger == c.preferred),
                         model.short_name(),
                         c.preferred.short_name()
                     ),
@@ -130,7 +130,7 @@ pub(super) fn cautions(fit: &VantHoffFit, flagged: usize, leverage_one: bool) ->
                     WarningKind::CurvatureUnsupported,
                     format!(
                         "the data do not support a non-zero {symbol} ({}); the {} model is simpler and its ΔH° more precise",
-                        c.verdict,
+                        step_verdict(c, |s| s.smaller == c.preferred),
                         c.preferred.short_name()
                     ),
                 ));
@@ -175,4 +175,15 @@ pub(super) fn cautions(fit: &VantHoffFit, flagged: usize, leverage_one: bool) ->
         ));
     }
     warnings
+}
+
+/// The verdict of the ladder step that `which` picks, or the whole verdict if none does.
+fn step_verdict(
+    c: &super::ModelComparison,
+    which: impl Fn(&super::ComparisonStep) -> bool,
+) -> &str {
+    c.steps
+        .iter()
+        .find(|s| which(s))
+        .map_or(c.verdict.as_str(), |s| s.verdict.as_str())
 }
