@@ -1,9 +1,15 @@
-//! The workbench: owns the document, the undo history, the fits and one struct per panel.
-//! Each frame the panels draw from a read-only view of the document and *propose*
-//! [`Command`]s and [`Action`]s; after the UI pass the app applies them, so a frame never
-//! sees a half-changed document. The clock is passed in, so tests are deterministic.
+//! The workbench: owns the document, the undo history, the fits and one struct per panel,
+//! and runs the frame loop (shortcuts, dropped files and paste, the close question). Each
+//! frame the panels draw from a read-only view of the document ([`Cx`], in
+//! [`crate::context`]) and *propose* [`Command`]s and [`Action`]s; after the UI pass the app
+//! applies them ([`crate::actions`]), so a frame never sees a half-changed document. Autosave
+//! and recovery are in [`crate::autosave`]. The clock is passed in, so tests are
+//! deterministic.
 
+pub use crate::actions::Action;
+pub use crate::autosave::Recovery;
 use crate::command::{Command, History};
+pub use crate::context::{Cx, Links};
 use crate::doc::Project;
 use crate::fitting::Fitter;
 use crate::io;
@@ -61,86 +67,6 @@ impl Prefs {
     }
 }
 
-/// Hover and selection shared by the table and every plot.
-#[derive(Debug, Clone, Copy, Default, PartialEq)]
-pub struct Links {
-    /// The point under the pointer last frame: (series id, row).
-    pub hovered: Option<(u64, usize)>,
-    /// The point clicked in the table.
-    pub selected: Option<(u64, usize)>,
-    /// Collected during this frame; becomes `hovered` after it.
-    pub next_hover: Option<(u64, usize)>,
-}
-
-/// Something a panel asks the app to do that is not an edit of the document.
-#[derive(Debug, Clone, PartialEq)]
-pub enum Action {
-    /// Make this series the one shown in the table and results.
-    SetActive(u64),
-    /// Undo the last change.
-    Undo,
-    /// Redo.
-    Redo,
-    /// Open a file (project or data), chosen by extension.
-    Open(PathBuf),
-    /// Import data from pasted text.
-    ImportText(String),
-    /// Save the project to its path, or ask for one.
-    Save,
-    /// Save the project to this path.
-    SaveAs(PathBuf),
-    /// Start a new empty project.
-    New,
-    /// Reload the demo project.
-    Demo,
-    /// Restore the autosaved copy.
-    Recover,
-    /// Throw the autosaved copy away.
-    DiscardRecovery,
-    /// Close the window without saving.
-    QuitDiscarding,
-    /// Save, then close.
-    SaveAndQuit,
-}
-
-/// Read-only view of the app handed to panels, plus the outboxes they write to.
-pub struct Cx<'a> {
-    /// The document.
-    pub project: &'a Project,
-    /// Latest fits.
-    pub fitter: &'a Fitter,
-    /// The active series.
-    pub active: Option<u64>,
-    /// Hover and selection.
-    pub links: &'a mut Links,
-    /// Proposed edits.
-    pub out: &'a mut Vec<Command>,
-    /// Proposed actions.
-    pub actions: &'a mut Vec<Action>,
-    /// The app clock, seconds.
-    pub now: f64,
-    /// Dark theme in use.
-    pub dark: bool,
-    /// The wall-clock time as RFC 3339, recorded with exclusions.
-    pub stamp: String,
-}
-
-impl Cx<'_> {
-    /// The active series.
-    pub fn series(&self) -> Option<&crate::doc::Series> {
-        self.active.and_then(|id| self.project.get(id))
-    }
-}
-
-/// Recovery offer after a crash.
-#[derive(Debug, Clone)]
-pub struct Recovery {
-    /// The autosaved file.
-    pub path: PathBuf,
-    /// What it holds.
-    pub project: Project,
-}
-
 /// The whole workbench.
 pub struct Workbench {
     /// The document.
@@ -185,11 +111,11 @@ pub struct Workbench {
     pub may_close: bool,
     /// Set when the window should close now (after the close question was answered).
     pub close_now: bool,
-    pending: Vec<Command>,
-    actions: Vec<Action>,
-    now: f64,
-    last_autosave_time: f64,
-    last_autosave_rev: u64,
+    pub(crate) pending: Vec<Command>,
+    pub(crate) actions: Vec<Action>,
+    pub(crate) now: f64,
+    pub(crate) last_autosave_time: f64,
+    pub(crate) last_autosave_rev: u64,
 }
 
 impl Workbench {
@@ -279,198 +205,6 @@ impl Workbench {
         }
         self.fitter
             .update(&self.project.series, self.now, self.block_fits);
-    }
-
-    fn perform(&mut self, action: Action) {
-        match action {
-            Action::SetActive(id) => self.active = Some(id),
-            Action::Undo => {
-                self.history.undo(&mut self.project);
-            }
-            Action::Redo => {
-                self.history.redo(&mut self.project);
-            }
-            Action::Open(path) => self.open_path(&path),
-            Action::ImportText(text) => match io::import_text(&text, "pasted text") {
-                Ok(preview) => self.files.start_preview(preview),
-                Err(io::ImportFailure::Question(q)) => self.files.ask(*q),
-                Err(io::ImportFailure::Message(e)) => self.messages.push(e),
-            },
-            Action::Save => match self.project.path.clone() {
-                Some(p) => self.save_to(&p),
-                None => self.files.ask_save_as(),
-            },
-            Action::SaveAs(p) => self.save_to(&p),
-            Action::New => {
-                self.replace_project(Project::default(), true);
-            }
-            Action::Demo => {
-                if let Ok(p) = io::demo_project() {
-                    self.replace_project(p, true);
-                }
-            }
-            Action::Recover => {
-                if let Some(r) = self.recovery.take() {
-                    let mut p = r.project;
-                    p.path = self.project.path.clone();
-                    self.replace_project(p, true);
-                    let _ = std::fs::remove_file(&r.path);
-                }
-            }
-            Action::DiscardRecovery => {
-                if let Some(r) = self.recovery.take() {
-                    let _ = std::fs::remove_file(&r.path);
-                }
-            }
-            Action::QuitDiscarding => {
-                self.remove_autosave();
-                self.may_close = true;
-                self.close_now = true;
-                self.asking_to_close = false;
-            }
-            Action::SaveAndQuit => {
-                match self.project.path.clone() {
-                    Some(p) => {
-                        self.save_to(&p);
-                        if !self.history.dirty() {
-                            self.may_close = true;
-                            self.close_now = true;
-                        }
-                    }
-                    None => self.files.ask_save_as(),
-                }
-                self.asking_to_close = false;
-            }
-        }
-    }
-
-    /// Opens a project or imports a data file, by extension. Errors go to the message
-    /// list and leave the project untouched.
-    pub fn open_path(&mut self, path: &Path) {
-        if io::is_project_file(path) {
-            match io::read_project(path) {
-                Ok(mut p) => {
-                    p.path = Some(path.to_path_buf());
-                    self.prefs.remember(path);
-                    if self.project.series.is_empty() && !self.history.dirty() {
-                        self.replace_project(p, false);
-                    } else {
-                        self.replace_project(p, true);
-                    }
-                    self.history.mark_saved();
-                    self.check_recovery();
-                }
-                Err(e) => self.messages.push(e),
-            }
-        } else {
-            match io::import_path(path) {
-                Ok(preview) => {
-                    self.prefs.remember(path);
-                    self.files.start_preview(preview);
-                }
-                Err(io::ImportFailure::Question(q)) => {
-                    self.prefs.remember(path);
-                    self.files.ask(*q);
-                }
-                Err(io::ImportFailure::Message(e)) => self.messages.push(e),
-            }
-        }
-    }
-
-    /// Saves atomically to `path`; on success the project is clean and the autosave gone.
-    pub fn save_to(&mut self, path: &Path) {
-        match io::write_project(&self.project, path) {
-            Ok(()) => {
-                self.remove_autosave();
-                self.project.path = Some(path.to_path_buf());
-                self.history.mark_saved();
-                self.prefs.remember(path);
-            }
-            Err(e) => self.messages.push(e),
-        }
-    }
-
-    /// Where the autosave of the current project goes.
-    pub fn autosave_path(&self) -> Option<PathBuf> {
-        match &self.project.path {
-            Some(p) => {
-                let mut name = p.file_name()?.to_os_string();
-                name.push(".autosave");
-                Some(p.with_file_name(name))
-            }
-            None => self
-                .autosave_dir
-                .as_ref()
-                .map(|d| d.join(format!("untitled{}.autosave", io::PROJECT_SUFFIX))),
-        }
-    }
-
-    fn remove_autosave(&mut self) {
-        if let Some(p) = self.autosave_path() {
-            let _ = std::fs::remove_file(p);
-        }
-    }
-
-    /// Looks for an autosave of the current project newer than the project itself, and
-    /// offers it.
-    pub fn check_recovery(&mut self) {
-        let Some(auto) = self.autosave_path() else {
-            return;
-        };
-        let Ok(meta) = std::fs::metadata(&auto) else {
-            return;
-        };
-        let newer = match self
-            .project
-            .path
-            .as_ref()
-            .and_then(|p| std::fs::metadata(p).ok())
-        {
-            Some(pm) => match (meta.modified(), pm.modified()) {
-                (Ok(a), Ok(b)) => a >= b,
-                _ => true,
-            },
-            None => true,
-        };
-        if !newer {
-            return;
-        }
-        match io::read_project(&auto) {
-            Ok(project) => {
-                self.recovery = Some(Recovery {
-                    path: auto,
-                    project,
-                })
-            }
-            Err(e) => self
-                .messages
-                .push(format!("An autosaved copy exists but cannot be read: {e}")),
-        }
-    }
-
-    /// Writes the autosave when there are unsaved changes and the interval has passed.
-    /// Returns whether it wrote.
-    pub fn autosave_tick(&mut self) -> bool {
-        if !self.history.dirty()
-            || self.history.revision == self.last_autosave_rev
-            || self.now - self.last_autosave_time < self.prefs.autosave_secs
-        {
-            return false;
-        }
-        self.last_autosave_time = self.now;
-        let Some(path) = self.autosave_path() else {
-            return false;
-        };
-        match io::write_project(&self.project, &path) {
-            Ok(()) => {
-                self.last_autosave_rev = self.history.revision;
-                true
-            }
-            Err(e) => {
-                self.messages.push(format!("Autosave failed: {e}"));
-                false
-            }
-        }
     }
 
     /// The wall-clock time recorded with exclusions (fixed in tests).

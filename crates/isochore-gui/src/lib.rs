@@ -7,12 +7,17 @@
 //!
 //! Entry point: [`run`]. The pieces: [`doc`] (the document), [`command`] (every edit, with
 //! undo), [`fitting`] (fits in and off the UI thread), [`decimate`] (drawing a million
-//! points), [`io`] (files), [`panels`] (one struct per panel) and [`app`] (the frame loop).
+//! points), [`io`] (files), [`panels`] (one struct per panel), [`context`] (what panels see
+//! and propose), [`actions`] (what the app does for them), [`autosave`] (autosave and
+//! recovery) and [`app`] (the frame loop).
 
 #![deny(missing_docs)]
 
+pub mod actions;
 pub mod app;
+pub mod autosave;
 pub mod command;
+pub mod context;
 pub mod decimate;
 pub mod doc;
 pub mod fitting;
