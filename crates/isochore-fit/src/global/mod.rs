@@ -48,9 +48,8 @@ use crate::diagnostics::{diagnose_one, DiagnosticsSummary, PointContext};
 use crate::error::Error;
 use crate::least_squares::solve;
 use crate::measurement::Measurement;
-use crate::model::{is_plausible_temperature, FitOptions, SigmaConvention};
-use crate::stats::{normal_quantile, t_quantile};
-use crate::vant_hoff::{statistics, Estimate, WeightSums};
+use crate::model::{is_plausible_temperature, FitOptions};
+use crate::vant_hoff::{score, Estimate, Scored, WeightSums};
 use design::{block_row, prepare, Layout};
 use serde::{Deserialize, Serialize};
 
@@ -160,16 +159,13 @@ pub fn fit_global(
     let dof = lin.dof();
     let weighted = weights.is_some();
     let sums = WeightSums::new(weights, &prepared.y);
-    let stats = statistics(lin.rss, p, &sums, options.convention);
-    let absolute = options.convention == SigmaConvention::Absolute && weighted;
-    let s2 = stats.reduced_chi2;
-    let variance_scale = if absolute { 1.0 } else { s2 };
-    let critical_value = if absolute {
-        normal_quantile(0.5 + options.level / 2.0)
-    } else {
-        t_quantile(0.5 + options.level / 2.0, dof as f64)
-    };
-    let cov = &lin.unscaled_covariance * variance_scale;
+    let Scored {
+        stats,
+        s2,
+        variance_scale,
+        critical_value,
+        cov,
+    } = score(&lin, &sums, options);
     let estimates: Vec<Estimate> = (0..p)
         .map(|j| Estimate::symmetric(lin.coefficients[j], cov[(j, j)].sqrt(), critical_value))
         .collect();

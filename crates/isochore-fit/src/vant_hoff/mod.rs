@@ -27,12 +27,11 @@ pub(crate) use inputs::design;
 
 use crate::error::Error;
 use crate::measurement::Measurement;
-use crate::model::{is_plausible_temperature, FitOptions, SigmaConvention};
-use crate::stats::{normal_quantile, t_quantile};
+use crate::model::{is_plausible_temperature, FitOptions};
 use comparison::ladder_comparison;
 
 pub(crate) use inputs::check_inputs;
-pub(crate) use statistics::{statistics, WeightSums};
+pub(crate) use statistics::{score, Scored, WeightSums};
 
 /// Fits a van 't Hoff model by weighted least squares and computes every diagnostic.
 ///
@@ -87,17 +86,13 @@ pub(crate) fn fit_with(
     let lin = lin.as_ref();
     let p = lin.p;
     let dof = lin.dof();
-    let stats = statistics(lin.rss, p, &sums, options.convention);
-
-    let absolute = options.convention == SigmaConvention::Absolute && weighted;
-    let s2 = stats.reduced_chi2;
-    let variance_scale = if absolute { 1.0 } else { s2 };
-    let critical_value = if absolute {
-        normal_quantile(0.5 + options.level / 2.0)
-    } else {
-        t_quantile(0.5 + options.level / 2.0, dof as f64)
-    };
-    let cov = &lin.unscaled_covariance * variance_scale;
+    let Scored {
+        stats,
+        s2,
+        variance_scale,
+        critical_value,
+        cov,
+    } = score(lin, &sums, options);
     let covariance: Vec<Vec<f64>> = (0..p)
         .map(|a| (0..p).map(|b| cov[(a, b)]).collect())
         .collect();

@@ -4,8 +4,10 @@
 //! that a model's statistics need besides its χ², so the model comparison can score the
 //! other model on the same points without refitting anything else.
 
-use crate::model::SigmaConvention;
-use crate::stats::chi2_upper_tail;
+use crate::least_squares::LinearFit;
+use crate::model::{FitOptions, SigmaConvention};
+use crate::stats::{chi2_upper_tail, normal_quantile, t_quantile};
+use nalgebra::DMatrix;
 use serde::{Deserialize, Serialize};
 
 /// Goodness-of-fit numbers.
@@ -114,5 +116,48 @@ pub(crate) fn statistics(
         aicc,
         bic,
         chi2_p_value,
+    }
+}
+
+/// A solved fit scored: its statistics, the variance s², the covariance multiplier, the
+/// critical value of its intervals and the scaled covariance. One scoring for every fit, of
+/// one series or several.
+pub(crate) struct Scored {
+    /// Goodness of fit.
+    pub(crate) stats: FitStatistics,
+    /// s² = χ²/(n − p).
+    pub(crate) s2: f64,
+    /// s² under the scaled convention, 1 under absolute σ.
+    pub(crate) variance_scale: f64,
+    /// Student's t (scaled) or normal (absolute σ) two-sided critical value at the level.
+    pub(crate) critical_value: f64,
+    /// Covariance of the coefficients, (XᵀWX)⁻¹ × the multiplier.
+    pub(crate) cov: DMatrix<f64>,
+}
+
+/// Scores the solved fit `lin` on the points summarised by `sums`.
+///
+/// # Formula
+/// ```text
+/// Cov β̂ = s² (XᵀWX)⁻¹ with s² = χ²/(n − p), intervals ± t_{(1+level)/2, n−p} SE  (scaled)
+/// Cov β̂ = (XᵀWX)⁻¹, intervals ± z_{(1+level)/2} SE                              (absolute σ, weighted)
+/// ```
+pub(crate) fn score(lin: &LinearFit, sums: &WeightSums, options: &FitOptions) -> Scored {
+    let stats = statistics(lin.rss, lin.p, sums, options.convention);
+    let absolute = options.convention == SigmaConvention::Absolute && sums.weighted;
+    let s2 = stats.reduced_chi2;
+    let variance_scale = if absolute { 1.0 } else { s2 };
+    let critical_value = if absolute {
+        normal_quantile(0.5 + options.level / 2.0)
+    } else {
+        t_quantile(0.5 + options.level / 2.0, lin.dof() as f64)
+    };
+    let cov = &lin.unscaled_covariance * variance_scale;
+    Scored {
+        stats,
+        s2,
+        variance_scale,
+        critical_value,
+        cov,
     }
 }
