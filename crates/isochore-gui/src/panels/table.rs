@@ -212,7 +212,7 @@ impl TablePanel {
                     for (v, flagged, why) in cells {
                         tr.col(|ui| {
                             let Some(v) = v else {
-                                ui.weak("—");
+                                ui.weak(isochore_report::present::MISSING);
                                 return;
                             };
                             let text = style::diag(v);

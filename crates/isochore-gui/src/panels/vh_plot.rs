@@ -72,13 +72,12 @@ impl PlotPanel {
             s.data.settings.temperature_unit
         });
         let level = active.map_or(0.95, |s| s.options().level);
+        let level_text = isochore_report::present::percent(level);
         ui.horizontal_wrapped(|ui| {
             ui.heading("Van 't Hoff plot");
             ui.label(
                 RichText::new(format!(
-                    "filled = used · hollow = excluded · ring = flagged · shaded = {:.0} % confidence band · dashed = {:.0} % prediction band · click a point to leave it out or take it back",
-                    level * 100.0,
-                    level * 100.0
+                    "filled = used · hollow = excluded · ring = flagged · shaded = {level_text} % confidence band · dashed = {level_text} % prediction band · click a point to leave it out or take it back",
                 ))
                 .small()
                 .weak(),
@@ -293,7 +292,11 @@ fn draw_fit(pu: &mut PlotUi<'_>, s: &Series, a: &Analysis, color: Color32, level
     if a.band.len() < 2 {
         return;
     }
-    let ci_name = format!("{} — {:.0} % confidence band", s.name(), level * 100.0);
+    let ci_name = format!(
+        "{} — {} % confidence band",
+        s.name(),
+        isochore_report::present::percent(level)
+    );
     // A dark background needs a stronger tint for the band to read.
     let fill = color.gamma_multiply(if dark { 0.38 } else { 0.22 });
     for w in a.band.windows(2) {
@@ -318,7 +321,11 @@ fn draw_fit(pu: &mut PlotUi<'_>, s: &Series, a: &Analysis, color: Color32, level
             .width(2.0)
             .allow_hover(false),
     );
-    let pi_name = format!("{} — {:.0} % prediction band", s.name(), level * 100.0);
+    let pi_name = format!(
+        "{} — {} % prediction band",
+        s.name(),
+        isochore_report::present::percent(level)
+    );
     for upper in [false, true] {
         let pts: Vec<[f64; 2]> = a
             .band

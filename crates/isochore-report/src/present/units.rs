@@ -31,11 +31,18 @@ impl Unit {
     }
 }
 
-/// J in one calorie (thermochemical), the factor of the small unit of the kcal family.
-fn small_unit_joules(e: EnergyUnit) -> f64 {
+/// A per-kelvin unit in the small unit of `e`'s family: `joule` with J/mol and kJ/mol,
+/// `calorie` (1 cal = 4.184 J, thermochemical) with kcal/mol.
+fn small_unit(e: EnergyUnit, joule: &'static str, calorie: &'static str) -> Unit {
     match e {
-        EnergyUnit::KilocaloriePerMole => isochore_fit::units::JOULES_PER_CALORIE,
-        EnergyUnit::JoulePerMole | EnergyUnit::KilojoulePerMole => 1.0,
+        EnergyUnit::KilocaloriePerMole => Unit {
+            si_per_unit: isochore_fit::units::JOULES_PER_CALORIE,
+            symbol: calorie,
+        },
+        EnergyUnit::JoulePerMole | EnergyUnit::KilojoulePerMole => Unit {
+            si_per_unit: 1.0,
+            symbol: joule,
+        },
     }
 }
 
@@ -50,26 +57,12 @@ pub fn energy(e: EnergyUnit) -> Unit {
 /// Entropies and heat capacities (ΔS°, ΔCp°): J/(mol·K) with J/mol and kJ/mol,
 /// cal/(mol·K) with kcal/mol (the ΔS° rule).
 pub fn per_kelvin(e: EnergyUnit) -> Unit {
-    let symbol = match e {
-        EnergyUnit::KilocaloriePerMole => "cal/(mol·K)",
-        EnergyUnit::JoulePerMole | EnergyUnit::KilojoulePerMole => "J/(mol·K)",
-    };
-    Unit {
-        si_per_unit: small_unit_joules(e),
-        symbol,
-    }
+    small_unit(e, "J/(mol·K)", "cal/(mol·K)")
 }
 
 /// Heat-capacity slopes (dΔCp°/dT): J/(mol·K²), or cal/(mol·K²) with kcal/mol.
 pub fn per_kelvin_squared(e: EnergyUnit) -> Unit {
-    let symbol = match e {
-        EnergyUnit::KilocaloriePerMole => "cal/(mol·K²)",
-        EnergyUnit::JoulePerMole | EnergyUnit::KilojoulePerMole => "J/(mol·K²)",
-    };
-    Unit {
-        si_per_unit: small_unit_joules(e),
-        symbol,
-    }
+    small_unit(e, "J/(mol·K²)", "cal/(mol·K²)")
 }
 
 /// The display unit of a quantity of dimension `d` for the energy unit `e`.
