@@ -157,6 +157,8 @@ impl PointContext {
         let p = beta.len();
         let n = lin.n as f64;
         let dof = n - p as f64;
+        // The same limits the front ends draw (isochore_fit::influence::FlagLimits).
+        let limits = crate::influence::FlagLimits::new(th, p, lin.n);
         let mut c = vec![0.0; p * p];
         let mut u = vec![0.0; p * p];
         let b = beta.clone();
@@ -178,9 +180,9 @@ impl PointContext {
             beta: b,
             weighted,
             typical_inv_w: 1.0 / typical_w,
-            outlier: th.outlier_studentized,
-            leverage_limit: th.leverage_factor * p as f64 / n,
-            cooks_limit: th.cooks_factor / n,
+            outlier: limits.studentized,
+            leverage_limit: limits.leverage,
+            cooks_limit: limits.cooks_d,
         }
     }
 }
