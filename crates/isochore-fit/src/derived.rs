@@ -335,7 +335,8 @@ impl VantHoffFit {
             .collect())
     }
 
-    /// The temperature at which K equals `k_target`, with a delta-method SE.
+    /// The temperature at which K equals `k_target`, with a delta-method SE and Fieller's
+    /// interval ([`VantHoffFit::fieller_interval`]; its ends may be infinite).
     ///
     /// # Formula
     /// ```text
@@ -440,7 +441,71 @@ impl VantHoffFit {
         if !se.is_finite() {
             return Err(none());
         }
-        Ok(Estimate::symmetric(t_star, se, self.critical_value))
+        let (ci_low, ci_high) = self.fieller_interval(t_star, target);
+        Ok(Estimate {
+            value: t_star,
+            se,
+            ci_low,
+            ci_high,
+        })
+    }
+
+    /// Fieller's interval (1954) for the temperature T* where ln K reaches `target`: the
+    /// connected set of temperatures around T* at which the hypothesis ln K(T) = `target` is
+    /// not rejected by the t-test (z under absolute σ) at the fit's level,
+    /// ```text
+    /// (x(T)·β̂ − ln K_target)² ≤ c² · x(T)ᵀ Σ x(T),   c = the fit's critical value.
+    /// ```
+    /// For the linear model, x(T)·β − ln K_target = (ΔS° − R ln K_target − ΔH°/T)/R is the
+    /// numerator of Fieller's ratio 1/T* = (ΔS° − R ln K_target)/ΔH°, so this is his interval
+    /// exactly; for a model with ΔCp° it is the same test inverted pointwise. The set is
+    /// searched outwards from T* on a logarithmic grid (steps of 0.2 % in T, out to 1000 T*
+    /// and T*/1000) and its ends refined by bisection. An end the search does not find is
+    /// unbounded: `+∞` above, `−∞` below (the set then reaches towards 0 K; no finite bound
+    /// is ever at or below 0 K).
+    pub fn fieller_interval(&self, t_star: f64, target: f64) -> (f64, f64) {
+        let theta = self.options.t_ref_k;
+        let model = self.model();
+        let beta = self.coefficients();
+        let c2 = self.critical_value * self.critical_value;
+        let outside = |t: f64| -> bool {
+            let row = model.row(t, theta);
+            let y: f64 = row.iter().zip(&beta).map(|(x, b)| x * b).sum();
+            let d = y - target;
+            // A temperature where the model cannot be evaluated ends the set, and so does
+            // any comparison that is not a number (an exact fit with an infinite critical
+            // value): written so that NaN counts as outside.
+            !(d.is_finite() && d * d <= c2 * self.quadratic_form(&row))
+        };
+        const STEP: f64 = 0.002;
+        const REACH: f64 = 1000.0;
+        let steps = (REACH.ln() / STEP).ceil() as usize;
+        let edge = |up: bool| -> f64 {
+            let mut inside = t_star;
+            for k in 1..=steps {
+                let t = t_star * (if up { 1.0 } else { -1.0 } * STEP * k as f64).exp();
+                if outside(t) {
+                    // Bisect between the last temperature inside and this one.
+                    let (mut a, mut b) = (inside, t);
+                    for _ in 0..80 {
+                        let m = 0.5 * (a + b);
+                        if outside(m) {
+                            b = m;
+                        } else {
+                            a = m;
+                        }
+                    }
+                    return 0.5 * (a + b);
+                }
+                inside = t;
+            }
+            if up {
+                f64::INFINITY
+            } else {
+                f64::NEG_INFINITY
+            }
+        };
+        (edge(false), edge(true))
     }
 }
 

@@ -96,7 +96,16 @@ fn check_fit(f: &VantHoffFit) {
             assert!(p.ln_k.pi.low.is_finite() && p.k.pi.high.is_finite());
         }
         if let Ok(e) = f.temperature_for_k(*t) {
-            assert!(finite(&e), "{e:?}");
+            // Fieller's interval may be unbounded (an infinite end), never NaN, and a finite
+            // end is above 0 K.
+            assert!(
+                e.value.is_finite() && e.value > 0.0 && e.se.is_finite(),
+                "{e:?}"
+            );
+            for b in [e.ci_low, e.ci_high] {
+                assert!(!b.is_nan() && (b.is_infinite() || b > 0.0), "{e:?}");
+            }
+            assert!(e.ci_low <= e.value && e.value <= e.ci_high, "{e:?}");
         }
     }
     for b in f.bands(&NASTY) {

@@ -2,6 +2,7 @@
 
 mod clarke_glew;
 mod extension;
+mod fieller;
 mod garbage_in;
 mod global;
 mod handbook;

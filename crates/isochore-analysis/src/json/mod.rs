@@ -182,8 +182,12 @@ pub struct ComparisonStepJson {
 pub struct TAtK1Json {
     /// Kelvin.
     pub value: Option<f64>,
-    /// Standard error, K.
+    /// Standard error, K (delta method).
     pub se: Option<f64>,
+    /// Lower end of Fieller's interval, K; null where the interval is unbounded below.
+    pub ci_low: Option<f64>,
+    /// Upper end of Fieller's interval, K; null where the interval is unbounded above.
+    pub ci_high: Option<f64>,
     /// Whether it lies outside the measured range.
     pub extrapolated: bool,
 }
@@ -387,6 +391,10 @@ impl<'a> FitJson<'a> {
         let t_at_k1 = fit.t_at_k1.as_ref().map(|e| TAtK1Json {
             value: n.num(name("t_at_k1.value"), e.value),
             se: n.num(name("t_at_k1.se"), e.se),
+            // An infinite end is an unbounded interval, which the fit's warnings say in
+            // words; it is null here without a second "undefined" warning.
+            ci_low: e.ci_low.is_finite().then_some(e.ci_low),
+            ci_high: e.ci_high.is_finite().then_some(e.ci_high),
             extrapolated: fit.is_extrapolation(e.value),
         });
         let mut warnings = set.warnings.clone();

@@ -264,7 +264,7 @@ pub fn format_p(p: f64) -> String {
 }
 
 /// A confidence level as a percentage without needless digits: 0.95 → "95", 0.955 → "95.5".
-fn percent(level: f64) -> String {
+pub(crate) fn percent(level: f64) -> String {
     let p = level * 100.0;
     let t = format!("{p:.6}");
     t.trim_end_matches('0').trim_end_matches('.').to_string()

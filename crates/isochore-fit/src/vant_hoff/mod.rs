@@ -19,7 +19,7 @@ mod warnings;
 pub use comparison::{compare_models, format_p, ComparisonStep, ModelComparison, LADDER_ALPHA};
 pub use result::{Estimate, Parameter, ThermoAt, VantHoffFit};
 pub use statistics::FitStatistics;
-pub use warnings::{Warning, WarningKind, FEW_DOF, STRONG_CORRELATION};
+pub use warnings::{unbounded_interval, Warning, WarningKind, FEW_DOF, STRONG_CORRELATION};
 
 pub(crate) use engines::Solved;
 #[cfg(test)]

@@ -38,6 +38,9 @@ pub enum WarningKind {
     NarrowRange,
     /// A prediction outside the measured range.
     Extrapolation,
+    /// A confidence interval (of a temperature for a target K) that the data cannot bound on
+    /// one side or both.
+    UnboundedInterval,
 }
 
 /// A caution in words, next to the numbers it qualifies.
@@ -174,7 +177,31 @@ pub(super) fn cautions(fit: &VantHoffFit, flagged: usize, leverage_one: bool) ->
             "a point has leverage 1 (the fit passes through it); its studentized residual and Cook's distance are undefined",
         ));
     }
+    if let Some(t) = fit.t_at_k1 {
+        if let Some(w) = unbounded_interval("the temperature where K = 1", &t, fit.options.level) {
+            warnings.push(w);
+        }
+    }
     warnings
+}
+
+/// The warning for an interval of a temperature (`what`) with an infinite end, if it has one.
+pub fn unbounded_interval(what: &str, t: &super::Estimate, level: f64) -> Option<Warning> {
+    let side = match (t.ci_low.is_finite(), t.ci_high.is_finite()) {
+        (true, true) => return None,
+        (true, false) => {
+            "unbounded above: no temperature is too high to be consistent with the data"
+        }
+        (false, true) => "unbounded below: it reaches down towards 0 K",
+        (false, false) => "unbounded on both sides: the data say nothing about it",
+    };
+    Some(Warning::new(
+        WarningKind::UnboundedInterval,
+        format!(
+            "the {}% interval of {what} (Fieller) is {side}; quote the interval, not the value ± SE",
+            super::comparison::percent(level)
+        ),
+    ))
 }
 
 /// The verdict of the ladder step that `which` picks, or the whole verdict if none does.
