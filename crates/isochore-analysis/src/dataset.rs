@@ -312,7 +312,11 @@ fn load_text(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
                 rejected: imp.rejected.clone(),
             });
         }
-        notes.extend(imp.rejected.iter().map(|r| format!("skipped {}", r.message())));
+        notes.extend(
+            imp.rejected
+                .iter()
+                .map(|r| format!("skipped {}", r.message())),
+        );
     }
     let excluded: Vec<usize> = o.exclude.rows.iter().map(|r| r.get()).collect();
     let requested = o.apply(FitOptions::default());
@@ -520,7 +524,11 @@ impl FitFailure {
 
 impl fmt::Display for FitFailure {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        write!(f, "{}: series '{}': {}", self.source, self.series, self.error)
+        write!(
+            f,
+            "{}: series '{}': {}",
+            self.source, self.series, self.error
+        )
     }
 }
 

@@ -120,7 +120,10 @@ mod tests {
             with_project_suffix(PathBuf::from("p")),
             PathBuf::from("p.isochore.json")
         );
-        assert_eq!(with_project_suffix(PathBuf::from("p.json")), PathBuf::from("p.json"));
+        assert_eq!(
+            with_project_suffix(PathBuf::from("p.json")),
+            PathBuf::from("p.json")
+        );
     }
 
     #[test]

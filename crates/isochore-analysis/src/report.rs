@@ -38,7 +38,11 @@ pub fn report_input(set: &DataSet, fit: VantHoffFit, extra: &[(String, String)])
         .collect();
     let mut settings = set.settings.clone();
     settings.extend(extra.iter().cloned());
-    settings.extend(set.warnings.iter().map(|n| ("reading".to_string(), n.clone())));
+    settings.extend(
+        set.warnings
+            .iter()
+            .map(|n| ("reading".to_string(), n.clone())),
+    );
     ReportInput {
         title: report_title(&set.series),
         series_name: set.series.clone(),
