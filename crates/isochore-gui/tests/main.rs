@@ -2,5 +2,6 @@
 
 mod export_guard;
 mod features;
+mod shared_rules;
 mod ways_out;
 mod workbench;
