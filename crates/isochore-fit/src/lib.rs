@@ -68,7 +68,7 @@ pub use replicates::average_replicates;
 pub use units::{ConcentrationUnit, EnergyUnit, QuantityKind, TemperatureUnit};
 pub use vant_hoff::{
     compare_models, fit, ComparisonStep, Estimate, FitStatistics, ModelComparison, Parameter,
-    ThermoAt, VantHoffFit, Warning, WarningKind,
+    StepTest, ThermoAt, VantHoffFit, Warning, WarningKind,
 };
 
 /// Molar gas constant R in J mol⁻¹ K⁻¹ (CODATA 2018; exact in the 2019 SI, as N_A·k_B).

@@ -8,6 +8,7 @@ mod global;
 mod handbook;
 mod hostile;
 mod known_answers;
+mod known_sigma;
 mod nist_strd;
 mod properties;
 mod regressions;

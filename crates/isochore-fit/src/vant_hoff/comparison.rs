@@ -12,11 +12,22 @@ use crate::error::Error;
 use crate::least_squares::weighted_rss;
 use crate::measurement::Measurement;
 use crate::model::{FitOptions, Model, SigmaConvention};
-use crate::stats::{f_upper_tail, normal_quantile};
+use crate::stats::{chi2_upper_tail, f_upper_tail};
 use serde::Serialize;
 
 /// Significance level of the F-test in the ladder's rule, 0.05 (common practice).
 pub const LADDER_ALPHA: f64 = 0.05;
+
+/// The test of one ladder step.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum StepTest {
+    /// σ scaled by the fit: the extra-sum-of-squares F-test.
+    FTest,
+    /// σ known (absolute σ, weighted): the likelihood-ratio test with known variances,
+    /// Δχ² = χ²_s − χ²_l against χ²(q).
+    LikelihoodRatio,
+}
 
 /// One step of the ladder: a model against the next larger one that extends it.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -27,9 +38,12 @@ pub struct ComparisonStep {
     pub larger: Model,
     /// Keys of the parameters the larger model adds.
     pub added: Vec<&'static str>,
-    /// F = ((χ²_s − χ²_l)/q) / (χ²_l/(n − p_l)), q the number of added parameters.
+    /// Which test: the F-test when the fit scales σ, the likelihood ratio when σ is known.
+    pub test: StepTest,
+    /// The test statistic: F = ((χ²_s − χ²_l)/q) / (χ²_l/(n − p_l)), q the number of added
+    /// parameters; or Δχ² = χ²_s − χ²_l when σ is known.
     pub f_statistic: f64,
-    /// P(F(q, n − p_l) ≥ F).
+    /// P(F(q, n − p_l) ≥ F), or P(χ²(q) ≥ Δχ²) when σ is known.
     pub f_p_value: f64,
     /// q, the numerator degrees of freedom.
     pub df_extra: usize,
@@ -50,7 +64,8 @@ pub struct ComparisonStep {
 /// The verdict of the model comparison along the ladder.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct ModelComparison {
-    /// F statistic of the first step (linear against constant ΔCp° for the shipped models).
+    /// Test statistic of the first step (linear against constant ΔCp° for the shipped
+    /// models): F, or Δχ² when σ is known (see [`ComparisonStep::test`]).
     pub f_statistic: f64,
     /// Its p-value.
     pub f_p_value: f64,
@@ -181,27 +196,35 @@ fn step(
     let s_l = statistics(chi2_l, pl, sums, options.convention);
     let dof_l = sums.n as f64 - pl as f64;
     let drop = (s_s.chi2 - s_l.chi2).max(0.0);
-    // With χ²_l = 0 the larger model is exact: any drop is infinitely significant, and no
-    // drop at all (both models exact) is no evidence.
-    let f_statistic = if s_l.chi2 > 0.0 {
-        (drop / q as f64) / (s_l.chi2 / dof_l)
-    } else if drop > 0.0 {
-        f64::INFINITY
+    let known_sigma = options.convention == SigmaConvention::Absolute && sums.weighted;
+    let (test, f_statistic, f_p_value) = if known_sigma {
+        // Known variances: Δχ² is the likelihood-ratio statistic, χ²(q) under the smaller.
+        let p = chi2_upper_tail(drop, q as f64).unwrap_or(1.0);
+        (StepTest::LikelihoodRatio, drop, p)
     } else {
-        0.0
+        // With χ²_l = 0 the larger model is exact: any drop is infinitely significant, and
+        // no drop at all (both models exact) is no evidence.
+        let f = if s_l.chi2 > 0.0 {
+            (drop / q as f64) / (s_l.chi2 / dof_l)
+        } else if drop > 0.0 {
+            f64::INFINITY
+        } else {
+            0.0
+        };
+        (
+            StepTest::FTest,
+            f,
+            f_upper_tail(f, q as f64, dof_l).unwrap_or(1.0),
+        )
     };
-    let f_p_value = f_upper_tail(f_statistic, q as f64, dof_l).unwrap_or(1.0);
     let delta_aicc = match (s_l.aicc, s_s.aicc) {
         (Some(a), Some(b)) => Some(a - b),
         _ => None,
     };
     let supported = f_p_value < LADDER_ALPHA && delta_aicc.is_none_or(|d| d < 0.0);
-    let resolved = if options.convention == SigmaConvention::Absolute && sums.weighted {
-        let z = normal_quantile(0.5 + options.level / 2.0);
-        drop > z * z * q as f64
-    } else {
-        f_p_value < 1.0 - options.level
-    };
+    // For one added term the test is the square of the term's own t (z when σ is known),
+    // so the term's interval at the fit's level spans zero exactly when p ≥ 1 − level.
+    let resolved = f_p_value < 1.0 - options.level;
     let added: Vec<&'static str> = larger.params()[ps.min(pl)..]
         .iter()
         .map(|p| p.key)
@@ -216,20 +239,24 @@ fn step(
         Some(d) => format!("ΔAICc = {d:+.2}"),
         None => "ΔAICc unavailable with so few points".to_string(),
     };
+    let test_name = match test {
+        StepTest::FTest => "F-test",
+        StepTest::LikelihoodRatio => "Δχ² test",
+    };
     let mut verdict = if supported {
         format!(
-            "{phrase} is supported: adding {symbols} improves the fit (F-test {}, {aicc_text})",
+            "{phrase} is supported: adding {symbols} improves the fit ({test_name} {}, {aicc_text})",
             format_p(f_p_value)
         )
     } else if f_p_value < LADDER_ALPHA {
         format!(
-            "evidence for {phrase} is mixed: the F-test says yes ({}) but {aicc_text} favours the {} model",
+            "evidence for {phrase} is mixed: the {test_name} says yes ({}) but {aicc_text} favours the {} model",
             format_p(f_p_value),
             smaller.short_name()
         )
     } else {
         format!(
-            "no evidence of {phrase}: {symbols} does not improve the fit (F-test {}, {aicc_text})",
+            "no evidence of {phrase}: {symbols} does not improve the fit ({test_name} {}, {aicc_text})",
             format_p(f_p_value)
         )
     };
@@ -243,6 +270,7 @@ fn step(
         smaller,
         larger,
         added,
+        test,
         f_statistic,
         f_p_value,
         df_extra: q,

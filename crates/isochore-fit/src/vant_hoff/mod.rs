@@ -16,7 +16,9 @@ mod result;
 mod statistics;
 mod warnings;
 
-pub use comparison::{compare_models, format_p, ComparisonStep, ModelComparison, LADDER_ALPHA};
+pub use comparison::{
+    compare_models, format_p, ComparisonStep, ModelComparison, StepTest, LADDER_ALPHA,
+};
 pub use result::{Estimate, Parameter, ThermoAt, VantHoffFit};
 pub use statistics::FitStatistics;
 pub use warnings::{unbounded_interval, Warning, WarningKind, FEW_DOF, STRONG_CORRELATION};

@@ -24,8 +24,12 @@ pub struct FitStatistics {
     pub r2: f64,
     /// Adjusted R² = 1 − (1 − R²)(n − 1)/(n − p).
     pub adj_r2: f64,
-    /// Gaussian log-likelihood with the variance estimated (k = p + 1 parameters).
+    /// Gaussian log-likelihood. When the fit scales σ, the variance is estimated and counts
+    /// as a parameter (k = p + 1); when σ are known standard uncertainties (absolute σ,
+    /// weighted), ln L = −χ²/2 − (n/2) ln 2π + ½ Σ ln wᵢ and k = p.
     pub log_likelihood: f64,
+    /// The number of estimated parameters k the information criteria count.
+    pub k: usize,
     /// Small-sample Akaike criterion; `None` when n − k − 1 ≤ 0.
     pub aicc: Option<f64>,
     /// Bayesian (Schwarz) criterion.
@@ -89,12 +93,21 @@ pub(crate) fn statistics(
         f64::NAN
     };
     let adj_r2 = 1.0 - (1.0 - r2) * (n - 1.0) / dof;
-    // Gaussian likelihood, σᵢ² = σ²/wᵢ with σ² estimated by RSS/n (floored so exact data
-    // give a large finite value rather than infinity).
-    let sigma2 = (chi2 / n).max(f64::MIN_POSITIVE);
-    let log_likelihood =
-        -0.5 * n * ((2.0 * std::f64::consts::PI * sigma2).ln() + 1.0) + 0.5 * sum_ln_w;
-    let k = p + 1.0;
+    let two_pi = 2.0 * std::f64::consts::PI;
+    let known_sigma = convention == SigmaConvention::Absolute && sums.weighted;
+    let (log_likelihood, k) = if known_sigma {
+        // σᵢ² = 1/wᵢ known: the likelihood is χ² itself, and only the p coefficients are
+        // estimated.
+        (-0.5 * chi2 - 0.5 * n * two_pi.ln() + 0.5 * sum_ln_w, p)
+    } else {
+        // σᵢ² = σ²/wᵢ with σ² estimated by RSS/n (floored so exact data give a large finite
+        // value rather than infinity), and counted as a parameter.
+        let sigma2 = (chi2 / n).max(f64::MIN_POSITIVE);
+        (
+            -0.5 * n * ((two_pi * sigma2).ln() + 1.0) + 0.5 * sum_ln_w,
+            p + 1.0,
+        )
+    };
     let aic = 2.0 * k - 2.0 * log_likelihood;
     let aicc = if n - k - 1.0 > 0.0 {
         Some(aic + 2.0 * k * (k + 1.0) / (n - k - 1.0))
@@ -113,6 +126,7 @@ pub(crate) fn statistics(
         r2,
         adj_r2,
         log_likelihood,
+        k: k as usize,
         aicc,
         bic,
         chi2_p_value,
