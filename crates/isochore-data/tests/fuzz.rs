@@ -206,7 +206,11 @@ fn settings() -> impl Strategy<Value = SeriesSettings> {
         .prop_map(
             |(cp, t_ref, w, c, level, (a, b, d), avg, tol)| SeriesSettings {
                 fit: FitOptions {
-                    model: if cp { Model::CONSTANT_CP } else { Model::LINEAR },
+                    model: if cp {
+                        Model::CONSTANT_CP
+                    } else {
+                        Model::LINEAR
+                    },
                     t_ref_k: t_ref,
                     weighting: if w {
                         Weighting::Unweighted
