@@ -423,8 +423,11 @@ impl Project {
     }
 
     /// Saves atomically: writes a temporary file in the same folder, syncs it to disk,
-    /// copies the previous file (if any) to `<name>.bak`, then renames the temporary file
-    /// over the target. A crash at any moment leaves the old or the new file complete.
+    /// replaces `<name>.bak` with a copy of the previous file (if any) the same way (a
+    /// temporary copy, synced, renamed), then renames the temporary file over the target and
+    /// syncs the folder. A crash at any moment leaves the old or the new file complete, and
+    /// a complete `.bak`; a killed save may leave `.isochore-save-*.tmp` files behind, which
+    /// are never read as projects.
     ///
     /// # Errors
     /// [`Error::Io`].
@@ -449,9 +452,18 @@ impl Project {
         tmp.write_all(b"\n").map_err(io)?;
         tmp.as_file().sync_all().map_err(io)?;
         if path.exists() {
+            // The backup is replaced the same way: copied into a temporary file of its own,
+            // synced, then renamed, so that a crash never leaves a half-copied `.bak`.
             let mut bak = path.as_os_str().to_owned();
             bak.push(".bak");
-            std::fs::copy(path, &bak).map_err(io)?;
+            let old = tempfile::Builder::new()
+                .prefix(".isochore-save-")
+                .suffix(".tmp")
+                .tempfile_in(&dir)
+                .map_err(io)?;
+            std::fs::copy(path, old.path()).map_err(io)?;
+            old.as_file().sync_all().map_err(io)?;
+            old.persist(&bak).map_err(|e| io(e.error))?;
         }
         tmp.persist(path).map_err(|e| io(e.error))?;
         // Make the rename itself durable where the platform allows it.
