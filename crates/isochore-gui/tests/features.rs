@@ -799,7 +799,11 @@ fn the_cp_model_gives_the_temperature_for_a_target_k_or_says_there_is_none() {
     assert!(none.contains("never reaches"), "{none}");
 
     let mut h = harness(w);
-    choose(&mut h, "model", isochore_fit::Model::CONSTANT_CP.describe());
+    choose(
+        &mut h,
+        "model",
+        &isochore_report::present::model_label(isochore_fit::Model::CONSTANT_CP),
+    );
     assert_eq!(
         h.state().project.get(id).unwrap().options().model,
         Model::CONSTANT_CP

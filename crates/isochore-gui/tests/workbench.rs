@@ -190,8 +190,10 @@ fn switching_to_the_cp_model_shows_delta_cp() {
     assert!(h.query_by_label(&label).is_none());
     h.get_by_label("model").click();
     h.run_steps(2);
-    h.get_by_label(isochore_fit::Model::CONSTANT_CP.describe())
-        .click();
+    h.get_by_label(&isochore_report::present::model_label(
+        isochore_fit::Model::CONSTANT_CP,
+    ))
+    .click();
     h.run_steps(3);
     h.get_by_label(&label);
     // One undo brings the linear model back.

@@ -83,7 +83,8 @@ impl ResultsPanel {
         );
         let tu = s.data.settings.temperature_unit;
         let level = present::level_percent(fit);
-        ui.label(format!("{} · {}", s.name(), model_name(fit.model())));
+        ui.label(format!("{} · {}", s.name(), model_name(fit.model())))
+            .on_hover_text(fit.model().describe());
         let warn = |k: WarningKind| fit.warnings().iter().any(|w| w.kind == k);
         let corr_warn = warn(WarningKind::StrongCorrelation);
         egui::Grid::new("results_grid")

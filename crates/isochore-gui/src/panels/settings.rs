@@ -70,7 +70,8 @@ impl SettingsPanel {
                     .selected_text(model_name(cur.fit.model))
                     .show_ui(ui, |ui| {
                         for &m in Model::all() {
-                            ui.selectable_value(&mut new.fit.model, m, model_name(m));
+                            ui.selectable_value(&mut new.fit.model, m, model_name(m))
+                                .on_hover_text(m.describe());
                         }
                     });
                 combo.response.widget_info(|| {
@@ -246,9 +247,10 @@ impl SettingsPanel {
     }
 }
 
-/// Plain name of a model: its description, the same words as the reports'.
-pub fn model_name(m: Model) -> &'static str {
-    m.describe()
+/// The model's name in the chooser: the presentation module's label ("ΔCp° model"); its
+/// description is the hover text.
+pub fn model_name(m: Model) -> String {
+    isochore_report::present::model_label(m)
 }
 
 fn weighting_name(w: Weighting) -> &'static str {

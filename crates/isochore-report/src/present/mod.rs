@@ -11,8 +11,8 @@ pub mod rows;
 pub mod units;
 
 pub use model::{
-    coefficients_phrase, equation, model_caution, model_description, model_name, thresholds_text,
-    uses_reference,
+    coefficients_phrase, equation, model_caution, model_description, model_label, model_name,
+    thresholds_text, uses_reference,
 };
 pub use number::{decimals_for, diag, fixed, percent, plus_minus, sig, MISSING};
 pub use rows::{

@@ -11,7 +11,13 @@ pub fn model_name(m: Model) -> &'static str {
     m.short_name()
 }
 
-/// The model in plain words, for headings and the window's chooser: its description.
+/// The model's name as a noun phrase, for the window's chooser and headings: "linear
+/// model", "ΔCp° model", "Clarke–Glew model" (its description goes in the hover text).
+pub fn model_label(m: Model) -> String {
+    format!("{} model", m.short_name())
+}
+
+/// The model in plain words, for reports and hover texts: its description.
 pub fn model_description(m: Model) -> &'static str {
     m.describe()
 }
