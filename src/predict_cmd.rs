@@ -56,7 +56,7 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
         let e = job.energy;
         let ef = e.joules_per_mole();
         let (sf, s_unit) = entropy_unit(e);
-        let lp = num(fit.options.level * 100.0, 1)
+        let lp = num(fit.options().level * 100.0, 1)
             .trim_end_matches(".0")
             .to_string();
         writeln!(
@@ -65,8 +65,8 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
             job.source,
             job.series,
             fit.model().key(),
-            show_t(fit.t_min_k, unit),
-            show_t(fit.t_max_k, unit)
+            show_t(fit.t_min_k(), unit),
+            show_t(fit.t_max_k(), unit)
         )
         .map_err(io)?;
         for &t in &temps_k {
@@ -140,7 +140,7 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
         for w in job
             .warnings
             .iter()
-            .chain(fit.warnings.iter().map(|w| &w.message))
+            .chain(fit.warnings().iter().map(|w| &w.message))
         {
             writeln!(out, "warning: {w}").map_err(io)?;
         }

@@ -38,7 +38,7 @@ fn every_parameter_of_the_model_is_written_under_its_key() {
     let params = doc["params"].as_object().unwrap();
     let keys: Vec<&str> = Model::CLARKE_GLEW.params().iter().map(|p| p.key).collect();
     assert_eq!(params.len(), keys.len());
-    for (p, key) in fit.params.iter().zip(&keys) {
+    for (p, key) in fit.params().iter().zip(&keys) {
         // The JSON holds the library's estimate under the parameter's key (the definition).
         assert_eq!(
             params[*key]["value"].as_f64(),

@@ -29,8 +29,8 @@ fn an_empty_sigma_column_is_fitted_unweighted_with_a_note_by_both_front_ends() {
         set.warnings
     );
     let fit = set.fit().unwrap();
-    assert!(!fit.weighted);
-    let dh = fit.params[0].estimate.value;
+    assert!(!fit.weighted());
+    let dh = fit.params()[0].estimate.value;
     assert!((dh - unweighted_delta_h()).abs() < 1e-6 * dh.abs(), "{dh}");
 
     // The same data set as the window keeps it (a project series asking for 1/σ² weights).
@@ -48,7 +48,7 @@ fn no_sigma_column_is_the_same_as_an_empty_one() {
     let (_d, path) = file("none.csv", text);
     let set = &load(&path, &Overrides::default()).unwrap()[0];
     assert_eq!(set.options.weighting, Weighting::Unweighted);
-    let dh = set.fit().unwrap().params[0].estimate.value;
+    let dh = set.fit().unwrap().params()[0].estimate.value;
     assert!((dh - unweighted_delta_h()).abs() < 1e-6 * dh.abs());
 }
 
@@ -87,5 +87,5 @@ fn a_full_sigma_column_is_weighted() {
     let set = &load(&path, &Overrides::default()).unwrap()[0];
     assert_eq!(set.options.weighting, Weighting::InverseVariance);
     assert!(set.warnings.is_empty());
-    assert!(set.fit().unwrap().weighted);
+    assert!(set.fit().unwrap().weighted());
 }

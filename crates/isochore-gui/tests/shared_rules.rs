@@ -47,11 +47,11 @@ fn ols_delta_h() -> f64 {
 fn an_empty_sigma_column_is_fitted_unweighted_and_says_so() {
     let a = analyse(&series(["", "", "", ""]));
     let fit = a.fit.as_ref().expect("fitted, not refused");
-    assert!(!fit.weighted);
-    let dh = fit.params[0].estimate.value;
+    assert!(!fit.weighted());
+    let dh = fit.params()[0].estimate.value;
     assert!((dh - ols_delta_h()).abs() < 1e-6 * dh.abs(), "{dh}");
     assert!(
-        fit.warnings
+        fit.warnings()
             .iter()
             .any(|w| w.message == isochore_analysis::weighting::NO_SIGMA_NOTE),
         "{:?}",

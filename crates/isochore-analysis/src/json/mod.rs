@@ -234,7 +234,7 @@ pub struct PointsJson<'a> {
 impl PointsJson<'_> {
     fn each<'n>(&'n self, n: &'n mut Nulls) -> impl Iterator<Item = PointJson<'n>> + 'n {
         let set = self.set;
-        set.rows.iter().zip(&self.fit.points).map(move |(o, d)| {
+        set.rows.iter().zip(self.fit.points()).map(move |(o, d)| {
             let row = o.row;
             let at = |field: &'static str| move || format!("points[row {row}].{field}");
             PointJson {
@@ -324,16 +324,16 @@ impl<'a> FitJson<'a> {
     ) -> FitJson<'a> {
         let mut n = Nulls::new();
         let name = |s: &'static str| move || s.to_string();
-        let t_ref_k = n.num(name("t_ref_k"), fit.options.t_ref_k);
-        let level = n.num(name("level"), fit.options.level);
+        let t_ref_k = n.num(name("t_ref_k"), fit.options().t_ref_k);
+        let level = n.num(name("level"), fit.options().level);
         let params = ParamsJson(
-            fit.params
+            fit.params()
                 .iter()
                 .map(|p| (p.key(), n.estimate(p.key(), &p.estimate)))
                 .collect(),
         );
         let cov = fit
-            .covariance
+            .covariance()
             .iter()
             .enumerate()
             .map(|(a, row)| {
@@ -343,15 +343,15 @@ impl<'a> FitJson<'a> {
                     .collect()
             })
             .collect();
-        let s = &fit.stats;
-        let corr_h_s = n.num(name("corr_h_s"), fit.corr_h_s);
+        let s = fit.stats();
+        let corr_h_s = n.num(name("corr_h_s"), fit.corr_h_s());
         let residual_sd = n.num(name("residual_sd"), s.residual_sd);
         let r2 = n.num(name("r2"), s.r2);
         let chi2 = n.num(name("chi2"), s.chi2);
         let reduced_chi2 = n.num(name("reduced_chi2"), s.reduced_chi2);
         let aicc = n.opt(name("aicc"), s.aicc);
         let bic = n.num(name("bic"), s.bic);
-        let model_comparison = fit.comparison.as_ref().map(|c| ComparisonJson {
+        let model_comparison = fit.comparison().map(|c| ComparisonJson {
             f_p_value: n.num(name("model_comparison.f_p_value"), c.f_p_value),
             delta_aicc: n.opt(name("model_comparison.delta_aicc"), c.delta_aicc),
             preferred: c.preferred.key(),
@@ -388,7 +388,7 @@ impl<'a> FitJson<'a> {
             // Counts the undefined values of the points, in row order.
             p.each(&mut n).for_each(drop);
         }
-        let t_at_k1 = fit.t_at_k1.as_ref().map(|e| TAtK1Json {
+        let t_at_k1 = fit.t_at_k1().map(|e| TAtK1Json {
             value: n.num(name("t_at_k1.value"), e.value),
             se: n.num(name("t_at_k1.se"), e.se),
             // An infinite end is an unbounded interval, which the fit's warnings say in
@@ -398,15 +398,15 @@ impl<'a> FitJson<'a> {
             extrapolated: fit.is_extrapolation(e.value),
         });
         let mut warnings = set.warnings.clone();
-        warnings.extend(fit.warnings.iter().map(|w| w.message.clone()));
+        warnings.extend(fit.warnings().iter().map(|w| w.message.clone()));
         warnings.extend(n.warning());
         FitJson {
             source,
             model: fit.model().key(),
             t_ref_k,
             level,
-            n_used: fit.n_used,
-            dof: fit.dof,
+            n_used: fit.n_used(),
+            dof: fit.dof(),
             params,
             cov,
             corr_h_s,

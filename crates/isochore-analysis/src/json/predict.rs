@@ -157,15 +157,15 @@ impl<'a> PredictJson<'a> {
             },
         });
         let mut warnings = set.warnings.clone();
-        warnings.extend(fit.warnings.iter().map(|w| w.message.clone()));
+        warnings.extend(fit.warnings().iter().map(|w| w.message.clone()));
         warnings.extend(n.warning());
         PredictJson {
             source: &set.source,
             series: &set.series,
             model: fit.model().key(),
-            level: fit.options.level,
-            t_min_k: fit.t_min_k.is_finite().then_some(fit.t_min_k),
-            t_max_k: fit.t_max_k.is_finite().then_some(fit.t_max_k),
+            level: fit.options().level,
+            t_min_k: fit.t_min_k().is_finite().then_some(fit.t_min_k()),
+            t_max_k: fit.t_max_k().is_finite().then_some(fit.t_max_k()),
             predictions,
             for_k,
             warnings,
