@@ -1,5 +1,5 @@
 //! Nothing lost on a crash: a child process (this test binary run again for one ignored
-//! test) saves two projects of a few MB in turn to the same path, and is killed with SIGKILL
+//! test) saves two projects of about 40 kB in turn to the same path, and is killed with SIGKILL
 //! at a pseudo-random moment, again and again. After every kill the project file must load
 //! with [`Project::load`] as exactly the old or the new project — the one the child's
 //! progress lines say it can be — never damaged, never missing; the `.bak` beside it must
@@ -11,7 +11,7 @@
 
 use isochore_data::{import_text, ImportOptions, Project};
 use std::collections::BTreeSet;
-use std::io::{BufRead, BufReader, Read};
+use std::io::{BufRead, BufReader, Read, Write};
 use std::path::{Path, PathBuf};
 use std::process::{Child, ChildStderr, Command, Stdio};
 use std::time::{Duration, Instant};
@@ -20,12 +20,13 @@ use std::time::{Duration, Instant};
 const TARGET: &str = "ISOCHORE_TEST_CRASH_TARGET";
 /// How many times the child is killed.
 const KILLS: usize = 200;
-/// Rows in project A (project B has more).
+/// Rows in each project.
 const ROWS: usize = 200;
 
-/// Two different projects, `A` and `B`: two data sets of generated rows (about 60 kB of
-/// JSON, which this crate's unoptimised test build takes a few milliseconds to save); B has
-/// other K values in its second data set, an exclusion and other notes.
+/// Two different projects, `A` and `B`: two data sets of generated rows (about 40 kB of
+/// JSON, which this crate's unoptimised test build takes a few milliseconds to serialise,
+/// write and sync); B has other K values in its second data set, an exclusion and other
+/// notes.
 fn projects() -> [Project; 2] {
     let mut text = String::from("series,T (°C),K,note\n");
     for i in 0..ROWS {
@@ -53,8 +54,10 @@ fn projects() -> [Project; 2] {
 }
 
 /// Child side: saves B, A, B, A, … to the path in [`TARGET`], writing `begin i` before and
-/// `end i` after each save to stderr (stdout carries the test runner's own lines), until killed (or after 2000 saves, so that a child whose parent
-/// died does not run on). Does nothing when not started by the parent.
+/// `end i` after each save to stderr (stdout carries the test runner's own lines), from
+/// the moment a byte arrives on stdin until killed (or after 2000 saves, so that a child
+/// whose parent died does not run on). Does nothing when not started by the parent, or when
+/// stdin closes first.
 #[test]
 #[ignore = "child process of sigkill_during_save_leaves_old_or_new_project"]
 fn child_saves_in_turn() {
@@ -62,6 +65,12 @@ fn child_saves_in_turn() {
         return;
     };
     let both = projects();
+    // Waiting for the word lets the parent start the next child while it checks the files
+    // the last one left: starting a process is most of the time a kill takes.
+    let mut go = [0u8];
+    if std::io::stdin().read(&mut go).unwrap_or(0) == 0 {
+        return;
+    }
     for n in 0..2000 {
         let i = (n + 1) % 2;
         eprintln!("begin {i}");
@@ -80,10 +89,9 @@ impl Drop for Killed {
     }
 }
 
-/// Starts the child saving to `target`; returns it and its progress lines once its first
-/// save has begun.
-fn start_child(target: &Path) -> (Killed, BufReader<ChildStderr>) {
-    let mut child = Command::new(std::env::current_exe().unwrap())
+/// Starts a child that will save to `target` once told to (see [`go`]).
+fn start_child(target: &Path) -> Killed {
+    let child = Command::new(std::env::current_exe().unwrap())
         .args([
             "crash::child_saves_in_turn",
             "--exact",
@@ -92,19 +100,26 @@ fn start_child(target: &Path) -> (Killed, BufReader<ChildStderr>) {
             "--test-threads=1",
         ])
         .env(TARGET, target)
+        .stdin(Stdio::piped())
         .stdout(Stdio::null())
         .stderr(Stdio::piped())
         .spawn()
         .expect("run the test binary again");
-    let mut out = BufReader::new(child.stderr.take().unwrap());
-    let child = Killed(child);
+    Killed(child)
+}
+
+/// Tells a child from [`start_child`] to save; returns it, its first progress line (read
+/// once its first save has begun) and the rest of its progress lines to read.
+fn go(mut child: Killed) -> (Killed, String, BufReader<ChildStderr>) {
+    child.0.stdin.take().unwrap().write_all(b"g").unwrap();
+    let mut out = BufReader::new(child.0.stderr.take().unwrap());
     let mut line = String::new();
     loop {
         line.clear();
         let n = out.read_line(&mut line).unwrap();
         assert!(n > 0, "the child ended before saving");
         if line.starts_with("begin ") {
-            return (child, out);
+            return (child, line, out);
         }
     }
 }
@@ -161,7 +176,7 @@ impl XorShift {
 /// Where the kills landed, from the child's progress lines and the folder.
 #[derive(Debug, Default)]
 struct Landed {
-    /// Between two saves (the last line was `end`).
+    /// Between two saves (the last line was `end`; rare, the gap is a print).
     between: usize,
     /// In a save, between creating a temporary file and the rename (a new temporary file
     /// was left behind).
@@ -169,7 +184,8 @@ struct Landed {
     /// In a save, after the rename (the new project was in place; only counted when it
     /// differs from the old one).
     after_rename: usize,
-    /// In a save, before any temporary file existed (serialising) or after the rename.
+    /// In a save, before any temporary file existed (serialising), or after the rename of a
+    /// project equal to the old one.
     elsewhere_in_save: usize,
 }
 
@@ -212,16 +228,16 @@ fn sigkill_during_save_leaves_old_or_new_project() {
     let mut landed = Landed::default();
     let mut before = leftovers(dir.path(), name);
     assert!(before.is_empty(), "a clean save leaves nothing: {before:?}");
+    let mut next = start_child(&path);
     for kill in 0..KILLS {
-        let (mut child, mut out) = start_child(&path);
+        let (mut child, first, mut out) = go(next);
+        next = start_child(&path);
         std::thread::sleep(Duration::from_micros(rng.below(window_us)));
         child.0.kill().unwrap();
         child.0.wait().unwrap();
-        // The first `begin 1` was read by start_child.
-        let mut rest = String::new();
-        out.read_to_string(&mut rest).unwrap();
-        let mut lines = vec![(false, 1)];
-        lines.extend(progress(&rest));
+        let mut text = first;
+        out.read_to_string(&mut text).unwrap();
+        let lines = progress(&text);
         let last = *lines.last().unwrap();
         let after = format!("after kill {kill} (last progress line {last:?})");
         let now = reader.which(&path, &after);
@@ -263,6 +279,7 @@ fn sigkill_during_save_leaves_old_or_new_project() {
         }
         in_place = now;
     }
+    drop(next);
     // A save beside the leftovers works: the new project in place, the old one backed up.
     let next = 1 - in_place;
     both[next].save_atomic(&path).unwrap();
