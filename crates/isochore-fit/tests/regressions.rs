@@ -130,3 +130,36 @@ fn undefined_statistics_are_said_in_words() {
         .any(|w| w.kind == isochore_fit::WarningKind::Undefined
             && w.message.contains("degree of freedom")));
 }
+
+/// A reference temperature outside the measured range is said in words (issue 11 item 4):
+/// the values quoted at θ are extrapolations. Invented data at 60–90 °C.
+#[test]
+fn a_reference_temperature_outside_the_data_is_named() {
+    use isochore_fit::{fit, FitOptions, Measurement, Model, WarningKind, GAS_CONSTANT};
+    let pts: Vec<Measurement> = (0..7)
+        .map(|i| {
+            let t = 333.15 + 5.0 * i as f64;
+            let wobble = 0.01 * [1.0, -1.0, 0.5, -0.5, 0.8, -0.2, 0.1][i];
+            Measurement::new(t, 30e3 / (GAS_CONSTANT * t) - 40.0 / GAS_CONSTANT + wobble)
+                .with_sigma(0.01)
+        })
+        .collect();
+    for model in [Model::LINEAR, Model::CONSTANT_CP] {
+        let says = |theta: f64| {
+            let f = fit(
+                &pts,
+                &FitOptions {
+                    model,
+                    t_ref_k: theta,
+                    ..FitOptions::default()
+                },
+            )
+            .unwrap();
+            f.warnings()
+                .iter()
+                .any(|w| w.kind == WarningKind::Extrapolation && w.message.contains("θ ="))
+        };
+        assert!(says(298.15), "{model:?}");
+        assert!(!says(350.0), "{model:?}");
+    }
+}

@@ -111,6 +111,20 @@ pub(super) fn cautions(fit: &VantHoffFit, flagged: usize, leverage_one: bool) ->
             ),
         ));
     }
+    let theta = fit.options.t_ref_k;
+    if fit.is_extrapolation(theta) {
+        warnings.push(Warning::new(
+            WarningKind::Extrapolation,
+            format!(
+                "the reference temperature θ = {} K lies outside the measured range {:.2}–{:.2} K: the values quoted at θ are extrapolations, valid only if the model holds there ({}); a θ inside the range, near T_hm = {:.2} K, is better determined",
+                crate::error::short(theta),
+                t_min_k,
+                t_max_k,
+                model.assumption(),
+                fit.t_harmonic_k
+            ),
+        ));
+    }
     if let Some(c) = &fit.comparison {
         let ladder = model.ladder();
         let rank = |m| ladder.iter().position(|&l| l == m);
