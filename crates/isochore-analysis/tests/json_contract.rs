@@ -1,11 +1,12 @@
 //! The JSON contract: parameters written by looping over the fit's parameters (a fourth
 //! parameter appears under its key with no new code), undefined numbers as null with a
-//! warning naming them, points numbered from 1.
+//! warning naming them (the rule of `Nulls`, which every document is built through), points
+//! numbered from 1.
 
 use crate::common::{csv, file};
-use isochore_analysis::json::{write_error, FitJson};
+use isochore_analysis::json::{write_error, FitJson, Nulls};
 use isochore_analysis::{load, Overrides, VERSION};
-use isochore_fit::Model;
+use isochore_fit::{Estimate, Model};
 use serde_json::Value;
 
 fn document(set: &isochore_analysis::DataSet, fit: &isochore_fit::VantHoffFit) -> Value {
@@ -62,43 +63,64 @@ fn every_parameter_of_the_model_is_written_under_its_key() {
 
 #[test]
 fn undefined_numbers_are_null_and_named_in_a_warning() {
+    let mut n = Nulls::new();
+    let undefined = Estimate {
+        value: f64::NAN,
+        se: 1.0,
+        ci_low: 0.0,
+        ci_high: 2.0,
+    };
+    let e = n.estimate("delta_s", &undefined);
+    // A null value has null statistics.
+    assert_eq!(
+        (e.value, e.se, e.ci_low, e.ci_high),
+        (None, None, None, None)
+    );
+    let wide = Estimate {
+        value: 1.0,
+        se: f64::INFINITY,
+        ci_low: f64::NEG_INFINITY,
+        ci_high: 3.0,
+    };
+    let e = n.estimate("delta_h", &wide);
+    assert_eq!(
+        (e.value, e.se, e.ci_low, e.ci_high),
+        (Some(1.0), None, None, Some(3.0))
+    );
+    assert_eq!(n.num(|| "cov[0][1]".into(), f64::NAN), None);
+    assert_eq!(n.num(|| unreachable!(), 2.5), Some(2.5));
+    assert_eq!(n.opt(|| unreachable!(), None), None);
+    let text = serde_json::to_string(&e).unwrap();
+    assert_eq!(
+        text,
+        r#"{"value":1.0,"se":null,"ci_low":null,"ci_high":3.0}"#
+    );
+    let w = n.warning().unwrap();
+    for name in [
+        "delta_s (value and all its statistics)",
+        "delta_h.se",
+        "delta_h.ci_low",
+        "cov[0][1]",
+    ] {
+        assert!(w.contains(name), "{name} in {w}");
+    }
+    assert!(!w.contains("delta_h.ci_high"), "{w}");
+    assert_eq!(Nulls::new().warning(), None);
+}
+
+#[test]
+fn a_finite_fit_has_no_null_and_no_undefined_warning() {
     let (_d, path) = file("acid.csv", &csv(["0.01", "0.02", "0.01", "0.02"]));
     let set = &load(&path, &Overrides::default()).unwrap()[0];
-    let mut fit = set.fit().unwrap();
-    fit.params[1].estimate.value = f64::NAN;
-    fit.params[0].estimate.se = f64::INFINITY;
-    fit.covariance[0][1] = f64::NAN;
-    fit.points[2].leverage = f64::NAN;
+    let fit = set.fit().unwrap();
     let doc = document(set, &fit);
-    assert!(doc["params"]["delta_s"]["value"].is_null());
-    assert!(
-        doc["params"]["delta_s"]["se"].is_null(),
-        "a null value has null statistics"
-    );
-    assert!(doc["params"]["delta_h"]["se"].is_null());
-    assert!(doc["params"]["delta_h"]["value"].is_number());
-    assert!(doc["cov"][0][1].is_null());
-    assert!(doc["points"][2]["leverage"].is_null());
-    let warnings: Vec<&str> = doc["warnings"]
-        .as_array()
-        .unwrap()
-        .iter()
-        .filter_map(Value::as_str)
-        .collect();
-    let last = warnings.last().unwrap();
-    for name in [
-        "delta_h.se",
-        "delta_s (value and all its statistics)",
-        "cov[0][1]",
-        "points[row 3].leverage",
-    ] {
-        assert!(last.contains(name), "{name} in {last}");
+    for (k, v) in doc["params"].as_object().unwrap() {
+        assert!(v["value"].is_number() && v["se"].is_number(), "{k}: {v}");
     }
-    // Without points, the points' undefined values are not named.
+    assert!(!doc["warnings"].to_string().contains("undefined value"));
+    // Without points, neither "points" nor "source" is written.
     let summary = serde_json::to_value(FitJson::new(set, &fit, None, false)).unwrap();
     assert!(summary.get("points").is_none() && summary.get("source").is_none());
-    let text = summary["warnings"].to_string();
-    assert!(!text.contains("points[row 3]"), "{text}");
 }
 
 #[test]
