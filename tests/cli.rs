@@ -68,8 +68,8 @@ fn fit_json_matches_the_library_for_each_demo() {
         let j = json_of(&out);
         let lib = library_fit(&path, &[], FitOptions::default());
         assert_eq!(j["model"], "linear");
-        assert_eq!(j["n_used"].as_u64().unwrap() as usize, lib.n_used);
-        assert_eq!(j["dof"].as_u64().unwrap() as usize, lib.dof);
+        assert_eq!(j["n_used"].as_u64().unwrap() as usize, lib.n_used());
+        assert_eq!(j["dof"].as_u64().unwrap() as usize, lib.dof());
         // The same computation in the same process order: agreement to rounding.
         let h = &j["params"]["delta_h"];
         assert!(close(
@@ -92,14 +92,18 @@ fn fit_json_matches_the_library_for_each_demo() {
         assert!(j["params"].get("delta_cp").is_none());
         assert!(close(
             j["cov"][0][1].as_f64().unwrap(),
-            lib.covariance[0][1],
+            lib.covariance()[0][1],
             1e-12
         ));
-        assert!(close(j["corr_h_s"].as_f64().unwrap(), lib.corr_h_s, 1e-12));
-        assert!(close(j["chi2"].as_f64().unwrap(), lib.stats.chi2, 1e-12));
+        assert!(close(
+            j["corr_h_s"].as_f64().unwrap(),
+            lib.corr_h_s(),
+            1e-12
+        ));
+        assert!(close(j["chi2"].as_f64().unwrap(), lib.stats().chi2, 1e-12));
         let points = j["points"].as_array().unwrap();
-        assert_eq!(points.len(), lib.points.len());
-        for (i, (p, d)) in points.iter().zip(&lib.points).enumerate() {
+        assert_eq!(points.len(), lib.points().len());
+        for (i, (p, d)) in points.iter().zip(lib.points()).enumerate() {
             assert_eq!(
                 p["row"].as_u64().unwrap() as usize,
                 i + 1,
@@ -642,7 +646,7 @@ fn import_test_files_are_fitted_or_refused_cleanly() {
                 };
                 assert_eq!(items.len(), fits.len(), "{path}: one result per data set");
                 for (item, lib) in items.iter().zip(&fits) {
-                    assert_eq!(item["n_used"].as_u64().unwrap() as usize, lib.n_used);
+                    assert_eq!(item["n_used"].as_u64().unwrap() as usize, lib.n_used());
                     assert!(
                         close(
                             item["params"]["delta_h"]["value"].as_f64().unwrap(),
@@ -682,7 +686,9 @@ fn far_temperature_for_k_equal_one_is_called_an_extrapolation() {
     // far outside the data: the number must come with the word, in JSON and in the table.
     let path = demo("binding_qx7_halo2.csv");
     let lib = library_fit(&path, &[], FitOptions::default());
-    let t1 = lib.t_at_k1.expect("the linear fit crosses K = 1 somewhere");
+    let t1 = lib
+        .t_at_k1()
+        .expect("the linear fit crosses K = 1 somewhere");
     assert!(lib.is_extrapolation(t1.value), "{} K", t1.value);
     let j = json_of(&run(&["fit", &path, "--json"]));
     assert!(close(

@@ -197,7 +197,7 @@ fn excluded_points_have_fitted_and_residual_but_null_diagnostics() {
     let lib = library_fit(&path, &[3, 7], FitOptions::default());
     let points = j["points"].as_array().unwrap();
     assert_eq!(points.len(), 12);
-    for (p, d) in points.iter().zip(&lib.points) {
+    for (p, d) in points.iter().zip(lib.points()) {
         let row = p["row"].as_u64().unwrap();
         let excluded = row == 3 || row == 7;
         assert_eq!(p["used"], !excluded, "{p}");
@@ -241,7 +241,7 @@ fn t_at_k1_is_null_when_k_never_reaches_one() {
     );
     assert!(j["t_at_k1"].is_null(), "{}", j["t_at_k1"]);
     let lib = library_fit(&s(&p), &[], FitOptions::default());
-    assert!(lib.t_at_k1.is_none());
+    assert!(lib.t_at_k1().is_none());
     // Where it exists it is {value, se, extrapolated}.
     let j = ok_json(&["fit", &demo("binding_qx7_halo2.csv"), "--json", "--summary"]);
     let t1 = &j["t_at_k1"];
@@ -318,8 +318,8 @@ fn fit_reads_project_files_with_their_exclusions_and_settings() {
         let lib = project_fit(&project, i);
         assert_eq!(item["source"], s(&path).as_str());
         assert_eq!(item["model"], lib.model().key());
-        assert_eq!(item["level"], lib.options.level);
-        assert_eq!(item["n_used"].as_u64().unwrap() as usize, lib.n_used);
+        assert_eq!(item["level"], lib.options().level);
+        assert_eq!(item["n_used"].as_u64().unwrap() as usize, lib.n_used());
         assert!(close(
             f(&item["params"]["delta_h"]["value"]),
             lib.delta_h().value,
@@ -953,13 +953,13 @@ fn text_table_numbers_match_the_library() {
                         0.0
                     };
                     let u_t = if off > 0.0 { "°C" } else { "K" };
-                    (lib.t_at_k1.unwrap(), 1.0, u_t, off)
+                    (lib.t_at_k1().unwrap(), 1.0, u_t, off)
                 } else {
                     let at = if q.contains("T_hm") {
-                        &lib.at_harmonic
+                        &lib.at_harmonic()
                     } else {
                         assert!(q.contains("θ"), "{q}");
-                        &lib.at_reference
+                        &lib.at_reference()
                     };
                     // The temperature in the label.
                     let label_t = q.split(" = ").nth(1).unwrap();
@@ -995,24 +995,24 @@ fn text_table_numbers_match_the_library() {
             }
             assert_eq!(
                 statistic(&text, "points used / given"),
-                format!("{} / {}", lib.n_used, lib.n_total)
+                format!("{} / {}", lib.n_used(), lib.n_total())
             );
             assert_eq!(
                 statistic(&text, "residual degrees of freedom"),
-                lib.dof.to_string()
+                lib.dof().to_string()
             );
-            assert_printed(statistic(&text, "χ²"), lib.stats.chi2, "χ²");
+            assert_printed(statistic(&text, "χ²"), lib.stats().chi2, "χ²");
             assert_printed(
                 statistic(&text, "reduced χ²"),
-                lib.stats.reduced_chi2,
+                lib.stats().reduced_chi2,
                 "reduced χ²",
             );
-            assert_printed(statistic(&text, "R²"), lib.stats.r2, "R²");
-            assert_printed(statistic(&text, "BIC"), lib.stats.bic, "BIC");
-            assert_printed(statistic(&text, "AICc"), lib.stats.aicc.unwrap(), "AICc");
+            assert_printed(statistic(&text, "R²"), lib.stats().r2, "R²");
+            assert_printed(statistic(&text, "BIC"), lib.stats().bic, "BIC");
+            assert_printed(statistic(&text, "AICc"), lib.stats().aicc.unwrap(), "AICc");
             assert_printed(
                 statistic(&text, "corr(ΔH°, ΔS°) at θ"),
-                lib.corr_h_s,
+                lib.corr_h_s(),
                 "corr",
             );
             compared += 1;

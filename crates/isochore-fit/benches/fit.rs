@@ -51,7 +51,7 @@ fn data(n: usize, seed: u64) -> Vec<Measurement> {
 fn analysis(points: &[Measurement], options: &FitOptions) -> usize {
     let f = fit(points, options).expect("synthetic data fit");
     let bands = f.band_grid(200, 0.1);
-    f.points.len() + bands.len()
+    f.points().len() + bands.len()
 }
 
 fn bench_fit(c: &mut Criterion) {

@@ -55,7 +55,7 @@ fn main() {
                     "n = {n}, model {}: ΔH° = {:.1} J/mol, {} diagnostics, {} band points, {wall:.1} ms wall, {cpu}",
                     model.key(),
                     f.delta_h().value,
-                    f.points.len(),
+                    f.points().len(),
                     bands.len(),
                 );
             }

@@ -296,7 +296,7 @@ fn ada_buffer_against_the_published_enthalpy_and_heat_capacity() {
     // 2014 study's fitted equation, pK = 2943.784/T − 47.05762 + 7.72703 ln T, gives 6.807
     // there): the Clarke–Glew fit flags it (statsmodels' externally studentized residual 5.47).
     let worst = cg
-        .points
+        .points()
         .iter()
         .max_by(|a, b| {
             let (a, b) = (a.student_ext.unwrap().abs(), b.student_ext.unwrap().abs());

@@ -54,21 +54,21 @@ fn finite(e: &Estimate) -> bool {
 
 /// What a successful fit must satisfy.
 fn check_fit(f: &VantHoffFit) {
-    for p in &f.params {
+    for p in f.params() {
         assert!(finite(&p.estimate), "{p:?}");
     }
-    for row in &f.covariance {
-        assert!(row.iter().all(|v| v.is_finite()), "{:?}", f.covariance);
+    for row in f.covariance() {
+        assert!(row.iter().all(|v| v.is_finite()), "{:?}", f.covariance());
     }
-    for t in [&f.at_reference, &f.at_harmonic] {
+    for t in [&f.at_reference(), &f.at_harmonic()] {
         assert!(
             finite(&t.delta_h) && finite(&t.delta_s) && finite(&t.delta_g),
             "{t:?}"
         );
     }
-    assert!(f.stats.chi2.is_finite() && f.stats.chi2 >= 0.0);
-    assert!(f.stats.log_likelihood.is_finite() && f.stats.bic.is_finite());
-    for d in &f.points {
+    assert!(f.stats().chi2.is_finite() && f.stats().chi2 >= 0.0);
+    assert!(f.stats().log_likelihood.is_finite() && f.stats().bic.is_finite());
+    for d in f.points() {
         assert!(d.fitted.is_finite() && d.residual.is_finite() && d.leverage.is_finite());
         for v in [
             d.student_int,
@@ -83,7 +83,7 @@ fn check_fit(f: &VantHoffFit) {
             assert!(v.is_finite(), "{d:?}");
         }
     }
-    if let Some(c) = &f.comparison {
+    if let Some(c) = &f.comparison() {
         assert!(
             !c.f_statistic.is_nan() && (0.0..=1.0).contains(&c.f_p_value),
             "{c:?}"
@@ -276,7 +276,7 @@ fn valid_scaled_inputs_fit_and_scale_as_they_must() {
                 .collect();
             let f = fit(&ln_k, &o).unwrap_or_else(|e| panic!("ln K and σ scaled, {what}: {e}"));
             check_fit(&f);
-            for (a, b) in f.params.iter().zip(&base.params) {
+            for (a, b) in f.params().iter().zip(base.params()) {
                 assert!(
                     rel_close(a.estimate.value, b.estimate.value * scale),
                     "{what}: {a:?} vs {b:?}"
@@ -296,7 +296,7 @@ fn valid_scaled_inputs_fit_and_scale_as_they_must() {
                 (Weighting::InverseVariance, SigmaConvention::Absolute) => scale,
                 _ => 1.0,
             };
-            for (a, b) in f.params.iter().zip(&base.params) {
+            for (a, b) in f.params().iter().zip(base.params()) {
                 assert!(
                     rel_close(a.estimate.value, b.estimate.value),
                     "{what}: {a:?} vs {b:?}"

@@ -416,9 +416,9 @@ fn check_single_series(model: Model, weighting: Weighting, convention: SigmaConv
         let rel = 1e-12;
         let what = format!("{} {:?} {:?}", model.key(), weighting, convention);
         assert_eq!(g.n_params(), model.n_params(), "{what}");
-        close(&what, g.critical_value(), single.critical_value, rel);
-        close(&what, g.variance_scale(), single.variance_scale, rel);
-        for (k, p) in single.params.iter().enumerate() {
+        close(&what, g.critical_value(), single.critical_value(), rel);
+        close(&what, g.variance_scale(), single.variance_scale(), rel);
+        for (k, p) in single.params().iter().enumerate() {
             let e = g.estimates()[k];
             close(&format!("{what} value {k}"), e.value, p.estimate.value, rel);
             close(&format!("{what} SE {k}"), e.se, p.estimate.se, rel);
@@ -437,11 +437,11 @@ fn check_single_series(model: Model, weighting: Weighting, convention: SigmaConv
             close_all(
                 &format!("{what} covariance row {k}"),
                 &g.covariance()[k],
-                &single.covariance[k],
+                &single.covariance()[k],
                 rel,
             );
         }
-        let (gs, ss) = (g.statistics(), &single.stats);
+        let (gs, ss) = (g.statistics(), &single.stats());
         close(&format!("{what} χ²"), gs.chi2, ss.chi2, rel);
         close(
             &format!("{what} reduced χ²"),
@@ -457,15 +457,15 @@ fn check_single_series(model: Model, weighting: Weighting, convention: SigmaConv
         );
         close(&format!("{what} BIC"), gs.bic, ss.bic, rel);
         close(&format!("{what} R²"), gs.r2, ss.r2, rel);
-        assert_eq!(g.dof(), single.dof);
+        assert_eq!(g.dof(), single.dof());
         let gp = g.points(0).unwrap();
-        assert_eq!(gp.len(), single.points.len());
+        assert_eq!(gp.len(), single.points().len());
         // Residuals of a good fit are small differences: compare them on the scale of the
         // data's scatter rather than their own size.
         let abs = |what: &str, a: f64, b: f64, scale: f64| {
             assert!((a - b).abs() <= rel * scale, "{what}: {a:e} vs {b:e}");
         };
-        for (d, s) in gp.iter().zip(&single.points) {
+        for (d, s) in gp.iter().zip(single.points()) {
             let w = format!("{what} point {}", s.index);
             assert_eq!(
                 (d.index, d.used, d.flags),
@@ -527,13 +527,13 @@ fn all_shared_is_the_pooled_single_fit() {
     let input = [SeriesInput::new("A", &a), SeriesInput::new("B", &b)];
     let g = fit_global(&input, &all_shared, &opts).unwrap();
     let rel = 1e-11;
-    for (k, p) in single.params.iter().enumerate() {
+    for (k, p) in single.params().iter().enumerate() {
         let e = g.shared(p.key()).unwrap();
         close(&format!("value {k}"), e.value, p.estimate.value, rel);
         close(&format!("SE {k}"), e.se, p.estimate.se, rel);
     }
-    close("χ²", g.statistics().chi2, single.stats.chi2, rel);
-    for ((s, d), p) in g.all_points().zip(&single.points) {
+    close("χ²", g.statistics().chi2, single.stats().chi2, rel);
+    for ((s, d), p) in g.all_points().zip(single.points()) {
         let index = if s == 0 { d.index } else { d.index + a.len() };
         assert_eq!(index, p.index);
         close("leverage", d.leverage, p.leverage, rel);

@@ -58,7 +58,7 @@ fn water_ionisation_enthalpy_and_heat_capacity() {
         cp.delta_h().se / 1e3,
         dcp,
         cp.delta_cp().unwrap().se,
-        cp.comparison.as_ref().unwrap().verdict
+        cp.comparison().unwrap().verdict
     );
     // The same fit done independently: statsmodels 0.15.0 OLS in the basis 1, 1/T, ln T
     // (tests/data/independent/make_independent.py → independent.txt). Same data, same
@@ -82,7 +82,7 @@ fn water_ionisation_enthalpy_and_heat_capacity() {
     // The curvature is real: the ΔCp° model must beat the linear one. The formulation's
     // ΔCp° itself runs from −283 to −193 J/(mol K) over the range (above), so the next step
     // of the ladder, a ΔCp° linear in T (Clarke–Glew), is supported too.
-    let c = cp.comparison.as_ref().unwrap();
+    let c = cp.comparison().unwrap();
     assert!(c.steps[0].supported && c.f_p_value < 1e-6, "{}", c.verdict);
     assert_eq!(c.steps[1].larger, Model::CLARKE_GLEW);
     assert!(c.steps[1].supported, "{}", c.verdict);
@@ -98,7 +98,7 @@ fn water_ionisation_enthalpy_and_heat_capacity() {
     // The linear model over the whole range is told it ignores the curvature.
     let lin = fit(&pts, &unweighted(Model::LINEAR)).unwrap();
     assert!(lin
-        .warnings
+        .warnings()
         .iter()
         .any(|w| w.kind == WarningKind::CurvatureIgnored));
     // Over 20–30 °C only, the straight line gives the same ΔH° near 25 °C.

@@ -231,7 +231,7 @@ fn extrapolation_is_relative_to_the_range() {
         ..FitOptions::default()
     };
     let f = fit(&pts, &o).unwrap();
-    assert_eq!(f.t_min_k, 1e-10);
+    assert_eq!(f.t_min_k(), 1e-10);
     assert!(f.is_extrapolation(1.18e-11));
     assert!(f.is_extrapolation(9.9e-11));
     assert!(!f.is_extrapolation(1e-10));

@@ -36,7 +36,7 @@ fn options(model: Model) -> FitOptions {
 
 /// ln K(T; β) = x(T)·β, straight from the model's design row.
 fn ln_k(f: &VantHoffFit, t: f64, beta: &[f64]) -> f64 {
-    let row = f.model().row(t, f.options.t_ref_k);
+    let row = f.model().row(t, f.options().t_ref_k);
     beta.iter().zip(row).map(|(b, x)| b * x).sum()
 }
 
@@ -70,7 +70,7 @@ fn se_fd(f: &VantHoffFit, q: impl Fn(&[f64]) -> f64) -> f64 {
     let mut v = 0.0;
     for a in 0..p {
         for b in 0..p {
-            v += g[a] * f.covariance[a][b] * g[b];
+            v += g[a] * f.covariance()[a][b] * g[b];
         }
     }
     v.sqrt()
@@ -143,7 +143,7 @@ fn ellipse_points_lie_on_the_quadratic_form() {
         let r2 = match convention {
             SigmaConvention::Absolute => -2.0 * (0.05f64).ln(),
             SigmaConvention::ScaledByFit => {
-                let d = FisherSnedecor::new(2.0, f.dof as f64).unwrap();
+                let d = FisherSnedecor::new(2.0, f.dof() as f64).unwrap();
                 let (mut lo, mut hi) = (0.0, 1e3);
                 for _ in 0..200 {
                     let mid = 0.5 * (lo + hi);
@@ -160,7 +160,7 @@ fn ellipse_points_lie_on_the_quadratic_form() {
             // F(0.95; 2, 8) = 4.459 (F-distribution table, from memory).
             assert!((r2 / 2.0 - 4.459).abs() < 1e-3, "{}", r2 / 2.0);
         }
-        let c = &f.covariance;
+        let c = &f.covariance();
         let det = c[0][0] * c[1][1] - c[0][1] * c[0][1];
         let inv = [
             [c[1][1] / det, -c[0][1] / det],
@@ -192,7 +192,7 @@ fn band_at_a_data_temperature_equals_predict() {
             assert!(close(b.ci_low, p.ln_k.ci.low) && close(b.ci_high, p.ln_k.ci.high));
             assert!(close(b.pi_low, p.ln_k.pi.low) && close(b.pi_high, p.ln_k.pi.high));
             // And the fitted value there is the point's own fitted value.
-            let d = f.points.iter().find(|d| d.t_k == m.t_k).unwrap();
+            let d = f.points().iter().find(|d| d.t_k == m.t_k).unwrap();
             assert!(close(d.fitted, p.ln_k.value));
         }
     }
@@ -202,7 +202,7 @@ fn band_at_a_data_temperature_equals_predict() {
 fn corr(f: &VantHoffFit, u: &[f64], v: &[f64]) -> f64 {
     let q = |a: &[f64], b: &[f64]| -> f64 {
         let mut s = 0.0;
-        for (ai, row) in a.iter().zip(&f.covariance) {
+        for (ai, row) in a.iter().zip(f.covariance()) {
             for (bj, c) in b.iter().zip(row) {
                 s += ai * c * bj;
             }
@@ -228,7 +228,7 @@ fn harmonic_mean_temperature_decorrelates() {
         })
         .collect();
     let f = fit(&pts, &options(Model::CONSTANT_CP)).unwrap();
-    let th = f.t_harmonic_k;
+    let th = f.t_harmonic_k();
     // T_h is the weighted harmonic mean, computed here from the points.
     let (sw, swt) = pts.iter().fold((0.0, 0.0), |(a, b), m| {
         let w = 1.0 / m.sigma_ln_k.unwrap().powi(2);
@@ -251,7 +251,9 @@ fn harmonic_mean_temperature_decorrelates() {
         "T_h = {th:.2} K: corr(ΔH°, ΔS°) = {c_hs_th:.6} (at θ: {c_hs_0:.6}); corr(ΔH°, ΔG°) = {c_hg_th:.6} (at θ: {c_hg_0:.6})"
     );
     // The reported values at T_h carry exactly these uncertainties.
-    assert!((f.at_harmonic.delta_h.se - se_of(&f, &h_th)).abs() < 1e-9 * f.at_harmonic.delta_h.se);
+    assert!(
+        (f.at_harmonic().delta_h.se - se_of(&f, &h_th)).abs() < 1e-9 * f.at_harmonic().delta_h.se
+    );
     // Re-expressed at T_h, ΔH° and ΔS° are less correlated than at θ (the design is centred
     // near T_h), though
     // only slightly: ΔS° = (ΔH° − ΔG°)/T keeps them near ±1 at any temperature …
@@ -261,7 +263,7 @@ fn harmonic_mean_temperature_decorrelates() {
 
     // Linear model: ΔG°(T_h) and ΔH° are exactly uncorrelated (the centred 1/T design).
     let lin = fit(&pts, &options(Model::LINEAR)).unwrap();
-    let c = corr(&lin, &[1.0, 0.0], &[1.0, -lin.t_harmonic_k]);
+    let c = corr(&lin, &[1.0, 0.0], &[1.0, -lin.t_harmonic_k()]);
     assert!(c.abs() < 1e-9, "{c}");
 }
 
@@ -269,7 +271,7 @@ fn se_of(f: &VantHoffFit, g: &[f64]) -> f64 {
     let mut s = 0.0;
     for a in 0..g.len() {
         for b in 0..g.len() {
-            s += g[a] * f.covariance[a][b] * g[b];
+            s += g[a] * f.covariance()[a][b] * g[b];
         }
     }
     s.sqrt()
@@ -294,7 +296,7 @@ fn excluded_point_residual_matches_a_refit_without_it() {
                     ..FitOptions::default()
                 };
                 let with = fit(&pts, &opts).unwrap();
-                let z = with.points[k].prediction_residual.unwrap();
+                let z = with.points()[k].prediction_residual.unwrap();
                 // Independent route: fit the other nine points only, predict at T_k.
                 let rest: Vec<Measurement> = pts
                     .iter()
@@ -308,7 +310,7 @@ fn excluded_point_residual_matches_a_refit_without_it() {
                 let refit = fit(&rest, &opts).unwrap();
                 let p = refit.predict(pts[k].t_k).unwrap();
                 let s2 = match convention {
-                    SigmaConvention::ScaledByFit => refit.stats.reduced_chi2,
+                    SigmaConvention::ScaledByFit => refit.stats().reduced_chi2,
                     SigmaConvention::Absolute => 1.0,
                 };
                 let w = 1.0 / pts[k].sigma_ln_k.unwrap().powi(2);
@@ -350,8 +352,9 @@ fn temperature_for_k_finds_the_root_nearest_the_data() {
         while t < 400.0 {
             if g(t).signum() != g(t + 1e-3).signum() {
                 let c = t + 5e-4;
-                if best.is_none_or(|b: f64| (c - f.t_harmonic_k).abs() < (b - f.t_harmonic_k).abs())
-                {
+                if best.is_none_or(|b: f64| {
+                    (c - f.t_harmonic_k()).abs() < (b - f.t_harmonic_k()).abs()
+                }) {
                     best = Some(c);
                 }
             }

@@ -73,7 +73,7 @@ fn close(a: f64, b: f64, rel: f64, floor: f64) -> bool {
 
 /// Everything a fit reports about its parameters and points, compared.
 fn same_fit(a: &VantHoffFit, b: &VantHoffFit, rel: f64) -> Result<(), TestCaseError> {
-    for (x, y) in a.params.iter().zip(&b.params) {
+    for (x, y) in a.params().iter().zip(b.params()) {
         prop_assert!(
             close(x.estimate.value, y.estimate.value, rel, 1.0),
             "{x:?} vs {y:?}"
@@ -83,8 +83,8 @@ fn same_fit(a: &VantHoffFit, b: &VantHoffFit, rel: f64) -> Result<(), TestCaseEr
             "{x:?} vs {y:?}"
         );
     }
-    prop_assert!(close(a.stats.r2, b.stats.r2, rel, 1.0));
-    prop_assert!(close(a.t_harmonic_k, b.t_harmonic_k, rel, 1.0));
+    prop_assert!(close(a.stats().r2, b.stats().r2, rel, 1.0));
+    prop_assert!(close(a.t_harmonic_k(), b.t_harmonic_k(), rel, 1.0));
     Ok(())
 }
 
@@ -138,7 +138,7 @@ proptest! {
             let a = fit(&pts, &opts(model, SigmaConvention::ScaledByFit)).unwrap();
             let b = fit(&scaled, &opts(model, SigmaConvention::ScaledByFit)).unwrap();
             same_fit(&a, &b, 1e-9)?;
-            for (x, y) in a.points.iter().zip(&b.points) {
+            for (x, y) in a.points().iter().zip(b.points()) {
                 prop_assert!(close(x.leverage, y.leverage, 1e-9, 1e-6));
                 // s₍ᵢ₎² = (χ² − rᵢ²/(1 − hᵢ))/(n − p − 1) cancels when one point carries
                 // nearly all of χ² with few degrees of freedom: the rounding of s₍ᵢ₎² grows
@@ -155,7 +155,7 @@ proptest! {
             // Under absolute σ the estimates stay, and the SEs scale with c.
             let a = fit(&pts, &opts(model, SigmaConvention::Absolute)).unwrap();
             let b = fit(&scaled, &opts(model, SigmaConvention::Absolute)).unwrap();
-            for (x, y) in a.params.iter().zip(&b.params) {
+            for (x, y) in a.params().iter().zip(b.params()) {
                 prop_assert!(close(y.estimate.value, x.estimate.value, 1e-9, 1.0));
                 prop_assert!(close(y.estimate.se, x.estimate.se * factor, 1e-9, 1e-12));
             }
@@ -186,11 +186,11 @@ proptest! {
                 continue;
             };
             same_fit(&a, &b, 1e-9)?;
-            prop_assert!(close(a.stats.chi2, b.stats.chi2, 1e-9, 1e-12));
+            prop_assert!(close(a.stats().chi2, b.stats().chi2, 1e-9, 1e-12));
             // Diagnostics move with their points.
             for (new_pos, &old) in order.iter().enumerate() {
-                let x = &a.points[old];
-                let y = &b.points[new_pos];
+                let x = &a.points()[old];
+                let y = &b.points()[new_pos];
                 prop_assert_eq!(y.index, new_pos);
                 prop_assert_eq!(x.t_k, y.t_k);
                 prop_assert!(close(x.fitted, y.fitted, 1e-10, 1.0));

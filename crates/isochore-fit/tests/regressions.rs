@@ -26,7 +26,7 @@ fn excluded_point_without_sigma_uses_the_typical_weight() {
     );
     pts.push(Measurement::new(305.0, pts[3].ln_k + 0.5).excluded());
     let f = fit(&pts, &FitOptions::default()).unwrap();
-    let d = &f.points[5];
+    let d = &f.points()[5];
     // Typical σ = 0.05 (n/Σw with every σ 0.05). statsmodels 0.15.0 WLS on the five
     // included points, prediction of a new observation with σ = 0.05 at 305 K:
     // se_obs = 0.0497741912553963, residual 0.672797402217014
@@ -61,15 +61,15 @@ fn exact_data_keep_a_defined_correlation() {
         ..FitOptions::default()
     };
     let f = fit(&pts, &opts).unwrap();
-    assert_eq!(f.stats.chi2, 0.0);
+    assert_eq!(f.stats().chi2, 0.0);
     // The correlation of the estimates depends on the design alone (s² cancels):
     // corr(ΔH°, ΔS°) = 0.99928060722411 from statsmodels 0.15.0 OLS covariance on these four
     // temperatures with any ln K (tests/data/independent/make_independent.py →
     // independent.txt).
     assert!(
-        (f.corr_h_s - 0.99928060722411).abs() < 1e-9,
+        (f.corr_h_s() - 0.99928060722411).abs() < 1e-9,
         "{}",
-        f.corr_h_s
+        f.corr_h_s()
     );
 }
 
@@ -111,9 +111,9 @@ fn undefined_statistics_are_said_in_words() {
         .map(|&t| Measurement::new(t, 0.0).with_sigma(0.1))
         .collect();
     let f = fit(&flat, &FitOptions::default()).unwrap();
-    assert!(f.stats.r2.is_nan());
+    assert!(f.stats().r2.is_nan());
     assert!(f
-        .warnings
+        .warnings()
         .iter()
         .any(|w| w.kind == isochore_fit::WarningKind::Undefined && w.message.contains("R²")));
     let two = line(&[290.0, 310.0], &[0.0]);
@@ -122,10 +122,10 @@ fn undefined_statistics_are_said_in_words() {
         ..FitOptions::default()
     };
     let f = fit(&two, &opts).unwrap();
-    assert_eq!(f.dof, 0);
+    assert_eq!(f.dof(), 0);
     assert!(f.delta_h().se.is_finite());
     assert!(f
-        .warnings
+        .warnings()
         .iter()
         .any(|w| w.kind == isochore_fit::WarningKind::Undefined
             && w.message.contains("degree of freedom")));

@@ -90,26 +90,30 @@ fn check_model(r: &HashMap<String, Vec<f64>>, key: &str, model: Model) -> VantHo
     let f = fit(&pts, &options(model, SigmaConvention::ScaledByFit, theta)).unwrap();
     let k = |s: &str| &r[&format!("{key}.{s}")];
     check(&format!("{key} estimates"), &f.coefficients(), k("params"));
-    let se: Vec<f64> = f.params.iter().map(|p| p.estimate.se).collect();
+    let se: Vec<f64> = f.params().iter().map(|p| p.estimate.se).collect();
     check(&format!("{key} SE (scaled)"), &se, k("se_scaled"));
-    let cov: Vec<f64> = f.covariance.iter().flatten().copied().collect();
+    let cov: Vec<f64> = f.covariance().iter().flatten().copied().collect();
     check(&format!("{key} covariance"), &cov, k("cov_scaled"));
-    check(&format!("{key} χ²"), &[f.stats.chi2], k("chi2"));
-    check(&format!("{key} R²"), &[f.stats.r2], k("r2"));
+    check(&format!("{key} χ²"), &[f.stats().chi2], k("chi2"));
+    check(&format!("{key} R²"), &[f.stats().r2], k("r2"));
     check(
         &format!("{key} adjusted R²"),
-        &[f.stats.adj_r2],
+        &[f.stats().adj_r2],
         k("adj_r2"),
     );
     check(
         &format!("{key} log-likelihood"),
-        &[f.stats.log_likelihood],
+        &[f.stats().log_likelihood],
         k("log_likelihood"),
     );
-    check(&format!("{key} AICc"), &[f.stats.aicc.unwrap()], k("aicc"));
-    check(&format!("{key} BIC"), &[f.stats.bic], k("bic"));
+    check(
+        &format!("{key} AICc"),
+        &[f.stats().aicc.unwrap()],
+        k("aicc"),
+    );
+    check(&format!("{key} BIC"), &[f.stats().bic], k("bic"));
     let col = |g: fn(&isochore_fit::PointDiagnostics) -> f64| -> Vec<f64> {
-        f.points.iter().map(g).collect()
+        f.points().iter().map(g).collect()
     };
     check(&format!("{key} fitted"), &col(|d| d.fitted), k("fitted"));
     check(
@@ -140,7 +144,7 @@ fn check_model(r: &HashMap<String, Vec<f64>>, key: &str, model: Model) -> VantHo
 
     // Absolute σ: the covariance is (XᵀWX)⁻¹ itself.
     let fa = fit(&pts, &options(model, SigmaConvention::Absolute, theta)).unwrap();
-    let se_abs: Vec<f64> = fa.params.iter().map(|p| p.estimate.se).collect();
+    let se_abs: Vec<f64> = fa.params().iter().map(|p| p.estimate.se).collect();
     check(&format!("{key} SE (absolute σ)"), &se_abs, k("se_absolute"));
     check(
         &format!("{key} estimates (absolute σ)"),
@@ -157,7 +161,7 @@ fn linear_model_matches_statsmodels() {
     // The displaced point (index 6, 308.15 K) has the largest externally studentized
     // residual (3.01 in the reference), above the default threshold 3 (common practice).
     let worst = f
-        .points
+        .points()
         .iter()
         .max_by(|a, b| {
             a.student_ext
@@ -174,7 +178,7 @@ fn linear_model_matches_statsmodels() {
 fn cp_model_matches_statsmodels() {
     let r = reference();
     let f = check_model(&r, "cp", Model::CONSTANT_CP);
-    assert!(f.points[6].flags.outlier, "{:?}", f.points[6]);
+    assert!(f.points()[6].flags.outlier, "{:?}", f.points()[6]);
 }
 
 #[test]
@@ -184,7 +188,7 @@ fn model_comparison_matches_statsmodels() {
     let theta = r["theta"][0];
     for model in [Model::LINEAR, Model::CONSTANT_CP] {
         let f = fit(&pts, &options(model, SigmaConvention::ScaledByFit, theta)).unwrap();
-        let c = f.comparison.expect("ten points allow the comparison");
+        let c = f.comparison().expect("ten points allow the comparison");
         check("F statistic", &[c.f_statistic], &r["compare.f_statistic"]);
         check("F-test p-value", &[c.f_p_value], &r["compare.f_p_value"]);
         // ΔAICc from the library's two AICc values.

@@ -110,13 +110,10 @@ pub fn analyse(series: &Series) -> Analysis {
             Ok(weighed) => match isochore_fit::fit(&measurements, &weighed.options) {
                 Ok(mut f) => {
                     if let Some(note) = weighed.note {
-                        f.warnings.insert(
-                            0,
-                            isochore_fit::Warning::new(
-                                isochore_fit::WarningKind::SettingIgnored,
-                                note,
-                            ),
-                        );
+                        f.prepend_warning(isochore_fit::Warning::new(
+                            isochore_fit::WarningKind::SettingIgnored,
+                            note,
+                        ));
                     }
                     (Ok(f), None)
                 }
@@ -136,7 +133,7 @@ pub fn analyse(series: &Series) -> Analysis {
     let (band, ellipse, contours) = match &fit {
         Ok(f) => {
             let band = f.band_grid(BAND_POINTS, 0.08);
-            let ellipse = f.ellipse(f.options.level, 120).ok();
+            let ellipse = f.ellipse(f.options().level, 120).ok();
             let p = f.model().n_params();
             // At the limit the points are flagged against, and at D = 1, as in the reports.
             let contours = isochore_fit::influence::FlagLimits::of(f)
@@ -166,9 +163,13 @@ pub fn analyse(series: &Series) -> Analysis {
     };
     let (resid_index, infl_index) = match &fit {
         Ok(f) if large => (
-            EnvelopeIndex::new(f.points.iter().map(|d| (d.index as u32, d.t_k, d.residual))),
             EnvelopeIndex::new(
-                f.points
+                f.points()
+                    .iter()
+                    .map(|d| (d.index as u32, d.t_k, d.residual)),
+            ),
+            EnvelopeIndex::new(
+                f.points()
                     .iter()
                     .filter_map(|d| d.student_int.map(|r| (d.index as u32, d.leverage, r))),
             ),

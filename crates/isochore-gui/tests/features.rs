@@ -114,7 +114,7 @@ fn undo(h: &mut H) {
 
 /// The flags isochore-fit gives each point: (outlier, high leverage, influential).
 fn flags(f: &VantHoffFit) -> Vec<(bool, bool, bool)> {
-    f.points
+    f.points()
         .iter()
         .map(|p| (p.flags.outlier, p.flags.high_leverage, p.flags.influential))
         .collect()
@@ -132,14 +132,14 @@ fn each_setting_refits_and_undo_restores_the_results() {
     let id = w.active.unwrap();
     let f0 = library(&w, id, |_| {});
     let mut h = harness(w);
-    let dg0 = row_label("ΔG° (25.00 °C)", f0.at_reference.delta_g, 1e-3, "kJ/mol");
+    let dg0 = row_label("ΔG° (25.00 °C)", f0.at_reference().delta_g, 1e-3, "kJ/mol");
     assert!(shows(&h, &dg0), "no {dg0}");
     assert!(shows(&h, &delta_h_label(f0.delta_h().value)));
 
     // θ: ΔG°(θ) moves to the new reference temperature.
     retype(&mut h, "θ", "37");
     let f = library(h.state(), id, |o| o.t_ref_k = 310.15);
-    let dg = row_label("ΔG° (37.00 °C)", f.at_reference.delta_g, 1e-3, "kJ/mol");
+    let dg = row_label("ΔG° (37.00 °C)", f.at_reference().delta_g, 1e-3, "kJ/mol");
     assert_ne!(dg, dg0);
     assert!(shows(&h, &dg), "no {dg}");
     assert!((h.state().project.get(id).unwrap().options().t_ref_k - 310.15).abs() < 1e-9);
@@ -188,7 +188,7 @@ fn each_setting_refits_and_undo_restores_the_results() {
 
     // Temperature unit: kelvin.
     choose(&mut h, "temperature unit", "K");
-    let dg_k = row_label("ΔG° (298.15 K)", f0.at_reference.delta_g, 1e-3, "kJ/mol");
+    let dg_k = row_label("ΔG° (298.15 K)", f0.at_reference().delta_g, 1e-3, "kJ/mol");
     assert!(shows(&h, &dg_k), "no {dg_k}");
     undo(&mut h);
     assert!(shows(&h, &dg0) && !shows(&h, &dg_k));
@@ -222,7 +222,7 @@ fn each_setting_refits_and_undo_restores_the_results() {
     }
     assert_eq!(
         *h.state().project.get(id).unwrap().options(),
-        f0.options,
+        f0.options(),
         "all undone"
     );
 }
@@ -299,19 +299,19 @@ fn results_and_prediction_panels_show_the_library_numbers() {
     let id = w.active.unwrap();
     let f = library(&w, id, |_| {});
     let mut h = harness(w);
-    let th = f.t_harmonic_k - 273.15;
+    let th = f.t_harmonic_k() - 273.15;
     let rows = [
         ("ΔH°".to_string(), f.delta_h(), 1e-3, "kJ/mol"),
         ("ΔS°".to_string(), f.delta_s(), 1.0, "J/(mol·K)"),
         (
             "ΔG° (25.00 °C)".to_string(),
-            f.at_reference.delta_g,
+            f.at_reference().delta_g,
             1e-3,
             "kJ/mol",
         ),
         (
             format!("ΔG° ({} °C)", fixed(th, 1)),
-            f.at_harmonic.delta_g,
+            f.at_harmonic().delta_g,
             1e-3,
             "kJ/mol",
         ),
@@ -324,15 +324,19 @@ fn results_and_prediction_panels_show_the_library_numbers() {
     }
     assert!(shows(
         &h,
-        &format!("corr(ΔH°, ΔS°) = {}", fixed(f.corr_h_s, 4))
+        &format!("corr(ΔH°, ΔS°) = {}", fixed(f.corr_h_s(), 4))
     ));
     // The fit statistics, folded at start.
     h.get_by_label("Fit statistics").click();
     h.run_steps(3);
-    assert!(shows(&h, &format!("{} / {}", f.n_used, f.n_total)));
-    assert!(shows(&h, &sig(f.stats.chi2, 4)));
-    assert!(shows(&h, &sig(f.stats.reduced_chi2, 4)));
-    let r2 = format!("{} ({})", fixed(f.stats.r2, 5), fixed(f.stats.adj_r2, 5));
+    assert!(shows(&h, &format!("{} / {}", f.n_used(), f.n_total())));
+    assert!(shows(&h, &sig(f.stats().chi2, 4)));
+    assert!(shows(&h, &sig(f.stats().reduced_chi2, 4)));
+    let r2 = format!(
+        "{} ({})",
+        fixed(f.stats().r2, 5),
+        fixed(f.stats().adj_r2, 5)
+    );
     assert!(shows(&h, &r2), "no {r2}");
 
     // Prediction at the panel's starting temperature, 37 °C, then at 15 °C (typed).
@@ -736,7 +740,7 @@ fn a_large_series_is_fitted_on_the_background_thread() {
     let id = accept_import(&mut h, n_before);
     assert!(wait_for_fit(&mut h, id, 3000), "the fit never arrived");
     let f = library(h.state(), id, |_| {});
-    assert_eq!(f.n_used, rows);
+    assert_eq!(f.n_used(), rows);
     h.run_steps(2);
     assert!(shows(&h, &delta_h_label(f.delta_h().value)));
 
@@ -763,7 +767,7 @@ fn a_large_series_is_fitted_on_the_background_thread() {
     }
     assert!(wait_for_fit(&mut h, id, 3000), "the refit never arrived");
     let f2 = library(h.state(), id, |_| {});
-    assert_eq!(f2.n_used, rows - 1);
+    assert_eq!(f2.n_used(), rows - 1);
     assert_ne!(f2.delta_h().value, f.delta_h().value);
     h.run_steps(2);
     let a = h.state().fitter.get(id).unwrap();

@@ -55,7 +55,7 @@ fn an_empty_sigma_column_is_fitted_unweighted_and_says_so() {
             .iter()
             .any(|w| w.message == isochore_analysis::weighting::NO_SIGMA_NOTE),
         "{:?}",
-        fit.warnings
+        fit.warnings()
     );
 }
 

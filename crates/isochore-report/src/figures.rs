@@ -442,7 +442,7 @@ fn vant_hoff(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
         .collect();
     let bands = fit.bands(&grid);
     let ys = fit
-        .points
+        .points()
         .iter()
         .flat_map(|p| {
             let s = p.sigma_ln_k.unwrap_or(0.0);
@@ -557,7 +557,7 @@ fn vant_hoff(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
         |p| p.sigma_ln_k,
     )?;
     let mut occupied: Vec<(f64, f64)> = fit
-        .points
+        .points()
         .iter()
         .map(|p| (1000.0 / p.t_k, p.ln_k))
         .collect();
@@ -777,7 +777,7 @@ fn residuals(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
         |p| p.sigma_ln_k,
     )?;
     let occupied: Vec<(f64, f64)> = fit
-        .points
+        .points()
         .iter()
         .map(|p| (tu.from_kelvin(p.t_k), p.residual))
         .collect();

@@ -198,11 +198,11 @@ impl ReportInput {
     /// # Errors
     /// [`ReportError::Input`] when `rows` and `fit.points` differ in number.
     pub fn validate(&self) -> Result<(), ReportError> {
-        if self.rows.len() != self.fit.points.len() {
+        if self.rows.len() != self.fit.points().len() {
             return Err(ReportError::Input(format!(
                 "{} data rows but {} fitted points; they must match one to one",
                 self.rows.len(),
-                self.fit.points.len()
+                self.fit.points().len()
             )));
         }
         Ok(())

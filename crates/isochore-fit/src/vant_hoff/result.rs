@@ -92,57 +92,59 @@ pub struct ThermoAt {
     pub delta_cp: Option<Estimate>,
 }
 
-/// A finished van 't Hoff fit.
+/// A finished van 't Hoff fit. Made only by [`crate::fit`]; read through its methods (the
+/// fields are private, so no hand-built value can break the invariants the methods rely on:
+/// one estimate per model parameter, a p×p covariance, finite estimates).
 #[derive(Debug, Clone, Serialize)]
 pub struct VantHoffFit {
     /// The options the fit was made with.
-    pub options: FitOptions,
+    pub(crate) options: FitOptions,
     /// Points used.
-    pub n_used: usize,
+    pub(crate) n_used: usize,
     /// Points given (used and excluded).
-    pub n_total: usize,
+    pub(crate) n_total: usize,
     /// Residual degrees of freedom n − p.
-    pub dof: usize,
+    pub(crate) dof: usize,
     /// Whether weights 1/σ² were applied.
-    pub weighted: bool,
+    pub(crate) weighted: bool,
     /// The fitted parameters in the model's order (ΔH°, ΔS°, …), SI units.
-    pub params: Vec<Parameter>,
+    pub(crate) params: Vec<Parameter>,
     /// Full covariance of the parameters, same order, SI units.
-    pub covariance: Vec<Vec<f64>>,
+    pub(crate) covariance: Vec<Vec<f64>>,
     /// Correlation coefficient of ΔH° and ΔS° (at θ).
-    pub corr_h_s: f64,
+    pub(crate) corr_h_s: f64,
     /// Goodness of fit.
-    pub stats: FitStatistics,
+    pub(crate) stats: FitStatistics,
     /// Critical value for two-sided intervals at the level (Student's t, or normal under
     /// absolute σ).
-    pub critical_value: f64,
+    pub(crate) critical_value: f64,
     /// Variance of a new measurement of ln K with typical precision, used by prediction
     /// intervals and bands.
-    pub new_observation_variance: f64,
+    pub(crate) new_observation_variance: f64,
     /// Covariance multiplier: s² = χ²/(n − p) under the scaled convention, 1 under absolute σ.
-    pub variance_scale: f64,
+    pub(crate) variance_scale: f64,
     /// Lowest used temperature, K.
-    pub t_min_k: f64,
+    pub(crate) t_min_k: f64,
     /// Highest used temperature, K.
-    pub t_max_k: f64,
+    pub(crate) t_max_k: f64,
     /// Weighted harmonic-mean temperature of the used points, 1/T_h = Σwᵢ(1/Tᵢ)/Σwᵢ. There
     /// ΔG°(T_h) is uncorrelated with ΔH° (exactly for the linear model, where 1/T − 1/T_h is
     /// the centred column), so (ΔH°, ΔG°(T_h)) is the pair to quote; ΔH° and ΔS° themselves
     /// stay strongly correlated at any temperature, because ΔS° = (ΔH° − ΔG°)/T.
-    pub t_harmonic_k: f64,
+    pub(crate) t_harmonic_k: f64,
     /// The parameters at the reference temperature θ (the linear model's θ is 298.15 K by
     /// default; there ΔH° and ΔS° are the same at any T).
-    pub at_reference: ThermoAt,
+    pub(crate) at_reference: ThermoAt,
     /// The parameters at the harmonic-mean temperature.
-    pub at_harmonic: ThermoAt,
+    pub(crate) at_harmonic: ThermoAt,
     /// The temperature where K = 1 (ΔG° = 0), when there is one near the data.
-    pub t_at_k1: Option<Estimate>,
+    pub(crate) t_at_k1: Option<Estimate>,
     /// Per-point diagnostics, in the order of the input slice.
-    pub points: Vec<PointDiagnostics>,
+    pub(crate) points: Vec<PointDiagnostics>,
     /// Comparison along the ladder of nested models on the same points, when enough points.
-    pub comparison: Option<ModelComparison>,
+    pub(crate) comparison: Option<ModelComparison>,
     /// Cautions in words.
-    pub warnings: Vec<Warning>,
+    pub(crate) warnings: Vec<Warning>,
 }
 
 impl ThermoAt {
@@ -284,6 +286,12 @@ impl VantHoffFit {
     /// Cautions in words.
     pub fn warnings(&self) -> &[Warning] {
         &self.warnings
+    }
+
+    /// Puts a caution of the caller's in front of the fit's own (e.g. that a setting was
+    /// not applicable and was changed before fitting).
+    pub fn prepend_warning(&mut self, warning: Warning) {
+        self.warnings.insert(0, warning);
     }
 
     /// The model fitted.
