@@ -1,13 +1,17 @@
-//! The influence view's limits and curves: the limits a point is flagged against
-//! ([`FlagLimits`]: |t|, leverage factor·p/n, Cook's factor/n), and the loci of constant
-//! Cook's distance in the plane of leverage h against internally studentized residual r.
-//! Front ends draw these rather than recompute them.
+//! The influence view's coordinates, limits and curves: each point's place in the plane of
+//! leverage h against the externally studentized residual t — the residual the outlier
+//! rule tests, so a point beyond the ±limit lines is exactly a flagged one
+//! ([`influence_coordinates`]); the limits a point is flagged against ([`FlagLimits`]: |t|,
+//! leverage factor·p/n, Cook's factor/n); and the loci of constant Cook's distance in that
+//! plane ([`cooks_contour_external`]). Front ends draw these rather than recompute them.
 //!
 //! # Formula
 //! ```text
-//! Dᵢ = rᵢ² hᵢ / (p (1 − hᵢ))   ⇒   |r| = √(D p (1 − h) / h)
+//! Dᵢ = rᵢ² hᵢ / (p (1 − hᵢ))   ⇒   |r| = √(D p (1 − h) / h)      (r internally studentized)
+//! t = r √((ν − 1)/(ν − r²)),  ν = n − p                           (t externally studentized)
 //! ```
-//! (Cook 1977; the same relation the diagnostics use for each point.)
+//! (Cook 1977; Belsley, Kuh & Welsch 1980 for the relation of t to r, from memory; the same
+//! relations the diagnostics use for each point.)
 
 use crate::model::FlagThresholds;
 use crate::vant_hoff::VantHoffFit;
@@ -68,9 +72,87 @@ pub fn cooks_contour(d: f64, p: usize, h_min: f64, h_max: f64, n: usize) -> Vec<
         .collect()
 }
 
+/// The point's place on the influence plot, (leverage h, externally studentized residual
+/// t): the residual the outlier flag tests. `None` for an excluded point or one whose t is
+/// undefined.
+pub fn influence_coordinates(d: &crate::PointDiagnostics) -> Option<[f64; 2]> {
+    let t = d.student_ext?;
+    (d.used && t.is_finite() && d.leverage.is_finite()).then_some([d.leverage, t])
+}
+
+/// Points (h, t) of the upper branch of the contour Cook's D = `d` in the plane of leverage
+/// against the externally studentized residual, for a model with `p` parameters and `dof`
+/// = n − p residual degrees of freedom, at `n` leverages evenly spaced in [`h_min`,
+/// `h_max`] (see [`cooks_contour`]). Where the contour's internal residual reaches √ν the
+/// external one is unbounded, and those leverages are left out. Empty when `dof` < 2.
+pub fn cooks_contour_external(
+    d: f64,
+    p: usize,
+    dof: usize,
+    h_min: f64,
+    h_max: f64,
+    n: usize,
+) -> Vec<[f64; 2]> {
+    if dof < 2 {
+        return Vec::new();
+    }
+    let nu = dof as f64;
+    cooks_contour(d, p, h_min, h_max, n)
+        .into_iter()
+        .filter_map(|[h, r]| {
+            let rest = nu - r * r;
+            (rest > 0.0).then(|| [h, r * ((nu - 1.0) / rest).sqrt()])
+        })
+        .collect()
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn external_contours_have_the_requested_cooks_distance() {
+        // t → r: r² = ν t²/(ν − 1 + t²) (the inverse of the relation above), then D as in
+        // Cook (1977).
+        let (p, nu) = (3usize, 7.0);
+        let pts = cooks_contour_external(0.5, p, 7, 0.05, 0.95, 19);
+        assert!(!pts.is_empty());
+        for [h, t] in pts {
+            let r2 = nu * t * t / (nu - 1.0 + t * t);
+            let d = r2 * h / (p as f64 * (1.0 - h));
+            assert!((d - 0.5).abs() < 1e-12, "h={h} t={t} d={d}");
+        }
+        assert!(cooks_contour_external(0.5, 2, 1, 0.1, 0.9, 10).is_empty());
+    }
+
+    #[test]
+    fn the_plot_shows_the_residual_the_flag_tests() {
+        use crate::{fit, FitOptions, Measurement, GAS_CONSTANT};
+        // Invented: one wild point among ten; it must sit beyond the limit line on the plot
+        // exactly when it is flagged as an outlier.
+        let data: Vec<Measurement> = (0..10)
+            .map(|i| {
+                let t = 283.0 + 3.0 * i as f64;
+                let wild = if i == 6 {
+                    0.3
+                } else {
+                    0.004 * ((i * 7 % 5) as f64 - 2.0)
+                };
+                Measurement::new(t, 40e3 / (GAS_CONSTANT * t) - 10.0 / GAS_CONSTANT + wild)
+                    .with_sigma(0.02)
+            })
+            .collect();
+        let f = fit(&data, &FitOptions::default()).unwrap();
+        let l = FlagLimits::of(&f);
+        let mut beyond = 0;
+        for d in f.points() {
+            let [h, t] = influence_coordinates(d).unwrap();
+            assert_eq!(h, d.leverage);
+            assert_eq!(d.flags.outlier, t.abs() > l.studentized, "{d:?}");
+            beyond += usize::from(t.abs() > l.studentized);
+        }
+        assert_eq!(beyond, 1);
+    }
 
     #[test]
     fn contour_points_have_the_requested_cooks_distance() {

@@ -46,7 +46,8 @@ pub struct Analysis {
     pub infl_index: EnvelopeIndex,
     /// Data extent on the van 't Hoff plot: [min 10³/T, max 10³/T, min ln K, max ln K].
     pub extent: Option<[f64; 4]>,
-    /// Cook's-distance contours for the influence view: (D, upper branch points (h, r)).
+    /// Cook's-distance contours for the influence view: (D, upper branch points (h, t)) in
+    /// the plane of leverage against the externally studentized residual.
     pub cooks_contours: Vec<(f64, Vec<[f64; 2]>)>,
 }
 
@@ -142,7 +143,14 @@ pub fn analyse(series: &Series) -> Analysis {
                 .map(|&d| {
                     (
                         d,
-                        isochore_fit::influence::cooks_contour(d, p, 0.01, 0.99, 80),
+                        isochore_fit::influence::cooks_contour_external(
+                            d,
+                            p,
+                            f.dof(),
+                            0.01,
+                            0.99,
+                            80,
+                        ),
                     )
                 })
                 .collect();
@@ -168,11 +176,10 @@ pub fn analyse(series: &Series) -> Analysis {
                     .iter()
                     .map(|d| (d.index as u32, d.t_k, d.residual)),
             ),
-            EnvelopeIndex::new(
-                f.points()
-                    .iter()
-                    .filter_map(|d| d.student_int.map(|r| (d.index as u32, d.leverage, r))),
-            ),
+            EnvelopeIndex::new(f.points().iter().filter_map(|d| {
+                isochore_fit::influence::influence_coordinates(d)
+                    .map(|[h, t]| (d.index as u32, h, t))
+            })),
         ),
         _ => (EnvelopeIndex::default(), EnvelopeIndex::default()),
     };

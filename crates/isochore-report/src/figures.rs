@@ -12,7 +12,7 @@
 use crate::fonts;
 use crate::present::{self, fixed};
 use crate::{ReportError, ReportInput};
-use isochore_fit::influence::{cooks_contour, FlagLimits};
+use isochore_fit::influence::{cooks_contour_external, influence_coordinates, FlagLimits};
 use isochore_fit::TemperatureUnit;
 use plotters::chart::SeriesAnno;
 use plotters::element::DashedPathElement;
@@ -794,13 +794,8 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
         .iter()
         .zip(fit.points())
         .filter_map(|(r, d)| {
-            let s = d.student_int?;
-            (d.used && s.is_finite() && d.leverage.is_finite()).then_some((
-                r.row,
-                d.leverage,
-                s,
-                d.flags.any(),
-            ))
+            let [h, t] = influence_coordinates(d)?;
+            Some((r.row, h, t, d.flags.any()))
         })
         .collect();
     if used.is_empty() {
@@ -816,7 +811,7 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
             x: (0.0, x1),
             y: (-ylim, ylim),
             x_desc: "leverage h",
-            y_desc: "internally studentized residual",
+            y_desc: "externally studentized residual",
             left: 72,
             top: 14,
             y_decimals: Some(1),
@@ -842,7 +837,7 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
     // Cook's distance contours at the flag limit and at D = 1, 200 leverages across the plot.
     for (i, d) in limits.contour_levels().into_iter().enumerate() {
         let style = GREEN.stroke_width(2);
-        let upper = cooks_contour(d, fit.params().len(), x1 / 200.0, x1, 200);
+        let upper = cooks_contour_external(d, fit.params().len(), fit.dof(), x1 / 200.0, x1, 200);
         let curve = |sign: f64| -> Vec<(f64, f64)> {
             upper
                 .iter()
@@ -865,7 +860,7 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
             }
             if let Some(&(h, r)) = c.last() {
                 let text = if i == 0 {
-                    format!("D = {}", fixed(d, 2))
+                    format!("D = {} (flag limit)", fixed(d, 2))
                 } else {
                     "D = 1".to_string()
                 };

@@ -1,6 +1,7 @@
 //! Two small plots under the van 't Hoff plot, linked to it and to the table: residuals
 //! (ln K − fit) against temperature, and the influence view — leverage against the
-//! internally studentized residual, with contours of Cook's distance from isochore-fit.
+//! externally studentized residual (the one the outlier flag tests), with contours of Cook's
+//! distance from isochore-fit.
 //! Hovering a point here highlights it everywhere.
 
 use crate::app::Cx;
@@ -119,9 +120,12 @@ impl DiagnosticsPanel {
                         .weak(),
                     );
                 });
-                let m = Marks::collect(&infl_rows, fit.points(), &highlight, |d| {
-                    d.student_int.map(|r| [d.leverage, r])
-                });
+                let m = Marks::collect(
+                    &infl_rows,
+                    fit.points(),
+                    &highlight,
+                    isochore_fit::influence::influence_coordinates,
+                );
                 let lev_threshold = isochore_fit::influence::FlagLimits::of(fit).leverage;
                 let max_h = m.all.iter().map(|q| q.1[0]).fold(lev_threshold, f64::max);
                 // Contours are cut a little above the largest residual, so they do not
@@ -131,7 +135,7 @@ impl DiagnosticsPanel {
                 let resp = Plot::new("influence_plot")
                     .height(h - 24.0)
                     .custom_x_axes(vec![style::x_axis("leverage h")])
-                    .custom_y_axes(vec![style::y_axis("stud. residual")])
+                    .custom_y_axes(vec![style::y_axis("ext. studentized residual")])
                     .include_x(0.0)
                     .include_x((max_h * 1.15).min(1.0))
                     .include_y(-2.5)
@@ -140,7 +144,7 @@ impl DiagnosticsPanel {
                     .show_y(false)
                     .show(ui, |pu| {
                         let x_max = (max_h * 1.15).min(1.0);
-                        for (d, curve) in &a.cooks_contours {
+                        for (i, (d, curve)) in a.cooks_contours.iter().enumerate() {
                             let upper: Vec<[f64; 2]> = curve
                                 .iter()
                                 .filter(|q| q[0] <= x_max && q[1] <= r_lim)
@@ -149,7 +153,9 @@ impl DiagnosticsPanel {
                             let lower: Vec<[f64; 2]> =
                                 upper.iter().map(|q| [q[0], -q[1]]).collect();
                             let d = present::fixed(*d, 2);
-                            let name = format!("Cook's D = {d}");
+                            // The first contour is the flag rule's level (factor/n).
+                            let rule = if i == 0 { " (flag limit)" } else { "" };
+                            let name = format!("Cook's D = {d}{rule}");
                             // Name each contour where it comes down through r = 2, where
                             // the two curves stand apart (on the right they converge).
                             if let Some(end) = upper.iter().find(|q| q[1] <= 2.0) {
@@ -157,7 +163,7 @@ impl DiagnosticsPanel {
                                     Text::new(
                                         "",
                                         PlotPoint::new(end[0], end[1]),
-                                        format!("D = {d}"),
+                                        format!("D = {d}{rule}"),
                                     )
                                     .color(ui_text)
                                     .anchor(egui::Align2::LEFT_BOTTOM),
