@@ -153,7 +153,7 @@ fn methods(input: &ReportInput) -> Vec<Block> {
     )));
     out.push(Block::Equation(equation));
     out.push(Block::Paragraph(format!(
-        "{weighting} {convention} Intervals are two-sided at the {}% level. ΔG°(T) = ΔH°(T) − T·ΔS°(T) and its standard error come from the full covariance (delta method, exact for these linear combinations). The harmonic-mean temperature T_hm (1/T_hm = Σwᵢ/Tᵢ / Σwᵢ) is where ΔH° and ΔS° are least correlated. R = {} J mol⁻¹ K⁻¹ (CODATA 2018, exact in the 2019 SI). Points are flagged as outliers when |externally studentized residual| > {}, as high leverage when h > {}·p/n, and as influential when Cook's distance D > {}/n (common rules of thumb).",
+        "{weighting} {convention} Intervals are two-sided at the {}% level. ΔG°(T) = ΔH°(T) − T·ΔS°(T) and its standard error come from the full covariance (delta method, exact for these linear combinations). At the weighted harmonic-mean temperature T_hm (1/T_hm = Σwᵢ/Tᵢ / Σwᵢ), ΔG°(T_hm) is uncorrelated with ΔH° (exactly for the linear model; Krug, Hunter & Grieger 1976), so ΔH° with ΔG°(T_hm) is the pair to quote; ΔH° and ΔS° themselves stay nearly ±1 correlated at every temperature. R = {} J mol⁻¹ K⁻¹ (CODATA 2018, exact in the 2019 SI). Points are flagged as outliers when |externally studentized residual| > {}, as high leverage when h > {}·p/n, and as influential when Cook's distance D > {}/n (common rules of thumb).",
         percent(o.level),
         GAS_CONSTANT,
         sig(o.thresholds.outlier_studentized, 3),
@@ -405,7 +405,7 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
 
     b.push(Block::Heading("ΔH° and ΔS° together".into()));
     b.push(Block::Paragraph(format!(
-        "ΔH° and ΔS° are estimated jointly and their errors are correlated (r = {} at θ). The ellipse is their joint {}% confidence region; quoting them separately overstates what is known about each. At T_hm = {} they are least correlated.",
+        "ΔH° and ΔS° are estimated jointly and their errors are correlated (r = {} at θ). The ellipse is their joint {}% confidence region; quoting them separately overstates what is known about each. They stay this correlated at every temperature, because ΔS° = (ΔH° − ΔG°)/T; at T_hm = {}, ΔG° is uncorrelated with ΔH°, so ΔH° with ΔG°(T_hm) is the pair to quote.",
         fixed(fit.corr_h_s(), 4),
         percent(fit.options().level),
         show_t(fit.t_harmonic_k(), tu)
@@ -462,10 +462,7 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
     b.push(Block::Heading("Reproducibility".into()));
     let o = &fit.options();
     let mut settings: Vec<Vec<String>> = vec![
-        vec![
-            "program".into(),
-            format!("isochore {}", input.program_version),
-        ],
+        vec!["program".into(), format!("vhfit {}", input.program_version)],
         vec!["source file".into(), input.source_name.clone()],
         vec!["source SHA-256".into(), input.source_sha256.clone()],
         vec!["series".into(), input.series_name.clone()],

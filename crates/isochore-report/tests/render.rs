@@ -164,3 +164,30 @@ fn mismatched_rows_are_an_error() {
         Err(ReportError::Input(_))
     ));
 }
+
+/// The report says what is true of T_hm (issue 11 item 3): ΔG°(T_hm) is uncorrelated with
+/// ΔH° (Krug, Hunter & Grieger 1976); ΔH° and ΔS° are not "least correlated" there, they
+/// stay near ±1 at every temperature.
+#[test]
+fn the_harmonic_mean_sentence_is_the_true_one() {
+    let inp = input("T_hm");
+    for format in [ReportFormat::Html, ReportFormat::Markdown] {
+        let text = String::from_utf8(render(&inp, format).unwrap()).unwrap();
+        assert!(!text.contains("least correlated"), "{format:?}");
+        assert!(text.contains("uncorrelated with ΔH°"), "{format:?}");
+    }
+    // And it is true of the fit: the correlation of ΔH° with ΔG°(T_hm) vanishes for the
+    // linear model, while that of ΔH° with ΔS° stays near ±1.
+    let f = &inp.fit;
+    let dh = f.delta_h();
+    let dg = f.delta_g(f.t_harmonic_k());
+    let cov = f.covariance();
+    // Cov(ΔH°, ΔG°(T)) = Cov(ΔH°, ΔH°) − T Cov(ΔH°, ΔS°) for the linear model.
+    let c = cov[0][0] - f.t_harmonic_k() * cov[0][1];
+    assert!(
+        (c / (dh.se * dg.se)).abs() < 1e-9,
+        "{}",
+        c / (dh.se * dg.se)
+    );
+    assert!(f.corr_h_s().abs() > 0.9, "{}", f.corr_h_s());
+}

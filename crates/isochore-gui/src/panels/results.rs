@@ -121,7 +121,7 @@ impl ResultsPanel {
             });
         ui.label(
             RichText::new(
-                "The last ΔG° is at the weighted mean temperature of the data, where it is known best.",
+                "The last ΔG° is at T_hm, the weighted harmonic-mean temperature, where it is uncorrelated with ΔH°: quote ΔH° with that ΔG°.",
             )
             .small()
             .weak(),
