@@ -1,17 +1,17 @@
 #!/usr/bin/env bash
-# Batch speed of the `isochore` command line: `isochore fit` on 200 files of 20 points each
+# Batch speed of the `vhfit` command line: `vhfit fit` on 200 files of 20 points each
 # (text summary, JSON, and JSON with one report set per file) and on one file of 10^6 rows
 # (JSON streamed, and --summary). The data are generated here, in a temporary folder, from
 # an invented exothermic binding (ΔH° = −45 kJ/mol, ΔS° = −60 J/(mol K)) with 2 % noise.
 #
 # Usage: scripts/bench_batch.sh            (builds the release binary first)
-#        BIN=path/to/isochore scripts/bench_batch.sh
+#        BIN=path/to/vhfit scripts/bench_batch.sh
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
 if [ -z "${BIN:-}" ]; then
     cargo build --release --quiet
-    BIN="${CARGO_TARGET_DIR:-target}/release/isochore"
+    BIN="${CARGO_TARGET_DIR:-target}/release/vhfit"
 fi
 WORK="$(mktemp -d)"
 trap 'rm -rf "$WORK"' EXIT

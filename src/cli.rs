@@ -9,7 +9,7 @@ use std::path::PathBuf;
 ///
 /// With no subcommand, opens the desktop workbench.
 #[derive(Debug, Parser)]
-#[command(name = "isochore", version, about, long_about = None)]
+#[command(name = "vhfit", version, about, long_about = None)]
 pub struct Cli {
     /// What to do; omit to open the desktop window.
     #[command(subcommand)]
@@ -94,9 +94,14 @@ pub struct FitOptionsArgs {
     /// Default: the project's, else linear.
     #[arg(long, value_parser = model_parser())]
     pub model: Option<isochore_fit::Model>,
-    /// Reference temperature θ of the ΔCp° model, in kelvin (default 298.15).
-    #[arg(long, value_name = "KELVIN", value_parser = parse_positive)]
-    pub tref: Option<f64>,
+    /// Reference temperature θ at which ΔH°, ΔS° and ΔCp° are quoted, e.g. 25C or 298.15K;
+    /// a number without a unit is read in --temp-unit (default 25 °C).
+    #[arg(long, value_name = "T", value_parser = parse_temperature, allow_hyphen_values = true)]
+    pub tref: Option<TypedTemperature>,
+    /// Unit of every temperature typed without one (--tref, and --at of predict): C, K or F
+    /// (default C).
+    #[arg(long, value_enum, default_value = "C")]
+    pub temp_unit: TempArg,
     /// Confidence level of every interval, between 0 and 1 (default 0.95).
     #[arg(long, value_name = "LEVEL", value_parser = parse_level)]
     pub level: Option<f64>,
@@ -136,7 +141,7 @@ pub enum DecimalArg {
     Comma,
 }
 
-/// `isochore fit`.
+/// `vhfit fit`.
 #[derive(Debug, Clone, Args)]
 pub struct FitArgs {
     /// CSV files or project files (*.isochore.json).
@@ -157,24 +162,23 @@ pub struct FitArgs {
     pub report: Option<PathBuf>,
 }
 
-/// `isochore predict`.
+/// `vhfit predict`.
 #[derive(Debug, Clone, Args)]
 pub struct PredictArgs {
     /// A CSV file or project file.
     #[arg(value_name = "FILE")]
     pub file: PathBuf,
-    /// Temperature(s) to predict at, e.g. 37 or 25,37 (unit from --temp-unit).
+    /// Temperature(s) to predict at, e.g. 37, 25,37 or 310.15K (a number without a unit is
+    /// read in --temp-unit, default °C).
     #[arg(
         long,
         value_name = "T",
         value_delimiter = ',',
         allow_hyphen_values = true,
-        required_unless_present = "for_k"
+        required_unless_present = "for_k",
+        value_parser = parse_temperature
     )]
-    pub at: Vec<f64>,
-    /// Unit of --at (default °C).
-    #[arg(long, value_enum, default_value = "C")]
-    pub temp_unit: TempArg,
+    pub at: Vec<TypedTemperature>,
     /// Also find the temperature at which K reaches this value (dimensionless K).
     #[arg(long, value_name = "K")]
     pub for_k: Option<f64>,
@@ -186,7 +190,7 @@ pub struct PredictArgs {
     pub json: bool,
 }
 
-/// `isochore two-point`.
+/// `vhfit two-point`.
 #[derive(Debug, Clone, Args)]
 #[command(group(clap::ArgGroup::new("direction").required(true).args(["k2", "delta_h"])))]
 pub struct TwoPointArgs {
@@ -277,21 +281,87 @@ fn parse_level(s: &str) -> Result<f64, String> {
     }
 }
 
-fn parse_positive(s: &str) -> Result<f64, String> {
-    let v: f64 = s
-        .trim()
-        .parse()
-        .map_err(|_| format!("'{s}' is not a number"))?;
-    if v.is_finite() && v > 0.0 {
-        Ok(v)
-    } else {
-        Err("give a positive temperature in kelvin, e.g. 298.15".to_string())
+/// A temperature as typed on the command line: a number with an optional unit suffix.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct TypedTemperature {
+    /// The number.
+    pub value: f64,
+    /// The unit suffix, when one was typed (`25C`, `298.15K`, `77F`, `25 °C`).
+    pub unit: Option<TempArg>,
+}
+
+impl TypedTemperature {
+    /// In kelvin, reading a number without a unit in `default`.
+    ///
+    /// # Errors
+    /// When the temperature is at or below absolute zero (or not finite), naming the flag.
+    pub fn kelvin(self, default: TempArg, flag: &str) -> Result<f64, String> {
+        let unit = self.unit.unwrap_or(default);
+        let k = unit.unit().to_kelvin(self.value);
+        if k.is_finite() && k > 0.0 {
+            Ok(k)
+        } else {
+            Err(format!(
+                "{flag} {} {} is {} K, at or below absolute zero; give a unit (e.g. 25C or 298.15K) or --temp-unit",
+                self.value,
+                unit.unit().symbol(),
+                crate::output::short(k)
+            ))
+        }
     }
+}
+
+/// Reads a temperature: a number, optionally followed by K, C, °C, F or °F.
+fn parse_temperature(s: &str) -> Result<TypedTemperature, String> {
+    let t = s.trim();
+    let (number, unit) = [
+        ("°C", TempArg::C),
+        ("°F", TempArg::F),
+        ("C", TempArg::C),
+        ("c", TempArg::C),
+        ("K", TempArg::K),
+        ("k", TempArg::K),
+        ("F", TempArg::F),
+        ("f", TempArg::F),
+    ]
+    .iter()
+    .find_map(|(suffix, u)| t.strip_suffix(suffix).map(|n| (n.trim(), Some(*u))))
+    .unwrap_or((t, None));
+    let value: f64 = number.parse().map_err(|_| {
+        format!("'{s}' is not a temperature: give a number with an optional unit, e.g. 25C, 298.15K or 77F")
+    })?;
+    if !value.is_finite() {
+        return Err(format!("'{s}' is not a finite temperature"));
+    }
+    Ok(TypedTemperature { value, unit })
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn temperatures_with_and_without_units() {
+        let t = parse_temperature("25C").unwrap();
+        assert_eq!((t.value, t.unit), (25.0, Some(TempArg::C)));
+        let t = parse_temperature("298.15 K").unwrap();
+        assert_eq!((t.value, t.unit), (298.15, Some(TempArg::K)));
+        assert_eq!(parse_temperature("25 °C").unwrap().unit, Some(TempArg::C));
+        assert_eq!(parse_temperature("-5").unwrap().unit, None);
+        assert!(parse_temperature("25X").is_err());
+        assert!(parse_temperature("inf").is_err());
+        // 0 °C = 273.15 K (the definition of the Celsius scale); −300 °C is below 0 K.
+        let zero = parse_temperature("0").unwrap();
+        assert!((zero.kelvin(TempArg::C, "--tref").unwrap() - 273.15).abs() < 1e-12);
+        assert!(parse_temperature("-300C")
+            .unwrap()
+            .kelvin(TempArg::K, "--tref")
+            .is_err());
+        assert!(parse_temperature("0K")
+            .unwrap()
+            .kelvin(TempArg::C, "--tref")
+            .is_err());
+    }
 
     #[test]
     fn row_lists() {

@@ -1,4 +1,4 @@
-//! `isochore fit`: every file in turn (a failing file leaves the others unaffected and is
+//! `vhfit fit`: every file in turn (a failing file leaves the others unaffected and is
 //! named at the end), each data set fitted with isochore-fit, then printed as a readable
 //! table or streamed as the JSON contract, and reports written atomically.
 
@@ -24,7 +24,7 @@ pub fn report_input(job: &Job, fit: VantHoffFit) -> ReportInput {
     let args: Vec<String> = std::env::args().skip(1).collect();
     let command = (
         "command line".to_string(),
-        format!("isochore {}", args.join(" ")),
+        format!("vhfit {}", args.join(" ")),
     );
     isochore_analysis::report_input(job, fit, &[command])
 }
@@ -91,11 +91,12 @@ fn error_entry(
     Ok(())
 }
 
-/// Runs `isochore fit`.
+/// Runs `vhfit fit`.
 ///
 /// Every input is read and fitted before anything is written, and the report files are
 /// checked (no input, nothing isochore did not write) before the first one is written.
 pub fn run(a: &FitArgs) -> Result<(), Failure> {
+    crate::load::reference_temperature(&a.fit).map_err(Failure::usage)?;
     let mut plan = match &a.report {
         None => None,
         Some(p) => {

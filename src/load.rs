@@ -28,12 +28,21 @@ pub fn hint(remedy: Option<Remedy>) -> &'static str {
     }
 }
 
+/// θ from `--tref` in kelvin (a unit suffix, else `--temp-unit`), if given.
+///
+/// # Errors
+/// θ at or below absolute zero, naming the flag.
+pub fn reference_temperature(a: &FitOptionsArgs) -> Result<Option<f64>, String> {
+    a.tref.map(|t| t.kelvin(a.temp_unit, "--tref")).transpose()
+}
+
 /// The command-line options as isochore-analysis overrides. `with_cells` keeps the cells as
 /// typed (for reports only; costly for huge files).
 fn overrides(a: &FitOptionsArgs, with_cells: bool) -> Overrides {
     Overrides {
         model: a.model,
-        t_ref_k: a.tref,
+        // Checked by `reference_temperature` before any file is read.
+        t_ref_k: a.tref.and_then(|t| t.kelvin(a.temp_unit, "--tref").ok()),
         level: a.level,
         absolute_sigma: a.absolute_sigma,
         unweighted: a.unweighted,

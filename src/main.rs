@@ -1,4 +1,4 @@
-//! The `isochore` binary: with no subcommand it opens the desktop workbench; the
+//! The `vhfit` binary: with no subcommand it opens the desktop workbench; the
 //! subcommands `fit`, `predict` and `two-point` run the same engine headless, print a
 //! readable table or the JSON contract, and write reports.
 //!

@@ -218,7 +218,7 @@ pub fn stderr_raw(text: &str) {
 /// Writes one message line to stderr as `isochore: <message>`, with any number longer
 /// than [`LONG_NUMBER_DIGITS`] digits shortened (see [`shorten_long_numbers`]).
 pub fn note(message: &str) {
-    stderr_raw(&format!("isochore: {}\n", shorten_long_numbers(message)));
+    stderr_raw(&format!("vhfit: {}\n", shorten_long_numbers(message)));
 }
 
 /// Numbers with more digits than this are shortened in messages.

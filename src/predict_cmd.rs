@@ -1,4 +1,4 @@
-//! `isochore predict`: fits the file, then gives ln K, K, ΔG°, ΔH° and ΔS° at each asked
+//! `vhfit predict`: fits the file, then gives ln K, K, ΔG°, ΔH° and ΔS° at each asked
 //! temperature with confidence and prediction intervals, warns when a temperature lies
 //! outside the measured range, and optionally finds the temperature for a target K.
 
@@ -12,16 +12,21 @@ use isochore_fit::VantHoffFit;
 use isochore_report::content::{decimals_for, entropy_unit, num, show_t, sig};
 use std::io::Write;
 
-/// Runs `isochore predict`.
+/// Runs `vhfit predict`.
 pub fn run(a: &PredictArgs) -> Result<(), Failure> {
-    let unit = a.temp_unit.unit();
-    let temps_k: Vec<f64> = a.at.iter().map(|&t| unit.to_kelvin(t)).collect();
-    if let Some(bad) = temps_k.iter().find(|t| !(t.is_finite() && **t > 0.0)) {
-        return Err(Failure::usage(format!(
-            "--at: {} K is not a temperature above absolute zero; check --temp-unit",
-            output::short(*bad)
-        )));
-    }
+    let temps_k: Vec<f64> =
+        a.at.iter()
+            .map(|t| t.kelvin(a.fit.temp_unit, "--at"))
+            .collect::<Result<_, _>>()
+            .map_err(Failure::usage)?;
+    crate::load::reference_temperature(&a.fit).map_err(Failure::usage)?;
+    // Temperatures are printed in the unit they were typed in (the first --at's suffix),
+    // else in --temp-unit.
+    let unit =
+        a.at.first()
+            .and_then(|t| t.unit)
+            .unwrap_or(a.fit.temp_unit)
+            .unit();
     if let Some(k) = a.for_k {
         if !(k.is_finite() && k > 0.0) {
             return Err(Failure::usage("--for-k must be a positive number"));

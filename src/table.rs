@@ -1,4 +1,4 @@
-//! Readable text output of `isochore fit`: the detailed table for one data set (estimates
+//! Readable text output of `vhfit fit`: the detailed table for one data set (estimates
 //! ± SE with intervals, fit statistics, model comparison, flagged and excluded points,
 //! warnings in words) and the one-row-per-series summary of a batch.
 

@@ -1,4 +1,4 @@
-//! `isochore two-point`: the hand calculation in both directions with propagated
+//! `vhfit two-point`: the hand calculation in both directions with propagated
 //! uncertainty — ΔH° and ΔS° from two (T, K) pairs, or K at T₂ from (T₁, K₁) and ΔH°.
 //!
 //! Temperatures are printed in the unit they were given in (with kelvin beside them), and
@@ -62,7 +62,7 @@ fn unit_key(unit: TempArg) -> &'static str {
     }
 }
 
-/// Runs `isochore two-point`.
+/// Runs `vhfit two-point`.
 pub fn run(a: &TwoPointArgs) -> Result<(), Failure> {
     let (unit, assumed) = match a.temp_unit {
         Some(u) => (u, false),

@@ -1,4 +1,4 @@
-//! End-to-end checks of the `isochore` binary: the JSON contract parses and carries the
+//! End-to-end checks of the `vhfit` binary: the JSON contract parses and carries the
 //! library's numbers, `--exclude` moves ΔH° to the library's value without that point,
 //! every report format is produced and readable by an independent parser (lopdf for PDF,
 //! roxmltree for SVG), hostile series names stay text, and exit codes are 0/1/2 as promised.
@@ -10,7 +10,7 @@ use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
 
 fn bin() -> Command {
-    Command::new(env!("CARGO_BIN_EXE_isochore"))
+    Command::new(env!("CARGO_BIN_EXE_vhfit"))
 }
 
 pub(crate) fn run(args: &[&str]) -> Output {
@@ -172,7 +172,7 @@ fn options_reach_the_fit() {
         "0.9",
         "--absolute-sigma",
         "--tref",
-        "310",
+        "310K",
     ]));
     let lib = library_fit(
         &path,
@@ -789,5 +789,32 @@ fn every_bad_test_file_is_refused_with_the_expected_message() {
             let frag = frag.as_str().unwrap();
             assert!(err.contains(frag), "{name}: '{frag}' not in {err}");
         }
+    }
+}
+
+/// `--tref` follows the one rule for temperatures on the command line (issue 11 item 4): a
+/// unit suffix, else `--temp-unit`, whose default is °C; θ at or below 0 K is refused.
+#[test]
+fn reference_temperature_takes_a_unit_and_defaults_to_celsius() {
+    let path = demo("acid_pka.csv");
+    let theta = |args: &[&str]| -> f64 {
+        let mut all = vec!["fit", path.as_str(), "--json", "--model", "cp"];
+        all.extend_from_slice(args);
+        json_of(&run(&all))["t_ref_k"].as_f64().unwrap()
+    };
+    // 25 °C = 298.15 K, 77 °F = 298.15 K (definitions of the scales).
+    assert!((theta(&["--tref", "25"]) - 298.15).abs() < 1e-9);
+    assert!((theta(&["--tref", "25C"]) - 298.15).abs() < 1e-9);
+    assert!((theta(&["--tref", "298.15K"]) - 298.15).abs() < 1e-9);
+    assert!((theta(&["--tref", "77F"]) - 298.15).abs() < 1e-9);
+    assert!((theta(&["--tref", "310", "--temp-unit", "K"]) - 310.0).abs() < 1e-9);
+    for bad in ["-300", "0K", "-500F"] {
+        let out = run(&["fit", &path, "--tref", bad]);
+        assert_eq!(out.status.code(), Some(2), "{bad}");
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert!(
+            err.contains("absolute zero") && err.contains("--tref"),
+            "{bad}: {err}"
+        );
     }
 }

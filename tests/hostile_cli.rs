@@ -12,7 +12,7 @@ use std::path::{Path, PathBuf};
 use std::process::{Command, Output, Stdio};
 
 fn bin() -> Command {
-    Command::new(env!("CARGO_BIN_EXE_isochore"))
+    Command::new(env!("CARGO_BIN_EXE_vhfit"))
 }
 
 fn run_in(dir: &Path, args: &[&str]) -> Output {
@@ -483,12 +483,12 @@ fn messages_show_short_numbers_full_paths_and_proper_plurals() {
     let out = run_in(dir.path(), &["fit", "d1/x.csv"]);
     let err = text(&out.stderr);
     let last = err.lines().last().unwrap_or_default();
-    assert_eq!(last, "isochore: 1 input could not be used", "{err}");
+    assert_eq!(last, "vhfit: 1 input could not be used", "{err}");
     let out = run_in(dir.path(), &["fit", "good.csv", "d1/x.csv"]);
     let err = text(&out.stderr);
     let last = err.lines().last().unwrap_or_default();
     assert_eq!(
-        last, "isochore: 1 input could not be used; the 1 result that could be computed is above",
+        last, "vhfit: 1 input could not be used; the 1 result that could be computed is above",
         "{err}"
     );
 }
@@ -576,7 +576,7 @@ fn reports_get_ordinary_file_permissions_under_the_umask() {
             .arg(format!(
                 "umask {umask} && exec \"$0\" fit a.csv --report {report}"
             ))
-            .arg(env!("CARGO_BIN_EXE_isochore"))
+            .arg(env!("CARGO_BIN_EXE_vhfit"))
             .stdout(Stdio::null())
             .status()
             .unwrap();

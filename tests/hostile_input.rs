@@ -83,7 +83,7 @@ fn theta_outside_the_range_is_named() {
     // blamed units or "too few distinct temperatures".
     let dir = tempfile::tempdir().unwrap();
     let path = write(dir.path(), "good.csv", GOOD);
-    for theta in ["1e-300", "1e300", "1e308"] {
+    for theta in ["1e-300K", "1e300K", "1e308K"] {
         let err = refused(&["fit", &path, "--model", "cp", "--tref", theta]);
         assert!(err.contains("θ"), "{theta}: {err}");
         assert!(err.contains("plausible range"), "{theta}: {err}");

@@ -1,7 +1,7 @@
 //! # isochore-analysis
 //!
 //! The application layer of Isochore, between the data and fit crates and the two front ends
-//! (the `isochore` command line and the desktop window). Data flow one way: bytes →
+//! (the `vhfit` command line and the desktop window). Data flow one way: bytes →
 //! isochore-data → isochore-fit → here → report, window, command line. Every rule both front
 //! ends follow lives here once:
 //!

@@ -13,14 +13,11 @@ fn the_report_input_pairs_rows_with_the_fit_and_names_the_program_once() {
     };
     let set = &load(&path, &o).unwrap()[0];
     let fit = set.fit().unwrap();
-    let extra = [(
-        "command line".to_string(),
-        "isochore fit acid.csv".to_string(),
-    )];
+    let extra = [("command line".to_string(), "vhfit fit acid.csv".to_string())];
     let input = report_input(set, fit, &extra);
     input.validate().unwrap();
     assert_eq!(input.title, "Van 't Hoff analysis: acid");
-    // The report writes "isochore <version>": the version alone, never "isochore isochore …".
+    // The report writes "vhfit <version>": the version alone, never "isochore isochore …".
     assert_eq!(input.program_version, VERSION);
     assert!(!input.program_version.contains("isochore"));
     assert_eq!(input.rows.len(), 4);

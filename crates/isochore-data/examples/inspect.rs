@@ -3,7 +3,7 @@
 use isochore_data::{import_path, ImportOptions};
 use std::time::Instant;
 
-/// The `isochore` binary's allocator (jemalloc with transparent huge pages, see
+/// The `vhfit` binary's allocator (jemalloc with transparent huge pages, see
 /// `.cargo/config.toml`), so that the figures are those of the product.
 #[global_allocator]
 static ALLOC: tikv_jemallocator::Jemalloc = tikv_jemallocator::Jemalloc;

@@ -266,7 +266,7 @@ impl Serialize for PointsJson<'_> {
     }
 }
 
-/// One fit in the JSON contract of `isochore fit --json`.
+/// One fit in the JSON contract of `vhfit fit --json`.
 #[derive(Serialize)]
 pub struct FitJson<'a> {
     /// The input as given (in arrays only).

@@ -1,4 +1,4 @@
-//! `isochore predict --json`: K, ln K, ΔG°, ΔH° and ΔS° at each asked temperature with
+//! `vhfit predict --json`: K, ln K, ΔG°, ΔH° and ΔS° at each asked temperature with
 //! confidence and prediction intervals, and optionally the temperature where K reaches a
 //! value. One object per data set; several data sets give an array.
 

@@ -1,4 +1,4 @@
-//! `isochore two-point --json`: the hand calculation in either direction, with the inputs as
+//! `vhfit two-point --json`: the hand calculation in either direction, with the inputs as
 //! typed and in kelvin.
 
 use super::EstimateJson;
