@@ -869,7 +869,12 @@ fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportError> {
                         EmptyElement::at((h, r))
                             + Text::new(
                                 text,
-                                (-70, if sign > 0.0 { -24 } else { 10 }),
+                                // The flag limit's longer label starts further left, so
+                                // it ends inside the frame.
+                                (
+                                    if i == 0 { -190 } else { -70 },
+                                    if sign > 0.0 { -24 } else { 10 },
+                                ),
                                 (FONT, NOTE_SIZE).into_font().color(&GREEN),
                             ),
                     ))
