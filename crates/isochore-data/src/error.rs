@@ -462,13 +462,15 @@ impl fmt::Display for Error {
             Error::TooFewPoints { file, series, found, needed, rejected } => {
                 write!(
                     f,
-                    "{file}: data set '{series}' has {found} usable point(s); at least {needed} are needed"
+                    "{file}: data set '{series}' has {}; at least {needed} are needed",
+                    isochore_fit::error::counted(*found, "usable point", "usable points")
                 )?;
                 if let Some(first) = rejected.first() {
                     write!(
                         f,
-                        " ({} row(s) of the file were rejected; the first: {first})",
-                        rejected.len()
+                        " ({} of the file {} rejected; the first: {first})",
+                        isochore_fit::error::counted(rejected.len(), "row", "rows"),
+                        if rejected.len() == 1 { "was" } else { "were" }
                     )?;
                 }
                 Ok(())

@@ -122,8 +122,9 @@ impl ColumnMapping {
         for (i, &(c, role)) in used.iter().enumerate() {
             if c >= n_columns {
                 return Err(format!(
-                    "the {role} column is column {} but the file has {n_columns} column(s)",
-                    one_based(c)
+                    "the {role} column is column {} but the file has {}",
+                    one_based(c),
+                    isochore_fit::error::counted(n_columns, "column", "columns")
                 ));
             }
             if let Some(&(_, other)) = used[..i].iter().find(|(c2, _)| *c2 == c) {

@@ -123,6 +123,17 @@ pub enum Error {
     NoSolution(String),
 }
 
+/// A count with its noun in the right number, for messages: `counted(1, "point", "points")`
+/// is "1 point", `counted(3, "point", "points")` is "3 points".
+///
+/// ```
+/// assert_eq!(isochore_fit::error::counted(1, "row", "rows"), "1 row");
+/// assert_eq!(isochore_fit::error::counted(0, "row", "rows"), "0 rows");
+/// ```
+pub fn counted(n: usize, one: &str, many: &str) -> String {
+    format!("{n} {}", if n == 1 { one } else { many })
+}
+
 /// A value for a message: at most 6 significant digits (a 300-digit number is never
 /// printed), in exponent form when very large or small.
 pub(crate) fn short(v: f64) -> String {
@@ -171,7 +182,8 @@ impl fmt::Display for Error {
             ),
             Error::TooFewPoints { available, needed } => write!(
                 f,
-                "{available} usable point(s) but at least {needed} are needed; include more points or choose a simpler model"
+                "{} but at least {needed} are needed; include more points or choose a simpler model",
+                counted(*available, "usable point", "usable points")
             ),
             Error::SingleTemperature => write!(
                 f,
@@ -218,7 +230,9 @@ impl fmt::Display for Error {
             ),
             Error::TooFewTemperatures { distinct, needed, parameters, points } => write!(
                 f,
-                "only {distinct} distinct temperature(s) among {points} used point(s) (temperatures closer than {} K count as one), but a model with {parameters} parameters needs at least {parameters} distinct temperatures, and {} for an error estimate: repeats at one temperature do not tell the model's shape; measure at {needed} or more temperatures, or choose a simpler model",
+                "only {} among {} (temperatures closer than {} K count as one), but a model with {parameters} parameters needs at least {parameters} distinct temperatures, and {} for an error estimate: repeats at one temperature do not tell the model's shape; measure at {needed} or more temperatures, or choose a simpler model",
+                counted(*distinct, "distinct temperature", "distinct temperatures"),
+                counted(*points, "used point", "used points"),
                 crate::model::TEMPERATURE_RESOLUTION_K,
                 parameters + 1
             ),

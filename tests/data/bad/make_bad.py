@@ -21,7 +21,7 @@ def bad(name, content, *fragments):
 bad("empty.csv", b"", "the file is empty")
 bad("only_comments.csv", "# nothing measured yet\n\n# really nothing\n", "the file is empty")
 bad("header_only.csv", "T (°C),K\n", "line 1 is a header but no data rows follow")
-bad("one_row.csv", "T (°C),K\n25,100\n", "data set 'one_row' has 1 usable point(s); at least 3 are needed")
+bad("one_row.csv", "T (°C),K\n25,100\n", "data set 'one_row' has 1 usable point; at least 3 are needed")
 bad("text_in_number.csv", "T (°C),K\n10,250\n20,abc\n30,160\n40,131\n",
     "line 3, column 2 ('K'): 'abc' is not a number")
 bad("k_zero.csv", "T (°C),K\n10,250\n20,198\n30,0\n40,131\n",

@@ -90,7 +90,12 @@ impl Nulls {
         let shown: Vec<&str> = self.undefined.iter().take(20).map(String::as_str).collect();
         let more = self.undefined.len() - shown.len();
         Some(format!(
-            "undefined value(s) written as null: {}{}",
+            "{} written as null: {}{}",
+            if self.undefined.len() == 1 {
+                "an undefined value"
+            } else {
+                "undefined values"
+            },
             shown.join(", "),
             if more > 0 {
                 format!(" and {more} more")

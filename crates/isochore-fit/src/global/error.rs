@@ -113,8 +113,10 @@ impl fmt::Display for GlobalError {
             GlobalError::Options(e) => write!(f, "{e}"),
             GlobalError::SingularSharing { series, label, distinct, needed, per_series } => write!(
                 f,
-                "the sharing is singular: {} has {distinct} distinct temperature(s) but {needed} parameter(s) of its own ({}), which need at least {needed}; share some of them across series, choose a simpler model, or measure that series at more temperatures",
+                "the sharing is singular: {} has {} but {} of its own ({}), which need at least {needed}; share some of them across series, choose a simpler model, or measure that series at more temperatures",
                 series_name(*series, label),
+                crate::error::counted(*distinct, "distinct temperature", "distinct temperatures"),
+                crate::error::counted(*needed, "parameter", "parameters"),
                 per_series.join(", ")
             ),
             GlobalError::SingularDesign { column } => write!(
@@ -123,7 +125,10 @@ impl fmt::Display for GlobalError {
             ),
             GlobalError::TooFewDegreesOfFreedom { points, distinct_rows, parameters, needed } => write!(
                 f,
-                "too few degrees of freedom: {points} used point(s) with {distinct_rows} distinct design row(s) for {parameters} parameter(s), but {needed} of each are needed for an error estimate; share more parameters, include more points, or choose a simpler model"
+                "too few degrees of freedom: {} with {} for {}, but {needed} of each are needed for an error estimate; share more parameters, include more points, or choose a simpler model",
+                crate::error::counted(*points, "used point", "used points"),
+                crate::error::counted(*distinct_rows, "distinct design row", "distinct design rows"),
+                crate::error::counted(*parameters, "parameter", "parameters")
             ),
             GlobalError::NotNested(why) => write!(f, "the fits cannot be compared: {why}"),
             GlobalError::NoSolution(why) => write!(f, "{why}"),

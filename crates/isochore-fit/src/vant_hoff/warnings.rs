@@ -4,6 +4,7 @@
 //! order.
 
 use super::result::VantHoffFit;
+use crate::error::counted;
 use crate::model::SigmaConvention;
 use serde::{Deserialize, Serialize};
 
@@ -82,8 +83,10 @@ pub(super) fn cautions(fit: &VantHoffFit, flagged: usize, leverage_one: bool) ->
         warnings.push(Warning::new(
             WarningKind::FewPoints,
             format!(
-                "only {} point(s) used for {} parameters ({} degree(s) of freedom): intervals are wide and point diagnostics are weak",
-                fit.n_used, p, dof
+                "only {} used for {} parameters ({}): intervals are wide and point diagnostics are weak",
+                counted(fit.n_used, "point", "points"),
+                p,
+                counted(dof, "degree of freedom", "degrees of freedom")
             ),
         ));
     }
@@ -99,7 +102,11 @@ pub(super) fn cautions(fit: &VantHoffFit, flagged: usize, leverage_one: bool) ->
     if flagged > 0 {
         warnings.push(Warning::new(
             WarningKind::FlaggedPoints,
-            format!("{flagged} point(s) flagged as outlier, high leverage or influential; inspect them before trusting the result"),
+            format!(
+                "{} flagged as outlier, high leverage or influential; inspect {} before trusting the result",
+                counted(flagged, "point", "points"),
+                if flagged == 1 { "it" } else { "them" }
+            ),
         ));
     }
     if t_max_k - t_min_k < 10.0 {

@@ -303,9 +303,12 @@ impl FilesPanel {
                     });
                 if !problems.is_empty() {
                     ui.label(
-                        RichText::new(format!("{} row(s) could not be read:", problems.len()))
-                            .color(flag)
-                            .strong(),
+                        RichText::new(format!(
+                            "{} could not be read:",
+                            isochore_fit::error::counted(problems.len(), "row", "rows")
+                        ))
+                        .color(flag)
+                        .strong(),
                     );
                     for e in problems.iter().take(12) {
                         ui.colored_label(flag, e);
