@@ -16,13 +16,13 @@
 //! decimals; the water pKw to 17 digits), read identically by both programs, so only rounding
 //! separates them; the reference itself is good to 1.3e-10 (the mpmath check).
 
-use isochore_fit::{
-    fit, FitOptions, Measurement, Model, QuantityKind, VantHoffFit, Weighting, DEFAULT_REFERENCE_K,
-};
+use crate::common::{check, iapws_water as water, reference_table, unweighted};
+use isochore_fit::{fit, Measurement, Model, QuantityKind, VantHoffFit};
 use std::collections::HashMap;
 
-/// Relative agreement required with statsmodels (see the file comment).
-const REL: f64 = 1e-9;
+fn reference() -> HashMap<String, Vec<f64>> {
+    reference_table("independent/clarke_glew.txt")
+}
 
 /// ADA, N-(2-acetamido)iminodiacetic acid, reaction (3) HL⁻ = H⁺ + L²⁻ at I = 0: (T/K, pK)
 /// as tabulated by R. N. Goldberg, N. Kishore and R. M. Lennen, "Thermodynamic quantities for
@@ -56,77 +56,10 @@ const ADA_PUBLISHED_DH: f64 = 12.23e3;
 /// (R. N. Roy et al., Open J. Phys. Chem. 4, 73–79 (2014), abstract).
 const ADA_PUBLISHED_DCP: f64 = -144.0;
 
-fn reference() -> HashMap<String, Vec<f64>> {
-    let path = concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/data/independent/clarke_glew.txt"
-    );
-    let text = std::fs::read_to_string(path).expect("fixture clarke_glew.txt is part of the crate");
-    let mut out = HashMap::new();
-    for (i, line) in text.lines().enumerate() {
-        let line = line.trim();
-        if line.is_empty() || line.starts_with('#') {
-            continue;
-        }
-        let mut tokens = line.split_whitespace();
-        let key = tokens.next().unwrap().to_string();
-        let values: Vec<f64> = tokens
-            .map(|t| {
-                t.parse()
-                    .unwrap_or_else(|e| panic!("{path}: line {}: '{t}': {e}", i + 1))
-            })
-            .collect();
-        out.insert(key, values);
-    }
-    out
-}
-
 fn ada() -> Vec<Measurement> {
     ADA.iter()
         .map(|&(t_k, pk)| Measurement::new(t_k, QuantityKind::PK.to_ln_k(pk, t_k).unwrap()))
         .collect()
-}
-
-/// pKw of liquid water at 0.1 MPa, 0–60 °C every 5 °C: IAPWS R11-07(2019) by the PyPI package
-/// iapws 1.5.5 (`tests/data/water_pkw/pkw_iapws.txt`, the data handbook.rs uses).
-fn water() -> Vec<Measurement> {
-    let path = concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/data/water_pkw/pkw_iapws.txt"
-    );
-    let text = std::fs::read_to_string(path).expect("fixture pkw_iapws.txt is part of the crate");
-    text.lines()
-        .filter(|l| !l.trim().is_empty() && !l.starts_with('#'))
-        .map(|l| {
-            let v: Vec<f64> = l.split_whitespace().map(|t| t.parse().unwrap()).collect();
-            let t_k = isochore_fit::TemperatureUnit::Celsius.to_kelvin(v[0]);
-            Measurement::new(t_k, QuantityKind::PK.to_ln_k(v[2], t_k).unwrap())
-        })
-        .collect()
-}
-
-fn unweighted(model: Model) -> FitOptions {
-    FitOptions {
-        model,
-        weighting: Weighting::Unweighted,
-        t_ref_k: DEFAULT_REFERENCE_K,
-        ..FitOptions::default()
-    }
-}
-
-/// |got − want| ≤ REL·|want|; entries far below the largest of their vector (a residual that
-/// happens to be near zero) are held to REL of 1e-3 of that largest instead.
-fn check(what: &str, got: &[f64], want: &[f64]) {
-    assert_eq!(got.len(), want.len(), "{what}: length");
-    let big = want.iter().fold(0.0f64, |m, v| m.max(v.abs()));
-    for (i, (g, w)) in got.iter().zip(want).enumerate() {
-        let tol = REL * w.abs().max(1e-3 * big);
-        assert!(
-            (g - w).abs() <= tol,
-            "{what}[{i}]: got {g:.17e}, statsmodels {w:.17e}, rel. diff {:.2e}",
-            (g - w).abs() / w.abs()
-        );
-    }
 }
 
 /// Fits `model` and checks it against the statsmodels values under `name.key.*`.

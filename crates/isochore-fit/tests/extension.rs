@@ -19,15 +19,14 @@
 //! and checks itself against a 60-digit mpmath solve (1.3e-10). The data are the IAPWS water
 //! pKw used throughout these tests, exact decimal inputs, so the tolerance is 1e-9 relative.
 
+use crate::common::{check, iapws_water as water, reference_table};
 use isochore_fit::models::{DELTA_H, DELTA_S};
-use isochore_fit::{
-    fit, FitOptions, Measurement, Model, ModelSpec, ParamDimension, ParamInfo, QuantityKind,
-    TemperatureUnit, Weighting,
-};
+use isochore_fit::{fit, FitOptions, Model, ModelSpec, ParamDimension, ParamInfo, Weighting};
 use std::collections::HashMap;
 
-/// Relative agreement required with statsmodels (see the file comment).
-const REL: f64 = 1e-9;
+fn reference() -> HashMap<String, Vec<f64>> {
+    reference_table("independent/clarke_glew.txt")
+}
 
 /// The toy model's fixed temperature scale, K.
 const TAU: f64 = 10.0;
@@ -88,58 +87,11 @@ impl ModelSpec for CubicEnthalpy {
 /// The toy model's handle.
 const TOY: Model = Model::new(&CubicEnthalpy);
 
-fn reference() -> HashMap<String, Vec<f64>> {
-    let path = concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/data/independent/clarke_glew.txt"
-    );
-    let text = std::fs::read_to_string(path).expect("fixture clarke_glew.txt is part of the crate");
-    text.lines()
-        .filter(|l| !l.trim().is_empty() && !l.starts_with('#'))
-        .map(|l| {
-            let mut tokens = l.split_whitespace();
-            let key = tokens.next().unwrap().to_string();
-            (key, tokens.map(|t| t.parse().unwrap()).collect())
-        })
-        .collect()
-}
-
-/// pKw of liquid water at 0.1 MPa, 0–60 °C every 5 °C: IAPWS R11-07(2019) by the PyPI package
-/// iapws 1.5.5 (`tests/data/water_pkw/pkw_iapws.txt`).
-fn water() -> Vec<Measurement> {
-    let path = concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/data/water_pkw/pkw_iapws.txt"
-    );
-    let text = std::fs::read_to_string(path).expect("fixture pkw_iapws.txt is part of the crate");
-    text.lines()
-        .filter(|l| !l.trim().is_empty() && !l.starts_with('#'))
-        .map(|l| {
-            let v: Vec<f64> = l.split_whitespace().map(|t| t.parse().unwrap()).collect();
-            let t_k = TemperatureUnit::Celsius.to_kelvin(v[0]);
-            Measurement::new(t_k, QuantityKind::PK.to_ln_k(v[2], t_k).unwrap())
-        })
-        .collect()
-}
-
 fn options() -> FitOptions {
     FitOptions {
         model: TOY,
         weighting: Weighting::Unweighted,
         ..FitOptions::default()
-    }
-}
-
-fn check(what: &str, got: &[f64], want: &[f64]) {
-    assert_eq!(got.len(), want.len(), "{what}: length");
-    let big = want.iter().fold(0.0f64, |m, v| m.max(v.abs()));
-    for (i, (g, w)) in got.iter().zip(want).enumerate() {
-        let tol = REL * w.abs().max(1e-3 * big);
-        assert!(
-            (g - w).abs() <= tol,
-            "{what}[{i}]: got {g:.17e}, statsmodels {w:.17e}, rel. diff {:.2e}",
-            (g - w).abs() / w.abs()
-        );
     }
 }
 

@@ -5,7 +5,8 @@
 //! roots of a quadratic in u. The library finds the same set by a search in T, for any
 //! model. The data below are small invented sets (for testing only).
 
-use isochore_fit::{fit, FitOptions, Measurement, Model, WarningKind, Weighting, GAS_CONSTANT};
+use crate::common::unweighted;
+use isochore_fit::{fit, Measurement, Model, WarningKind, GAS_CONSTANT};
 
 /// ln K on a straight line in 1/T (ΔH°, ΔS° given) with a fixed, sign-alternating scatter.
 fn line(dh: f64, ds: f64, temps: &[f64], scatter: f64) -> Vec<Measurement> {
@@ -17,14 +18,6 @@ fn line(dh: f64, ds: f64, temps: &[f64], scatter: f64) -> Vec<Measurement> {
             Measurement::new(t, -dh / (GAS_CONSTANT * t) + ds / GAS_CONSTANT + wobble)
         })
         .collect()
-}
-
-fn unweighted(model: Model) -> FitOptions {
-    FitOptions {
-        model,
-        weighting: Weighting::Unweighted,
-        ..FitOptions::default()
-    }
 }
 
 /// The closed-form Fieller interval for the linear model, in kelvin: (low, high), or None

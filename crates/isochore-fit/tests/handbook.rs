@@ -2,38 +2,9 @@
 //! fits, the model comparison and the two-point calculation. Each reference value names its
 //! source beside it.
 
+use crate::common::{iapws_water as water, unweighted};
 use isochore_fit::two_point::{enthalpy_from_pairs, predict_k, StatePoint};
-use isochore_fit::{
-    fit, FitOptions, Measurement, Model, QuantityKind, TemperatureUnit, WarningKind, Weighting,
-};
-
-/// pKw of liquid water at 0.1 MPa, 0–60 °C every 5 °C: IAPWS R11-07(2019) (Bandura & Lvov)
-/// as implemented by the PyPI package iapws 1.5.5, written by
-/// `tests/data/water_pkw/make_pkw.py` into `pkw_iapws.txt`.
-fn water() -> Vec<Measurement> {
-    let path = concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/data/water_pkw/pkw_iapws.txt"
-    );
-    let text = std::fs::read_to_string(path).expect("fixture pkw_iapws.txt is part of the crate");
-    text.lines()
-        .filter(|l| !l.trim().is_empty() && !l.starts_with('#'))
-        .map(|l| {
-            let v: Vec<f64> = l.split_whitespace().map(|t| t.parse().unwrap()).collect();
-            let t_k = TemperatureUnit::Celsius.to_kelvin(v[0]);
-            let ln_k = QuantityKind::PK.to_ln_k(v[2], t_k).unwrap();
-            Measurement::new(t_k, ln_k)
-        })
-        .collect()
-}
-
-fn unweighted(model: Model) -> FitOptions {
-    FitOptions {
-        model,
-        weighting: Weighting::Unweighted,
-        ..FitOptions::default()
-    }
-}
+use isochore_fit::{fit, Measurement, Model, QuantityKind, TemperatureUnit, WarningKind};
 
 #[test]
 fn water_fixture_is_the_handbook_curve() {

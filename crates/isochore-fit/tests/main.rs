@@ -1,6 +1,7 @@
 //! The one integration-test binary of this crate: each module is a former test file.
 
 mod clarke_glew;
+mod common;
 mod extension;
 mod fieller;
 mod garbage_in;

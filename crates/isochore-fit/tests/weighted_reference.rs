@@ -19,37 +19,17 @@
 //! - F = (χ²_lin − χ²_cp)/(χ²_cp/(n − 3)) with p = P(F(1, n − 3) ≥ F)
 //!   (RegressionResults.compare_f_test, cross-checked in the script with scipy.stats.f.sf).
 
+use crate::common::{check, reference_table};
 use isochore_fit::{fit, FitOptions, Measurement, Model, SigmaConvention, VantHoffFit};
 use std::collections::HashMap;
+
+fn reference() -> HashMap<String, Vec<f64>> {
+    reference_table("weighted_vant_hoff/reference.txt")
+}
 
 /// Relative agreement required: a project requirement (set in issue 2), not a reference
 /// value; the reference itself is statsmodels, named above.
 const REL: f64 = 1e-9;
-
-fn reference() -> HashMap<String, Vec<f64>> {
-    let path = concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/data/weighted_vant_hoff/reference.txt"
-    );
-    let text = std::fs::read_to_string(path).expect("fixture reference.txt is part of the crate");
-    let mut out = HashMap::new();
-    for (i, line) in text.lines().enumerate() {
-        let line = line.trim();
-        if line.is_empty() || line.starts_with('#') {
-            continue;
-        }
-        let mut tokens = line.split_whitespace();
-        let key = tokens.next().unwrap().to_string();
-        let values: Vec<f64> = tokens
-            .map(|t| {
-                t.parse()
-                    .unwrap_or_else(|e| panic!("{path}: line {}: '{t}': {e}", i + 1))
-            })
-            .collect();
-        out.insert(key, values);
-    }
-    out
-}
 
 fn points(r: &HashMap<String, Vec<f64>>) -> Vec<Measurement> {
     r["t_k"]
@@ -58,21 +38,6 @@ fn points(r: &HashMap<String, Vec<f64>>) -> Vec<Measurement> {
         .zip(&r["sigma"])
         .map(|((&t, &y), &s)| Measurement::new(t, y).with_sigma(s))
         .collect()
-}
-
-/// |got − want| ≤ 1e-9·|want|; entries far below the largest of their vector (a residual
-/// that happens to be near zero) are held to 1e-9 of that largest instead.
-fn check(what: &str, got: &[f64], want: &[f64]) {
-    assert_eq!(got.len(), want.len(), "{what}: length");
-    let big = want.iter().fold(0.0f64, |m, v| m.max(v.abs()));
-    for (i, (g, w)) in got.iter().zip(want).enumerate() {
-        let tol = REL * w.abs().max(1e-3 * big);
-        assert!(
-            (g - w).abs() <= tol,
-            "{what}[{i}]: got {g:.17e}, statsmodels {w:.17e}, rel. diff {:.2e}",
-            (g - w).abs() / w.abs()
-        );
-    }
 }
 
 fn options(model: Model, convention: SigmaConvention, theta: f64) -> FitOptions {
