@@ -163,13 +163,20 @@ pub fn result_rows(fit: &VantHoffFit, e: EnergyUnit, tu: TemperatureUnit) -> Vec
     if let Some(t1) = fit.t_at_k1() {
         // Usually far outside the data (K = 1 is rarely near the measured range): say so
         // next to the number.
-        let quantity = if fit.is_extrapolation(t1.value) {
-            "T where K = 1 (ΔG° = 0), extrapolated far outside the measured range"
+        let mut quantity = if fit.is_extrapolation(t1.value) {
+            "T where K = 1 (ΔG° = 0), extrapolated".to_string()
         } else {
-            "T where K = 1 (ΔG° = 0)"
+            "T where K = 1 (ΔG° = 0)".to_string()
         };
+        // An infinite end of Fieller's interval is shown as "—"; the words say why.
+        match (t1.ci_low.is_finite(), t1.ci_high.is_finite()) {
+            (true, false) => quantity.push_str("; interval unbounded above"),
+            (false, true) => quantity.push_str("; interval unbounded below"),
+            (false, false) => quantity.push_str("; interval unbounded"),
+            (true, true) => {}
+        }
         rows.push(ResultRow::new(
-            quantity.to_string(),
+            quantity,
             None,
             Estimate {
                 value: tu.from_kelvin(t1.value),
