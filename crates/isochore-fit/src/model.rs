@@ -97,7 +97,7 @@ pub enum SigmaConvention {
 #[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
 #[serde(default)]
 pub struct FlagThresholds {
-    /// |externally studentized residual| above this marks an outlier candidate (default 3).
+    /// |externally studentized residual| above this flags an outlier (default 3).
     pub outlier_studentized: f64,
     /// Leverage above this × p/n marks high leverage (default 2, i.e. h > 2p/n).
     pub leverage_factor: f64,

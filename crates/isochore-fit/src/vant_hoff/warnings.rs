@@ -166,7 +166,7 @@ pub(super) fn cautions(fit: &VantHoffFit, flagged: usize, leverage_one: bool) ->
             warnings.push(Warning::new(
                 WarningKind::ScatterVersusSigma,
                 format!(
-                    "the scatter is larger than the stated σ allow (χ²/dof = {:.2}, p = {pv:.2e}); absolute-σ intervals are too narrow — use the scaled convention or revisit σ",
+                    "the scatter is larger than the stated σ allow (reduced χ² = {:.2}, p = {pv:.2e}); absolute-σ intervals are too narrow — use the scaled convention or revisit σ",
                     fit.stats.reduced_chi2
                 ),
             ));
@@ -174,7 +174,7 @@ pub(super) fn cautions(fit: &VantHoffFit, flagged: usize, leverage_one: bool) ->
             warnings.push(Warning::new(
                 WarningKind::ScatterVersusSigma,
                 format!(
-                    "the scatter is much smaller than the stated σ imply (χ²/dof = {:.2}); the σ may be overestimated",
+                    "the scatter is much smaller than the stated σ imply (reduced χ² = {:.2}); the σ may be overestimated",
                     fit.stats.reduced_chi2
                 ),
             ));

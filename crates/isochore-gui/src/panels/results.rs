@@ -177,7 +177,7 @@ impl ResultsPanel {
         }
         if !fit.warnings().is_empty() {
             ui.add_space(4.0);
-            ui.label(RichText::new("Cautions").strong());
+            ui.label(RichText::new("Warnings").strong());
             for w in fit.warnings() {
                 ui.horizontal_wrapped(|ui| {
                     ui.colored_label(flag, "⚠");

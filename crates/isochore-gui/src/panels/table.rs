@@ -201,7 +201,7 @@ impl TablePanel {
                         (
                             d.and_then(|d| d.student_ext.or(d.prediction_residual)),
                             d.is_some_and(|d| d.flags.outlier),
-                            "outlier candidate",
+                            "outlier",
                         ),
                         (
                             d.and_then(|d| d.cooks_d),

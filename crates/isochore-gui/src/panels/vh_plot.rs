@@ -510,7 +510,7 @@ pub fn point_card(
                     .kinds()
                     .iter()
                     .map(|k| match k {
-                        isochore_fit::FlagKind::Outlier => "outlier candidate",
+                        isochore_fit::FlagKind::Outlier => "outlier",
                         isochore_fit::FlagKind::HighLeverage => "high leverage",
                         isochore_fit::FlagKind::Influential => "influential",
                     })
