@@ -142,9 +142,9 @@ fn methods(input: &ReportInput) -> Vec<Block> {
         _ => "All points carry equal weight (unweighted least squares).",
     };
     let convention = if present::is_absolute(fit) {
-        "The stated uncertainties are taken as absolute: the parameter covariance is (XᵀWX)⁻¹ without rescaling, and intervals use the normal distribution."
+        "The stated uncertainties are taken as absolute: the parameter covariance is (XᵀWX)⁻¹ without rescaling, and intervals use the normal distribution. With σ known, the log-likelihood follows from χ², AICc and BIC count only the p coefficients (k = p), and the model comparison uses the likelihood-ratio (Δχ²) test."
     } else {
-        "The parameter covariance is scaled by the reduced χ² (the scatter about the fit sets the error scale), and intervals use Student's t with n − p degrees of freedom."
+        "The parameter covariance is scaled by the reduced χ² (the scatter about the fit sets the error scale), and intervals use Student's t with n − p degrees of freedom. With σ estimated from the scatter, AICc and BIC count the variance as well as the p coefficients (k = p + 1), and the model comparison uses the F-test."
     };
     out.push(Block::Paragraph(format!(
         "The {} model was fitted to ln K by least squares written directly in the thermodynamic parameters, so the fitted coefficients are {} with their full covariance:",

@@ -191,3 +191,20 @@ fn the_harmonic_mean_sentence_is_the_true_one() {
     );
     assert!(f.corr_h_s().abs() > 0.9, "{}", f.corr_h_s());
 }
+
+/// The report says which σ convention set the model comparison and the information
+/// criteria (issue 11 item 8): k = p + 1 and the F-test when the fit scales σ.
+#[test]
+fn the_report_names_the_comparison_convention() {
+    let inp = input("convention");
+    let html = String::from_utf8(render(&inp, ReportFormat::Html).unwrap()).unwrap();
+    assert_eq!(
+        inp.fit.options().convention,
+        isochore_fit::SigmaConvention::ScaledByFit
+    );
+    assert!(
+        html.contains("k = p + 1") && html.contains("F-test"),
+        "{html}"
+    );
+    assert!(!html.contains("likelihood-ratio"));
+}
