@@ -1,0 +1,189 @@
+//! The streaming path against the general solver, output by output.
+
+use super::*;
+use crate::least_squares::{solve, weighted_rss};
+use crate::model::SigmaConvention;
+use crate::vant_hoff::design;
+
+/// Curved, noisy, unequally weighted data with one excluded point (invented).
+fn data(n: usize) -> Vec<Measurement> {
+    let mut u = 0.25f64;
+    (0..n)
+        .map(|i| {
+            u = (u + 0.618_033_988_749_894_9) % 1.0;
+            let t = 278.15 + 60.0 * (i as f64 + u) / n as f64;
+            let x = Model::CONSTANT_CP.row(t, 298.15);
+            let sigma = 0.02 + 0.06 * u;
+            let m = Measurement::new(
+                t,
+                x[0] * -45e3 + x[1] * -60.0 + x[2] * -600.0 + sigma * (u - 0.5) * 3.0,
+            )
+            .with_sigma(sigma);
+            if i == 3 {
+                m.excluded()
+            } else {
+                m
+            }
+        })
+        .collect()
+}
+
+fn rel(a: f64, b: f64) -> f64 {
+    (a - b).abs() / b.abs().max(1e-300)
+}
+
+#[test]
+fn streaming_path_agrees_with_the_general_solver() {
+    // The general Householder solver (nalgebra QR with augmented-system refinement) is
+    // the reference; both are least squares, so they agree to rounding.
+    for n in [6usize, 50, 3000] {
+        let pts = data(n);
+        for model in [Model::LINEAR, Model::CONSTANT_CP] {
+            for weighting in [Weighting::InverseVariance, Weighting::Unweighted] {
+                let opts = FitOptions {
+                    model,
+                    weighting,
+                    ..FitOptions::default()
+                };
+                let fast = FastFit::try_new(&pts, &opts).expect("streaming path taken");
+                let used: Vec<usize> = (0..n).filter(|&i| pts[i].included).collect();
+                let y: Vec<f64> = used.iter().map(|&i| pts[i].ln_k).collect();
+                let w: Option<Vec<f64>> = (weighting == Weighting::InverseVariance).then(|| {
+                    used.iter()
+                        .map(|&i| 1.0 / pts[i].sigma_ln_k.unwrap().powi(2))
+                        .collect()
+                });
+                let x = design(&pts, &used, model, 298.15);
+                let general = solve(&x, &y, w.as_deref()).unwrap();
+                for (a, b) in fast.coefficients().iter().zip(&general.coefficients) {
+                    assert!(rel(*a, *b) < 1e-10, "n={n} {model:?}: {a} vs {b}");
+                }
+                assert!(rel(fast.rss, general.rss) < 1e-10);
+                let uc = fast.unscaled_covariance();
+                for (a, b) in uc.iter().zip(general.unscaled_covariance.iter()) {
+                    assert!(rel(*a, *b) < 1e-9, "{a} vs {b}");
+                }
+                let other = if model == Model::LINEAR {
+                    Model::CONSTANT_CP
+                } else {
+                    Model::LINEAR
+                };
+                let xo = design(&pts, &used, other, 298.15);
+                let rss_o = weighted_rss(&xo, &y, w.as_deref()).unwrap();
+                assert!(rel(fast.rss_other.unwrap(), rss_o) < 1e-10);
+                // Leverages through the full fit.
+                let f = crate::fit(&pts, &opts).unwrap();
+                let lev: Vec<f64> = f
+                    .points
+                    .iter()
+                    .filter(|d| d.used)
+                    .map(|d| d.leverage)
+                    .collect();
+                for (a, b) in lev.iter().zip(&general.leverages) {
+                    assert!((a - b).abs() < 1e-12, "{a} vs {b}");
+                }
+            }
+        }
+    }
+}
+
+#[test]
+fn every_output_agrees_with_the_general_path() {
+    // The whole fit, diagnostics and comparison included, through both engines.
+    let close = |a: f64, b: f64| (a - b).abs() <= 1e-9 * b.abs().max(1e-6);
+    let opt_close = |a: Option<f64>, b: Option<f64>| match (a, b) {
+        (Some(a), Some(b)) => close(a, b),
+        (None, None) => true,
+        _ => false,
+    };
+    for n in [5usize, 40, 2000] {
+        let mut pts = data(n);
+        pts[1].ln_k += 0.5; // an outlier, so flags are exercised
+        for model in [Model::LINEAR, Model::CONSTANT_CP] {
+            for weighting in [Weighting::InverseVariance, Weighting::Unweighted] {
+                for convention in [SigmaConvention::ScaledByFit, SigmaConvention::Absolute] {
+                    let opts = FitOptions {
+                        model,
+                        weighting,
+                        convention,
+                        ..FitOptions::default()
+                    };
+                    assert!(FastFit::try_new(&pts, &opts).is_some());
+                    let a = crate::vant_hoff::fit_with(&pts, &opts, true).unwrap();
+                    let b = crate::vant_hoff::fit_with(&pts, &opts, false).unwrap();
+                    for (x, y) in a.params.iter().zip(&b.params) {
+                        assert!(close(x.estimate.value, y.estimate.value));
+                        assert!(close(x.estimate.se, y.estimate.se));
+                    }
+                    assert!(close(a.stats.chi2, b.stats.chi2));
+                    assert!(close(a.stats.r2, b.stats.r2));
+                    assert!(close(a.stats.log_likelihood, b.stats.log_likelihood));
+                    let (ca, cb) = (a.comparison.unwrap(), b.comparison.unwrap());
+                    assert!(close(ca.f_statistic, cb.f_statistic), "{ca:?} {cb:?}");
+                    assert_eq!(ca.preferred, cb.preferred);
+                    assert_eq!(a.warnings.len(), b.warnings.len());
+                    for (x, y) in a.points.iter().zip(&b.points) {
+                        assert_eq!((x.index, x.used, x.flags), (y.index, y.used, y.flags));
+                        for (u, v) in [
+                            (x.fitted, y.fitted),
+                            (x.residual, y.residual),
+                            (x.weighted_residual, y.weighted_residual),
+                            (x.leverage, y.leverage),
+                            (x.prediction_se, y.prediction_se),
+                        ] {
+                            assert!(close(u, v), "n={n} point {}: {u} vs {v}", x.index);
+                        }
+                        for (u, v) in [
+                            (x.student_int, y.student_int),
+                            (x.student_ext, y.student_ext),
+                            (x.cooks_d, y.cooks_d),
+                            (x.dffits, y.dffits),
+                            (x.prediction_residual, y.prediction_residual),
+                        ] {
+                            assert!(opt_close(u, v), "n={n} point {}: {u:?} vs {v:?}", x.index);
+                        }
+                    }
+                }
+            }
+        }
+    }
+}
+
+#[test]
+fn hard_cases_take_the_general_path() {
+    let pts = data(20);
+    let opts = FitOptions::default();
+    // Two temperatures only: the ΔCp° column of the comparison is dependent.
+    let two: Vec<Measurement> = pts
+        .iter()
+        .enumerate()
+        .map(|(i, m)| Measurement {
+            t_k: if i % 2 == 0 { 290.0 } else { 300.0 },
+            ..*m
+        })
+        .collect();
+    assert!(FastFit::try_new(&two, &opts).is_none());
+    // Two temperatures leave the linear model no error estimate from the scatter …
+    assert!(matches!(
+        crate::fit(&two, &opts),
+        Err(crate::Error::TooFewTemperatures { distinct: 2, .. })
+    ));
+    // … but with absolute σ it is fitted, and the ΔCp° comparison is left out.
+    let absolute = FitOptions {
+        convention: crate::SigmaConvention::Absolute,
+        ..opts
+    };
+    assert!(crate::fit(&two, &absolute).unwrap().comparison.is_none());
+    // A missing σ and a bad level are reported by the one validation before either path.
+    let mut missing = pts.clone();
+    missing[5].sigma_ln_k = None;
+    assert_eq!(
+        crate::fit(&missing, &opts).unwrap_err(),
+        crate::Error::MissingSigma { index: 5 }
+    );
+    let bad = FitOptions { level: 2.0, ..opts };
+    assert_eq!(
+        crate::fit(&pts, &bad).unwrap_err(),
+        crate::Error::InvalidLevel(2.0)
+    );
+}
