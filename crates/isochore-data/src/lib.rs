@@ -32,6 +32,7 @@
 
 #![deny(missing_docs)]
 
+pub mod atomic;
 pub mod error;
 pub mod export;
 mod header;

@@ -427,7 +427,9 @@ impl Project {
     /// temporary copy, synced, renamed), then renames the temporary file over the target and
     /// syncs the folder. A crash at any moment leaves the old or the new file complete, and
     /// a complete `.bak`; a killed save may leave `.isochore-save-*.tmp` files behind, which
-    /// are never read as projects.
+    /// are never read as projects and which the next save in that folder removes (see
+    /// [`crate::atomic`]). The project gets the permissions of any new file (the umask
+    /// applies), not a temporary file's private ones.
     ///
     /// # Errors
     /// [`Error::Io`].
@@ -443,11 +445,10 @@ impl Project {
             _ => std::path::PathBuf::from("."),
         };
         let json = self.to_json();
-        let mut tmp = tempfile::Builder::new()
-            .prefix(".isochore-save-")
-            .suffix(".tmp")
-            .tempfile_in(&dir)
-            .map_err(io)?;
+        // What killed saves left here goes first (never a file of a save still running).
+        crate::atomic::remove_stale_save_temporaries(&dir);
+        // Created with a new file's permissions, so the project gets them when renamed.
+        let mut tmp = crate::atomic::temporary_in(&dir).map_err(io)?;
         tmp.write_all(json.as_bytes()).map_err(io)?;
         tmp.write_all(b"\n").map_err(io)?;
         tmp.as_file().sync_all().map_err(io)?;
@@ -456,11 +457,7 @@ impl Project {
             // synced, then renamed, so that a crash never leaves a half-copied `.bak`.
             let mut bak = path.as_os_str().to_owned();
             bak.push(".bak");
-            let old = tempfile::Builder::new()
-                .prefix(".isochore-save-")
-                .suffix(".tmp")
-                .tempfile_in(&dir)
-                .map_err(io)?;
+            let old = crate::atomic::temporary_in(&dir).map_err(io)?;
             std::fs::copy(path, old.path()).map_err(io)?;
             old.as_file().sync_all().map_err(io)?;
             old.persist(&bak).map_err(|e| io(e.error))?;
