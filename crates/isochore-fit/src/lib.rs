@@ -54,8 +54,8 @@ pub use derived::{BandPoint, Interval, Prediction, ValuePrediction};
 pub use diagnostics::{FlagKind, Flags, PointDiagnostics};
 pub use error::Error;
 pub use global::{
-    fit_global, test_equal_across_series, EqualityTest, GlobalColumn, GlobalError, GlobalFit,
-    SeriesInput, Sharing, SharingMap,
+    fit_global, test_equal_across_series, EqualityMethod, EqualityTest, GlobalColumn, GlobalError,
+    GlobalFit, SeriesDifference, SeriesInput, Sharing, SharingMap,
 };
 pub use measurement::Measurement;
 pub use model::{

@@ -7,7 +7,29 @@ use super::result::GlobalFit;
 use super::{fit_global, SeriesInput, Sharing, SharingMap};
 use crate::model::{FitOptions, SigmaConvention};
 use crate::stats::{chi2_upper_tail, f_upper_tail};
+use crate::vant_hoff::format_p;
 use serde::Serialize;
+
+/// Which test decides: the extra-sum-of-squares F-test when the fit scales σ by the
+/// residual scatter, Δχ² against χ²(q) when σ are known (absolute σ, weighted).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum EqualityMethod {
+    /// F = (Δχ²/q)/(χ²_f/(n − p_f)) against F(q, n − p_f).
+    F,
+    /// Δχ² = χ²_r − χ²_f against χ²(q).
+    Chi2,
+}
+
+impl EqualityMethod {
+    /// The key written in JSON: `"F"` or `"chi2"`.
+    pub fn key(self) -> &'static str {
+        match self {
+            EqualityMethod::F => "F",
+            EqualityMethod::Chi2 => "chi2",
+        }
+    }
+}
 
 /// The test of a restricted fit (some parameters shared) against a full one (those
 /// parameters per series) on the same data.
@@ -155,6 +177,80 @@ impl EqualityTest {
     /// either AICc is undefined.
     pub fn delta_aicc(&self) -> Option<f64> {
         self.delta_aicc
+    }
+
+    /// The test that decides: Δχ² when σ are known (absolute σ, weighted), else F.
+    pub fn method(&self) -> EqualityMethod {
+        if self.chi2_p_value.is_some() {
+            EqualityMethod::Chi2
+        } else {
+            EqualityMethod::F
+        }
+    }
+
+    /// The statistic of [`EqualityTest::method`]: F, or Δχ² = χ²_r − χ²_f (never negative).
+    pub fn statistic(&self) -> f64 {
+        match self.method() {
+            EqualityMethod::F => self.f_statistic,
+            EqualityMethod::Chi2 => {
+                (self.restricted.statistics().chi2 - self.full.statistics().chi2).max(0.0)
+            }
+        }
+    }
+
+    /// The p-value of [`EqualityTest::method`].
+    pub fn decisive_p_value(&self) -> f64 {
+        self.chi2_p_value.unwrap_or(self.p_value)
+    }
+
+    /// Whether the parameters differ between the series at the fits' significance level
+    /// (1 − confidence level): the decisive p-value below it.
+    pub fn rejects_equality(&self) -> bool {
+        self.decisive_p_value() < 1.0 - self.full.options().level
+    }
+
+    /// The verdict in words, with the statistic, its degrees of freedom and the p-value.
+    pub fn verdict(&self) -> String {
+        let symbols: Vec<&str> = self
+            .full
+            .model()
+            .params()
+            .iter()
+            .filter(|p| self.keys.contains(&p.key))
+            .map(|p| p.symbol)
+            .collect();
+        let what = match symbols.split_last() {
+            Some((last, rest)) if !rest.is_empty() => format!("{} and {last}", rest.join(", ")),
+            _ => symbols.join(""),
+        };
+        let (verb, value, values) = if symbols.len() == 1 {
+            ("differs", "value", "value")
+        } else {
+            ("differ", "values", "values")
+        };
+        let stat = match self.method() {
+            EqualityMethod::F => format!(
+                "F = {:.3} on {} and {} degrees of freedom",
+                self.f_statistic, self.df_num, self.df_den
+            ),
+            EqualityMethod::Chi2 => format!(
+                "Δχ² = {:.3} on {} degree{} of freedom, σ taken as known",
+                self.statistic(),
+                self.df_num,
+                if self.df_num == 1 { "" } else { "s" }
+            ),
+        };
+        let alpha = crate::vant_hoff::comparison_percent(1.0 - self.full.options().level);
+        let p = format_p(self.decisive_p_value());
+        if self.rejects_equality() {
+            format!(
+                "{what} {verb} between the series ({stat}, {p}): sharing is rejected at the {alpha}% level; quote the separate {values}"
+            )
+        } else {
+            format!(
+                "no evidence that {what} {verb} between the series ({stat}, {p}): the shared {value} is consistent with the data at the {alpha}% level (which does not prove the series equal)"
+            )
+        }
     }
 
     /// The fit with the tested parameters shared.

@@ -34,13 +34,15 @@
 //! assert!((f.shared("delta_s").unwrap().value - 50.0).abs() < 1e-9);
 //! ```
 
+mod contrast;
 mod design;
 mod equality;
 mod error;
 mod result;
 
+pub use contrast::SeriesDifference;
 pub use design::GlobalColumn;
-pub use equality::{test_equal_across_series, EqualityTest};
+pub use equality::{test_equal_across_series, EqualityMethod, EqualityTest};
 pub use error::GlobalError;
 pub use result::GlobalFit;
 
@@ -238,6 +240,22 @@ pub fn fit_global(
             "the numbers are too large or too small to compute with; check the units (temperatures in kelvin, ln K rather than K, σ of ln K) and the reference temperature".into(),
         ));
     }
+    let ranges: Vec<(String, f64, f64)> = series
+        .iter()
+        .map(|input| {
+            let (lo, hi) = input
+                .points
+                .iter()
+                .filter(|m| m.included)
+                .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), m| {
+                    (lo.min(m.t_k), hi.max(m.t_k))
+                });
+            (input.label.to_string(), lo, hi)
+        })
+        .collect();
+    let warnings = contrast::disjoint_ranges_warning(&ranges)
+        .into_iter()
+        .collect();
     Ok(GlobalFit {
         options: *options,
         labels: series.iter().map(|s| s.label.to_string()).collect(),
@@ -253,5 +271,6 @@ pub fn fit_global(
         critical_value,
         variance_scale,
         points,
+        warnings,
     })
 }

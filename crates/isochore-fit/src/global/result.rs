@@ -31,6 +31,7 @@ pub struct GlobalFit {
     pub(super) critical_value: f64,
     pub(super) variance_scale: f64,
     pub(super) points: Vec<Vec<PointDiagnostics>>,
+    pub(super) warnings: Vec<String>,
 }
 
 impl GlobalFit {
@@ -177,6 +178,12 @@ impl GlobalFit {
             .iter()
             .enumerate()
             .flat_map(|(s, pts)| pts.iter().map(move |d| (s, d)))
+    }
+
+    /// Cautions in words about the fit as a whole (series over temperature ranges that do
+    /// not overlap).
+    pub fn warnings(&self) -> &[String] {
+        &self.warnings
     }
 
     /// The position of `key` among the model's parameters.

@@ -23,6 +23,7 @@ pub use result::{Estimate, Parameter, ThermoAt, VantHoffFit};
 pub use statistics::FitStatistics;
 pub use warnings::{unbounded_interval, Warning, WarningKind, FEW_DOF, STRONG_CORRELATION};
 
+pub(crate) use comparison::percent as comparison_percent;
 pub(crate) use engines::Solved;
 #[cfg(test)]
 pub(crate) use inputs::design;
