@@ -3,12 +3,14 @@
 //! readable table or the JSON contract, and write reports.
 //!
 //! Exit codes: 0 success, 1 some input could not be used (the message on stderr names the
-//! file, line and column) or the output could not be written, 2 bad usage (clap's own usage
+//! file, line and column), the output could not be written or no window could be opened
+//! (no display), 2 bad usage (clap's own usage
 //! errors included). A closed stdout (broken pipe) ends the run quietly with 0; see
 //! [`output`], the one path every byte to the terminal takes.
 
 mod cli;
 mod fit_cmd;
+mod joint_cmd;
 mod load;
 mod output;
 mod predict_cmd;
@@ -110,10 +112,32 @@ fn usage_or_help(e: &clap::Error) -> ExitCode {
     }
 }
 
-/// Opens the desktop workbench.
+/// Opens the desktop workbench. With no display to open it on, says so in one line and
+/// points to the command line (exit 1) instead of passing on the windowing library's error.
 #[cfg(feature = "gui")]
 fn open_window() -> Result<(), Failure> {
-    isochore_gui::run(None).map_err(Failure::input)
+    if let Some(message) = no_display() {
+        return Err(Failure::input(message));
+    }
+    isochore_gui::run(None).map_err(|e| {
+        let first = e.lines().next().unwrap_or("").trim();
+        Failure::input(format!(
+            "the window could not open ({first}); the command line needs no window: see vhfit --help"
+        ))
+    })
+}
+
+/// On Linux and the BSDs, a window needs an X11 or Wayland display: the message when neither
+/// `DISPLAY` nor `WAYLAND_DISPLAY` is set (or both are empty). Other systems always have one.
+#[cfg(feature = "gui")]
+fn no_display() -> Option<String> {
+    if cfg!(any(windows, target_os = "macos")) {
+        return None;
+    }
+    let set = |name: &str| std::env::var_os(name).is_some_and(|v| !v.is_empty());
+    (!set("DISPLAY") && !set("WAYLAND_DISPLAY")).then(|| {
+        "no display to open the window on (neither DISPLAY nor WAYLAND_DISPLAY is set); the command line works without one: see vhfit --help".to_string()
+    })
 }
 
 /// Built without the window: say so and show the subcommands.
