@@ -156,8 +156,9 @@ pub struct FitArgs {
     /// Leave the per-point table out (JSON: no "points"; text: one row per series).
     #[arg(long)]
     pub summary: bool,
-    /// Write reports: a file (.html, .pdf, .md, .csv, .svg, .png) for one series, or a folder
-    /// that receives every format for each series.
+    /// Write reports: a file (.html, .pdf, .md, .svg, .png; x.csv is the results table,
+    /// x-data.csv the data table) for one series, or a folder that receives every format for
+    /// each series.
     #[arg(long, value_name = "PATH")]
     pub report: Option<PathBuf>,
 }

@@ -409,7 +409,12 @@ fn report_format_follows_the_suffix() {
     let path = demo("acid_pka.csv");
     for ext in ["html", "md", "csv", "svg", "png", "pdf"] {
         let dir = tempfile::tempdir().unwrap();
-        let target = dir.path().join(format!("r.{ext}"));
+        // `r.csv` is the results table (tests/headless.rs); `r-data.csv` the data table.
+        let name = match ext {
+            "csv" => "r-data.csv".to_string(),
+            _ => format!("r.{ext}"),
+        };
+        let target = dir.path().join(name);
         let out = run(&["fit", &path, "--summary", "--report", &s(&target)]);
         assert_eq!(
             out.status.code(),
@@ -472,7 +477,7 @@ fn report_format_follows_the_suffix() {
                 for l in t.lines().skip(1) {
                     assert!(l.split(',').count() >= cols, "{l}");
                 }
-                assert_eq!(names, ["r.csv"]);
+                assert_eq!(names, ["r-data.csv"]);
             }
             "svg" => {
                 let t = text();

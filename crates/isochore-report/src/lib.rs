@@ -131,15 +131,29 @@ impl ReportFormat {
         }
     }
 
-    /// The format a path's extension asks for: `.html`/`.htm`, `.pdf`, `.md`, `.csv` (the
-    /// data table), `.svg` and `.png` (the van 't Hoff figure). `None` for anything else.
+    /// The format a path's extension asks for: `.html`/`.htm`, `.pdf`, `.md`, `.csv`, `.svg`
+    /// and `.png` (the van 't Hoff figure). `None` for anything else. A `.csv` name is the
+    /// results table, as a report's CSV is read first for its results, unless the name ends
+    /// in `-data.csv` or `_data.csv` (the name a report set gives the data table), which is
+    /// the data table.
     pub fn from_path(path: &Path) -> Option<ReportFormat> {
         let ext = path.extension()?.to_str()?.to_ascii_lowercase();
         Some(match ext.as_str() {
             "html" | "htm" => ReportFormat::Html,
             "pdf" => ReportFormat::Pdf,
             "md" | "markdown" => ReportFormat::Markdown,
-            "csv" => ReportFormat::DataCsv,
+            "csv" => {
+                let stem = path
+                    .file_stem()
+                    .and_then(|s| s.to_str())
+                    .unwrap_or("")
+                    .to_ascii_lowercase();
+                if stem.ends_with("-data") || stem.ends_with("_data") {
+                    ReportFormat::DataCsv
+                } else {
+                    ReportFormat::ResultsCsv
+                }
+            }
             "svg" => ReportFormat::FigureSvg(FigureKind::VantHoff),
             "png" => ReportFormat::FigurePng(FigureKind::VantHoff),
             _ => return None,
