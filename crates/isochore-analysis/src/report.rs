@@ -4,7 +4,7 @@
 
 use crate::dataset::DataSet;
 use isochore_fit::VantHoffFit;
-use isochore_report::{ReportInput, ReportRow};
+use isochore_report::{Record, ReportInput, ReportRow};
 
 /// The program's version, recorded in reports ("program: isochore 0.1.0") and in the JSON
 /// contract. Every crate of the workspace carries the same version.
@@ -55,6 +55,52 @@ pub fn report_input(set: &DataSet, fit: VantHoffFit, extra: &[(String, String)])
         energy_unit: set.energy,
         temperature_unit: set.temperature,
         program_version: VERSION.to_string(),
+        record: Record {
+            analysed_at: utc_minutes(now_unix()),
+            ..Record::default()
+        },
         settings,
+    }
+}
+
+/// Seconds since 1970-01-01 UTC by the system clock (0 when the clock is before 1970).
+pub fn now_unix() -> i64 {
+    std::time::SystemTime::now()
+        .duration_since(std::time::UNIX_EPOCH)
+        .map_or(0, |d| d.as_secs() as i64)
+}
+
+/// A time as a report's record writes it: "2026-12-02 18:50 UTC".
+pub fn utc_minutes(unix_seconds: i64) -> String {
+    // Civil date from days since the epoch (H. Hinnant's public-domain algorithm).
+    let days = unix_seconds.div_euclid(86_400);
+    let secs = unix_seconds.rem_euclid(86_400);
+    let z = days + 719_468;
+    let era = z.div_euclid(146_097);
+    let doe = z - era * 146_097;
+    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
+    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
+    let mp = (5 * doy + 2) / 153;
+    let d = doy - (153 * mp + 2) / 5 + 1;
+    let m = if mp < 10 { mp + 3 } else { mp - 9 };
+    let y = yoe + era * 400 + i64::from(m <= 2);
+    format!(
+        "{y:04}-{m:02}-{d:02} {:02}:{:02} UTC",
+        secs / 3600,
+        secs % 3600 / 60
+    )
+}
+
+#[cfg(test)]
+mod tests {
+    use super::utc_minutes;
+
+    #[test]
+    fn times_are_written_as_civil_dates() {
+        // `date -u -d @0`, `date -u -d @951782400` (29 Feb 2000, a leap day of a century
+        // leap year) and `date -u -d @1796158800` (GNU date, run offline).
+        assert_eq!(utc_minutes(0), "1970-01-01 00:00 UTC");
+        assert_eq!(utc_minutes(951_782_400), "2000-02-29 00:00 UTC");
+        assert_eq!(utc_minutes(1_796_158_800), "2026-12-01 21:00 UTC");
     }
 }

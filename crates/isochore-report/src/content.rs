@@ -307,6 +307,21 @@ fn comparison(fit: &VantHoffFit) -> Vec<Block> {
     ]
 }
 
+/// The lab record in one sentence: when, by whom, with which program and version
+/// ("Analysed 2026-12-02 18:50 UTC by A. Chemist with vhfit 0.1.0.").
+pub fn record_line(input: &ReportInput) -> String {
+    let r = &input.record;
+    let mut s = String::from("Analysed");
+    if !r.analysed_at.trim().is_empty() {
+        s.push_str(&format!(" {}", r.analysed_at.trim()));
+    }
+    if let Some(a) = r.analyst.as_deref().filter(|a| !a.trim().is_empty()) {
+        s.push_str(&format!(" by {}", a.trim()));
+    }
+    s.push_str(&format!(" with vhfit {}.", input.program_version));
+    s
+}
+
 /// Builds the whole report as blocks, in reading order.
 pub fn build(input: &ReportInput) -> Vec<Block> {
     let fit = &input.fit;
@@ -316,7 +331,16 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
     let mut b = vec![
         Block::Title(input.title.clone()),
         Block::Lead(job_line(input)),
+        Block::Paragraph(record_line(input)),
     ];
+    if let Some(note) = input
+        .record
+        .note
+        .as_deref()
+        .filter(|n| !n.trim().is_empty())
+    {
+        b.push(Block::Paragraph(format!("Note: {}", note.trim())));
+    }
 
     // Results first: that is what the reader came for.
     b.push(Block::Heading("Results".into()));
@@ -465,6 +489,7 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
         vec!["program".into(), format!("vhfit {}", input.program_version)],
         vec!["source file".into(), input.source_name.clone()],
         vec!["source SHA-256".into(), input.source_sha256.clone()],
+        vec!["analysed".into(), input.record.analysed_at.clone()],
         vec!["series".into(), input.series_name.clone()],
         vec!["model".into(), o.model.key().to_string()],
         vec![

@@ -68,6 +68,18 @@ pub struct ReportRow {
     pub exclusion_reason: Option<String>,
 }
 
+/// The lab record of an analysis: when it was made, by whom, and the analyst's note.
+#[derive(Debug, Clone, Default, PartialEq, Eq)]
+pub struct Record {
+    /// When the analysis was made, as the report writes it ("2026-12-02 18:50 UTC");
+    /// empty when unknown.
+    pub analysed_at: String,
+    /// The analyst's name, when given.
+    pub analyst: Option<String>,
+    /// A free-text note, when given (shown under the record line).
+    pub note: Option<String>,
+}
+
 /// Everything a report shows. Build it once and hand it to [`render`] for each format.
 #[derive(Debug, Clone)]
 pub struct ReportInput {
@@ -94,6 +106,8 @@ pub struct ReportInput {
     pub temperature_unit: TemperatureUnit,
     /// Version of the program that made the fit.
     pub program_version: String,
+    /// When the analysis was made, by whom, and the analyst's note.
+    pub record: Record,
     /// Further settings worth recording so the fit can be repeated (name, value), beyond the
     /// fit options, which are always listed.
     pub settings: Vec<(String, String)>,

@@ -450,10 +450,22 @@ pub(crate) fn render(input: &ReportInput) -> Result<Vec<u8>, ReportError> {
     let next_blocks = build(input);
     let blocks = build(input);
     for (i, block) in blocks.into_iter().enumerate() {
-        // Keep a heading on the same page as a figure that follows it.
+        // Keep a heading on the same page as a figure that follows it, with the
+        // paragraphs between them.
         if matches!(block, Block::Heading(_)) {
-            if let Some(Block::Figure(..)) = next_blocks.get(i + 1) {
-                l.ensure(40.0 + l.width() * HEIGHT_OVER_WIDTH + 40.0);
+            let mut between = 0.0;
+            for next in &next_blocks[i + 1..] {
+                match next {
+                    Block::Paragraph(t) => {
+                        let lines = l.wrap(t, l.width(), BODY, false).len() as f32;
+                        between += lines * BODY * 1.38 + BODY * 0.6;
+                    }
+                    Block::Figure(..) => {
+                        l.ensure(40.0 + between + l.width() * HEIGHT_OVER_WIDTH + 40.0);
+                        break;
+                    }
+                    _ => break,
+                }
             }
         }
         match block {

@@ -50,6 +50,7 @@ fn input(name: &str) -> ReportInput {
         energy_unit: EnergyUnit::KilocaloriePerMole,
         temperature_unit: TemperatureUnit::Celsius,
         program_version: "test".into(),
+        record: isochore_report::Record::default(),
         settings: vec![],
     }
 }
@@ -207,4 +208,34 @@ fn the_report_names_the_comparison_convention() {
         "{html}"
     );
     assert!(!html.contains("likelihood-ratio"));
+}
+
+#[test]
+fn the_lab_record_is_in_every_document() {
+    let mut inp = input("record <test>");
+    inp.program_version = "9.8.7".into();
+    inp.record = isochore_report::Record {
+        analysed_at: "2026-12-02 18:50 UTC".into(),
+        analyst: Some("A. Chemist & co".into()),
+        note: Some("buffer B, second instrument".into()),
+    };
+    let html = String::from_utf8(render(&inp, ReportFormat::Html).unwrap()).unwrap();
+    assert!(
+        html.contains("Analysed 2026-12-02 18:50 UTC by A. Chemist &amp; co with vhfit 9.8.7."),
+        "{html}"
+    );
+    assert!(html.contains("Note: buffer B, second instrument"));
+    let md = String::from_utf8(render(&inp, ReportFormat::Markdown).unwrap()).unwrap();
+    // (Markdown escapes the ampersand its own way.)
+    assert!(
+        md.contains("Analysed 2026-12-02 18:50 UTC by A. Chemist"),
+        "{md}"
+    );
+    assert!(md.contains("co with vhfit 9.8.7."));
+    // Without a name or note, the date and program remain and nothing is left dangling.
+    inp.record.analyst = Some("  ".into());
+    inp.record.note = None;
+    let md = String::from_utf8(render(&inp, ReportFormat::Markdown).unwrap()).unwrap();
+    assert!(md.contains("Analysed 2026-12-02 18:50 UTC with vhfit 9.8.7."));
+    assert!(!md.contains("Note:"));
 }

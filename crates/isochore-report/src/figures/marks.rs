@@ -73,16 +73,49 @@ where
         .zip(pts)
         .filter(|(_, p)| finite(p) && (!p.used || p.flags.any()))
         .take(60)
-        .map(|(r, p)| {
-            EmptyElement::at(pos(p))
-                + Text::new(
-                    format!("row {}", r.row),
-                    (10, -20),
-                    (FONT, NOTE_SIZE).into_font().color(&GREY),
-                )
-        })
+        .map(|(r, p)| (pos(p), format!("row {}", r.row)))
         .collect();
-    chart.draw_series(labels).map_err(fe)?;
+    draw_labels(chart, labels)
+}
+
+/// Writes a short label beside each point, each placed where it overlaps no label already
+/// written and stays inside the plotting area (above right, below right, above left, below
+/// left; a label with no free place is left out rather than drawn over another).
+pub(super) fn draw_labels<'a, 'b, CT>(
+    chart: &mut ChartContext<'a, SVGBackend<'b>, CT>,
+    labels: Vec<((f64, f64), String)>,
+) -> Result<(), ReportError>
+where
+    CT: CoordTranslate<From = (f64, f64)>,
+{
+    let (xr, yr) = chart.plotting_area().get_pixel_range();
+    let h = NOTE_SIZE as i32;
+    let mut taken: Vec<(i32, i32, i32, i32)> = Vec::new();
+    let mut placed = Vec::new();
+    for (at, text) in labels {
+        let (px, py) = chart.plotting_area().map_coordinate(&at);
+        // DejaVu Sans averages a little under 0.6 em per character.
+        let w = (text.chars().count() as f32 * NOTE_SIZE as f32 * 0.6).ceil() as i32;
+        let tries = [(9, -h - 6), (9, 6), (-w - 9, -h - 6), (-w - 9, 6)];
+        let free = tries.into_iter().find(|&(dx, dy)| {
+            let b = (px + dx, py + dy, px + dx + w, py + dy + h);
+            b.0 >= xr.start
+                && b.2 <= xr.end
+                && b.1 >= yr.start
+                && b.3 <= yr.end
+                && !taken
+                    .iter()
+                    .any(|t| b.0 < t.2 && t.0 < b.2 && b.1 < t.3 && t.1 < b.3)
+        });
+        if let Some((dx, dy)) = free {
+            taken.push((px + dx, py + dy, px + dx + w, py + dy + h));
+            placed.push(
+                EmptyElement::at(at)
+                    + Text::new(text, (dx, dy), (FONT, NOTE_SIZE).into_font().color(&GREY)),
+            );
+        }
+    }
+    chart.draw_series(placed).map_err(fe)?;
     Ok(())
 }
 

@@ -432,7 +432,7 @@ fn no_data(root: &Area, what: &str) -> Result<(), ReportError> {
 mod marks;
 mod plots;
 
-use marks::{draw_flag_rings, draw_points, draw_used_envelope, Rings};
+use marks::{draw_flag_rings, draw_labels, draw_points, draw_used_envelope, Rings};
 use plots::{ellipse, influence, residuals, vant_hoff};
 
 #[cfg(test)]

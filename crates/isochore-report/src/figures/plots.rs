@@ -241,8 +241,11 @@ pub(super) fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportEr
             .map_err(fe)?;
     }
     // Cook's distance contours at the flag limit and at D = 1, 200 leverages across the plot.
+    // Each is named in the key, told apart by its dashes: a label on the plot would sit
+    // where the curves converge, and a curve would strike through it.
     for (i, d) in limits.contour_levels().into_iter().enumerate() {
         let style = GREEN.stroke_width(2);
+        let (dash, gap) = if i == 0 { (12, 5) } else { (4, 4) };
         let upper = cooks_contour_external(d, fit.params().len(), fit.dof(), x1 / 200.0, x1, 200);
         let curve = |sign: f64| -> Vec<(f64, f64)> {
             upper
@@ -257,34 +260,17 @@ pub(super) fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportEr
                 continue;
             }
             let s = chart
-                .draw_series(DashedLineSeries::new(c.clone(), 10, 5, style))
+                .draw_series(DashedLineSeries::new(c.clone(), dash, gap, style))
                 .map_err(fe)?;
-            if sign > 0.0 && i == 0 {
-                s.label("Cook's distance contours").legend(move |(x, y)| {
-                    DashedPathElement::new(vec![(x, y), (x + 22, y)], 6, 4, style)
-                });
-            }
-            if let Some(&(h, r)) = c.last() {
+            if sign > 0.0 {
                 let text = if i == 0 {
-                    format!("D = {} (flag limit)", fixed(d, 2))
+                    format!("Cook's D = {} (flag limit)", fixed(d, 2))
                 } else {
-                    "D = 1".to_string()
+                    format!("Cook's D = {}", fixed(d, 2))
                 };
-                chart
-                    .draw_series(std::iter::once(
-                        EmptyElement::at((h, r))
-                            + Text::new(
-                                text,
-                                // The flag limit's longer label starts further left, so
-                                // it ends inside the frame.
-                                (
-                                    if i == 0 { -190 } else { -70 },
-                                    if sign > 0.0 { -24 } else { 10 },
-                                ),
-                                (FONT, NOTE_SIZE).into_font().color(&GREEN),
-                            ),
-                    ))
-                    .map_err(fe)?;
+                s.label(text).legend(move |(x, y)| {
+                    DashedPathElement::new(vec![(x, y), (x + 22, y)], dash, gap, style)
+                });
             }
         }
     }
@@ -314,16 +300,8 @@ pub(super) fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportEr
         draw_flag_rings(&mut chart, &flagged, Rings::Each, "flagged point".into())?;
     }
     if used.len() <= 40 {
-        chart
-            .draw_series(used.iter().map(|&(row, h, r, _)| {
-                EmptyElement::at((h, r))
-                    + Text::new(
-                        row.to_string(),
-                        (8, -18),
-                        (FONT, NOTE_SIZE).into_font().color(&GREY),
-                    )
-            }))
-            .map_err(fe)?;
+        let labels = used.iter().map(|&(row, h, r, _)| ((h, r), row.to_string()));
+        draw_labels(&mut chart, labels.collect())?;
     }
     let occupied: Vec<(f64, f64)> = used.iter().map(|u| (u.1, u.2)).collect();
     draw_key(
