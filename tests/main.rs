@@ -1,7 +1,10 @@
 //! The one integration-test binary of this package: one module per subject.
 
 mod cli;
+mod columns;
 mod headless;
 mod hostile_cli;
 mod hostile_input;
+mod joint_cli;
 mod promises;
+mod vocabulary;

@@ -318,6 +318,7 @@ fn load_text(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
                 .map(|r| format!("skipped {}", r.message())),
         );
     }
+    notes.extend(crate::columns::unused_columns_note(&imp.mapping, &imp.headers));
     let excluded: Vec<usize> = o.exclude.rows.iter().map(|r| r.get()).collect();
     let requested = o.apply(FitOptions::default());
     let conversions = imp.describe_mapping();
@@ -477,7 +478,9 @@ impl DataSet {
             options: weighed.options,
             energy: o.energy_unit.unwrap_or(s.settings.energy_unit),
             temperature: s.settings.temperature_unit,
-            warnings: Vec::new(),
+            warnings: crate::columns::unused_columns_note(&s.mapping, &s.headers)
+                .into_iter()
+                .collect(),
             settings: vec![replicates_setting(s.settings.replicates)],
         };
         set.finish(averaged, weighed.note);

@@ -8,6 +8,7 @@
 //! - [`weighting`]: the weighting a data set gets (no σ at all: unweighted, with a note;
 //!   σ in some rows only: refused with the line and column of the first empty cell).
 //! - [`files`]: how a project file is recognised, and the names of report files.
+//! - [`columns`]: the note naming the columns of a file kept but not used.
 //! - [`rows`]: row numbers, 1-based for people, converted to 0-based indices in one place.
 //! - [`dataset`]: a file or a project's data set turned into a [`DataSet`] ready to fit, the
 //!   caller's [`Overrides`] laid over the file's settings, and typed refusals that name the
@@ -20,6 +21,7 @@
 
 #![deny(missing_docs)]
 
+pub mod columns;
 pub mod dataset;
 pub mod files;
 pub mod json;
@@ -27,6 +29,7 @@ pub mod report;
 pub mod rows;
 pub mod weighting;
 
+pub use columns::unused_columns_note;
 pub use dataset::{
     load, DataSet, Exclusions, FitFailure, LoadError, Overrides, PointOrigin, Remedy,
 };

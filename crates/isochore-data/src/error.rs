@@ -204,7 +204,19 @@ pub enum Error {
         /// The header text.
         header: String,
     },
-    /// A header that is not recognised.
+    /// A column choice of the caller names a column the file does not have.
+    NoSuchColumn {
+        /// The file name.
+        file: String,
+        /// The header line.
+        line: usize,
+        /// The choice as typed (`temperature=T_degC`).
+        choice: String,
+        /// All headers found.
+        found: Vec<String>,
+    },
+    /// A header that is not recognised (only when unknown columns are refused, see
+    /// `ImportOptions::ignore_unknown_columns`).
     UnknownHeader {
         /// The file name.
         file: String,
@@ -392,7 +404,8 @@ pub const ACCEPTED_HEADERS: &str = "temperature: T, temp, temperature with a uni
 'T (°C)', 'T/K', 'T_C', 'temp_K' or 'T [°F]'; measured quantity: K, Ka, Kb, Keq, ln K, log K, \
 log10 K, lgK, pK, pKa, pKa2, pKw, pKb, pKd, Kd (M, mM, µM, uM, nM, pM), ΔG or dG (kJ/mol, \
 kcal/mol, J/mol); uncertainty: sigma_…, sd_…, err_…, u(…), ±, σ, error, or a relative '%' \
-column; data set: series, sample, condition, set, group; free text: note, comment, remark";
+column; data set: series, sample, sample id, condition, set, group (else name, label, run); free \
+text: note, comment, remark; any other column is kept but not used";
 
 impl fmt::Display for Error {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
@@ -425,6 +438,11 @@ impl fmt::Display for Error {
             Error::DuplicateHeader { file, line, first, second, header } => write!(
                 f,
                 "{file}: line {line}, column {second} ('{header}'): the same header as column {first}; rename or delete one of them"
+            ),
+            Error::NoSuchColumn { file, line, choice, found } => write!(
+                f,
+                "{file}: line {line}: the column choice '{choice}' names no column of the file; columns found: {}",
+                numbered_list(found)
             ),
             Error::UnknownHeader { file, line, column, header, found } => write!(
                 f,
@@ -517,5 +535,14 @@ impl std::error::Error for Error {}
 
 fn quote_list(items: &[String]) -> String {
     let v: Vec<String> = items.iter().map(|h| format!("'{h}'")).collect();
+    v.join(", ")
+}
+
+fn numbered_list(items: &[String]) -> String {
+    let v: Vec<String> = items
+        .iter()
+        .enumerate()
+        .map(|(i, h)| format!("{} '{h}'", i + 1))
+        .collect();
     v.join(", ")
 }

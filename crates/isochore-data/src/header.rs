@@ -17,7 +17,7 @@ use isochore_fit::{ConcentrationUnit, EnergyUnit, QuantityKind, TemperatureUnit}
 
 /// Family of a recognised name, before its unit is known.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
-enum Fam {
+pub(crate) enum Fam {
     Temp,
     K,
     LnK,
@@ -28,12 +28,16 @@ enum Fam {
     Kd,
     Dg,
     Series,
+    /// A data-set label of the looser kind (`name`, `label`, `run`): the data-set column
+    /// only when no `series`-like column is present.
+    Label,
     Note,
 }
 
-/// What one header cell was read as.
+/// What one header cell was read as (also what a column choice of the caller asks for,
+/// see `crate::assign`).
 #[derive(Debug, Clone, PartialEq)]
-enum Class {
+pub(crate) enum Class {
     Temp(Option<TemperatureUnit>),
     Quantity(QuantityKind),
     Uncertainty {
@@ -42,6 +46,8 @@ enum Class {
         relative: bool,
     },
     Series,
+    /// `name`, `label`, `run`: the data-set column unless a `series`-like column exists.
+    Label,
     Note,
     Ignored,
     Unknown,
@@ -196,6 +202,12 @@ fn name_family(n: &str) -> Option<Fam> {
     }
     if matches!(
         n,
+        "name" | "names" | "label" | "labels" | "run" | "runs" | "runid" | "runname"
+    ) {
+        return Some(Fam::Label);
+    }
+    if matches!(
+        n,
         "note" | "notes" | "comment" | "comments" | "remark" | "remarks" | "memo" | "annotation"
     ) {
         return Some(Fam::Note);
@@ -283,7 +295,7 @@ fn name_and_unit(base: &str) -> Option<(Fam, Option<String>)> {
 }
 
 /// Reads one header cell.
-fn classify(raw: &str) -> Class {
+pub(crate) fn classify(raw: &str) -> Class {
     let h = raw.trim();
     if h.is_empty() {
         return Class::Ignored;
@@ -377,6 +389,9 @@ fn classify(raw: &str) -> Class {
     let unit = unit.or(inner_unit);
     match fam {
         Fam::Series => Class::Series,
+        // A free column such as "run time" is not a data-set label.
+        Fam::Label if unit.is_none() => Class::Label,
+        Fam::Label => Class::Unknown,
         Fam::Note => Class::Note,
         Fam::Temp => match unit.as_deref() {
             None => Class::Temp(None),
@@ -409,7 +424,7 @@ fn uncertainty_of(inner: &str, unit: Option<String>, mut relative: bool) -> Clas
     if of == Some(Fam::Temp) {
         return Class::Ignored;
     }
-    if matches!(of, Some(Fam::Series | Fam::Note)) {
+    if matches!(of, Some(Fam::Series | Fam::Label | Fam::Note)) {
         return Class::Unknown;
     }
     Class::Uncertainty { of, unit, relative }
@@ -501,17 +516,21 @@ fn quantity_kind(fam: Fam, unit: Option<&str>) -> Result<QuantityKind, &'static 
             Some(e) => Ok(QuantityKind::DeltaG(e)),
             None => Err(ENERGY_UNITS),
         },
-        Fam::Temp | Fam::Series | Fam::Note => Err(TEMP_UNITS),
+        Fam::Temp | Fam::Series | Fam::Label | Fam::Note => Err(TEMP_UNITS),
     }
 }
 
-/// Reads the headers of a file into a mapping. `line` is the header's physical line.
+/// Reads the headers of a file into a mapping. `line` is the header's physical line. The
+/// caller's column choices and temperature unit (`o.columns`, `o.temperature_unit`) are laid
+/// over what the headers say; a header not recognised is a column kept but not used unless
+/// `o.ignore_unknown_columns` is false.
 pub(crate) fn detect(
     headers: &[String],
     file: &str,
     line: usize,
-    ignore_unknown: bool,
+    o: &crate::ImportOptions,
 ) -> Result<Detected, Error> {
+    let ignore_unknown = o.ignore_unknown_columns;
     // Duplicates first: they make every other message confusing.
     for (j, h) in headers.iter().enumerate() {
         let hn = h.trim().to_lowercase();
@@ -531,11 +550,14 @@ pub(crate) fn detect(
             });
         }
     }
-    let classes: Vec<Class> = headers.iter().map(|h| classify(h)).collect();
+    let mut classes: Vec<Class> = headers.iter().map(|h| classify(h)).collect();
+    crate::assign::apply(&mut classes, headers, &o.columns, file, line)?;
+    crate::assign::apply_temperature_unit(&mut classes, headers, o.temperature_unit, file)?;
     let mut temps = Vec::new();
     let mut quants = Vec::new();
     let mut uncs = Vec::new();
     let mut series = Vec::new();
+    let mut labels = Vec::new();
     let mut notes = Vec::new();
     let mut ignored = Vec::new();
     for (i, c) in classes.iter().enumerate() {
@@ -546,6 +568,7 @@ pub(crate) fn detect(
                 uncs.push((i, *of, unit.clone(), *relative))
             }
             Class::Series => series.push(i),
+            Class::Label => labels.push(i),
             Class::Note => notes.push(i),
             Class::Ignored => ignored.push(i),
             Class::Unknown => {
@@ -593,6 +616,16 @@ pub(crate) fn detect(
     if series.len() > 1 {
         return Err(ambiguous("data set (series)", &series));
     }
+    // A `name`, `label` or `run` column names the data sets when no `series`-like column
+    // does; the first such column is used and any other is kept but not used.
+    match (series.is_empty(), labels.split_first()) {
+        (true, Some((&first, rest))) => {
+            series.push(first);
+            ignored.extend_from_slice(rest);
+        }
+        _ => ignored.extend_from_slice(&labels),
+    }
+    ignored.sort_unstable();
     if notes.len() > 1 {
         return Err(ambiguous("note", &notes));
     }
@@ -651,7 +684,7 @@ fn unit_error(h: &str, file: &str, line: usize, i: usize) -> Option<Error> {
     let unit = unit.or(inner);
     let accepted = match fam {
         Fam::Temp => TEMP_UNITS,
-        Fam::Series | Fam::Note => return None,
+        Fam::Series | Fam::Label | Fam::Note => return None,
         f => match quantity_kind(f, unit.as_deref()) {
             Ok(_) => return None,
             Err(a) => a,
@@ -808,6 +841,13 @@ mod tests {
             ("sample", Class::Series),
             ("Series", Class::Series),
             ("condition", Class::Series),
+            ("sample id", Class::Series),
+            ("Sample_ID", Class::Series),
+            ("name", Class::Label),
+            ("Label", Class::Label),
+            ("run", Class::Label),
+            ("run time", Class::Unknown),
+            ("operator", Class::Unknown),
             ("note", Class::Note),
             ("Comment", Class::Note),
             ("", Class::Ignored),
@@ -854,7 +894,7 @@ mod tests {
             .iter()
             .map(|s| s.to_string())
             .collect();
-        let d = detect(&h, "f.csv", 1, false).unwrap();
+        let d = detect(&h, "f.csv", 1, &crate::ImportOptions::default()).unwrap();
         assert_eq!(d.mapping.temperature.column, 0);
         assert_eq!(d.mapping.quantity.column, 1);
         assert_eq!(
@@ -875,9 +915,31 @@ mod tests {
         fn any_header_is_safe(h in "(?s).{0,24}", pre in proptest::sample::select(vec!["", "u(", "U(", "σ(", "sd_", "İ", "Kd_", "T (", "±"])) {
             let text = format!("{pre}{h}");
             let _ = classify(&text);
-            let _ = detect(&[text.clone(), "T/K".into(), "K".into()], "f", 1, false);
-            let _ = detect(&[text], "f", 1, true);
+            let strict = crate::ImportOptions { ignore_unknown_columns: false, ..Default::default() };
+            let _ = detect(&[text.clone(), "T/K".into(), "K".into()], "f", 1, &strict);
+            let _ = detect(&[text], "f", 1, &crate::ImportOptions::default());
         }
+    }
+
+    #[test]
+    fn a_label_column_names_the_data_sets_unless_a_series_column_does() {
+        let h = |v: &[&str]| -> Vec<String> { v.iter().map(|s| s.to_string()).collect() };
+        let o = crate::ImportOptions::default();
+        let d = detect(&h(&["name", "T/K", "K", "operator"]), "f", 1, &o).unwrap();
+        assert_eq!(d.mapping.series, Some(0));
+        assert_eq!(d.mapping.ignored, vec![3]);
+        let d = detect(&h(&["run", "T/K", "K", "sample"]), "f", 1, &o).unwrap();
+        assert_eq!(d.mapping.series, Some(3));
+        assert_eq!(d.mapping.ignored, vec![0]);
+        let d = detect(&h(&["label", "run", "T/K", "K"]), "f", 1, &o).unwrap();
+        assert_eq!(d.mapping.series, Some(0));
+        assert_eq!(d.mapping.ignored, vec![1]);
+        // Refused only when asked to refuse unknown columns.
+        let strict = crate::ImportOptions {
+            ignore_unknown_columns: false,
+            ..Default::default()
+        };
+        assert!(detect(&h(&["T/K", "K", "operator"]), "f", 1, &strict).is_err());
     }
 
     #[test]
@@ -886,7 +948,10 @@ mod tests {
             .iter()
             .map(|s| s.to_string())
             .collect();
-        let e = detect(&h, "f.csv", 1, false).err().unwrap().to_string();
+        let e = detect(&h, "f.csv", 1, &crate::ImportOptions::default())
+            .err()
+            .unwrap()
+            .to_string();
         assert!(e.contains("column 3"), "{e}");
         assert!(e.contains("measured column holds pK"), "{e}");
     }

@@ -32,6 +32,7 @@
 
 #![deny(missing_docs)]
 
+mod assign;
 pub mod atomic;
 pub mod error;
 pub mod export;
@@ -41,6 +42,7 @@ pub mod mapping;
 pub mod project;
 mod text;
 
+pub use assign::{ColumnChoice, ColumnRef, COLUMN_ROLES};
 pub use error::{Error, RejectedRow, RowProblem, ACCEPTED_HEADERS};
 pub use export::{export_csv, quantity_header};
 pub use import::{

@@ -72,8 +72,9 @@ pub struct ColumnMapping {
     /// A free-text note column.
     #[serde(default)]
     pub note: Option<usize>,
-    /// Columns deliberately not used (empty headers, temperature uncertainties, and unknown
-    /// headers when [`crate::ImportOptions::ignore_unknown_columns`] is set).
+    /// Columns deliberately not used: empty headers, temperature uncertainties, headers not
+    /// recognised (kept with the data, see [`crate::ImportOptions::ignore_unknown_columns`]),
+    /// and columns whose role a column choice gave to another.
     #[serde(default)]
     pub ignored: Vec<usize>,
 }
@@ -150,6 +151,25 @@ impl ColumnMapping {
         Ok(())
     }
 
+    /// The headers of the columns kept but not used (in neither the temperature, quantity,
+    /// uncertainty, data-set nor note role), in column order; columns with an empty header
+    /// are left out of the list.
+    pub fn unused_columns(&self, headers: &[String]) -> Vec<String> {
+        let used = [
+            Some(self.temperature.column),
+            Some(self.quantity.column),
+            self.uncertainty.map(|u| u.column),
+            self.series,
+            self.note,
+        ];
+        headers
+            .iter()
+            .enumerate()
+            .filter(|(i, h)| !used.contains(&Some(*i)) && !h.trim().is_empty())
+            .map(|(_, h)| h.trim().to_string())
+            .collect()
+    }
+
     /// One plain sentence per used column, saying what it holds and how it is converted,
     /// e.g. `column 1 'T (°C)': temperature in °C, converted to K (T/K = t/°C + 273.15)`.
     pub fn describe(&self, headers: &[String]) -> Vec<String> {
@@ -217,7 +237,7 @@ impl ColumnMapping {
             out.push(format!("column {} '{}': free-text note", n + 1, h(n)));
         }
         for &c in &self.ignored {
-            out.push(format!("column {} '{}': not used", c + 1, h(c)));
+            out.push(format!("column {} '{}': kept but not used", c + 1, h(c)));
         }
         out
     }

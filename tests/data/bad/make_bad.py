@@ -59,8 +59,6 @@ bad("unknown_temperature_unit.csv", "T (°R),K\n" + GOOD,
     "line 1, column 1 ('T (°R)'): unknown unit '°R'", "K, °C")
 bad("unknown_concentration_unit.csv", "T (°C),Kd (mg/mL)\n" + GOOD,
     "line 1, column 2 ('Kd (mg/mL)'): unknown unit 'mg/mL'", "µM")
-bad("unknown_header.csv", "T (°C),K,Absorbance\n10,250,0.1\n20,198,0.2\n30,160,0.3\n",
-    "line 1, column 3 ('Absorbance'): header not recognised", "Headers found: 'T (°C)', 'K', 'Absorbance'", "Accepted:")
 bad("kd_without_unit.csv", "T (°C),Kd\n" + GOOD,
     "line 1, column 2 ('Kd'): a dissociation constant needs its concentration unit")
 bad("dg_without_unit.csv", "T (°C),dG\n10,-20\n20,-21\n30,-22\n",

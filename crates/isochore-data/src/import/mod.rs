@@ -24,10 +24,12 @@ pub(crate) use series::make_points;
 pub use series::{ConvertedRow, Point, Row, Series};
 pub use source::{import_bytes, import_path, import_text, sha256_hex, SourceInfo};
 
+use crate::assign::ColumnChoice;
 use crate::error::{Error, RejectedRow};
 use crate::header;
 use crate::mapping::ColumnMapping;
 use crate::text::{Delimiter, Reader};
+use isochore_fit::TemperatureUnit;
 use serde::{Deserialize, Serialize};
 
 /// How the decimal mark is chosen. One convention holds for the whole file.
@@ -84,8 +86,18 @@ pub struct ImportOptions {
     pub max_columns: usize,
     /// Fewest usable points a data set needs (default 3; 2 allows the two-point estimate).
     pub min_points: usize,
-    /// Treat unrecognised headers as unused columns instead of an error.
+    /// Keep a column whose header is not recognised (`operator`, `date`, …) as a column kept
+    /// but not used (the default: it is shown with the data, left out of the fit, and
+    /// [`ColumnMapping::unused_columns`] names it); false refuses such a file.
     pub ignore_unknown_columns: bool,
+    /// Columns chosen by the caller (`temperature=T_degC`, `K=3`), laid over what the
+    /// headers say; each chosen column replaces the one the headers gave that role. Not used
+    /// with [`ImportOptions::mapping`].
+    pub columns: Vec<ColumnChoice>,
+    /// The scale of a temperature column whose header carries no unit (instead of inferring
+    /// it from the values). A header that states another unit is refused. Not used with
+    /// [`ImportOptions::mapping`].
+    pub temperature_unit: Option<TemperatureUnit>,
     /// Use this mapping instead of reading the headers.
     pub mapping: Option<ColumnMapping>,
     /// Accept temperatures outside the plausible range 1 to 10 000 K (the user confirms
@@ -104,7 +116,9 @@ impl Default for ImportOptions {
             max_line_bytes: 64 << 10,
             max_columns: 256,
             min_points: 3,
-            ignore_unknown_columns: false,
+            ignore_unknown_columns: true,
+            columns: Vec::new(),
+            temperature_unit: None,
             mapping: None,
             allow_extreme_temperatures: false,
         }
@@ -270,7 +284,7 @@ fn parse(
             (m.clone(), true)
         }
         None => {
-            let d = header::detect(&headers, file, header_line, o.ignore_unknown_columns)?;
+            let d = header::detect(&headers, file, header_line, o)?;
             (d.mapping, d.temperature_unit_known)
         }
     };

@@ -267,6 +267,12 @@ impl FilesPanel {
                 for d in p.import.describe_mapping() {
                     ui.label(RichText::new(d).small());
                 }
+                // Shown in the rows below, left out of the fit (the note the results carry).
+                if let Some(n) =
+                    isochore_analysis::unused_columns_note(&p.mapping, &p.import.headers)
+                {
+                    ui.label(n);
+                }
                 if reading_choices(ui, p) {
                     reimport = true;
                 }
