@@ -161,6 +161,13 @@ pub struct FitArgs {
     /// each series.
     #[arg(long, value_name = "PATH")]
     pub report: Option<PathBuf>,
+
+    // ---- Several series fitted together (issue 12): options of the joint fit ----
+    /// Fit every series of every file together, sharing these parameters (comma-separated
+    /// JSON keys, e.g. delta_cp or delta_h,delta_cp) and fitting the others per series; the
+    /// output adds the test of equality against the separate fits.
+    #[arg(long, value_name = "KEYS", value_delimiter = ',')]
+    pub share: Option<Vec<String>>,
 }
 
 /// `vhfit predict`.

@@ -96,6 +96,9 @@ fn error_entry(
 /// Every input is read and fitted before anything is written, and the report files are
 /// checked (no input, nothing isochore did not write) before the first one is written.
 pub fn run(a: &FitArgs) -> Result<(), Failure> {
+    if let Some(keys) = &a.share {
+        return crate::joint_cmd::run(a, keys);
+    }
     crate::load::reference_temperature(&a.fit).map_err(Failure::usage)?;
     let mut plan = match &a.report {
         None => None,

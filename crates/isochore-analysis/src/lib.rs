@@ -14,6 +14,8 @@
 //!   caller's [`Overrides`] laid over the file's settings, and typed refusals that name the
 //!   [`Remedy`] (the command line names its flag, the window offers a control).
 //! - [`report`]: the report input of a fitted data set, its title and the program line.
+//! - [`joint`]: several data sets fitted together with shared parameters, and the test of
+//!   equality against the separate fits.
 //! - [`json`]: the JSON contract as typed serde structs.
 //!
 //! No statistics (isochore-fit), no parsing of files (isochore-data), no drawing
@@ -24,6 +26,7 @@
 pub mod columns;
 pub mod dataset;
 pub mod files;
+pub mod joint;
 pub mod json;
 pub mod report;
 pub mod rows;

@@ -1,6 +1,7 @@
 //! The JSON contract, as typed serde structs: `fit --json` ([`FitJson`], one object per data
-//! set, or an array with `"source"` fields and [`ErrorJson`] entries), `predict --json`
-//! ([`predict`]) and `two-point --json` ([`two_point`]).
+//! set, or an array with `"source"` fields and [`ErrorJson`] entries), a joint fit of several
+//! series (`fit --share`, [`joint`]), `predict --json` ([`predict`]) and `two-point --json`
+//! ([`two_point`]).
 //!
 //! SI units throughout (J/mol, J mol⁻¹ K⁻¹, K). Never NaN or Infinity: an undefined number is
 //! written as null, and a warning names every such value ([`Nulls`]). A value whose own number
@@ -11,6 +12,7 @@
 //! The points of a fit are streamed ([`PointsJson`]), so a 10⁶-row file never holds its whole
 //! document in memory.
 
+pub mod joint;
 pub mod predict;
 pub mod two_point;
 

@@ -1,0 +1,309 @@
+//! End-to-end checks of `vhfit fit A.csv B.csv --share KEYS` (issue 12): the JSON object of
+//! a joint fit carries statsmodels' numbers, the differences between series follow from its
+//! own covariance, one file holding two data sets fits as two files do, and bad input
+//! (unknown key, one series, a singular sharing, disjoint temperature ranges, --report)
+//! gets a clear message and the promised exit code.
+//!
+//! Reference values: statsmodels 0.15.0 (PyPI; numpy 2.4.6, scipy 1.17.1), WLS with weights
+//! 1/σ² on the block design, from `crates/isochore-fit/tests/data/independent/make_global.py`
+//! (run 2026-12-02; the same numbers `crates/isochore-fit/tests/global.rs` checks the library
+//! against). Test inputs: the two invented series of that test (an exothermic binding with a
+//! negative ΔCp°).
+
+use super::cli::{close, json_of, run};
+use serde_json::Value;
+use std::path::PathBuf;
+
+const T_A: [f64; 10] = [
+    278.15, 283.15, 288.15, 293.15, 298.15, 303.15, 308.15, 313.15, 318.15, 323.15,
+];
+const LNK_A: [f64; 10] = [
+    5.8331, 5.7024, 5.5965, 5.4316, 5.263, 5.1037, 4.9169, 4.6914, 4.4942, 4.273,
+];
+const SIG_A: [f64; 10] = [
+    0.010, 0.015, 0.008, 0.012, 0.020, 0.010, 0.009, 0.018, 0.011, 0.014,
+];
+const T_B: [f64; 8] = [
+    280.65, 285.65, 290.65, 295.65, 300.65, 305.65, 310.65, 315.65,
+];
+const LNK_B: [f64; 8] = [
+    5.7651, 5.7206, 5.6158, 5.5179, 5.4051, 5.2448, 5.1088, 4.9333,
+];
+const SIG_B: [f64; 8] = [0.020, 0.012, 0.016, 0.010, 0.025, 0.013, 0.015, 0.011];
+
+/// statsmodels 0.15.0 WLS (make_global.py): ΔH°_A, ΔH°_B, ΔS°_A, ΔS°_B, ΔCp° and their SEs.
+const EST: [f64; 5] = [
+    -25113.237266862874,
+    -18229.50722223697,
+    -40.337780214474755,
+    -15.774766001874617,
+    -594.4759551738249,
+];
+const SE: [f64; 5] = [
+    143.47375838748948,
+    238.37515596401155,
+    0.483854676845953,
+    0.7987680202500473,
+    20.834546779372577,
+];
+/// statsmodels' `compare_f_test` of ΔCp° per series against shared: F, p, df_num, df_den.
+const F_TEST: [f64; 4] = [0.12611760520433218, 0.7286555174040572, 1.0, 12.0];
+
+/// A temporary folder unique to one test.
+fn folder(name: &str) -> PathBuf {
+    let d = std::env::temp_dir().join(format!("isochore-joint-{}-{name}", std::process::id()));
+    std::fs::create_dir_all(&d).expect("temporary folder");
+    d
+}
+
+fn write_csv(dir: &std::path::Path, name: &str, t: &[f64], y: &[f64], s: &[f64]) -> String {
+    let mut text = String::from("T (K),ln K,sigma ln K\n");
+    for ((t, y), s) in t.iter().zip(y).zip(s) {
+        text.push_str(&format!("{t},{y},{s}\n"));
+    }
+    let p = dir.join(name);
+    std::fs::write(&p, text).expect("write csv");
+    p.to_string_lossy().into_owned()
+}
+
+fn two_files(name: &str) -> (String, String) {
+    let d = folder(name);
+    (
+        write_csv(&d, "a.csv", &T_A, &LNK_A, &SIG_A),
+        write_csv(&d, "b.csv", &T_B, &LNK_B, &SIG_B),
+    )
+}
+
+fn num(v: &Value) -> f64 {
+    v.as_f64()
+        .unwrap_or_else(|| panic!("expected a number, got {v}"))
+}
+
+fn stderr(out: &std::process::Output) -> String {
+    String::from_utf8_lossy(&out.stderr).into_owned()
+}
+
+#[test]
+fn joint_json_carries_statsmodels_numbers() {
+    let (a, b) = two_files("json");
+    let out = run(&[
+        "fit", &a, &b, "--model", "cp", "--share", "delta_cp", "--json",
+    ]);
+    assert!(out.status.success(), "{}", stderr(&out));
+    let j = json_of(&out);
+    assert_eq!(j["kind"], "joint_fit");
+    assert_eq!(j["shared"], serde_json::json!(["delta_cp"]));
+    assert_eq!(j["series"][0]["name"], "a");
+    assert_eq!(j["series"][1]["name"], "b");
+    let rel = 1e-9; // the project's bar (issue 10), not a reference value
+    let dcp = &j["params"]["delta_cp"];
+    assert!(close(num(&dcp["value"]), EST[4], rel));
+    assert!(close(num(&dcp["se"]), SE[4], rel));
+    assert!(j["params"].get("delta_h").is_none(), "ΔH° is not shared");
+    for (s, (ih, is)) in [(0, 2), (1, 3)].into_iter().enumerate() {
+        let p = &j["series_params"][s]["params"];
+        assert!(close(num(&p["delta_h"]["value"]), EST[ih], rel));
+        assert!(close(num(&p["delta_h"]["se"]), SE[ih], rel));
+        assert!(close(num(&p["delta_s"]["value"]), EST[is], rel));
+        assert!(close(num(&p["delta_s"]["se"]), SE[is], rel));
+        assert!(p.get("delta_cp").is_none(), "shared ΔCp° is not per series");
+    }
+    let t = &j["equality_test"];
+    assert_eq!(t["method"], "F");
+    assert!(close(num(&t["statistic"]), F_TEST[0], rel));
+    assert!(close(num(&t["p_value"]), F_TEST[1], rel));
+    assert_eq!(num(&t["df_num"]), F_TEST[2]);
+    assert_eq!(num(&t["df_den"]), F_TEST[3]);
+    assert!(t["verdict"]
+        .as_str()
+        .unwrap()
+        .starts_with("no evidence that ΔCp°"));
+    assert_eq!(j["fit_statistics"]["joint"]["dof"], 13);
+    assert_eq!(j["fit_statistics"]["separate"]["dof"], 12);
+    // 18 points, series by series, each with its series' name.
+    let pts = j["points"].as_array().unwrap();
+    assert_eq!(pts.len(), 18);
+    assert_eq!(pts[9]["series"], "a");
+    assert_eq!(pts[10]["series"], "b");
+    assert_eq!(pts[10]["row"], 1);
+}
+
+/// ΔH°_A − ΔH°_B and its SE follow from the joint estimates and covariance in the same
+/// document: Var(a − b) = Var a + Var b − 2 Cov(a, b) (a relation, not a copied value).
+#[test]
+fn differences_follow_from_the_joint_covariance() {
+    let (a, b) = two_files("diff");
+    let out = run(&[
+        "fit",
+        &a,
+        &b,
+        "--model",
+        "cp",
+        "--share",
+        "delta_cp",
+        "--json",
+        "--summary",
+    ]);
+    assert!(out.status.success(), "{}", stderr(&out));
+    let j = json_of(&out);
+    let cov = |i: usize, k: usize| num(&j["cov"][i][k]);
+    let d = j["differences"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|d| d["key"] == "delta_h")
+        .expect("a ΔH° difference")
+        .clone();
+    assert_eq!(d["series_a"], "a");
+    assert_eq!(j["columns"][0]["series"], "a");
+    assert_eq!(j["columns"][1]["series"], "b");
+    assert!(j["columns"][4]["series"].is_null());
+    assert!(close(num(&d["value"]), EST[0] - EST[1], 1e-9));
+    let var = cov(0, 0) + cov(1, 1) - 2.0 * cov(0, 1);
+    assert!(close(num(&d["se"]), var.sqrt(), 1e-12));
+    assert!(num(&d["ci_low"]) < num(&d["value"]) && num(&d["value"]) < num(&d["ci_high"]));
+    assert!(j.get("points").is_none(), "--summary leaves the points out");
+}
+
+#[test]
+fn one_file_with_two_data_sets_fits_as_two_files() {
+    let (a, b) = two_files("pair");
+    let d = folder("one");
+    let mut text = String::from("series,T (K),ln K,sigma ln K\n");
+    for (name, t, y, s) in [
+        ("a", &T_A[..], &LNK_A[..], &SIG_A[..]),
+        ("b", &T_B[..], &LNK_B[..], &SIG_B[..]),
+    ] {
+        for ((t, y), s) in t.iter().zip(y).zip(s) {
+            text.push_str(&format!("{name},{t},{y},{s}\n"));
+        }
+    }
+    let both = d.join("both.csv");
+    std::fs::write(&both, text).unwrap();
+    let both = both.to_string_lossy().into_owned();
+    let args = [
+        "--model",
+        "cp",
+        "--share",
+        "delta_cp",
+        "--json",
+        "--summary",
+    ];
+    let one = run(&[&["fit", both.as_str()][..], &args[..]].concat());
+    let two = run(&[&["fit", a.as_str(), b.as_str()][..], &args[..]].concat());
+    assert!(one.status.success(), "{}", stderr(&one));
+    let (one, two) = (json_of(&one), json_of(&two));
+    assert_eq!(one["params"], two["params"]);
+    assert_eq!(one["series_params"], two["series_params"]);
+    assert_eq!(one["equality_test"], two["equality_test"]);
+}
+
+#[test]
+fn known_sigma_gives_the_chi2_test() {
+    let (a, b) = two_files("chi2");
+    let out = run(&[
+        "fit",
+        &a,
+        &b,
+        "--model",
+        "cp",
+        "--share",
+        "delta_cp",
+        "--absolute-sigma",
+        "--json",
+    ]);
+    assert!(out.status.success(), "{}", stderr(&out));
+    let j = json_of(&out);
+    let t = &j["equality_test"];
+    assert_eq!(t["method"], "chi2");
+    assert!(t["df_den"].is_null());
+    // Δχ² is the difference of the two fits' χ², written side by side.
+    let joint = num(&j["fit_statistics"]["joint"]["chi2"]);
+    let separate = num(&j["fit_statistics"]["separate"]["chi2"]);
+    assert!(close(num(&t["statistic"]), joint - separate, 1e-9));
+}
+
+#[test]
+fn text_shows_both_fits_and_the_verdict() {
+    let (a, b) = two_files("text");
+    let out = run(&["fit", &a, &b, "--model", "cp", "--share", "delta_cp"]);
+    assert!(out.status.success(), "{}", stderr(&out));
+    let text = String::from_utf8(out.stdout).unwrap();
+    for want in [
+        "joint fit of 2 series",
+        "separate fits",
+        "test of equality: no evidence that ΔCp° differs",
+        "differences between series",
+        "points by series",
+    ] {
+        assert!(text.contains(want), "missing '{want}' in:\n{text}");
+    }
+}
+
+#[test]
+fn bad_joint_requests_are_refused_in_words() {
+    let (a, b) = two_files("bad");
+    let out = run(&["fit", &a, &b, "--model", "cp", "--share", "delta_x"]);
+    assert_eq!(out.status.code(), Some(1));
+    let e = stderr(&out);
+    assert!(e.contains("'delta_x'") && e.contains("delta_cp"), "{e}");
+
+    let out = run(&["fit", &a, "--share", "delta_h"]);
+    assert_eq!(out.status.code(), Some(1));
+    assert!(
+        stderr(&out).contains("at least two series"),
+        "{}",
+        stderr(&out)
+    );
+
+    let out = run(&["fit", &a, &b, "--share", ","]);
+    assert_eq!(out.status.code(), Some(2));
+
+    let d = folder("bad2");
+    let report = d.join("r.html").to_string_lossy().into_owned();
+    let out = run(&["fit", &a, &b, "--share", "delta_h", "--report", &report]);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(stderr(&out).contains("--report"), "{}", stderr(&out));
+
+    // Three points at two temperatures cannot carry three parameters of their own.
+    let dup = write_csv(
+        &d,
+        "dup.csv",
+        &[280.0, 280.0, 290.0],
+        &[5.0, 5.02, 4.9],
+        &[0.01; 3],
+    );
+    let out = run(&[
+        "fit",
+        &a,
+        &dup,
+        "--model",
+        "clarke-glew",
+        "--share",
+        "delta_cp",
+    ]);
+    assert_eq!(out.status.code(), Some(1));
+    let e = stderr(&out);
+    assert!(e.contains("singular") && e.contains("dup"), "{e}");
+}
+
+#[test]
+fn disjoint_temperature_ranges_are_warned_in_words() {
+    let d = folder("disjoint");
+    let a = write_csv(&d, "cold.csv", &T_A, &LNK_A, &SIG_A);
+    let hot: Vec<f64> = T_B.iter().map(|t| t + 100.0).collect();
+    let b = write_csv(&d, "hot.csv", &hot, &LNK_B, &SIG_B);
+    let out = run(&["fit", &a, &b, "--share", "delta_h", "--json", "--summary"]);
+    assert!(out.status.success(), "{}", stderr(&out));
+    let j = json_of(&out);
+    let w: Vec<&str> = j["warnings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .filter_map(Value::as_str)
+        .collect();
+    assert!(
+        w.iter().any(|w| w.contains("do not overlap")),
+        "warnings: {w:?}"
+    );
+}
