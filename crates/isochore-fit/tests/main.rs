@@ -6,6 +6,7 @@ mod extension;
 mod fieller;
 mod garbage_in;
 mod global;
+mod global_combos;
 mod global_exact;
 mod handbook;
 mod hostile;
