@@ -126,6 +126,19 @@ pub struct FitOptionsArgs {
     /// as a likely unit or typing mistake.
     #[arg(long)]
     pub allow_extreme_temperatures: bool,
+    /// Choose a column of a data file, ROLE=COLUMN (repeatable): COLUMN is a header as typed
+    /// or a 1-based number; ROLE is read as a header is: temperature, 'T (K)', K, ln K, log K,
+    /// pKa, 'Kd (nM)', 'ΔG (kJ/mol)', value (the kind the column's own header says), sigma,
+    /// 'RSD (%)', series or note. COLUMN none drops sigma, series or note. A chosen column
+    /// replaces the one the headers gave that role. E.g. --column temperature=T_degC
+    /// --column K=3
+    #[arg(long = "column", value_name = "ROLE=COLUMN", value_parser = parse_column)]
+    pub columns: Vec<isochore_data::ColumnChoice>,
+    /// Unit of a data file's temperature column whose header carries none: C, K or F
+    /// (default: decided from the values, and said in the conversions). A header that states
+    /// another unit is refused.
+    #[arg(long, value_enum, value_name = "C|K|F")]
+    pub data_temp_unit: Option<TempArg>,
     /// Decimal mark of CSV files (default: decided by the file; a file that mixes marks, or
     /// whose commas could be thousands separators, is refused until this is given).
     #[arg(long, value_enum, value_name = "point|comma")]
@@ -275,6 +288,10 @@ pub fn parse_rows(s: &str) -> Result<RowList, String> {
     rows.sort_unstable();
     rows.dedup();
     Ok(RowList(rows))
+}
+
+fn parse_column(s: &str) -> Result<isochore_data::ColumnChoice, String> {
+    s.parse()
 }
 
 fn parse_level(s: &str) -> Result<f64, String> {

@@ -64,6 +64,8 @@ fn overrides(a: &FitOptionsArgs, with_cells: bool) -> Overrides {
         },
         skip_bad_rows: a.skip_bad_rows,
         with_cells,
+        columns: a.columns.clone(),
+        data_temperature_unit: a.data_temp_unit.map(|u| u.unit()),
     }
 }
 
@@ -96,6 +98,15 @@ fn message(e: &LoadError) -> String {
         } => format!(
             "{source}: series '{series}': --exclude names row {row}, but the series has {rows} data rows"
         ),
+        LoadError::Data { error, .. }
+            if matches!(
+                **error,
+                isochore_data::Error::MissingColumn { .. }
+                    | isochore_data::Error::AmbiguousColumns { .. }
+            ) =>
+        {
+            format!("{e} (on the command line: --column ROLE=COLUMN, e.g. --column temperature=2 --column K=3)")
+        }
         _ => format!("{e}{}", hint(e.remedy())),
     }
 }

@@ -84,3 +84,124 @@ fn unknown_columns_are_kept_out_of_the_fit_and_named_once() {
         "{table}"
     );
 }
+
+/// The same pKa numbers under headers the importer cannot place by itself: a temperature
+/// without a unit, a value column named after the instrument, a σ column named "spread".
+const ODD_FILE: &str = "operator,temp,reading,spread\n\
+AB,283.15,7.412,0.010\n\
+AB,293.15,7.288,0.010\n\
+CD,303.15,7.170,0.012\n\
+CD,313.15,7.061,0.012\n";
+
+#[test]
+fn columns_are_chosen_by_name_or_number_on_the_command_line() {
+    let dir = tempfile::tempdir().unwrap();
+    let odd = write(dir.path(), "odd.csv", ODD_FILE);
+    let plain = write(dir.path(), "plain.csv", PLAIN_FILE);
+    let odd = odd.to_string_lossy().into_owned();
+    // Without choices the file is refused, and the message names the way out.
+    let out = run(&["fit", &odd]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(1), "{err}");
+    assert!(err.contains("--column"), "{err}");
+    let want = delta_h(&fit_json(&[&plain.to_string_lossy()]));
+    // By header and by number; the temperature header has no unit: K is stated.
+    let a = fit_json(&[
+        &odd,
+        "--column",
+        "temperature=temp",
+        "--column",
+        "pKa=3",
+        "--column",
+        "sigma=spread",
+        "--data-temp-unit",
+        "K",
+    ]);
+    assert!(close(delta_h(&a), want, 1e-12), "{a}");
+    assert!(
+        a["warnings"]
+            .to_string()
+            .contains("column kept but not used: operator"),
+        "{a}"
+    );
+    // Without --data-temp-unit, 283–313 is read as kelvin by the value rule (all ≥ 200).
+    let b = fit_json(&[&odd, "--column", "pKa=reading", "--column", "sigma=4"]);
+    assert!(close(delta_h(&b), want, 1e-12), "{b}");
+}
+
+#[test]
+fn a_file_with_sigma_is_fitted_unweighted_on_request() {
+    let dir = tempfile::tempdir().unwrap();
+    let plain = write(dir.path(), "plain.csv", PLAIN_FILE);
+    let p = plain.to_string_lossy().into_owned();
+    let weighted = fit_json(&[&p]);
+    let unweighted = fit_json(&[&p, "--unweighted"]);
+    assert_eq!(weighted["weighting"], "inverse_variance");
+    assert_eq!(unweighted["weighting"], "unweighted");
+    // Ordinary least squares of ln K = −pKa·ln 10 on 1/T (T = t/°C + 273.15), slope = −ΔH°/R,
+    // from the four points of PLAIN_FILE with numpy.polyfit run offline
+    // (R = 8.314462618 J/(mol·K), CODATA 2018): ΔH° = 19 881.7538 J/mol.
+    let dh = delta_h(&unweighted);
+    assert!((dh - 19_881.753_8).abs() < 1e-3, "{dh}");
+    assert!(
+        (delta_h(&weighted) - dh).abs() > 1.0,
+        "the weights matter here"
+    );
+}
+
+#[test]
+fn bad_column_choices_name_what_is_wrong() {
+    let dir = tempfile::tempdir().unwrap();
+    let odd = write(dir.path(), "odd.csv", ODD_FILE);
+    let odd = odd.to_string_lossy().into_owned();
+    // A column the file does not have: an input error (exit 1, as for --exclude of a row the
+    // file does not have), naming the choice and listing the columns.
+    let out = run(&[
+        "fit",
+        &odd,
+        "--column",
+        "temperature=T_degC",
+        "--column",
+        "pKa=3",
+    ]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(1), "{err}");
+    assert!(
+        err.contains("'temperature=T_degC' names no column"),
+        "{err}"
+    );
+    assert!(
+        err.contains("1 'operator', 2 'temp', 3 'reading', 4 'spread'"),
+        "{err}"
+    );
+    let out = run(&[
+        "fit",
+        &odd,
+        "--column",
+        "temperature=2",
+        "--column",
+        "pKa=7",
+    ]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(1), "{err}");
+    assert!(err.contains("'pKa=7' names no column"), "{err}");
+    // A temperature unit that does not exist, or a role that is none: usage errors (exit 2,
+    // as for --temp-unit), naming the value.
+    let out = run(&["fit", &odd, "--column", "pKa=3", "--data-temp-unit", "R"]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(2), "{err}");
+    assert!(
+        err.contains("'R'") && err.contains("--data-temp-unit"),
+        "{err}"
+    );
+    let out = run(&["fit", &odd, "--column", "absorbance=3"]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(2), "{err}");
+    assert!(err.contains("'absorbance' is not a column role"), "{err}");
+    // A header that states its unit is not overruled.
+    let plain = write(dir.path(), "plain.csv", PLAIN_FILE);
+    let out = run(&["fit", &plain.to_string_lossy(), "--data-temp-unit", "K"]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(1), "{err}");
+    assert!(err.contains("column 1 ('T (°C)') states °C"), "{err}");
+}

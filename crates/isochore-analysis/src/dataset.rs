@@ -7,7 +7,9 @@
 use crate::files::is_project_file;
 use crate::rows::RowNumber;
 use crate::weighting;
-use isochore_data::{DecimalMark, Import, ImportOptions, Project, ProjectSeries, RejectedRow};
+use isochore_data::{
+    ColumnChoice, DecimalMark, Import, ImportOptions, Project, ProjectSeries, RejectedRow,
+};
 use isochore_fit::{
     EnergyUnit, FitOptions, Measurement, Model, SigmaConvention, TemperatureUnit, Weighting,
 };
@@ -100,6 +102,11 @@ pub struct Overrides {
     pub skip_bad_rows: bool,
     /// Keep the cells as typed (for reports).
     pub with_cells: bool,
+    /// Column choices laid over a data file's headers (`temperature=T_degC`, `K=3`); a
+    /// project keeps the mapping it was saved with and refuses them.
+    pub columns: Vec<ColumnChoice>,
+    /// The scale of a data file's temperature header that carries no unit.
+    pub data_temperature_unit: Option<TemperatureUnit>,
 }
 
 impl Overrides {
@@ -131,6 +138,8 @@ impl Overrides {
         ImportOptions {
             decimal: self.decimal,
             allow_extreme_temperatures: self.allow_extreme_temperatures,
+            columns: self.columns.clone(),
+            temperature_unit: self.data_temperature_unit,
             ..ImportOptions::default()
         }
     }
@@ -318,7 +327,10 @@ fn load_text(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
                 .map(|r| format!("skipped {}", r.message())),
         );
     }
-    notes.extend(crate::columns::unused_columns_note(&imp.mapping, &imp.headers));
+    notes.extend(crate::columns::unused_columns_note(
+        &imp.mapping,
+        &imp.headers,
+    ));
     let excluded: Vec<usize> = o.exclude.rows.iter().map(|r| r.get()).collect();
     let requested = o.apply(FitOptions::default());
     let conversions = imp.describe_mapping();
@@ -387,6 +399,12 @@ fn load_project(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
         source: source.clone(),
         error: Box::new(error),
     };
+    if !o.columns.is_empty() || o.data_temperature_unit.is_some() {
+        return Err(data_error(isochore_data::Error::InvalidMapping {
+            file: source.clone(),
+            message: "a project keeps the columns it was saved with; column choices and the temperature unit of the file apply to data files only".to_string(),
+        }));
+    }
     let mut project = Project::load(path).map_err(data_error)?;
     let mut sets = Vec::with_capacity(project.series.len());
     for s in &mut project.series {
