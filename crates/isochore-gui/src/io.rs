@@ -4,7 +4,7 @@
 //! open project until the caller applies the result as a command.
 
 use crate::doc::{Project, Series};
-use isochore_analysis::{DataSet, Overrides, ReportStems};
+use isochore_analysis::{DataSet, Overrides};
 use isochore_data::{ColumnMapping, DecimalMark, Import, ImportOptions};
 use isochore_report::ReportInput;
 use std::path::{Path, PathBuf};
@@ -373,72 +373,4 @@ pub fn report_input(s: &Series, a: &crate::fitting::Analysis) -> Result<ReportIn
     let set = DataSet::from_project_series(&s.data, &s.data.source.name, &with_cells)
         .map_err(|e| format!("{}: no fit to report: {e}", s.name()))?;
     Ok(isochore_analysis::report_input(&set, fit.clone(), &[]))
-}
-
-/// Writes the report (HTML, PDF, Markdown, CSV) and figures (PNG) of every series with a
-/// fit into `folder`, one file stem per series, atomically through isochore-report.
-///
-/// # Errors
-/// A message naming the file that could not be written, or the series with no fit.
-pub fn export(
-    project: &Project,
-    fitter: &crate::fitting::Fitter,
-    folder: &Path,
-) -> Result<String, String> {
-    // The project file and every series' source file are inputs: a report never replaces
-    // them, nor any file isochore did not write (the same guard as the command line's).
-    let inputs: Vec<PathBuf> = project
-        .path
-        .iter()
-        .cloned()
-        .chain(
-            project
-                .series
-                .iter()
-                .filter_map(|s| s.data.source.path.as_ref().map(PathBuf::from)),
-        )
-        .collect();
-    let guard = isochore_report::OverwriteGuard::new(&inputs);
-    let mut jobs = Vec::new();
-    let mut stems = ReportStems::new();
-    for s in &project.series {
-        let Some(a) = fitter.get(s.id) else {
-            continue;
-        };
-        // Named as the command line names them: after the source file, with the data set's
-        // name when that file gave several.
-        let file = &s.data.source.name;
-        let several = project
-            .series
-            .iter()
-            .filter(|t| &t.data.source.name == file)
-            .count()
-            > 1;
-        jobs.push((report_input(s, &a)?, stems.next(file, s.name(), several)));
-    }
-    let refusals: Vec<String> = jobs
-        .iter()
-        .flat_map(|(_, stem)| isochore_report::report_set_paths(folder, stem))
-        .filter_map(|p| guard.refusal(&p))
-        .collect();
-    if !refusals.is_empty() {
-        return Err(format!("No report was written:\n{}", refusals.join("\n")));
-    }
-    let mut written = 0usize;
-    let mut stems = Vec::new();
-    for (input, stem) in &jobs {
-        let paths =
-            isochore_report::write_report_set(input, folder, stem).map_err(|e| e.to_string())?;
-        guard.record(&paths)?;
-        written += paths.len();
-        stems.push(stem.clone());
-    }
-    if written == 0 {
-        return Err("There is no fitted series to export.".into());
-    }
-    Ok(format!(
-        "{written} files written to {} ({}).",
-        folder.display(),
-        stems.join(", ")
-    ))
 }

@@ -7,7 +7,8 @@
 //!
 //! Entry point: [`run`]. The pieces: [`doc`] (the document), [`command`] (every edit, with
 //! undo), [`fitting`] (fits in and off the UI thread), [`decimate`] (drawing a million
-//! points), [`io`] (files), [`panels`] (one struct per panel), [`context`] (what panels see
+//! points), [`io`] (files), [`export`] (reports written off the UI thread), [`panels`]
+//! (one struct per panel), [`context`] (what panels see
 //! and propose), [`actions`] (what the app does for them), [`autosave`] (autosave and
 //! recovery) and [`app`] (the frame loop).
 
@@ -20,6 +21,7 @@ pub mod command;
 pub mod context;
 pub mod decimate;
 pub mod doc;
+pub mod export;
 pub mod fitting;
 pub mod io;
 pub mod panels;

@@ -11,17 +11,18 @@ const STEM: &str = "binding_qx7_halo2";
 #[test]
 fn export_never_replaces_a_file_isochore_did_not_write() {
     let dir = temp_dir("export-guard");
-    // A file of the user's that happens to carry a report's name.
-    let theirs = dir.join(format!("{STEM}-data.csv"));
+    // A file of the user's that happens to carry a report's name (HTML and PDF are the
+    // formats an export starts with).
+    let theirs = dir.join(format!("{STEM}.pdf"));
     std::fs::write(&theirs, "T,K\n25,1\n").unwrap();
     let mut h = harness(bench());
     menu_item(&mut h, "File", "Export report and figures…");
     type_path_and_press(&mut h, &dir, "Export");
-    let error = h.state().files.error.clone().unwrap_or_default();
+    let error = h.state().files.export.error.clone().unwrap_or_default();
     assert!(
         error.contains("No report was written") && error.contains("was not written by isochore"),
         "{error:?} / {:?}",
-        h.state().files.export_note
+        h.state().files.export.note
     );
     assert_eq!(std::fs::read_to_string(&theirs).unwrap(), "T,K\n25,1\n");
     // Nothing else was written: the user's file is alone in the folder.
@@ -39,10 +40,10 @@ fn a_second_export_replaces_the_first_one_s_unchanged_files() {
         menu_item(&mut h, "File", "Export report and figures…");
         type_path_and_press(&mut h, &dir, "Export");
         assert!(
-            h.state().files.error.is_none()
+            h.state().files.export.error.is_none()
                 && h.query_by_label_contains("files written to").is_some(),
             "round {round}: {:?}",
-            h.state().files.error
+            h.state().files.export.error
         );
     }
     assert!(dir.join(isochore_report::MANIFEST).is_file());
@@ -52,7 +53,7 @@ fn a_second_export_replaces_the_first_one_s_unchanged_files() {
     let mut h = harness(bench());
     menu_item(&mut h, "File", "Export report and figures…");
     type_path_and_press(&mut h, &dir, "Export");
-    let error = h.state().files.error.clone().unwrap_or_default();
+    let error = h.state().files.export.error.clone().unwrap_or_default();
     assert!(
         error.contains("was changed since isochore wrote it"),
         "{error:?}"

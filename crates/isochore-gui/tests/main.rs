@@ -1,5 +1,6 @@
 //! The one integration-test binary of this package: one module per subject.
 
+mod export;
 mod export_guard;
 mod features;
 mod shared_rules;

@@ -209,11 +209,22 @@ pub(crate) fn type_path_and_press(
 ) {
     h.get_by_label("path").click();
     h.run_steps(1);
+    // Replace whatever the field holds (the export dialog suggests a folder).
+    h.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::A);
+    h.run_steps(1);
     h.get_by_label("path")
         .type_text(&path.display().to_string());
     h.run_steps(1);
     h.get_by_label(button).click();
     h.run_steps(3);
+    // An export is written on a worker thread: step frames until it is done.
+    let start = std::time::Instant::now();
+    while h.state().files.export.running() {
+        assert!(start.elapsed().as_secs() < 120, "the export did not finish");
+        std::thread::sleep(std::time::Duration::from_millis(20));
+        h.run_steps(1);
+    }
+    h.run_steps(2);
 }
 
 #[test]
@@ -377,13 +388,22 @@ fn exporting_through_the_menu_writes_reports_with_the_library_delta_h() {
     let (dh, _) = library_fit(&w, None, Model::LINEAR);
     let mut h = harness(w);
     menu_item(&mut h, "File", "Export report and figures…");
+    // HTML and PDF are chosen already; every other format too.
+    for f in [
+        "Markdown report (with SVG figures)",
+        "CSV tables (data, results)",
+        "figures (PNG, 300 dpi)",
+    ] {
+        h.get_by_label(f).click();
+        h.run_steps(1);
+    }
     type_path_and_press(&mut h, &out, "Export");
     // The dialog reports what it wrote.
     assert!(
         h.query_by_label_contains("files written to").is_some(),
         "{:?} / {:?}",
-        h.state().files.error,
-        h.state().files.export_note
+        h.state().files.export.error,
+        h.state().files.export.note
     );
     let stem = "binding_qx7_halo2";
     for name in [

@@ -288,7 +288,13 @@ fn markdown_stem(path: &Path) -> String {
         .to_string()
 }
 
-/// The formats of a report set and their file names under `stem`, in writing order.
+/// The formats of a report set and their file names under `stem`, in writing order (what
+/// [`write_report_set`] writes; a caller writing only some of them picks from this list
+/// and writes each with [`write_report`], so the names stay the same).
+pub fn report_set_plan(stem: &str) -> Vec<(ReportFormat, String)> {
+    set_plan(stem)
+}
+
 fn set_plan(stem: &str) -> Vec<(ReportFormat, String)> {
     let mut plan = vec![
         (ReportFormat::Markdown, format!("{stem}.md")),

@@ -1,7 +1,7 @@
 //! File dialogs of the workbench: open (a system dialog when the desktop has one, and
-//! always a typed path), save as, export, and the import preview that shows which column
-//! was recognised as what and lets the chemist change it before anything enters the
-//! project.
+//! always a typed path), save as, and the import preview that shows which column was
+//! recognised as what and lets the chemist change it before anything enters the project.
+//! The export dialog is `panels::export`.
 
 use crate::app::{Action, Cx};
 use crate::command::Command;
@@ -17,8 +17,6 @@ pub enum PathDialog {
     Open,
     /// Save the project under a new name.
     SaveAs,
-    /// Export report and figures into a folder.
-    Export,
 }
 
 /// The files panel's state.
@@ -35,8 +33,8 @@ pub struct FilesPanel {
     pub question: Option<ImportQuestion>,
     /// An error inside a dialog.
     pub error: Option<String>,
-    /// The last export's result, in words.
-    pub export_note: Option<String>,
+    /// The export dialog.
+    pub export: crate::panels::export::ExportDialog,
     /// Put the keyboard in the path field on the next frame (a dialog just opened).
     focus_path: bool,
 }
@@ -58,9 +56,7 @@ impl FilesPanel {
 
     /// Opens the export dialog.
     pub fn ask_export(&mut self) {
-        self.dialog = Some(PathDialog::Export);
-        self.error = None;
-        self.focus_path = true;
+        self.export.ask();
     }
 
     /// Shows a preview for confirmation.
@@ -77,6 +73,7 @@ impl FilesPanel {
     /// Draws whichever dialog is open.
     pub fn windows(&mut self, ctx: &egui::Context, cx: &mut Cx<'_>) {
         self.path_window(ctx, cx);
+        self.export.window(ctx, cx);
         self.question_window(ctx, cx);
         self.preview_window(ctx, cx);
     }
@@ -165,7 +162,6 @@ impl FilesPanel {
         let title = match kind {
             PathDialog::Open => "Open a data file or project",
             PathDialog::SaveAs => "Save project as",
-            PathDialog::Export => "Export report and figures",
         };
         let mut open = true;
         let mut go: Option<PathBuf> = None;
@@ -178,7 +174,6 @@ impl FilesPanel {
                 let hint = match kind {
                     PathDialog::Open => "CSV or TSV data, or an .isochore.json project",
                     PathDialog::SaveAs => "a file name ending in .isochore.json",
-                    PathDialog::Export => "a folder; the report and figures are written into it",
                 };
                 ui.label(hint);
                 ui.horizontal(|ui| {
@@ -205,16 +200,12 @@ impl FilesPanel {
                 let verb = match kind {
                     PathDialog::Open => "Open",
                     PathDialog::SaveAs => "Save",
-                    PathDialog::Export => "Export",
                 };
                 if ui.button(verb).clicked() && !self.path_text.trim().is_empty() {
                     go = Some(PathBuf::from(self.path_text.trim()));
                 }
                 if let Some(e) = &self.error {
                     ui.colored_label(style::flag_color(cx.dark), e);
-                }
-                if let Some(n) = &self.export_note {
-                    ui.label(n);
                 }
             });
         if let Some(p) = go {
@@ -229,13 +220,6 @@ impl FilesPanel {
                     cx.actions.push(Action::SaveAs(p));
                     self.dialog = None;
                 }
-                PathDialog::Export => match io::export(cx.project, cx.fitter, &p) {
-                    Ok(note) => {
-                        self.export_note = Some(note);
-                        self.error = None;
-                    }
-                    Err(e) => self.error = Some(e),
-                },
             }
         }
         if !open {
@@ -563,6 +547,5 @@ fn system_dialog(kind: PathDialog) -> Option<PathBuf> {
             .add_filter("data or project", &["csv", "tsv", "txt", "json"])
             .pick_file(),
         PathDialog::SaveAs => d.add_filter("project", &["json"]).save_file(),
-        PathDialog::Export => d.pick_folder(),
     }
 }

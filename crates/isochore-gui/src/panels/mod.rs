@@ -2,6 +2,7 @@
 //! [`crate::app::Cx`] and propose commands; none of them changes the document directly.
 
 pub mod diagnostics;
+pub mod export;
 pub mod files;
 pub mod menu;
 pub mod predict;
