@@ -283,7 +283,8 @@ pub(crate) struct DiagnosticsSummary {
     /// The first point whose fitted value, residual, leverage or prediction SE is not
     /// finite: (index, temperature).
     pub(crate) first_bad: Option<(usize, f64)>,
-    /// Points carrying any flag.
+    /// Used points carrying any flag (an excluded point keeps its flags for the table,
+    /// but the caution asks the chemist to inspect only what the fit still uses).
     pub(crate) flagged: usize,
     /// Whether a used point has leverage 1 (to 1e-10).
     pub(crate) leverage_one: bool,
@@ -301,7 +302,7 @@ impl DiagnosticsSummary {
         {
             self.first_bad = Some((d.index, d.t_k));
         }
-        self.flagged += usize::from(d.flags.any());
+        self.flagged += usize::from(d.used && d.flags.any());
         self.leverage_one |= d.used && d.leverage >= 1.0 - 1e-10;
     }
 }

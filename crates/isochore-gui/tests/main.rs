@@ -3,6 +3,7 @@
 mod export;
 mod export_guard;
 mod features;
+mod plots;
 mod shared_rules;
 mod ways_out;
 mod workbench;

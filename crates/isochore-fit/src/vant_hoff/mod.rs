@@ -202,6 +202,32 @@ mod tests {
     }
 
     #[test]
+    fn the_flag_caution_counts_only_used_points() {
+        // ΔH° = −30 kJ/mol, ΔS° = −20 J/(mol K), with ±0.01 of alternating scatter; the
+        // fifth point is 2 units off in ln K (invented).
+        let temps = [280.0, 285.0, 290.0, 295.0, 300.0, 305.0, 310.0, 315.0];
+        let mut pts = exact(-30e3, -20.0, &temps);
+        for (i, p) in pts.iter_mut().enumerate() {
+            p.ln_k += if i % 2 == 0 { 0.01 } else { -0.01 };
+        }
+        pts[4].ln_k += 2.0;
+        let flagged = |f: &VantHoffFit| {
+            f.warnings()
+                .iter()
+                .any(|w| w.kind == WarningKind::FlaggedPoints)
+        };
+        let all = fit(&pts, &FitOptions::default()).unwrap();
+        assert!(all.points()[4].flags.any());
+        assert!(flagged(&all));
+        // Excluded, it is still marked an outlier for the table, but the caution is gone.
+        pts[4].included = false;
+        let used = fit(&pts, &FitOptions::default()).unwrap();
+        assert!(used.points()[4].flags.outlier);
+        assert!(used.points().iter().filter(|d| d.used).all(|d| !d.flags.any()));
+        assert!(!flagged(&used), "{:?}", used.warnings());
+    }
+
+    #[test]
     fn too_few_and_single_temperature() {
         let opts = FitOptions::default();
         let pts = exact(1e4, 10.0, &[290.0, 300.0]);

@@ -15,6 +15,8 @@ use isochore_report::present;
 #[derive(Debug, Default)]
 pub struct DiagnosticsPanel {
     decimated: Option<Decimated>,
+    /// The residual plot's y-range as last drawn (read by tests).
+    pub residual_y: Option<[f64; 2]>,
 }
 
 /// Rows of the residual and influence plots of a large series, for one analysis and width.
@@ -87,9 +89,38 @@ impl DiagnosticsPanel {
             // Residuals against T.
             ui.vertical(|ui| {
                 ui.set_width(half);
-                ui.label(RichText::new("Residuals against temperature").strong());
+                // The used points set the y-range; an excluded point beyond it is drawn
+                // at the edge, so it cannot squash the used points onto zero.
+                let (lo, hi) = used_span(&resid_rows, fit.points());
+                let beyond = resid_rows
+                    .iter()
+                    .filter_map(|&i| fit.points().get(i))
+                    .filter(|d| !d.used && !(lo..=hi).contains(&d.residual))
+                    .count();
+                ui.horizontal(|ui| {
+                    ui.label(RichText::new("Residuals against temperature").strong());
+                    if beyond > 0 {
+                        ui.label(
+                            RichText::new(format!(
+                                "{} beyond the range drawn at the edge",
+                                isochore_fit::error::counted(
+                                    beyond,
+                                    "excluded point",
+                                    "excluded points"
+                                )
+                            ))
+                            .small()
+                            .weak(),
+                        );
+                    }
+                });
                 let m = Marks::collect(&resid_rows, fit.points(), &highlight, |d| {
-                    Some([tu.from_kelvin(d.t_k), d.residual])
+                    let y = if d.used {
+                        d.residual
+                    } else {
+                        d.residual.clamp(lo, hi)
+                    };
+                    Some([tu.from_kelvin(d.t_k), y])
                 });
                 let resp = Plot::new("residual_plot")
                     .height(h - 24.0)
@@ -101,6 +132,8 @@ impl DiagnosticsPanel {
                         pu.hline(HLine::new("", 0.0).color(color).width(1.0));
                         draw_marks(pu, &look, &m);
                     });
+                let b = resp.transform.bounds();
+                self.residual_y = Some([b.min()[1], b.max()[1]]);
                 if let Some(p) = resp.response.hover_pos() {
                     hovered = nearest(&m.all, &resp.transform, p);
                 }
@@ -303,6 +336,20 @@ fn draw_marks(pu: &mut egui_plot::PlotUi<'_>, look: &Look, m: &Marks) {
 }
 
 /// The envelope of a whole index across `px` pixel columns, as point indices.
+/// The y-span of the residual plot: the used points' residuals and zero, with a margin
+/// (a tenth of the span each side, at least 0.05 in ln K when all lie on the fit).
+pub fn used_span(rows: &[usize], points: &[isochore_fit::PointDiagnostics]) -> (f64, f64) {
+    let (lo, hi) = rows
+        .iter()
+        .filter_map(|&i| points.get(i))
+        .filter(|d| d.used && d.residual.is_finite())
+        .fold((0.0f64, 0.0f64), |(lo, hi), d| {
+            (lo.min(d.residual), hi.max(d.residual))
+        });
+    let pad = ((hi - lo) * 0.1).max(0.05);
+    (lo - pad, hi + pad)
+}
+
 fn whole_envelope(index: &crate::decimate::EnvelopeIndex, px: usize) -> Vec<usize> {
     index.x_range().map_or_else(Vec::new, |(lo, hi)| {
         // All at one x: a single column.

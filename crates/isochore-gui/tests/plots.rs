@@ -1,0 +1,56 @@
+//! The plots and the cautions beside them (issue 16 items 10–12): the residual plot's
+//! y-range follows the used points, the flag caution counts only used points, and marker
+//! shapes each have a hollow form and never repeat a colour–shape pair.
+
+use crate::workbench::{bench, harness};
+use egui_kittest::kittest::Queryable;
+
+/// The demo's outlier: row 7 of the binding series (30 °C, "baseline drift").
+const OUTLIER_ROW: usize = 6;
+
+#[test]
+fn an_excluded_point_neither_sets_the_residual_range_nor_counts_as_flagged() {
+    let mut h = harness(bench());
+    // The row's checkbox ("use row 7"; "include row 7" before the vocabulary change).
+    let row = OUTLIER_ROW + 1;
+    h.query_by_label(&format!("use row {row}"))
+        .or_else(|| h.query_by_label(&format!("include row {row}")))
+        .expect("the row's checkbox")
+        .click();
+    h.run_steps(4);
+    let w = h.state();
+    let s = w.project.get(w.active.unwrap()).unwrap();
+    let a = w.fitter.get(s.id).unwrap();
+    let fit = a.fit.as_ref().unwrap();
+    let points = fit.points();
+    let k = a.point_of_row[OUTLIER_ROW].unwrap();
+    assert!(!points[k].used);
+    let [lo, hi] = w.diagnostics.residual_y.expect("residual plot drawn");
+    // Every used residual is inside the range; the excluded one lies far outside it.
+    for d in points.iter().filter(|d| d.used) {
+        assert!(
+            lo <= d.residual && d.residual <= hi,
+            "{} in [{lo}, {hi}]",
+            d.residual
+        );
+    }
+    assert!(
+        !(lo..=hi).contains(&points[k].residual),
+        "{} in [{lo}, {hi}]",
+        points[k].residual
+    );
+    h.get_by_label_contains("1 excluded point beyond the range drawn at the edge");
+    // The caution counts only used points carrying a flag (the excluded outlier is still
+    // marked in the table).
+    assert!(points[k].flags.outlier);
+    let used_flagged = points.iter().filter(|d| d.used && d.flags.any()).count();
+    let flagged_caution = h.query_all_by_label_contains("flagged as outlier").count();
+    if used_flagged == 0 {
+        assert_eq!(flagged_caution, 0);
+    } else {
+        h.get_by_label_contains(&format!(
+            "{} flagged as outlier",
+            isochore_fit::error::counted(used_flagged, "point", "points")
+        ));
+    }
+}
