@@ -13,8 +13,9 @@ fn an_excluded_point_neither_sets_the_residual_range_nor_counts_as_flagged() {
     let mut h = harness(bench());
     // The row's checkbox ("use row 7"; "include row 7" before the vocabulary change).
     let row = OUTLIER_ROW + 1;
-    h.query_by_label(&format!("use row {row}"))
-        .or_else(|| h.query_by_label(&format!("include row {row}")))
+    let (now, before) = (format!("use row {row}"), format!("include row {row}"));
+    h.query_by_label(&now)
+        .or_else(|| h.query_by_label(&before))
         .expect("the row's checkbox")
         .click();
     h.run_steps(4);
