@@ -15,4 +15,5 @@ mod known_sigma;
 mod nist_strd;
 mod properties;
 mod regressions;
+mod water_pair;
 mod weighted_reference;
