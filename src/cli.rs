@@ -41,6 +41,22 @@ fn model_parser() -> impl clap::builder::TypedValueParser<Value = isochore_fit::
     })
 }
 
+/// The values of `--sigma`, each with the presentation module's words as help.
+fn sigma_parser() -> impl clap::builder::TypedValueParser<Value = isochore_fit::SigmaConvention> {
+    use clap::builder::TypedValueParser;
+    let names: Vec<clap::builder::PossibleValue> = isochore_fit::SigmaConvention::ALL
+        .iter()
+        .map(|&c| {
+            clap::builder::PossibleValue::new(c.cli_name())
+                .help(isochore_report::present::names::sigma_convention(c))
+        })
+        .collect();
+    clap::builder::PossibleValuesParser::new(names).try_map(|name: String| {
+        isochore_fit::SigmaConvention::from_key(&name)
+            .ok_or_else(|| format!("unknown σ convention \"{name}\""))
+    })
+}
+
 /// Energy unit for readable output and reports (JSON is always SI).
 #[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
 pub enum EnergyArg {
@@ -105,8 +121,14 @@ pub struct FitOptionsArgs {
     /// Confidence level of every interval, between 0 and 1 (default 0.95).
     #[arg(long, value_name = "LEVEL", value_parser = parse_level)]
     pub level: Option<f64>,
-    /// Take the stated σ as absolute (no rescaling by the reduced χ²; normal intervals).
-    #[arg(long)]
+    /// What the stated σ mean: relative-weights (σ are relative weights only; the scatter
+    /// about the fit sets the error scale) or known-uncertainties (σ are known standard
+    /// uncertainties; no rescaling, normal intervals). Default: the project's, else
+    /// relative-weights.
+    #[arg(long, value_name = "MEANING", value_parser = sigma_parser())]
+    pub sigma: Option<isochore_fit::SigmaConvention>,
+    /// The older name of `--sigma known-uncertainties`, still accepted.
+    #[arg(long, hide = true, conflicts_with = "sigma")]
     pub absolute_sigma: bool,
     /// Exclude these 1-based data rows, e.g. 3,7 or 3-5 (added to a project's exclusions).
     #[arg(long, value_name = "ROWS", value_parser = parse_rows)]

@@ -44,7 +44,11 @@ fn overrides(a: &FitOptionsArgs, with_cells: bool) -> Overrides {
         // Checked by `reference_temperature` before any file is read.
         t_ref_k: a.tref.and_then(|t| t.kelvin(a.temp_unit, "--tref").ok()),
         level: a.level,
-        absolute_sigma: a.absolute_sigma,
+        sigma: if a.absolute_sigma {
+            Some(isochore_fit::SigmaConvention::Absolute)
+        } else {
+            a.sigma
+        },
         unweighted: a.unweighted,
         allow_extreme_temperatures: a.allow_extreme_temperatures,
         energy_unit: a.energy.map(|e| e.unit()),

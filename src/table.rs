@@ -5,8 +5,8 @@
 use crate::load::Job;
 use isochore_fit::VantHoffFit;
 use isochore_report::present::{
-    fitted_params, fixed, flag_words, is_absolute, level_percent, plus_minus, result_rows, show_t,
-    sig, statistics_rows, unit_of, MISSING,
+    critical_distribution, fitted_params, fixed, flag_words, level_percent, names, plus_minus,
+    result_rows, show_t, sig, statistics_rows, unit_of, MISSING,
 };
 use std::io::{self, Write};
 
@@ -33,19 +33,16 @@ pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<
     writeln!(w, "{} — series “{}”", job.source, job.series)?;
     writeln!(
         w,
-        "model: {}; {}; {}% intervals ({})",
+        "model: {}; {}{}; {}% intervals ({})",
         fit.model().describe(),
+        names::weighting(fit.weighted()),
         if fit.weighted() {
-            "weighted by 1/σ²"
+            format!(", {}", names::sigma_convention(fit.options().convention))
         } else {
-            "unweighted"
+            String::new()
         },
         level_percent(fit),
-        if is_absolute(fit) {
-            "σ absolute, normal quantile".to_string()
-        } else {
-            format!("Student's t, {} dof", fit.dof())
-        }
+        critical_distribution(fit)
     )?;
     writeln!(w)?;
     let rows = result_rows(fit, job.energy, job.temperature);
@@ -98,7 +95,15 @@ pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<
     }
     writeln!(w)?;
     match fit.comparison() {
-        Some(c) => writeln!(w, "model comparison: {}", c.verdict)?,
+        Some(c) => {
+            writeln!(w, "model comparison: {}", c.verdict)?;
+            writeln!(
+                w,
+                "  {} ({})",
+                names::data_support(isochore_report::present::model_name(c.preferred)),
+                names::DELTA_AICC_SIGN
+            )?;
+        }
         None => writeln!(w, "model comparison: not possible with so few points")?,
     }
     let flagged: Vec<String> = job
@@ -109,11 +114,12 @@ pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<
         .take(50)
         .map(|(r, d)| {
             format!(
-                "  row {} (line {}, {}): {}; t_ext = {}, h = {}, D = {}",
+                "  row {} (line {}, {}): {}; {} = {}, h = {}, D = {}",
                 r.row,
                 r.line,
                 show_t(d.t_k, job.temperature),
                 flag_words(d.flags),
+                names::STUDENTIZED_SHORT,
                 d.student_ext
                     .or(d.prediction_residual)
                     .map_or(MISSING.into(), |t| fixed(t, 2)),

@@ -86,9 +86,9 @@ pub struct Overrides {
     pub t_ref_k: Option<f64>,
     /// Confidence level.
     pub level: Option<f64>,
-    /// Take σ as absolute.
-    pub absolute_sigma: bool,
-    /// Equal weights, every σ ignored.
+    /// What the stated σ mean (the command line's `--sigma`), over the file's or project's.
+    pub sigma: Option<SigmaConvention>,
+    /// Unweighted: every point counts the same, every σ ignored.
     pub unweighted: bool,
     /// Accept temperatures (and θ) outside 1–10 000 K.
     pub allow_extreme_temperatures: bool,
@@ -122,8 +122,8 @@ impl Overrides {
         if let Some(l) = self.level {
             o.level = l;
         }
-        if self.absolute_sigma {
-            o.convention = SigmaConvention::Absolute;
+        if let Some(c) = self.sigma {
+            o.convention = c;
         }
         if self.unweighted {
             o.weighting = Weighting::Unweighted;
@@ -151,7 +151,7 @@ impl Overrides {
 pub enum Remedy {
     /// State the decimal mark of the file.
     StateDecimalMark,
-    /// Fit with equal weights (every σ ignored).
+    /// Fit unweighted (every σ ignored).
     FitUnweighted,
     /// Confirm temperatures (or θ) outside 1–10 000 K.
     ConfirmExtremeTemperatures,

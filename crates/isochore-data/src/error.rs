@@ -403,7 +403,7 @@ pub enum Error {
 pub const ACCEPTED_HEADERS: &str = "temperature: T, temp, temperature with a unit as \
 'T (°C)', 'T/K', 'T_C', 'temp_K' or 'T [°F]'; measured quantity: K, Ka, Kb, Keq, ln K, log K, \
 log10 K, lgK, pK, pKa, pKa2, pKw, pKb, pKd, Kd (M, mM, µM, uM, nM, pM), ΔG or dG (kJ/mol, \
-kcal/mol, J/mol); uncertainty: sigma_…, sd_…, err_…, u(…), ±, σ, error, or a relative '%' \
+kcal/mol, J/mol); uncertainty: sigma_…, sd_…, err_…, u(…), ±, σ, error, or '%' (percent of the value) \
 column; data set: series, sample, sample id, condition, set, group (else name, label, run); free \
 text: note, comment, remark; any other column is kept but not used";
 

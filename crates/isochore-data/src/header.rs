@@ -65,7 +65,8 @@ const CONC_UNITS: &str = "M, mM, µM (uM), nM, pM, mol/L, mmol/L, µmol/L, nmol/
 const ENERGY_UNITS: &str = "kJ/mol (kJ mol-1), kcal/mol (kcal mol-1), J/mol";
 const K_UNITS: &str = "none (dimensionless) or M-1 (L/mol)";
 const LOG_UNITS: &str = "none (a logarithm is dimensionless)";
-const UNC_UNITS: &str = "% for a relative uncertainty, or the unit of the measured column";
+const UNC_UNITS: &str =
+    "% for an uncertainty in percent of the value, or the unit of the measured column";
 
 /// Normalises a name: lower case, no spaces, underscores, dots, brackets or degree signs;
 /// Greek delta as "delta"; micro as "u"; subscript digits as digits.

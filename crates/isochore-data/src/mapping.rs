@@ -221,7 +221,7 @@ impl ColumnMapping {
                     k.label()
                 ),
                 UncertaintyKind::RelativePercent => {
-                    "relative standard uncertainty in % of the value, converted to σ(ln K) by first-order propagation".to_string()
+                    "standard uncertainty in percent of the value, converted to σ(ln K) by first-order propagation".to_string()
                 }
             };
             out.push(format!("column {} '{}': {what}", u.column + 1, h(u.column)));

@@ -80,17 +80,53 @@ pub enum Weighting {
     Unweighted,
 }
 
-/// How the parameter covariance is scaled.
+/// What the stated σ mean, which decides how the parameter covariance is scaled. Written
+/// `relative_weights` / `known_uncertainties` in JSON and project files (the names of
+/// DEVELOPERS.md's table); the older `scaled_by_fit` / `absolute` are still read.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
-#[serde(rename_all = "snake_case")]
 pub enum SigmaConvention {
-    /// Ordinary weighted least squares: σ gives relative weights only; the covariance is
+    /// σ are relative weights only (ordinary weighted least squares): the covariance is
     /// scaled by the reduced χ², and intervals use Student's t with n − p degrees of freedom.
     #[default]
+    #[serde(rename = "relative_weights", alias = "scaled_by_fit")]
     ScaledByFit,
-    /// σ is taken as the true standard uncertainty: the covariance is (XᵀWX)⁻¹ unscaled
-    /// and intervals use the normal distribution.
+    /// σ are known standard uncertainties: the covariance is (XᵀWX)⁻¹ unscaled and
+    /// intervals use the normal distribution.
+    #[serde(rename = "known_uncertainties", alias = "absolute")]
     Absolute,
+}
+
+impl SigmaConvention {
+    /// Both conventions, the default first.
+    pub const ALL: [SigmaConvention; 2] = [SigmaConvention::ScaledByFit, SigmaConvention::Absolute];
+
+    /// The key in JSON and project files: "relative_weights", "known_uncertainties".
+    pub fn key(self) -> &'static str {
+        match self {
+            SigmaConvention::ScaledByFit => "relative_weights",
+            SigmaConvention::Absolute => "known_uncertainties",
+        }
+    }
+
+    /// The value of the command line's `--sigma`: "relative-weights", "known-uncertainties".
+    pub fn cli_name(self) -> &'static str {
+        match self {
+            SigmaConvention::ScaledByFit => "relative-weights",
+            SigmaConvention::Absolute => "known-uncertainties",
+        }
+    }
+
+    /// The convention with this key or command-line name (the older keys `scaled_by_fit`
+    /// and `absolute` included).
+    pub fn from_key(key: &str) -> Option<SigmaConvention> {
+        match key {
+            "scaled_by_fit" => Some(SigmaConvention::ScaledByFit),
+            "absolute" => Some(SigmaConvention::Absolute),
+            _ => Self::ALL
+                .into_iter()
+                .find(|c| c.key() == key || c.cli_name() == key),
+        }
+    }
 }
 
 /// Thresholds for flagging points. Defaults are rules of the trade (common practice).
@@ -226,5 +262,34 @@ mod tests {
         o.t_ref_k = 300.0;
         o.thresholds.cooks_factor = f64::NAN;
         assert!(o.validate().is_err());
+    }
+
+    #[test]
+    fn sigma_conventions_are_written_by_their_new_names_and_read_by_the_old_too() {
+        use SigmaConvention::*;
+        // The names of DEVELOPERS.md's vocabulary table.
+        assert_eq!(
+            serde_json::to_string(&Absolute).unwrap(),
+            "\"known_uncertainties\""
+        );
+        assert_eq!(
+            serde_json::to_string(&ScaledByFit).unwrap(),
+            "\"relative_weights\""
+        );
+        // Projects saved before the rename keep their meaning.
+        for (text, c) in [
+            ("\"absolute\"", Absolute),
+            ("\"scaled_by_fit\"", ScaledByFit),
+            ("\"known_uncertainties\"", Absolute),
+            ("\"relative_weights\"", ScaledByFit),
+        ] {
+            assert_eq!(serde_json::from_str::<SigmaConvention>(text).unwrap(), c);
+        }
+        for c in SigmaConvention::ALL {
+            assert_eq!(SigmaConvention::from_key(c.key()), Some(c));
+            assert_eq!(SigmaConvention::from_key(c.cli_name()), Some(c));
+        }
+        assert_eq!(SigmaConvention::from_key("absolute"), Some(Absolute));
+        assert_eq!(SigmaConvention::from_key("relative"), None);
     }
 }

@@ -5,6 +5,7 @@
 
 use crate::doc::{Project, Series};
 use isochore_data::{Exclusion, SeriesSettings};
+use isochore_report::present::names;
 
 /// One change to the document.
 #[derive(Debug, Clone, PartialEq)]
@@ -71,9 +72,8 @@ impl Command {
     pub fn describe(&self) -> String {
         match self {
             Command::SetExclusion { row, exclusion, .. } => match exclusion {
-                None => format!("include row {}", row + 1),
-                Some((r, _)) if r.is_empty() => format!("exclude row {}", row + 1),
-                Some(_) => format!("exclusion of row {}", row + 1),
+                None => names::use_row_again(row + 1),
+                Some(_) => names::exclude_row(row + 1),
             },
             Command::EditCell { row, .. } => format!("edit row {}", row + 1),
             Command::SetSettings { .. } => "settings change".into(),
@@ -196,9 +196,29 @@ pub const MAX_UNDO: usize = 500;
 impl History {
     /// Applies a new command; clears the redo stack. Returns whether it applied.
     pub fn apply(&mut self, project: &mut Project, cmd: Command) -> bool {
-        let label = cmd.describe();
+        let mut label = cmd.describe();
+        let excludes = matches!(
+            cmd,
+            Command::SetExclusion {
+                exclusion: Some(_),
+                ..
+            }
+        );
         match apply(project, cmd) {
             Some(inverse) => {
+                // Excluding a row that was already excluded changes only its reason, and
+                // undoing it takes only the reason back: the label says so.
+                if let (
+                    true,
+                    Command::SetExclusion {
+                        row,
+                        exclusion: Some(_),
+                        ..
+                    },
+                ) = (excludes, &inverse)
+                {
+                    label = names::exclusion_reason_of_row(row + 1);
+                }
                 self.undo.push((inverse, label));
                 if self.undo.len() > MAX_UNDO {
                     self.undo.remove(0);
@@ -354,6 +374,30 @@ mod tests {
         assert!(!h.dirty());
         while h.redo(&mut p) {}
         assert!(p.series.is_empty());
+    }
+
+    #[test]
+    fn undo_labels_say_what_undoing_does() {
+        let (mut p, id) = project();
+        let mut h = History::default();
+        let set = |exclusion: Option<(&str, i64)>| Command::SetExclusion {
+            series: id,
+            row: 2,
+            exclusion: exclusion.map(|(r, t)| (r.to_string(), rfc3339_utc(t))),
+        };
+        h.apply(&mut p, set(Some(("", 0))));
+        assert_eq!(h.undo_label(), Some("exclude row 3"));
+        // A reason typed for a row already excluded: undoing takes back only the reason.
+        h.apply(&mut p, set(Some(("air bubble", 60))));
+        assert_eq!(h.undo_label(), Some("reason for excluding row 3"));
+        h.undo(&mut p);
+        assert_eq!(h.redo_label(), Some("reason for excluding row 3"));
+        assert_eq!(h.undo_label(), Some("exclude row 3"));
+        h.apply(&mut p, set(None));
+        assert_eq!(h.undo_label(), Some("use row 3 again"));
+        // Excluding a used row with a reason at once is an exclusion.
+        h.apply(&mut p, set(Some(("bubble", 120))));
+        assert_eq!(h.undo_label(), Some("exclude row 3"));
     }
 
     #[test]

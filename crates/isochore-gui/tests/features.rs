@@ -100,7 +100,7 @@ fn retype(h: &mut H, label: &str, text: &str) {
 
 /// Opens the combo box labelled `combo` and picks the entry `choice`.
 fn choose(h: &mut H, combo: &str, choice: &str) {
-    h.get_by_label(combo).click();
+    h.get_by_role_and_label(Role::ComboBox, combo).click();
     h.run_steps(2);
     h.get_by_role_and_label(Role::Button, choice).click();
     h.run_steps(3);
@@ -132,14 +132,24 @@ fn each_setting_refits_and_undo_restores_the_results() {
     let id = w.active.unwrap();
     let f0 = library(&w, id, |_| {});
     let mut h = harness(w);
-    let dg0 = row_label("ΔG° (25.00 °C)", f0.at_reference().delta_g, 1e-3, "kJ/mol");
+    let dg0 = row_label(
+        "ΔG° at θ = 25.00 °C",
+        f0.at_reference().delta_g,
+        1e-3,
+        "kJ/mol",
+    );
     assert!(shows(&h, &dg0), "no {dg0}");
     assert!(shows(&h, &delta_h_label(f0.delta_h().value)));
 
     // θ: ΔG°(θ) moves to the new reference temperature.
     retype(&mut h, "θ", "37");
     let f = library(h.state(), id, |o| o.t_ref_k = 310.15);
-    let dg = row_label("ΔG° (37.00 °C)", f.at_reference().delta_g, 1e-3, "kJ/mol");
+    let dg = row_label(
+        "ΔG° at θ = 37.00 °C",
+        f.at_reference().delta_g,
+        1e-3,
+        "kJ/mol",
+    );
     assert_ne!(dg, dg0);
     assert!(shows(&h, &dg), "no {dg}");
     assert!((h.state().project.get(id).unwrap().options().t_ref_k - 310.15).abs() < 1e-9);
@@ -157,8 +167,8 @@ fn each_setting_refits_and_undo_restores_the_results() {
     undo(&mut h);
     assert!(shows(&h, "95 % CI") && shows(&h, &ci0) && !shows(&h, &ci));
 
-    // Weighting: equal weights give a different ΔH°.
-    choose(&mut h, "weighting", "equal weights");
+    // Weighting: unweighted gives a different ΔH°.
+    choose(&mut h, "weighting", "unweighted");
     let f = library(h.state(), id, |o| o.weighting = Weighting::Unweighted);
     let dh = delta_h_label(f.delta_h().value);
     assert_ne!(dh, delta_h_label(f0.delta_h().value));
@@ -167,7 +177,7 @@ fn each_setting_refits_and_undo_restores_the_results() {
     assert!(shows(&h, &delta_h_label(f0.delta_h().value)) && !shows(&h, &dh));
 
     // σ convention: the same ΔH°, another standard error and interval.
-    choose(&mut h, "σ convention", "absolute");
+    choose(&mut h, "σ convention", "σ are known standard uncertainties");
     let f = library(h.state(), id, |o| o.convention = SigmaConvention::Absolute);
     assert_eq!(f.delta_h().value, f0.delta_h().value);
     let ci = ci_label(f.delta_h(), 1e-3);
@@ -188,7 +198,12 @@ fn each_setting_refits_and_undo_restores_the_results() {
 
     // Temperature unit: kelvin.
     choose(&mut h, "temperature unit", "K");
-    let dg_k = row_label("ΔG° (298.15 K)", f0.at_reference().delta_g, 1e-3, "kJ/mol");
+    let dg_k = row_label(
+        "ΔG° at θ = 298.15 K",
+        f0.at_reference().delta_g,
+        1e-3,
+        "kJ/mol",
+    );
     assert!(shows(&h, &dg_k), "no {dg_k}");
     undo(&mut h);
     assert!(shows(&h, &dg0) && !shows(&h, &dg_k));
@@ -199,7 +214,7 @@ fn each_setting_refits_and_undo_restores_the_results() {
     let marks0 = h.query_all_by_label_contains("⚑").count();
     type Set = fn(&mut FitOptions);
     let cases: [(&str, &str, Set); 3] = [
-        ("studentized residual threshold", "0.5", |o| {
+        ("ext. stud. residual threshold", "0.5", |o| {
             o.thresholds.outlier_studentized = 0.5
         }),
         ("leverage factor", "1", |o| {
@@ -251,7 +266,7 @@ fn switching_the_active_series_and_hiding_series() {
     h.run_steps(3);
     assert_eq!(active_id(&h), acid);
     assert!(shows(&h, &delta_h_label(f_acid.delta_h().value)));
-    assert!(shows(&h, &format!("{a_name} — 12 rows, 0 left out")));
+    assert!(shows(&h, &format!("{a_name} — 12 rows, 0 excluded")));
     // The binding series (shown, no longer active) stays in the key until it is hidden.
     let in_key = |h: &H| h.query_all_by_label(b_name).count();
     assert_eq!(in_key(&h), 2);
@@ -304,13 +319,13 @@ fn results_and_prediction_panels_show_the_library_numbers() {
         ("ΔH°".to_string(), f.delta_h(), 1e-3, "kJ/mol"),
         ("ΔS°".to_string(), f.delta_s(), 1.0, "J/(mol·K)"),
         (
-            "ΔG° (25.00 °C)".to_string(),
+            "ΔG° at θ = 25.00 °C".to_string(),
             f.at_reference().delta_g,
             1e-3,
             "kJ/mol",
         ),
         (
-            format!("ΔG° ({} °C)", fixed(th, 1)),
+            format!("ΔG° at T_hm = {} °C", fixed(th, 1)),
             f.at_harmonic().delta_g,
             1e-3,
             "kJ/mol",
@@ -514,7 +529,7 @@ fn ctrl_s_saves_atomically_and_the_file_reloads_to_the_same_analysis() {
     assert!(path.exists() && !h.state().history.dirty());
     let first = std::fs::read(&path).unwrap();
     // An edit, then plain Ctrl+S: written to the same file, no dialog.
-    h.get_by_label("include row 3").click();
+    h.get_by_label("use row 3").click();
     h.run_steps(3);
     assert!(h.state().history.dirty());
     h.key_press_modifiers(Modifiers::COMMAND, Key::S);
@@ -589,7 +604,7 @@ fn closing_with_unsaved_changes_asks_first() {
 
     // Unsaved changes: the close is cancelled and the question asked.
     let mut h = harness(bench());
-    h.get_by_label("include row 2").click();
+    h.get_by_label("use row 2").click();
     h.run_steps(3);
     press_close_button(&mut h);
     assert!(sent(&h).contains(&egui::ViewportCommand::CancelClose));
@@ -616,7 +631,7 @@ fn closing_with_unsaved_changes_asks_first() {
     w.save_to(&path);
     let mut h = harness(w);
     let before = std::fs::read(&path).unwrap();
-    h.get_by_label("include row 2").click();
+    h.get_by_label("use row 2").click();
     h.run_steps(3);
     press_close_button(&mut h);
     h.run_steps(2);

@@ -331,7 +331,10 @@ fn fit_unweighted_can_be_chosen_in_the_preview() {
     let n_before = w.project.series.len();
     let mut h = harness(w);
     paste(&mut h, GAPS);
-    click(&mut h, "fit unweighted (equal weights; every σ is ignored)");
+    click(
+        &mut h,
+        "fit unweighted (every point counts the same; every σ is ignored)",
+    );
     assert!(h.state().files.preview.as_ref().unwrap().unweighted);
     assert!(!shows_part(&h, "line 3, column 3 ('u(K)')"));
     let id = accept_import(&mut h, n_before);

@@ -110,7 +110,7 @@ fn excluding_through_the_table_refits_and_undo_restores() {
     let (dh_wo, _) = library_fit(&w, Some(OUTLIER_ROW), Model::LINEAR);
     assert_ne!(delta_h_label(dh_all), delta_h_label(dh_wo));
     let mut h = harness(w);
-    h.get_by_label(&format!("include row {}", OUTLIER_ROW + 1))
+    h.get_by_label(&format!("use row {}", OUTLIER_ROW + 1))
         .click();
     h.run_steps(3);
     assert_eq!(active_row_excluded(&h, OUTLIER_ROW).as_deref(), Some(""));
@@ -275,7 +275,7 @@ fn saving_and_reopening_keeps_exclusions_and_reasons() {
     let w = bench();
     let (dh_wo, _) = library_fit(&w, Some(OUTLIER_ROW), Model::LINEAR);
     let mut h = harness(w);
-    h.get_by_label(&format!("include row {}", OUTLIER_ROW + 1))
+    h.get_by_label(&format!("use row {}", OUTLIER_ROW + 1))
         .click();
     h.run_steps(3);
     // Give the reason in the table's reason cell.

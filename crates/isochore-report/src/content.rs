@@ -6,11 +6,9 @@
 //! All text in blocks is plain (unescaped); each writer escapes for its own format.
 
 use crate::figures::FigureKind;
-use crate::present::{self, fixed, percent};
+use crate::present::{self, fixed, names, percent};
 use crate::ReportInput;
-use isochore_fit::{
-    EnergyUnit, SigmaConvention, TemperatureUnit, VantHoffFit, Weighting, GAS_CONSTANT,
-};
+use isochore_fit::{EnergyUnit, TemperatureUnit, VantHoffFit, Weighting, GAS_CONSTANT};
 
 // The presentation rules live in `present`; these names stay here for existing callers.
 pub use crate::present::{
@@ -125,7 +123,7 @@ pub fn job_line(input: &ReportInput) -> String {
         fit.n_used(),
         fit.n_total(),
         present::model_name(fit.model()),
-        if fit.weighted() { "weighted by 1/σ²" } else { "unweighted" },
+        names::weighting(fit.weighted()),
         percent(fit.options().level),
     )
 }
@@ -139,12 +137,14 @@ fn methods(input: &ReportInput) -> Vec<Block> {
         (Weighting::InverseVariance, true) => {
             "Each point is weighted by 1/σ(ln K)², with σ(ln K) propagated to first order from the uncertainty given in the file."
         }
-        _ => "All points carry equal weight (unweighted least squares).",
+        _ => "The fit is unweighted: every point counts the same (ordinary least squares).",
     };
     let convention = if present::is_absolute(fit) {
-        "The stated uncertainties are taken as absolute: the parameter covariance is (XᵀWX)⁻¹ without rescaling, and intervals use the normal distribution. With σ known, the log-likelihood follows from χ², AICc and BIC count only the p coefficients (k = p), and the model comparison uses the likelihood-ratio (Δχ²) test."
+        "σ are known standard uncertainties: the parameter covariance is (XᵀWX)⁻¹ without rescaling, and intervals use the normal distribution. With σ known, the log-likelihood follows from χ², AICc and BIC count only the p coefficients (k = p), and the model comparison uses the likelihood-ratio (Δχ²) test."
+    } else if fit.weighted() {
+        "σ are relative weights only: the parameter covariance is scaled by the reduced χ² (the scatter about the fit sets the error scale), and intervals use Student's t with n − p degrees of freedom. With σ estimated from the scatter, AICc and BIC count the variance as well as the p coefficients (k = p + 1), and the model comparison uses the F-test."
     } else {
-        "The parameter covariance is scaled by the reduced χ² (the scatter about the fit sets the error scale), and intervals use Student's t with n − p degrees of freedom. With σ estimated from the scatter, AICc and BIC count the variance as well as the p coefficients (k = p + 1), and the model comparison uses the F-test."
+        "With no σ, the scatter about the fit sets the error scale: the parameter covariance is scaled by the reduced χ², and intervals use Student's t with n − p degrees of freedom. With σ estimated from the scatter, AICc and BIC count the variance as well as the p coefficients (k = p + 1), and the model comparison uses the F-test."
     };
     out.push(Block::Paragraph(format!(
         "The {} model was fitted to ln K by least squares written directly in the thermodynamic parameters, so the fitted coefficients are {} with their full covariance:",
@@ -240,8 +240,8 @@ fn diagnostics_table(input: &ReportInput) -> Table {
         "row",
         "T",
         "leverage",
-        "stud. res. (int)",
-        "stud. res. (ext)",
+        names::STUDENTIZED_INTERNAL_SHORT,
+        names::STUDENTIZED_SHORT,
         "Cook's D",
         "DFFITS",
         "flags",
@@ -289,10 +289,10 @@ fn comparison(fit: &VantHoffFit) -> Vec<Block> {
     };
     vec![
         Block::Paragraph(format!(
-            "The nested models {} compared on the same points: {}. The evidence prefers the {} model; this report uses the {} model.",
+            "The nested models {} compared on the same points: {}. {} This report uses the {} model.",
             present::ladder_text(c),
             c.verdict,
-            present::model_name(c.preferred),
+            names::data_support(present::model_name(c.preferred)),
             present::model_name(fit.model()),
         )),
         Block::Table(Table {
@@ -302,7 +302,7 @@ fn comparison(fit: &VantHoffFit) -> Vec<Block> {
                 .map(|(k, v)| vec![k, v])
                 .collect(),
             numeric: vec![false, true],
-            note: None,
+            note: Some(format!("{}.", names::DELTA_AICC_SIGN)),
         }),
     ]
 }
@@ -359,8 +359,9 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
             .collect(),
         numeric: vec![false, true, true, true, true, false],
         note: Some(format!(
-            "SE = standard error; CI = {}% confidence interval. θ is the reference temperature, T_hm the weighted harmonic-mean temperature of the used points.",
-            percent(fit.options().level)
+            "SE = standard error; CI = {}% confidence interval. θ is the reference temperature; {}.",
+            percent(fit.options().level),
+            names::T_HM_MEANING
         )),
     }));
     if !fit.warnings().is_empty() {
@@ -397,7 +398,8 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
     b.push(Block::Figure(
         FigureKind::Influence,
         format!(
-            "Internally studentized residual against leverage for the used points, with contours of Cook's distance D = {}/n and D = 1; dotted lines mark the leverage threshold {}·p/n and residuals of ±{}.",
+            "The {} against leverage for the used points, with contours of Cook's distance D = {}/n and D = 1; dotted lines mark the leverage threshold {}·p/n and residuals of ±{}.",
+            names::STUDENTIZED,
             sig(fit.options().thresholds.cooks_factor, 3),
             sig(fit.options().thresholds.leverage_factor, 3),
             sig(fit.options().thresholds.outlier_studentized, 3)
@@ -443,15 +445,15 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
             show_t(fit.options().t_ref_k, tu)
         ),
     ));
-    let (header, rows) = present::covariance_table(fit);
-    if rows.len() >= 2 {
-        let mut numeric = vec![true; header.len()];
-        numeric[0] = false;
+    let (header, rows) = present::covariance_table(fit, e);
+    if rows.len() >= 3 {
         b.push(Block::Table(Table {
             header,
             rows,
-            numeric,
-            note: None,
+            numeric: vec![false, true, false],
+            note: Some(
+                "Each covariance is in the product of its two quantities' units; a variance is in the square of its unit.".into(),
+            ),
         }));
     }
 
@@ -497,20 +499,12 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
             format!("{} K", fixed(o.t_ref_k, 2)),
         ],
         vec![
-            "weighting".into(),
-            match o.weighting {
-                Weighting::InverseVariance => "1/σ²",
-                Weighting::Unweighted => "none",
-            }
-            .to_string(),
+            names::WEIGHTING.into(),
+            names::weighting(fit.weighted()).to_string(),
         ],
         vec![
-            "σ convention".into(),
-            match o.convention {
-                SigmaConvention::ScaledByFit => "scaled by reduced χ²",
-                SigmaConvention::Absolute => "absolute",
-            }
-            .to_string(),
+            names::SIGMA_CONVENTION.into(),
+            names::sigma_convention(o.convention).to_string(),
         ],
         vec!["confidence level".into(), sig(o.level, 4)],
         vec![

@@ -143,16 +143,17 @@ impl Serialize for ParamsJson {
     }
 }
 
-/// `model_comparison`: the first step up the ladder of nested models, the model the
-/// evidence prefers, and every step the points allow.
+/// `model_comparison`: the first step up the ladder of nested models, the model the data
+/// support, and every step the points allow.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct ComparisonJson {
     /// p-value of the F-test of the first step.
     pub f_p_value: Option<f64>,
     /// ΔAICc (larger − smaller model) of the first step; null with too few points.
     pub delta_aicc: Option<f64>,
-    /// Key of the preferred model.
-    pub preferred: &'static str,
+    /// Key of the model the comparison finds the data support (written `preferred` by
+    /// earlier versions; see the README).
+    pub supported_by_data: &'static str,
     /// Every step of the ladder, simplest first.
     pub steps: Vec<ComparisonStepJson>,
 }
@@ -285,6 +286,11 @@ pub struct FitJson<'a> {
     pub t_ref_k: Option<f64>,
     /// Confidence level.
     pub level: Option<f64>,
+    /// The weighting the fit used: "inverse_variance" or "unweighted".
+    pub weighting: &'static str,
+    /// What the stated σ mean: "relative_weights" or "known_uncertainties" (the value of
+    /// `--sigma`, with `_` for `-`).
+    pub sigma_convention: &'static str,
     /// Points used.
     pub n_used: usize,
     /// Residual degrees of freedom.
@@ -361,7 +367,7 @@ impl<'a> FitJson<'a> {
         let model_comparison = fit.comparison().map(|c| ComparisonJson {
             f_p_value: n.num(name("model_comparison.f_p_value"), c.f_p_value),
             delta_aicc: n.opt(name("model_comparison.delta_aicc"), c.delta_aicc),
-            preferred: c.preferred.key(),
+            supported_by_data: c.preferred.key(),
             steps: c
                 .steps
                 .iter()
@@ -412,6 +418,12 @@ impl<'a> FitJson<'a> {
             model: fit.model().key(),
             t_ref_k,
             level,
+            weighting: if fit.weighted() {
+                "inverse_variance"
+            } else {
+                "unweighted"
+            },
+            sigma_convention: fit.options().convention.key(),
             n_used: fit.n_used(),
             dof: fit.dof(),
             params,

@@ -94,8 +94,7 @@ pub(super) fn cautions(fit: &VantHoffFit, flagged: usize, leverage_one: bool) ->
         warnings.push(Warning::new(
             WarningKind::StrongCorrelation,
             format!(
-                "ΔH° and ΔS° are strongly correlated (r = {corr_h_s:.4}); their separate intervals overstate what is known jointly — quote the covariance, or ΔH° with ΔG° at the mean temperature {:.1} K, where the two are nearly uncorrelated",
-                fit.t_harmonic_k
+                "ΔH° and ΔS° are strongly correlated (r = {corr_h_s:.4}); their separate intervals overstate what is known jointly — quote the covariance, or ΔH° with ΔG° at T_hm (the weighted harmonic-mean temperature), where ΔG° is uncorrelated with ΔH° (exactly so for the linear model)"
             ),
         ));
     }
@@ -166,7 +165,7 @@ pub(super) fn cautions(fit: &VantHoffFit, flagged: usize, leverage_one: bool) ->
             warnings.push(Warning::new(
                 WarningKind::ScatterVersusSigma,
                 format!(
-                    "the scatter is larger than the stated σ allow (reduced χ² = {:.2}, p = {pv:.2e}); absolute-σ intervals are too narrow — use the scaled convention or revisit σ",
+                    "the scatter is larger than the stated σ allow (reduced χ² = {:.2}, p = {pv:.2e}); intervals that take σ as known standard uncertainties are too narrow — take σ as relative weights only, or revisit σ",
                     fit.stats.reduced_chi2
                 ),
             ));

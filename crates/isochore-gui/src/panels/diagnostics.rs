@@ -8,7 +8,7 @@ use crate::app::Cx;
 use crate::panels::style;
 use egui::RichText;
 use egui_plot::{HLine, Line, LineStyle, Plot, PlotPoint, Points, Text, VLine};
-use isochore_report::present;
+use isochore_report::present::{self, names};
 
 /// The diagnostic plots' state: the decimated rows of a large series, kept while the
 /// analysis and the plot width stay the same (both plots always show the whole series).
@@ -77,7 +77,7 @@ impl DiagnosticsPanel {
         let look = Look {
             color,
             shape,
-            flag,
+            flag: style::flag_ring_color(dark),
             highlight: hl,
             large: !a.resid_index.is_empty(),
         };
@@ -124,7 +124,7 @@ impl DiagnosticsPanel {
                 });
                 let resp = Plot::new("residual_plot")
                     .height(h - 24.0)
-                    .custom_x_axes(vec![style::x_axis(format!("T / {}", tu.symbol()))])
+                    .custom_x_axes(vec![style::x_axis(names::t_axis(tu))])
                     .custom_y_axes(vec![style::y_axis("ln K − fit")])
                     .show_x(false)
                     .show_y(false)
@@ -138,12 +138,16 @@ impl DiagnosticsPanel {
                     hovered = nearest(&m.all, &resp.transform, p);
                 }
             });
-            // Influence: leverage against studentized residual.
+            // Influence: leverage against the externally studentized residual.
             ui.vertical(|ui| {
                 ui.set_width(half);
                 ui.horizontal_wrapped(|ui| {
                     ui.label(
-                        RichText::new("Influence: leverage against studentized residual").strong(),
+                        RichText::new(format!(
+                            "Influence: leverage against {}",
+                            names::STUDENTIZED
+                        ))
+                        .strong(),
                     );
                     ui.label(
                         RichText::new(

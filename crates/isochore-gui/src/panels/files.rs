@@ -407,7 +407,7 @@ fn weighting_choice(ui: &mut egui::Ui, p: &mut ImportPreview, flag: egui::Color3
     if p.sigma_problem().is_some() || p.unweighted {
         ui.checkbox(
             &mut p.unweighted,
-            "fit unweighted (equal weights; every σ is ignored)",
+            "fit unweighted (every point counts the same; every σ is ignored)",
         );
     }
 }
@@ -499,7 +499,7 @@ fn mapping_editor(ui: &mut egui::Ui, p: &mut ImportPreview) -> bool {
                 m.uncertainty.map(|u| u.kind),
                 Some(UncertaintyKind::RelativePercent)
             );
-            ui.checkbox(&mut relative, "in % of the value");
+            ui.checkbox(&mut relative, "in percent of the value");
             m.uncertainty = col.map(|column| UncertaintyColumn {
                 column,
                 kind: if relative {

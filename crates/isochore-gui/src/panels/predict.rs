@@ -170,7 +170,7 @@ impl PredictPanel {
             );
             egui::Grid::new("two_point").num_columns(4).show(ui, |ui| {
                 ui.label("");
-                ui.label(format!("T / {}", tu.symbol()));
+                ui.label(isochore_report::present::names::t_axis(tu));
                 ui.label("K");
                 ui.label("σ(ln K)");
                 ui.end_row();

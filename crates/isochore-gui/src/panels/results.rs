@@ -10,7 +10,7 @@ use crate::panels::{settings::model_name, style};
 use egui::RichText;
 use egui_plot::{Line, Plot, PlotPoints, Points};
 use isochore_fit::{VantHoffFit, WarningKind, Weighting};
-use isochore_report::present;
+use isochore_report::present::{self, names};
 
 /// The results panel (no state of its own).
 #[derive(Debug, Default)]
@@ -97,9 +97,11 @@ impl ResultsPanel {
                 ui.strong("SE");
                 ui.strong(format!("{level} % CI"));
                 ui.end_row();
-                // Every parameter of the model, then ΔG° at θ and at the mean temperature.
+                // Every parameter of the model, then ΔG° at θ and at T_hm; "at θ = …" on a
+                // second line, so the names of the table keep the panel narrow.
                 for r in present::parameter_rows(fit, energy_unit, tu) {
-                    let label = ui.label(RichText::new(r.quantity.clone()).strong());
+                    let shown = r.quantity.replacen(" at ", "\nat ", 1);
+                    let label = ui.label(RichText::new(shown).strong());
                     if corr_warn && r.is_enthalpy_or_entropy() {
                         label.on_hover_text(
                             "strongly correlated with the other parameter: see below",
@@ -120,9 +122,10 @@ impl ResultsPanel {
                 }
             });
         ui.label(
-            RichText::new(
-                "The last ΔG° is at T_hm, the weighted harmonic-mean temperature, where it is uncorrelated with ΔH°: quote ΔH° with that ΔG°.",
-            )
+            RichText::new(format!(
+                "{}; there ΔG° is uncorrelated with ΔH°: quote ΔH° with ΔG° at T_hm.",
+                names::T_HM_MEANING
+            ))
             .small()
             .weak(),
         );
@@ -147,8 +150,8 @@ impl ResultsPanel {
             ];
             Plot::new("hs_ellipse")
                 .height(140.0)
-                .x_axis_label(format!("ΔH° / {}", eu.symbol))
-                .y_axis_label(format!("ΔS° / {}", su.symbol))
+                .x_axis_label(names::quantity_axis("ΔH°", eu.symbol))
+                .y_axis_label(names::quantity_axis("ΔS°", su.symbol))
                 .show_x(false)
                 .show_y(false)
                 .allow_scroll(false)
@@ -165,15 +168,15 @@ impl ResultsPanel {
         if let Some(c) = fit.comparison() {
             ui.add_space(4.0);
             ui.label(RichText::new("Which model?").strong());
-            // Step by step (each step's verdict in its own words), then the preference.
+            // Step by step (each step's verdict in its own words), then the answer.
             for step in &c.steps {
                 ui.label(&step.verdict);
                 ui.label(RichText::new(present::step_summary(step)).small());
             }
-            ui.label(format!(
-                "The evidence prefers the {} model.",
-                present::model_name(c.preferred)
-            ));
+            if c.steps.iter().any(|s| s.delta_aicc.is_some()) {
+                ui.label(RichText::new(names::DELTA_AICC_SIGN).small().weak());
+            }
+            ui.label(names::data_support(present::model_name(c.preferred)));
         }
         if !fit.warnings().is_empty() {
             ui.add_space(4.0);

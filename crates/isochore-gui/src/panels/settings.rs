@@ -7,6 +7,7 @@ use crate::app::{Action, Cx};
 use crate::command::Command;
 use crate::panels::style;
 use isochore_fit::{EnergyUnit, Model, SigmaConvention, TemperatureUnit, Weighting};
+use isochore_report::present::names;
 
 /// Text being typed into a numeric setting, committed on Enter or when focus leaves.
 #[derive(Debug, Default)]
@@ -103,7 +104,7 @@ impl SettingsPanel {
                         }
                     });
                 combo.response.widget_info(|| {
-                    egui::WidgetInfo::labeled(egui::Role::ComboBox, true, "weighting")
+                    egui::WidgetInfo::labeled(egui::Role::ComboBox, true, names::WEIGHTING)
                 });
                 ui.end_row();
 
@@ -116,18 +117,22 @@ impl SettingsPanel {
                 );
                 ui.end_row();
 
-                ui.label("σ taken as").on_hover_text(
-                    "Relative: the scatter sets the error bars. Absolute: the stated σ are true uncertainties.",
-                );
+                ui.label("σ convention").on_hover_text(format!(
+                    "{}: {}. {}: {}.",
+                    names::sigma_convention(SigmaConvention::ScaledByFit),
+                    names::sigma_convention_effect(SigmaConvention::ScaledByFit),
+                    names::sigma_convention(SigmaConvention::Absolute),
+                    names::sigma_convention_effect(SigmaConvention::Absolute),
+                ));
                 let combo = egui::ComboBox::from_id_salt("convention")
                     .selected_text(convention_name(cur.fit.convention))
                     .show_ui(ui, |ui| {
-                        for c in [SigmaConvention::ScaledByFit, SigmaConvention::Absolute] {
+                        for c in SigmaConvention::ALL {
                             ui.selectable_value(&mut new.fit.convention, c, convention_name(c));
                         }
                     });
                 combo.response.widget_info(|| {
-                    egui::WidgetInfo::labeled(egui::Role::ComboBox, true, "σ convention")
+                    egui::WidgetInfo::labeled(egui::Role::ComboBox, true, names::SIGMA_CONVENTION)
                 });
                 ui.end_row();
 
@@ -164,11 +169,11 @@ impl SettingsPanel {
             .spacing([8.0, 6.0])
             .show(ui, |ui| {
                 let t = cur.fit.thresholds;
-                ui.label("|studentized residual| >");
+                ui.label(format!("|{}| >", names::STUDENTIZED_SHORT));
                 if let Some(v) = self.number(
                     ui,
                     "t_out",
-                    "studentized residual threshold",
+                    &format!("{} threshold", names::STUDENTIZED_SHORT),
                     t.outlier_studentized,
                     2,
                     "",
@@ -254,15 +259,9 @@ pub fn model_name(m: Model) -> String {
 }
 
 fn weighting_name(w: Weighting) -> &'static str {
-    match w {
-        Weighting::InverseVariance => "1/σ² (from uncertainties)",
-        Weighting::Unweighted => "equal weights",
-    }
+    names::weighting(w == Weighting::InverseVariance)
 }
 
 fn convention_name(c: SigmaConvention) -> &'static str {
-    match c {
-        SigmaConvention::ScaledByFit => "relative (scaled by fit)",
-        SigmaConvention::Absolute => "absolute",
-    }
+    names::sigma_convention(c)
 }

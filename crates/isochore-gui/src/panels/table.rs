@@ -9,6 +9,7 @@ use crate::command::Command;
 use crate::panels::style;
 use egui::{RichText, Sense};
 use egui_extras::{Column, TableBuilder};
+use isochore_report::present::names;
 
 /// What a cell being edited holds.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -71,7 +72,7 @@ impl TablePanel {
         ui.horizontal(|ui| {
             ui.heading("Measurements");
             ui.label(format!(
-                "{} — {} rows, {} left out",
+                "{} — {} rows, {} excluded",
                 series.name(),
                 series.n_rows(),
                 n_excl
@@ -82,7 +83,7 @@ impl TablePanel {
         });
         ui.label(
             RichText::new(
-                "Click a value or a reason to edit it (Enter keeps, Esc cancels); untick a row to leave it out of the fit.",
+                "Click a value or a reason to edit it (Enter keeps, Esc cancels); untick a row to exclude it from the fit.",
             )
             .small()
             .weak(),
@@ -92,20 +93,24 @@ impl TablePanel {
         let note_col = series.note_column();
         let mut headers: Vec<(String, String)> = vec![
             ("#".into(), "row number (file line in the hover)".into()),
-            ("use".into(), "include the row in the fit".into()),
+            (
+                names::USED.into(),
+                "ticked: the row is used in the fit; untick to exclude it".into(),
+            ),
         ];
         for &c in &value_cols {
             headers.push((series.header(c).to_string(), "as typed in the file".into()));
         }
+        let studentized_tip = format!(
+            "{} (excluded rows: residual in prediction SDs)",
+            names::STUDENTIZED
+        );
         for (h, tip) in [
             ("ln K", "on the fitting scale"),
             ("leverage", "hᵢ: pull of the point on the fit"),
-            (
-                "stud. resid.",
-                "externally studentized residual (excluded rows: residual in prediction SDs)",
-            ),
+            (names::STUDENTIZED_SHORT, studentized_tip.as_str()),
             ("Cook's D", "influence of the point on the fit"),
-            ("reason", "why the row is left out"),
+            ("reason", "why the row is excluded"),
             ("note", "note from the file"),
         ] {
             headers.push((h.into(), tip.into()));
@@ -124,7 +129,14 @@ impl TablePanel {
                     .clip(true),
                 value_cols.len(),
             )
-            .columns(Column::initial(80.0).at_least(60.0).resizable(true), 4)
+            // Clipped, so a long header (hover for the full name) does not widen them.
+            .columns(
+                Column::initial(80.0)
+                    .at_least(60.0)
+                    .resizable(true)
+                    .clip(true),
+                4,
+            )
             .column(
                 Column::initial(220.0)
                     .at_least(80.0)
@@ -161,7 +173,7 @@ impl TablePanel {
                     tr.col(|ui| {
                         let mut inc = excl.is_none();
                         let r = ui.checkbox(&mut inc, "");
-                        let label = format!("include row {}", i + 1);
+                        let label = format!("use row {}", i + 1);
                         r.widget_info(|| {
                             egui::WidgetInfo::selected(egui::Role::CheckBox, true, inc, &label)
                         });

@@ -120,7 +120,7 @@ impl PlotPanel {
         }
         let has_data = extent.is_some();
         let top_axis = AxisHints::new_x()
-            .label(format!("T / {}", t_unit.symbol()))
+            .label(isochore_report::present::names::t_axis(t_unit))
             .placement(VPlacement::Top)
             .label_spacing(38.0..=54.0)
             .formatter(move |mark, _| {
@@ -131,7 +131,7 @@ impl PlotPanel {
                     String::new()
                 }
             });
-        let bottom_axis = style::x_axis("10³ K / T");
+        let bottom_axis = style::x_axis(isochore_report::present::names::INVERSE_T_AXIS);
         let mut plot = Plot::new("vant_hoff_plot")
             .custom_x_axes(vec![bottom_axis, top_axis])
             .custom_y_axes(vec![style::y_axis("ln K")])
@@ -226,7 +226,7 @@ impl PlotPanel {
         };
         let mut close = false;
         let mut save = false;
-        egui::Window::new(format!("Row {} left out", p.row + 1))
+        egui::Window::new(format!("Row {} excluded", p.row + 1))
             .collapsible(false)
             .resizable(false)
             .anchor(egui::Align2::CENTER_TOP, [0.0, 80.0])
@@ -437,7 +437,7 @@ fn draw_points(
         pu.points(
             Points::new("flagged point", PlotPoints::new(flagged))
                 .shape(MarkerShape::Circle)
-                .color(style::flag_color(dark))
+                .color(style::flag_ring_color(dark))
                 // Thousands of rings would merge into blots: on a large series a
                 // flagged point is a small dot in the flag colour instead.
                 .filled(large)
@@ -494,7 +494,7 @@ pub fn point_card(
             ui.label(style::fixed(d.leverage, 3));
             ui.end_row();
             if let Some(t) = d.student_ext.or(d.prediction_residual) {
-                ui.label("stud. residual");
+                ui.label(isochore_report::present::names::STUDENTIZED_SHORT);
                 ui.label(style::fixed(t, 2));
                 ui.end_row();
             }
@@ -522,13 +522,13 @@ pub fn point_card(
     });
     match s.exclusion(row) {
         None => {
-            ui.label("Used in the fit. Click to leave it out.");
+            ui.label("Used in the fit. Click to exclude it.");
         }
         Some(e) if e.reason.is_empty() => {
-            ui.label("Left out (no reason given). Click to take it back.");
+            ui.label("Excluded (no reason given). Click to use it again.");
         }
         Some(e) => {
-            ui.label(format!("Left out: {}. Click to take it back.", e.reason));
+            ui.label(format!("Excluded: {}. Click to use it again.", e.reason));
         }
     }
     if let Some(c) = s.note_column() {

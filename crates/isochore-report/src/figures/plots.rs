@@ -34,7 +34,7 @@ pub(super) fn vant_hoff(root: &Area, input: &ReportInput) -> Result<(), ReportEr
         Frame {
             x: (x0, x1),
             y: (y0, y1),
-            x_desc: "1000 K / T",
+            x_desc: crate::present::names::INVERSE_T_AXIS,
             y_desc: "ln K",
             left: 72,
             top: 70,
@@ -66,7 +66,7 @@ pub(super) fn vant_hoff(root: &Area, input: &ReportInput) -> Result<(), ReportEr
         .map_err(fe)?;
     }
     root.draw(&Text::new(
-        format!("temperature / {}", tu.symbol()),
+        crate::present::names::t_axis(tu),
         ((left + right) / 2, top - 32),
         (FONT, DESC_SIZE)
             .into_font()
@@ -163,7 +163,7 @@ pub(super) fn residuals(root: &Area, input: &ReportInput) -> Result<(), ReportEr
         Frame {
             x: (x0, x1),
             y: (y0, y1),
-            x_desc: &format!("temperature / {}", tu.symbol()),
+            x_desc: &crate::present::names::t_axis(tu),
             y_desc: "residual ln K − fitted",
             left: 80,
             top: 14,
@@ -217,7 +217,7 @@ pub(super) fn influence(root: &Area, input: &ReportInput) -> Result<(), ReportEr
             x: (0.0, x1),
             y: (-ylim, ylim),
             x_desc: "leverage h",
-            y_desc: "externally studentized residual",
+            y_desc: crate::present::names::STUDENTIZED,
             left: 72,
             top: 14,
             y_decimals: Some(1),
@@ -334,8 +334,8 @@ pub(super) fn ellipse(root: &Area, input: &ReportInput) -> Result<(), ReportErro
         Frame {
             x: (x0, x1),
             y: (y0, y1),
-            x_desc: &format!("ΔH° / ({})", eu.symbol),
-            y_desc: &format!("ΔS° / ({})", su.symbol),
+            x_desc: &crate::present::names::quantity_axis("ΔH°", eu.symbol),
+            y_desc: &crate::present::names::quantity_axis("ΔS°", su.symbol),
             left: 80,
             top: 14,
             y_decimals: None,

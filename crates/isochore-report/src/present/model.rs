@@ -77,10 +77,11 @@ pub fn model_caution(m: Model) -> String {
     }
 }
 
-/// The flag thresholds in short form: "|t| > 3, h > 2·p/n, D > 4/n".
+/// The flag thresholds in short form: "|ext. stud. residual| > 3, h > 2·p/n, D > 4/n".
 pub fn thresholds_text(th: FlagThresholds) -> String {
     format!(
-        "|t| > {}, h > {}·p/n, D > {}/n",
+        "|{}| > {}, h > {}·p/n, D > {}/n",
+        super::names::STUDENTIZED_SHORT,
         sig(th.outlier_studentized, 3),
         sig(th.leverage_factor, 3),
         sig(th.cooks_factor, 3)
@@ -114,13 +115,16 @@ mod tests {
         // Three significant digits, as the reports have always written them.
         assert_eq!(
             thresholds_text(FlagThresholds::default()),
-            "|t| > 3.00, h > 2.00·p/n, D > 4.00/n"
+            "|ext. stud. residual| > 3.00, h > 2.00·p/n, D > 4.00/n"
         );
         let th = FlagThresholds {
             outlier_studentized: 2.5,
             leverage_factor: 1.5,
             cooks_factor: 10.0,
         };
-        assert_eq!(thresholds_text(th), "|t| > 2.50, h > 1.50·p/n, D > 10.0/n");
+        assert_eq!(
+            thresholds_text(th),
+            "|ext. stud. residual| > 2.50, h > 1.50·p/n, D > 10.0/n"
+        );
     }
 }

@@ -43,6 +43,47 @@ pub fn sig(v: f64, digits: usize) -> String {
     fixed(v, d)
 }
 
+/// The superscript form of an integer exponent: −12 → "⁻¹²".
+fn superscript(n: i64) -> String {
+    const DIGITS: [char; 10] = ['⁰', '¹', '²', '³', '⁴', '⁵', '⁶', '⁷', '⁸', '⁹'];
+    let mut s = String::new();
+    if n < 0 {
+        s.push('⁻');
+    }
+    for c in n.unsigned_abs().to_string().chars() {
+        s.push(c.to_digit(10).map_or(c, |d| DIGITS[d as usize]));
+    }
+    s
+}
+
+/// `v` to `digits` significant digits as a chemist writes a constant: plainly between
+/// 10⁻³ and 10⁴ ("0.0123", "4567"), otherwise in ×10ⁿ notation ("3.12 × 10⁶",
+/// "4.5 × 10⁻⁹"), never "3.121e6"; "0" for zero and "—" when not finite. For readable
+/// output only: JSON keeps plain numbers.
+///
+/// ```
+/// use isochore_report::present::times_ten;
+/// assert_eq!(times_ten(3.121e6, 3), "3.12 × 10⁶");
+/// ```
+pub fn times_ten(v: f64, digits: usize) -> String {
+    if !v.is_finite() {
+        return MISSING.to_string();
+    }
+    if v == 0.0 {
+        return "0".to_string();
+    }
+    let digits = digits.max(1);
+    // The exponent after rounding to `digits` significant digits, read from Rust's own
+    // exponent form so that 9.996e6 to 3 digits becomes 1.00 × 10⁷, not 10.0 × 10⁶.
+    let e_form = format!("{:.*e}", digits - 1, v);
+    let (mantissa, exp) = e_form.split_once('e').unwrap_or((e_form.as_str(), "0"));
+    let exp: i64 = exp.parse().unwrap_or(0);
+    if (-3..4).contains(&exp) {
+        return sig(v, digits);
+    }
+    format!("{mantissa} × 10{}", superscript(exp))
+}
+
 /// The number of decimals that shows `se` to two significant digits (0 to 8); 3 when `se`
 /// is not a positive finite number. An estimate and its interval take the same decimals.
 pub fn decimals_for(se: f64) -> usize {
@@ -119,6 +160,29 @@ mod tests {
         assert_eq!(decimals_for(25.0), 0);
         assert_eq!(decimals_for(1e-12), 8);
         assert_eq!(plus_minus(-48.2371, 0.91), "-48.24 ± 0.91");
+    }
+
+    #[test]
+    fn constants_are_written_times_ten_to_the_n() {
+        // Worked by hand: 3 121 000 = 3.121 × 10⁶, to 3 digits 3.12 × 10⁶.
+        assert_eq!(times_ten(3_121_000.0, 3), "3.12 × 10⁶");
+        assert_eq!(times_ten(3_121_000.0, 4), "3.121 × 10⁶");
+        // 0.000 000 004 5 = 4.5 × 10⁻⁹.
+        assert_eq!(times_ten(4.5e-9, 2), "4.5 × 10⁻⁹");
+        // 9 996 000 to 3 digits rounds up into the next power: 1.00 × 10⁷.
+        assert_eq!(times_ten(9_996_000.0, 3), "1.00 × 10⁷");
+        // 2.5 × 10¹², and a negative value with the minus of every other number here.
+        assert_eq!(times_ten(2.5e12, 2), "2.5 × 10¹²");
+        assert_eq!(times_ten(-1.5e-4, 3), "-1.50 × 10⁻⁴");
+        // Between 10⁻³ and 10⁴ a number is written plainly.
+        assert_eq!(times_ten(1234.0, 4), "1234");
+        assert_eq!(times_ten(0.0123, 3), "0.0123");
+        assert_eq!(times_ten(9999.4, 4), "9999");
+        // 9999.6 to 4 digits is 10 000: ×10⁴.
+        assert_eq!(times_ten(9999.6, 4), "1.000 × 10⁴");
+        assert_eq!(times_ten(0.0, 3), "0");
+        assert_eq!(times_ten(f64::NAN, 3), "—");
+        assert!(!times_ten(3.121e6, 4).contains('e'));
     }
 
     #[test]

@@ -4,6 +4,7 @@
 //! no new code. Each front end only chooses how the cells of a row are written.
 
 use super::model::model_name;
+use super::names;
 use super::number::{decimals_for, fixed, percent, sig, MISSING};
 use super::units::{energy, order, per_kelvin, show_t, show_t_with, t_difference, unit_of};
 use isochore_fit::{
@@ -125,7 +126,7 @@ pub fn result_rows(fit: &VantHoffFit, e: EnergyUnit, tu: TemperatureUnit) -> Vec
     for (label, at) in [
         (format!("θ = {theta}"), &fit.at_reference()),
         (
-            format!("T_hm = {}", show_t(fit.at_harmonic().t_k, tu)),
+            format!("{} = {}", names::T_HM, show_t(fit.at_harmonic().t_k, tu)),
             &fit.at_harmonic(),
         ),
     ] {
@@ -190,8 +191,8 @@ pub fn result_rows(fit: &VantHoffFit, e: EnergyUnit, tu: TemperatureUnit) -> Vec
     rows
 }
 
-/// The results of the window: every parameter of the model ("ΔH° (25.00 °C)" where it
-/// varies with T), then ΔG° at θ and at the harmonic-mean temperature.
+/// The results of the window: every parameter of the model ("ΔH° at θ = 25.00 °C" where it
+/// varies with T), then ΔG° at θ and at T_hm ("ΔG° at T_hm = 24.5 °C").
 pub fn parameter_rows(fit: &VantHoffFit, e: EnergyUnit, tu: TemperatureUnit) -> Vec<ResultRow> {
     let eu = energy(e);
     let theta = show_t(fit.at_reference().t_k, tu);
@@ -200,7 +201,7 @@ pub fn parameter_rows(fit: &VantHoffFit, e: EnergyUnit, tu: TemperatureUnit) -> 
         .map(|p| {
             param_row(fit, p, e, |symbol, varies| {
                 if varies {
-                    format!("{symbol} ({theta})")
+                    format!("{symbol} at θ = {theta}")
                 } else {
                     symbol.to_string()
                 }
@@ -208,13 +209,17 @@ pub fn parameter_rows(fit: &VantHoffFit, e: EnergyUnit, tu: TemperatureUnit) -> 
         })
         .collect();
     rows.push(ResultRow::new(
-        format!("ΔG° ({theta})"),
+        format!("ΔG° at θ = {theta}"),
         None,
         eu.estimate(fit.at_reference().delta_g),
         eu.symbol,
     ));
     rows.push(ResultRow::new(
-        format!("ΔG° ({})", show_t_with(fit.at_harmonic().t_k, tu, 1)),
+        format!(
+            "ΔG° at {} = {}",
+            names::T_HM,
+            show_t_with(fit.at_harmonic().t_k, tu, 1)
+        ),
         None,
         eu.estimate(fit.at_harmonic().delta_g),
         eu.symbol,
@@ -287,8 +292,8 @@ pub fn compact_statistics_rows(fit: &VantHoffFit, tu: TemperatureUnit) -> Vec<(S
         ),
         ("degrees of freedom".to_string(), fit.dof().to_string()),
         (
-            "weighting".to_string(),
-            if fit.weighted() { "1/σ²" } else { "equal" }.to_string(),
+            names::WEIGHTING.to_string(),
+            names::weighting(fit.weighted()).to_string(),
         ),
         ("χ²".to_string(), sig(st.chi2, 4)),
         ("reduced χ²".to_string(), sig(st.reduced_chi2, 4)),
@@ -332,30 +337,56 @@ pub fn si_symbol(d: ParamDimension) -> &'static str {
     }
 }
 
-/// The full parameter covariance in SI units: a header ("covariance (SI)", then
-/// "ΔH° / J mol⁻¹", …) and one row per parameter, to five significant digits.
-pub fn covariance_table(fit: &VantHoffFit) -> (Vec<String>, Vec<Vec<String>>) {
+/// The unit of a covariance of two quantities in units `a` and `b`: "(kJ/mol)²" for a
+/// variance, "(kJ/mol)·(J/(mol·K))" for two units; a unit without a slash or space needs no
+/// parentheses ("K²").
+pub fn covariance_unit(a: &str, b: &str) -> String {
+    let wrap = |u: &str| {
+        if u.contains(['/', ' ', '·']) {
+            format!("({u})")
+        } else {
+            u.to_string()
+        }
+    };
+    if a == b {
+        format!("{}²", wrap(a))
+    } else {
+        format!("{}·{}", wrap(a), wrap(b))
+    }
+}
+
+/// The full parameter covariance in the display units of the results, one row per pair
+/// (each variance and each covariance once): a header ("covariance of", "value", "unit")
+/// and rows such as "ΔH° with ΔS°", "-1.234", "(kJ/mol)·(J/(mol·K))", to five significant
+/// digits. The unit of each entry is the product of its two quantities' units, so a
+/// variance carries a squared unit.
+pub fn covariance_table(fit: &VantHoffFit, e: EnergyUnit) -> (Vec<String>, Vec<Vec<String>>) {
     let params = fitted_params(fit);
-    let mut header = vec!["covariance (SI)".to_string()];
-    header.extend(
-        params
-            .iter()
-            .map(|p| format!("{} / {}", p.info.symbol, si_symbol(p.info.dimension))),
-    );
-    let rows = params
-        .iter()
-        .enumerate()
-        .map(|(i, p)| {
-            let mut row = vec![p.info.symbol.to_string()];
-            row.extend((0..params.len()).map(|j| {
-                fit.covariance()
-                    .get(i)
-                    .and_then(|r| r.get(j))
-                    .map_or(MISSING.to_string(), |v| sig(*v, 5))
-            }));
-            row
-        })
-        .collect();
+    let header = vec![
+        "covariance of".to_string(),
+        "value".to_string(),
+        "unit".to_string(),
+    ];
+    let mut rows = Vec::new();
+    for (i, p) in params.iter().enumerate() {
+        let up = unit_of(p.info.dimension, e);
+        for (j, q) in params.iter().enumerate().skip(i) {
+            let uq = unit_of(q.info.dimension, e);
+            let value = fit
+                .covariance()
+                .get(i)
+                .and_then(|r| r.get(j))
+                .map_or(MISSING.to_string(), |v| {
+                    sig(v / (up.si_per_unit * uq.si_per_unit), 5)
+                });
+            let what = if i == j {
+                format!("{} (variance)", p.info.symbol)
+            } else {
+                format!("{} with {}", p.info.symbol, q.info.symbol)
+            };
+            rows.push(vec![what, value, covariance_unit(up.symbol, uq.symbol)]);
+        }
+    }
     (header, rows)
 }
 
@@ -401,7 +432,8 @@ pub fn step_summary(step: &ComparisonStep) -> String {
 }
 
 /// The comparison's table as (test, value) pairs: each step's F statistic with its extra
-/// parameters, the p-value of F and ΔAICc, then the preferred model.
+/// parameters, the p-value of F and ΔAICc (its sign said once, in
+/// [`names::DELTA_AICC_SIGN`]), then the model supported by the data.
 pub fn comparison_rows(c: &ModelComparison) -> Vec<(String, String)> {
     let mut rows = Vec::new();
     for s in &c.steps {
@@ -416,15 +448,14 @@ pub fn comparison_rows(c: &ModelComparison) -> Vec<(String, String)> {
         ));
         rows.push((format!("p-value of F, {step}"), sig(s.f_p_value, 3)));
         rows.push((
-            format!(
-                "ΔAICc ({} − {})",
-                model_name(s.larger),
-                model_name(s.smaller)
-            ),
+            format!("ΔAICc, {step}"),
             s.delta_aicc.map_or(MISSING.to_string(), |d| fixed(d, 2)),
         ));
     }
-    rows.push(("preferred".into(), model_name(c.preferred).to_string()));
+    rows.push((
+        names::SUPPORTED_MODEL.into(),
+        model_name(c.preferred).to_string(),
+    ));
     rows
 }
 
@@ -499,19 +530,30 @@ mod tests {
         assert_eq!(
             quantities(&w)[..5],
             [
-                "ΔH° (25.00 °C)",
-                "ΔS° (25.00 °C)",
-                "ΔCp° (25.00 °C)",
+                "ΔH° at θ = 25.00 °C",
+                "ΔS° at θ = 25.00 °C",
+                "ΔCp° at θ = 25.00 °C",
                 "dΔCp°/dT",
-                "ΔG° (25.00 °C)"
+                "ΔG° at θ = 25.00 °C"
             ]
         );
+        assert!(w[5].quantity.starts_with("ΔG° at T_hm = "), "{:?}", w[5]);
+        assert!(w[5].quantity.ends_with(" °C"), "{:?}", w[5]);
         assert_eq!(w.len(), 6);
-        // The covariance table holds all four.
-        let (header, cov) = covariance_table(&f);
-        assert_eq!(header.len(), 5);
-        assert_eq!(header[4], "dΔCp°/dT / J mol⁻¹ K⁻²");
-        assert_eq!(cov.len(), 4);
+        // The covariance table holds all four: 4 variances and 6 covariances, each with
+        // the product of its quantities' units (a variance's unit squared).
+        let (header, cov) = covariance_table(&f, EnergyUnit::KilojoulePerMole);
+        assert_eq!(header, ["covariance of", "value", "unit"]);
+        assert_eq!(cov.len(), 10);
+        assert_eq!(cov[0][0], "ΔH° (variance)");
+        assert_eq!(cov[0][2], "(kJ/mol)²");
+        assert_eq!(cov[1][0], "ΔH° with ΔS°");
+        assert_eq!(cov[1][2], "(kJ/mol)·(J/(mol·K))");
+        assert_eq!(cov[9][2], "(J/(mol·K²))²");
+        // The variance of ΔH° in (kJ/mol)² is the SI one over 10⁶.
+        let var_h = f.covariance()[0][0] / 1e6;
+        assert_eq!(cov[0][1], sig(var_h, 5));
+        assert_eq!(covariance_unit("K", "K"), "K²");
     }
 
     #[test]
@@ -524,7 +566,7 @@ mod tests {
         let w = parameter_rows(&f, EnergyUnit::KilojoulePerMole, TemperatureUnit::Kelvin);
         assert_eq!(
             quantities(&w)[..3],
-            ["ΔH° (298.15 K)", "ΔS° (298.15 K)", "ΔCp°"]
+            ["ΔH° at θ = 298.15 K", "ΔS° at θ = 298.15 K", "ΔCp°"]
         );
         let lin = fitted(Model::LINEAR);
         let w = parameter_rows(&lin, EnergyUnit::KilojoulePerMole, TemperatureUnit::Kelvin);

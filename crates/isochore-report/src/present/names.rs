@@ -1,0 +1,126 @@
+//! One name for each concept, as the window, the command line's text, the reports and the
+//! README write it (the table of names is in DEVELOPERS.md; JSON keys and command-line
+//! values are the fit crate's `key()` and `cli_name()`). A label that names one of these
+//! concepts is taken from here, never typed again in a panel or a report.
+
+use isochore_fit::{SigmaConvention, TemperatureUnit};
+
+/// The setting that says what the stated σ mean.
+pub const SIGMA_CONVENTION: &str = "σ convention";
+
+/// What the stated σ mean, in the chemist's words: "σ are relative weights only" (the
+/// scatter about the fit sets the error scale) or "σ are known standard uncertainties".
+pub fn sigma_convention(c: SigmaConvention) -> &'static str {
+    match c {
+        SigmaConvention::ScaledByFit => "σ are relative weights only",
+        SigmaConvention::Absolute => "σ are known standard uncertainties",
+    }
+}
+
+/// What each σ convention does to the intervals, for hover texts.
+pub fn sigma_convention_effect(c: SigmaConvention) -> &'static str {
+    match c {
+        SigmaConvention::ScaledByFit => {
+            "the scatter about the fit sets the error scale (covariance times the reduced χ², Student's t intervals)"
+        }
+        SigmaConvention::Absolute => {
+            "the stated σ set the error scale (no rescaling, normal intervals)"
+        }
+    }
+}
+
+/// The setting that says how points are weighted.
+pub const WEIGHTING: &str = "weighting";
+/// Each point weighted by 1/σ(ln K)².
+pub const WEIGHTED: &str = "weighted by 1/σ²";
+/// Every point counts the same and any σ is ignored (`--unweighted`, JSON `unweighted`).
+pub const UNWEIGHTED: &str = "unweighted";
+
+/// The weighting a fit used, in words: [`WEIGHTED`] or [`UNWEIGHTED`].
+pub fn weighting(weighted: bool) -> &'static str {
+    if weighted {
+        WEIGHTED
+    } else {
+        UNWEIGHTED
+    }
+}
+
+/// A point that takes part in the fit (JSON `used`).
+pub const USED: &str = "used";
+/// A point left out of the fit by the chemist (`--exclude`).
+pub const EXCLUDED: &str = "excluded";
+
+/// The undo label of excluding a row that was used: "exclude row 7".
+pub fn exclude_row(row: usize) -> String {
+    format!("exclude row {row}")
+}
+
+/// The undo label of using an excluded row again: "use row 7 again".
+pub fn use_row_again(row: usize) -> String {
+    format!("use row {row} again")
+}
+
+/// The undo label of changing only the reason of a row already excluded: "reason for
+/// excluding row 7".
+pub fn exclusion_reason_of_row(row: usize) -> String {
+    format!("reason for excluding row {row}")
+}
+
+/// The residual the outlier rule tests, by its trade name.
+pub const STUDENTIZED: &str = "externally studentized residual";
+/// Its short form, for narrow columns and threshold sentences.
+pub const STUDENTIZED_SHORT: &str = "ext. stud. residual";
+/// The internally studentized residual, short form (the reports' diagnostics table).
+pub const STUDENTIZED_INTERNAL_SHORT: &str = "int. stud. residual";
+
+/// The weighted harmonic-mean temperature, by its symbol.
+pub const T_HM: &str = "T_hm";
+/// What [`T_HM`] is, for notes and hover texts.
+pub const T_HM_MEANING: &str =
+    "T_hm is the weighted harmonic-mean temperature of the used points (1/T_hm = Σ(w/T) / Σw)";
+
+/// The model the comparison of nested models finds the data support.
+pub const SUPPORTED_MODEL: &str = "supported by the data";
+
+/// The comparison's answer as a sentence: "The data support the ΔCp° model."
+pub fn data_support(model_name: &str) -> String {
+    format!("The data support the {model_name} model.")
+}
+
+/// The axis of inverse temperature on van 't Hoff plots.
+pub const INVERSE_T_AXIS: &str = "1000 K / T";
+
+/// The axis of temperature in `tu`: "T / °C".
+pub fn t_axis(tu: TemperatureUnit) -> String {
+    format!("T / {}", tu.symbol())
+}
+
+/// An axis of a quantity in a unit, the unit in parentheses so its own slash is not read
+/// as a second division: "ΔS° / (J/(mol·K))", "ΔH° / (kJ/mol)".
+pub fn quantity_axis(symbol: &str, unit: &str) -> String {
+    format!("{symbol} / ({unit})")
+}
+
+/// The sign convention of ΔAICc, said once beside the comparison.
+pub const DELTA_AICC_SIGN: &str =
+    "ΔAICc = AICc(larger model) − AICc(smaller model); a negative ΔAICc favours the larger model";
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn the_two_sigma_conventions_say_what_the_chemist_knows() {
+        let a = sigma_convention(SigmaConvention::ScaledByFit);
+        let b = sigma_convention(SigmaConvention::Absolute);
+        assert_ne!(a, b);
+        for s in [a, b] {
+            assert!(s.starts_with("σ are "), "{s}");
+            // Not the keyword of a general curve-fitting routine, nor "relative" alone.
+            assert!(!s.contains("absolute") && !s.contains("scaled"), "{s}");
+        }
+        assert_eq!(t_axis(TemperatureUnit::Celsius), "T / °C");
+        assert_eq!(weighting(false), "unweighted");
+        assert_eq!(use_row_again(7), "use row 7 again");
+    }
+}

@@ -1,0 +1,175 @@
+//! One name for each concept (issue 11, "One vocabulary"; the table is in DEVELOPERS.md):
+//! the command line's text, its JSON and a rendered report use the new names, and the old
+//! ones are gone. The older flag `--absolute-sigma` is still read, with the same numbers as
+//! `--sigma known-uncertainties`.
+
+use crate::cli::{demo, json_of, run};
+
+fn text_of(args: &[&str]) -> String {
+    let out = run(args);
+    assert_eq!(out.status.code(), Some(0), "{out:?}");
+    String::from_utf8(out.stdout).expect("utf-8 output")
+}
+
+/// Every name in `new` is present and no name in `old` is, in `what`.
+fn check_names(what: &str, text: &str, new: &[&str], old: &[&str]) {
+    for n in new {
+        assert!(text.contains(n), "{what}: no “{n}” in\n{text}");
+    }
+    for o in old {
+        assert!(!text.contains(o), "{what}: the old name “{o}” in\n{text}");
+    }
+}
+
+#[test]
+fn the_sigma_convention_has_one_name_in_flag_and_json() {
+    let path = demo("acid_pka.csv");
+    let known = json_of(&run(&[
+        "fit",
+        &path,
+        "--json",
+        "--sigma",
+        "known-uncertainties",
+    ]));
+    let old_flag = json_of(&run(&["fit", &path, "--json", "--absolute-sigma"]));
+    let default = json_of(&run(&["fit", &path, "--json"]));
+    assert_eq!(known["sigma_convention"], "known_uncertainties");
+    assert_eq!(old_flag["sigma_convention"], "known_uncertainties");
+    assert_eq!(default["sigma_convention"], "relative_weights");
+    assert_eq!(known["weighting"], "inverse_variance");
+    // The hidden old flag means exactly the new one.
+    assert_eq!(known["params"], old_flag["params"]);
+    assert_ne!(
+        known["params"]["delta_h"]["se"],
+        default["params"]["delta_h"]["se"]
+    );
+    let relative = json_of(&run(&[
+        "fit",
+        &path,
+        "--json",
+        "--sigma",
+        "relative-weights",
+    ]));
+    assert_eq!(relative["params"], default["params"]);
+    // The comparison's answer is named for what the data support.
+    let c = &default["model_comparison"];
+    assert!(c["supported_by_data"].is_string(), "{c}");
+    assert!(c.get("preferred").is_none(), "{c}");
+    // A value that is not a convention is refused as bad usage.
+    assert_eq!(
+        run(&["fit", &path, "--sigma", "absolute"]).status.code(),
+        Some(2)
+    );
+    // The help lists both values with the words of the window.
+    let help = text_of(&["fit", "--help"]);
+    check_names(
+        "fit --help",
+        &help,
+        &["known-uncertainties", "relative-weights"],
+        &["--absolute-sigma"],
+    );
+}
+
+#[test]
+fn the_readable_output_uses_the_names_of_the_table() {
+    // The binding demo has a flagged point (row 7), so the flagged list is printed.
+    let path = demo("binding_qx7_halo2.csv");
+    let text = text_of(&["fit", &path]);
+    check_names(
+        "vhfit fit",
+        &text,
+        &[
+            "weighted by 1/σ²",
+            "σ are relative weights only",
+            "ext. stud. residual = ",
+            "The data support the",
+            "ΔG° at T_hm = ",
+            "ΔG° at θ = 25.00 °C",
+            "ΔAICc = AICc(larger model) − AICc(smaller model)",
+        ],
+        &[
+            "t_ext",
+            "preferred",
+            "σ absolute",
+            "|t| >",
+            "at the mean temperature",
+            "scaled convention",
+        ],
+    );
+    let unweighted = text_of(&["fit", &path, "--unweighted"]);
+    check_names(
+        "vhfit fit --unweighted",
+        &unweighted,
+        &["unweighted"],
+        &["equal weights", "weighted by 1/σ²"],
+    );
+}
+
+#[test]
+fn a_report_uses_the_names_of_the_table() {
+    let dir = tempfile::tempdir().unwrap();
+    let md = dir.path().join("binding.md");
+    let path = demo("binding_qx7_halo2.csv");
+    let out = run(&["fit", &path, "--report", md.to_str().unwrap()]);
+    assert_eq!(out.status.code(), Some(0), "{out:?}");
+    // Markdown escapes punctuation with a backslash; the words are what is checked.
+    let text = std::fs::read_to_string(&md).unwrap().replace('\\', "");
+    check_names(
+        "Markdown report",
+        &text,
+        &[
+            "σ are relative weights only",
+            "weighted by 1/σ²",
+            "ext. stud. residual",
+            "int. stud. residual",
+            "externally studentized residual",
+            "supported by the data",
+            "The data support the",
+            "is the weighted harmonic-mean temperature of the used points",
+            "ΔAICc = AICc(larger model) − AICc(smaller model)",
+            "(kJ/mol)²",
+            "(J/(mol·K))²",
+        ],
+        &[
+            "scaled by reduced χ²",
+            "stud. res. (",
+            "preferred",
+            "The evidence prefers",
+            "Internally studentized residual against",
+            "covariance (SI)",
+            "ΔS° / J/(mol·K)",
+            "|t| >",
+        ],
+    );
+    // The figures' axes: one name each.
+    let mut svgs = String::new();
+    for e in std::fs::read_dir(dir.path()).unwrap() {
+        let p = e.unwrap().path();
+        if p.extension().is_some_and(|x| x == "svg") {
+            svgs.push_str(&std::fs::read_to_string(&p).unwrap());
+        }
+    }
+    check_names(
+        "report figures",
+        &svgs,
+        &["1000 K / T", "T / °C"],
+        &["temperature /", "10³ K / T"],
+    );
+    let known = dir.path().join("known.md");
+    let out = run(&[
+        "fit",
+        &path,
+        "--sigma",
+        "known-uncertainties",
+        "--report",
+        known.to_str().unwrap(),
+    ]);
+    assert_eq!(out.status.code(), Some(0), "{out:?}");
+    let text = std::fs::read_to_string(&known).unwrap();
+    check_names(
+        "Markdown report, σ known",
+        &text,
+        &["σ are known standard uncertainties"],
+        &["absolute"],
+    );
+}
