@@ -7,27 +7,31 @@ use egui::Color32;
 use egui_plot::MarkerShape;
 pub use isochore_report::present::{diag, fixed, sig};
 
-const PALETTE: [Color32; 7] = [
+const PALETTE: [Color32; 6] = [
     Color32::from_rgb(0, 114, 178),   // blue
     Color32::from_rgb(213, 94, 0),    // vermillion
     Color32::from_rgb(0, 158, 115),   // bluish green
     Color32::from_rgb(204, 121, 167), // reddish purple
-    Color32::from_rgb(230, 159, 0),   // orange
     Color32::from_rgb(86, 180, 233),  // sky blue
-    Color32::from_rgb(120, 120, 120), // grey
+    Color32::from_rgb(128, 128, 128), // grey
 ];
 
+/// Only shapes with a hollow form: an excluded point is drawn as its series' marker,
+/// hollow, so a shape drawn with lines alone (asterisk, cross) could not show it.
 const SHAPES: [MarkerShape; 7] = [
     MarkerShape::Circle,
     MarkerShape::Square,
     MarkerShape::Diamond,
     MarkerShape::Up,
     MarkerShape::Down,
-    MarkerShape::Asterisk,
-    MarkerShape::Cross,
+    MarkerShape::Left,
+    MarkerShape::Right,
 ];
 
-/// The colour of the series at position `index`.
+/// The colour of the series at position `index`. Six colours and seven shapes, both
+/// taken by position, give 42 series before a colour–shape pair comes back (the pair of
+/// `index` is its remainders by 6 and by 7). No series colour is a state's colour: the
+/// flag ring is orange ([`flag_ring_color`]), the hover halo black or yellow.
 pub fn series_color(index: usize) -> Color32 {
     PALETTE[index % PALETTE.len()]
 }
@@ -35,6 +39,16 @@ pub fn series_color(index: usize) -> Color32 {
 /// The marker shape of the series at position `index`.
 pub fn series_shape(index: usize) -> MarkerShape {
     SHAPES[index % SHAPES.len()]
+}
+
+/// The colour of the ring around a flagged point, as in the report's figures (orange; a
+/// little lighter on the dark theme).
+pub fn flag_ring_color(dark: bool) -> Color32 {
+    if dark {
+        Color32::from_rgb(245, 180, 40)
+    } else {
+        Color32::from_rgb(230, 159, 0)
+    }
 }
 
 /// The name of a marker shape, for legends in words.
@@ -45,8 +59,8 @@ pub fn shape_name(shape: MarkerShape) -> &'static str {
         MarkerShape::Diamond => "diamonds",
         MarkerShape::Up => "triangles",
         MarkerShape::Down => "inverted triangles",
-        MarkerShape::Asterisk => "stars",
-        MarkerShape::Cross => "crosses",
+        MarkerShape::Left => "left-pointing triangles",
+        MarkerShape::Right => "right-pointing triangles",
         _ => "markers",
     }
 }
@@ -60,7 +74,6 @@ pub fn marker_swatch(ui: &mut egui::Ui, index: usize) -> egui::Response {
     let color = series_color(index);
     let p = ui.painter();
     let poly = |pts: Vec<egui::Pos2>| egui::Shape::convex_polygon(pts, color, egui::Stroke::NONE);
-    let stroke = egui::Stroke::new(2.0, color);
     match series_shape(index) {
         MarkerShape::Square => {
             p.rect_filled(
@@ -91,12 +104,19 @@ pub fn marker_swatch(ui: &mut egui::Ui, index: usize) -> egui::Response {
                 c + egui::vec2(0.0, r),
             ]));
         }
-        MarkerShape::Asterisk | MarkerShape::Cross => {
-            p.line_segment([c + egui::vec2(-r, -r), c + egui::vec2(r, r)], stroke);
-            p.line_segment([c + egui::vec2(-r, r), c + egui::vec2(r, -r)], stroke);
-            if series_shape(index) == MarkerShape::Asterisk {
-                p.line_segment([c + egui::vec2(0.0, -r), c + egui::vec2(0.0, r)], stroke);
-            }
+        MarkerShape::Left => {
+            p.add(poly(vec![
+                c + egui::vec2(-r, 0.0),
+                c + egui::vec2(r, -r),
+                c + egui::vec2(r, r),
+            ]));
+        }
+        MarkerShape::Right => {
+            p.add(poly(vec![
+                c + egui::vec2(r, 0.0),
+                c + egui::vec2(-r, r),
+                c + egui::vec2(-r, -r),
+            ]));
         }
         _ => {
             p.circle_filled(c, r, color);
@@ -156,5 +176,35 @@ pub fn highlight_color(dark: bool) -> Color32 {
         Color32::from_rgb(255, 230, 80)
     } else {
         Color32::from_rgb(20, 20, 20)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn every_shape_has_a_hollow_form_and_no_pair_repeats_for_42_series() {
+        let mut pairs = std::collections::HashSet::new();
+        for i in 0..42 {
+            let shape = series_shape(i);
+            assert!(
+                !matches!(
+                    shape,
+                    MarkerShape::Asterisk | MarkerShape::Cross | MarkerShape::Plus
+                ),
+                "series {i}: {shape:?} has no hollow form"
+            );
+            assert!(
+                pairs.insert((series_color(i), shape as u8)),
+                "series {i} repeats"
+            );
+            // No series takes a state's colour.
+            for dark in [false, true] {
+                assert_ne!(series_color(i), flag_ring_color(dark));
+                assert_ne!(series_color(i), flag_color(dark));
+                assert_ne!(series_color(i), highlight_color(dark));
+            }
+        }
     }
 }

@@ -51,11 +51,11 @@ where
                 pts.iter()
                     .filter(finite)
                     .filter(|p| !p.used)
-                    .map(|p| Circle::new(pos(p), 6, VERMILLION.stroke_width(2))),
+                    .map(|p| Circle::new(pos(p), 6, INK.stroke_width(2))),
             )
             .map_err(fe)?
             .label("excluded point")
-            .legend(|(x, y)| Circle::new((x + 11, y), 6, VERMILLION.stroke_width(2)));
+            .legend(|(x, y)| Circle::new((x + 11, y), 6, INK.stroke_width(2)));
     }
     let flagged: Vec<(f64, f64)> = pts
         .iter()
@@ -188,7 +188,7 @@ where
         draw_used_envelope(chart, &used)?;
     }
     if !excluded.is_empty() {
-        let style = VERMILLION.stroke_width(2);
+        let style = GREY.stroke_width(2);
         draw_envelope(chart, &excluded, style)?
             .label(format!("excluded points ({})", excluded.len()))
             .legend(move |(x, y)| PathElement::new(vec![(x + 11, y - 7), (x + 11, y + 7)], style));

@@ -6,7 +6,7 @@
 //!
 //! One drawing path serves both formats: the SVG is the figure, and the PNG is that SVG
 //! rendered by resvg with the bundled DejaVu Sans, so the two never disagree and no system
-//! font lookup is needed. Colours come from a colour-blind-safe set (blue, vermillion,
+//! font lookup is needed. Colours come from a colour-blind-safe set (blue,
 //! orange, bluish green, grey) and every distinction is also carried by shape or line style.
 
 use crate::fonts;
@@ -30,7 +30,6 @@ pub const PNG_DPI: f64 = 300.0;
 
 const FIT_BLUE: RGBColor = RGBColor(0, 92, 158);
 const BAND_SKY: RGBColor = RGBColor(86, 180, 233);
-const VERMILLION: RGBColor = RGBColor(213, 94, 0);
 const ORANGE: RGBColor = RGBColor(230, 159, 0);
 const GREEN: RGBColor = RGBColor(0, 140, 100);
 const INK: RGBColor = RGBColor(30, 30, 30);
