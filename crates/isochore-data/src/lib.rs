@@ -34,6 +34,7 @@
 
 mod assign;
 pub mod atomic;
+mod edit;
 pub mod error;
 pub mod export;
 mod header;

@@ -114,35 +114,16 @@ impl Series {
     }
 
     /// Checks that 0-based row `row` still converts with `text` in 0-based column `column`,
-    /// without changing anything.
+    /// and that a typed number follows the data set's decimal convention (isochore-data's
+    /// rule: "65,000" in a data set of decimal points is refused, not read as 65), without
+    /// changing anything.
     ///
     /// # Errors
-    /// isochore-data's message for the row (line and column named).
+    /// isochore-data's message for the cell or row (line and column named).
     pub fn check_edit(&self, row: usize, column: usize, text: &str) -> Result<(), String> {
-        let Some(raw) = self.data.rows.get(row) else {
-            return Err(format!("there is no row {}", row + 1));
-        };
-        let mut raw = raw.clone();
-        match raw.cells.get_mut(column) {
-            Some(c) => *c = text.to_string(),
-            None => return Err(format!("there is no column {}", column + 1)),
-        }
-        let probe = ProjectSeries {
-            name: self.data.name.clone(),
-            source: self.data.source.clone(),
-            headers: self.data.headers.clone(),
-            header_line: self.data.header_line,
-            mapping: self.data.mapping.clone(),
-            decimal_comma: self.data.decimal_comma,
-            rows: vec![raw],
-            settings: self.data.settings,
-            exclusions: Vec::new(),
-            notes: String::new(),
-        };
-        probe.converted().map(|_| ()).map_err(|e| {
-            e.to_string()
-                .replacen("row 1", &format!("row {}", row + 1), 1)
-        })
+        self.data
+            .check_cell_edit(row, column, text)
+            .map_err(|e| e.to_string())
     }
 
     /// The points for the fit, through isochore-data (cells → T, ln K, σ; replicates).

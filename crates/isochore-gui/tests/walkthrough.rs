@@ -8,7 +8,7 @@
 use crate::workbench::{bench, harness};
 use egui::accesskit::Role;
 use egui::{Key, Modifiers};
-use egui_kittest::kittest::Queryable;
+use egui_kittest::kittest::{NodeT, Queryable};
 use egui_kittest::Harness;
 use isochore_gui::panels::style::sig;
 use isochore_gui::Workbench;
@@ -112,4 +112,33 @@ fn changing_the_temperature_unit_converts_every_typed_temperature() {
     assert_eq!(h.state().predict.t_text, "37");
     assert_eq!(h.state().predict.two_point[0], "25");
     assert!(shows(&h, &at_37c));
+}
+
+#[test]
+fn a_comma_typed_into_a_series_of_decimal_points_is_refused() {
+    let w = bench();
+    let id = w.active.unwrap();
+    // The binding demo is written with decimal points (row 4: 20.0 °C, K_d = 110.73 nM).
+    assert!(!w.project.get(id).unwrap().data.decimal_comma);
+    let mut h = harness(w);
+    h.get_by_label("110.73").click();
+    h.run_steps(2);
+    retype(&mut h, "edit row 4", "65,000");
+    // Refused, with the line and column of the file, not read as 65.000 nM.
+    assert_eq!(h.state().project.get(id).unwrap().cell(3, 1), "110.73");
+    assert!(!h.state().history.dirty());
+    let refusal = h
+        .query_all_by_label_contains("the cell was kept")
+        .next()
+        .map(|n| n.value().or_else(|| n.accesskit_node().label()))
+        .expect("a refusal in the table")
+        .unwrap_or_default();
+    assert!(refusal.contains("'65,000'"), "{refusal}");
+    assert!(refusal.contains("line 6, column 2"), "{refusal}");
+    assert!(refusal.contains("thousands separator"), "{refusal}");
+    // The same number without the separator is taken.
+    h.get_by_label("110.73").click();
+    h.run_steps(2);
+    retype(&mut h, "edit row 4", "65000");
+    assert_eq!(h.state().project.get(id).unwrap().cell(3, 1), "65000");
 }
