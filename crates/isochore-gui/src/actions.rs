@@ -30,10 +30,10 @@ pub enum Action {
     New,
     /// Reload the demo project.
     Demo,
-    /// Restore the autosaved copy.
-    Recover,
-    /// Throw the autosaved copy away.
-    DiscardRecovery,
+    /// Restore the offered autosave at this path.
+    Recover(PathBuf),
+    /// Throw the offered autosave at this path away.
+    DiscardRecovery(PathBuf),
     /// Close the window without saving.
     QuitDiscarding,
     /// Save, then close.
@@ -70,19 +70,8 @@ impl Workbench {
                     self.replace_project(p, true);
                 }
             }
-            Action::Recover => {
-                if let Some(r) = self.recovery.take() {
-                    let mut p = r.project;
-                    p.path = self.project.path.clone();
-                    self.replace_project(p, true);
-                    let _ = std::fs::remove_file(&r.path);
-                }
-            }
-            Action::DiscardRecovery => {
-                if let Some(r) = self.recovery.take() {
-                    let _ = std::fs::remove_file(&r.path);
-                }
-            }
+            Action::Recover(auto) => self.recover(&auto),
+            Action::DiscardRecovery(auto) => self.discard_recovery(&auto),
             Action::QuitDiscarding => {
                 self.remove_autosave();
                 self.may_close = true;

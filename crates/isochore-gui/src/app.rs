@@ -103,8 +103,8 @@ pub struct Workbench {
     pub block_fits: bool,
     /// Use this wall-clock time (seconds since 1970) instead of the system's (tests).
     pub fixed_unix_time: Option<i64>,
-    /// An autosave found at start-up.
-    pub recovery: Option<Recovery>,
+    /// The autosaves offered back (found at start-up or when a project is opened).
+    pub recoveries: Vec<Recovery>,
     /// The close dialog is open.
     pub asking_to_close: bool,
     /// Set when the window may close (the eframe wrapper reads it).
@@ -139,7 +139,7 @@ impl Workbench {
             autosave_dir: None,
             block_fits: false,
             fixed_unix_time: None,
-            recovery: None,
+            recoveries: Vec::new(),
             asking_to_close: false,
             may_close: false,
             close_now: false,
@@ -359,7 +359,7 @@ impl Workbench {
             &mut cx,
             &self.history,
             &mut self.messages,
-            &self.recovery,
+            &self.recoveries,
         );
         egui::Panel::left("series_and_settings")
             .resizable(true)

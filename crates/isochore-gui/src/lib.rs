@@ -108,7 +108,7 @@ pub fn run(project: Option<PathBuf>) -> Result<(), String> {
                 None => Workbench::with_demo(prefs),
             };
             bench.autosave_dir = eframe::storage_dir("isochore");
-            bench.check_recovery();
+            bench.offer_recoveries();
             Ok(Box::new(WindowApp {
                 bench,
                 start: Instant::now(),

@@ -703,7 +703,7 @@ fn the_recovery_offer_is_shown_and_restores_or_discards_the_work() {
     h.get_by_label("Discard it").click();
     h.run_steps(3);
     assert!(!shows_part(&h, offer));
-    assert!(h.state().recovery.is_none());
+    assert!(h.state().recoveries.is_empty());
     assert!(!auto.exists());
     assert!(!h.state().history.dirty());
     assert!(h.state().project.series[0].exclusion(2).is_none());

@@ -5,13 +5,15 @@
 //! written with the umask's permissions. Expected numbers come from isochore-fit on the
 //! same measurements, as in the other interaction tests.
 
-use crate::workbench::{bench, harness};
+use crate::workbench::{bench, harness, temp_dir};
 use egui::accesskit::Role;
 use egui::{Key, Modifiers};
 use egui_kittest::kittest::{NodeT, Queryable};
 use egui_kittest::Harness;
+use isochore_gui::command::Command;
 use isochore_gui::panels::style::sig;
-use isochore_gui::Workbench;
+use isochore_gui::{Prefs, Workbench};
+use std::path::{Path, PathBuf};
 
 type H = Harness<'static, Workbench>;
 
@@ -141,4 +143,88 @@ fn a_comma_typed_into_a_series_of_decimal_points_is_refused() {
     h.run_steps(2);
     retype(&mut h, "edit row 4", "65000");
     assert_eq!(h.state().project.get(id).unwrap().cell(3, 1), "65000");
+}
+
+/// A demo workbench that excludes row 3 of the binding series ("cloudy sample") and lets
+/// the autosave write (through the `Workbench` API: the autosave runs on the app clock),
+/// saved first to `saved_as` when given, its untitled autosave going to `data_dir`.
+fn leave_autosave(saved_as: Option<&Path>, data_dir: &Path) -> PathBuf {
+    let mut w = bench();
+    w.autosave_dir = Some(data_dir.to_path_buf());
+    if let Some(p) = saved_as {
+        w.save_to(p);
+    }
+    let id = w.active.unwrap();
+    w.push(Command::SetExclusion {
+        series: id,
+        row: 2,
+        exclusion: Some(("cloudy sample".into(), "2026-12-01T21:00:00Z".into())),
+    });
+    w.apply_pending();
+    w.set_clock(w.prefs.autosave_secs + 1.0);
+    assert!(w.autosave_tick());
+    w.autosave_path().unwrap()
+}
+
+#[test]
+fn every_autosave_found_at_start_up_is_offered_with_its_name_and_time() {
+    let dir = temp_dir("offers");
+    let data_dir = dir.join("data");
+    std::fs::create_dir_all(&data_dir).unwrap();
+    let project = dir.join("a.isochore.json");
+    let beside = leave_autosave(Some(&project), &data_dir);
+    let untitled = leave_autosave(None, &data_dir);
+    assert_eq!(beside, dir.join("a.isochore.json.autosave"));
+    assert!(untitled.starts_with(&data_dir));
+
+    // The next start shows the demo (not project a), and still offers both.
+    let mut prefs = Prefs::default();
+    prefs.remember(&project);
+    let mut w = Workbench::with_demo(prefs);
+    w.block_fits = true;
+    w.autosave_dir = Some(data_dir.clone());
+    w.offer_recoveries();
+    let mut h = harness(w);
+    let when = |p: &Path| {
+        let t = std::fs::metadata(p).unwrap().modified().unwrap();
+        let secs = t.duration_since(std::time::UNIX_EPOCH).unwrap().as_secs();
+        isochore_gui::command::rfc3339_utc(secs as i64)
+    };
+    for (name, auto) in [
+        ("a.isochore.json", &beside),
+        ("untitled project", &untitled),
+    ] {
+        let offer = format!(
+            "Unsaved work from an earlier session was found: {name}, autosaved {}",
+            when(auto)
+        );
+        assert!(
+            h.query_all_by_label_contains(&offer).next().is_some(),
+            "no offer: {offer}"
+        );
+    }
+    assert_eq!(h.query_all_by_label("Restore it").count(), 2);
+
+    // Restore project a's work: its path, its exclusion, unsaved; the autosave used up.
+    let k = h
+        .state()
+        .recoveries
+        .iter()
+        .position(|r| r.name() == "a.isochore.json")
+        .unwrap();
+    h.query_all_by_label("Restore it").nth(k).unwrap().click();
+    h.run_steps(3);
+    let w = h.state();
+    assert_eq!(w.project.path.as_deref(), Some(project.as_path()));
+    let s = w.project.get(w.active.unwrap()).unwrap();
+    assert_eq!(s.exclusion(2).unwrap().reason, "cloudy sample");
+    assert!(w.history.dirty());
+    assert!(!beside.exists());
+    // Discard the untitled one: its file goes, the restored work stays.
+    h.get_by_label("Discard it").click();
+    h.run_steps(3);
+    assert!(h.state().recoveries.is_empty());
+    assert!(!untitled.exists());
+    assert_eq!(h.state().project.path.as_deref(), Some(project.as_path()));
+    let _ = std::fs::remove_dir_all(&dir);
 }

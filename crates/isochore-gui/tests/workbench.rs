@@ -347,13 +347,13 @@ fn unsaved_work_is_autosaved_beside_the_project_and_offered_back() {
     next.block_fits = true;
     next.open_path(&path);
     next.apply_pending();
-    let r = next.recovery.as_ref().expect("recovery offered");
+    let r = next.recoveries.first().expect("recovery offered");
     let s = &r.project.series[0];
     assert_eq!(
         s.exclusion(2).map(|e| e.reason.as_str()),
         Some("cloudy sample")
     );
-    next.act(isochore_gui::Action::Recover);
+    next.act(isochore_gui::Action::Recover(r.path.clone()));
     next.apply_pending();
     let s = next.project.get(next.active.unwrap()).unwrap();
     assert!(s.exclusion(2).is_some());

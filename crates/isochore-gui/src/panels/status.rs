@@ -11,23 +11,25 @@ pub fn status_bar(
     cx: &mut Cx<'_>,
     history: &History,
     messages: &mut Vec<String>,
-    recovery: &Option<Recovery>,
+    recoveries: &[Recovery],
 ) {
     egui::Panel::bottom("status").show(root, |ui| {
-        if let Some(r) = recovery {
+        for r in recoveries {
             ui.horizontal_wrapped(|ui| {
                 ui.colored_label(
                     crate::panels::style::flag_color(cx.dark),
                     format!(
-                        "Unsaved work from an earlier session was found ({}).",
+                        "Unsaved work from an earlier session was found: {}, autosaved {} ({}).",
+                        r.name(),
+                        r.when(),
                         r.path.display()
                     ),
                 );
                 if ui.button("Restore it").clicked() {
-                    cx.actions.push(Action::Recover);
+                    cx.actions.push(Action::Recover(r.path.clone()));
                 }
                 if ui.button("Discard it").clicked() {
-                    cx.actions.push(Action::DiscardRecovery);
+                    cx.actions.push(Action::DiscardRecovery(r.path.clone()));
                 }
             });
         }
