@@ -43,6 +43,9 @@ pub struct Prefs {
     pub show_results: bool,
     /// Seconds between autosaves of unsaved changes.
     pub autosave_secs: f64,
+    /// The window has started before (the first start opens the demo, later ones the last
+    /// project).
+    pub started_before: bool,
 }
 
 impl Default for Prefs {
@@ -54,6 +57,7 @@ impl Default for Prefs {
             show_diagnostics: true,
             show_results: true,
             autosave_secs: 60.0,
+            started_before: false,
         }
     }
 }

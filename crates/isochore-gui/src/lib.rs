@@ -25,6 +25,7 @@ pub mod export;
 pub mod fitting;
 pub mod io;
 pub mod panels;
+pub mod start;
 
 pub use app::{Action, Prefs, Workbench};
 
@@ -69,8 +70,9 @@ pub fn app_icon() -> Option<egui::IconData> {
     eframe::icon_data::from_png_bytes(ICON_PNG).ok()
 }
 
-/// Opens the workbench window on `project` (a project file or a data file), or on the
-/// demo project when `None`. Blocks until the window closes.
+/// Opens the workbench window on `project` (a project file or a data file); when `None`,
+/// on the demo at the first start and on the last project later ([`Workbench::start`]).
+/// Blocks until the window closes.
 ///
 /// # Errors
 /// A message when no window can be opened (no display, no OpenGL).
@@ -98,17 +100,8 @@ pub fn run(project: Option<PathBuf>) -> Result<(), String> {
                 .storage
                 .and_then(|s| eframe::get_value(s, app::PREFS_KEY))
                 .unwrap_or_default();
-            let mut bench = match &project {
-                Some(p) => {
-                    let mut b = Workbench::new(prefs);
-                    b.open_path(p);
-                    b.apply_pending();
-                    b
-                }
-                None => Workbench::with_demo(prefs),
-            };
-            bench.autosave_dir = eframe::storage_dir("isochore");
-            bench.offer_recoveries();
+            let bench =
+                Workbench::start(prefs, project.as_deref(), eframe::storage_dir("isochore"));
             Ok(Box::new(WindowApp {
                 bench,
                 start: Instant::now(),

@@ -12,6 +12,7 @@ use egui_kittest::kittest::{NodeT, Queryable};
 use egui_kittest::Harness;
 use isochore_gui::command::Command;
 use isochore_gui::panels::style::sig;
+use isochore_gui::start::is_demo;
 use isochore_gui::{Prefs, Workbench};
 use std::path::{Path, PathBuf};
 
@@ -226,5 +227,145 @@ fn every_autosave_found_at_start_up_is_offered_with_its_name_and_time() {
     assert!(h.state().recoveries.is_empty());
     assert!(!untitled.exists());
     assert_eq!(h.state().project.path.as_deref(), Some(project.as_path()));
+    let _ = std::fs::remove_dir_all(&dir);
+}
+
+/// An invented table, as a spreadsheet puts it on the clipboard (tab-separated).
+const PASTED: &str = "T/K\tK\n283.15\t5210\n290.15\t4180\n297.15\t3420\n304.15\t2790\n";
+
+#[test]
+fn data_opened_over_the_demo_start_a_new_untitled_project() {
+    let mut h = harness(bench());
+    assert!(is_demo(&h.state().project));
+    h.input_mut()
+        .events
+        .push(egui::Event::Paste(PASTED.to_string()));
+    // The preview's first frame is a sizing pass, left out of the accessibility tree.
+    h.run_steps(7);
+    assert!(
+        h.query_all_by_label_contains("The demo project is open")
+            .next()
+            .is_some(),
+        "the preview does not say where the data go"
+    );
+    h.get_by_label("Add to project").click();
+    h.run_steps(3);
+    let w = h.state();
+    assert_eq!(w.project.series.len(), 1, "mixed with the demo");
+    assert_eq!(w.project.series[0].n_rows(), 4);
+    assert!(w.project.path.is_none());
+    assert!(!is_demo(&w.project));
+    // Ctrl+Z brings the demo back, whole.
+    h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
+    h.run_steps(3);
+    assert!(is_demo(&h.state().project));
+    assert_eq!(h.state().project.series.len(), 2);
+    // Data opened into a project of the chemist's own are added to it.
+    let mut w = bench();
+    let mut own = isochore_gui::doc::Project::default();
+    own.series.push(w.project.series.remove(1));
+    w.replace_project(own, false);
+    assert!(
+        is_demo(&w.project),
+        "still the demo's data set, never saved"
+    );
+    w.project.path = Some(PathBuf::from("own.isochore.json"));
+    let mut h = harness(w);
+    h.input_mut()
+        .events
+        .push(egui::Event::Paste(PASTED.to_string()));
+    h.run_steps(7);
+    assert!(h
+        .query_all_by_label_contains("The demo project is open")
+        .next()
+        .is_none());
+    h.get_by_label("Add to project").click();
+    h.run_steps(3);
+    assert_eq!(h.state().project.series.len(), 2);
+}
+
+/// Types a series' new name into the rename field, which has the focus already (as
+/// after a double-click or "Rename…"), and presses Enter.
+fn type_new_name(h: &mut H, name: &str) {
+    let field = |h: &H| h.state().settings.list.renaming.is_some();
+    assert!(field(h), "no rename field for {name}");
+    h.key_press_modifiers(Modifiers::COMMAND, Key::A);
+    h.run_steps(1);
+    h.get_by_role_and_label(Role::TextInput, "rename series")
+        .type_text(name);
+    h.run_steps(1);
+    h.key_press(Key::Enter);
+    h.run_steps(3);
+    assert!(!field(h));
+}
+
+#[test]
+fn a_series_is_renamed_and_removed_with_undo() {
+    let w = bench();
+    let acid = w.project.series[1].id;
+    let a_name = "quillonic acid pKa";
+    let name_of = |h: &H| h.state().project.get(acid).map(|s| s.name().to_string());
+    let mut h = harness(w);
+    // Context menu ▸ Rename…
+    h.get_by_label(a_name).click_secondary();
+    h.run_steps(2);
+    h.get_by_label("Rename…").click();
+    h.run_steps(2);
+    type_new_name(&mut h, "acid, run B");
+    assert_eq!(name_of(&h).as_deref(), Some("acid, run B"));
+    assert!(shows(&h, "acid, run B"));
+    h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
+    h.run_steps(3);
+    assert_eq!(name_of(&h).as_deref(), Some(a_name));
+
+    // Again (the double-click on a name opens the same field; kittest's clicks do not
+    // make an egui double-click, so the test goes through the menu).
+    h.get_by_label(a_name).click_secondary();
+    h.run_steps(2);
+    h.get_by_label("Rename…").click();
+    h.run_steps(2);
+    type_new_name(&mut h, "acid, run C");
+    assert_eq!(name_of(&h).as_deref(), Some("acid, run C"));
+
+    // Context menu ▸ Remove series; undo puts it back where it was, with its name.
+    h.get_by_label("acid, run C").click_secondary();
+    h.run_steps(2);
+    h.get_by_label("Remove series").click();
+    h.run_steps(3);
+    assert_eq!(h.state().project.series.len(), 1);
+    assert!(name_of(&h).is_none());
+    assert!(!shows(&h, "acid, run C"));
+    h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
+    h.run_steps(3);
+    assert_eq!(h.state().project.series.len(), 2);
+    assert_eq!(h.state().project.series[1].id, acid);
+    assert_eq!(name_of(&h).as_deref(), Some("acid, run C"));
+}
+
+#[test]
+fn the_first_start_opens_the_demo_and_later_ones_the_last_project() {
+    let dir = temp_dir("starts");
+    // First start: the demo.
+    let mut w = Workbench::start(Prefs::default(), None, None);
+    assert!(is_demo(&w.project));
+    assert!(w.prefs.started_before);
+    assert!(!w.history.dirty());
+    let path = dir.join("mine.isochore.json");
+    w.save_to(&path);
+    let prefs = w.prefs.clone();
+    // Later start: the last project.
+    let w = Workbench::start(prefs.clone(), None, None);
+    assert_eq!(w.project.path.as_deref(), Some(path.as_path()));
+    assert_eq!(w.project.series.len(), 2);
+    // The last project gone: an empty window, the demo one click away.
+    std::fs::remove_file(&path).unwrap();
+    let mut w = Workbench::start(prefs, None, None);
+    w.block_fits = true;
+    assert!(w.project.series.is_empty());
+    assert!(w.messages.is_empty(), "{:?}", w.messages);
+    let mut h = harness(w);
+    h.get_by_label("Open the demo project").click();
+    h.run_steps(3);
+    assert!(is_demo(&h.state().project));
     let _ = std::fs::remove_dir_all(&dir);
 }

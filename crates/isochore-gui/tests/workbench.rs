@@ -476,6 +476,12 @@ fn pasted_delta_h(options: &isochore_fit::FitOptions) -> f64 {
 
 pub(crate) fn accept_import(h: &mut Harness<'_, Workbench>, n_before: usize) -> u64 {
     assert!(h.state().files.preview.is_some(), "no import preview");
+    // Data opened while the demo is shown start a new project of their own.
+    let n_before = if isochore_gui::start::is_demo(&h.state().project) {
+        0
+    } else {
+        n_before
+    };
     // Let the preview window settle its size (it is centred, so it moves while it grows).
     h.run_steps(4);
     h.get_by_label("Add to project").click();

@@ -237,6 +237,7 @@ impl FilesPanel {
         let dark = cx.dark;
         let flag = style::flag_color(dark);
         let problems = p.problems();
+        let demo = crate::start::is_demo(cx.project);
         egui::Window::new(format!("Import {}", p.source))
             .collapsible(false)
             .default_width(680.0)
@@ -308,6 +309,11 @@ impl FilesPanel {
                     ui.colored_label(flag, e);
                 }
                 weighting_choice(ui, p, flag);
+                if demo {
+                    ui.label(
+                        "The demo project is open: these data start a new untitled project (Ctrl+Z brings the demo back).",
+                    );
+                }
                 ui.horizontal(|ui| {
                     let label = if problems.is_empty() {
                         "Add to project".to_string()
@@ -329,14 +335,24 @@ impl FilesPanel {
             }
         }
         if accept {
-            let at = cx.project.series.len();
-            let mut first = None;
-            for (k, s) in p.series().into_iter().enumerate() {
-                first.get_or_insert(s.id);
-                cx.out.push(Command::InsertSeries {
-                    at: at + k,
-                    series: Box::new(s),
-                });
+            let series = p.series();
+            let first = series.first().map(|s| s.id);
+            if crate::start::is_demo(cx.project) {
+                // Not mixed with the demo's invented series: a new untitled project
+                // (Ctrl+Z brings the demo back).
+                let project = crate::doc::Project {
+                    series,
+                    ..crate::doc::Project::default()
+                };
+                cx.out.push(Command::ReplaceProject(Box::new(project)));
+            } else {
+                let at = cx.project.series.len();
+                for (k, s) in series.into_iter().enumerate() {
+                    cx.out.push(Command::InsertSeries {
+                        at: at + k,
+                        series: Box::new(s),
+                    });
+                }
             }
             if let Some(id) = first {
                 cx.actions.push(Action::SetActive(id));

@@ -7,6 +7,7 @@ pub mod files;
 pub mod menu;
 pub mod predict;
 pub mod results;
+pub mod series_list;
 pub mod settings;
 pub mod status;
 pub mod style;

@@ -1,9 +1,9 @@
-//! The left panel: the list of series (choose the active one, show or hide it on the
-//! plots) and the active series' settings — model, θ, confidence level, weighting,
+//! The left panel: the list of series ([`crate::panels::series_list`]) and the active
+//! series' settings — model, θ, confidence level, weighting,
 //! σ convention, units for results and flag thresholds. Every change is one undoable
 //! command.
 
-use crate::app::{Action, Cx};
+use crate::app::Cx;
 use crate::command::Command;
 use crate::panels::style;
 use isochore_fit::{EnergyUnit, Model, SigmaConvention, TemperatureUnit, Weighting};
@@ -15,44 +15,15 @@ pub struct SettingsPanel {
     buffers: std::collections::HashMap<&'static str, String>,
     /// The last typing error, in words.
     pub error: Option<String>,
+    /// The list of series above the settings.
+    pub list: crate::panels::series_list::SeriesList,
 }
 
 impl SettingsPanel {
     /// Draws the panel.
     pub fn ui(&mut self, ui: &mut egui::Ui, cx: &mut Cx<'_>) {
         ui.heading("Series");
-        if cx.project.series.is_empty() {
-            ui.label("No data yet: open a CSV or TSV file (Open… in the File menu), drop one on the window, or paste a table with Ctrl+V.");
-        }
-        for (i, s) in cx.project.series.iter().enumerate() {
-            ui.horizontal(|ui| {
-                let mut shown = s.shown;
-                let r = ui.checkbox(&mut shown, "");
-                let label = format!("show series {}", s.name());
-                r.widget_info(|| {
-                    egui::WidgetInfo::selected(egui::Role::CheckBox, true, shown, &label)
-                });
-                if r.changed() {
-                    cx.out.push(Command::SetShown {
-                        series: s.id,
-                        shown,
-                    });
-                }
-                style::marker_swatch(ui, i);
-                let active = cx.active == Some(s.id);
-                if ui
-                    .selectable_label(active, s.name())
-                    .on_hover_text(format!(
-                        "{} rows; drawn as {}",
-                        s.n_rows(),
-                        style::shape_name(style::series_shape(i))
-                    ))
-                    .clicked()
-                {
-                    cx.actions.push(Action::SetActive(s.id));
-                }
-            });
-        }
+        self.list.ui(ui, cx);
         let Some(s) = cx.series() else {
             return;
         };
