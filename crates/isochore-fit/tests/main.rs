@@ -2,6 +2,7 @@
 
 mod clarke_glew;
 mod common;
+mod compensation;
 mod extension;
 mod fieller;
 mod garbage_in;

@@ -13,7 +13,9 @@
 //!
 //! [`fit_global`] fits; [`GlobalFit`] holds the result; [`test_equal_across_series`] and
 //! [`EqualityTest::between`] test whether parameters fitted per series are equal across
-//! the series (extra sum of squares F-test of the per-series fit against the shared one).
+//! the series (extra sum of squares F-test of the per-series fit against the shared one);
+//! [`compensation()`] and [`exner_test`] analyse enthalpy–entropy compensation over three or
+//! more series.
 //!
 //! ```
 //! use isochore_fit::global::{fit_global, SeriesInput, Sharing, SharingMap};
@@ -34,12 +36,14 @@
 //! assert!((f.shared("delta_s").unwrap().value - 50.0).abs() < 1e-9);
 //! ```
 
+pub mod compensation;
 mod contrast;
 mod design;
 mod equality;
 mod error;
 mod result;
 
+pub use compensation::{compensation, exner_test, Compensation, CompensationPoint, ExnerTest};
 pub use contrast::SeriesDifference;
 pub use design::GlobalColumn;
 pub use equality::{test_equal_across_series, EqualityMethod, EqualityTest};
