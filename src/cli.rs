@@ -237,34 +237,52 @@ pub struct PredictArgs {
 #[derive(Debug, Clone, Args)]
 #[command(group(clap::ArgGroup::new("direction").required(true).args(["k2", "delta_h"])))]
 pub struct TwoPointArgs {
-    /// First temperature (unit from --temp-unit).
-    #[arg(long, allow_hyphen_values = true)]
-    pub t1: f64,
+    /// First temperature, e.g. 25C or 298.15K (a number without a unit is read in
+    /// --temp-unit, default °C).
+    #[arg(long, value_name = "T", allow_hyphen_values = true, value_parser = parse_temperature)]
+    pub t1: TypedTemperature,
     /// K at the first temperature.
     #[arg(long)]
     pub k1: f64,
-    /// Second temperature.
-    #[arg(long, allow_hyphen_values = true)]
-    pub t2: f64,
+    /// Second temperature, e.g. 37C or 310.15K.
+    #[arg(long, value_name = "T", allow_hyphen_values = true, value_parser = parse_temperature)]
+    pub t2: TypedTemperature,
     /// K at the second temperature: gives ΔH° and ΔS° from the two pairs.
     #[arg(long)]
     pub k2: Option<f64>,
     /// ΔH° (unit from --energy): gives K at the second temperature.
     #[arg(long, allow_hyphen_values = true)]
     pub delta_h: Option<f64>,
-    /// Standard uncertainty of K₁ (same unit as K₁; 0 if exact).
-    #[arg(long, default_value_t = 0.0)]
-    pub u_k1: f64,
-    /// Standard uncertainty of K₂.
-    #[arg(long, default_value_t = 0.0)]
-    pub u_k2: f64,
+    /// Standard uncertainty u(K₁), in the unit of K₁ (0 if exact); or give --sigma-ln-k1.
+    #[arg(
+        long,
+        value_name = "U",
+        allow_hyphen_values = true,
+        conflicts_with = "sigma_ln_k1"
+    )]
+    pub u_k1: Option<f64>,
+    /// Standard uncertainty u(K₂), in the unit of K₂; or give --sigma-ln-k2.
+    #[arg(
+        long,
+        value_name = "U",
+        allow_hyphen_values = true,
+        conflicts_with = "sigma_ln_k2"
+    )]
+    pub u_k2: Option<f64>,
+    /// Standard uncertainty of ln K₁, σ(ln K₁), instead of --u-k1 (as the window takes it).
+    #[arg(long, value_name = "SIGMA", allow_hyphen_values = true)]
+    pub sigma_ln_k1: Option<f64>,
+    /// Standard uncertainty of ln K₂, σ(ln K₂), instead of --u-k2.
+    #[arg(long, value_name = "SIGMA", allow_hyphen_values = true)]
+    pub sigma_ln_k2: Option<f64>,
     /// Standard uncertainty of both temperatures (same unit as T; 0 if exact).
     #[arg(long, default_value_t = 0.0)]
     pub u_t: f64,
     /// Standard uncertainty of ΔH° (unit from --energy).
     #[arg(long, default_value_t = 0.0)]
     pub u_delta_h: f64,
-    /// Unit of the temperatures (default °C, and the output says it was assumed).
+    /// Unit of temperatures typed without one (--t1, --t2; --u-t is in the unit of T₁):
+    /// C, K or F (default °C, and the output says it was assumed).
     #[arg(long, value_enum, value_name = "C|K|F")]
     pub temp_unit: Option<TempArg>,
     /// Energy unit of ΔH° in and out (JSON is always J/mol).

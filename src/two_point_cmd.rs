@@ -1,14 +1,16 @@
 //! `vhfit two-point`: the hand calculation in both directions with propagated
 //! uncertainty — ΔH° and ΔS° from two (T, K) pairs, or K at T₂ from (T₁, K₁) and ΔH°.
 //!
-//! Temperatures are printed in the unit they were given in (with kelvin beside them), and
-//! the output says when °C was assumed because no `--temp-unit` was given. Two temperatures
+//! Temperatures take a unit suffix (`25C`, `298.15K`, `77F`), else `--temp-unit`, else °C,
+//! as `--tref` and `--at` do; each is printed in the unit it was given in (with kelvin
+//! beside it), and the output says when °C was assumed. Two temperatures
 //! closer than [`isochore_fit::TEMPERATURE_RESOLUTION_K`] (1 mK) are refused.
 
 use crate::cli::{TempArg, TwoPointArgs};
 use crate::output::{self, Style};
 use crate::Failure;
 use isochore_analysis::json::two_point::{EnthalpyJson, KJson, TwoPointInputs};
+use isochore_analysis::KUncertainty;
 use isochore_fit::two_point::{enthalpy_from_pairs, indistinguishable, predict_k, StatePoint};
 use isochore_fit::Estimate;
 use isochore_fit::TEMPERATURE_RESOLUTION_K;
@@ -64,13 +66,15 @@ fn unit_key(unit: TempArg) -> &'static str {
 
 /// Runs `vhfit two-point`.
 pub fn run(a: &TwoPointArgs) -> Result<(), Failure> {
-    let (unit, assumed) = match a.temp_unit {
-        Some(u) => (u, false),
-        None => (TempArg::C, true),
-    };
+    // One rule for temperatures on the command line: a unit suffix (25C, 298.15K), else
+    // --temp-unit, else °C (and the output says so). Each is printed in its own unit.
+    let unit1 = a.t1.unit.or(a.temp_unit).unwrap_or(TempArg::C);
+    let unit2 = a.t2.unit.or(a.temp_unit).unwrap_or(TempArg::C);
+    let assumed = a.temp_unit.is_none() && (a.t1.unit.is_none() || a.t2.unit.is_none());
+    let unit = unit1;
     let tu = unit.unit();
-    let t1 = tu.to_kelvin(a.t1);
-    let t2 = tu.to_kelvin(a.t2);
+    let t1 = tu.to_kelvin(a.t1.value);
+    let t2 = unit2.unit().to_kelvin(a.t2.value);
     let u_t = tu.difference_to_kelvin(a.u_t);
     let assumed_note = if assumed {
         "temperatures read as °C, the default; give --temp-unit K or F for other units"
@@ -88,19 +92,29 @@ pub fn run(a: &TwoPointArgs) -> Result<(), Failure> {
     if !(a.k1.is_finite() && a.k1 > 0.0) {
         return Err(Failure::usage("--k1 must be a positive number"));
     }
-    for (name, v) in [
-        ("--u-k1", a.u_k1),
-        ("--u-k2", a.u_k2),
-        ("--u-t", a.u_t),
-        ("--u-delta-h", a.u_delta_h),
-    ] {
+    // Each K with u(K) or σ(ln K), one rule for the window and the command line.
+    let uncertainty = |u: Option<f64>, sigma: Option<f64>| match sigma {
+        Some(s) => (KUncertainty::OfLnK(s), "--sigma-ln-k"),
+        None => (KUncertainty::OfK(u.unwrap_or(0.0)), "--u-k"),
+    };
+    let (unc1, flag1) = uncertainty(a.u_k1, a.sigma_ln_k1);
+    let (unc2, flag2) = uncertainty(a.u_k2, a.sigma_ln_k2);
+    let sigma_ln_k = |unc: KUncertainty, flag: &str, k: f64| {
+        unc.sigma_ln_k(k)
+            .map_err(|e| Failure::usage(format!("{flag}: {e}")))
+    };
+    let sigma1 = sigma_ln_k(unc1, &format!("{flag1}1"), a.k1)?;
+    for (name, v) in [("--u-t", a.u_t), ("--u-delta-h", a.u_delta_h)] {
         if !(v.is_finite() && v >= 0.0) {
             return Err(Failure::usage(format!(
                 "{name} must be zero or a positive number"
             )));
         }
     }
-    for (name, v, k) in [("--t1", a.t1, t1), ("--t2", a.t2, t2)] {
+    for (name, v, k, tu) in [
+        ("--t1", a.t1.value, t1, tu),
+        ("--t2", a.t2.value, t2, unit2.unit()),
+    ] {
         if !(k.is_finite() && k > 0.0) {
             return Err(Failure::usage(format!(
                 "{name} {} {} is not a temperature above absolute zero{}",
@@ -118,22 +132,27 @@ pub fn run(a: &TwoPointArgs) -> Result<(), Failure> {
         t_k: t1,
         sigma_t_k: u_t,
         k: a.k1,
-        sigma_ln_k: a.u_k1 / a.k1,
+        sigma_ln_k: sigma1,
     };
     let e = a.energy.unit();
     let ef = e.joules_per_mole();
     let (sf, s_unit) = entropy_unit(e);
     let lp = num(a.level * 100.0, 1).trim_end_matches(".0").to_string();
-    let t1_text = show_temperature(a.t1, unit, t1);
-    let t2_text = show_temperature(a.t2, unit, t2);
+    let t1_text = show_temperature(a.t1.value, unit1, t1);
+    let t2_text = show_temperature(a.t2.value, unit2, t2);
     let mut text = String::new();
     let inputs = TwoPointInputs {
         t1_k: t1,
         t2_k: t2,
         k1: a.k1,
         level: a.level,
-        t1: a.t1,
-        t2: a.t2,
+        // Both in the unit of T₁ (the one `temp_unit` names).
+        t1: a.t1.value,
+        t2: if unit2 == unit1 {
+            a.t2.value
+        } else {
+            tu.from_kelvin(t2)
+        },
         temp_unit: unit_key(unit),
         temp_unit_assumed: assumed,
     };
@@ -152,7 +171,7 @@ pub fn run(a: &TwoPointArgs) -> Result<(), Failure> {
             t_k: t2,
             sigma_t_k: u_t,
             k: k2,
-            sigma_ln_k: a.u_k2 / k2,
+            sigma_ln_k: sigma_ln_k(unc2, &format!("{flag2}2"), k2)?,
         };
         let r = enthalpy_from_pairs(p1, p2, a.level).map_err(bad)?;
         text.push_str(&format!(

@@ -7,4 +7,5 @@ mod hostile_cli;
 mod hostile_input;
 mod joint_cli;
 mod promises;
+mod two_point;
 mod vocabulary;

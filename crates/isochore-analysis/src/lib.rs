@@ -17,6 +17,7 @@
 //! - [`joint`]: several data sets fitted together with shared parameters, and the test of
 //!   equality against the separate fits.
 //! - [`json`]: the JSON contract as typed serde structs.
+//! - [`pair`]: the inputs of the two-point calculation (u(K) or σ(ln K), one rule).
 //!
 //! No statistics (isochore-fit), no parsing of files (isochore-data), no drawing
 //! (isochore-report, the window), and nothing that knows about command-line flags or widgets.
@@ -28,6 +29,7 @@ pub mod dataset;
 pub mod files;
 pub mod joint;
 pub mod json;
+pub mod pair;
 pub mod report;
 pub mod rows;
 pub mod weighting;
@@ -37,6 +39,7 @@ pub use dataset::{
     load, DataSet, Exclusions, FitFailure, LoadError, Overrides, PointOrigin, Remedy,
 };
 pub use files::{is_project_file, ReportStems, PROJECT_SUFFIX};
+pub use pair::KUncertainty;
 pub use report::{report_input, report_title, VERSION};
 pub use rows::RowNumber;
 pub use weighting::{SigmaCoverage, Weighed};

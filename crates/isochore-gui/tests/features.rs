@@ -880,3 +880,36 @@ fn a_project_from_a_newer_version_is_refused_and_left_untouched() {
     assert_eq!(names_in(&dir), files);
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn the_two_point_calculator_takes_u_of_k_as_the_command_line_does() {
+    use isochore_fit::two_point::{enthalpy_from_pairs, StatePoint};
+    let mut h = harness(bench());
+    h.get_by_label("Two-point calculation").click();
+    h.run_steps(3);
+    // The panel's starting pairs (25 °C, K = 1.0e6; 37 °C, K = 4.0e5) with σ(ln K) = 0.05
+    // each; u(K) = σ(ln K)·K (first-order propagation) is 5.0e4 and 2.0e4.
+    let a = StatePoint {
+        sigma_ln_k: 0.05,
+        ..StatePoint::exact(298.15, 1.0e6)
+    };
+    let b = StatePoint {
+        sigma_ln_k: 0.05,
+        ..StatePoint::exact(310.15, 4.0e5)
+    };
+    let r = enthalpy_from_pairs(a, b, 0.95).unwrap();
+    let hh = r.delta_h.scaled(1e-3);
+    let want = format!("ΔH° = {} ± {} kJ/mol", sig(hh.value, 4), sig(hh.se, 2));
+    assert!(shows_part(&h, &want), "no {want}");
+    h.get_by_label("u(K)").click();
+    h.run_steps(3);
+    assert!(h.state().predict.two_point_u_of_k);
+    // 0.05 read as u(K) on K = 10⁶ is a different, far smaller uncertainty.
+    assert!(
+        !shows_part(&h, &want),
+        "u(K) = 0.05 gave the σ(ln K) result"
+    );
+    retype_field(&mut h, "0.05", 0, "5.0e4");
+    retype_field(&mut h, "0.05", 0, "2.0e4");
+    assert!(shows_part(&h, &want), "no {want} from u(K)");
+}

@@ -24,6 +24,9 @@ pub struct PredictPanel {
     pub two_point: [String; 6],
     /// The unit the typed temperatures are in (the active series' unit when last drawn).
     pub t_unit: Option<TemperatureUnit>,
+    /// The two-point uncertainties are u(K), in the unit of K, rather than σ(ln K) (the
+    /// command line takes either too: --u-k1 or --sigma-ln-k1).
+    pub two_point_u_of_k: bool,
 }
 
 impl Default for PredictPanel {
@@ -42,6 +45,7 @@ impl Default for PredictPanel {
                 "0.05".into(),
             ],
             t_unit: None,
+            two_point_u_of_k: false,
         }
     }
 }
@@ -194,15 +198,29 @@ impl PredictPanel {
                 )
                 .small(),
             );
+            ui.horizontal(|ui| {
+                ui.label("uncertainty given as");
+                ui.radio_value(&mut self.two_point_u_of_k, false, "σ(ln K)");
+                ui.radio_value(&mut self.two_point_u_of_k, true, "u(K)");
+            });
+            let u_of_k = self.two_point_u_of_k;
+            let unc = move |v: f64| {
+                if u_of_k {
+                    isochore_analysis::KUncertainty::OfK(v)
+                } else {
+                    isochore_analysis::KUncertainty::OfLnK(v)
+                }
+            };
+            let unc_symbol = unc(0.0).symbol();
             egui::Grid::new("two_point").num_columns(4).show(ui, |ui| {
                 ui.label("");
                 ui.label(isochore_report::present::names::t_axis(tu));
                 ui.label("K");
-                ui.label("σ(ln K)");
+                ui.label(unc_symbol);
                 ui.end_row();
                 for (k, name) in ["pair 1", "pair 2"].iter().enumerate() {
                     ui.label(*name);
-                    for (j, column) in ["T", "K", "σ(ln K)"].iter().enumerate() {
+                    for (j, column) in ["T", "K", unc_symbol].iter().enumerate() {
                         ui.add(
                             egui::TextEdit::singleline(&mut self.two_point[3 * k + j])
                                 .desired_width(64.0),
@@ -214,11 +232,12 @@ impl PredictPanel {
             });
             let level = s.options().level;
             let parse = |k: usize| -> Result<StatePoint, String> {
+                let value = num(&self.two_point[3 * k + 1])?;
                 Ok(StatePoint {
                     t_k: tu.to_kelvin(num(&self.two_point[3 * k])?),
                     sigma_t_k: 0.0,
-                    k: num(&self.two_point[3 * k + 1])?,
-                    sigma_ln_k: num(&self.two_point[3 * k + 2])?,
+                    k: value,
+                    sigma_ln_k: unc(num(&self.two_point[3 * k + 2])?).sigma_ln_k(value)?,
                 })
             };
             let res = parse(0).and_then(|a| {
