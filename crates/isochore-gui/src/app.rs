@@ -369,7 +369,9 @@ impl Workbench {
             .resizable(true)
             .default_size(250.0)
             .show(root, |ui| {
-                egui::ScrollArea::vertical().show(ui, |ui| {
+                // Both ways, filling the panel: a wider line (a longer unit) scrolls
+                // instead of widening the panel, so panels never jump.
+                egui::ScrollArea::both().auto_shrink(false).show(ui, |ui| {
                     self.settings.ui(ui, &mut cx);
                 });
             });
@@ -378,7 +380,7 @@ impl Workbench {
                 .resizable(true)
                 .default_size(380.0)
                 .show(root, |ui| {
-                    egui::ScrollArea::vertical().show(ui, |ui| {
+                    egui::ScrollArea::both().auto_shrink(false).show(ui, |ui| {
                         self.results.ui(ui, &mut cx);
                         ui.separator();
                         self.predict.ui(ui, &mut cx);

@@ -5,6 +5,7 @@ mod export_guard;
 mod features;
 mod plots;
 mod shared_rules;
+mod small_screen;
 mod walkthrough;
 mod ways_out;
 mod workbench;

@@ -101,13 +101,24 @@ impl TablePanel {
         for &c in &value_cols {
             headers.push((series.header(c).to_string(), "as typed in the file".into()));
         }
+        // A file of ln K values has a column of that name already: the converted one is
+        // then named apart, so "ln K" never heads two columns.
+        let is_ln_k = |h: &str| {
+            let bare: String = h.chars().filter(|c| c.is_alphanumeric()).collect();
+            bare.eq_ignore_ascii_case("lnk")
+        };
+        let ln_k_header = if headers.iter().any(|(h, _)| is_ln_k(h)) {
+            "ln K (converted)"
+        } else {
+            "ln K"
+        };
         let studentized_tip = format!(
             "{} (excluded rows: residual in prediction SDs)",
             names::STUDENTIZED
         );
         for (h, tip) in [
-            ("ln K", "on the fitting scale"),
-            ("leverage", "hᵢ: pull of the point on the fit"),
+            (ln_k_header, "on the fitting scale"),
+            ("leverage", "h: pull of the point on the fit"),
             (names::STUDENTIZED_SHORT, studentized_tip.as_str()),
             ("Cook's D", "influence of the point on the fit"),
             ("reason", "why the row is excluded"),
@@ -115,149 +126,183 @@ impl TablePanel {
         ] {
             headers.push((h.into(), tip.into()));
         }
-        let table = TableBuilder::new(ui)
-            .id_salt(("measurements", series.id))
-            .striped(true)
-            .sense(Sense::click())
-            .cell_layout(egui::Layout::left_to_right(egui::Align::Center))
-            .column(Column::exact(44.0))
-            .column(Column::exact(34.0))
-            .columns(
-                Column::initial(92.0)
-                    .at_least(60.0)
-                    .resizable(true)
-                    .clip(true),
-                value_cols.len(),
-            )
-            // Clipped, so a long header (hover for the full name) does not widen them.
-            .columns(
-                Column::initial(80.0)
-                    .at_least(60.0)
-                    .resizable(true)
-                    .clip(true),
-                4,
-            )
-            .column(
-                Column::initial(220.0)
-                    .at_least(80.0)
-                    .resizable(true)
-                    .clip(true),
-            )
-            .column(Column::remainder().clip(true));
         let mut commit: Option<(Editing, bool)> = None;
         let sid = series.id;
-        table
-            .header(ROW_H, |mut h| {
-                for (title, tip) in &headers {
-                    h.col(|ui| {
-                        ui.strong(title).on_hover_text(tip);
-                    });
-                }
-            })
-            .body(|body| {
-                body.rows(ROW_H, series.n_rows(), |mut tr| {
-                    let i = tr.index();
-                    let key = (sid, i);
-                    let excl = series.exclusion(i);
-                    let point = a.and_then(|a| a.point_of_row.get(i).copied().flatten());
-                    let d = point.and_then(|k| diag.and_then(|d| d.get(k)));
-                    tr.set_selected(
-                        cx.links.selected == Some(key) || cx.links.hovered == Some(key),
+        // The table is wider than the panel on a small screen: it scrolls sideways, and
+        // every column past the first two can be resized.
+        egui::ScrollArea::horizontal()
+            .id_salt(("measurements_sideways", series.id))
+            .show(ui, |ui| {
+                let table = TableBuilder::new(ui)
+                    .id_salt(("measurements", series.id))
+                    .striped(true)
+                    .sense(Sense::click())
+                    .cell_layout(egui::Layout::left_to_right(egui::Align::Center))
+                    .column(Column::exact(44.0))
+                    .column(Column::exact(34.0))
+                    .columns(
+                        Column::initial(92.0)
+                            .at_least(60.0)
+                            .resizable(true)
+                            .clip(true),
+                        value_cols.len(),
+                    )
+                    // Clipped, so a long header (hover for the full name) does not widen them.
+                    .columns(
+                        Column::initial(80.0)
+                            .at_least(60.0)
+                            .resizable(true)
+                            .clip(true),
+                        4,
+                    )
+                    .column(
+                        Column::initial(220.0)
+                            .at_least(80.0)
+                            .resizable(true)
+                            .clip(true),
+                    )
+                    .column(
+                        Column::initial(160.0)
+                            .at_least(60.0)
+                            .resizable(true)
+                            .clip(true),
                     );
-                    tr.col(|ui| {
-                        let r = ui.label(format!("{}", i + 1));
-                        if let Some(line) = series.line(i) {
-                            r.on_hover_text(format!("line {line} of {}", series.data.source.name));
-                        }
-                    });
-                    tr.col(|ui| {
-                        let mut inc = excl.is_none();
-                        let r = ui.checkbox(&mut inc, "");
-                        let label = format!("use row {}", i + 1);
-                        r.widget_info(|| {
-                            egui::WidgetInfo::selected(egui::Role::CheckBox, true, inc, &label)
-                        });
-                        if r.changed() {
-                            cx.out.push(Command::SetExclusion {
-                                series: sid,
-                                row: i,
-                                exclusion: (!inc).then(|| (String::new(), cx.stamp.clone())),
+                table
+                    .header(ROW_H, |mut h| {
+                        for (title, tip) in &headers {
+                            h.col(|ui| {
+                                ui.strong(title).on_hover_text(tip);
                             });
                         }
-                    });
-                    for &c in &value_cols {
-                        tr.col(|ui| {
-                            let text = series.cell(i, c).to_string();
-                            self.editable(
-                                ui,
-                                sid,
-                                i,
-                                EditTarget::Cell(c),
-                                text,
-                                false,
-                                &mut commit,
+                    })
+                    .body(|body| {
+                        body.rows(ROW_H, series.n_rows(), |mut tr| {
+                            let i = tr.index();
+                            let key = (sid, i);
+                            let excl = series.exclusion(i);
+                            let point = a.and_then(|a| a.point_of_row.get(i).copied().flatten());
+                            let d = point.and_then(|k| diag.and_then(|d| d.get(k)));
+                            tr.set_selected(
+                                cx.links.selected == Some(key) || cx.links.hovered == Some(key),
                             );
-                        });
-                    }
-                    tr.col(|ui| {
-                        if let Some(d) = d {
-                            ui.label(style::fixed(d.ln_k, 3));
-                        }
-                    });
-                    let cells = [
-                        (
-                            d.map(|d| d.leverage),
-                            d.is_some_and(|d| d.flags.high_leverage),
-                            "high leverage",
-                        ),
-                        (
-                            d.and_then(|d| d.student_ext.or(d.prediction_residual)),
-                            d.is_some_and(|d| d.flags.outlier),
-                            "outlier",
-                        ),
-                        (
-                            d.and_then(|d| d.cooks_d),
-                            d.is_some_and(|d| d.flags.influential),
-                            "influential",
-                        ),
-                    ];
-                    for (v, flagged, why) in cells {
-                        tr.col(|ui| {
-                            let Some(v) = v else {
-                                ui.weak(isochore_report::present::MISSING);
-                                return;
-                            };
-                            let text = style::diag(v);
-                            if flagged {
-                                ui.label(RichText::new(format!("{text} ⚑")).color(flag).strong())
-                                    .on_hover_text(format!("flagged: {why}"));
-                            } else {
-                                ui.label(text);
+                            tr.col(|ui| {
+                                let r = ui.label(format!("{}", i + 1));
+                                if let Some(line) = series.line(i) {
+                                    r.on_hover_text(format!(
+                                        "line {line} of {}",
+                                        series.data.source.name
+                                    ));
+                                }
+                            });
+                            tr.col(|ui| {
+                                let mut inc = excl.is_none();
+                                let r = ui.checkbox(&mut inc, "");
+                                let label = format!("use row {}", i + 1);
+                                r.widget_info(|| {
+                                    egui::WidgetInfo::selected(
+                                        egui::Role::CheckBox,
+                                        true,
+                                        inc,
+                                        &label,
+                                    )
+                                });
+                                if r.changed() {
+                                    cx.out.push(Command::SetExclusion {
+                                        series: sid,
+                                        row: i,
+                                        exclusion: (!inc)
+                                            .then(|| (String::new(), cx.stamp.clone())),
+                                    });
+                                }
+                            });
+                            for &c in &value_cols {
+                                tr.col(|ui| {
+                                    let text = series.cell(i, c).to_string();
+                                    self.editable(
+                                        ui,
+                                        sid,
+                                        i,
+                                        EditTarget::Cell(c),
+                                        text,
+                                        false,
+                                        &mut commit,
+                                    );
+                                });
+                            }
+                            tr.col(|ui| {
+                                if let Some(d) = d {
+                                    ui.label(style::fixed(d.ln_k, 3));
+                                }
+                            });
+                            let cells = [
+                                (
+                                    d.map(|d| d.leverage),
+                                    d.is_some_and(|d| d.flags.high_leverage),
+                                    "high leverage",
+                                ),
+                                (
+                                    d.and_then(|d| d.student_ext.or(d.prediction_residual)),
+                                    d.is_some_and(|d| d.flags.outlier),
+                                    "outlier",
+                                ),
+                                (
+                                    d.and_then(|d| d.cooks_d),
+                                    d.is_some_and(|d| d.flags.influential),
+                                    "influential",
+                                ),
+                            ];
+                            for (v, flagged, why) in cells {
+                                tr.col(|ui| {
+                                    let Some(v) = v else {
+                                        ui.weak(isochore_report::present::MISSING);
+                                        return;
+                                    };
+                                    let text = style::diag(v);
+                                    if flagged {
+                                        ui.label(
+                                            RichText::new(format!("{text} ⚑")).color(flag).strong(),
+                                        )
+                                        .on_hover_text(format!("flagged: {why}"));
+                                    } else {
+                                        ui.label(text);
+                                    }
+                                });
+                            }
+                            tr.col(|ui| match excl {
+                                Some(e) => {
+                                    let r = e.reason.clone();
+                                    self.editable(
+                                        ui,
+                                        sid,
+                                        i,
+                                        EditTarget::Reason,
+                                        r,
+                                        true,
+                                        &mut commit,
+                                    );
+                                }
+                                None => {
+                                    ui.label("");
+                                }
+                            });
+                            tr.col(|ui| {
+                                if let Some(c) = note_col {
+                                    let note = series.cell(i, c);
+                                    let r = ui.label(RichText::new(note).weak());
+                                    if !note.is_empty() {
+                                        r.on_hover_text(note);
+                                    }
+                                }
+                            });
+                            let resp = tr.response();
+                            if resp.hovered() {
+                                cx.links.next_hover = Some(key);
+                            }
+                            if resp.clicked() {
+                                cx.links.selected = Some(key);
                             }
                         });
-                    }
-                    tr.col(|ui| match excl {
-                        Some(e) => {
-                            let r = e.reason.clone();
-                            self.editable(ui, sid, i, EditTarget::Reason, r, true, &mut commit);
-                        }
-                        None => {
-                            ui.label("");
-                        }
                     });
-                    tr.col(|ui| {
-                        if let Some(c) = note_col {
-                            ui.label(RichText::new(series.cell(i, c)).weak());
-                        }
-                    });
-                    let resp = tr.response();
-                    if resp.hovered() {
-                        cx.links.next_hover = Some(key);
-                    }
-                    if resp.clicked() {
-                        cx.links.selected = Some(key);
-                    }
-                });
             });
         if let Some((e, ok)) = commit {
             self.editing = None;
@@ -302,7 +347,11 @@ impl TablePanel {
             } else {
                 RichText::new(text.clone())
             };
-            let r = ui.add(egui::Label::new(shown).sense(Sense::click()));
+            let mut r = ui.add(egui::Label::new(shown).sense(Sense::click()));
+            // A clipped reason or value is read in full on hover.
+            if !text.is_empty() {
+                r = r.on_hover_text(&text);
+            }
             if r.clicked() {
                 self.start_edit(series, row, target, text);
             }
