@@ -11,7 +11,7 @@ use egui::{Key, Modifiers};
 use egui_kittest::kittest::{NodeT, Queryable};
 use egui_kittest::Harness;
 use isochore_gui::command::Command;
-use isochore_gui::panels::style::sig;
+use isochore_gui::panels::style::{fixed, sig};
 use isochore_gui::start::is_demo;
 use isochore_gui::{Prefs, Workbench};
 use std::path::{Path, PathBuf};
@@ -44,14 +44,15 @@ fn choose(h: &mut H, combo: &str, choice: &str) {
     h.run_steps(3);
 }
 
-/// The prediction panel's K row ("value (CI low … CI high)") for a fit at `t_k` kelvin.
-fn k_prediction(f: &isochore_fit::VantHoffFit, t_k: f64) -> String {
+/// The prediction panel's ln K row ("value (CI low … CI high)", three decimals) for a fit
+/// at `t_k` kelvin.
+fn ln_k_prediction(f: &isochore_fit::VantHoffFit, t_k: f64) -> String {
     let p = f.predict(t_k).unwrap();
     format!(
         "{} ({} … {})",
-        sig(p.k.value, 4),
-        sig(p.k.ci.low, 3),
-        sig(p.k.ci.high, 3)
+        fixed(p.ln_k.value, 3),
+        fixed(p.ln_k.ci.low, 3),
+        fixed(p.ln_k.ci.high, 3)
     )
 }
 
@@ -91,7 +92,7 @@ fn changing_the_temperature_unit_converts_every_typed_temperature() {
     retype(&mut h, "at T =", "37");
     // 37 °C is 310.15 K, 25 °C is 298.15 K (T/K = t/°C + 273.15, the SI definition of
     // the Celsius scale).
-    let at_37c = k_prediction(&f, 310.15);
+    let at_37c = ln_k_prediction(&f, 310.15);
     assert!(shows(&h, &at_37c), "no {at_37c} at 37 °C");
     let pairs = two_point_line(298.15, 310.15);
     assert!(shows(&h, &pairs), "no {pairs}");
