@@ -34,6 +34,7 @@
 
 #![deny(missing_docs)]
 
+pub mod calorimetric;
 pub mod derived;
 pub mod diagnostics;
 pub mod error;

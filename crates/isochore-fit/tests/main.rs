@@ -1,5 +1,6 @@
 //! The one integration-test binary of this crate: each module is a former test file.
 
+mod calorimetric;
 mod clarke_glew;
 mod common;
 mod compensation;
