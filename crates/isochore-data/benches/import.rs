@@ -42,7 +42,7 @@ fn bench(c: &mut Criterion) {
             // The result is dropped outside the timed part: the figure is the import alone.
             b.iter_with_large_drop(|| {
                 let imp = import_path(&path, &ImportOptions::default()).unwrap();
-                assert_eq!(imp.series.iter().map(|s| s.rows.len()).sum::<usize>(), n);
+                assert_eq!(imp.series.iter().map(|s| s.len()).sum::<usize>(), n);
                 imp
             })
         });

@@ -26,8 +26,8 @@ fn main() {
                 println!("  {line}");
             }
             for s in &imp.series {
-                println!("data set '{}': {} rows", s.name, s.rows.len());
-                for r in s.rows.iter().take(3) {
+                println!("data set '{}': {} rows", s.name, s.len());
+                for r in s.converted().unwrap_or_default().iter().take(3) {
                     println!(
                         "    line {} row {}: T = {} K, ln K = {}, σ = {:?}",
                         r.line(),

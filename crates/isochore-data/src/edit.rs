@@ -5,11 +5,11 @@
 //! may be one too ("65.000"): both are refused, as the importer refuses a file that mixes
 //! the two, rather than read as 65.
 
+use crate::dataset::DataSet;
 use crate::error::{Error, RejectedRow};
 use crate::mapping::{convert_cells, mark_of, Mark};
-use crate::project::ProjectSeries;
 
-impl ProjectSeries {
+impl DataSet {
     /// Checks, without changing anything, that 0-based row `row` still converts with
     /// `text` in 0-based column `column`, and that a number typed into a mapped column
     /// (temperature, value, uncertainty) uses the data set's decimal mark.
@@ -89,7 +89,7 @@ enum Written {
     Unsettled,
 }
 
-impl ProjectSeries {
+impl DataSet {
     /// Which decimal mark the number cells of this data set are written with: its
     /// `decimal_comma` setting, and, where that allows commas, the first cell of a mapped
     /// column that shows a mark (a data set of decimal points stays one even when its file
@@ -141,7 +141,7 @@ fn mark_problem(text: &str, written: Written) -> Option<String> {
 mod tests {
     use crate::{import_text, ImportOptions, Project};
 
-    fn series(text: &str) -> crate::ProjectSeries {
+    fn series(text: &str) -> crate::DataSet {
         let imp = import_text("lab.csv", text, &ImportOptions::default()).unwrap();
         Project::from_import(&imp).series.remove(0)
     }

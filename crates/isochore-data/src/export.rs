@@ -3,8 +3,9 @@
 //! absolute uncertainty `u(…)` when any row has one, and `note`. Leading `#` lines record
 //! the data set, its source and the exclusions (the importer skips them).
 
-use crate::import::{ConvertedRow, Row, Series};
-use crate::project::Exclusion;
+use crate::dataset::{DataSet, Exclusion};
+use crate::error::Error;
+use crate::import::Row;
 use isochore_fit::QuantityKind;
 
 /// The header the export writes for a quantity kind, e.g. "Kd (nM)".
@@ -40,23 +41,20 @@ fn num(v: f64) -> String {
     }
 }
 
-/// Exports an imported data set, writing the quantity as `kind` (usually the import's
-/// `mapping.quantity.kind`).
-pub fn export_csv(series: &Series, kind: QuantityKind) -> String {
-    let rows: Vec<ConvertedRow> = series.rows.iter().map(Row::converted).collect();
-    let notes: Vec<Option<String>> = series
-        .rows
-        .iter()
-        .map(|r| series.note(r).map(str::to_string))
-        .collect();
-    write_csv(&series.name, "", kind, &rows, &notes, &[])
+/// Exports a data set, writing the quantity as `kind` (usually its file's,
+/// `mapping.quantity.kind`, as [`DataSet::export_csv`] does).
+///
+/// # Errors
+/// As [`DataSet::converted`].
+pub fn export_csv(set: &DataSet, kind: QuantityKind) -> Result<String, Error> {
+    set.export_csv_as(kind)
 }
 
 pub(crate) fn write_csv(
     name: &str,
     source: &str,
     kind: QuantityKind,
-    rows: &[ConvertedRow],
+    rows: &[Row],
     notes: &[Option<String>],
     exclusions: &[Exclusion],
 ) -> String {
@@ -74,7 +72,7 @@ pub(crate) fn write_csv(
             one_line(&e.reason)
         ));
     }
-    let has_sigma = rows.iter().any(|r| r.sigma_ln_k.is_some());
+    let has_sigma = rows.iter().any(|r| r.sigma_ln_k().is_some());
     let has_note = notes.iter().any(Option::is_some);
     let mut w = csv::WriterBuilder::new()
         .terminator(csv::Terminator::Any(b'\n'))
@@ -89,7 +87,7 @@ pub(crate) fn write_csv(
     // Writing to a Vec cannot fail; errors are ignored rather than unwrapped.
     let _ = w.write_record(&header);
     for (i, r) in rows.iter().enumerate() {
-        let (t, ln_k, sigma) = (r.t_k, r.ln_k, r.sigma_ln_k);
+        let (t, ln_k, sigma) = (r.t_k, r.ln_k, r.sigma_ln_k());
         let value = kind.from_ln_k(ln_k, t);
         let mut rec = vec![num(t), num(value)];
         if has_sigma {

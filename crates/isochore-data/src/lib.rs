@@ -9,12 +9,13 @@
 //! - [`import_path`] / [`import_bytes`] / [`import_text`] with [`ImportOptions`] return an
 //!   [`Import`]: the detected [`Delimiter`] and decimal mark, the headers, the
 //!   [`ColumnMapping`] (inspectable, overridable through [`ImportOptions::mapping`]), one
-//!   [`Series`] per data set with its accepted [`Row`]s, and the [`RejectedRow`]s with
+//!   [`DataSet`] per data set with its accepted [`Row`]s, and the [`RejectedRow`]s with
 //!   reasons. Whole-file faults are an [`Error`].
-//! - [`Series::measurements`] and [`Series::points`] give `isochore_fit::Measurement`s,
-//!   exclusions and replicate averaging applied.
-//! - [`Project`] holds data sets with their raw cells, mapping, [`SeriesSettings`],
-//!   [`Exclusion`]s and notes; [`Project::save_atomic`] and [`Project::load`].
+//! - [`DataSet`] is the one data-set type: what an import returns, what a project saves
+//!   (cells as typed, mapping, [`SeriesSettings`], [`Exclusion`]s, notes, whether shown)
+//!   and what the window edits. [`DataSet::measurements`] and [`DataSet::points`] give
+//!   `isochore_fit::Measurement`s, exclusions and replicate averaging applied.
+//! - [`Project`] holds data sets and notes; [`Project::save_atomic`] and [`Project::load`].
 //! - [`export_csv`] writes a data set back as CSV that the importer reads.
 //!
 //! ```
@@ -22,7 +23,7 @@
 //! let text = "T (°C);pKa;u(pKa)\n10;7,60;0,01\n20;7,45;0,01\n30;7,31;0,01\n";
 //! let import = import_text("pasted", text, &ImportOptions::default()).unwrap();
 //! assert!(import.decimal_comma);
-//! let data = import.series[0].measurements(&[]);
+//! let data = import.series[0].measurements().unwrap();
 //! assert_eq!(data.len(), 3);
 //! assert!((data[0].t_k - 283.15).abs() < 1e-12);
 //! let mut project = Project::from_import(&import);
@@ -34,6 +35,7 @@
 
 mod assign;
 pub mod atomic;
+pub mod dataset;
 mod edit;
 pub mod error;
 pub mod export;
@@ -44,18 +46,17 @@ pub mod project;
 mod text;
 
 pub use assign::{ColumnChoice, ColumnRef, COLUMN_ROLES};
+pub use dataset::{DataSet, Exclusion, ProjectSeries, RawRow, SeriesSettings};
 pub use error::{Error, RejectedRow, RowProblem, ACCEPTED_HEADERS};
 pub use export::{export_csv, quantity_header};
 pub use import::{
-    import_bytes, import_path, import_text, sha256_hex, ConvertedRow, DecimalMark, Import,
-    ImportOptions, Point, Replicates, Row, Series, SourceInfo,
+    import_bytes, import_path, import_text, sha256_hex, DecimalMark, Import, ImportOptions, Point,
+    Replicates, Row, SourceInfo,
 };
 pub use mapping::{
     ColumnMapping, QuantityColumn, TemperatureColumn, UncertaintyColumn, UncertaintyKind,
 };
-pub use project::{
-    Exclusion, Project, ProjectSeries, RawRow, SeriesSettings, MAX_PROJECT_BYTES, SCHEMA_VERSION,
-};
+pub use project::{Project, MAX_PROJECT_BYTES, SCHEMA_VERSION};
 pub use text::Delimiter;
 
 /// Re-exported unit types from `isochore-fit`, as used in mappings and settings.

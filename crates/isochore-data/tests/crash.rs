@@ -43,7 +43,7 @@ fn projects() -> [Project; 2] {
     a.notes = "version A".to_string();
     let mut b = a.clone();
     b.notes = "version B, edited after the crash test's first save".to_string();
-    for row in &mut b.series[1].rows {
+    for row in b.series[1].raw_rows_mut() {
         row.cells[2].push('1');
     }
     b.series[0]

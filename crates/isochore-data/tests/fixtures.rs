@@ -190,8 +190,9 @@ fn good_files_give_the_expected_values() {
         for (s, es) in imp.series.iter().zip(series) {
             assert_eq!(s.name, es["name"], "{file}: data set name");
             let rows = es["rows"].as_array().unwrap();
-            assert_eq!(s.rows.len(), rows.len(), "{file}: rows of '{}'", s.name);
-            for (k, (r, er)) in s.rows.iter().zip(rows).enumerate() {
+            let read = s.converted().unwrap();
+            assert_eq!(read.len(), rows.len(), "{file}: rows of '{}'", s.name);
+            for (k, (r, er)) in read.iter().zip(rows).enumerate() {
                 assert_eq!(
                     r.line() as u64,
                     er["line"].as_u64().unwrap(),
@@ -228,7 +229,7 @@ fn good_files_give_the_expected_values() {
             let imp = import_path(&path, &o).unwrap();
             for s in &imp.series {
                 let want = avg[&s.name].as_array().unwrap();
-                let pts = s.points(&[]);
+                let pts = s.points().unwrap();
                 assert_eq!(
                     pts.len(),
                     want.len(),

@@ -3,8 +3,8 @@
 //! project must survive save → load unchanged.
 
 use isochore_data::{
-    import_bytes, ColumnMapping, ConcentrationUnit, EnergyUnit, Exclusion, ImportOptions, Project,
-    ProjectSeries, QuantityKind, RawRow, Replicates, SeriesSettings, SourceInfo, TemperatureUnit,
+    import_bytes, ColumnMapping, ConcentrationUnit, DataSet, EnergyUnit, Exclusion, ImportOptions,
+    Project, QuantityKind, RawRow, Replicates, SeriesSettings, SourceInfo, TemperatureUnit,
     UncertaintyColumn, UncertaintyKind, SCHEMA_VERSION,
 };
 use isochore_fit::{FitOptions, FlagThresholds, Model, SigmaConvention, Weighting};
@@ -105,9 +105,9 @@ proptest! {
             for (ps, s) in p.series.iter().zip(&imp.series) {
                 let again = ps.measurements();
                 prop_assert!(again.is_ok(), "{:?}", again);
-                prop_assert_eq!(again.unwrap(), s.measurements(&[]));
-                for r in &s.rows {
-                    prop_assert_eq!(imp.cells(r), ps.rows[r.row() - 1].cells.clone());
+                prop_assert_eq!(again.unwrap(), s.measurements().unwrap());
+                for r in s.converted().unwrap().iter() {
+                    prop_assert_eq!(imp.cells(r), ps.raw_rows()[r.row() - 1].cells.clone());
                 }
             }
         }
@@ -128,10 +128,12 @@ proptest! {
         if let Ok(imp) = import_bytes("fuzz.csv", &bytes, &o) {
             // Everything reachable from a successful import is safe too.
             for s in &imp.series {
-                for r in &s.rows {
+                for r in s.converted().unwrap().iter() {
                     let _ = imp.cells(r);
                 }
-                let _ = s.points(&[1]);
+                let mut excluded = s.clone();
+                let _ = excluded.exclude(1, "", "");
+                let _ = excluded.points();
                 let _ = isochore_data::export_csv(s, imp.mapping.quantity.kind);
             }
             // The project recomputes from the raw cells exactly what the import computed.
@@ -139,7 +141,7 @@ proptest! {
             for (ps, s) in p.series.iter().zip(&imp.series) {
                 let again = ps.measurements();
                 prop_assert!(again.is_ok(), "{:?}", again);
-                prop_assert_eq!(again.unwrap(), s.measurements(&[]));
+                prop_assert_eq!(again.unwrap(), s.measurements().unwrap());
             }
             let _ = imp.strict();
         }
@@ -250,7 +252,7 @@ fn settings() -> impl Strategy<Value = SeriesSettings> {
         )
 }
 
-fn series() -> impl Strategy<Value = ProjectSeries> {
+fn series() -> impl Strategy<Value = DataSet> {
     (
         any::<String>(),
         vec(any::<String>(), 3..5),
@@ -261,9 +263,10 @@ fn series() -> impl Strategy<Value = ProjectSeries> {
         vec((any::<String>(), any::<String>()), 0..3),
         any::<u64>(),
         any::<bool>(),
+        any::<bool>(),
     )
         .prop_map(
-            |(name, headers, rows, kind, settings, notes, excl, bytes, comma)| {
+            |(name, headers, rows, kind, settings, notes, excl, bytes, comma, shown)| {
                 let n = rows.len();
                 let mut mapping = ColumnMapping::new(0, TemperatureUnit::Celsius, 1, kind);
                 mapping.uncertainty = Some(UncertaintyColumn {
@@ -274,39 +277,37 @@ fn series() -> impl Strategy<Value = ProjectSeries> {
                         UncertaintyKind::Absolute(kind)
                     },
                 });
-                ProjectSeries {
-                    name,
-                    source: SourceInfo {
-                        name: "f.csv".into(),
-                        path: if comma {
-                            None
-                        } else {
-                            Some("/tmp/f.csv".into())
-                        },
-                        sha256: "00".repeat(32),
-                        bytes,
+                let source = SourceInfo {
+                    name: "f.csv".into(),
+                    path: if comma {
+                        None
+                    } else {
+                        Some("/tmp/f.csv".into())
                     },
-                    headers,
-                    header_line: 1,
-                    mapping,
-                    decimal_comma: comma,
-                    rows: rows
-                        .into_iter()
+                    sha256: "00".repeat(32),
+                    bytes,
+                };
+                let mut s = DataSet::new(name, source, headers, mapping);
+                s.decimal_comma = comma;
+                s.set_raw_rows(
+                    rows.into_iter()
                         .map(|(line, cells)| RawRow { line, cells })
                         .collect(),
-                    settings,
-                    exclusions: excl
-                        .into_iter()
-                        .enumerate()
-                        .filter(|(i, _)| *i < n)
-                        .map(|(i, (reason, at))| Exclusion {
-                            row: i + 1,
-                            reason,
-                            at,
-                        })
-                        .collect(),
-                    notes,
-                }
+                );
+                s.settings = settings;
+                s.exclusions = excl
+                    .into_iter()
+                    .enumerate()
+                    .filter(|(i, _)| *i < n)
+                    .map(|(i, (reason, at))| Exclusion {
+                        row: i + 1,
+                        reason,
+                        at,
+                    })
+                    .collect();
+                s.notes = notes;
+                s.shown = shown;
+                s
             },
         )
 }

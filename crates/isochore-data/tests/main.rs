@@ -1,6 +1,7 @@
 //! The one integration-test binary of this crate: each module is a former test file.
 
 mod crash;
+mod dataset;
 mod fixtures;
 mod fuzz;
 mod hostile;

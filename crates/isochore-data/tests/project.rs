@@ -30,12 +30,12 @@ fn project_recomputes_the_import_exactly_and_applies_exclusions() {
     let s = &mut p.series[0];
     // Raw cells as typed, including the quoted note with its comma.
     assert_eq!(
-        s.rows[1].cells,
+        s.raw_rows()[1].cells,
         vec!["17.5", "92.91", "0.0065", "fresh buffer, new lot"]
     );
-    assert_eq!(s.rows[1].line, 3);
+    assert_eq!(s.raw_rows()[1].line, 3);
     assert_eq!(s.source.sha256, imp.source.sha256);
-    let from_import = imp.series[0].measurements(&[]);
+    let from_import = imp.series[0].measurements().unwrap();
     assert_eq!(s.measurements().unwrap(), from_import);
     s.exclude(2, "air bubble", AT).unwrap();
     let m = s.measurements().unwrap();
@@ -327,14 +327,17 @@ fn export_reads_back_the_same_values() {
     ] {
         let imp = import_path(fixture(f), &ImportOptions::default()).unwrap();
         let kind = imp.mapping.quantity.kind;
-        let csv = export_csv(&imp.series[0], kind);
+        let csv = export_csv(&imp.series[0], kind).unwrap();
         let back = import_text(f, &csv, &ImportOptions::default())
             .unwrap_or_else(|e| panic!("{f}: {e}\n{csv}"));
         assert_eq!(back.mapping.quantity.kind, kind, "{f}");
         assert_eq!(back.mapping.temperature.unit, TemperatureUnit::Kelvin);
-        let (a, b) = (&imp.series[0].rows, &back.series[0].rows);
+        let (a, b) = (
+            imp.series[0].converted().unwrap(),
+            back.series[0].converted().unwrap(),
+        );
         assert_eq!(a.len(), b.len());
-        for (x, y) in a.iter().zip(b) {
+        for (x, y) in a.iter().zip(b.iter()) {
             assert_eq!(x.t_k, y.t_k, "{f}: T is written in full");
             assert!(
                 (x.ln_k - y.ln_k).abs() < 1e-12 * x.ln_k.abs().max(1.0),
@@ -358,7 +361,6 @@ fn export_reads_back_the_same_values() {
             import_text(f, &csv, &ImportOptions::default())
                 .unwrap()
                 .series[0]
-                .rows
                 .len(),
             a.len()
         );
@@ -381,7 +383,7 @@ fn mapping_can_be_overridden() {
     };
     let imp = import_text("x.csv", text, &o).unwrap();
     // K_d = 5 µM → K = 1 M / 5e-6 M = 2e5 (definition of the association constant).
-    assert!((imp.series[0].rows[0].ln_k - (2e5f64).ln()).abs() < 1e-12);
+    assert!((imp.series[0].converted().unwrap()[0].ln_k - (2e5f64).ln()).abs() < 1e-12);
     assert!(imp.describe_mapping()[1].contains("K_d (µM)"));
     let bad = ImportOptions {
         mapping: Some(ColumnMapping::new(
@@ -436,7 +438,7 @@ fn replicates_without_sigma_take_it_from_the_spread() {
         ..ImportOptions::default()
     };
     let imp = import_text("r.csv", text, &o).unwrap();
-    let pts = imp.series[0].points(&[]);
+    let pts = imp.series[0].points().unwrap();
     assert_eq!(pts.len(), 3);
     assert_eq!(pts[0].rows, vec![1, 2, 3]);
     // Standard error of the mean, s/√n, of the three ln K (common practice).
@@ -448,13 +450,15 @@ fn replicates_without_sigma_take_it_from_the_spread() {
     assert!((pts[0].measurement.t_k - (298.15 + 298.15 + 298.17) / 3.0).abs() < 1e-12);
     assert_eq!(pts[1].measurement.sigma_ln_k, None, "one row, no σ column");
     // Excluding a replicate takes it out of the mean and keeps it as its own point.
-    let pts = imp.series[0].points(&[2]);
+    let mut s = imp.series[0].clone();
+    s.exclude(2, "", AT).unwrap();
+    let pts = s.points().unwrap();
     assert_eq!(pts.len(), 4);
     assert_eq!(pts[0].rows, vec![1, 3]);
     assert!(!pts[1].measurement.included && pts[1].rows == vec![2]);
     // Kept by default.
     let imp = import_text("r.csv", text, &ImportOptions::default()).unwrap();
-    assert_eq!(imp.series[0].measurements(&[]).len(), 5);
+    assert_eq!(imp.series[0].measurements().unwrap().len(), 5);
 }
 
 #[test]
@@ -489,8 +493,5 @@ fn two_point_data_sets_allowed_on_request() {
         min_points: 2,
         ..ImportOptions::default()
     };
-    assert_eq!(
-        import_text("t.csv", text, &o).unwrap().series[0].rows.len(),
-        2
-    );
+    assert_eq!(import_text("t.csv", text, &o).unwrap().series[0].len(), 2);
 }

@@ -2,7 +2,8 @@
 //!
 //! [`import_path`], [`import_bytes`] and [`import_text`] decode the bytes, detect the
 //! dialect, read the header into a [`ColumnMapping`] (or take the caller's), then convert
-//! every row. Good rows go into [`Series`] (one per distinct value of the series column);
+//! every row. Good rows go into [`DataSet`]s (one per distinct value of the series column,
+//! holding the converted rows without copying their cells);
 //! rows with a bad cell go into [`Import::rejected`] with line, column and reason. Faults
 //! of the whole file (empty, header only, unknown header, size limits, too few points,
 //! one temperature) are an [`Error`].
@@ -21,10 +22,11 @@ mod unit_guess;
 
 pub use scan::TWO_THREADS_ABOVE;
 pub(crate) use series::make_points;
-pub use series::{ConvertedRow, Point, Row, Series};
+pub use series::{Point, Row};
 pub use source::{import_bytes, import_path, import_text, sha256_hex, SourceInfo};
 
 use crate::assign::ColumnChoice;
+use crate::dataset::DataSet;
 use crate::error::{Error, RejectedRow};
 use crate::header;
 use crate::mapping::ColumnMapping;
@@ -74,7 +76,7 @@ pub struct ImportOptions {
     pub delimiter: Option<Delimiter>,
     /// The decimal mark.
     pub decimal: DecimalMark,
-    /// Replicate handling, carried into each [`Series`].
+    /// Replicate handling, carried into each data set's settings.
     pub replicates: Replicates,
     /// Temperatures closer than this (K) are replicates (default 0.05 K).
     pub replicate_tolerance_k: f64,
@@ -140,8 +142,9 @@ pub struct Import {
     pub delimiter: Delimiter,
     /// True when commas inside numbers are read as decimal marks and the file uses them.
     pub decimal_comma: bool,
-    /// The data sets, in order of first appearance.
-    pub series: Vec<Series>,
+    /// The data sets, in order of first appearance, holding the converted rows (not the
+    /// cells: see [`Import::data_sets_with_cells`]).
+    pub series: Vec<DataSet>,
     /// Rows not accepted, in file order, with reasons.
     pub rejected: Vec<RejectedRow>,
     pub(crate) comma_ok: bool,
@@ -149,7 +152,35 @@ pub struct Import {
 }
 
 impl Import {
-    /// The cells of an accepted row exactly as typed (quotes removed, doubled quotes undone).
+    /// The data sets with the cells of every row as typed, as a project saves them (the
+    /// converted rows are then dropped: the cells are the source of truth).
+    pub fn data_sets_with_cells(&self) -> Vec<DataSet> {
+        self.series
+            .iter()
+            .map(|s| {
+                let mut d = s.without_rows();
+                d.set_raw_rows(
+                    s.read
+                        .iter()
+                        .map(|r| crate::dataset::RawRow {
+                            line: r.line(),
+                            cells: self.cells(r),
+                        })
+                        .collect(),
+                );
+                d
+            })
+            .collect()
+    }
+
+    /// The rows the reader kept for data set `index` (converted, with their lines; their
+    /// cells come from [`Import::cells`]), borrowed without a copy.
+    pub fn rows_of(&self, index: usize) -> &[Row] {
+        self.series.get(index).map_or(&[], |s| &s.read)
+    }
+
+    /// The cells of an accepted row of this import exactly as typed (quotes removed,
+    /// doubled quotes undone).
     pub fn cells(&self, row: &Row) -> Vec<String> {
         let Ok(mut r) = self.reader_at(row.start as usize, row.end as usize) else {
             return Vec::new();
@@ -192,34 +223,17 @@ impl Import {
         self.mapping.describe(&self.headers)
     }
 
-    /// The rule for empty uncertainty cells, for a weighted fit: a data set whose σ column
-    /// is entirely empty has no uncertainties (it is fitted unweighted, see the README); a
-    /// data set with σ in some rows and an empty σ cell in another is refused, naming the
-    /// line and column of the first empty cell. Fitting unweighted ignores σ, so a caller
-    /// that fits unweighted need not call this.
+    /// The rule for empty uncertainty cells ([`DataSet::check_sigma`]) over every data set:
+    /// a file where one data set has σ in some rows only is refused for a weighted fit.
     ///
     /// # Errors
     /// [`Error::MissingSigma`].
     pub fn check_sigma(&self) -> Result<(), Error> {
-        let Some(u) = self.mapping.uncertainty else {
-            return Ok(());
-        };
-        for s in &self.series {
-            if let Some(r) = s.first_row_missing_sigma() {
-                return Err(Error::MissingSigma {
-                    file: self.source.name.clone(),
-                    series: s.name.clone(),
-                    line: r.line(),
-                    column: u.column + 1,
-                    header: self.headers.get(u.column).cloned().unwrap_or_default(),
-                });
-            }
-        }
-        Ok(())
+        self.series.iter().try_for_each(DataSet::check_sigma)
     }
 
     /// The data set with this name.
-    pub fn series_named(&self, name: &str) -> Option<&Series> {
+    pub fn series_named(&self, name: &str) -> Option<&DataSet> {
         self.series.iter().find(|s| s.name == name)
     }
 
@@ -243,7 +257,7 @@ struct Parsed {
     delimiter: Delimiter,
     decimal_comma: bool,
     comma_ok: bool,
-    series: Vec<Series>,
+    series: Vec<series::Scanned>,
     rejected: Vec<RejectedRow>,
 }
 

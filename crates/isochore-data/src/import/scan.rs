@@ -10,7 +10,7 @@
 //! reading so that no second pass is needed.
 
 use super::dialect::Marks;
-use super::series::{new_series, Row, Series};
+use super::series::{new_series, Row, Scanned};
 use super::ImportOptions;
 use crate::error::{Error, RejectedRow, RowProblem};
 use crate::mapping::{convert_cells, mark_of, ColumnMapping};
@@ -36,7 +36,7 @@ pub(super) struct Scan<'a> {
 
 /// The rows read from one part of the data.
 pub(super) struct Chunk {
-    pub(super) series: Vec<Series>,
+    pub(super) series: Vec<Scanned>,
     /// The lowest and highest temperature (K) of each data set's rows, aligned with
     /// `series` (taken while reading, so that no second pass over the rows is needed).
     pub(super) ranges: Vec<(f64, f64)>,
@@ -155,7 +155,7 @@ impl Scan<'_> {
         .starting_after_line(line)
         .without_quotes(self.quote_free);
         let ncols = self.headers.len();
-        let mut series: Vec<Series> = Vec::new();
+        let mut series: Vec<Scanned> = Vec::new();
         let mut ranges: Vec<(f64, f64)> = Vec::new();
         let none = (f64::INFINITY, f64::NEG_INFINITY);
         let mut index: HashMap<String, usize> = HashMap::new();
@@ -210,7 +210,7 @@ impl Scan<'_> {
             let si = match mapping.series {
                 None => {
                     if series.is_empty() {
-                        series.push(new_series(self.default_name.to_string(), o, reserve));
+                        series.push(new_series(self.default_name.to_string(), reserve));
                         ranges.push(none);
                     }
                     0
@@ -245,7 +245,6 @@ impl Scan<'_> {
                     } else {
                         series.push(new_series(
                             name.to_string(),
-                            o,
                             if series.len() < 8 { reserve } else { 0 },
                         ));
                         keys.push(key);
@@ -368,9 +367,9 @@ mod tests {
         let sets: Vec<(&str, usize)> = imp
             .series
             .iter()
-            .map(|s| (s.name.as_str(), s.rows.len()))
+            .map(|s| (s.name.as_str(), s.len()))
             .collect();
         assert_eq!(sets, [(a, 3), (b, 3)]);
-        assert_eq!(imp.series[1].rows[0].line(), 3);
+        assert_eq!(imp.series[1].converted().unwrap()[0].line(), 3);
     }
 }

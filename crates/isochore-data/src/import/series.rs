@@ -1,20 +1,23 @@
 //! Series stage of the reading pipeline: the data sets.
 //!
-//! The accepted [`Row`]s (40 bytes each) are kept per data set in a [`Series`], with its
-//! notes and replicate settings; [`assemble`] completes what the scan read and checks each
-//! data set's size and temperatures. [`Series::points`] turns rows into the fit's
-//! [`Point`]s, exclusions applied and replicates grouped; the averaging arithmetic itself
-//! is [`isochore_fit::average_replicates`].
+//! The scan keeps the accepted [`Row`]s (40 bytes each) of each data set in a [`Scanned`],
+//! with its note cells; [`assemble`] completes what the scan read and checks each data
+//! set's size and temperatures, and [`Scanned::into_data_set`] makes it a
+//! [`DataSet`](crate::DataSet). [`make_points`] turns rows into the fit's [`Point`]s,
+//! exclusions applied and replicates grouped; the averaging arithmetic itself is
+//! [`isochore_fit::average_replicates`].
 
-use super::{ImportOptions, Replicates};
+use super::{ImportOptions, Replicates, SourceInfo};
+use crate::dataset::{DataSet, SeriesSettings};
 use crate::error::{Error, RejectedRow};
+use crate::mapping::ColumnMapping;
 use isochore_fit::{average_replicates, Measurement};
 
 /// One accepted row, converted to the fitting scale.
 ///
 /// Kept in 40 bytes (a 10⁶-row file holds a million of them): line and row numbers are
 /// stored as `u32` (files are limited to 4 GiB), an absent σ as NaN, and the note cell in
-/// the data set ([`Series::note`]).
+/// the data set ([`DataSet::note`]).
 #[derive(Debug, Clone, Copy)]
 pub struct Row {
     /// Temperature in kelvin.
@@ -41,6 +44,19 @@ impl PartialEq for Row {
 }
 
 impl Row {
+    /// A row converted from cells kept as typed (no byte range in an import's text).
+    pub(crate) fn new(t_k: f64, ln_k: f64, sigma: Option<f64>, line: usize, row: usize) -> Row {
+        Row {
+            t_k,
+            ln_k,
+            sigma: sigma.unwrap_or(f64::NAN),
+            line: u32::try_from(line).unwrap_or(u32::MAX),
+            row: u32::try_from(row).unwrap_or(u32::MAX),
+            start: 0,
+            end: 0,
+        }
+    }
+
     /// Physical 1-based line in the file.
     #[inline]
     pub fn line(&self) -> usize {
@@ -58,16 +74,6 @@ impl Row {
     pub fn sigma_ln_k(&self) -> Option<f64> {
         (!self.sigma.is_nan()).then_some(self.sigma)
     }
-
-    /// The converted values of this row.
-    pub fn converted(&self) -> ConvertedRow {
-        ConvertedRow {
-            row: self.row(),
-            t_k: self.t_k,
-            ln_k: self.ln_k,
-            sigma_ln_k: self.sigma_ln_k(),
-        }
-    }
 }
 
 /// One point for the fit, with the data rows it stands for (one row, or several averaged
@@ -80,97 +86,77 @@ pub struct Point {
     pub rows: Vec<usize>,
 }
 
-/// One row converted to the fitting scale, identified by its 1-based row number.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct ConvertedRow {
-    /// 1-based row number in its data set.
-    pub row: usize,
-    /// Temperature in kelvin.
-    pub t_k: f64,
-    /// ln K.
-    pub ln_k: f64,
-    /// σ(ln K), if known.
-    pub sigma_ln_k: Option<f64>,
-}
-
-/// One data set.
+/// One data set as the scan reads it: its rows and note cells (made a [`DataSet`] by
+/// [`Scanned::into_data_set`] once the whole file is read).
 #[derive(Debug, Clone, PartialEq)]
-pub struct Series {
+pub(crate) struct Scanned {
     /// Its name: the series cell, or the file name without extension.
     pub name: String,
     /// Accepted rows in file order.
     pub rows: Vec<Row>,
-    /// Replicate handling.
-    pub replicates: Replicates,
-    /// Replicate temperature tolerance in K.
-    pub replicate_tolerance_k: f64,
     /// The non-empty note cells: (1-based row number, note), in row order.
-    pub(super) notes: Vec<(u32, String)>,
+    pub notes: Vec<(u32, String)>,
 }
 
-impl Series {
-    /// The note cell of a row (trimmed), when the file has a note column and the cell is
-    /// not empty.
-    pub fn note(&self, row: &Row) -> Option<&str> {
-        self.notes
-            .binary_search_by_key(&row.row, |(r, _)| *r)
-            .ok()
-            .map(|i| self.notes[i].1.as_str())
-    }
+/// What every data set of one file shares.
+pub(super) struct FileInfo<'a> {
+    pub source: &'a SourceInfo,
+    pub headers: &'a [String],
+    pub header_line: usize,
+    pub mapping: &'a ColumnMapping,
+    pub comma_ok: bool,
+    pub options: &'a ImportOptions,
+}
 
-    /// The points for the fit. `excluded` lists 1-based row numbers to leave out; they stay
-    /// in the result, one point each, with `included = false`. With
-    /// [`Replicates::Average`] the included rows at one temperature become one point.
-    pub fn points(&self, excluded: &[usize]) -> Vec<Point> {
-        let rows: Vec<ConvertedRow> = self.rows.iter().map(Row::converted).collect();
-        make_points(&rows, excluded, self.replicates, self.replicate_tolerance_k)
-    }
-
-    /// The first row without σ, when some other row of the data set has one (the rule of
-    /// [`Import::check_sigma`](super::Import::check_sigma)).
-    pub fn first_row_missing_sigma(&self) -> Option<&Row> {
-        let first_missing = self.rows.iter().find(|r| r.sigma.is_nan())?;
-        self.rows
-            .iter()
-            .any(|r| !r.sigma.is_nan())
-            .then_some(first_missing)
-    }
-
-    /// The measurements for the fit (see [`Series::points`]).
-    pub fn measurements(&self, excluded: &[usize]) -> Vec<Measurement> {
-        self.points(excluded)
-            .into_iter()
-            .map(|p| p.measurement)
-            .collect()
+impl Scanned {
+    /// The data set: the file's headers, mapping and decimal convention, settings at their
+    /// defaults with the import's replicate handling, and the rows read (no cells).
+    pub(super) fn into_data_set(self, f: &FileInfo<'_>) -> DataSet {
+        let mut d = DataSet::new(
+            self.name,
+            f.source.clone(),
+            f.headers.to_vec(),
+            f.mapping.clone(),
+        );
+        d.header_line = f.header_line;
+        d.decimal_comma = f.comma_ok;
+        d.settings = SeriesSettings {
+            replicates: f.options.replicates,
+            replicate_tolerance_k: f.options.replicate_tolerance_k,
+            ..SeriesSettings::default()
+        };
+        d.read = self.rows;
+        d.read_notes = self.notes;
+        d
     }
 }
 
-/// Builds points from converted rows; shared with project files. With
+/// Builds points from converted rows (of an import or of cells kept as typed). With
 /// [`Replicates::Average`] the included rows are grouped by temperature (within `tol` of
 /// the group's lowest) and each group becomes one point by
 /// [`isochore_fit::average_replicates`]; excluded rows stay their own points.
 pub(crate) fn make_points(
-    rows: &[ConvertedRow],
+    rows: &[Row],
     excluded: &[usize],
     mode: Replicates,
     tol: f64,
 ) -> Vec<Point> {
     let is_excluded = |r: usize| excluded.contains(&r);
-    let single = |r: &ConvertedRow| Point {
+    let single = |r: &Row| Point {
         measurement: Measurement {
             t_k: r.t_k,
             ln_k: r.ln_k,
-            sigma_ln_k: r.sigma_ln_k,
-            included: !is_excluded(r.row),
+            sigma_ln_k: r.sigma_ln_k(),
+            included: !is_excluded(r.row()),
         },
-        rows: vec![r.row],
+        rows: vec![r.row()],
     };
     match mode {
         Replicates::Keep => rows.iter().map(single).collect(),
         Replicates::Average => {
             // Group included rows by temperature, in order of first appearance.
             let mut order: Vec<usize> = (0..rows.len())
-                .filter(|&i| !is_excluded(rows[i].row))
+                .filter(|&i| !is_excluded(rows[i].row()))
                 .collect();
             order.sort_by(|&a, &b| rows[a].t_k.total_cmp(&rows[b].t_k).then(a.cmp(&b)));
             let mut groups: Vec<Vec<usize>> = Vec::new();
@@ -188,14 +174,14 @@ pub(crate) fn make_points(
                     .map(|&i| Measurement {
                         t_k: rows[i].t_k,
                         ln_k: rows[i].ln_k,
-                        sigma_ln_k: rows[i].sigma_ln_k,
+                        sigma_ln_k: rows[i].sigma_ln_k(),
                         included: true,
                     })
                     .collect();
                 let Some(measurement) = average_replicates(&replicates) else {
                     continue;
                 };
-                let mut rs: Vec<usize> = g.iter().map(|&i| rows[i].row).collect();
+                let mut rs: Vec<usize> = g.iter().map(|&i| rows[i].row()).collect();
                 rs.sort_unstable();
                 tagged.push((
                     first,
@@ -206,7 +192,7 @@ pub(crate) fn make_points(
                 ));
             }
             for (i, r) in rows.iter().enumerate() {
-                if is_excluded(r.row) {
+                if is_excluded(r.row()) {
                     tagged.push((i, single(r)));
                 }
             }
@@ -216,12 +202,10 @@ pub(crate) fn make_points(
     }
 }
 
-pub(super) fn new_series(name: String, o: &ImportOptions, capacity: usize) -> Series {
-    Series {
+pub(super) fn new_series(name: String, capacity: usize) -> Scanned {
+    Scanned {
         name,
         rows: Vec::with_capacity(capacity),
-        replicates: o.replicates,
-        replicate_tolerance_k: o.replicate_tolerance_k,
         notes: Vec::new(),
     }
 }
@@ -237,10 +221,10 @@ pub(super) fn assemble(
     file: &str,
     o: &ImportOptions,
     default_name: String,
-    mut series: Vec<Series>,
+    mut series: Vec<Scanned>,
     mut ranges: Vec<(f64, f64)>,
     rejected: &[RejectedRow],
-) -> Result<Vec<Series>, Error> {
+) -> Result<Vec<Scanned>, Error> {
     // Give back the room reserved for rows that never came (it was never touched, so this
     // moves nothing).
     for s in &mut series {
@@ -249,7 +233,7 @@ pub(super) fn assemble(
         }
     }
     if series.is_empty() {
-        series.push(new_series(default_name, o, 0));
+        series.push(new_series(default_name, 0));
         ranges.push((f64::INFINITY, f64::NEG_INFINITY));
     }
     for (s, &(lo, hi)) in series.iter().zip(&ranges) {

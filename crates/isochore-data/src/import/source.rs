@@ -205,19 +205,33 @@ fn import_owned(
         (sha, parsed)
     });
     let p = parsed?;
+    let source = SourceInfo {
+        name: name.to_string(),
+        path,
+        sha256: sha,
+        bytes: n_bytes,
+    };
+    let file = super::series::FileInfo {
+        source: &source,
+        headers: &p.headers,
+        header_line: p.header_line,
+        mapping: &p.mapping,
+        comma_ok: p.comma_ok,
+        options,
+    };
+    let series = p
+        .series
+        .into_iter()
+        .map(|s| s.into_data_set(&file))
+        .collect();
     Ok(Import {
-        source: SourceInfo {
-            name: name.to_string(),
-            path,
-            sha256: sha,
-            bytes: n_bytes,
-        },
+        source,
         headers: p.headers,
         header_line: p.header_line,
         mapping: p.mapping,
         delimiter: p.delimiter,
         decimal_comma: p.decimal_comma,
-        series: p.series,
+        series,
         rejected: p.rejected,
         comma_ok: p.comma_ok,
         text,
