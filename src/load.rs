@@ -9,7 +9,7 @@ use isochore_data::DecimalMark;
 use std::path::Path;
 
 /// One data set ready to fit (isochore-analysis' type, under the command line's old name).
-pub use isochore_analysis::DataSet as Job;
+pub use isochore_analysis::PreparedSet as Job;
 
 /// Reason recorded for rows excluded with `--exclude`.
 pub const CLI_EXCLUSION: &str = "excluded on the command line (--exclude)";

@@ -35,7 +35,11 @@ pub(crate) const DEMOS: [&str; 2] = ["acid_pka.csv", "binding_qx7_halo2.csv"];
 /// file gives uncertainties, unweighted otherwise).
 pub(crate) fn library_fit(path: &str, excluded: &[usize], options: FitOptions) -> VantHoffFit {
     let imp = import_path(path, &ImportOptions::default()).expect("demo imports");
-    let m = imp.series[0].measurements(excluded);
+    let mut set = imp.series[0].clone();
+    for &row in excluded {
+        set.exclude(row, "", "").expect("the row exists");
+    }
+    let m = set.measurements().expect("imported rows convert");
     let mut o = options;
     if m.iter().all(|p| p.sigma_ln_k.is_none()) {
         o.weighting = Weighting::Unweighted;
@@ -622,7 +626,7 @@ fn import_test_files_are_fitted_or_refused_cleanly() {
                 imp.series
                     .iter()
                     .map(|s| {
-                        let m = s.measurements(&[]);
+                        let m = s.measurements().map_err(|e| e.to_string())?;
                         let mut o = FitOptions::default();
                         if m.iter().all(|x| x.sigma_ln_k.is_none()) {
                             o.weighting = Weighting::Unweighted;

@@ -1,15 +1,14 @@
-//! Data sets ready to fit: a file on disk (delimited text or a project file) or one data set
-//! of the window's document becomes a [`DataSet`] — the fit's measurements, where each point
-//! came from (row, line, cells as typed, why it is excluded), the fit options after the
-//! [weighting rule](crate::weighting) and the caller's [`Overrides`], the units to show,
-//! and the cautions from reading. The command line and the window both build theirs here.
+//! Data sets prepared for a fit: a file on disk (delimited text or a project file) or one
+//! [`isochore_data::DataSet`] of the window's document becomes a [`PreparedSet`] — derived,
+//! never saved: the fit's measurements, where each point came from (row, line, cells as
+//! typed, why it is excluded), the fit options after the [weighting rule](crate::weighting)
+//! and the caller's [`Overrides`], the units to show, and the cautions from reading. The
+//! command line and the window both build theirs here.
 
 use crate::files::is_project_file;
 use crate::rows::RowNumber;
 use crate::weighting;
-use isochore_data::{
-    ColumnChoice, DecimalMark, Import, ImportOptions, Project, ProjectSeries, RejectedRow,
-};
+use isochore_data::{ColumnChoice, DecimalMark, Import, ImportOptions, Project, RejectedRow};
 use isochore_fit::{
     EnergyUnit, FitOptions, Measurement, Model, SigmaConvention, TemperatureUnit, Weighting,
 };
@@ -34,9 +33,10 @@ pub struct PointOrigin {
     pub exclusion_reason: Option<String>,
 }
 
-/// One data set ready to fit.
+/// One data set prepared for a fit, derived from an [`isochore_data::DataSet`] (the data
+/// set itself, as read and saved) and the caller's [`Overrides`].
 #[derive(Debug, Clone)]
-pub struct DataSet {
+pub struct PreparedSet {
     /// The input as the user named it (the path as given), for messages and JSON.
     pub source: String,
     /// Name of the file the data were read from.
@@ -298,7 +298,7 @@ impl std::error::Error for LoadError {}
 ///
 /// # Errors
 /// [`LoadError`], naming the input by the path as given.
-pub fn load(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
+pub fn load(path: &Path, o: &Overrides) -> Result<Vec<PreparedSet>, LoadError> {
     if is_project_file(path) {
         load_project(path, o)
     } else {
@@ -306,13 +306,14 @@ pub fn load(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
     }
 }
 
-fn load_text(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
+fn load_text(path: &Path, o: &Overrides) -> Result<Vec<PreparedSet>, LoadError> {
     let source = path.display().to_string();
     let data_error = |error| LoadError::Data {
         source: source.clone(),
         error: Box::new(error),
     };
-    let imp: Import = isochore_data::import_path(path, &o.import_options()).map_err(data_error)?;
+    let mut imp: Import =
+        isochore_data::import_path(path, &o.import_options()).map_err(data_error)?;
     let mut notes = Vec::new();
     if !imp.rejected.is_empty() {
         if !o.skip_bad_rows {
@@ -327,61 +328,37 @@ fn load_text(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
                 .map(|r| format!("skipped {}", r.message())),
         );
     }
-    notes.extend(crate::columns::unused_columns_note(
-        &imp.mapping,
-        &imp.headers,
-    ));
-    let excluded: Vec<usize> = o.exclude.rows.iter().map(|r| r.get()).collect();
     let requested = o.apply(FitOptions::default());
-    let conversions = imp.describe_mapping();
-    let mut sets = Vec::with_capacity(imp.series.len());
-    for (i, s) in imp.series.iter().enumerate() {
-        let weighed = weighting::for_import(&imp, i, requested).map_err(data_error)?;
-        if let Some(&row) = o.exclude.rows.iter().find(|r| r.get() > s.rows.len()) {
+    let weighed = (0..imp.series.len())
+        .map(|i| weighting::for_import(&imp, i, requested))
+        .collect::<Result<Vec<_>, _>>()
+        .map_err(data_error)?;
+    // The cells as typed only when asked for: they cost memory on huge files.
+    let series = if o.with_cells {
+        imp.data_sets_with_cells()
+    } else {
+        std::mem::take(&mut imp.series)
+    };
+    let mut sets = Vec::with_capacity(series.len());
+    for (mut s, weighed) in series.into_iter().zip(weighed) {
+        if let Some(&row) = o.exclude.rows.iter().find(|r| r.get() > s.len()) {
             return Err(LoadError::NoSuchRow {
                 source,
                 series: s.name.clone(),
                 row,
-                rows: s.rows.len(),
+                rows: s.len(),
             });
         }
-        let points = s.points(&excluded);
-        let mut measurements = Vec::with_capacity(points.len());
-        let mut origins = Vec::with_capacity(points.len());
-        let mut averaged = false;
-        for p in &points {
-            averaged |= p.rows.len() > 1;
-            let row = RowNumber::from_index(p.rows.first().map_or(0, |&r| r.saturating_sub(1)));
-            let raw = s.rows.get(row.index());
-            measurements.push(p.measurement);
-            origins.push(PointOrigin {
-                row,
-                line: raw.map_or(0, |r| r.line()),
-                cells: match (o.with_cells, raw) {
-                    (true, Some(r)) => imp.cells(r),
-                    _ => Vec::new(),
-                },
-                exclusion_reason: (!p.measurement.included)
-                    .then(|| o.exclude.reason.clone())
-                    .filter(|r| !r.is_empty()),
-            });
+        for r in &o.exclude.rows {
+            s.exclude(r.get(), &o.exclude.reason, &o.exclude.at)
+                .map_err(data_error)?;
         }
-        let mut set = DataSet {
-            source: source.clone(),
-            file_name: imp.source.name.clone(),
-            sha256: imp.source.sha256.clone(),
-            series: s.name.clone(),
-            headers: imp.headers.clone(),
-            conversions: conversions.clone(),
-            measurements,
-            rows: origins,
-            options: weighed.options,
-            energy: o.energy_unit.unwrap_or(EnergyUnit::KilojoulePerMole),
-            temperature: imp.mapping.temperature.unit,
-            warnings: notes.clone(),
-            settings: vec![replicates_setting(s.replicates)],
-        };
-        set.finish(averaged, weighed.note);
+        let mut set = PreparedSet::prepare(&s, &source, o, weighed)?;
+        // A file states its temperature unit; show results in it.
+        set.temperature = imp.mapping.temperature.unit;
+        // Skipped rows first, then what every data set says (unused columns, replicates,
+        // weighting), as a project's prepared set says it.
+        set.warnings.splice(0..0, notes.iter().cloned());
         sets.push(set);
     }
     if sets.is_empty() {
@@ -393,7 +370,7 @@ fn load_text(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
     Ok(sets)
 }
 
-fn load_project(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
+fn load_project(path: &Path, o: &Overrides) -> Result<Vec<PreparedSet>, LoadError> {
     let source = path.display().to_string();
     let data_error = |error| LoadError::Data {
         source: source.clone(),
@@ -415,7 +392,7 @@ fn load_project(path: &Path, o: &Overrides) -> Result<Vec<DataSet>, LoadError> {
         if o.allow_extreme_temperatures {
             s.settings.fit.allow_extreme_temperatures = true;
         }
-        let mut set = DataSet::from_project_series(s, &source, o)?;
+        let mut set = PreparedSet::from_data_set(s, &source, o)?;
         set.settings
             .insert(0, ("project file".to_string(), source.clone()));
         sets.push(set);
@@ -433,25 +410,41 @@ fn replicates_setting(r: isochore_data::Replicates) -> (String, String) {
     ("replicates".to_string(), format!("{r:?}").to_lowercase())
 }
 
-impl DataSet {
+/// The former name of [`PreparedSet`], kept while code written against it moves over.
+pub type DataSet = PreparedSet;
+
+impl PreparedSet {
     /// One data set of a project (or of the window's document), its settings overlaid by
-    /// `o` (exclusions in `o` are not applied here: they belong in the series' own list).
+    /// `o` (exclusions in `o` are not applied here: they belong in the data set's own list).
     /// `source` names the input in messages.
     ///
     /// # Errors
     /// [`LoadError::Data`]: a cell that no longer converts, or σ in some rows only under
     /// inverse-variance weights (line and column named).
-    pub fn from_project_series(
-        s: &ProjectSeries,
+    pub fn from_data_set(
+        s: &isochore_data::DataSet,
         source: &str,
         o: &Overrides,
-    ) -> Result<DataSet, LoadError> {
+    ) -> Result<PreparedSet, LoadError> {
         let data_error = |error| LoadError::Data {
             source: source.to_string(),
             error: Box::new(error),
         };
-        let weighed =
-            weighting::for_project_series(s, o.apply(s.settings.fit)).map_err(data_error)?;
+        let weighed = weighting::for_data_set(s, o.apply(s.settings.fit)).map_err(data_error)?;
+        PreparedSet::prepare(s, source, o, weighed)
+    }
+
+    /// The prepared set of a data set whose weighting is decided.
+    fn prepare(
+        s: &isochore_data::DataSet,
+        source: &str,
+        o: &Overrides,
+        weighed: weighting::Weighed,
+    ) -> Result<PreparedSet, LoadError> {
+        let data_error = |error| LoadError::Data {
+            source: source.to_string(),
+            error: Box::new(error),
+        };
         let points = s.points().map_err(data_error)?;
         let reasons: BTreeMap<usize, &str> = s
             .exclusions
@@ -464,12 +457,11 @@ impl DataSet {
         for p in &points {
             averaged |= p.rows.len() > 1;
             let row = RowNumber::from_index(p.rows.first().map_or(0, |&r| r.saturating_sub(1)));
-            let raw = s.rows.get(row.index());
             measurements.push(p.measurement);
             origins.push(PointOrigin {
                 row,
-                line: raw.map_or(0, |r| r.line),
-                cells: match (o.with_cells, raw) {
+                line: s.line(row.get()).unwrap_or(0),
+                cells: match (o.with_cells, s.raw_rows().get(row.index())) {
                     (true, Some(r)) => r.cells.clone(),
                     _ => Vec::new(),
                 },
@@ -484,7 +476,7 @@ impl DataSet {
                 },
             });
         }
-        let mut set = DataSet {
+        let mut set = PreparedSet {
             source: source.to_string(),
             file_name: s.source.name.clone(),
             sha256: s.source.sha256.clone(),

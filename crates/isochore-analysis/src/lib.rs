@@ -10,7 +10,8 @@
 //! - [`files`]: how a project file is recognised, and the names of report files.
 //! - [`columns`]: the note naming the columns of a file kept but not used.
 //! - [`rows`]: row numbers, 1-based for people, converted to 0-based indices in one place.
-//! - [`dataset`]: a file or a project's data set turned into a [`DataSet`] ready to fit, the
+//! - [`dataset`]: a file or an [`isochore_data::DataSet`] (the one data-set type, as read
+//!   and saved) turned into a [`PreparedSet`] ready to fit (derived, never saved), the
 //!   caller's [`Overrides`] laid over the file's settings, and typed refusals that name the
 //!   [`Remedy`] (the command line names its flag, the window offers a control).
 //! - [`report`]: the report input of a fitted data set, its title and the program line.
@@ -36,7 +37,7 @@ pub mod weighting;
 
 pub use columns::unused_columns_note;
 pub use dataset::{
-    load, DataSet, Exclusions, FitFailure, LoadError, Overrides, PointOrigin, Remedy,
+    load, Exclusions, FitFailure, LoadError, Overrides, PointOrigin, PreparedSet, Remedy,
 };
 pub use files::{is_project_file, ReportStems, PROJECT_SUFFIX};
 pub use pair::KUncertainty;

@@ -2,7 +2,7 @@
 //! program line, and the paths of a report set. The command line and the window both call
 //! [`report_input`], so their reports say the same things in the same words.
 
-use crate::dataset::DataSet;
+use crate::dataset::PreparedSet;
 use isochore_fit::VantHoffFit;
 use isochore_report::{Record, ReportInput, ReportRow};
 
@@ -20,7 +20,11 @@ pub fn report_title(series: &str) -> String {
 /// each under "reading".
 ///
 /// The rows pair each point's origin with its measurement, in the order of `fit.points`.
-pub fn report_input(set: &DataSet, fit: VantHoffFit, extra: &[(String, String)]) -> ReportInput {
+pub fn report_input(
+    set: &PreparedSet,
+    fit: VantHoffFit,
+    extra: &[(String, String)],
+) -> ReportInput {
     let rows = set
         .rows
         .iter()

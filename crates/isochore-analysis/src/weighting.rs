@@ -10,7 +10,7 @@
 //!     the first empty cell (isochore-data's `MissingSigma`), since fitting such a file
 //!     either way would silently drop information; fitting unweighted is the way out.
 
-use isochore_data::{Import, ProjectSeries};
+use isochore_data::{DataSet, Import};
 use isochore_fit::{FitOptions, Weighting};
 
 /// The note given when inverse-variance weights were asked for but the data set gives no
@@ -85,13 +85,13 @@ fn decide(requested: FitOptions, coverage: impl FnOnce() -> SigmaCoverage) -> Re
     }
 }
 
-/// The rule for a data set of a project (or of the window's document).
+/// The rule for a data set (of a project, of the window's document, or read from a file).
 ///
 /// # Errors
 /// isochore-data's `MissingSigma` (line and column of the first empty σ cell), or its
 /// message for a cell that no longer converts.
-pub fn for_project_series(
-    series: &ProjectSeries,
+pub fn for_data_set(
+    series: &DataSet,
     requested: FitOptions,
 ) -> Result<Weighed, isochore_data::Error> {
     let mut fault = None;
@@ -100,7 +100,7 @@ pub fn for_project_series(
             return SigmaCoverage::None;
         }
         match series.converted() {
-            Ok(rows) => SigmaCoverage::of(rows.iter().map(|r| r.sigma_ln_k)),
+            Ok(rows) => SigmaCoverage::of(rows.iter().map(|r| r.sigma_ln_k())),
             Err(e) => {
                 fault = Some(e);
                 SigmaCoverage::Every
@@ -140,7 +140,9 @@ pub fn for_import(
             return SigmaCoverage::None;
         }
         import.series.get(index).map_or(SigmaCoverage::None, |s| {
-            SigmaCoverage::of(s.rows.iter().map(|r| r.sigma_ln_k()))
+            s.converted().map_or(SigmaCoverage::None, |rows| {
+                SigmaCoverage::of(rows.iter().map(|r| r.sigma_ln_k()))
+            })
         })
     });
     // check_sigma above has refused every partial data set already.

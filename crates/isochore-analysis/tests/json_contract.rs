@@ -9,7 +9,7 @@ use isochore_analysis::{load, Overrides, VERSION};
 use isochore_fit::{Estimate, Model};
 use serde_json::Value;
 
-fn document(set: &isochore_analysis::DataSet, fit: &isochore_fit::VantHoffFit) -> Value {
+fn document(set: &isochore_analysis::PreparedSet, fit: &isochore_fit::VantHoffFit) -> Value {
     serde_json::to_value(FitJson::new(set, fit, Some("in.csv"), true)).unwrap()
 }
 

@@ -104,3 +104,37 @@ fn an_empty_project_is_refused() {
         "{e}"
     );
 }
+
+/// The command line's two ways in give the same prepared set: the file read as text (the
+/// importer's rows, no cells kept) and a project built from it and saved (the cells
+/// converted again), with the same row excluded and its reason, lines and cells.
+#[test]
+fn a_file_and_the_project_built_from_it_load_the_same() {
+    let (dir, data) = file("acid.csv", &format!("# pKa run\n{}", csv(["0.01"; 4])));
+    let o = excluding(&[2]);
+    let from_text = load(&data, &o).unwrap();
+    let imp = isochore_data::import_path(&data, &Default::default()).unwrap();
+    let path = dir.path().join("acid.isochore.json");
+    isochore_data::Project::from_import(&imp)
+        .save_atomic(&path)
+        .unwrap();
+    let from_project = load(&path, &o).unwrap();
+    assert_eq!(from_text.len(), 1);
+    assert_eq!(from_project.len(), 1);
+    let (a, b) = (&from_text[0], &from_project[0]);
+    assert_eq!(a.measurements, b.measurements);
+    assert_eq!(a.rows, b.rows, "rows, lines, cells and exclusion reasons");
+    assert_eq!(a.options, b.options);
+    assert_eq!(
+        (&a.series, &a.file_name, &a.sha256),
+        (&b.series, &b.file_name, &b.sha256)
+    );
+    assert_eq!(a.conversions, b.conversions);
+    assert!(!a.measurements[1].included);
+    assert_eq!(
+        a.rows[1].exclusion_reason.as_deref(),
+        Some("bubble in the cell")
+    );
+    // Line 1 is the comment, line 2 the header: data row 1 is line 3.
+    assert_eq!(a.rows[0].line, 3);
+}

@@ -2,7 +2,7 @@
 //! set in the window's document (a project series).
 
 use crate::common::{csv, file, unweighted_delta_h};
-use isochore_analysis::weighting::{for_project_series, NO_SIGMA_NOTE};
+use isochore_analysis::weighting::{for_data_set, NO_SIGMA_NOTE};
 use isochore_analysis::{load, Overrides, SigmaCoverage};
 use isochore_fit::{FitOptions, Weighting};
 
@@ -37,7 +37,7 @@ fn an_empty_sigma_column_is_fitted_unweighted_with_a_note_by_both_front_ends() {
     let imp = isochore_data::import_path(&path, &Default::default()).unwrap();
     let series = isochore_data::Project::from_import(&imp).series.remove(0);
     assert_eq!(series.settings.fit.weighting, Weighting::InverseVariance);
-    let w = for_project_series(&series, series.settings.fit).unwrap();
+    let w = for_data_set(&series, series.settings.fit).unwrap();
     assert_eq!(w.options.weighting, Weighting::Unweighted);
     assert_eq!(w.note, Some(NO_SIGMA_NOTE));
 }
@@ -64,7 +64,7 @@ fn sigma_in_some_rows_only_is_refused_with_line_and_column_unless_unweighted() {
 
     let imp = isochore_data::import_path(&path, &Default::default()).unwrap();
     let series = isochore_data::Project::from_import(&imp).series.remove(0);
-    let w = for_project_series(&series, series.settings.fit).unwrap_err();
+    let w = for_data_set(&series, series.settings.fit).unwrap_err();
     assert!(w.to_string().contains("line 4"), "{w}");
 
     let unweighted = Overrides {
@@ -78,7 +78,7 @@ fn sigma_in_some_rows_only_is_refused_with_line_and_column_unless_unweighted() {
         weighting: Weighting::Unweighted,
         ..series.settings.fit
     };
-    assert_eq!(for_project_series(&series, opts).unwrap().note, None);
+    assert_eq!(for_data_set(&series, opts).unwrap().note, None);
 }
 
 #[test]

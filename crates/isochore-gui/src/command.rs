@@ -3,7 +3,7 @@
 //! which is what the undo stack keeps, so undo and redo cost as much as the edit itself
 //! (no copies of large series).
 
-use crate::doc::{Project, Series};
+use crate::doc::{Entry, Project};
 use isochore_data::{Exclusion, SeriesSettings};
 use isochore_report::present::names;
 
@@ -56,7 +56,7 @@ pub enum Command {
         /// Position.
         at: usize,
         /// The series.
-        series: Box<Series>,
+        series: Box<Entry>,
     },
     /// Remove a series.
     RemoveSeries {
@@ -86,7 +86,7 @@ impl Command {
     }
 }
 
-fn bump(s: &mut Series) {
+fn bump(s: &mut Entry) {
     s.rev = s.rev.wrapping_add(1);
 }
 
@@ -126,7 +126,7 @@ pub fn apply(project: &mut Project, cmd: Command) -> Option<Command> {
             text,
         } => {
             let s = project.get_mut(series)?;
-            let cell = s.data.rows.get_mut(row)?.cells.get_mut(column)?;
+            let cell = s.data.raw_rows_mut().get_mut(row)?.cells.get_mut(column)?;
             let old = std::mem::replace(cell, text);
             bump(s);
             Some(Command::EditCell {
@@ -147,7 +147,7 @@ pub fn apply(project: &mut Project, cmd: Command) -> Option<Command> {
         }
         Command::SetShown { series, shown } => {
             let s = project.get_mut(series)?;
-            let old = std::mem::replace(&mut s.shown, shown);
+            let old = std::mem::replace(&mut s.data.shown, shown);
             Some(Command::SetShown { series, shown: old })
         }
         Command::Rename { series, name } => {

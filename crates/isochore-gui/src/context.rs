@@ -42,7 +42,7 @@ pub struct Cx<'a> {
 
 impl Cx<'_> {
     /// The active series.
-    pub fn series(&self) -> Option<&crate::doc::Series> {
+    pub fn series(&self) -> Option<&crate::doc::Entry> {
         self.active.and_then(|id| self.project.get(id))
     }
 }

@@ -1,12 +1,13 @@
-//! The document the workbench edits: a list of data sets as isochore-data keeps them in
-//! project files (the cells exactly as typed, the column mapping, settings, and every
-//! exclusion with its reason and time), plus what only the window needs (an id, a
-//! revision counter, whether the series is drawn). Every change goes through
+//! The document the workbench edits: a list of [`isochore_data::DataSet`]s, the one
+//! data-set type, as project files keep them (the cells exactly as typed, the column
+//! mapping, settings, every exclusion with its reason and time, and whether the series is
+//! drawn), each in an [`Entry`] with what only the window needs (an id and a revision
+//! counter, never saved). Every change goes through
 //! [`crate::command::Command`] so that it can be undone. Reading cells and converting
 //! units is done by isochore-data; nothing here parses or computes a statistic.
 
 use isochore_analysis::RowNumber;
-use isochore_data::{Exclusion, ProjectSeries};
+use isochore_data::{DataSet, Exclusion};
 use isochore_fit::{FitOptions, Measurement};
 use std::path::PathBuf;
 use std::sync::atomic::{AtomicU64, Ordering};
@@ -18,17 +19,17 @@ pub fn next_id() -> u64 {
     NEXT_ID.fetch_add(1, Ordering::Relaxed)
 }
 
-/// One series: an isochore-data project series plus the window's bookkeeping.
+/// One series in the window: the data set (everything saved, whether it is drawn
+/// included) and the window's bookkeeping. The accessors index rows and columns from 0,
+/// as the window does.
 #[derive(Debug, Clone, PartialEq)]
-pub struct Series {
+pub struct Entry {
     /// Identifier while the window is open.
     pub id: u64,
     /// Revision, bumped by every change (drives refits).
     pub rev: u64,
-    /// Whether the series is drawn on the van 't Hoff plot.
-    pub shown: bool,
     /// The data set as saved in project files.
-    pub data: ProjectSeries,
+    pub data: DataSet,
 }
 
 /// The points of a series for the fit, and which rows each stands for.
@@ -42,13 +43,12 @@ pub struct Points {
     pub point_of_row: Vec<Option<usize>>,
 }
 
-impl Series {
-    /// Wraps a project series with a fresh id.
-    pub fn new(data: ProjectSeries) -> Self {
-        Series {
+impl Entry {
+    /// Wraps a data set with a fresh id.
+    pub fn new(data: DataSet) -> Self {
+        Entry {
             id: next_id(),
             rev: 0,
-            shown: true,
             data,
         }
     }
@@ -60,7 +60,7 @@ impl Series {
 
     /// Number of data rows.
     pub fn n_rows(&self) -> usize {
-        self.data.rows.len()
+        self.data.len()
     }
 
     /// The fit options.
@@ -82,7 +82,7 @@ impl Series {
     /// The cell of 0-based row `row` in 0-based column `col`, as typed.
     pub fn cell(&self, row: usize, col: usize) -> &str {
         self.data
-            .rows
+            .raw_rows()
             .get(row)
             .and_then(|r| r.cells.get(col))
             .map_or("", String::as_str)
@@ -110,7 +110,7 @@ impl Series {
 
     /// The physical line of 0-based row `row` in its file.
     pub fn line(&self, row: usize) -> Option<usize> {
-        self.data.rows.get(row).map(|r| r.line)
+        self.data.line(RowNumber::from_index(row).get())
     }
 
     /// Checks that 0-based row `row` still converts with `text` in 0-based column `column`,
@@ -163,7 +163,7 @@ impl Series {
 #[derive(Debug, Clone, PartialEq, Default)]
 pub struct Project {
     /// The series, in display order.
-    pub series: Vec<Series>,
+    pub series: Vec<Entry>,
     /// Free-text notes.
     pub notes: String,
     /// Where the project file lives, once saved or opened.
@@ -174,7 +174,7 @@ impl Project {
     /// Wraps an isochore-data project.
     pub fn from_data(p: isochore_data::Project, path: Option<PathBuf>) -> Self {
         Project {
-            series: p.series.into_iter().map(Series::new).collect(),
+            series: p.series.into_iter().map(Entry::new).collect(),
             notes: p.notes,
             path,
         }
@@ -195,12 +195,12 @@ impl Project {
     }
 
     /// The series with this id.
-    pub fn get(&self, id: u64) -> Option<&Series> {
+    pub fn get(&self, id: u64) -> Option<&Entry> {
         self.series.iter().find(|s| s.id == id)
     }
 
     /// The series with this id, mutable.
-    pub fn get_mut(&mut self, id: u64) -> Option<&mut Series> {
+    pub fn get_mut(&mut self, id: u64) -> Option<&mut Entry> {
         self.series.iter_mut().find(|s| s.id == id)
     }
 
@@ -212,6 +212,6 @@ impl Project {
                 .series
                 .iter()
                 .zip(&other.series)
-                .all(|(a, b)| a.data == b.data && a.shown == b.shown)
+                .all(|(a, b)| a.data == b.data)
     }
 }

@@ -4,7 +4,7 @@
 //! `isochore_fit`; this module only schedules the calls and orders points for drawing.
 
 use crate::decimate::EnvelopeIndex;
-use crate::doc::Series;
+use crate::doc::Entry;
 use isochore_fit::{BandPoint, Measurement, VantHoffFit};
 use std::collections::HashMap;
 use std::sync::mpsc::{channel, Receiver, TryRecvError};
@@ -72,7 +72,7 @@ fn implausible_row(e: &isochore_data::Error) -> bool {
 }
 
 /// Fits one series (pure: the same series gives the same analysis).
-pub fn analyse(series: &Series) -> Analysis {
+pub fn analyse(series: &Entry) -> Analysis {
     let rev = series.rev;
     let points = match series.points() {
         Ok(p) => p,
@@ -106,7 +106,7 @@ pub fn analyse(series: &Series) -> Analysis {
     // empty σ cell in another is refused with the line and column of that cell, never fitted
     // silently, and fitting unweighted is the way out.
     let (fit, remedy) =
-        match isochore_analysis::weighting::for_project_series(&series.data, *series.options()) {
+        match isochore_analysis::weighting::for_data_set(&series.data, *series.options()) {
             Err(e) => (Err(e.to_string()), Some(Remedy::FitUnweighted)),
             Ok(weighed) => match isochore_fit::fit(&measurements, &weighed.options) {
                 Ok(mut f) => {
@@ -234,7 +234,7 @@ impl Fitter {
     /// Brings every series up to date: starts fits for changed series and collects
     /// finished background fits. `now` is the app clock in seconds. When `block` is set,
     /// background fits are waited for (tests and benchmarks).
-    pub fn update(&mut self, series: &[Series], now: f64, block: bool) {
+    pub fn update(&mut self, series: &[Entry], now: f64, block: bool) {
         self.slots
             .retain(|id, _| series.iter().any(|s| s.id == *id));
         for s in series {
@@ -293,7 +293,7 @@ impl Fitter {
     }
 
     /// Fits in flight.
-    pub fn running(&self, series: &[Series]) -> Vec<Running> {
+    pub fn running(&self, series: &[Entry]) -> Vec<Running> {
         self.slots
             .iter()
             .filter_map(|(id, slot)| {

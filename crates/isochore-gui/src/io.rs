@@ -3,8 +3,8 @@
 //! message for the chemist naming the file, line and column; nothing here touches the
 //! open project until the caller applies the result as a command.
 
-use crate::doc::{Project, Series};
-use isochore_analysis::{DataSet, Overrides};
+use crate::doc::{Entry, Project};
+use isochore_analysis::{Overrides, PreparedSet};
 use isochore_data::{ColumnMapping, DecimalMark, Import, ImportOptions};
 use isochore_report::ReportInput;
 use std::path::{Path, PathBuf};
@@ -139,7 +139,7 @@ impl ImportPreview {
 
     /// Number of accepted rows.
     pub fn accepted_rows(&self) -> usize {
-        self.import.series.iter().map(|s| s.rows.len()).sum()
+        self.import.series.iter().map(|s| s.len()).sum()
     }
 
     /// Reads the source again with the edited mapping.
@@ -181,7 +181,7 @@ impl ImportPreview {
     /// one with every cell empty — is fitted with equal weights, as on the command line);
     /// the chemist can change it in the settings. The confirmation of extreme temperatures
     /// and the choice to fit unweighted are kept in each data set's settings.
-    pub fn series(&self) -> Vec<Series> {
+    pub fn series(&self) -> Vec<Entry> {
         isochore_data::Project::from_import(&self.import)
             .series
             .into_iter()
@@ -189,12 +189,11 @@ impl ImportPreview {
                 d.settings.fit.allow_extreme_temperatures = self.allow_extreme_temperatures;
                 if self.unweighted {
                     d.settings.fit.weighting = isochore_fit::Weighting::Unweighted;
-                } else if let Ok(w) =
-                    isochore_analysis::weighting::for_project_series(&d, d.settings.fit)
+                } else if let Ok(w) = isochore_analysis::weighting::for_data_set(&d, d.settings.fit)
                 {
                     d.settings.fit.weighting = w.options.weighting;
                 }
-                Series::new(d)
+                Entry::new(d)
             })
             .collect()
     }
@@ -310,7 +309,7 @@ pub fn demo_project() -> Result<Project, String> {
     let mut p = Project::from_data(data, None);
     // The two scenarios lie far apart in ln K: draw the first, tick the other to compare.
     for s in p.series.iter_mut().skip(1) {
-        s.shown = false;
+        s.data.shown = false;
     }
     Ok(p)
 }
@@ -361,7 +360,7 @@ pub fn write_project(project: &Project, path: &Path) -> Result<(), String> {
 ///
 /// # Errors
 /// A sentence when the series has no fit to report.
-pub fn report_input(s: &Series, a: &crate::fitting::Analysis) -> Result<ReportInput, String> {
+pub fn report_input(s: &Entry, a: &crate::fitting::Analysis) -> Result<ReportInput, String> {
     let fit = a
         .fit
         .as_ref()
@@ -370,7 +369,7 @@ pub fn report_input(s: &Series, a: &crate::fitting::Analysis) -> Result<ReportIn
         with_cells: true,
         ..Overrides::default()
     };
-    let set = DataSet::from_project_series(&s.data, &s.data.source.name, &with_cells)
+    let set = PreparedSet::from_data_set(&s.data, &s.data.source.name, &with_cells)
         .map_err(|e| format!("{}: no fit to report: {e}", s.name()))?;
     Ok(isochore_analysis::report_input(&set, fit.clone(), &[]))
 }

@@ -41,7 +41,7 @@ fn only_shown_data_sets_in_html_and_pdf_unless_chosen() {
         .project
         .series
         .iter()
-        .filter(|s| !s.shown)
+        .filter(|s| !s.data.shown)
         .map(|s| s.name().to_string())
         .collect();
     assert_eq!(hidden.len(), 1);

@@ -254,11 +254,11 @@ fn switching_the_active_series_and_hiding_series() {
     assert_eq!(h.query_all_by_label(a_name).count(), 1);
     h.get_by_label(&format!("show series {a_name}")).click();
     h.run_steps(3);
-    assert!(h.state().project.get(acid).unwrap().shown);
+    assert!(h.state().project.get(acid).unwrap().data.shown);
     // Now drawn: its name is also in the plot's key.
     assert_eq!(h.query_all_by_label(a_name).count(), 2);
     undo(&mut h);
-    assert!(!h.state().project.get(acid).unwrap().shown);
+    assert!(!h.state().project.get(acid).unwrap().data.shown);
     assert_eq!(h.query_all_by_label(a_name).count(), 1);
 
     // Make the acid series active: results and table follow it.
@@ -272,7 +272,7 @@ fn switching_the_active_series_and_hiding_series() {
     assert_eq!(in_key(&h), 2);
     h.get_by_label(&format!("show series {b_name}")).click();
     h.run_steps(3);
-    assert!(!h.state().project.get(binding).unwrap().shown);
+    assert!(!h.state().project.get(binding).unwrap().data.shown);
     assert_eq!(in_key(&h), 1);
 }
 

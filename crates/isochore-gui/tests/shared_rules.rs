@@ -3,7 +3,7 @@
 //! project — is fitted with equal weights and says so, instead of being refused; σ in some
 //! rows only is still refused with its line and column.
 
-use isochore_gui::doc::Series;
+use isochore_gui::doc::Entry;
 use isochore_gui::fitting::{analyse, Remedy};
 
 /// pKa at four temperatures (invented).
@@ -14,7 +14,7 @@ const ROWS: [(f64, f64); 4] = [
     (308.15, 7.18),
 ];
 
-fn series(sigma: [&str; 4]) -> Series {
+fn series(sigma: [&str; 4]) -> Entry {
     let mut text = String::from("temp/K,pKa,u(pKa)\n");
     for (i, (t, p)) in ROWS.iter().enumerate() {
         text.push_str(&format!("{t},{p},{}\n", sigma[i]));
@@ -26,7 +26,7 @@ fn series(sigma: [&str; 4]) -> Series {
         data.settings.fit.weighting,
         isochore_fit::Weighting::InverseVariance
     );
-    Series::new(data)
+    Entry::new(data)
 }
 
 /// ΔH° of the unweighted line ln K = a + b/T: −R·b, b = Σ(x−x̄)(y−ȳ)/Σ(x−x̄)² (ordinary least

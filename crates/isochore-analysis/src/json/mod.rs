@@ -16,7 +16,7 @@ pub mod joint;
 pub mod predict;
 pub mod two_point;
 
-use crate::dataset::DataSet;
+use crate::dataset::PreparedSet;
 use crate::report::VERSION;
 use crate::rows::RowNumber;
 use isochore_fit::{Estimate, Flags, VantHoffFit};
@@ -235,7 +235,7 @@ pub struct PointJson<'a> {
 
 /// The points of a fit, streamed: each element is built as it is written.
 pub struct PointsJson<'a> {
-    set: &'a DataSet,
+    set: &'a PreparedSet,
     fit: &'a VantHoffFit,
 }
 
@@ -330,7 +330,7 @@ impl<'a> FitJson<'a> {
     /// The document of one fitted data set. `source` adds the "source" field (in arrays);
     /// `with_points` adds "points".
     pub fn new(
-        set: &'a DataSet,
+        set: &'a PreparedSet,
         fit: &'a VantHoffFit,
         source: Option<&'a str>,
         with_points: bool,
@@ -459,7 +459,7 @@ pub struct ErrorJson<'a> {
 /// The writer's.
 pub fn write_fit(
     w: &mut impl Write,
-    set: &DataSet,
+    set: &PreparedSet,
     fit: &VantHoffFit,
     source: Option<&str>,
     with_points: bool,

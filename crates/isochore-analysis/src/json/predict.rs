@@ -3,7 +3,7 @@
 //! value. One object per data set; several data sets give an array.
 
 use super::{EstimateJson, Nulls};
-use crate::dataset::DataSet;
+use crate::dataset::PreparedSet;
 use crate::report::VERSION;
 use isochore_fit::{Prediction, ValuePrediction, VantHoffFit};
 use serde::Serialize;
@@ -130,7 +130,7 @@ impl<'a> PredictJson<'a> {
     /// at is left out), and the temperature for `for_k`. `at_label` names a temperature in
     /// warnings about undefined values.
     pub fn new(
-        set: &'a DataSet,
+        set: &'a PreparedSet,
         fit: &VantHoffFit,
         temps_k: &[f64],
         for_k: Option<f64>,

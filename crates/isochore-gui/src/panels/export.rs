@@ -69,7 +69,7 @@ impl ExportDialog {
             project
                 .series
                 .iter()
-                .filter(|s| s.shown)
+                .filter(|s| s.data.shown)
                 .map(|s| s.id)
                 .collect()
         });
@@ -122,7 +122,7 @@ impl ExportDialog {
                     let mut on = series.contains(&s.id);
                     ui.horizontal(|ui| {
                         style::marker_swatch(ui, i);
-                        let label = if s.shown {
+                        let label = if s.data.shown {
                             s.name().to_string()
                         } else {
                             format!("{} (hidden in the plot)", s.name())

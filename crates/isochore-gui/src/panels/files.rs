@@ -281,8 +281,9 @@ impl FilesPanel {
                                     ui.strong(h);
                                 }
                                 ui.end_row();
-                                let rows =
-                                    p.import.series.iter().flat_map(|s| s.rows.iter()).take(8);
+                                let rows = (0..p.import.series.len())
+                                    .flat_map(|i| p.import.rows_of(i))
+                                    .take(8);
                                 for r in rows {
                                     ui.label(r.line().to_string());
                                     for c in p.import.cells(r) {

@@ -45,7 +45,7 @@ impl SeriesList {
         }
         for (i, s) in cx.project.series.iter().enumerate() {
             ui.horizontal(|ui| {
-                let mut shown = s.shown;
+                let mut shown = s.data.shown;
                 let r = ui.checkbox(&mut shown, "");
                 let label = format!("show series {}", s.name());
                 r.widget_info(|| {

@@ -7,7 +7,7 @@
 
 use crate::app::Cx;
 use crate::command::Command;
-use crate::doc::Series;
+use crate::doc::Entry;
 use crate::fitting::Analysis;
 use crate::panels::style;
 use egui::{Color32, RichText};
@@ -83,12 +83,12 @@ impl PlotPanel {
                 .weak(),
             );
         });
-        let shown: Vec<(usize, &Series, Arc<Analysis>)> = cx
+        let shown: Vec<(usize, &Entry, Arc<Analysis>)> = cx
             .project
             .series
             .iter()
             .enumerate()
-            .filter(|(_, s)| s.shown || Some(s.id) == cx.active)
+            .filter(|(_, s)| s.data.shown || Some(s.id) == cx.active)
             .filter_map(|(i, s)| cx.fitter.get(s.id).map(|a| (i, s, a)))
             .collect();
         // The key: one marker and name per series drawn (a legend inside the plot would
@@ -288,7 +288,7 @@ fn pick(marks: &[Mark], t: &PlotTransform, p: egui::Pos2) -> Option<Mark> {
         .map(|(m, _)| *m)
 }
 
-fn draw_fit(pu: &mut PlotUi<'_>, s: &Series, a: &Analysis, color: Color32, level: f64, dark: bool) {
+fn draw_fit(pu: &mut PlotUi<'_>, s: &Entry, a: &Analysis, color: Color32, level: f64, dark: bool) {
     if a.band.len() < 2 {
         return;
     }
@@ -345,7 +345,7 @@ fn draw_fit(pu: &mut PlotUi<'_>, s: &Series, a: &Analysis, color: Color32, level
 #[allow(clippy::too_many_arguments)]
 fn draw_points(
     pu: &mut PlotUi<'_>,
-    s: &Series,
+    s: &Entry,
     a: &Analysis,
     color: Color32,
     shape: MarkerShape,
@@ -451,7 +451,7 @@ fn draw_points(
 /// The hover card: the row as typed, and what isochore-fit says about its point.
 pub fn point_card(
     ui: &mut egui::Ui,
-    s: &Series,
+    s: &Entry,
     a: Option<&Analysis>,
     row: usize,
     point: usize,
