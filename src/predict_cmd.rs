@@ -8,8 +8,9 @@ use crate::load::{load, Job};
 use crate::output::{self, Style};
 use crate::Failure;
 use isochore_analysis::json::predict::PredictJson;
-use isochore_fit::VantHoffFit;
+use isochore_fit::{QuantityKind, VantHoffFit};
 use isochore_report::content::{decimals_for, entropy_unit, num, show_t, sig};
+use isochore_report::present::{quantity, times_ten};
 use std::io::Write;
 
 /// Runs `vhfit predict`.
@@ -64,6 +65,7 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
         let lp = num(fit.options().level * 100.0, 1)
             .trim_end_matches(".0")
             .to_string();
+        let symbol = quantity::quantity_symbol(job.quantity, &job.quantity_header);
         writeln!(
             out,
             "{} — series “{}” ({} model, measured {} to {})",
@@ -80,13 +82,39 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
             writeln!(
                 out,
                 "  K     = {}   {lp}% CI [{}, {}]   {lp}% PI [{}, {}]",
-                sig(p.k.value, 4),
-                sig(p.k.ci.low, 4),
-                sig(p.k.ci.high, 4),
-                sig(p.k.pi.low, 4),
-                sig(p.k.pi.high, 4)
+                times_ten(p.k.value, 4),
+                times_ten(p.k.ci.low, 4),
+                times_ten(p.k.ci.high, 4),
+                times_ten(p.k.pi.low, 4),
+                times_ten(p.k.pi.high, 4)
             )
             .map_err(io)?;
+            // The quantity the file gave, when it is not K or ln K (shown above).
+            if !matches!(job.quantity, QuantityKind::K | QuantityKind::LnK) {
+                let pi = quantity::from_ln_k(
+                    job.quantity,
+                    p.ln_k.value,
+                    (p.ln_k.pi.low, p.ln_k.pi.high),
+                    t,
+                );
+                let unit = quantity::quantity_unit(job.quantity);
+                writeln!(
+                    out,
+                    "  {}   {lp}% PI [{}, {}]{}{unit}",
+                    quantity::quantity_with_interval(
+                        job.quantity,
+                        &symbol,
+                        p.ln_k.value,
+                        (p.ln_k.ci.low, p.ln_k.ci.high),
+                        t,
+                        &lp
+                    ),
+                    quantity::write_quantity(job.quantity, pi.1),
+                    quantity::write_quantity(job.quantity, pi.2),
+                    if unit.is_empty() { "" } else { " " },
+                )
+                .map_err(io)?;
+            }
             let d = decimals_for(p.ln_k.se);
             writeln!(
                 out,
@@ -121,12 +149,23 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
             }
         }
         if let Some(k) = a.for_k {
+            // "K_d = 10.00 nM (K = 1.000 × 10⁸)": the target also in the file's quantity.
+            let target = if matches!(job.quantity, QuantityKind::K | QuantityKind::DeltaG(_)) {
+                format!("K = {}", times_ten(k, 4))
+            } else {
+                let unit = quantity::quantity_unit(job.quantity);
+                format!(
+                    "{symbol} = {}{}{unit} (K = {})",
+                    quantity::write_quantity(job.quantity, job.quantity.from_ln_k(k.ln(), 298.15)),
+                    if unit.is_empty() { "" } else { " " },
+                    times_ten(k, 4)
+                )
+            };
             match fit.temperature_for_k(k) {
                 Ok(t) => {
                     writeln!(
                         out,
-                        "K = {} at {} (SE {} K; {lp}% CI {} to {}){}",
-                        sig(k, 4),
+                        "temperature where {target}: {} (SE {} K; {lp}% CI {} to {}){}",
                         show_t(t.value, unit),
                         num(t.se, 2),
                         show_t(t.ci_low, unit),
@@ -139,7 +178,7 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
                     )
                     .map_err(io)?;
                 }
-                Err(e) => writeln!(out, "K = {}: {e}", sig(k, 4)).map_err(io)?,
+                Err(e) => writeln!(out, "temperature where {target}: {e}").map_err(io)?,
             }
         }
         for w in job

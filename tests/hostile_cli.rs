@@ -697,6 +697,7 @@ fn hostile_input(name: &str) -> isochore_report::ReportInput {
         fit,
         energy_unit: isochore_fit::EnergyUnit::KilojoulePerMole,
         temperature_unit: isochore_fit::TemperatureUnit::Celsius,
+        quantity: None,
         program_version: "test".to_string(),
         record: isochore_report::Record::default(),
         settings: vec![(name.to_string(), name.to_string())],

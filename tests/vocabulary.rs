@@ -173,3 +173,67 @@ fn a_report_uses_the_names_of_the_table() {
         &["absolute"],
     );
 }
+
+/// The number after `prefix` in `text` (up to the next space or comma).
+fn number_after(text: &str, prefix: &str) -> f64 {
+    let rest = text
+        .split(prefix)
+        .nth(1)
+        .unwrap_or_else(|| panic!("no “{prefix}” in\n{text}"));
+    let word: String = rest
+        .chars()
+        .take_while(|c| !c.is_whitespace() && *c != ',')
+        .collect();
+    word.parse()
+        .unwrap_or_else(|e| panic!("“{word}” after “{prefix}”: {e}"))
+}
+
+/// Predictions and reports come back in the quantity the file gave (issue 11, "shown as a
+/// chemist reads it"): K_d in nM for the binding demo, pKa for the acid demo, and K in
+/// ×10ⁿ notation, never "3.121e6".
+#[test]
+fn results_come_back_in_the_files_own_quantity() {
+    let binding = demo("binding_qx7_halo2.csv");
+    let text = text_of(&["predict", &binding, "--at", "25C", "--for-k", "1e7"]);
+    // ln K at 25 °C from the JSON of the same prediction; K_d = c°/K with c° = 1 M = 10⁹ nM
+    // (the definition the import uses, by hand).
+    let j = json_of(&run(&["predict", &binding, "--at", "25C", "--json"]));
+    let ln_k = j["predictions"][0]["ln_k"]["value"]
+        .as_f64()
+        .or_else(|| j["predictions"][0]["ln_k"].as_f64())
+        .unwrap_or_else(|| panic!("no ln K in {j}"));
+    let kd = number_after(&text, "K_d = ");
+    let want = 1e9 * (-ln_k).exp();
+    assert!((kd - want).abs() <= 1e-3 * want, "{kd} against {want}");
+    assert!(text.contains(" nM, 95% CI ["), "{text}");
+    // K itself ×10ⁿ: the binding demo's K at 25 °C is of order 10⁶.
+    assert!(text.contains(" × 10⁶"), "{text}");
+    assert!(!text.contains("e7") && !text.contains("e6"), "{text}");
+    // The target K is said in K_d too: K = 10⁷ is K_d = 100 nM.
+    assert!(
+        text.contains("temperature where K_d = 100.0 nM (K = 1.000 × 10⁷)"),
+        "{text}"
+    );
+
+    let acid = demo("acid_pka.csv");
+    let text = text_of(&["predict", &acid, "--at", "25C"]);
+    let j = json_of(&run(&["predict", &acid, "--at", "25C", "--json"]));
+    let ln_k = j["predictions"][0]["ln_k"]["value"]
+        .as_f64()
+        .or_else(|| j["predictions"][0]["ln_k"].as_f64())
+        .unwrap_or_else(|| panic!("no ln K in {j}"));
+    let pka = number_after(&text, "pKa = ");
+    // pKa = −log₁₀ K (definition).
+    assert!((pka + ln_k / std::f64::consts::LN_10).abs() < 6e-4, "{pka}");
+    assert!(text.contains(" × 10⁻"), "{text}");
+
+    // The report's results give K_d at θ and at T_hm, in nM.
+    let dir = tempfile::tempdir().unwrap();
+    let md = dir.path().join("b.md");
+    let out = run(&["fit", &binding, "--report", md.to_str().unwrap()]);
+    assert_eq!(out.status.code(), Some(0), "{out:?}");
+    let report = std::fs::read_to_string(&md).unwrap().replace('\\', "");
+    assert!(report.contains("| K_d at θ = 25.00 °C |"), "{report}");
+    assert!(report.contains("| K_d at T_hm = "), "{report}");
+    assert!(report.contains("| nM |"), "{report}");
+}

@@ -10,7 +10,8 @@ use crate::rows::RowNumber;
 use crate::weighting;
 use isochore_data::{ColumnChoice, DecimalMark, Import, ImportOptions, Project, RejectedRow};
 use isochore_fit::{
-    EnergyUnit, FitOptions, Measurement, Model, SigmaConvention, TemperatureUnit, Weighting,
+    EnergyUnit, FitOptions, Measurement, Model, QuantityKind, SigmaConvention, TemperatureUnit,
+    Weighting,
 };
 use std::collections::BTreeMap;
 use std::fmt;
@@ -59,6 +60,11 @@ pub struct PreparedSet {
     pub energy: EnergyUnit,
     /// Temperature unit for people.
     pub temperature: TemperatureUnit,
+    /// What the measured column held (K, K_d in nM, pK, …): predictions are also shown in
+    /// it.
+    pub quantity: QuantityKind,
+    /// The measured column's header as typed ("pKa", "Kd (nM)").
+    pub quantity_header: String,
     /// Cautions from reading (skipped rows, replicates averaged, weighting adapted).
     pub warnings: Vec<String>,
     /// Settings worth recording in reports (name, value), beyond the fit options.
@@ -488,6 +494,12 @@ impl PreparedSet {
             options: weighed.options,
             energy: o.energy_unit.unwrap_or(s.settings.energy_unit),
             temperature: s.settings.temperature_unit,
+            quantity: s.mapping.quantity.kind,
+            quantity_header: s
+                .headers
+                .get(s.mapping.quantity.column)
+                .cloned()
+                .unwrap_or_default(),
             warnings: crate::columns::unused_columns_note(&s.mapping, &s.headers)
                 .into_iter()
                 .collect(),

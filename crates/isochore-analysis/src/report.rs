@@ -58,6 +58,10 @@ pub fn report_input(
         fit,
         energy_unit: set.energy,
         temperature_unit: set.temperature,
+        quantity: Some((
+            set.quantity,
+            isochore_report::present::quantity::quantity_symbol(set.quantity, &set.quantity_header),
+        )),
         program_version: VERSION.to_string(),
         record: Record {
             analysed_at: utc_minutes(now_unix()),

@@ -357,10 +357,12 @@ fn results_and_prediction_panels_show_the_library_numbers() {
     // Prediction at the panel's starting temperature, 37 °C, then at 15 °C (typed).
     let check = |h: &H, t_c: f64| {
         let p = f.predict(t_c + 273.15).unwrap();
-        let s3 = |x: f64| sig(x, 3);
+        // K is written ×10ⁿ (isochore_report::present::times_ten, checked against
+        // hand-worked values in its own tests).
+        let s3 = |x: f64| isochore_report::present::times_ten(x, 3);
         let k = format!(
             "{} ({} … {})",
-            sig(p.k.value, 4),
+            isochore_report::present::times_ten(p.k.value, 4),
             s3(p.k.ci.low),
             s3(p.k.ci.high)
         );

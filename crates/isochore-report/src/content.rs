@@ -356,6 +356,14 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
                 let [v, se, lo, hi] = r.cells();
                 vec![r.quantity.clone(), v, se, lo, hi, r.unit.clone()]
             })
+            .chain({
+                // The constant in the quantity the file gave (K_d in nM, pKa, K ×10ⁿ).
+                let (kind, symbol) = input
+                    .quantity
+                    .clone()
+                    .unwrap_or((isochore_fit::QuantityKind::K, "K".to_string()));
+                present::quantity::constant_rows(fit, kind, &symbol, tu)
+            })
             .collect(),
         numeric: vec![false, true, true, true, true, false],
         note: Some(format!(

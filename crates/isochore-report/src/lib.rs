@@ -36,7 +36,7 @@ mod markdown;
 mod pdf;
 pub mod present;
 
-use isochore_fit::{EnergyUnit, TemperatureUnit, VantHoffFit};
+use isochore_fit::{EnergyUnit, QuantityKind, TemperatureUnit, VantHoffFit};
 use std::fmt;
 use std::path::{Path, PathBuf};
 
@@ -104,6 +104,9 @@ pub struct ReportInput {
     pub energy_unit: EnergyUnit,
     /// Temperature unit for tables and the figures' temperature axes.
     pub temperature_unit: TemperatureUnit,
+    /// The quantity the file gave and its name as the header wrote it ("pKa", "K_d"):
+    /// the results add the constant at θ and at T_hm in it. `None` shows K.
+    pub quantity: Option<(QuantityKind, String)>,
     /// Version of the program that made the fit.
     pub program_version: String,
     /// When the analysis was made, by whom, and the analyst's note.

@@ -49,6 +49,7 @@ fn input(name: &str) -> ReportInput {
         fit: f,
         energy_unit: EnergyUnit::KilocaloriePerMole,
         temperature_unit: TemperatureUnit::Celsius,
+        quantity: None,
         program_version: "test".into(),
         record: isochore_report::Record::default(),
         settings: vec![],

@@ -123,9 +123,11 @@ impl PredictPanel {
                             ui.strong(format!("value ({lvl} % CI)"));
                             ui.strong(format!("{lvl} % PI"));
                             ui.end_row();
-                            let sig3 = |x: f64| style::sig(x, 3);
+                            // K as a chemist writes it: 3.121 × 10⁶, not 3.121e6.
+                            let k3 = |x: f64| isochore_report::present::times_ten(x, 3);
                             let fix3 = |x: f64| style::fixed(x, 3);
-                            interval_row(ui, "K", &p.k, style::sig(p.k.value, 4), &sig3);
+                            let k = isochore_report::present::times_ten(p.k.value, 4);
+                            interval_row(ui, "K", &p.k, k, &k3);
                             interval_row(ui, "ln K", &p.ln_k, fix3(p.ln_k.value), &fix3);
                             let g = eu.estimate(p.delta_g);
                             ui.label("ΔG°");

@@ -3,12 +3,14 @@
 //! ([`number`]), how units are shown ([`units`], where the ΔS°-unit rule lives), the result
 //! and statistic rows built by looping over the fit's parameters ([`rows`]), and model names,
 //! equations and thresholds in words ([`model`]), and the one name of each concept
-//! ([`names`], the table of DEVELOPERS.md). No statistics here: every number comes
+//! ([`names`], the table of DEVELOPERS.md), and K in the quantity the chemist entered
+//! ([`quantity`]). No statistics here: every number comes
 //! from the fit; flag limits and Cook's-distance contours are asked of `isochore_fit`.
 
 pub mod model;
 pub mod names;
 pub mod number;
+pub mod quantity;
 pub mod rows;
 pub mod units;
 

@@ -79,7 +79,8 @@ pub fn times_ten(v: f64, digits: usize) -> String {
     let (mantissa, exp) = e_form.split_once('e').unwrap_or((e_form.as_str(), "0"));
     let exp: i64 = exp.parse().unwrap_or(0);
     if (-3..4).contains(&exp) {
-        return sig(v, digits);
+        // Decimals from the rounded exponent, so 99.999 999 to 4 digits is "100.0".
+        return fixed(v, (digits as i64 - 1 - exp).max(0) as usize);
     }
     format!("{mantissa} × 10{}", superscript(exp))
 }
@@ -198,6 +199,8 @@ mod tests {
         assert_eq!(times_ten(9999.4, 4), "9999");
         // 9999.6 to 4 digits is 10 000: ×10⁴.
         assert_eq!(times_ten(9999.6, 4), "1.000 × 10⁴");
+        // 99.999 999 99 to 4 digits is 100.0 (rounding carries into the next decade).
+        assert_eq!(times_ten(99.999_999_99, 4), "100.0");
         assert_eq!(times_ten(0.0, 3), "0");
         assert_eq!(times_ten(f64::NAN, 3), "—");
         assert!(!times_ten(3.121e6, 4).contains('e'));
