@@ -111,6 +111,17 @@ fn message(e: &LoadError) -> String {
         {
             format!("{e} (on the command line: --column ROLE=COLUMN, e.g. --column temperature=2 --column K=3)")
         }
+        // A data-set column (`run`, `name`, …) that names every row rather than every data
+        // set leaves one point per data set: say how to read the file as one.
+        LoadError::Data { error, .. }
+            if matches!(
+                &**error,
+                isochore_data::Error::TooFewPoints { file, series, .. }
+                    if Path::new(file).file_stem().and_then(|s| s.to_str()) != Some(series.as_str())
+            ) =>
+        {
+            format!("{e} (when the data-set column names each row rather than each data set, --column series=none reads the file as one)")
+        }
         _ => format!("{e}{}", hint(e.remedy())),
     }
 }

@@ -205,3 +205,39 @@ fn bad_column_choices_name_what_is_wrong() {
     assert_eq!(out.status.code(), Some(1), "{err}");
     assert!(err.contains("column 1 ('T (°C)') states °C"), "{err}");
 }
+
+#[test]
+fn a_run_column_names_the_data_sets_and_can_be_dropped() {
+    let dir = tempfile::tempdir().unwrap();
+    // Two runs of the PLAIN_FILE numbers: two data sets of four points each.
+    let two = write(
+        dir.path(),
+        "runs.csv",
+        "run,T (°C),pKa\nA,10,7.412\nA,20,7.288\nA,30,7.170\nA,40,7.061\n\
+         B,10,7.412\nB,20,7.288\nB,30,7.170\nB,40,7.061\n",
+    );
+    let out = run(&["fit", &two.to_string_lossy(), "--summary"]);
+    let text = String::from_utf8_lossy(&out.stdout);
+    assert_eq!(out.status.code(), Some(0), "{text}");
+    assert!(
+        text.contains("runs.csv  A") && text.contains("runs.csv  B"),
+        "{text}"
+    );
+    // A run number on every row: one point per data set, refused with the way out.
+    let each = write(
+        dir.path(),
+        "each.csv",
+        "run,T (°C),pKa\n1,10,7.412\n2,20,7.288\n3,30,7.170\n4,40,7.061\n",
+    );
+    let each = each.to_string_lossy().into_owned();
+    let out = run(&["fit", &each]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(1), "{err}");
+    assert!(err.contains("--column series=none"), "{err}");
+    let plain = write(dir.path(), "plain.csv", PLAIN_FILE);
+    let want = delta_h(&fit_json(&[&plain.to_string_lossy()]));
+    let one = fit_json(&[&each, "--column", "series=none", "--unweighted"]);
+    let unweighted_plain = delta_h(&fit_json(&[&plain.to_string_lossy(), "--unweighted"]));
+    assert!(close(delta_h(&one), unweighted_plain, 1e-12), "{one}");
+    assert!((want - unweighted_plain).abs() > 1.0);
+}
