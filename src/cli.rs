@@ -203,6 +203,16 @@ pub struct FitArgs {
     /// output adds the test of equality against the separate fits.
     #[arg(long, value_name = "KEYS", value_delimiter = ',')]
     pub share: Option<Vec<String>>,
+    /// Compare each fit's van 't Hoff ΔH° with calorimetric values: temperature:ΔH:u, e.g.
+    /// 37C:-28.4:0.5 or 25C:-30:0.4,37C:-28.4:0.5 (ΔH and u in the --energy unit, default
+    /// kJ/mol; a temperature without a unit is read in --temp-unit).
+    #[arg(
+        long,
+        value_name = "T:ΔH:u",
+        value_delimiter = ',',
+        allow_hyphen_values = true
+    )]
+    pub calorimetric: Option<Vec<String>>,
 }
 
 /// `vhfit predict`.
@@ -377,7 +387,7 @@ impl TypedTemperature {
 }
 
 /// Reads a temperature: a number, optionally followed by K, C, °C, F or °F.
-fn parse_temperature(s: &str) -> Result<TypedTemperature, String> {
+pub(crate) fn parse_temperature(s: &str) -> Result<TypedTemperature, String> {
     let t = s.trim();
     let (number, unit) = [
         ("°C", TempArg::C),

@@ -99,6 +99,9 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
     if let Some(keys) = &a.share {
         return crate::joint_cmd::run(a, keys);
     }
+    let calorimetric = crate::calorimetric_cmd::values(a).map_err(Failure::usage)?;
+    // Calorimetric blocks of fits shown as summary rows, printed after the summary table.
+    let mut calorimetric_after: Vec<u8> = Vec::new();
     crate::load::reference_temperature(&a.fit).map_err(Failure::usage)?;
     let mut plan = match &a.report {
         None => None,
@@ -247,17 +250,41 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                 }
             };
             successes += 1;
+            let comparisons = match calorimetric
+                .as_deref()
+                .map(|v| crate::calorimetric_cmd::compare(job, fit, v))
+            {
+                Some(Ok(c)) => Some(c),
+                Some(Err(e)) => {
+                    failures.push(e);
+                    None
+                }
+                None => None,
+            };
             if a.json {
                 if this_array && entries > 0 {
                     out.write_all(b",\n").map_err(io_fail)?;
                 }
                 let src = this_array.then_some(source.as_str());
-                json::write_fit(&mut out, job, fit, src, !a.summary).map_err(io_fail)?;
+                match &comparisons {
+                    Some(c) => json::calorimetric::write_fit_with_calorimetric(
+                        &mut out, job, fit, src, !a.summary, c,
+                    ),
+                    None => json::write_fit(&mut out, job, fit, src, !a.summary),
+                }
+                .map_err(io_fail)?;
                 entries += 1;
             } else if detailed_text && !multi {
                 table::detailed(&mut out, job, fit).map_err(io_fail)?;
+                if let Some(c) = &comparisons {
+                    crate::calorimetric_cmd::text(&mut out, job, c).map_err(io_fail)?;
+                }
             } else {
                 summary_rows.push(table::SummaryRow::new(job, fit));
+                if let Some(c) = &comparisons {
+                    crate::calorimetric_cmd::text(&mut calorimetric_after, job, c)
+                        .map_err(io_fail)?;
+                }
             }
             let Some(p) = plan.as_ref() else { continue };
             let t = targets
@@ -290,6 +317,7 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
     if !summary_rows.is_empty() {
         table::summary(&mut out, &summary_rows).map_err(io_fail)?;
     }
+    out.write_all(&calorimetric_after).map_err(io_fail)?;
     out.flush().map_err(io_fail)?;
     drop(out);
     if failures.is_empty() {

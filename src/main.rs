@@ -8,6 +8,7 @@
 //! errors included). A closed stdout (broken pipe) ends the run quietly with 0; see
 //! [`output`], the one path every byte to the terminal takes.
 
+mod calorimetric_cmd;
 mod cli;
 mod fit_cmd;
 mod joint_cmd;

@@ -1,5 +1,6 @@
 //! The one integration-test binary of this package: one module per subject.
 
+mod calorimetric_cli;
 mod cli;
 mod columns;
 mod headless;

@@ -12,6 +12,7 @@
 //! The points of a fit are streamed ([`PointsJson`]), so a 10⁶-row file never holds its whole
 //! document in memory.
 
+pub mod calorimetric;
 pub mod joint;
 pub mod predict;
 pub mod two_point;

@@ -1,0 +1,100 @@
+//! `vhfit fit --calorimetric T:ΔH:u[,…]`: calorimetric enthalpies read from the command line
+//! (temperature with an optional unit suffix, else --temp-unit; ΔH and u in the --energy
+//! unit, default kJ/mol) and compared with each fit's van 't Hoff ΔH°(T)
+//! (isochore-fit's [`compare_calorimetric`]), written as text or JSON.
+
+use crate::cli::{parse_temperature, FitArgs};
+use crate::load::Job;
+use isochore_fit::calorimetric::{compare_calorimetric, CalorimetricComparison, CalorimetricValue};
+use isochore_fit::{EnergyUnit, VantHoffFit};
+use isochore_report::present::{energy, fixed, plus_minus, show_t};
+use std::io::{self, Write};
+
+/// The calorimetric values of `--calorimetric`, in SI, or `None` when not given.
+///
+/// # Errors
+/// A usage message naming the item that is not `T:ΔH:u`.
+pub fn values(a: &FitArgs) -> Result<Option<Vec<CalorimetricValue>>, String> {
+    let Some(items) = &a.calorimetric else {
+        return Ok(None);
+    };
+    let unit = a
+        .fit
+        .energy
+        .map_or(EnergyUnit::KilojoulePerMole, |e| e.unit());
+    let jpm = unit.joules_per_mole();
+    let mut out = Vec::new();
+    for item in items.iter().map(|s| s.trim()).filter(|s| !s.is_empty()) {
+        let parts: Vec<&str> = item.split(':').collect();
+        let bad = || {
+            format!(
+                "--calorimetric '{item}': give temperature:ΔH:u, e.g. 37C:-28.4:0.5 (ΔH and u in {}, u ≥ 0)",
+                unit.symbol()
+            )
+        };
+        if parts.len() != 3 {
+            return Err(bad());
+        }
+        let t_k = parse_temperature(parts[0])?.kelvin(a.fit.temp_unit, "--calorimetric")?;
+        let h: f64 = parts[1].trim().parse().map_err(|_| bad())?;
+        let u: f64 = parts[2].trim().parse().map_err(|_| bad())?;
+        if !(h.is_finite() && u.is_finite() && u >= 0.0) {
+            return Err(bad());
+        }
+        out.push(CalorimetricValue {
+            t_k,
+            delta_h: h * jpm,
+            u: u * jpm,
+        });
+    }
+    if out.is_empty() {
+        return Err(
+            "--calorimetric needs at least one temperature:ΔH:u, e.g. 37C:-28.4:0.5".into(),
+        );
+    }
+    Ok(Some(out))
+}
+
+/// The comparisons for one fit, the error naming the series.
+pub fn compare(
+    job: &Job,
+    fit: &VantHoffFit,
+    values: &[CalorimetricValue],
+) -> Result<Vec<CalorimetricComparison>, String> {
+    compare_calorimetric(fit, values).map_err(|e| {
+        format!(
+            "{}: series '{}': --calorimetric: {e}",
+            job.source, job.series
+        )
+    })
+}
+
+/// The readable block of one fit's comparisons.
+pub fn text(w: &mut impl Write, job: &Job, c: &[CalorimetricComparison]) -> io::Result<()> {
+    let u = energy(job.energy);
+    writeln!(w)?;
+    writeln!(
+        w,
+        "calorimetric ΔH° compared with the van 't Hoff ΔH° — series “{}”:",
+        job.series
+    )?;
+    for x in c {
+        let vh = u.estimate(x.van_t_hoff);
+        let d = u.estimate(x.difference);
+        writeln!(
+            w,
+            "  at {}: ΔH_vH = {} {sym}, ΔH_cal = {} {sym}, difference = {} {sym}, z = {}",
+            show_t(x.calorimetric.t_k, job.temperature),
+            plus_minus(vh.value, vh.se),
+            plus_minus(
+                u.from_si(x.calorimetric.delta_h),
+                u.from_si(x.calorimetric.u)
+            ),
+            plus_minus(d.value, d.se),
+            fixed(x.z, 2),
+            sym = u.symbol
+        )?;
+        writeln!(w, "    {}", x.verdict)?;
+    }
+    Ok(())
+}
