@@ -343,3 +343,40 @@ fn fit_unweighted_can_be_chosen_in_the_preview() {
     let dh = gaps_unweighted_delta_h();
     assert!(shows_part(&h, &delta_h_label(dh)));
 }
+
+/// A pasted table with columns the importer does not know (issue 11 item 6): the preview
+/// shows them with the rows and names them in one note; the fit leaves them out.
+#[test]
+fn unknown_columns_are_shown_in_the_preview_and_left_out_of_the_fit() {
+    let w = bench();
+    let n_before = w.project.series.len();
+    let mut h = harness(w);
+    paste(
+        &mut h,
+        "operator\tT/K\tK\tdate\nAB\t283.15\t2.0\t2026-11-02\nAB\t293.15\t2.6\t2026-11-02\n\
+         CD\t303.15\t3.3\t2026-11-03\nCD\t313.15\t4.1\t2026-11-03\n",
+    );
+    assert!(
+        shows_part(&h, "columns kept but not used: operator, date"),
+        "the note in the preview"
+    );
+    assert!(
+        shows_part(&h, "2026-11-03"),
+        "the free cells in the preview rows"
+    );
+    accept_import(&mut h, n_before);
+    // ΔH° of the four (T, K) pairs alone, by isochore-fit, unweighted (no σ column).
+    let dh = library_delta_h(
+        &[
+            (283.15, 2.0, None),
+            (293.15, 2.6, None),
+            (303.15, 3.3, None),
+            (313.15, 4.1, None),
+        ],
+        FitOptions {
+            weighting: Weighting::Unweighted,
+            ..FitOptions::default()
+        },
+    );
+    assert!(shows_part(&h, &delta_h_label(dh)), "ΔH° of the four pairs");
+}
