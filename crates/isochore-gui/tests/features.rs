@@ -379,6 +379,17 @@ fn results_and_prediction_panels_show_the_library_numbers() {
             f3(p.ln_k.ci.high)
         );
         assert!(shows(h, &ln_k), "{t_c} °C: no {ln_k}");
+        // The demo's series is a K_d file in nM: the prediction in K_d too, K_d = c°/K with
+        // c° = 1 M = 10⁹ nM (by hand), the interval's ends swapped.
+        let kd = |ln_k: f64| 1e9 * (-ln_k).exp();
+        let t4 = |x: f64| isochore_report::present::times_ten(x, 4);
+        let kd_row = format!(
+            "{} nM ({} … {})",
+            t4(kd(p.ln_k.value)),
+            t4(kd(p.ln_k.ci.high)),
+            t4(kd(p.ln_k.ci.low))
+        );
+        assert!(shows(h, &kd_row), "{t_c} °C: no {kd_row}");
         let g = p.delta_g.scaled(1e-3);
         let g = format!(
             "{} kJ/mol ({} … {})",

@@ -50,6 +50,38 @@ impl Default for PredictPanel {
     }
 }
 
+/// The prediction's row in the quantity the file gave, when that is not K, ln K or ΔG°
+/// (shown anyway): "K_d  159.5 nM (144.6 … 175.9)  115.2 … 220.7".
+fn quantity_row(
+    ui: &mut egui::Ui,
+    data: &isochore_data::DataSet,
+    p: &isochore_fit::derived::Prediction,
+) {
+    use isochore_fit::QuantityKind;
+    use isochore_report::present::quantity;
+    let kind = data.mapping.quantity.kind;
+    if matches!(
+        kind,
+        QuantityKind::K | QuantityKind::LnK | QuantityKind::DeltaG(_)
+    ) {
+        return;
+    }
+    let header = data
+        .headers
+        .get(data.mapping.quantity.column)
+        .map_or("", String::as_str);
+    let unit = quantity::quantity_unit(kind);
+    let sp = if unit.is_empty() { "" } else { " " };
+    let w = |v: f64| quantity::write_quantity(kind, v);
+    let ln = &p.ln_k;
+    let (v, lo, hi) = quantity::from_ln_k(kind, ln.value, (ln.ci.low, ln.ci.high), p.t_k);
+    let (_, plo, phi) = quantity::from_ln_k(kind, ln.value, (ln.pi.low, ln.pi.high), p.t_k);
+    ui.label(quantity::quantity_symbol(kind, header));
+    ui.label(format!("{}{sp}{unit} ({} … {})", w(v), w(lo), w(hi)));
+    ui.label(format!("{} … {}", w(plo), w(phi)));
+    ui.end_row();
+}
+
 /// One row of the prediction grid: the value with its confidence interval, then the
 /// prediction interval, the bounds written by `fmt`.
 fn interval_row(
@@ -129,6 +161,7 @@ impl PredictPanel {
                             let k = isochore_report::present::times_ten(p.k.value, 4);
                             interval_row(ui, "K", &p.k, k, &k3);
                             interval_row(ui, "ln K", &p.ln_k, fix3(p.ln_k.value), &fix3);
+                            quantity_row(ui, &s.data, &p);
                             let g = eu.estimate(p.delta_g);
                             ui.label("ΔG°");
                             ui.label(format!(
