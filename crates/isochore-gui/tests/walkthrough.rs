@@ -370,3 +370,49 @@ fn the_first_start_opens_the_demo_and_later_ones_the_last_project() {
     assert!(is_demo(&h.state().project));
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn a_hidden_series_stays_hidden_after_saving_and_reopening() {
+    let dir = temp_dir("shown");
+    let path = dir.join("s.isochore.json");
+    let w = bench();
+    let (b_name, a_name) = ("QX-7 binding Halo-2", "quillonic acid pKa");
+    let mut h = harness(w);
+    // The demo draws the binding series and hides the acid one: swap them in the list.
+    h.get_by_label(&format!("show series {b_name}")).click();
+    h.run_steps(3);
+    h.get_by_label(&format!("show series {a_name}")).click();
+    h.run_steps(3);
+    // Saved (through the Workbench API: the save dialog is covered elsewhere).
+    h.state_mut().save_to(&path);
+    assert!(!h.state().history.dirty());
+    // Undo, which tracks the hiding, now differs from the file: unsaved.
+    h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
+    h.run_steps(3);
+    assert!(h.state().history.dirty());
+
+    // A new window on the file shows what was saved: binding hidden, acid drawn.
+    let mut w = Workbench::new(Prefs::default());
+    w.block_fits = true;
+    w.open_path(&path);
+    w.apply_pending();
+    let shown: Vec<(String, bool)> = w
+        .project
+        .series
+        .iter()
+        .map(|s| (s.name().to_string(), s.data.shown))
+        .collect();
+    assert_eq!(
+        shown,
+        vec![(b_name.to_string(), false), (a_name.to_string(), true)]
+    );
+    let h = harness(w);
+    let ticked = |h: &H, name: &str| {
+        h.get_by_label(&format!("show series {name}"))
+            .accesskit_node()
+            .toggled()
+    };
+    assert_eq!(ticked(&h, b_name), Some(egui::accesskit::Toggled::False));
+    assert_eq!(ticked(&h, a_name), Some(egui::accesskit::Toggled::True));
+    let _ = std::fs::remove_dir_all(&dir);
+}
