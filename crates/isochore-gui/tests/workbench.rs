@@ -585,6 +585,13 @@ fn typing_a_target_k_gives_the_library_temperature() {
         "no label with {want}"
     );
     assert!(h.query_by_label_contains("extrapolation").is_none());
+    // The demo is a K_d file in nM: the target is said in K_d too, K_d = c°/K =
+    // 10⁹ nM / 5 × 10⁶ = 200 nM (by hand).
+    assert!(
+        h.query_by_label_contains("temperature where K_d = 200.0 nM (K = 5.000 × 10⁶):")
+            .is_some(),
+        "no K_d target"
+    );
     // A typing error is said, not hidden.
     h.get_by_label("target K").type_text("x");
     h.run_steps(3);

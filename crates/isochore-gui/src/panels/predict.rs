@@ -82,6 +82,34 @@ fn quantity_row(
     ui.end_row();
 }
 
+/// "temperature where K_d = 100.0 nM (K = 1.000 × 10⁷):" for a target K, when the file's
+/// quantity is a K_d, pK or log K (it does not depend on the temperature).
+fn target_in_quantity(data: &isochore_data::DataSet, k: f64) -> Option<String> {
+    use isochore_fit::QuantityKind;
+    use isochore_report::present::{quantity, times_ten};
+    let kind = data.mapping.quantity.kind;
+    if matches!(
+        kind,
+        QuantityKind::K | QuantityKind::LnK | QuantityKind::DeltaG(_)
+    ) || !(k.is_finite() && k > 0.0)
+    {
+        return None;
+    }
+    let header = data
+        .headers
+        .get(data.mapping.quantity.column)
+        .map_or("", String::as_str);
+    let unit = quantity::quantity_unit(kind);
+    // K_d, pK and log K do not depend on T; the temperature passed is not used.
+    let value = quantity::write_quantity(kind, kind.from_ln_k(k.ln(), 298.15));
+    Some(format!(
+        "temperature where {} = {value}{}{unit} (K = {}):",
+        quantity::quantity_symbol(kind, header),
+        if unit.is_empty() { "" } else { " " },
+        times_ten(k, 4)
+    ))
+}
+
 /// One row of the prediction grid: the value with its confidence interval, then the
 /// prediction interval, the bounds written by `fmt`.
 fn interval_row(
@@ -209,6 +237,14 @@ impl PredictPanel {
                             ui.colored_label(flag, "⚠");
                             ui.label("far outside the measured temperatures: an extrapolation");
                         });
+                    }
+                    // The target also in the file's quantity ("temperature where K_d = 100.0 nM
+                    // (K = 1.000 × 10⁷):"), when that is not K, ln K or ΔG°.
+                    if let Some(words) = num(&self.k_text)
+                        .ok()
+                        .and_then(|k| target_in_quantity(&s.data, k))
+                    {
+                        ui.label(words);
                     }
                     ui.label(format!(
                         "T = {} (SE {} K, CI {} … {})",
