@@ -7,7 +7,7 @@
 use crate::app::Cx;
 use crate::panels::style;
 use egui::RichText;
-use egui_plot::{HLine, Line, LineStyle, Plot, PlotPoint, Points, Text, VLine};
+use egui_plot::{HLine, Line, LineStyle, Plot, PlotPoint, Points, VLine};
 use isochore_report::present::{self, names};
 
 /// The diagnostic plots' state: the decimated rows of a large series, kept while the
@@ -123,7 +123,8 @@ impl DiagnosticsPanel {
                     Some([tu.from_kelvin(d.t_k), y])
                 });
                 let resp = Plot::new("residual_plot")
-                    .height(h - 24.0)
+                    // What the title left (it may wrap to two lines when narrow).
+                    .height((h - ui.min_rect().height() - 4.0).max(100.0))
                     .custom_x_axes(vec![style::x_axis(names::t_axis(tu))])
                     .custom_y_axes(vec![style::y_axis("ln K − fit")])
                     .show_x(false)
@@ -149,13 +150,7 @@ impl DiagnosticsPanel {
                         ))
                         .strong(),
                     );
-                    ui.label(
-                        RichText::new(
-                            "dashed: Cook's distance · dotted: leverage flag · ring: flagged",
-                        )
-                        .small()
-                        .weak(),
-                    );
+                    ui.label(RichText::new(contour_key(&a.cooks_contours)).small().weak());
                 });
                 let m = Marks::collect(
                     &infl_rows,
@@ -168,9 +163,9 @@ impl DiagnosticsPanel {
                 // Contours are cut a little above the largest residual, so they do not
                 // stretch the axis (and squeeze the points) far beyond the data.
                 let r_lim = m.all.iter().map(|q| q.1[1].abs() * 1.2).fold(3.0, f64::max);
-                let ui_text = ui.visuals().weak_text_color();
                 let resp = Plot::new("influence_plot")
-                    .height(h - 24.0)
+                    // What the title left (it may wrap to two lines when narrow).
+                    .height((h - ui.min_rect().height() - 4.0).max(100.0))
                     .custom_x_axes(vec![style::x_axis("leverage h")])
                     .custom_y_axes(vec![style::y_axis("ext. studentized residual")])
                     .include_x(0.0)
@@ -190,31 +185,26 @@ impl DiagnosticsPanel {
                             let lower: Vec<[f64; 2]> =
                                 upper.iter().map(|q| [q[0], -q[1]]).collect();
                             let d = present::fixed(*d, 2);
-                            // The first contour is the flag rule's level (factor/n).
+                            // The first contour is the flag rule's level (factor/n); the
+                            // two are told apart by their dashes and named in the key above
+                            // (a label on the plot sat where the curves meet, and was
+                            // hard to read on the dark theme).
                             let rule = if i == 0 { " (flag limit)" } else { "" };
                             let name = format!("Cook's D = {d}{rule}");
-                            // Name each contour where it comes down through r = 2, where
-                            // the two curves stand apart (on the right they converge).
-                            if let Some(end) = upper.iter().find(|q| q[1] <= 2.0) {
-                                pu.text(
-                                    Text::new(
-                                        "",
-                                        PlotPoint::new(end[0], end[1]),
-                                        format!("D = {d}{rule}"),
-                                    )
-                                    .color(ui_text)
-                                    .anchor(egui::Align2::LEFT_BOTTOM),
-                                );
-                            }
+                            let dashes = if i == 0 {
+                                LineStyle::Dashed { length: 10.0 }
+                            } else {
+                                LineStyle::Dashed { length: 3.0 }
+                            };
                             pu.line(
                                 Line::new(name.clone(), upper)
-                                    .style(LineStyle::Dashed { length: 6.0 })
+                                    .style(dashes)
                                     .color(egui::Color32::GRAY)
                                     .allow_hover(false),
                             );
                             pu.line(
                                 Line::new(name, lower)
-                                    .style(LineStyle::Dashed { length: 6.0 })
+                                    .style(dashes)
                                     .color(egui::Color32::GRAY)
                                     .allow_hover(false),
                             );
@@ -339,7 +329,26 @@ fn draw_marks(pu: &mut egui_plot::PlotUi<'_>, look: &Look, m: &Marks) {
     }
 }
 
-/// The envelope of a whole index across `px` pixel columns, as point indices.
+/// The influence plot's key in words: the line style of each Cook's-distance contour with
+/// its level (the first is the flag rule's), the leverage flag and the ring.
+fn contour_key(contours: &[(f64, Vec<[f64; 2]>)]) -> String {
+    let mut parts: Vec<String> = contours
+        .iter()
+        .enumerate()
+        .map(|(i, (d, _))| {
+            let d = present::fixed(*d, 2);
+            if i == 0 {
+                format!("long dashes: Cook's D = {d} (flag limit)")
+            } else {
+                format!("short dashes: Cook's D = {d}")
+            }
+        })
+        .collect();
+    parts.push("dotted: leverage flag".into());
+    parts.push("ring: flagged".into());
+    parts.join(" · ")
+}
+
 /// The y-span of the residual plot: the used points' residuals and zero, with a margin
 /// (a tenth of the span each side, at least 0.05 in ln K when all lie on the fit).
 pub fn used_span(rows: &[usize], points: &[isochore_fit::PointDiagnostics]) -> (f64, f64) {
@@ -354,6 +363,7 @@ pub fn used_span(rows: &[usize], points: &[isochore_fit::PointDiagnostics]) -> (
     (lo - pad, hi + pad)
 }
 
+/// The envelope of a whole index across `px` pixel columns, as point indices.
 fn whole_envelope(index: &crate::decimate::EnvelopeIndex, px: usize) -> Vec<usize> {
     index.x_range().map_or_else(Vec::new, |(lo, hi)| {
         // All at one x: a single column.

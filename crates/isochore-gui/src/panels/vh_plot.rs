@@ -95,12 +95,19 @@ impl PlotPanel {
         // cover points; the caption above says what fill, rings, shading and dashes mean).
         ui.horizontal_wrapped(|ui| {
             for (i, s, a) in &shown {
-                style::marker_swatch(ui, *i);
                 let text = match &a.fit {
                     Ok(_) => s.name().to_string(),
                     Err(_) => format!("{} (no fit)", s.name()),
                 };
-                ui.label(RichText::new(text).small());
+                // Marker and name as one unbreakable piece: the line wraps between
+                // entries, never between a marker and its name.
+                ui.scope(|ui| {
+                    ui.style_mut().wrap_mode = Some(egui::TextWrapMode::Extend);
+                    ui.horizontal(|ui| {
+                        style::marker_swatch(ui, *i);
+                        ui.label(RichText::new(text).small());
+                    });
+                });
                 ui.add_space(10.0);
             }
         });
@@ -123,14 +130,9 @@ impl PlotPanel {
             .label(isochore_report::present::names::t_axis(t_unit))
             .placement(VPlacement::Top)
             .label_spacing(38.0..=54.0)
-            .formatter(move |mark, _| {
-                // Temperatures only beside data (an empty plot spans 1/T around 0).
-                if has_data && mark.value > 0.0 {
-                    style::fixed(t_unit.from_kelvin(1e3 / mark.value), 1)
-                } else {
-                    String::new()
-                }
-            });
+            // The grid's marks are round in 1000/T, not in T: the top axis keeps their
+            // room but writes nothing; round temperatures are drawn after the plot.
+            .formatter(|_, _| String::new());
         let bottom_axis = style::x_axis(isochore_report::present::names::INVERSE_T_AXIS);
         let mut plot = Plot::new("vant_hoff_plot")
             .custom_x_axes(vec![bottom_axis, top_axis])
@@ -177,6 +179,9 @@ impl PlotPanel {
             }
         });
         self.drawn_markers = drawn;
+        if has_data {
+            temperature_ticks(ui, &resp.transform, t_unit);
+        }
         self.transform = Some(resp.transform);
         let response = resp.response.clone();
         let picked = response
@@ -536,5 +541,55 @@ pub fn point_card(
         if !note.is_empty() {
             ui.label(RichText::new(format!("note: {note}")).italics());
         }
+    }
+}
+
+/// The top axis: round temperatures in the display unit at their places on 1000/T (the
+/// rule of the report's figures, `isochore_report::figures::temperature_keys`), thinned
+/// to every second, fifth… key until they stand 44 points apart.
+fn temperature_ticks(
+    ui: &egui::Ui,
+    t: &egui_plot::PlotTransform,
+    unit: isochore_fit::TemperatureUnit,
+) {
+    let b = t.bounds();
+    let (x0, x1) = (b.min()[0], b.max()[0]);
+    if !(x0 > 0.0 && x1 > x0) {
+        return;
+    }
+    let (keys, decimals) = isochore_report::figures::temperature_keys(x0, x1, unit);
+    let frame = *t.frame();
+    let xs: Vec<(f32, f64)> = keys
+        .iter()
+        .map(|&k| (t.position_from_point_x(k), k))
+        .filter(|(x, _)| *x >= frame.left() && *x <= frame.right())
+        .collect();
+    let gap = xs
+        .windows(2)
+        .map(|w| (w[1].0 - w[0].0).abs())
+        .fold(f32::INFINITY, f32::min);
+    let every = [1usize, 2, 5, 10]
+        .into_iter()
+        .find(|n| gap * *n as f32 >= 44.0)
+        .unwrap_or(20);
+    let painter = ui.painter();
+    let color = ui.visuals().text_color();
+    let font = egui::TextStyle::Body.resolve(ui.style());
+    for (i, (x, k)) in xs.iter().enumerate() {
+        if i % every != 0 {
+            continue;
+        }
+        let top = frame.top();
+        painter.line_segment(
+            [egui::pos2(*x, top), egui::pos2(*x, top - 4.0)],
+            egui::Stroke::new(1.0, color),
+        );
+        painter.text(
+            egui::pos2(*x, top - 5.0),
+            egui::Align2::CENTER_BOTTOM,
+            style::fixed(unit.from_kelvin(1e3 / k), decimals),
+            font.clone(),
+            color,
+        );
     }
 }
