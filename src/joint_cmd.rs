@@ -213,6 +213,19 @@ fn text(w: &mut impl Write, sets: &[Job], j: &JointAnalysis, points: bool) -> io
         Some(t) => writeln!(w, "test of equality: {}", t.verdict())?,
         None => writeln!(w, "test of equality: not possible (see the warnings)")?,
     }
+    if let Some(c) = &j.compensation {
+        writeln!(w)?;
+        writeln!(
+            w,
+            "enthalpy–entropy compensation (separate fits, ΔH° and ΔS° at θ):"
+        )?;
+        if let Some(b) = &c.beta {
+            writeln!(w, "  {}", b.verdict)?;
+        }
+        if let Some(e) = &c.exner {
+            writeln!(w, "  {}", e.verdict)?;
+        }
+    }
     if points {
         writeln!(w)?;
         writeln!(

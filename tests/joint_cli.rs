@@ -307,3 +307,33 @@ fn disjoint_temperature_ranges_are_warned_in_words() {
         "warnings: {w:?}"
     );
 }
+
+/// Three series add the compensation analysis (β with the Krug–Hunter–Grieger verdict and
+/// Exner's test); two leave it null.
+#[test]
+fn three_series_add_the_compensation_analysis() {
+    let (a, b) = two_files("comp");
+    let d = folder("comp3");
+    let shifted: Vec<f64> = LNK_A.iter().map(|y| y + 0.3).collect();
+    let c = write_csv(&d, "c.csv", &T_A, &shifted, &SIG_A);
+    let out = run(&[
+        "fit",
+        &a,
+        &b,
+        &c,
+        "--share",
+        "delta_h",
+        "--json",
+        "--summary",
+    ]);
+    assert!(out.status.success(), "{}", stderr(&out));
+    let j = json_of(&out);
+    let comp = &j["compensation"];
+    assert_eq!(comp["points"].as_array().unwrap().len(), 3);
+    let verdict = comp["beta"]["verdict"].as_str().unwrap();
+    assert!(verdict.contains("proves nothing by itself"), "{verdict}");
+    assert!(comp["beta"]["t_hm_k"].as_f64().unwrap() > 278.0);
+    assert!(comp["exner"]["df_num"] == 1 && comp["exner"]["df_den"] == 28 - 6);
+    let out = run(&["fit", &a, &b, "--share", "delta_h", "--json", "--summary"]);
+    assert!(json_of(&out)["compensation"].is_null());
+}

@@ -5,7 +5,10 @@
 //! with one pooled residual variance), and its failure to run is a warning, not a refusal.
 
 use crate::dataset::DataSet;
-use isochore_fit::global::{fit_global, EqualityTest, GlobalError, GlobalFit};
+use isochore_fit::global::{
+    compensation, exner_test, fit_global, Compensation, CompensationPoint, EqualityTest, ExnerTest,
+    GlobalError, GlobalFit,
+};
 use isochore_fit::{FitOptions, SeriesInput, Sharing, SharingMap};
 use std::fmt;
 
@@ -21,9 +24,24 @@ pub struct JointAnalysis {
     /// The shared fit against the separate fits; `None` when it cannot be made (the reason
     /// is among the warnings).
     pub equality: Option<EqualityTest>,
+    /// With three or more series, the enthalpy–entropy compensation analysis of the
+    /// separate fits (every parameter per series) at θ; `None` otherwise.
+    pub compensation: Option<CompensationAnalysis>,
     /// Cautions in words: from reading each data set, from the joint fit, and why the test
-    /// of equality could not be made.
+    /// of equality or the compensation analysis could not be made.
     pub warnings: Vec<String>,
+}
+
+/// The compensation analysis of three or more series.
+#[derive(Debug, Clone)]
+pub struct CompensationAnalysis {
+    /// The series' ΔH° and ΔS° at θ from the separate fits, with their covariances.
+    pub points: Vec<CompensationPoint>,
+    /// β and the Krug–Hunter–Grieger test against T_hm of all points; `None` when it cannot
+    /// be computed (a warning says why).
+    pub beta: Option<Compensation>,
+    /// Exner's common-intersection test; `None` when it cannot be made.
+    pub exner: Option<ExnerTest>,
 }
 
 /// Why data sets could not be fitted together.
@@ -179,11 +197,30 @@ pub fn fit_joint(sets: &[DataSet], shared: &[String]) -> Result<JointAnalysis, J
             None
         }
     };
+    let compensation = match (&equality, sets.len() >= 3) {
+        (Some(t), true) => {
+            let full = t.full();
+            let points = CompensationPoint::from_fit(full, options.t_ref_k);
+            let beta = compensation(&points, full.t_harmonic_all_k(), options.level)
+                .map_err(|e| warnings.push(format!("no compensation temperature: {e}")))
+                .ok();
+            let exner = exner_test(&inputs, options.weighting, options.level)
+                .map_err(|e| warnings.push(format!("no common-intersection test: {e}")))
+                .ok();
+            Some(CompensationAnalysis {
+                points,
+                beta,
+                exner,
+            })
+        }
+        _ => None,
+    };
     Ok(JointAnalysis {
         labels,
         shared: shared_keys,
         fit,
         equality,
+        compensation,
         warnings,
     })
 }

@@ -6,7 +6,7 @@ use super::{EstimateJson, Nulls, ParamsJson, PointJson};
 use crate::dataset::DataSet;
 use crate::joint::JointAnalysis;
 use crate::report::VERSION;
-use isochore_fit::global::EqualityTest;
+use isochore_fit::global::{Compensation, CompensationPoint, EqualityTest, ExnerTest};
 use serde::Serialize;
 use std::io::{self, Write};
 
@@ -58,6 +58,17 @@ pub struct ColumnJson<'a> {
     pub key: &'static str,
     /// The series, or null for a shared parameter.
     pub series: Option<&'a str>,
+}
+
+/// `compensation`: enthalpy–entropy compensation over three or more series.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CompensationJson<'a> {
+    /// Each series' ΔH° and ΔS° at θ (separate fits) with SEs and covariance.
+    pub points: &'a [CompensationPoint],
+    /// β, its interval, T_hm and the Krug–Hunter–Grieger verdict; null when not computable.
+    pub beta: Option<&'a Compensation>,
+    /// Exner's common-intersection test; null when it cannot be made.
+    pub exner: Option<&'a ExnerTest>,
 }
 
 /// Fit statistics of one fit, for `fit_statistics` (the joint fit and the separate fits
@@ -153,6 +164,9 @@ pub struct JointJson<'a> {
     pub equality_test: Option<EqualityJson>,
     /// The separate fits' parameters of each series (null with the test).
     pub separate_params: Option<Vec<SeparateParamsJson<'a>>>,
+    /// With three or more series: the compensation analysis of the separate fits (null
+    /// otherwise).
+    pub compensation: Option<CompensationJson<'a>>,
     /// Per-point values of every series, series by series (left out by `--summary`).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub points: Option<Vec<PointJson<'a>>>,
@@ -287,6 +301,11 @@ impl<'a> JointJson<'a> {
                 })
                 .collect()
         });
+        let compensation = a.compensation.as_ref().map(|c| CompensationJson {
+            points: &c.points,
+            beta: c.beta.as_ref(),
+            exner: c.exner.as_ref(),
+        });
         let points = with_points.then(|| points(&mut n, sets, a));
         let mut warnings = a.warnings.clone();
         warnings.extend(n.warning());
@@ -306,6 +325,7 @@ impl<'a> JointJson<'a> {
             fit_statistics,
             equality_test,
             separate_params,
+            compensation,
             points,
             warnings,
             version: VERSION,

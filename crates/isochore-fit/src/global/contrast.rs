@@ -127,6 +127,21 @@ impl GlobalFit {
         Some(sw / swt)
     }
 
+    /// The weighted harmonic-mean temperature Σw / Σ(w/T) of the used points of every
+    /// series together.
+    pub fn t_harmonic_all_k(&self) -> f64 {
+        let (mut sw, mut swt) = (0.0, 0.0);
+        for (_, d) in self.all_points().filter(|(_, d)| d.used) {
+            let w = match (self.weighted, d.sigma_ln_k) {
+                (true, Some(sigma)) => 1.0 / (sigma * sigma),
+                _ => 1.0,
+            };
+            sw += w;
+            swt += w / d.t_k;
+        }
+        sw / swt
+    }
+
     /// The lowest and highest temperature of the used points of series `s`, K.
     pub fn t_range_k(&self, s: usize) -> Option<(f64, f64)> {
         let pts = self.points.get(s)?;

@@ -223,10 +223,10 @@ impl EqualityTest {
             Some((last, rest)) if !rest.is_empty() => format!("{} and {last}", rest.join(", ")),
             _ => symbols.join(""),
         };
-        let (verb, value, values) = if symbols.len() == 1 {
-            ("differs", "value", "value")
+        let (verb, value) = if symbols.len() == 1 {
+            ("differs", "value")
         } else {
-            ("differ", "values", "values")
+            ("differ", "values")
         };
         let stat = match self.method() {
             EqualityMethod::F => format!(
@@ -244,7 +244,7 @@ impl EqualityTest {
         let p = format_p(self.decisive_p_value());
         if self.rejects_equality() {
             format!(
-                "{what} {verb} between the series ({stat}, {p}): sharing is rejected at the {alpha}% level; quote the separate {values}"
+                "{what} {verb} between the series ({stat}, {p}): sharing is rejected at the {alpha}% level; quote each series' own {value}"
             )
         } else {
             format!(
