@@ -367,7 +367,7 @@ impl Workbench {
         );
         egui::Panel::left("series_and_settings")
             .resizable(true)
-            .default_size(250.0)
+            .default_size(285.0)
             .show(root, |ui| {
                 // Both ways, filling the panel: a wider line (a longer unit) scrolls
                 // instead of widening the panel, so panels never jump.

@@ -303,8 +303,10 @@ fn tick_decimals(span: f64) -> usize {
     (-step.log10().floor()).clamp(0.0, 6.0) as usize
 }
 
-/// Round temperatures (in `unit`) to label the top axis, as positions on 1000/T.
-fn temperature_keys(x0: f64, x1: f64, unit: TemperatureUnit) -> (Vec<f64>, usize) {
+/// Round temperatures (in `unit`) to label the top axis, as positions on 1000/T between
+/// `x0` and `x1`, with the number of decimals to write them with. The window's van 't Hoff
+/// plot labels its top axis with the same temperatures.
+pub fn temperature_keys(x0: f64, x1: f64, unit: TemperatureUnit) -> (Vec<f64>, usize) {
     let t_hi = unit.from_kelvin(1000.0 / x0);
     let t_lo = unit.from_kelvin(1000.0 / x1);
     let span = (t_hi - t_lo).abs();
