@@ -416,9 +416,6 @@ fn replicates_setting(r: isochore_data::Replicates) -> (String, String) {
     ("replicates".to_string(), format!("{r:?}").to_lowercase())
 }
 
-/// The former name of [`PreparedSet`], kept while code written against it moves over.
-pub type DataSet = PreparedSet;
-
 impl PreparedSet {
     /// One data set of a project (or of the window's document), its settings overlaid by
     /// `o` (exclusions in `o` are not applied here: they belong in the data set's own list).

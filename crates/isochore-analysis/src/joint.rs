@@ -4,7 +4,7 @@
 //! with the one where the named parameters are fitted per series too (the separate fits,
 //! with one pooled residual variance), and its failure to run is a warning, not a refusal.
 
-use crate::dataset::DataSet;
+use crate::dataset::PreparedSet;
 use isochore_fit::global::{
     compensation, exner_test, fit_global, Compensation, CompensationPoint, EqualityTest, ExnerTest,
     GlobalError, GlobalFit,
@@ -93,7 +93,7 @@ impl std::error::Error for JointError {}
 
 /// A label for each data set: its series name, with its file name when two data sets
 /// share a series name.
-pub fn series_labels(sets: &[DataSet]) -> Vec<String> {
+pub fn series_labels(sets: &[PreparedSet]) -> Vec<String> {
     sets.iter()
         .map(|s| {
             let twins = sets.iter().filter(|o| o.series == s.series).count();
@@ -147,7 +147,7 @@ fn options_difference(a: &FitOptions, b: &FitOptions) -> Option<String> {
 /// [`JointError::TooFewSeries`], [`JointError::NothingShared`],
 /// [`JointError::OptionsDiffer`], and any refusal of the fit ([`JointError::Fit`]: an
 /// unknown key, a series with too few points for the sharing, a singular sharing, …).
-pub fn fit_joint(sets: &[DataSet], shared: &[String]) -> Result<JointAnalysis, JointError> {
+pub fn fit_joint(sets: &[PreparedSet], shared: &[String]) -> Result<JointAnalysis, JointError> {
     if sets.len() < 2 {
         return Err(JointError::TooFewSeries { given: sets.len() });
     }

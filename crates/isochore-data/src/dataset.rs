@@ -123,10 +123,6 @@ fn yes() -> bool {
     true
 }
 
-/// The former name of [`DataSet`] (a project's data set), kept while code written against
-/// it moves over.
-pub type ProjectSeries = DataSet;
-
 impl DataSet {
     /// A data set with no rows, settings at their defaults and no exclusions.
     pub fn new(

@@ -3,7 +3,7 @@
 //! the van 't Hoff ΔH° at its temperature. SI units; undefined numbers are null.
 
 use super::{EstimateJson, FitJson};
-use crate::dataset::DataSet;
+use crate::dataset::PreparedSet;
 use isochore_fit::calorimetric::CalorimetricComparison;
 use isochore_fit::VantHoffFit;
 use serde::Serialize;
@@ -75,7 +75,7 @@ pub struct FitWithCalorimetricJson<'a> {
 /// The writer's.
 pub fn write_fit_with_calorimetric(
     w: &mut impl Write,
-    set: &DataSet,
+    set: &PreparedSet,
     fit: &VantHoffFit,
     source: Option<&str>,
     with_points: bool,

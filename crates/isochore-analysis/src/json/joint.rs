@@ -3,7 +3,7 @@
 //! null and named in a warning, as in a single fit ([`super::Nulls`]).
 
 use super::{EstimateJson, Nulls, ParamsJson, PointJson};
-use crate::dataset::DataSet;
+use crate::dataset::PreparedSet;
 use crate::joint::JointAnalysis;
 use crate::report::VERSION;
 use isochore_fit::global::{Compensation, CompensationPoint, EqualityTest, ExnerTest};
@@ -206,7 +206,7 @@ fn equality(n: &mut Nulls, t: &EqualityTest) -> EqualityJson {
 impl<'a> JointJson<'a> {
     /// The document of a joint fit of `sets` (in the order fitted); `with_points` adds
     /// "points".
-    pub fn new(sets: &'a [DataSet], a: &'a JointAnalysis, with_points: bool) -> JointJson<'a> {
+    pub fn new(sets: &'a [PreparedSet], a: &'a JointAnalysis, with_points: bool) -> JointJson<'a> {
         let mut n = Nulls::new();
         let fit = &a.fit;
         let label = |s: usize| a.labels.get(s).map_or("", String::as_str);
@@ -339,7 +339,7 @@ fn n_free(v: f64) -> Option<f64> {
 }
 
 /// Every point of every series, with its series' label and its data row.
-fn points<'a>(n: &mut Nulls, sets: &'a [DataSet], a: &'a JointAnalysis) -> Vec<PointJson<'a>> {
+fn points<'a>(n: &mut Nulls, sets: &'a [PreparedSet], a: &'a JointAnalysis) -> Vec<PointJson<'a>> {
     let mut out = Vec::new();
     for (s, set) in sets.iter().enumerate() {
         let Some(diag) = a.fit.points(s) else {
@@ -376,7 +376,7 @@ fn points<'a>(n: &mut Nulls, sets: &'a [DataSet], a: &'a JointAnalysis) -> Vec<P
 /// The writer's.
 pub fn write_joint(
     w: &mut impl Write,
-    sets: &[DataSet],
+    sets: &[PreparedSet],
     a: &JointAnalysis,
     with_points: bool,
 ) -> io::Result<()> {
