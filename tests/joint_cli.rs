@@ -265,6 +265,21 @@ fn bad_joint_requests_are_refused_in_words() {
     assert_eq!(out.status.code(), Some(2));
     assert!(stderr(&out).contains("--report"), "{}", stderr(&out));
 
+    // A file without σ is fitted unweighted, a file with σ weighted: refused in words,
+    // and --unweighted settles it.
+    let plain = d.join("plain.csv");
+    let mut text = String::from("T (K),ln K\n");
+    for (t, y) in T_A.iter().zip(LNK_A) {
+        text.push_str(&format!("{t},{y}\n"));
+    }
+    std::fs::write(&plain, text).unwrap();
+    let plain = plain.to_string_lossy().into_owned();
+    let out = run(&["fit", &plain, &b, "--share", "delta_h"]);
+    assert_eq!(out.status.code(), Some(1));
+    assert!(stderr(&out).contains("unweighted"), "{}", stderr(&out));
+    let out = run(&["fit", &plain, &b, "--share", "delta_h", "--unweighted"]);
+    assert!(out.status.success(), "{}", stderr(&out));
+
     // Three points at two temperatures cannot carry three parameters of their own.
     let dup = write_csv(
         &d,
