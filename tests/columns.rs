@@ -241,3 +241,29 @@ fn a_run_column_names_the_data_sets_and_can_be_dropped() {
     assert!(close(delta_h(&one), unweighted_plain, 1e-12), "{one}");
     assert!((want - unweighted_plain).abs() > 1.0);
 }
+
+#[test]
+fn a_project_keeps_its_columns_and_refuses_column_choices() {
+    use isochore_data::{import_path, ImportOptions, Project};
+    let dir = tempfile::tempdir().unwrap();
+    let plain = write(dir.path(), "plain.csv", PLAIN_FILE);
+    let project = Project::from_import(&import_path(&plain, &ImportOptions::default()).unwrap());
+    let path = dir.path().join("p.isochore.json");
+    project.save_atomic(&path).unwrap();
+    let p = path.to_string_lossy().into_owned();
+    for extra in [["--column", "pKa=2"], ["--data-temp-unit", "K"]] {
+        let out = run(&["fit", &p, extra[0], extra[1]]);
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert_eq!(out.status.code(), Some(1), "{err}");
+        assert!(
+            err.contains("a project keeps the columns it was saved with"),
+            "{err}"
+        );
+    }
+    // A missing project is named as missing, not as a project with columns.
+    let gone = dir.path().join("gone.isochore.json");
+    let out = run(&["fit", &gone.to_string_lossy(), "--column", "pKa=2"]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(1), "{err}");
+    assert!(!err.contains("keeps the columns"), "{err}");
+}

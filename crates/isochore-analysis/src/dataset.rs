@@ -382,13 +382,13 @@ fn load_project(path: &Path, o: &Overrides) -> Result<Vec<PreparedSet>, LoadErro
         source: source.clone(),
         error: Box::new(error),
     };
+    let mut project = Project::load(path).map_err(data_error)?;
     if !o.columns.is_empty() || o.data_temperature_unit.is_some() {
         return Err(data_error(isochore_data::Error::InvalidMapping {
             file: source.clone(),
             message: "a project keeps the columns it was saved with; column choices and the temperature unit of the file apply to data files only".to_string(),
         }));
     }
-    let mut project = Project::load(path).map_err(data_error)?;
     let mut sets = Vec::with_capacity(project.series.len());
     for s in &mut project.series {
         for r in &o.exclude.rows {
