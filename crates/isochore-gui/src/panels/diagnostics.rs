@@ -127,6 +127,7 @@ impl DiagnosticsPanel {
                     .height((h - ui.min_rect().height() - 4.0).max(100.0))
                     .custom_x_axes(vec![style::x_axis(names::t_axis(tu))])
                     .custom_y_axes(vec![style::y_axis("ln K − fit")])
+                    .y_grid_spacer(egui_plot::uniform_grid_spacer(style::nice_steps))
                     .show_x(false)
                     .show_y(false)
                     .show(ui, |pu| {
@@ -167,6 +168,8 @@ impl DiagnosticsPanel {
                     // What the title left (it may wrap to two lines when narrow).
                     .height((h - ui.min_rect().height() - 4.0).max(100.0))
                     .custom_x_axes(vec![style::x_axis("leverage h")])
+                    .x_grid_spacer(egui_plot::uniform_grid_spacer(style::nice_steps))
+                    .y_grid_spacer(egui_plot::uniform_grid_spacer(style::nice_steps))
                     .custom_y_axes(vec![style::y_axis("ext. studentized residual")])
                     .include_x(0.0)
                     .include_x((max_h * 1.15).min(1.0))

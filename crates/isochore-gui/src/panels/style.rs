@@ -161,6 +161,26 @@ pub fn y_axis(label: impl Into<egui::WidgetText>) -> egui_plot::AxisHints<'stati
         .label_spacing(14.0..=22.0)
 }
 
+/// Grid steps in 1, 2, 5 × 10ⁿ, about five large steps across the visible range (with
+/// halves and tenths between): egui_plot's own grid steps by tens, so a short axis over
+/// −8 … 8 had only "0" to write. For `Plot::x_grid_spacer` / `y_grid_spacer` through
+/// `egui_plot::uniform_grid_spacer`.
+pub fn nice_steps(input: egui_plot::GridInput) -> [f64; 3] {
+    let span = (input.bounds.1 - input.bounds.0).abs();
+    let raw = if span.is_finite() && span > 0.0 {
+        span / 5.0
+    } else {
+        1.0
+    };
+    let mag = 10f64.powf(raw.log10().floor());
+    let large = [1.0, 2.0, 5.0, 10.0]
+        .into_iter()
+        .map(|m| m * mag)
+        .find(|s| *s >= raw)
+        .unwrap_or(10.0 * mag);
+    [large / 10.0, large / 2.0, large]
+}
+
 /// The colour used to mark flagged values (legible on light and dark backgrounds).
 pub fn flag_color(dark: bool) -> Color32 {
     if dark {
@@ -182,6 +202,20 @@ pub fn highlight_color(dark: bool) -> Color32 {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn grid_steps_are_round_and_about_five_across() {
+        let steps = |lo: f64, hi: f64| {
+            nice_steps(egui_plot::GridInput {
+                bounds: (lo, hi),
+                base_step_size: 0.0,
+            })
+        };
+        // −8 … 8 (the influence plot): large steps of 5, so −5, 0 and 5 are written.
+        assert_eq!(steps(-8.0, 8.0)[2], 5.0);
+        assert_eq!(steps(0.0, 0.55)[2], 0.2);
+        assert_eq!(steps(-0.45, 0.12)[2], 0.2);
+    }
 
     #[test]
     fn every_shape_has_a_hollow_form_and_no_pair_repeats_for_42_series() {
