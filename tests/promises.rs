@@ -736,7 +736,8 @@ fn cp_model_temperature_for_a_target_k_with_its_standard_error() {
         "--temp-unit",
         "K",
     ]);
-    let want = format!("at {:.2} K (SE {:.2} K", t, se);
+    // "temperature where pKa = 7.301 (K = 5.000 × 10⁻⁸): 295.33 K (SE 0.27 K; …)".
+    let want = format!(": {:.2} K (SE {:.2} K", t, se);
     assert!(text.contains(&want), "{want} in\n{text}");
 }
 

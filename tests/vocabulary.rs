@@ -198,6 +198,7 @@ fn results_come_back_in_the_files_own_quantity() {
     // ln K at 25 °C from the JSON of the same prediction; K_d = c°/K with c° = 1 M = 10⁹ nM
     // (the definition the import uses, by hand).
     let j = json_of(&run(&["predict", &binding, "--at", "25C", "--json"]));
+    let j_binding = j.clone();
     let ln_k = j["predictions"][0]["ln_k"]["value"]
         .as_f64()
         .or_else(|| j["predictions"][0]["ln_k"].as_f64())
@@ -236,4 +237,23 @@ fn results_come_back_in_the_files_own_quantity() {
     assert!(report.contains("| K_d at θ = 25.00 °C |"), "{report}");
     assert!(report.contains("| K_d at T_hm = "), "{report}");
     assert!(report.contains("| nM |"), "{report}");
+
+    // The results CSV carries the same row with plain numbers: K_d at θ = 25 °C against
+    // c°/K from ln K at 298.15 K (the prediction's JSON above).
+    let csv_path = dir.path().join("r.csv");
+    let out = run(&["fit", &binding, "--report", csv_path.to_str().unwrap()]);
+    assert_eq!(out.status.code(), Some(0), "{out:?}");
+    let csv = std::fs::read_to_string(&csv_path).unwrap();
+    let line = csv
+        .lines()
+        .find(|l| l.starts_with("K_d at θ = 25.00 °C,"))
+        .unwrap_or_else(|| panic!("no K_d row in\n{csv}"));
+    let cells: Vec<&str> = line.split(',').collect();
+    assert_eq!(cells.last(), Some(&"nM"), "{line}");
+    let kd: f64 = cells[1].parse().unwrap();
+    let ln_k = j_binding["predictions"][0]["ln_k"]["value"]
+        .as_f64()
+        .unwrap();
+    let want = 1e9 * (-ln_k).exp();
+    assert!((kd - want).abs() <= 1e-9 * want, "{kd} against {want}");
 }

@@ -357,12 +357,14 @@ fn results_and_prediction_panels_show_the_library_numbers() {
     // Prediction at the panel's starting temperature, 37 °C, then at 15 °C (typed).
     let check = |h: &H, t_c: f64| {
         let p = f.predict(t_c + 273.15).unwrap();
-        // K is written ×10ⁿ (isochore_report::present::times_ten, checked against
-        // hand-worked values in its own tests).
-        let s3 = |x: f64| isochore_report::present::times_ten(x, 3);
+        // K is written ×10ⁿ, the power after a caret in the window
+        // (isochore_report::present::times_ten_with, checked against hand-worked values in
+        // its own tests).
+        use isochore_report::present::{times_ten_with, Exponent::Caret};
+        let s3 = |x: f64| times_ten_with(x, 3, Caret);
         let k = format!(
             "{} ({} … {})",
-            isochore_report::present::times_ten(p.k.value, 4),
+            times_ten_with(p.k.value, 4, Caret),
             s3(p.k.ci.low),
             s3(p.k.ci.high)
         );
@@ -382,7 +384,7 @@ fn results_and_prediction_panels_show_the_library_numbers() {
         // The demo's series is a K_d file in nM: the prediction in K_d too, K_d = c°/K with
         // c° = 1 M = 10⁹ nM (by hand), the interval's ends swapped.
         let kd = |ln_k: f64| 1e9 * (-ln_k).exp();
-        let t4 = |x: f64| isochore_report::present::times_ten(x, 4);
+        let t4 = |x: f64| times_ten_with(x, 4, Caret);
         let kd_row = format!(
             "{} nM ({} … {})",
             t4(kd(p.ln_k.value)),

@@ -588,7 +588,7 @@ fn typing_a_target_k_gives_the_library_temperature() {
     // The demo is a K_d file in nM: the target is said in K_d too, K_d = c°/K =
     // 10⁹ nM / 5 × 10⁶ = 200 nM (by hand).
     assert!(
-        h.query_by_label_contains("temperature where K_d = 200.0 nM (K = 5.000 × 10⁶):")
+        h.query_by_label_contains("temperature where K_d = 200.0 nM (K = 5.000 × 10^6):")
             .is_some(),
         "no K_d target"
     );

@@ -99,6 +99,25 @@ pub(crate) fn results_csv(input: &ReportInput) -> Result<Vec<u8>, ReportError> {
         ])
         .map_err(csv_err)?;
     }
+    // The constant in the quantity the file gave (K_d in its unit, pKa, K), plain numbers.
+    let (kind, symbol) = input
+        .quantity
+        .clone()
+        .unwrap_or((isochore_fit::QuantityKind::K, "K".to_string()));
+    let tu = input.temperature_unit;
+    for (name, v, lo, hi) in
+        crate::present::quantity::constant_values(&input.fit, kind, &symbol, tu)
+    {
+        w.write_record([
+            name,
+            fin(v),
+            String::new(),
+            fin(lo),
+            fin(hi),
+            crate::present::quantity::quantity_unit(kind).to_string(),
+        ])
+        .map_err(csv_err)?;
+    }
     for (k, v) in statistics_rows(&input.fit) {
         w.write_record([
             k,

@@ -72,7 +72,8 @@ fn quantity_row(
         .map_or("", String::as_str);
     let unit = quantity::quantity_unit(kind);
     let sp = if unit.is_empty() { "" } else { " " };
-    let w = |v: f64| quantity::write_quantity(kind, v);
+    let w =
+        |v: f64| quantity::write_quantity_with(kind, v, isochore_report::present::Exponent::Caret);
     let ln = &p.ln_k;
     let (v, lo, hi) = quantity::from_ln_k(kind, ln.value, (ln.ci.low, ln.ci.high), p.t_k);
     let (_, plo, phi) = quantity::from_ln_k(kind, ln.value, (ln.pi.low, ln.pi.high), p.t_k);
@@ -86,7 +87,7 @@ fn quantity_row(
 /// quantity is a K_d, pK or log K (it does not depend on the temperature).
 fn target_in_quantity(data: &isochore_data::DataSet, k: f64) -> Option<String> {
     use isochore_fit::QuantityKind;
-    use isochore_report::present::{quantity, times_ten};
+    use isochore_report::present::{quantity, times_ten_with, Exponent};
     let kind = data.mapping.quantity.kind;
     if matches!(
         kind,
@@ -101,12 +102,13 @@ fn target_in_quantity(data: &isochore_data::DataSet, k: f64) -> Option<String> {
         .map_or("", String::as_str);
     let unit = quantity::quantity_unit(kind);
     // K_d, pK and log K do not depend on T; the temperature passed is not used.
-    let value = quantity::write_quantity(kind, kind.from_ln_k(k.ln(), 298.15));
+    let value =
+        quantity::write_quantity_with(kind, kind.from_ln_k(k.ln(), 298.15), Exponent::Caret);
     Some(format!(
         "temperature where {} = {value}{}{unit} (K = {}):",
         quantity::quantity_symbol(kind, header),
         if unit.is_empty() { "" } else { " " },
-        times_ten(k, 4)
+        times_ten_with(k, 4, Exponent::Caret)
     ))
 }
 
@@ -183,10 +185,12 @@ impl PredictPanel {
                             ui.strong(format!("value ({lvl} % CI)"));
                             ui.strong(format!("{lvl} % PI"));
                             ui.end_row();
-                            // K as a chemist writes it: 3.121 × 10⁶, not 3.121e6.
-                            let k3 = |x: f64| isochore_report::present::times_ten(x, 3);
+                            // K as a chemist writes it: 3.121 × 10^6, not 3.121e6 (the
+                            // window's font has no superscript minus).
+                            let caret = isochore_report::present::Exponent::Caret;
+                            let k3 = |x: f64| isochore_report::present::times_ten_with(x, 3, caret);
                             let fix3 = |x: f64| style::fixed(x, 3);
-                            let k = isochore_report::present::times_ten(p.k.value, 4);
+                            let k = isochore_report::present::times_ten_with(p.k.value, 4, caret);
                             interval_row(ui, "K", &p.k, k, &k3);
                             interval_row(ui, "ln K", &p.ln_k, fix3(p.ln_k.value), &fix3);
                             quantity_row(ui, &s.data, &p);

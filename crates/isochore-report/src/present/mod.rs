@@ -18,7 +18,10 @@ pub use model::{
     coefficients_phrase, equation, model_caution, model_description, model_label, model_name,
     thresholds_text, uses_reference,
 };
-pub use number::{decimals_for, diag, fixed, percent, plus_minus, sig, times_ten, MISSING};
+pub use number::{
+    decimals_for, diag, fixed, percent, plus_minus, sig, times_ten, times_ten_with, Exponent,
+    MISSING,
+};
 pub use rows::{
     compact_statistics_rows, comparison_rows, covariance_table, covariance_unit,
     critical_distribution, fitted_params, flag_words, is_absolute, ladder_text, level_percent,

@@ -66,6 +66,21 @@ fn superscript(n: i64) -> String {
 /// assert_eq!(times_ten(3.121e6, 3), "3.12 × 10⁶");
 /// ```
 pub fn times_ten(v: f64, digits: usize) -> String {
+    times_ten_with(v, digits, Exponent::Superscript)
+}
+
+/// How [`times_ten_with`] writes the power of ten.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Exponent {
+    /// "10⁻⁵", for documents and the terminal.
+    Superscript,
+    /// "10^-5", for the window, whose font has no superscript minus.
+    Caret,
+}
+
+/// As [`times_ten`], the power of ten written as `exponent` says: "3.12 × 10^6" with
+/// [`Exponent::Caret`].
+pub fn times_ten_with(v: f64, digits: usize, exponent: Exponent) -> String {
     if !v.is_finite() {
         return MISSING.to_string();
     }
@@ -82,7 +97,10 @@ pub fn times_ten(v: f64, digits: usize) -> String {
         // Decimals from the rounded exponent, so 99.999 999 to 4 digits is "100.0".
         return fixed(v, (digits as i64 - 1 - exp).max(0) as usize);
     }
-    format!("{mantissa} × 10{}", superscript(exp))
+    match exponent {
+        Exponent::Superscript => format!("{mantissa} × 10{}", superscript(exp)),
+        Exponent::Caret => format!("{mantissa} × 10^{exp}"),
+    }
 }
 
 /// The number of decimals that shows `se` to two significant digits (0 to 8); 3 when `se`
@@ -204,6 +222,10 @@ mod tests {
         assert_eq!(times_ten(0.0, 3), "0");
         assert_eq!(times_ten(f64::NAN, 3), "—");
         assert!(!times_ten(3.121e6, 4).contains('e'));
+        // The window's form: the same digits, the power after a caret.
+        assert_eq!(times_ten_with(4.5e-9, 2, Exponent::Caret), "4.5 × 10^-9");
+        assert_eq!(times_ten_with(3.121e6, 3, Exponent::Caret), "3.12 × 10^6");
+        assert_eq!(times_ten_with(1234.0, 4, Exponent::Caret), "1234");
     }
 
     #[test]

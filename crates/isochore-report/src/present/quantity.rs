@@ -4,7 +4,7 @@
 //! unit, the order of an interval's ends and how the numbers are written.
 
 use super::names::T_HM;
-use super::number::{fixed, times_ten};
+use super::number::{fixed, times_ten_with, Exponent};
 use super::units::show_t;
 use isochore_fit::{QuantityKind, TemperatureUnit, VantHoffFit};
 
@@ -45,8 +45,13 @@ pub fn quantity_unit(kind: QuantityKind) -> &'static str {
 /// ×10ⁿ notation where large or small ("3.121 × 10⁶"), logarithms and pK to three decimals,
 /// ΔG° to two.
 pub fn write_quantity(kind: QuantityKind, v: f64) -> String {
+    write_quantity_with(kind, v, Exponent::Superscript)
+}
+
+/// As [`write_quantity`], the power of ten written as `exponent` says (the window: caret).
+pub fn write_quantity_with(kind: QuantityKind, v: f64, exponent: Exponent) -> String {
     match kind {
-        QuantityKind::K | QuantityKind::DissociationConstant(_) => times_ten(v, 4),
+        QuantityKind::K | QuantityKind::DissociationConstant(_) => times_ten_with(v, 4, exponent),
         QuantityKind::LnK | QuantityKind::Log10K | QuantityKind::PK => fixed(v, 3),
         QuantityKind::DeltaG(_) => fixed(v, 2),
     }
@@ -92,6 +97,29 @@ pub fn constant_rows(
     symbol: &str,
     tu: TemperatureUnit,
 ) -> Vec<Vec<String>> {
+    constant_values(fit, kind, symbol, tu)
+        .into_iter()
+        .map(|(name, v, lo, hi)| {
+            vec![
+                name,
+                write_quantity(kind, v),
+                String::new(),
+                write_quantity(kind, lo),
+                write_quantity(kind, hi),
+                quantity_unit(kind).to_string(),
+            ]
+        })
+        .collect()
+}
+
+/// The numbers of [`constant_rows`], unformatted (for the results CSV): (quantity, value,
+/// CI low, CI high) in the file's quantity and unit.
+pub fn constant_values(
+    fit: &VantHoffFit,
+    kind: QuantityKind,
+    symbol: &str,
+    tu: TemperatureUnit,
+) -> Vec<(String, f64, f64, f64)> {
     if matches!(kind, QuantityKind::DeltaG(_)) {
         return Vec::new();
     }
@@ -99,14 +127,7 @@ pub fn constant_rows(
     for (at, t) in [("θ", fit.at_reference().t_k), (T_HM, fit.at_harmonic().t_k)] {
         let Ok(p) = fit.predict(t) else { continue };
         let (v, lo, hi) = from_ln_k(kind, p.ln_k.value, (p.ln_k.ci.low, p.ln_k.ci.high), t);
-        rows.push(vec![
-            format!("{symbol} at {at} = {}", show_t(t, tu)),
-            write_quantity(kind, v),
-            String::new(),
-            write_quantity(kind, lo),
-            write_quantity(kind, hi),
-            quantity_unit(kind).to_string(),
-        ]);
+        rows.push((format!("{symbol} at {at} = {}", show_t(t, tu)), v, lo, hi));
     }
     rows
 }
