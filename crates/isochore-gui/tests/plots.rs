@@ -55,3 +55,20 @@ fn an_excluded_point_neither_sets_the_residual_range_nor_counts_as_flagged() {
         ));
     }
 }
+
+#[test]
+fn warnings_give_temperatures_in_the_display_unit() {
+    let mut h = harness(bench());
+    // θ = 80 °C lies above the binding demo's 10–40 °C.
+    h.get_by_label("θ").click();
+    h.run_steps(1);
+    h.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::A);
+    h.run_steps(1);
+    h.get_by_label("θ").type_text("80");
+    h.run_steps(1);
+    h.key_press(egui::Key::Enter);
+    h.run_steps(4);
+    // 80 °C and the measured 10–40 °C, in °C as the rest of the screen (T/°C = T/K − 273.15).
+    h.get_by_label_contains("θ = 80.00 °C lies outside the measured range 10.00–40.00 °C");
+    assert!(h.query_by_label_contains("353.15").is_none());
+}

@@ -374,7 +374,10 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
     }));
     if !fit.warnings().is_empty() {
         b.push(Block::Warnings(
-            fit.warnings().iter().map(|w| w.message.clone()).collect(),
+            fit.warnings()
+                .iter()
+                .map(|w| present::units::warning_in_unit(w, fit, tu))
+                .collect(),
         ));
     }
     b.push(Block::Table(Table {

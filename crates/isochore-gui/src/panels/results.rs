@@ -184,7 +184,8 @@ impl ResultsPanel {
             for w in fit.warnings() {
                 ui.horizontal_wrapped(|ui| {
                     ui.colored_label(flag, "⚠");
-                    ui.label(&w.message);
+                    // Temperatures in the display unit, as on the rest of the screen.
+                    ui.label(present::units::warning_in_unit(w, fit, tu));
                 });
             }
         }

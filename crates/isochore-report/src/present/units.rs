@@ -180,3 +180,59 @@ mod tests {
         assert_eq!(order(Energy), order(Entropy));
     }
 }
+
+/// A warning of the fit as the chemist reads it: the temperatures of the extrapolation
+/// warning (θ, the measured range, T_hm) in the display unit, as everywhere else on the
+/// screen or page; every other warning as isochore-fit wrote it (their temperatures, if
+/// any, are differences, which read the same in K and °C).
+pub fn warning_in_unit(
+    w: &isochore_fit::Warning,
+    fit: &isochore_fit::VantHoffFit,
+    unit: TemperatureUnit,
+) -> String {
+    if w.kind != isochore_fit::WarningKind::Extrapolation || unit == TemperatureUnit::Kelvin {
+        return w.message.clone();
+    }
+    format!(
+        "the reference temperature θ = {} lies outside the measured range {}–{}: the values quoted at θ are extrapolations, valid only if the model holds there ({}); a θ inside the range, near T_hm = {}, is better determined",
+        show_t(fit.options().t_ref_k, unit),
+        fixed(unit.from_kelvin(fit.t_min_k()), 2),
+        show_t(fit.t_max_k(), unit),
+        fit.options().model.assumption(),
+        show_t(fit.t_harmonic_k(), unit),
+    )
+}
+
+#[cfg(test)]
+mod warning_tests {
+    use super::*;
+    use isochore_fit::{fit, FitOptions, Measurement, TemperatureUnit as T, WarningKind};
+
+    #[test]
+    fn the_extrapolation_warning_speaks_the_display_unit() {
+        // Invented points at 10–40 °C, θ = 80 °C (353.15 K), outside the range.
+        let pts: Vec<Measurement> = [283.15, 293.15, 303.15, 313.15]
+            .iter()
+            .enumerate()
+            .map(|(i, &t)| {
+                Measurement::new(t, 5000.0 / t - 10.0 + 0.01 * i as f64).with_sigma(0.05)
+            })
+            .collect();
+        let opts = FitOptions {
+            t_ref_k: 353.15,
+            ..FitOptions::default()
+        };
+        let f = fit(&pts, &opts).unwrap();
+        let w = f
+            .warnings()
+            .iter()
+            .find(|w| w.kind == WarningKind::Extrapolation)
+            .expect("an extrapolation warning");
+        let c = warning_in_unit(w, &f, T::Celsius);
+        // 353.15 K = 80 °C, 283.15 K = 10 °C, 313.15 K = 40 °C (T/°C = T/K − 273.15).
+        assert!(c.contains("θ = 80.00 °C"), "{c}");
+        assert!(c.contains("range 10.00–40.00 °C"), "{c}");
+        assert!(!c.contains(" K"), "{c}");
+        assert_eq!(warning_in_unit(w, &f, T::Kelvin), w.message);
+    }
+}
