@@ -331,6 +331,16 @@ fn results_and_prediction_panels_show_the_library_numbers() {
             "kJ/mol",
         ),
     ];
+    // The constant in the file's quantity: the demo is a K_d file in nM, K_d = c°/K with
+    // c° = 1 M = 10⁹ nM (by hand), at θ = 25 °C.
+    let ln_k = f.predict(298.15).unwrap().ln_k.value;
+    let kd = isochore_report::present::times_ten_with(
+        1e9 * (-ln_k).exp(),
+        4,
+        isochore_report::present::Exponent::Caret,
+    );
+    let kd_row = format!("K_d at θ = 25.00 °C = {kd} nM");
+    assert!(shows(&h, &kd_row), "no {kd_row}");
     for (name, e, factor, unit) in rows {
         let v = row_label(&name, e, factor, unit);
         assert!(shows(&h, &v), "no {v}");

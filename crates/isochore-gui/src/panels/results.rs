@@ -120,6 +120,35 @@ impl ResultsPanel {
                     ui.label(RichText::new(r.interval_short()).monospace());
                     ui.end_row();
                 }
+                // The constant in the file's own quantity (K_d in nM, pKa, K) at θ and T_hm;
+                // no SE: its interval is not symmetric.
+                let kind = s.data.mapping.quantity.kind;
+                let header = s
+                    .data
+                    .headers
+                    .get(s.data.mapping.quantity.column)
+                    .map_or("", String::as_str);
+                let symbol = present::quantity::quantity_symbol(kind, header);
+                let unit = present::quantity::quantity_unit(kind);
+                let w = |x: f64| {
+                    present::quantity::write_quantity_with(kind, x, present::Exponent::Caret)
+                };
+                for (name, v, lo, hi) in present::quantity::constant_values(fit, kind, &symbol, tu)
+                {
+                    ui.label(RichText::new(name.replacen(" at ", "\nat ", 1)).strong());
+                    let value = format!("{} {unit}", w(v)).trim_end().to_string();
+                    let l = ui.label(RichText::new(value.clone()).monospace());
+                    l.widget_info(|| {
+                        egui::WidgetInfo::labeled(
+                            egui::Role::Label,
+                            true,
+                            format!("{name} = {value}"),
+                        )
+                    });
+                    ui.label("");
+                    ui.label(RichText::new(format!("{} … {}", w(lo), w(hi))).monospace());
+                    ui.end_row();
+                }
             });
         ui.label(
             RichText::new(format!(
