@@ -177,8 +177,15 @@ impl ResultsPanel {
                 eu.from_si(fit.delta_h().value),
                 su.from_si(fit.delta_s().value),
             ];
+            // Tall enough for the ΔS° axis label, as wide as the visible panel (the panel
+            // scrolls sideways, so the plot must not take the scroll area's width), and
+            // round steps on both axes (egui_plot's decades left only "0").
+            let visible = (ui.clip_rect().right() - ui.cursor().left() - 8.0).max(160.0);
             Plot::new("hs_ellipse")
-                .height(140.0)
+                .height(190.0)
+                .width(visible)
+                .x_grid_spacer(egui_plot::uniform_grid_spacer(style::nice_steps))
+                .y_grid_spacer(egui_plot::uniform_grid_spacer(style::nice_steps))
                 .x_axis_label(names::quantity_axis("ΔH°", eu.symbol))
                 .y_axis_label(names::quantity_axis("ΔS°", su.symbol))
                 .show_x(false)
