@@ -223,7 +223,11 @@ mod tests {
         pts[4].included = false;
         let used = fit(&pts, &FitOptions::default()).unwrap();
         assert!(used.points()[4].flags.outlier);
-        assert!(used.points().iter().filter(|d| d.used).all(|d| !d.flags.any()));
+        assert!(used
+            .points()
+            .iter()
+            .filter(|d| d.used)
+            .all(|d| !d.flags.any()));
         assert!(!flagged(&used), "{:?}", used.warnings());
     }
 
