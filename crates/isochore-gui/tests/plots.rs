@@ -72,3 +72,20 @@ fn warnings_give_temperatures_in_the_display_unit() {
     h.get_by_label_contains("θ = 80.00 °C lies outside the measured range 10.00–40.00 °C");
     assert!(h.query_by_label_contains("353.15").is_none());
 }
+
+#[test]
+fn the_influence_key_names_each_contour_and_the_flag_limit() {
+    let h = harness(bench());
+    let w = h.state();
+    let s = w.project.get(w.active.unwrap()).unwrap();
+    let a = w.fitter.get(s.id).unwrap();
+    let fit = a.fit.as_ref().unwrap();
+    // The levels isochore-fit draws (the flag rule's 4/n first, then D = 1).
+    let levels = isochore_fit::influence::FlagLimits::of(fit).contour_levels();
+    let fixed = isochore_report::present::fixed;
+    h.get_by_label_contains(&format!(
+        "long dashes: Cook's D = {} (flag limit) · short dashes: Cook's D = {}",
+        fixed(levels[0], 2),
+        fixed(levels[1], 2)
+    ));
+}
