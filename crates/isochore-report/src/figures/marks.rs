@@ -96,7 +96,8 @@ where
         let (px, py) = chart.plotting_area().map_coordinate(&at);
         // DejaVu Sans averages a little under 0.6 em per character.
         let w = (text.chars().count() as f32 * NOTE_SIZE as f32 * 0.6).ceil() as i32;
-        let tries = [(9, -h - 6), (9, 6), (-w - 9, -h - 6), (-w - 9, 6)];
+        // Clear of a flag ring (radius 8 at this scale) as well as of the point.
+        let tries = [(12, -h - 6), (12, 6), (-w - 12, -h - 6), (-w - 12, 6)];
         let free = tries.into_iter().find(|&(dx, dy)| {
             let b = (px + dx, py + dy, px + dx + w, py + dy + h);
             b.0 >= xr.start
