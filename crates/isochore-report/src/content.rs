@@ -500,9 +500,9 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
     let o = &fit.options();
     let mut settings: Vec<Vec<String>> = vec![
         vec!["program".into(), format!("vhfit {}", input.program_version)],
+        vec!["analysed".into(), input.record.analysed_at.clone()],
         vec!["source file".into(), input.source_name.clone()],
         vec!["source SHA-256".into(), input.source_sha256.clone()],
-        vec!["analysed".into(), input.record.analysed_at.clone()],
         vec!["series".into(), input.series_name.clone()],
         vec!["model".into(), o.model.key().to_string()],
         vec![

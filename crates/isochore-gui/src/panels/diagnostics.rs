@@ -170,7 +170,7 @@ impl DiagnosticsPanel {
                     .custom_x_axes(vec![style::x_axis("leverage h")])
                     .x_grid_spacer(egui_plot::uniform_grid_spacer(style::nice_steps))
                     .y_grid_spacer(egui_plot::uniform_grid_spacer(style::nice_steps))
-                    .custom_y_axes(vec![style::y_axis("ext. studentized residual")])
+                    .custom_y_axes(vec![style::y_axis(names::STUDENTIZED_SHORT)])
                     .include_x(0.0)
                     .include_x((max_h * 1.15).min(1.0))
                     .include_y(-2.5)
