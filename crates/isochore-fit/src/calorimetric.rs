@@ -4,6 +4,7 @@
 //! ratio ΔH_vH/ΔH_cal with Fieller's interval ([`compare_calorimetric`]).
 
 use crate::error::Error;
+use crate::global::GlobalFit;
 use crate::stats::{chi2_upper_tail, normal_quantile};
 use crate::vant_hoff::{Estimate, VantHoffFit};
 use serde::Serialize;
@@ -63,71 +64,121 @@ pub fn compare_calorimetric(
     fit: &VantHoffFit,
     values: &[CalorimetricValue],
 ) -> Result<Vec<CalorimetricComparison>, Error> {
-    let level = fit.options().level;
-    let z_crit = normal_quantile(0.5 + level / 2.0);
-    let mut out = Vec::with_capacity(values.len());
-    for (i, c) in values.iter().enumerate() {
-        if !(c.t_k.is_finite() && c.t_k > 0.0) {
-            return Err(Error::NoSolution(format!(
-                "calorimetric value {}: the temperature must be above 0 K",
-                i + 1
-            )));
-        }
-        if !c.delta_h.is_finite() || !c.u.is_finite() || c.u < 0.0 {
-            return Err(Error::NoSolution(format!(
-                "calorimetric value {}: ΔH_cal must be a number and its uncertainty a number ≥ 0",
-                i + 1
-            )));
-        }
-        let vh = fit.delta_h_at(c.t_k);
-        let se = (vh.se * vh.se + c.u * c.u).sqrt();
-        let d = vh.value - c.delta_h;
-        let difference = Estimate::symmetric(d, se, z_crit);
-        let z = if se > 0.0 { d / se } else { f64::NAN };
-        let p_value = chi2_upper_tail(z * z, 1.0).unwrap_or(f64::NAN);
-        let ratio = vh.value / c.delta_h;
-        let ratio_ci = fieller(vh.value, vh.se, c.delta_h, c.u, z_crit);
-        let extrapolated = fit.is_extrapolation(c.t_k);
-        let pct = crate::vant_hoff::comparison_percent(level);
-        let ratio_words = match ratio_ci {
-            Some((lo, hi)) => format!("ratio ΔH_vH/ΔH_cal = {ratio:.3} ({pct}% Fieller interval {lo:.3} to {hi:.3})"),
-            None => format!("ratio ΔH_vH/ΔH_cal = {ratio:.3} (its Fieller interval is unbounded: ΔH_cal is not clearly different from zero)"),
-        };
-        let agree = if p_value < 1.0 - level {
-            "the two enthalpies differ"
-        } else {
-            "no evidence that the two enthalpies differ"
-        };
-        let mut verdict = format!(
-            "at {:.2} K, {agree} (ΔH_vH − ΔH_cal = {:.2} ± {:.2} kJ/mol, z = {z:.2}, {}); {ratio_words}",
-            c.t_k,
-            d / 1000.0,
-            se / 1000.0,
-            crate::vant_hoff::format_p(p_value)
-        );
-        if extrapolated {
-            verdict.push_str(&format!(
-                "; {:.2} K lies outside the fitted temperatures ({:.2} to {:.2} K), so ΔH_vH there is an extrapolation that rests on the model's ΔCp°",
-                c.t_k,
-                fit.t_min_k(),
-                fit.t_max_k()
-            ));
-        }
-        verdict.push_str("; ");
-        verdict.push_str(COUPLED_EQUILIBRIA_CAUTION);
-        out.push(CalorimetricComparison {
-            calorimetric: *c,
-            van_t_hoff: vh,
-            difference,
-            z,
-            p_value,
-            ratio,
-            ratio_ci,
-            extrapolated,
-            verdict,
-        });
+    let range = (fit.t_min_k(), fit.t_max_k());
+    values
+        .iter()
+        .enumerate()
+        .map(|(i, c)| {
+            check_value(i, c)?;
+            Ok(compare_one(
+                fit.delta_h_at(c.t_k),
+                c,
+                fit.options().level,
+                range,
+                fit.is_extrapolation(c.t_k),
+            ))
+        })
+        .collect()
+}
+
+/// As [`compare_calorimetric`], against series `series` (0-based) of a joint fit: its
+/// ΔH°(T) with the SE from the joint covariance, so a shared ΔCp° carries the
+/// information of every series into the comparison.
+///
+/// # Errors
+/// As [`compare_calorimetric`]; [`Error::NoSolution`] for a series not in the fit.
+pub fn compare_calorimetric_series(
+    fit: &GlobalFit,
+    series: usize,
+    values: &[CalorimetricValue],
+) -> Result<Vec<CalorimetricComparison>, Error> {
+    let range = fit.t_range_k(series).ok_or_else(|| {
+        Error::NoSolution(format!("series {} is not in the joint fit", series + 1))
+    })?;
+    let tol = crate::derived::EXTRAPOLATION_RELATIVE_TOLERANCE;
+    values
+        .iter()
+        .enumerate()
+        .map(|(i, c)| {
+            check_value(i, c)?;
+            let vh = fit.delta_h_at(series, c.t_k).ok_or_else(|| {
+                Error::NoSolution(format!("series {} is not in the joint fit", series + 1))
+            })?;
+            let extrapolated = c.t_k < range.0 * (1.0 - tol) || c.t_k > range.1 * (1.0 + tol);
+            Ok(compare_one(vh, c, fit.options().level, range, extrapolated))
+        })
+        .collect()
+}
+
+fn check_value(i: usize, c: &CalorimetricValue) -> Result<(), Error> {
+    if !(c.t_k.is_finite() && c.t_k > 0.0) {
+        return Err(Error::NoSolution(format!(
+            "calorimetric value {}: the temperature must be above 0 K",
+            i + 1
+        )));
     }
-    Ok(out)
+    if !c.delta_h.is_finite() || !c.u.is_finite() || c.u < 0.0 {
+        return Err(Error::NoSolution(format!(
+            "calorimetric value {}: ΔH_cal must be a number and its uncertainty a number ≥ 0",
+            i + 1
+        )));
+    }
+    Ok(())
+}
+
+/// One comparison: `vh` is the van 't Hoff ΔH° at the value's temperature, `range` the
+/// fitted temperatures (K) for the extrapolation note.
+fn compare_one(
+    vh: Estimate,
+    c: &CalorimetricValue,
+    level: f64,
+    range: (f64, f64),
+    extrapolated: bool,
+) -> CalorimetricComparison {
+    let z_crit = normal_quantile(0.5 + level / 2.0);
+    let se = (vh.se * vh.se + c.u * c.u).sqrt();
+    let d = vh.value - c.delta_h;
+    let difference = Estimate::symmetric(d, se, z_crit);
+    let z = if se > 0.0 { d / se } else { f64::NAN };
+    let p_value = chi2_upper_tail(z * z, 1.0).unwrap_or(f64::NAN);
+    let ratio = vh.value / c.delta_h;
+    let ratio_ci = fieller(vh.value, vh.se, c.delta_h, c.u, z_crit);
+    let pct = crate::vant_hoff::comparison_percent(level);
+    let ratio_words = match ratio_ci {
+        Some((lo, hi)) => format!("ratio ΔH_vH/ΔH_cal = {ratio:.3} ({pct}% Fieller interval {lo:.3} to {hi:.3})"),
+        None => format!("ratio ΔH_vH/ΔH_cal = {ratio:.3} (its Fieller interval is unbounded: ΔH_cal is not clearly different from zero)"),
+    };
+    let agree = if p_value < 1.0 - level {
+        "the two enthalpies differ"
+    } else {
+        "no evidence that the two enthalpies differ"
+    };
+    let mut verdict = format!(
+        "at {:.2} K, {agree} (ΔH_vH − ΔH_cal = {:.2} ± {:.2} kJ/mol, z = {z:.2}, {}); {ratio_words}",
+        c.t_k,
+        d / 1000.0,
+        se / 1000.0,
+        crate::vant_hoff::format_p(p_value)
+    );
+    if extrapolated {
+        verdict.push_str(&format!(
+            "; {:.2} K lies outside the fitted temperatures ({:.2} to {:.2} K), so ΔH_vH there is an extrapolation that rests on the model's ΔCp°",
+            c.t_k, range.0, range.1
+        ));
+    }
+    verdict.push_str("; ");
+    verdict.push_str(COUPLED_EQUILIBRIA_CAUTION);
+    CalorimetricComparison {
+        calorimetric: *c,
+        van_t_hoff: vh,
+        difference,
+        z,
+        p_value,
+        ratio,
+        ratio_ci,
+        extrapolated,
+        verdict,
+    }
 }
 
 /// Fieller's interval for a/b with independent a ± sa, b ± sb at critical value `z`:

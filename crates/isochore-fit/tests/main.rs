@@ -10,6 +10,7 @@ mod garbage_in;
 mod global;
 mod global_combos;
 mod global_exact;
+mod global_region;
 mod handbook;
 mod hostile;
 mod known_answers;

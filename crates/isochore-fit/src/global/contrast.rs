@@ -52,7 +52,7 @@ impl GlobalFit {
 
     /// A model coefficient row (over the model's parameters) for series `s`, spread over
     /// the columns of the block design.
-    fn spread(&self, s: usize, row: &[f64]) -> Option<Vec<f64>> {
+    pub(super) fn spread(&self, s: usize, row: &[f64]) -> Option<Vec<f64>> {
         let cols = self.column_of.get(s)?;
         let mut c = vec![0.0; self.estimates.len()];
         for (k, &col) in cols.iter().enumerate() {
@@ -192,7 +192,7 @@ impl GlobalFit {
     }
 
     /// aᵀΣb over the columns.
-    fn cross_covariance(&self, a: &[f64], b: &[f64]) -> f64 {
+    pub(super) fn cross_covariance(&self, a: &[f64], b: &[f64]) -> f64 {
         let mut c = 0.0;
         for (i, ai) in a.iter().enumerate() {
             for (j, bj) in b.iter().enumerate() {

@@ -41,6 +41,7 @@ mod contrast;
 mod design;
 mod equality;
 mod error;
+mod region;
 mod result;
 
 pub use compensation::{compensation, exner_test, Compensation, CompensationPoint, ExnerTest};
@@ -48,6 +49,7 @@ pub use contrast::SeriesDifference;
 pub use design::GlobalColumn;
 pub use equality::{test_equal_across_series, EqualityMethod, EqualityTest};
 pub use error::GlobalError;
+pub use region::MAX_REGION_VERTICES;
 pub use result::GlobalFit;
 
 use crate::diagnostics::{diagnose_one, DiagnosticsSummary, PointContext};
