@@ -302,35 +302,79 @@ impl VantHoffFit {
     /// # Errors
     /// [`Error::InvalidLevel`]; [`Error::NoSolution`] if the covariance is degenerate.
     pub fn ellipse(&self, level: f64, n_vertices: usize) -> Result<Vec<[f64; 2]>, Error> {
+        let p = self.n_params();
+        let (mut a, mut b) = (vec![0.0; p], vec![0.0; p]);
+        a[0] = 1.0;
+        b[1] = 1.0;
+        self.region(&a, &b, level, n_vertices, "ΔH°–ΔS°")
+    }
+
+    /// The joint confidence region of ΔH° and ΔG° at the harmonic-mean temperature T_hm,
+    /// as a closed polygon (J/mol for both), with the radius of [`VantHoffFit::ellipse`].
+    ///
+    /// For the linear model ΔG°(T_hm) is uncorrelated with ΔH° (Krug, Hunter & Grieger
+    /// 1976), so this region is an upright ellipse whose widths are the two intervals,
+    /// readable where the ΔH°–ΔS° one is a needle.
+    ///
+    /// # Errors
+    /// As [`VantHoffFit::ellipse`].
+    pub fn h_g_region(&self, level: f64, n_vertices: usize) -> Result<Vec<[f64; 2]>, Error> {
+        let (t, theta) = (self.t_harmonic_k(), self.options.t_ref_k);
+        let model = self.model();
+        self.region(
+            &model.delta_h_row(t, theta),
+            &model.delta_g_row(t, theta),
+            level,
+            n_vertices,
+            "ΔH°–ΔG°",
+        )
+    }
+
+    /// The joint region of the linear combinations a·β and b·β (see [`VantHoffFit::ellipse`]).
+    fn region(
+        &self,
+        ga: &[f64],
+        gb: &[f64],
+        level: f64,
+        n_vertices: usize,
+        what: &str,
+    ) -> Result<Vec<[f64; 2]>, Error> {
         check_level(level)?;
         let radius2 = if self.options.convention == SigmaConvention::Absolute && self.weighted {
             chi2_quantile(level, 2.0)
         } else {
             2.0 * f_quantile(level, 2.0, self.dof as f64)
         };
-        let (a, b, c) = (
-            self.covariance[0][0],
-            self.covariance[0][1],
-            self.covariance[1][1],
-        );
+        let a = self.quadratic_form(ga);
+        let c = self.quadratic_form(gb);
+        let p = self.n_params();
+        let mut b = 0.0;
+        for i in 0..p {
+            for j in 0..p {
+                b += ga[i] * self.covariance[i][j] * gb[j];
+            }
+        }
         // Cholesky of [[a, b], [b, c]].
         let l11 = a.sqrt();
         let l21 = b / l11;
         let l22_sq = c - l21 * l21;
         if !(radius2.is_finite() && l11 > 0.0 && l22_sq >= 0.0) {
-            return Err(Error::NoSolution(
-                "the ΔH°–ΔS° covariance is degenerate; no confidence ellipse can be drawn".into(),
-            ));
+            return Err(Error::NoSolution(format!(
+                "the {what} covariance is degenerate; no confidence ellipse can be drawn"
+            )));
         }
         let l22 = l22_sq.sqrt();
         let r = radius2.sqrt();
-        let (h0, s0) = (self.delta_h().value, self.delta_s().value);
+        let (x0, y0) = (
+            self.linear_estimate(ga).value,
+            self.linear_estimate(gb).value,
+        );
         let n = n_vertices.clamp(8, MAX_ELLIPSE_VERTICES);
         Ok((0..n)
             .map(|i| {
                 let ang = std::f64::consts::TAU * i as f64 / n as f64;
                 let (u, v) = (r * ang.cos(), r * ang.sin());
-                [h0 + l11 * u, s0 + l21 * u + l22 * v]
+                [x0 + l11 * u, y0 + l21 * u + l22 * v]
             })
             .collect())
     }

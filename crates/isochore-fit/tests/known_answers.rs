@@ -367,3 +367,50 @@ fn temperature_for_k_finds_the_root_nearest_the_data() {
     // Above the peak there is no solution.
     assert!(f.temperature_for_k((peak + 0.1).exp()).is_err());
 }
+
+#[test]
+fn h_g_region_is_upright_for_the_linear_model_and_sized_by_the_two_ses() {
+    // Krug, Hunter & Grieger (1976): for the linear model ΔG°(T_hm) is uncorrelated with
+    // ΔH°, with T_hm = Σw/Σ(w/T). So the region is an upright ellipse whose half-widths
+    // are √(radius²)·SE(ΔH°) and √(radius²)·SE(ΔG°(T_hm)), the radius being that of the
+    // ΔH°–ΔS° ellipse (2·F(0.95; 2, n − p), computed from the first region's own points).
+    let f = fit(&curved(), &options(Model::LINEAR)).unwrap();
+    let g = f.delta_g(f.t_harmonic_k());
+    let h = f.delta_h();
+    let poly = f.h_g_region(0.95, 400).unwrap();
+    let (xmin, xmax) = poly
+        .iter()
+        .fold((f64::MAX, f64::MIN), |(a, b), v| (a.min(v[0]), b.max(v[0])));
+    let (ymin, ymax) = poly
+        .iter()
+        .fold((f64::MAX, f64::MIN), |(a, b), v| (a.min(v[1]), b.max(v[1])));
+    // The ΔH° extent of the ΔH°–ΔS° ellipse is √(radius²)·SE(ΔH°) as well.
+    let hs = f.ellipse(0.95, 400).unwrap();
+    let hs_half = hs
+        .iter()
+        .map(|v| (v[0] - h.value).abs())
+        .fold(0.0, f64::max);
+    let r = hs_half / h.se;
+    assert!(((xmax - xmin) / 2.0 - r * h.se).abs() < 1e-9 * h.se * r);
+    // A 400-gon's extent is the ellipse's to cos(π/400) (y extent is not at a vertex).
+    assert!(((ymax - ymin) / 2.0 / (r * g.se) - 1.0).abs() < 1e-4);
+    // Upright: the vertex of largest ΔH° sits at the centre's ΔG°.
+    let right = poly
+        .iter()
+        .cloned()
+        .fold([f64::MIN, 0.0], |m, v| if v[0] > m[0] { v } else { m });
+    assert!(
+        (right[1] - g.value).abs() < 1e-6 * g.se,
+        "{} vs {}",
+        right[1],
+        g.value
+    );
+    // For the ΔCp° model the region still centres on the two estimates.
+    let c = fit(&curved(), &options(Model::CONSTANT_CP)).unwrap();
+    let t = c.t_harmonic_k();
+    let poly = c.h_g_region(0.95, 64).unwrap();
+    let cx = poly.iter().map(|v| v[0]).sum::<f64>() / 64.0;
+    let cy = poly.iter().map(|v| v[1]).sum::<f64>() / 64.0;
+    assert!((cx - c.delta_h_at(t).value).abs() < 1e-6 * c.delta_h_at(t).se);
+    assert!((cy - c.delta_g(t).value).abs() < 1e-6 * c.delta_g(t).se);
+}
