@@ -38,6 +38,7 @@ pub mod calorimetric;
 pub mod derived;
 pub mod diagnostics;
 pub mod error;
+pub mod errors_in_t;
 mod fast;
 pub mod global;
 pub mod influence;

@@ -4,6 +4,7 @@ mod calorimetric;
 mod clarke_glew;
 mod common;
 mod compensation;
+mod errors_in_t;
 mod extension;
 mod fieller;
 mod garbage_in;
