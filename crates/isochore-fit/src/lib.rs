@@ -42,6 +42,7 @@ pub mod errors_in_t;
 mod fast;
 pub mod global;
 pub mod influence;
+pub mod intervals;
 pub mod least_squares;
 pub mod measurement;
 pub mod model;

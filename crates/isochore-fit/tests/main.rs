@@ -1,5 +1,6 @@
 //! The one integration-test binary of this crate: each module is a former test file.
 
+mod bca_scipy;
 mod calorimetric;
 mod clarke_glew;
 mod common;
@@ -14,6 +15,8 @@ mod global_exact;
 mod global_region;
 mod handbook;
 mod hostile;
+mod interval_coverage;
+mod intervals;
 mod known_answers;
 mod known_sigma;
 mod nist_strd;
