@@ -228,13 +228,18 @@ pub struct PredictArgs {
         value_name = "T",
         value_delimiter = ',',
         allow_hyphen_values = true,
-        required_unless_present = "for_k",
+        required_unless_present_any = ["for_k", "for_value"],
         value_parser = parse_temperature
     )]
     pub at: Vec<TypedTemperature>,
     /// Also find the temperature at which K reaches this value (dimensionless K).
-    #[arg(long, value_name = "K")]
+    #[arg(long, value_name = "K", conflicts_with = "for_value")]
     pub for_k: Option<f64>,
+    /// Also find the temperature at which the file's own quantity reaches this value, in
+    /// the file's unit: a K_d in the K_d column's unit (e.g. 150 for 150 nM), a pKa, a
+    /// log K or a K. Not for a ΔG° file (a ΔG° target is a different K at each T).
+    #[arg(long, value_name = "VALUE", allow_hyphen_values = true)]
+    pub for_value: Option<f64>,
     /// Fit options.
     #[command(flatten)]
     pub fit: FitOptionsArgs,

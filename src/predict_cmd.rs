@@ -34,18 +34,19 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
         }
     }
     let jobs = load(&a.file, &a.fit, false).map_err(Failure::input)?;
-    let mut fits: Vec<(Job, VantHoffFit)> = Vec::new();
+    let mut fits: Vec<(Job, VantHoffFit, Option<f64>)> = Vec::new();
     for job in jobs {
         let fit = fit_job(&job).map_err(Failure::input)?;
-        fits.push((job, fit));
+        let for_k = target_k(a, &job)?;
+        fits.push((job, fit, for_k));
     }
     let mut out = output::stdout(if a.json { Style::Json } else { Style::Text });
     let io = output::stdout_failure;
     if a.json {
         let docs: Vec<PredictJson> = fits
             .iter()
-            .map(|(job, fit)| {
-                PredictJson::new(job, fit, &temps_k, a.for_k, |t| {
+            .map(|(job, fit, for_k)| {
+                PredictJson::new(job, fit, &temps_k, *for_k, |t| {
                     format!("at {} K", sig(t, 6))
                 })
             })
@@ -58,7 +59,7 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
         writeln!(out).map_err(io)?;
         return out.flush().map_err(io);
     }
-    for (job, fit) in &fits {
+    for (job, fit, for_k) in &fits {
         let e = job.energy;
         let ef = e.joules_per_mole();
         let (sf, s_unit) = entropy_unit(e);
@@ -148,7 +149,7 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
                 writeln!(out, "  warning: {w}").map_err(io)?;
             }
         }
-        if let Some(k) = a.for_k {
+        if let Some(k) = *for_k {
             // "K_d = 10.00 nM (K = 1.000 × 10⁸)": the target also in the file's quantity.
             let target = if matches!(job.quantity, QuantityKind::K | QuantityKind::DeltaG(_)) {
                 format!("K = {}", times_ten(k, 4))
@@ -190,4 +191,30 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
         }
     }
     out.flush().map_err(io)
+}
+
+/// The target K of `--for-k`, or of `--for-value` read in the file's own quantity (a K_d
+/// in its column's unit, a pKa, a log K) and turned into K by the importer's rule.
+fn target_k(a: &PredictArgs, job: &Job) -> Result<Option<f64>, Failure> {
+    let Some(v) = a.for_value else {
+        return Ok(a.for_k);
+    };
+    if let QuantityKind::DeltaG(_) = job.quantity {
+        return Err(Failure::usage(
+            "--for-value cannot be used with a ΔG° file: a ΔG° target is a different K at \
+             each temperature; give the target as --for-k",
+        ));
+    }
+    // T only matters for ΔG°, refused above.
+    job.quantity
+        .to_ln_k(v, 298.15)
+        .map(|ln_k| Some(ln_k.exp()))
+        .ok()
+        .filter(|k| k.is_some_and(|k| k.is_finite() && k > 0.0))
+        .ok_or_else(|| {
+            Failure::usage(format!(
+                "--for-value {v} is not a possible {} (it must give a positive, finite K)",
+                quantity::quantity_symbol(job.quantity, &job.quantity_header)
+            ))
+        })
 }

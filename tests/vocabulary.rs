@@ -216,7 +216,28 @@ fn results_come_back_in_the_files_own_quantity() {
         "{text}"
     );
 
+    // The target can be typed in the file's own quantity: K_d = 100 nM is K = 10⁷
+    // (K = c°/K_d, c° = 1 M = 10⁹ nM), so the same temperature as --for-k 1e7.
+    let by_value = text_of(&["predict", &binding, "--at", "25C", "--for-value", "100"]);
+    let line = |t: &str| {
+        t.lines()
+            .find(|l| l.starts_with("temperature where"))
+            .map(str::to_string)
+            .unwrap_or_else(|| panic!("no target line in\n{t}"))
+    };
+    assert_eq!(line(&by_value), line(&text));
+    // A pKa target: pKa 5 is K = 10⁻⁵ (pK = −log₁₀ K, definition), the same line as --for-k.
     let acid = demo("acid_pka.csv");
+    let by_pka = text_of(&["predict", &acid, "--at", "25C", "--for-value", "5"]);
+    let by_k = text_of(&["predict", &acid, "--at", "25C", "--for-k", "1e-5"]);
+    assert_eq!(line(&by_pka), line(&by_k));
+    assert!(line(&by_pka).contains("pKa = 5.000"), "{by_pka}");
+    // A K_d of zero is no K at all: a usage error in words, exit 2.
+    let out = run(&["predict", &binding, "--at", "25C", "--for-value", "0"]);
+    assert_eq!(out.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("--for-value 0 is not a possible K_d"), "{err}");
+
     let text = text_of(&["predict", &acid, "--at", "25C"]);
     let j = json_of(&run(&["predict", &acid, "--at", "25C", "--json"]));
     let ln_k = j["predictions"][0]["ln_k"]["value"]
