@@ -14,7 +14,8 @@ use std::str::FromStr;
 /// The roles a column can be chosen for, in words (for messages and help texts).
 pub const COLUMN_ROLES: &str = "temperature (or T, 'T (K)', 'T (°C)'), the measured quantity \
 (K, ln K, log K, pKa, 'Kd (nM)', 'ΔG (kJ/mol)', …, or value to take the kind from the \
-column's header), sigma (or u(pKa), 'RSD (%)'), series, note";
+column's header), sigma (or u(pKa), 'RSD (%)'), sigma-t (the temperature's uncertainty σ(T), \
+in the temperature column's unit; or u(T)), series, note";
 
 /// Which column a choice names.
 #[derive(Debug, Clone, PartialEq, Eq)]
@@ -35,6 +36,8 @@ enum Role {
     Quantity(Option<QuantityKind>),
     /// The uncertainty as its role text reads (`sigma`, `u(pKa)`, `RSD (%)`).
     Uncertainty(Class),
+    /// The temperature's standard uncertainty σ(T).
+    TemperatureUncertainty,
     Series,
     Note,
 }
@@ -45,6 +48,7 @@ impl Role {
             Role::Temperature(_) => "temperature",
             Role::Quantity(_) => "measured quantity",
             Role::Uncertainty(_) => "uncertainty",
+            Role::TemperatureUncertainty => "temperature uncertainty σ(T)",
             Role::Series => "data set (series)",
             Role::Note => "note",
         }
@@ -57,6 +61,10 @@ impl Role {
             (Role::Temperature(_), Class::Temp(_))
                 | (Role::Quantity(_), Class::Quantity(_))
                 | (Role::Uncertainty(_), Class::Uncertainty { .. })
+                | (
+                    Role::TemperatureUncertainty,
+                    Class::TempUncertainty { chosen: true }
+                )
                 | (Role::Series, Class::Series | Class::Label)
                 | (Role::Note, Class::Note)
         )
@@ -131,12 +139,19 @@ fn parse_role(t: &str) -> Result<Role, String> {
     if matches!(n.as_str(), "value" | "quantity" | "measured") {
         return Ok(Role::Quantity(None));
     }
+    if matches!(
+        n.as_str(),
+        "sigma-t" | "sigma_t" | "sigmat" | "sigma t" | "σt" | "σ-t" | "u-t" | "u_t"
+    ) {
+        return Ok(Role::TemperatureUncertainty);
+    }
     match classify(t) {
         Class::Temp(u) => Ok(Role::Temperature(u)),
         Class::Quantity(k) => Ok(Role::Quantity(Some(k))),
         c @ Class::Uncertainty { .. } => Ok(Role::Uncertainty(c)),
         Class::Series | Class::Label => Ok(Role::Series),
         Class::Note => Ok(Role::Note),
+        Class::TempUncertainty { .. } => Ok(Role::TemperatureUncertainty),
         Class::Ignored | Class::Unknown => Err(format!(
             "'{t}' is not a column role (a quantity needs its unit where it has one, e.g. 'Kd (nM)'); roles: {COLUMN_ROLES}"
         )),
@@ -228,6 +243,7 @@ pub(crate) fn apply(
                     u.clone()
                 }
             }
+            Role::TemperatureUncertainty => Class::TempUncertainty { chosen: true },
             Role::Series => Class::Series,
             Role::Note => Class::Note,
         };
@@ -352,6 +368,68 @@ mod tests {
             "series=none".parse::<ColumnChoice>().unwrap().column(),
             &ColumnRef::Nothing
         );
+    }
+
+    #[test]
+    fn a_temperature_uncertainty_is_used_only_when_chosen() {
+        let text = "T (°F),pKa,u(T)\n50,7.6,0.18\n68,7.5,0.18\n86,7.4,0.36\n";
+        // Read from its header alone, u(T) is kept but not used (as before the role).
+        let imp = import_text("x.csv", text, &ImportOptions::default()).unwrap();
+        assert_eq!(imp.mapping.temperature_uncertainty, None);
+        assert_eq!(imp.mapping.unused_columns(&imp.headers), vec!["u(T)"]);
+        for choice in ["sigma-t=u(T)", "sigma_t=3", "u(T)=3", "σ(T)=u(T)"] {
+            let imp = import_text("x.csv", text, &choose(&[choice])).unwrap();
+            assert_eq!(imp.mapping.temperature_uncertainty, Some(2), "{choice}");
+            assert!(imp.mapping.unused_columns(&imp.headers).is_empty());
+            let d = imp.mapping.describe(&imp.headers);
+            assert!(
+                d.iter().any(|l| l.contains("σ(T) in °F, × 5/9 to K")),
+                "{d:?}"
+            );
+        }
+        let imp = import_text("x.csv", text, &choose(&["sigma-t=3", "sigma-t=none"])).unwrap();
+        assert_eq!(imp.mapping.temperature_uncertainty, None);
+        // A column cannot be both σ(ln K) and σ(T).
+        let e = import_text("x.csv", text, &choose(&["sigma=3", "sigma-t=3"])).unwrap_err();
+        assert!(e.to_string().contains("chosen twice"), "{e}");
+    }
+
+    #[test]
+    fn sigma_t_in_kelvin_and_bad_cells_named() {
+        // °F: a difference of 0.18 °F is 0.1 K (5/9, SI Brochure's definition of the scale).
+        let text = "T (°F),pKa,u(T)\n50,7.6,0.18\n68,7.5,0.18\n86,7.4,0.36\n";
+        let imp = import_text("x.csv", text, &choose(&["sigma-t=u(T)"])).unwrap();
+        let s = imp.data_sets_with_cells()[0].sigma_t_k().unwrap().unwrap();
+        for (got, want) in s.iter().zip([0.1, 0.1, 0.2]) {
+            assert!((got - want).abs() < 1e-15, "{got}");
+        }
+        // The reader's rows alone cannot give σ(T): said, not guessed.
+        assert!(imp.series[0].sigma_t_k().is_err());
+        // °C: the same number in K.
+        let text = "T (°C),pKa,u(T)\n10,7.6,0.1\n20,7.5,0.1\n30,7.4,0.2\n";
+        let imp = import_text("x.csv", text, &choose(&["sigma-t=3"])).unwrap();
+        let s = imp.data_sets_with_cells()[0].sigma_t_k().unwrap().unwrap();
+        assert_eq!(s, vec![0.1, 0.1, 0.2]);
+        for (cell, words) in [
+            ("", "empty"),
+            ("0", "zero or negative"),
+            ("-0.1", "zero or negative"),
+            ("NaN", ""),
+        ] {
+            let text = format!("T (°C),pKa,u(T)\n10,7.6,0.1\n20,7.5,{cell}\n30,7.4,0.2\n");
+            let imp = import_text("x.csv", &text, &choose(&["sigma-t=3"])).unwrap();
+            let e = imp.data_sets_with_cells()[0]
+                .sigma_t_k()
+                .unwrap_err()
+                .to_string();
+            assert!(
+                e.contains("line 3, column 3 ('u(T)')") && e.contains(words),
+                "{cell:?}: {e}"
+            );
+        }
+        // Without the role there is no σ(T).
+        let imp = import_text("x.csv", text, &ImportOptions::default()).unwrap();
+        assert_eq!(imp.data_sets_with_cells()[0].sigma_t_k().unwrap(), None);
     }
 
     #[test]

@@ -19,7 +19,7 @@
 
 use crate::error::{Error, RejectedRow};
 use crate::import::{make_points, Point, Replicates, Row, SourceInfo};
-use crate::mapping::{convert_cells, ColumnMapping};
+use crate::mapping::{convert_cells, convert_sigma_t, ColumnMapping};
 use isochore_fit::{EnergyUnit, FitOptions, Measurement, QuantityKind, TemperatureUnit};
 use serde::{Deserialize, Serialize};
 use std::borrow::Cow;
@@ -232,6 +232,49 @@ impl DataSet {
             }
         }
         Ok(Cow::Owned(out))
+    }
+
+    /// The temperature uncertainty σ(T) of every row in kelvin, in row order, when the
+    /// mapping has a σ(T) column ([`ColumnMapping::temperature_uncertainty`]); `None`
+    /// without one. Read from the cells as typed, in the temperature column's unit (°C and
+    /// K alike, °F × 5/9).
+    ///
+    /// # Errors
+    /// [`Error::ProjectRow`] naming the row, line and column of the first σ(T) cell that is
+    /// empty, not a finite number, or ≤ 0; [`Error::InvalidMapping`] for a data set that holds
+    /// the reader's rows without their cells (read it with its cells:
+    /// [`crate::Import::data_sets_with_cells`]).
+    pub fn sigma_t_k(&self) -> Result<Option<Vec<f64>>, Error> {
+        if self.mapping.temperature_uncertainty.is_none() {
+            return Ok(None);
+        }
+        if !self.has_cells() && !self.read.is_empty() {
+            return Err(Error::InvalidMapping {
+                file: self.source.name.clone(),
+                message: "the temperature uncertainty σ(T) is read from the cells as typed; read the file with its cells".to_string(),
+            });
+        }
+        let mut out = Vec::with_capacity(self.rows.len());
+        for (i, r) in self.rows.iter().enumerate() {
+            let cell = |c: usize| r.cells.get(c).map(String::as_str).unwrap_or("");
+            match convert_sigma_t(&self.mapping, self.decimal_comma, cell) {
+                Ok(v) => out.push(v.unwrap_or(f64::NAN)),
+                Err((col, problem)) => {
+                    return Err(Error::ProjectRow {
+                        series: self.name.clone(),
+                        row: i + 1,
+                        rejected: Box::new(RejectedRow {
+                            line: r.line,
+                            column: Some(col + 1),
+                            header: self.headers.get(col).cloned(),
+                            cell: Some(cell(col).trim().to_string()),
+                            problem,
+                        }),
+                    })
+                }
+            }
+        }
+        Ok(Some(out))
     }
 
     /// The note cell of a row (trimmed), when the file has a note column and the cell is

@@ -49,6 +49,11 @@ pub(crate) enum Class {
     /// `name`, `label`, `run`: the data-set column unless a `series`-like column exists.
     Label,
     Note,
+    /// A temperature uncertainty (`u(T)`, `σ(T)`): kept but not used unless a column choice
+    /// gave it the σ(T) role (`chosen`).
+    TempUncertainty {
+        chosen: bool,
+    },
     Ignored,
     Unknown,
 }
@@ -423,7 +428,7 @@ fn uncertainty_of(inner: &str, unit: Option<String>, mut relative: bool) -> Clas
         relative = true;
     }
     if of == Some(Fam::Temp) {
-        return Class::Ignored;
+        return Class::TempUncertainty { chosen: false };
     }
     if matches!(of, Some(Fam::Series | Fam::Label | Fam::Note)) {
         return Class::Unknown;
@@ -560,6 +565,7 @@ pub(crate) fn detect(
     let mut series = Vec::new();
     let mut labels = Vec::new();
     let mut notes = Vec::new();
+    let mut sigma_t = Vec::new();
     let mut ignored = Vec::new();
     for (i, c) in classes.iter().enumerate() {
         match c {
@@ -571,7 +577,8 @@ pub(crate) fn detect(
             Class::Series => series.push(i),
             Class::Label => labels.push(i),
             Class::Note => notes.push(i),
-            Class::Ignored => ignored.push(i),
+            Class::TempUncertainty { chosen: true } => sigma_t.push(i),
+            Class::TempUncertainty { chosen: false } | Class::Ignored => ignored.push(i),
             Class::Unknown => {
                 if let Some(e) = unit_error(&headers[i], file, line, i) {
                     return Err(e);
@@ -665,6 +672,7 @@ pub(crate) fn detect(
             uncertainty,
             series: series.first().copied(),
             note: notes.first().copied(),
+            temperature_uncertainty: sigma_t.first().copied(),
             ignored,
         },
         temperature_unit_known: tunit.is_some(),
@@ -852,7 +860,7 @@ mod tests {
             ("note", Class::Note),
             ("Comment", Class::Note),
             ("", Class::Ignored),
-            ("u(T)", Class::Ignored),
+            ("u(T)", Class::TempUncertainty { chosen: false }),
             ("Absorbance", Class::Unknown),
         ];
         for (h, want) in cases {

@@ -72,6 +72,13 @@ pub struct ColumnMapping {
     /// A free-text note column.
     #[serde(default)]
     pub note: Option<usize>,
+    /// The standard uncertainty of the temperature, σ(T), in the temperature column's unit
+    /// (a difference: a σ in °C is the same number in K, one in °F is 5/9 of it in K). Only
+    /// a column choice gives this role (`sigma-t=u(T)`); a `u(T)` header alone is kept but
+    /// not used, so files read before the role existed fit as they did. Not written when
+    /// absent, so older project files save back the same.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub temperature_uncertainty: Option<usize>,
     /// Columns deliberately not used: empty headers, temperature uncertainties, headers not
     /// recognised (kept with the data, see [`crate::ImportOptions::ignore_unknown_columns`]),
     /// and columns whose role a column choice gave to another.
@@ -100,6 +107,7 @@ impl ColumnMapping {
             uncertainty: None,
             series: None,
             note: None,
+            temperature_uncertainty: None,
             ignored: Vec::new(),
         }
     }
@@ -119,6 +127,9 @@ impl ColumnMapping {
         }
         if let Some(n) = self.note {
             used.push((n, "note"));
+        }
+        if let Some(c) = self.temperature_uncertainty {
+            used.push((c, "temperature uncertainty σ(T)"));
         }
         for (i, &(c, role)) in used.iter().enumerate() {
             if c >= n_columns {
@@ -161,6 +172,7 @@ impl ColumnMapping {
             self.uncertainty.map(|u| u.column),
             self.series,
             self.note,
+            self.temperature_uncertainty,
         ];
         headers
             .iter()
@@ -235,6 +247,19 @@ impl ColumnMapping {
         }
         if let Some(n) = self.note {
             out.push(format!("column {} '{}': free-text note", n + 1, h(n)));
+        }
+        if let Some(c) = self.temperature_uncertainty {
+            let conv = match t.unit {
+                TemperatureUnit::Fahrenheit => "× 5/9 to K (a temperature difference)",
+                TemperatureUnit::Celsius => "the same number in K (a temperature difference)",
+                TemperatureUnit::Kelvin => "used as is",
+            };
+            out.push(format!(
+                "column {} '{}': standard uncertainty of the temperature σ(T) in {}, {conv}",
+                c + 1,
+                h(c),
+                t.unit.symbol()
+            ));
         }
         for &c in &self.ignored {
             out.push(format!("column {} '{}': kept but not used", c + 1, h(c)));
@@ -545,6 +570,29 @@ pub(crate) fn convert_cells<'a>(
         ln_k,
         sigma_ln_k,
     })
+}
+
+/// The σ(T) cell of a row in kelvin, for a mapping with a temperature-uncertainty column
+/// (`None` without one). The cell is in the temperature column's unit; σ is a difference, so
+/// °C and K give the same number and °F is scaled by 5/9. An empty cell, a cell that is not
+/// a finite number, and σ(T) ≤ 0 are refused with the column at fault.
+pub(crate) fn convert_sigma_t<'a>(
+    mapping: &ColumnMapping,
+    comma_decimal: bool,
+    cell: impl Fn(usize) -> &'a str,
+) -> Result<Option<f64>, (usize, RowProblem)> {
+    let Some(c) = mapping.temperature_uncertainty else {
+        return Ok(None);
+    };
+    let s = parse_number(cell(c), comma_decimal).map_err(|p| (c, p))?;
+    if s <= 0.0 {
+        return Err((c, RowProblem::NonPositiveSigma));
+    }
+    let factor = match mapping.temperature.unit {
+        TemperatureUnit::Fahrenheit => 5.0 / 9.0,
+        TemperatureUnit::Celsius | TemperatureUnit::Kelvin => 1.0,
+    };
+    Ok(Some(s * factor))
 }
 
 fn fit_problem(e: isochore_fit::Error) -> RowProblem {
