@@ -28,6 +28,7 @@
 pub mod columns;
 pub mod dataset;
 pub mod files;
+pub mod intervals;
 pub mod joint;
 pub mod json;
 pub mod pair;

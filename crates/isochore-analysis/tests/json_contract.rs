@@ -93,7 +93,7 @@ fn undefined_numbers_are_null_and_named_in_a_warning() {
     let text = serde_json::to_string(&e).unwrap();
     assert_eq!(
         text,
-        r#"{"value":1.0,"se":null,"ci_low":null,"ci_high":3.0}"#
+        r#"{"value":1.0,"se":null,"ci_low":null,"ci_high":3.0,"method":"delta"}"#
     );
     let w = n.warning().unwrap();
     for name in [

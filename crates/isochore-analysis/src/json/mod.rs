@@ -13,6 +13,7 @@
 //! document in memory.
 
 pub mod calorimetric;
+pub mod intervals;
 pub mod joint;
 pub mod predict;
 pub mod two_point;
@@ -70,8 +71,20 @@ impl Nulls {
         (Some(value), out)
     }
 
-    /// An estimate under the rule of [`Nulls::stats`].
+    /// An estimate under the rule of [`Nulls::stats`], made by the delta method.
     pub fn estimate(&mut self, what: &str, e: &Estimate) -> EstimateJson {
+        self.estimate_with(what, e, "delta")
+    }
+
+    /// An estimate under the rule of [`Nulls::stats`], whose interval `method` made (a key
+    /// of `isochore_fit::intervals::IntervalMethod`: "delta", "fieller", "monte_carlo",
+    /// "bootstrap_percentile", "bootstrap_bca").
+    pub fn estimate_with(
+        &mut self,
+        what: &str,
+        e: &Estimate,
+        method: &'static str,
+    ) -> EstimateJson {
         let (value, [se, ci_low, ci_high]) = self.stats(
             what,
             e.value,
@@ -82,6 +95,7 @@ impl Nulls {
             se,
             ci_low,
             ci_high,
+            method,
         }
     }
 
@@ -120,6 +134,9 @@ pub struct EstimateJson {
     pub ci_low: Option<f64>,
     /// Upper confidence limit.
     pub ci_high: Option<f64>,
+    /// What made the interval: "delta", "fieller", "monte_carlo", "bootstrap_percentile",
+    /// "bootstrap_bca" (with Monte Carlo and the bootstrap, `se` is the SD of the draws).
+    pub method: &'static str,
 }
 
 impl EstimateJson {
@@ -197,6 +214,9 @@ pub struct TAtK1Json {
     pub ci_low: Option<f64>,
     /// Upper end of Fieller's interval, K; null where the interval is unbounded above.
     pub ci_high: Option<f64>,
+    /// What made the interval: "fieller" (its SE by the delta method), or the resampling
+    /// method's key with `--intervals`.
+    pub method: &'static str,
     /// Whether it lies outside the measured range.
     pub extrapolated: bool,
 }
@@ -321,6 +341,10 @@ pub struct FitJson<'a> {
     pub points: Option<PointsJson<'a>>,
     /// The temperature where K = 1.
     pub t_at_k1: Option<TAtK1Json>,
+    /// The Monte Carlo or bootstrap run that made the intervals (absent for the delta
+    /// method).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub intervals: Option<intervals::IntervalsJson>,
     /// Cautions in words: from reading, from the fit, and undefined values.
     pub warnings: Vec<String>,
     /// The program's version.
@@ -409,6 +433,7 @@ impl<'a> FitJson<'a> {
             // words; it is null here without a second "undefined" warning.
             ci_low: e.ci_low.is_finite().then_some(e.ci_low),
             ci_high: e.ci_high.is_finite().then_some(e.ci_high),
+            method: "fieller",
             extrapolated: fit.is_extrapolation(e.value),
         });
         let mut warnings = set.warnings.clone();
@@ -439,6 +464,7 @@ impl<'a> FitJson<'a> {
             model_comparison,
             points,
             t_at_k1,
+            intervals: None,
             warnings,
             version: VERSION,
         }

@@ -24,6 +24,8 @@ pub struct ValueJson {
     pub pi_low: Option<f64>,
     /// Prediction interval, upper end.
     pub pi_high: Option<f64>,
+    /// What made the intervals: "delta" (K's are the exponentials of ln K's).
+    pub method: &'static str,
 }
 
 fn value(n: &mut Nulls, what: &str, v: &ValuePrediction) -> ValueJson {
@@ -45,6 +47,7 @@ fn value(n: &mut Nulls, what: &str, v: &ValuePrediction) -> ValueJson {
         ci_high,
         pi_low,
         pi_high,
+        method: "delta",
     }
 }
 
@@ -145,7 +148,7 @@ impl<'a> PredictJson<'a> {
         let for_k = for_k.map(|k| match fit.temperature_for_k(k) {
             Ok(e) => ForKJson {
                 k,
-                t_k: Some(n.estimate("for_k.t_k", &e)),
+                t_k: Some(n.estimate_with("for_k.t_k", &e, "fieller")),
                 extrapolated: Some(fit.is_extrapolation(e.value)),
                 error: None,
             },

@@ -105,6 +105,30 @@ pub fn quantity_axis(symbol: &str, unit: &str) -> String {
 pub const DELTA_AICC_SIGN: &str =
     "ΔAICc = AICc(larger model) − AICc(smaller model); a negative ΔAICc favours the larger model";
 
+/// The name of what made an interval (issue 13), in the vocabulary of DEVELOPERS.md: "delta
+/// method", "Fieller", "Monte Carlo", "bootstrap percentile", "bootstrap BCa".
+pub fn interval_method(m: isochore_fit::intervals::IntervalMethod) -> &'static str {
+    use isochore_fit::intervals::IntervalMethod::*;
+    match m {
+        Delta => "delta method",
+        Fieller => "Fieller",
+        MonteCarlo => "Monte Carlo",
+        BootstrapPercentile => "bootstrap percentile",
+        BootstrapBca => "bootstrap BCa",
+    }
+}
+
+/// The name of a bootstrap scheme: "residuals (leverage-corrected)", "wild (Rademacher
+/// weights)", "cases".
+pub fn bootstrap_scheme(s: isochore_fit::intervals::BootstrapScheme) -> &'static str {
+    use isochore_fit::intervals::BootstrapScheme::*;
+    match s {
+        Residuals => "residuals (leverage-corrected)",
+        Wild => "wild (Rademacher weights)",
+        Cases => "cases",
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
