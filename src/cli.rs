@@ -213,6 +213,70 @@ pub struct FitArgs {
         allow_hyphen_values = true
     )]
     pub calorimetric: Option<Vec<String>>,
+
+    // ---- Intervals beyond the delta method (issue 13) ----
+    /// How the intervals are made: delta (the delta method; Fieller's interval for the
+    /// temperature where K = 1), monte-carlo (parametric Monte Carlo after GUM Supplement 1:
+    /// ln K drawn from the stated σ, scaled by the fit's residual SD when σ are relative
+    /// weights only, and refitted) or bootstrap (see --bootstrap-scheme). The text adds a
+    /// table of the resampled intervals beside the delta method's; the JSON's intervals
+    /// carry "method".
+    #[arg(long, value_enum, value_name = "METHOD", default_value = "delta")]
+    pub intervals: IntervalsArg,
+    /// Number of Monte Carlo or bootstrap draws, 1 to 1000000 (default 10000).
+    #[arg(long, value_name = "N", value_parser = parse_draws)]
+    pub draws: Option<usize>,
+    /// Seed of the random-number generator, a whole number from 0 to 18446744073709551615
+    /// (default 1); the same seed gives the same intervals on any machine and is recorded
+    /// in the JSON.
+    #[arg(long, value_name = "S", value_parser = parse_seed)]
+    pub seed: Option<u64>,
+    /// How the bootstrap makes new data: residuals (leverage-corrected residuals drawn with
+    /// replacement; default), wild (each residual kept at its point with a random sign,
+    /// Rademacher weights) or cases (points drawn with replacement; warned about below 20
+    /// points).
+    #[arg(long, value_enum, value_name = "SCHEME")]
+    pub bootstrap_scheme: Option<SchemeArg>,
+}
+
+/// The values of `--intervals`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum IntervalsArg {
+    /// The delta method (the default).
+    Delta,
+    /// Parametric Monte Carlo (GUM Supplement 1).
+    MonteCarlo,
+    /// The bootstrap.
+    Bootstrap,
+}
+
+/// The values of `--bootstrap-scheme`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum SchemeArg {
+    /// Leverage-corrected residuals, resampled.
+    Residuals,
+    /// The wild bootstrap with Rademacher weights.
+    Wild,
+    /// Points resampled.
+    Cases,
+}
+
+/// `--draws`: a whole number from 1 to `isochore_fit::intervals::MAX_DRAWS`.
+fn parse_draws(s: &str) -> Result<usize, String> {
+    let max = isochore_fit::intervals::MAX_DRAWS;
+    match s.trim().parse::<u64>() {
+        Ok(0) => Err("at least 1 draw is needed (10000 are usually plenty)".to_string()),
+        Ok(n) if n > max as u64 => Err(format!("at most {max} draws are allowed")),
+        Ok(n) => Ok(n as usize),
+        Err(_) => Err(format!("'{s}' is not a whole number of draws, e.g. 10000")),
+    }
+}
+
+/// `--seed`: a whole number from 0 to 2⁶⁴ − 1.
+fn parse_seed(s: &str) -> Result<u64, String> {
+    s.trim().parse::<u64>().map_err(|_| {
+        format!("'{s}' is not a seed: give a whole number from 0 to 18446744073709551615")
+    })
 }
 
 /// `vhfit predict`.
@@ -441,6 +505,19 @@ mod tests {
             .unwrap()
             .kelvin(TempArg::C, "--tref")
             .is_err());
+    }
+
+    #[test]
+    fn draws_and_seeds() {
+        assert_eq!(parse_draws("10000"), Ok(10_000));
+        assert!(parse_draws("0").unwrap_err().contains("at least 1"));
+        assert!(parse_draws("1000001")
+            .unwrap_err()
+            .contains("at most 1000000"));
+        assert!(parse_draws("1e4").is_err());
+        assert_eq!(parse_seed("18446744073709551615"), Ok(u64::MAX));
+        assert!(parse_seed("-1").unwrap_err().contains("not a seed"));
+        assert!(parse_seed("abc").is_err());
     }
 
     #[test]

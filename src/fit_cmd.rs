@@ -96,10 +96,20 @@ fn error_entry(
 /// Every input is read and fitted before anything is written, and the report files are
 /// checked (no input, nothing isochore did not write) before the first one is written.
 pub fn run(a: &FitArgs) -> Result<(), Failure> {
+    let intervals = crate::intervals_cmd::request(a).map_err(Failure::usage)?;
+    let resampled = intervals.choice != isochore_analysis::intervals::IntervalChoice::Delta;
+    if resampled && (a.share.is_some() || a.calorimetric.is_some()) {
+        return Err(Failure::usage(
+            "--intervals monte-carlo or bootstrap is not available with --share or --calorimetric yet; use the delta method there",
+        ));
+    }
     if let Some(keys) = &a.share {
         return crate::joint_cmd::run(a, keys);
     }
     let calorimetric = crate::calorimetric_cmd::values(a).map_err(Failure::usage)?;
+    // Data sets whose resampled intervals were refused (a usage error: another method or
+    // setting settles it).
+    let mut interval_refusals: Vec<String> = Vec::new();
     // Calorimetric blocks of fits shown as summary rows, printed after the summary table.
     let mut calorimetric_after: Vec<u8> = Vec::new();
     crate::load::reference_temperature(&a.fit).map_err(Failure::usage)?;
@@ -249,6 +259,13 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                     continue;
                 }
             };
+            let run = match crate::intervals_cmd::run(job, fit, &intervals) {
+                Ok(r) => r,
+                Err(e) => {
+                    interval_refusals.push(e);
+                    continue;
+                }
+            };
             successes += 1;
             let comparisons = match calorimetric
                 .as_deref()
@@ -266,21 +283,37 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                     out.write_all(b",\n").map_err(io_fail)?;
                 }
                 let src = this_array.then_some(source.as_str());
-                match &comparisons {
-                    Some(c) => json::calorimetric::write_fit_with_calorimetric(
+                match (&comparisons, &run) {
+                    (Some(c), _) => json::calorimetric::write_fit_with_calorimetric(
                         &mut out, job, fit, src, !a.summary, c,
                     ),
-                    None => json::write_fit(&mut out, job, fit, src, !a.summary),
+                    (None, Some(r)) => json::intervals::write_fit_with_intervals(
+                        &mut out, job, fit, src, !a.summary, r,
+                    ),
+                    (None, None) => json::write_fit(&mut out, job, fit, src, !a.summary),
                 }
                 .map_err(io_fail)?;
                 entries += 1;
             } else if detailed_text && !multi {
                 table::detailed(&mut out, job, fit).map_err(io_fail)?;
+                if let Some(r) = &run {
+                    crate::intervals_cmd::text(&mut out, job, fit, r).map_err(io_fail)?;
+                }
                 if let Some(c) = &comparisons {
                     crate::calorimetric_cmd::text(&mut out, job, c).map_err(io_fail)?;
                 }
             } else {
                 summary_rows.push(table::SummaryRow::new(job, fit));
+                if let Some(r) = &run {
+                    writeln!(
+                        calorimetric_after,
+                        "\n{} — series “{}”",
+                        job.source, job.series
+                    )
+                    .map_err(io_fail)?;
+                    crate::intervals_cmd::text(&mut calorimetric_after, job, fit, r)
+                        .map_err(io_fail)?;
+                }
                 if let Some(c) = &comparisons {
                     crate::calorimetric_cmd::text(&mut calorimetric_after, job, c)
                         .map_err(io_fail)?;
@@ -320,6 +353,15 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
     out.write_all(&calorimetric_after).map_err(io_fail)?;
     out.flush().map_err(io_fail)?;
     drop(out);
+    if !interval_refusals.is_empty() {
+        for f in failures.iter().chain(&interval_refusals) {
+            output::note(f);
+        }
+        return Err(Failure::usage(format!(
+            "no resampled intervals for {}",
+            output::count(interval_refusals.len(), "data set", "data sets")
+        )));
+    }
     if failures.is_empty() {
         return Ok(());
     }

@@ -11,6 +11,7 @@
 mod calorimetric_cmd;
 mod cli;
 mod fit_cmd;
+mod intervals_cmd;
 mod joint_cmd;
 mod load;
 mod output;

@@ -6,6 +6,7 @@ mod columns;
 mod headless;
 mod hostile_cli;
 mod hostile_input;
+mod intervals_cli;
 mod joint_cli;
 mod promises;
 mod two_point;

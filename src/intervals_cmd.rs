@@ -1,0 +1,108 @@
+//! `vhfit fit --intervals delta|monte-carlo|bootstrap --draws N --seed S
+//! [--bootstrap-scheme residuals|wild|cases]`: the request from the flags, the run on each
+//! fitted data set (isochore-analysis' `run_intervals`), and its block of readable text
+//! (the method line and each quantity's resampled interval beside the delta method's).
+
+use crate::cli::{FitArgs, IntervalsArg, SchemeArg};
+use crate::load::Job;
+use isochore_analysis::intervals::{run_intervals, IntervalChoice, IntervalRequest};
+use isochore_fit::intervals::{
+    BootstrapScheme, IntervalError, IntervalRun, DEFAULT_DRAWS, DEFAULT_SEED,
+};
+use isochore_fit::VantHoffFit;
+use isochore_report::present::intervals::{interval_rows, method_line};
+use std::io::{self, Write};
+
+/// The request the flags make. `--draws`, `--seed` or `--bootstrap-scheme` with the delta
+/// method, or `--bootstrap-scheme` with Monte Carlo, is a usage error (nothing would use it).
+pub fn request(a: &FitArgs) -> Result<IntervalRequest, String> {
+    let scheme = match a.bootstrap_scheme {
+        None | Some(SchemeArg::Residuals) => BootstrapScheme::Residuals,
+        Some(SchemeArg::Wild) => BootstrapScheme::Wild,
+        Some(SchemeArg::Cases) => BootstrapScheme::Cases,
+    };
+    let choice = match a.intervals {
+        IntervalsArg::Delta => IntervalChoice::Delta,
+        IntervalsArg::MonteCarlo => IntervalChoice::MonteCarlo,
+        IntervalsArg::Bootstrap => IntervalChoice::Bootstrap(scheme),
+    };
+    if choice == IntervalChoice::Delta && (a.draws.is_some() || a.seed.is_some()) {
+        return Err(
+            "--draws and --seed apply to --intervals monte-carlo or bootstrap; the delta method draws nothing"
+                .into(),
+        );
+    }
+    if a.bootstrap_scheme.is_some() && !matches!(choice, IntervalChoice::Bootstrap(_)) {
+        return Err("--bootstrap-scheme applies to --intervals bootstrap only".into());
+    }
+    Ok(IntervalRequest {
+        choice,
+        draws: a.draws.unwrap_or(DEFAULT_DRAWS),
+        seed: a.seed.unwrap_or(DEFAULT_SEED),
+    })
+}
+
+/// Runs the request on one fitted data set; `Ok(None)` for the delta method. A refusal is
+/// named with the data set, and is a usage error (another method or setting settles it).
+pub fn run(
+    job: &Job,
+    fit: &VantHoffFit,
+    req: &IntervalRequest,
+) -> Result<Option<IntervalRun>, String> {
+    run_intervals(job, fit, req)
+        .map_err(|e: IntervalError| format!("{}: series '{}': {e}", job.source, job.series))
+}
+
+fn pad(s: &str, w: usize) -> String {
+    let n = s.chars().count();
+    format!("{s}{}", " ".repeat(w.saturating_sub(n)))
+}
+
+/// The readable block of a run: the method line, then one row per quantity.
+pub fn text(w: &mut impl Write, job: &Job, fit: &VantHoffFit, run: &IntervalRun) -> io::Result<()> {
+    writeln!(w)?;
+    writeln!(
+        w,
+        "{} (the table above is the delta method's):",
+        method_line(run)
+    )?;
+    let rows = interval_rows(fit, run, job.energy, job.temperature);
+    let header = [
+        "quantity",
+        "value",
+        "± SE (SD of draws)",
+        "interval",
+        "method",
+        "delta method",
+        "unit",
+    ]
+    .map(String::from);
+    let cells: Vec<[String; 7]> = rows
+        .iter()
+        .map(|r| {
+            [
+                r.quantity.clone(),
+                r.value.clone(),
+                format!("± {}", r.se),
+                r.interval.clone(),
+                r.method.to_string(),
+                r.delta.clone(),
+                r.unit.clone(),
+            ]
+        })
+        .collect();
+    let mut widths = header.clone().map(|h| h.chars().count());
+    for c in &cells {
+        for (i, s) in c.iter().enumerate() {
+            widths[i] = widths[i].max(s.chars().count());
+        }
+    }
+    for c in std::iter::once(&header).chain(&cells) {
+        let line: Vec<String> = c.iter().zip(widths).map(|(s, w)| pad(s, w)).collect();
+        writeln!(w, "  {}", line.join("  ").trim_end())?;
+    }
+    for warning in &run.warnings {
+        writeln!(w, "  note: {warning}")?;
+    }
+    Ok(())
+}
