@@ -151,7 +151,8 @@ pub struct FitOptionsArgs {
     /// Choose a column of a data file, ROLE=COLUMN (repeatable): COLUMN is a header as typed
     /// or a 1-based number; ROLE is read as a header is: temperature, 'T (K)', K, ln K, log K,
     /// pKa, 'Kd (nM)', 'ΔG (kJ/mol)', value (the kind the column's own header says), sigma,
-    /// 'RSD (%)', series or note. COLUMN none drops sigma, series or note. A chosen column
+    /// 'RSD (%)', sigma-t (the temperature's uncertainty σ(T), in the temperature column's
+    /// unit), series or note. COLUMN none drops sigma, sigma-t, series or note. A chosen column
     /// replaces the one the headers gave that role. E.g. --column temperature=T_degC
     /// --column K=3
     #[arg(long = "column", value_name = "ROLE=COLUMN", value_parser = parse_column)]
@@ -165,6 +166,13 @@ pub struct FitOptionsArgs {
     /// whose commas could be thousands separators, is refused until this is given).
     #[arg(long, value_enum, value_name = "point|comma")]
     pub decimal_mark: Option<DecimalArg>,
+    /// One thermometer uncertainty σ(T) for every point, e.g. 0.1 or 0.1K (a temperature
+    /// difference: 0.1 °C is 0.1 K, 0.18 °F is 0.1 K; a number without a unit is read in
+    /// --temp-unit). The fit then allows for errors in T as well as in K (York's fit for the
+    /// linear model, orthogonal distance for the others) and says how far that moves each
+    /// parameter; it takes the place of a σ(T) column (--column sigma-t=COLUMN).
+    #[arg(long, value_name = "σT", value_parser = parse_temperature, allow_hyphen_values = true)]
+    pub sigma_t: Option<TypedTemperature>,
 }
 
 /// The decimal mark of CSV files, as stated on the command line.
@@ -450,6 +458,30 @@ impl TypedTemperature {
                 self.value,
                 unit.unit().symbol(),
                 crate::output::short(k)
+            ))
+        }
+    }
+}
+
+impl TypedTemperature {
+    /// As a temperature difference in kelvin (°C and K alike, °F × 5/9), reading a number
+    /// without a unit in `default`: for an uncertainty such as `--sigma-t`.
+    ///
+    /// # Errors
+    /// When it is not a positive finite number, naming the flag.
+    pub fn kelvin_difference(self, default: TempArg, flag: &str) -> Result<f64, String> {
+        let unit = self.unit.unwrap_or(default);
+        let k = match unit {
+            TempArg::F => self.value * 5.0 / 9.0,
+            TempArg::C | TempArg::K => self.value,
+        };
+        if k.is_finite() && k > 0.0 {
+            Ok(k)
+        } else {
+            Err(format!(
+                "{flag} {} {}: an uncertainty must be a positive number (e.g. 0.1K); leave {flag} out to fit errors in K only",
+                self.value,
+                unit.unit().symbol()
             ))
         }
     }

@@ -267,6 +267,7 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                 }
             };
             successes += 1;
+            let errors_in_t = crate::errors_in_t_cmd::fit(job, &mut failures);
             let comparisons = match calorimetric
                 .as_deref()
                 .map(|v| crate::calorimetric_cmd::compare(job, fit, v))
@@ -290,12 +291,22 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                     (None, Some(r)) => json::intervals::write_fit_with_intervals(
                         &mut out, job, fit, src, !a.summary, r,
                     ),
-                    (None, None) => json::write_fit(&mut out, job, fit, src, !a.summary),
+                    (None, None) => crate::errors_in_t_cmd::write_json(
+                        &mut out,
+                        job,
+                        fit,
+                        errors_in_t.as_ref(),
+                        src,
+                        !a.summary,
+                    ),
                 }
                 .map_err(io_fail)?;
                 entries += 1;
             } else if detailed_text && !multi {
                 table::detailed(&mut out, job, fit).map_err(io_fail)?;
+                if let Some(f) = &errors_in_t {
+                    crate::errors_in_t_cmd::text(&mut out, job, f, true).map_err(io_fail)?;
+                }
                 if let Some(r) = &run {
                     crate::intervals_cmd::text(&mut out, job, fit, r).map_err(io_fail)?;
                 }
@@ -304,6 +315,16 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                 }
             } else {
                 summary_rows.push(table::SummaryRow::new(job, fit));
+                if let Some(f) = &errors_in_t {
+                    writeln!(
+                        calorimetric_after,
+                        "\n{} — series “{}”:",
+                        job.source, job.series
+                    )
+                    .map_err(io_fail)?;
+                    crate::errors_in_t_cmd::text(&mut calorimetric_after, job, f, false)
+                        .map_err(io_fail)?;
+                }
                 if let Some(r) = &run {
                     writeln!(
                         calorimetric_after,

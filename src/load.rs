@@ -70,6 +70,10 @@ fn overrides(a: &FitOptionsArgs, with_cells: bool) -> Overrides {
         with_cells,
         columns: a.columns.clone(),
         data_temperature_unit: a.data_temp_unit.map(|u| u.unit()),
+        // Checked by `load` before the file is read.
+        sigma_t_k: a
+            .sigma_t
+            .and_then(|t| t.kelvin_difference(a.temp_unit, "--sigma-t").ok()),
     }
 }
 
@@ -133,6 +137,9 @@ fn message(e: &LoadError) -> String {
 /// A message naming the file (and line and column where there is one), with the flag that
 /// settles it.
 pub fn load(path: &Path, a: &FitOptionsArgs, with_cells: bool) -> Result<Vec<Job>, String> {
+    if let Some(t) = a.sigma_t {
+        t.kelvin_difference(a.temp_unit, "--sigma-t")?;
+    }
     let mut sets =
         isochore_analysis::load(path, &overrides(a, with_cells)).map_err(|e| message(&e))?;
     if let Some(rows) = &a.exclude {

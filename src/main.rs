@@ -10,6 +10,7 @@
 
 mod calorimetric_cmd;
 mod cli;
+mod errors_in_t_cmd;
 mod fit_cmd;
 mod intervals_cmd;
 mod joint_cmd;

@@ -69,6 +69,11 @@ pub struct PreparedSet {
     pub warnings: Vec<String>,
     /// Settings worth recording in reports (name, value), beyond the fit options.
     pub settings: Vec<(String, String)>,
+    /// The temperature uncertainty σ(T) of each point in kelvin (same order as
+    /// `measurements`), when the file has a σ(T) column or the caller gave one thermometer
+    /// uncertainty for all points ([`Overrides::sigma_t_k`]); `None` fits errors in K only.
+    /// See [`crate::errors_in_t`].
+    pub sigma_t_k: Option<Vec<f64>>,
 }
 
 /// Rows to leave out of every data set read, with the reason and time recorded.
@@ -113,6 +118,10 @@ pub struct Overrides {
     pub columns: Vec<ColumnChoice>,
     /// The scale of a data file's temperature header that carries no unit.
     pub data_temperature_unit: Option<TemperatureUnit>,
+    /// One thermometer uncertainty σ(T) for every point, in kelvin (the command line's
+    /// `--sigma-t`): the fit then allows for errors in T as well as in K. It takes the place
+    /// of a σ(T) column of the file.
+    pub sigma_t_k: Option<f64>,
 }
 
 impl Overrides {
@@ -339,8 +348,9 @@ fn load_text(path: &Path, o: &Overrides) -> Result<Vec<PreparedSet>, LoadError> 
         .map(|i| weighting::for_import(&imp, i, requested))
         .collect::<Result<Vec<_>, _>>()
         .map_err(data_error)?;
-    // The cells as typed only when asked for: they cost memory on huge files.
-    let series = if o.with_cells {
+    // The cells as typed only when asked for: they cost memory on huge files. A σ(T)
+    // column is read from the cells.
+    let series = if o.with_cells || imp.mapping.temperature_uncertainty.is_some() {
         imp.data_sets_with_cells()
     } else {
         std::mem::take(&mut imp.series)
@@ -501,7 +511,9 @@ impl PreparedSet {
                 .into_iter()
                 .collect(),
             settings: vec![replicates_setting(s.settings.replicates)],
+            sigma_t_k: None,
         };
+        crate::errors_in_t::attach(&mut set, s, &points, o).map_err(data_error)?;
         set.finish(averaged, weighed.note);
         Ok(set)
     }

@@ -27,6 +27,7 @@
 
 pub mod columns;
 pub mod dataset;
+pub mod errors_in_t;
 pub mod files;
 pub mod intervals;
 pub mod joint;

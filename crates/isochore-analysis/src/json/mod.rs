@@ -13,6 +13,7 @@
 //! document in memory.
 
 pub mod calorimetric;
+pub mod errors_in_t;
 pub mod intervals;
 pub mod joint;
 pub mod predict;

@@ -129,6 +129,28 @@ pub fn bootstrap_scheme(s: isochore_fit::intervals::BootstrapScheme) -> &'static
     }
 }
 
+/// The temperature's standard uncertainty, in every front end: "σ(T)" (JSON `sigma_t_k`,
+/// command line `--sigma-t`, column role `sigma-t`).
+pub const SIGMA_T: &str = "σ(T)";
+/// The window's field for one σ(T) for every point: "thermometer uncertainty".
+pub const THERMOMETER_UNCERTAINTY: &str = "thermometer uncertainty";
+/// The fit that allows for σ(T) as well as σ(ln K): "fit with errors in T" (JSON
+/// `errors_in_t`).
+pub const ERRORS_IN_T: &str = "fit with errors in T";
+/// The ordinary fit, beside it: "fit in K only".
+pub const K_ONLY: &str = "fit in K only";
+/// The fit's estimate of a point's true temperature: "adjusted T" (JSON `t_adjusted_k`).
+pub const ADJUSTED_T: &str = "adjusted T";
+
+/// The method of a fit with errors in T: "York's fit" (the linear model) or
+/// "orthogonal-distance fit" (JSON `york`, `orthogonal_distance`).
+pub fn errors_in_t_method(m: isochore_fit::errors_in_t::ErrorsInTMethod) -> &'static str {
+    match m {
+        isochore_fit::errors_in_t::ErrorsInTMethod::York => "York's fit",
+        isochore_fit::errors_in_t::ErrorsInTMethod::OrthogonalDistance => "orthogonal-distance fit",
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

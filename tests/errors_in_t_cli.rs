@@ -1,0 +1,133 @@
+//! End-to-end checks of a fit with errors in T (issue 13 item 4): `--sigma-t` and a σ(T)
+//! column chosen with `--column sigma-t=COLUMN` give the library's fit with errors in T in
+//! the JSON's `errors_in_t` block and a readable block that names the method and the
+//! comparison with the fit in K only; without σ(T) the JSON has no such block; a bad σ(T)
+//! (≤ 0, a bad cell) is refused in words with the file, line and column.
+//!
+//! Test inputs: the invented binding demo shipped in assets/demo, and small invented files.
+
+use super::cli::{close, demo, json_of, run};
+use isochore_data::{import_path, ImportOptions};
+use isochore_fit::errors_in_t::fit_errors_in_t;
+use isochore_fit::{FitOptions, Model};
+use std::io::Write;
+
+#[test]
+fn one_thermometer_uncertainty_follows_the_library() {
+    let path = demo("binding_qx7_halo2.csv");
+    for (model, method, flag) in [
+        (Model::LINEAR, "york", "0.2K"),
+        (Model::CONSTANT_CP, "orthogonal_distance", "0.36F"),
+    ] {
+        let out = run(&[
+            "fit",
+            &path,
+            "--model",
+            model.cli_name(),
+            "--sigma-t",
+            flag,
+            "--json",
+        ]);
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        let j = json_of(&out);
+        let e = &j["errors_in_t"];
+        assert_eq!(e["method"], method);
+        // 0.36 °F is 0.2 K (5/9, the definition of the Fahrenheit degree).
+        assert!(close(e["sigma_t_k"]["min"].as_f64().unwrap(), 0.2, 1e-12));
+        let m = import_path(&path, &ImportOptions::default())
+            .unwrap()
+            .series[0]
+            .measurements()
+            .unwrap();
+        let opts = FitOptions {
+            model,
+            ..FitOptions::default()
+        };
+        let lib = fit_errors_in_t(&m, &vec![0.2; m.len()], &opts).unwrap();
+        for p in lib.params() {
+            let got = &e["params"][p.key()];
+            assert!(close(
+                got["value"].as_f64().unwrap(),
+                p.estimate.value,
+                1e-12
+            ));
+            assert!(close(got["se"].as_f64().unwrap(), p.estimate.se, 1e-12));
+        }
+        assert_eq!(e["points"].as_array().unwrap().len(), m.len());
+        assert!(e["comparison"]
+            .as_str()
+            .unwrap()
+            .starts_with("allowing for σ(T) = 0.2 K"));
+        // The text names the method and the comparison.
+        let out = run(&["fit", &path, "--model", model.cli_name(), "--sigma-t", flag]);
+        let text = String::from_utf8_lossy(&out.stdout);
+        assert!(text.contains("fit with errors in T"), "{text}");
+        let words = if method == "york" {
+            "York's fit"
+        } else {
+            "orthogonal-distance fit"
+        };
+        assert!(
+            text.contains(words) && text.contains("allowing for σ(T)"),
+            "{text}"
+        );
+    }
+    // Without σ(T): no block.
+    let j = json_of(&run(&["fit", &path, "--json"]));
+    assert!(j.get("errors_in_t").is_none());
+}
+
+fn file(text: &str) -> tempfile::NamedTempFile {
+    let mut f = tempfile::Builder::new().suffix(".csv").tempfile().unwrap();
+    f.write_all(text.as_bytes()).unwrap();
+    f
+}
+
+#[test]
+fn a_sigma_t_column_and_bad_values() {
+    let f = file("T (°C),pKa,sd,u(T)\n10,7.60,0.01,0.1\n20,7.45,0.01,0.1\n30,7.31,0.01,0.2\n40,7.18,0.01,0.1\n50,7.06,0.01,0.3\n");
+    let p = f.path().to_string_lossy().into_owned();
+    let out = run(&["fit", &p, "--column", "sigma-t=u(T)", "--json", "--summary"]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let j = json_of(&out);
+    assert!(close(
+        j["errors_in_t"]["sigma_t_k"]["max"].as_f64().unwrap(),
+        0.3,
+        1e-12
+    ));
+    // The column without the role: kept but not used, as before.
+    let j = json_of(&run(&["fit", &p, "--json", "--summary"]));
+    assert!(j.get("errors_in_t").is_none());
+    // σ(T) ≤ 0 on the command line.
+    for bad in ["0", "-0.1K"] {
+        let out = run(&["fit", &p, &format!("--sigma-t={bad}")]);
+        assert!(!out.status.success());
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert!(
+            err.contains("--sigma-t") && err.contains("positive"),
+            "{err}"
+        );
+    }
+    // An empty and a non-positive cell: file, line and column named.
+    for (cell, words) in [("", "empty"), ("-0.1", "zero or negative")] {
+        let f = file(&format!(
+            "T (°C),pKa,sd,u(T)\n10,7.60,0.01,0.1\n20,7.45,0.01,0.1\n30,7.31,0.01,{cell}\n40,7.18,0.01,0.1\n"
+        ));
+        let p = f.path().to_string_lossy().into_owned();
+        let out = run(&["fit", &p, "--column", "sigma-t=4"]);
+        assert!(!out.status.success());
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert!(
+            err.contains(&p) && err.contains("line 4, column 4 ('u(T)')") && err.contains(words),
+            "{err}"
+        );
+    }
+}
