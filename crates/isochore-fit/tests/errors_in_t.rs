@@ -116,14 +116,10 @@ fn york_van_t_hoff() {
             ..FitOptions::default()
         };
         let f = fit_errors_in_t(&pts, &st, &opts).unwrap();
-        for j in 0..2 {
-            close(
-                "estimate",
-                f.params()[j].estimate.value,
-                r["linear.york.params"][j],
-                1e-9,
-            );
-            close("SE", f.params()[j].estimate.se, r[se_key][j], 1e-9);
+        for (j, p) in f.params().iter().enumerate() {
+            let (want, se) = (r["linear.york.params"][j], r[se_key][j]);
+            close("estimate", p.estimate.value, want, 1e-9);
+            close("SE", p.estimate.se, se, 1e-9);
         }
         close("S", f.chi2(), r["linear.york.chi2"][0], 1e-9);
         for (p, want) in f.points().iter().zip(&r["linear.york.t_adjusted"]) {
@@ -160,8 +156,8 @@ fn orthogonal_distance_against_odrpack() {
         };
         let f = fit_errors_in_t(&pts, &st, &opts).unwrap();
         assert_eq!(f.method(), ErrorsInTMethod::OrthogonalDistance);
-        for j in 0..3 {
-            let e = f.params()[j].estimate;
+        for (j, p) in f.params().iter().enumerate() {
+            let e = p.estimate;
             let want = r["cp.params"][j];
             assert!(
                 (e.value - want).abs() <= 1e-6 * e.se,
