@@ -330,6 +330,24 @@ impl VantHoffFit {
         )
     }
 
+    /// The correlation of ΔH° and ΔG° at the harmonic-mean temperature T_hm: zero for the
+    /// linear model (Krug, Hunter & Grieger 1976), small but not zero once ΔCp° is fitted.
+    pub fn corr_h_g_harmonic(&self) -> f64 {
+        let (t, theta) = (self.t_harmonic_k(), self.options.t_ref_k);
+        let model = self.model();
+        let (ga, gb) = (model.delta_h_row(t, theta), model.delta_g_row(t, theta));
+        let (a, c) = (self.quadratic_form(&ga), self.quadratic_form(&gb));
+        self.bilinear_form(&ga, &gb) / (a * c).sqrt()
+    }
+
+    /// aᵀ Cov b.
+    fn bilinear_form(&self, ga: &[f64], gb: &[f64]) -> f64 {
+        ga.iter()
+            .zip(&self.covariance)
+            .map(|(a, row)| a * row.iter().zip(gb).map(|(c, b)| c * b).sum::<f64>())
+            .sum()
+    }
+
     /// The joint region of the linear combinations a·β and b·β (see [`VantHoffFit::ellipse`]).
     fn region(
         &self,
@@ -347,13 +365,7 @@ impl VantHoffFit {
         };
         let a = self.quadratic_form(ga);
         let c = self.quadratic_form(gb);
-        let p = self.n_params();
-        let mut b = 0.0;
-        for i in 0..p {
-            for j in 0..p {
-                b += ga[i] * self.covariance[i][j] * gb[j];
-            }
-        }
+        let b = self.bilinear_form(ga, gb);
         // Cholesky of [[a, b], [b, c]].
         let l11 = a.sqrt();
         let l21 = b / l11;

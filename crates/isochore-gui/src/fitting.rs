@@ -37,6 +37,8 @@ pub struct Analysis {
     pub band: Vec<BandPoint>,
     /// The joint (ΔH°, ΔS°) confidence region at the fit's level.
     pub ellipse: Option<Vec<[f64; 2]>>,
+    /// The joint ΔH°–ΔG°(T_hm) region, J/mol both (isochore-fit's `h_g_region`).
+    pub h_g_region: Option<Vec<[f64; 2]>>,
     /// Large series only (else empty): points by 10³/T with ln K, for decimated drawing
     /// of the van 't Hoff plot.
     pub vh_index: EnvelopeIndex,
@@ -92,6 +94,7 @@ pub fn analyse(series: &Entry) -> Analysis {
                 remedy,
                 band: Vec::new(),
                 ellipse: None,
+                h_g_region: None,
                 vh_index: EnvelopeIndex::default(),
                 resid_index: EnvelopeIndex::default(),
                 infl_index: EnvelopeIndex::default(),
@@ -131,10 +134,11 @@ pub fn analyse(series: &Entry) -> Analysis {
                 }
             },
         };
-    let (band, ellipse, contours) = match &fit {
+    let (band, ellipse, h_g_region, contours) = match &fit {
         Ok(f) => {
             let band = f.band_grid(BAND_POINTS, 0.08);
             let ellipse = f.ellipse(f.options().level, 120).ok();
+            let h_g_region = f.h_g_region(f.options().level, 120).ok();
             let p = f.model().n_params();
             // At the limit the points are flagged against, and at D = 1, as in the reports.
             let contours = isochore_fit::influence::FlagLimits::of(f)
@@ -154,9 +158,9 @@ pub fn analyse(series: &Entry) -> Analysis {
                     )
                 })
                 .collect();
-            (band, ellipse, contours)
+            (band, ellipse, h_g_region, contours)
         }
-        Err(_) => (Vec::new(), None, Vec::new()),
+        Err(_) => (Vec::new(), None, None, Vec::new()),
     };
     let large = measurements.len() > crate::panels::vh_plot::DECIMATE_ABOVE;
     let vh_index = if large {
@@ -200,6 +204,7 @@ pub fn analyse(series: &Entry) -> Analysis {
         remedy,
         band,
         ellipse,
+        h_g_region,
         vh_index,
         resid_index,
         infl_index,

@@ -351,6 +351,17 @@ fn results_and_prediction_panels_show_the_library_numbers() {
         &h,
         &format!("corr(ΔH°, ΔS°) = {}", fixed(f.corr_h_s(), 4))
     ));
+    // Beside it, the ΔH°–ΔG°(T_hm) region (issue 11 item 3): for the linear model
+    // Cov(ΔH°, ΔG°(T)) = Var ΔH° − T·Cov(ΔH°, ΔS°), zero at T_hm (Krug, Hunter & Grieger
+    // 1976), here from the library's covariance by hand.
+    let c = f.covariance();
+    let cov_hg = c[0][0] - f.t_harmonic_k() * c[0][1];
+    let r_hg = cov_hg / (c[0][0].sqrt() * f.at_harmonic().delta_g.se);
+    assert!(r_hg.abs() < 1e-9, "{r_hg}");
+    assert!(shows(
+        &h,
+        &format!("corr(ΔH°, ΔG° at T_hm) = {}", fixed(r_hg.abs(), 4))
+    ));
     // The fit statistics, folded at start.
     h.get_by_label("Fit statistics").click();
     h.run_steps(3);

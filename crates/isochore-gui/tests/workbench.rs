@@ -26,7 +26,9 @@ pub(crate) fn bench() -> Workbench {
 
 pub(crate) fn harness(w: Workbench) -> Harness<'static, Workbench> {
     let mut h = Harness::builder()
-        .with_size([1600.0, 1300.0])
+        // Tall enough that the results panel's prediction fields, below the two joint
+        // regions, are on screen without scrolling (kittest clicks at a node's place).
+        .with_size([1600.0, 1600.0])
         .build_ui_state(
             |ui, w: &mut Workbench| {
                 let t = ui.input(|i| i.time);

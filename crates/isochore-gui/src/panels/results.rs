@@ -152,8 +152,13 @@ impl ResultsPanel {
             });
         ui.label(
             RichText::new(format!(
-                "{}; there ΔG° is uncorrelated with ΔH°: quote ΔH° with ΔG° at T_hm.",
-                names::T_HM_MEANING
+                "{}; there ΔG° is {}: quote ΔH° with ΔG° at T_hm.",
+                names::T_HM_MEANING,
+                if fit.corr_h_g_harmonic().abs() < 1e-6 {
+                    "uncorrelated with ΔH°"
+                } else {
+                    "far less correlated with ΔH° than ΔS° is (r below; zero only without ΔCp°)"
+                }
             ))
             .small()
             .weak(),
@@ -177,27 +182,32 @@ impl ResultsPanel {
                 eu.from_si(fit.delta_h().value),
                 su.from_si(fit.delta_s().value),
             ];
-            // Tall enough for the ΔS° axis label, as wide as the visible panel (the panel
-            // scrolls sideways, so the plot must not take the scroll area's width), and
-            // round steps on both axes (egui_plot's decades left only "0").
-            let visible = (ui.clip_rect().right() - ui.cursor().left() - 8.0).max(160.0);
-            Plot::new("hs_ellipse")
-                .height(190.0)
-                .width(visible)
-                .x_grid_spacer(egui_plot::uniform_grid_spacer(style::nice_steps))
-                .y_grid_spacer(egui_plot::uniform_grid_spacer(style::nice_steps))
-                .x_axis_label(names::quantity_axis("ΔH°", eu.symbol))
-                .y_axis_label(names::quantity_axis("ΔS°", su.symbol))
-                .show_x(false)
-                .show_y(false)
-                .allow_scroll(false)
-                .show(ui, |pu| {
-                    pu.line(
-                        Line::new(format!("{level} % joint region"), PlotPoints::new(pts))
-                            .allow_hover(false),
-                    );
-                    pu.points(Points::new("estimate", PlotPoints::new(vec![centre])).radius(3.0));
-                });
+            let labels = (
+                names::quantity_axis("ΔH°", eu.symbol),
+                names::quantity_axis("ΔS°", su.symbol),
+            );
+            region_plot(ui, "hs_ellipse", pts, centre, labels, &level);
+        }
+        if let Some(region) = &a.h_g_region {
+            let t_hm = fit.t_harmonic_k();
+            ui.add_space(4.0);
+            ui.label(format!(
+                "corr(ΔH°, ΔG° at T_hm) = {}",
+                style::fixed(fit.corr_h_g_harmonic(), 4)
+            ));
+            let pts: Vec<[f64; 2]> = region
+                .iter()
+                .map(|p| [eu.from_si(p[0]), eu.from_si(p[1])])
+                .collect();
+            let centre = [
+                eu.from_si(fit.delta_h_at(t_hm).value),
+                eu.from_si(fit.delta_g(t_hm).value),
+            ];
+            let labels = (
+                names::quantity_axis("ΔH°", eu.symbol),
+                names::quantity_axis("ΔG° at T_hm", eu.symbol),
+            );
+            region_plot(ui, "hg_region", pts, centre, labels, &level);
         }
         ui.add_space(6.0);
         ui.collapsing("Fit statistics", |ui| stats_grid(ui, fit, tu));
@@ -226,6 +236,38 @@ impl ResultsPanel {
             }
         }
     }
+}
+
+/// A joint confidence region (closed polygon, display units) with its centre: tall enough
+/// for the y-axis label, as wide as the visible panel (the panel scrolls sideways, so the
+/// plot must not take the scroll area's width), round steps on both axes (egui_plot's
+/// decades left only "0").
+fn region_plot(
+    ui: &mut egui::Ui,
+    id: &str,
+    pts: Vec<[f64; 2]>,
+    centre: [f64; 2],
+    (x_label, y_label): (String, String),
+    level: &str,
+) {
+    let visible = (ui.clip_rect().right() - ui.cursor().left() - 8.0).max(160.0);
+    Plot::new(id)
+        .height(190.0)
+        .width(visible)
+        .x_grid_spacer(egui_plot::uniform_grid_spacer(style::nice_steps))
+        .y_grid_spacer(egui_plot::uniform_grid_spacer(style::nice_steps))
+        .x_axis_label(x_label)
+        .y_axis_label(y_label)
+        .show_x(false)
+        .show_y(false)
+        .allow_scroll(false)
+        .show(ui, |pu| {
+            pu.line(
+                Line::new(format!("{level} % joint region"), PlotPoints::new(pts))
+                    .allow_hover(false),
+            );
+            pu.points(Points::new("estimate", PlotPoints::new(vec![centre])).radius(3.0));
+        });
 }
 
 /// The fit statistics in the window's short form ([`present::compact_statistics_rows`]).
