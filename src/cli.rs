@@ -204,6 +204,13 @@ pub struct FitArgs {
     /// each series.
     #[arg(long, value_name = "PATH")]
     pub report: Option<PathBuf>,
+    /// The analyst's name, recorded in the report beside the time of the analysis.
+    #[arg(long, value_name = "NAME", requires = "report")]
+    pub analyst: Option<String>,
+    /// A note recorded in the report under the record line (what was measured, why a point
+    /// was excluded, the notebook page).
+    #[arg(long, value_name = "TEXT", requires = "report")]
+    pub note: Option<String>,
 
     // ---- Several series fitted together (issue 12): options of the joint fit ----
     /// Fit every series of every file together, sharing these parameters (comma-separated

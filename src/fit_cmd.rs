@@ -34,6 +34,10 @@ struct ReportPlan {
     path: PathBuf,
     single_file: Option<ReportFormat>,
     stems: ReportStems,
+    /// `--analyst`, recorded in each report.
+    analyst: Option<String>,
+    /// `--note`, recorded in each report.
+    note: Option<String>,
 }
 
 impl ReportPlan {
@@ -55,7 +59,14 @@ fn write_report(
     fit: &VantHoffFit,
     targets: &[PathBuf],
 ) -> Result<Vec<PathBuf>, String> {
-    let input = report_input(job, fit.clone());
+    let mut input = report_input(job, fit.clone());
+    let given = |s: &Option<String>| {
+        s.as_ref()
+            .map(|s| s.trim().to_string())
+            .filter(|s| !s.is_empty())
+    };
+    input.record.analyst = given(&plan.analyst);
+    input.record.note = given(&plan.note);
     let fail =
         |e: isochore_report::ReportError| format!("{}: series '{}': {e}", job.source, job.series);
     if let Some(format) = plan.single_file {
@@ -134,6 +145,8 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                 path: p.clone(),
                 single_file: format,
                 stems: ReportStems::new(),
+                analyst: a.analyst.clone(),
+                note: a.note.clone(),
             })
         }
     };

@@ -822,3 +822,32 @@ fn reference_temperature_takes_a_unit_and_defaults_to_celsius() {
         );
     }
 }
+
+/// `--analyst` and `--note` go into the report's record (issue 16 item 8, as the window's
+/// fields do); without `--report` they are a usage error, since nothing would record them.
+#[test]
+fn analyst_and_note_are_recorded_in_the_report() {
+    let dir = tempfile::tempdir().unwrap();
+    let md = dir.path().join("qx7.md");
+    let out = run(&[
+        "fit",
+        &demo("binding_qx7_halo2.csv"),
+        "--report",
+        md.to_str().unwrap(),
+        "--analyst",
+        "R. Okafor",
+        "--note",
+        "notebook 14, p. 32",
+    ]);
+    assert!(out.status.success(), "{out:?}");
+    let text = std::fs::read_to_string(&md).unwrap();
+    assert!(text.contains(" by R. Okafor with vhfit "), "{text}");
+    assert!(text.contains("notebook 14, p. 32"), "{text}");
+    let out = run(&[
+        "fit",
+        &demo("binding_qx7_halo2.csv"),
+        "--analyst",
+        "R. Okafor",
+    ]);
+    assert_eq!(out.status.code(), Some(2), "{out:?}");
+}
