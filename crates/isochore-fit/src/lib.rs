@@ -37,6 +37,7 @@
 pub mod calorimetric;
 pub mod derived;
 pub mod diagnostics;
+pub mod enthalpy_zero;
 pub mod error;
 pub mod errors_in_t;
 mod fast;

@@ -1,0 +1,248 @@
+//! The temperature where ΔH° changes sign, T₀ with ΔH°(T₀) = 0 (ΔCp° models only), with
+//! Fieller's interval generalised to any model: the set of temperatures T at which the
+//! hypothesis ΔH°(T) = 0 is not rejected at the fit's level,
+//!
+//! ```text
+//! { T > 0 : (c(T)·β̂)² ≤ crit² · c(T)ᵀ Σ c(T) },   c(T) = the model's ΔH°(T) row
+//! ```
+//!
+//! For the constant-ΔCp° model c(T) = (1, 0, T − θ), so T₀ = θ − ΔH°(θ)/ΔCp° is a ratio and
+//! the set is Fieller's interval for it (Fieller 1954): bounded only when ΔCp° is resolved
+//! from zero at the level (|ΔCp°|/SE > crit); otherwise unbounded on one or both sides, and
+//! said so in words. Because every shipped model is linear in β with normal errors, inverting
+//! this t test is also the profile-likelihood interval of T₀ (the likelihood ratio of
+//! ΔH°(T) = 0 is a monotone function of the same statistic). The SE beside the value is the
+//! delta method's, |c(T₀)ᵀΣc(T₀)|^½ / |ΔCp°(T₀)| (dT₀/dβ = −c(T₀)/ΔCp°(T₀)); it alone
+//! would mislead whenever the interval is unbounded or far from symmetric.
+
+use crate::vant_hoff::{unbounded_interval, Estimate, VantHoffFit};
+
+/// T₀ where ΔH°(T₀) = 0, with Fieller's interval.
+#[derive(Debug, Clone, PartialEq)]
+pub struct EnthalpyZero {
+    /// T₀ (value, delta-method SE) with Fieller's interval; an infinite end is unbounded.
+    pub estimate: Estimate,
+    /// Whether T₀ lies outside the measured temperatures.
+    pub extrapolated: bool,
+    /// The result in words, with the unbounded side named where there is one.
+    pub words: String,
+}
+
+/// How far around the data T₀ is looked for, as a factor on T_hm.
+const SEARCH_FACTOR: f64 = 3.0;
+/// Steps of the search grid (logarithmic).
+const GRID: usize = 4000;
+
+impl VantHoffFit {
+    /// The temperature where ΔH° changes sign, nearest the data (within a factor of three of
+    /// T_hm), with Fieller's interval at the fit's level; `None` for a model without ΔCp°,
+    /// or when ΔH°(T) keeps its sign over that whole range.
+    pub fn temperature_where_delta_h_is_zero(&self) -> Option<EnthalpyZero> {
+        let model = self.model();
+        if !model.has_heat_capacity() {
+            return None;
+        }
+        let theta = self.options.t_ref_k;
+        let beta = self.coefficients();
+        let dot = |c: &[f64]| c.iter().zip(&beta).map(|(a, b)| a * b).sum::<f64>();
+        let h = |t: f64| dot(&model.delta_h_row(t, theta));
+        let centre = self.t_harmonic_k;
+        let (lo, hi) = (centre / SEARCH_FACTOR, centre * SEARCH_FACTOR);
+        let step = (hi / lo).ln() / GRID as f64;
+        // The sign change nearest T_hm.
+        let mut best: Option<(f64, f64)> = None;
+        let mut prev_t = lo;
+        let mut prev_h = h(lo);
+        for k in 1..=GRID {
+            let t = lo * (step * k as f64).exp();
+            let v = h(t);
+            if prev_h == 0.0 || prev_h.signum() != v.signum() {
+                let (mut a, mut b) = (prev_t, t);
+                for _ in 0..100 {
+                    let m = 0.5 * (a + b);
+                    if h(m).signum() == h(a).signum() && h(m) != 0.0 {
+                        a = m;
+                    } else {
+                        b = m;
+                    }
+                }
+                let root = 0.5 * (a + b);
+                let d = (root.ln() - centre.ln()).abs();
+                if best.is_none_or(|(_, bd)| d < bd) {
+                    best = Some((root, d));
+                }
+            }
+            prev_t = t;
+            prev_h = v;
+        }
+        let (t0, _) = best?;
+        let c = model.delta_h_row(t0, theta);
+        let slope = dot(&model.delta_cp_row(t0, theta));
+        let se = self.form(&c).sqrt() / slope.abs();
+        let (ci_low, ci_high) = self.zero_set(t0);
+        let estimate = Estimate {
+            value: t0,
+            se,
+            ci_low,
+            ci_high,
+        };
+        let level = self.options.level;
+        let pct = crate::vant_hoff::comparison_percent(level);
+        let words = match unbounded_interval("the temperature where ΔH° = 0", &estimate, level) {
+            Some(w) => format!(
+                "ΔH° = 0 at {:.2} K, but ΔCp° is not resolved from zero well enough to fix where ΔH° changes sign: {}",
+                t0, w.message
+            ),
+            None => format!(
+                "ΔH° = 0 at {:.2} K ({pct}% interval {:.2}–{:.2} K, Fieller){}",
+                t0,
+                ci_low,
+                ci_high,
+                if self.is_extrapolation(t0) {
+                    "; outside the measured range, so it rests on the model's assumption about ΔCp°"
+                } else {
+                    ""
+                }
+            ),
+        };
+        Some(EnthalpyZero {
+            estimate,
+            extrapolated: self.is_extrapolation(t0),
+            words,
+        })
+    }
+
+    /// gᵀΣg with the fit's covariance.
+    fn form(&self, g: &[f64]) -> f64 {
+        let c = &self.covariance;
+        (0..g.len())
+            .map(|a| (0..g.len()).map(|b| g[a] * c[a][b] * g[b]).sum::<f64>())
+            .sum()
+    }
+
+    /// The ends of the connected set around `t0` where ΔH°(T) = 0 is not rejected,
+    /// searched up to a factor of 1000 each way (beyond it: infinite, i.e. unbounded).
+    fn zero_set(&self, t0: f64) -> (f64, f64) {
+        let theta = self.options.t_ref_k;
+        let model = self.model();
+        let beta = self.coefficients();
+        let c2 = self.critical_value * self.critical_value;
+        let outside = |t: f64| -> bool {
+            let row = model.delta_h_row(t, theta);
+            let v: f64 = row.iter().zip(&beta).map(|(x, b)| x * b).sum();
+            // NaN counts as outside.
+            !(v.is_finite() && v * v <= c2 * self.form(&row))
+        };
+        const STEP: f64 = 0.002;
+        const REACH: f64 = 1000.0;
+        let steps = (REACH.ln() / STEP).ceil() as usize;
+        let edge = |up: bool| -> f64 {
+            let mut inside = t0;
+            for k in 1..=steps {
+                let t = t0 * (if up { 1.0 } else { -1.0 } * STEP * k as f64).exp();
+                if outside(t) {
+                    let (mut a, mut b) = (inside, t);
+                    for _ in 0..80 {
+                        let m = 0.5 * (a + b);
+                        if outside(m) {
+                            b = m;
+                        } else {
+                            a = m;
+                        }
+                    }
+                    return 0.5 * (a + b);
+                }
+                inside = t;
+            }
+            if up {
+                f64::INFINITY
+            } else {
+                f64::NEG_INFINITY
+            }
+        };
+        (edge(false), edge(true))
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use crate::{fit, FitOptions, Measurement, Model, SigmaConvention};
+
+    /// Exact constant-ΔCp° data with ΔH°(θ) = −20 kJ/mol, ΔCp° = −1000 J/(mol K), so
+    /// ΔH° = 0 at θ − 20 K = 278.15 K, plus fixed scatter (invented).
+    fn data(scatter: f64, dcp: f64) -> Vec<Measurement> {
+        let theta = 298.15;
+        let noise = [0.6, -1.0, 0.2, 0.9, -0.4, -0.8, 1.0, -0.3, 0.1, -0.5];
+        (0..10)
+            .map(|i| {
+                let t = 275.15 + 5.0 * i as f64;
+                let x = Model::CONSTANT_CP.row(t, theta);
+                let y = x[0] * -20e3 + x[1] * -50.0 + x[2] * dcp + scatter * noise[i];
+                Measurement::new(t, y).with_sigma(0.01)
+            })
+            .collect()
+    }
+
+    /// Fieller's interval of the ratio, solved directly: with u = T − θ, a = ΔH°(θ),
+    /// b = ΔCp°, the ends solve (b² − c²V_b)u² + 2(ab − c²C_ab)u + (a² − c²V_a) = 0
+    /// (Fieller 1954; the textbook form of the ratio a/b).
+    #[test]
+    fn fieller_for_the_constant_cp_model_matches_the_quadratic() {
+        for convention in [SigmaConvention::ScaledByFit, SigmaConvention::Absolute] {
+            let opts = FitOptions {
+                model: Model::CONSTANT_CP,
+                convention,
+                ..FitOptions::default()
+            };
+            let f = fit(&data(0.01, -1000.0), &opts).unwrap();
+            let z = f.temperature_where_delta_h_is_zero().unwrap();
+            let (a, b) = (f.coefficients()[0], f.coefficients()[2]);
+            let c = f.covariance();
+            let (va, vb, cab) = (c[0][0], c[2][2], c[0][2]);
+            let k2 = f.critical_value().powi(2);
+            let (qa, qb, qc) = (b * b - k2 * vb, 2.0 * (a * b - k2 * cab), a * a - k2 * va);
+            assert!(qa > 0.0, "ΔCp° resolved: a bounded interval");
+            let disc = (qb * qb - 4.0 * qa * qc).sqrt();
+            let u1 = (-qb - disc) / (2.0 * qa);
+            let u2 = (-qb + disc) / (2.0 * qa);
+            let (lo, hi) = (298.15 + u1.min(u2), 298.15 + u1.max(u2));
+            assert!((z.estimate.value - (298.15 - a / b)).abs() < 1e-9);
+            assert!(
+                (z.estimate.ci_low - lo).abs() < 1e-6,
+                "{} {lo}",
+                z.estimate.ci_low
+            );
+            assert!(
+                (z.estimate.ci_high - hi).abs() < 1e-6,
+                "{} {hi}",
+                z.estimate.ci_high
+            );
+            // Delta-method SE of a ratio: √(V_a + 2uC_ab + u²V_b)/|b| at u = −a/b.
+            let u = -a / b;
+            let se = (va + 2.0 * u * cab + u * u * vb).sqrt() / b.abs();
+            assert!((z.estimate.se - se).abs() < 1e-9 * se);
+            assert!(z.words.contains("Fieller"), "{}", z.words);
+        }
+    }
+
+    #[test]
+    fn unresolved_heat_capacity_gives_an_unbounded_interval_in_words() {
+        // ΔCp° = −300 J/(mol K) under scatter twenty times larger: not resolved.
+        let opts = FitOptions {
+            model: Model::CONSTANT_CP,
+            ..FitOptions::default()
+        };
+        let f = fit(&data(0.2, -300.0), &opts).unwrap();
+        let dcp = f.delta_cp().unwrap();
+        assert!(dcp.value.abs() < f.critical_value() * dcp.se, "{dcp:?}");
+        let z = f
+            .temperature_where_delta_h_is_zero()
+            .expect("a sign change near the data");
+        assert!(!z.estimate.ci_low.is_finite() || !z.estimate.ci_high.is_finite());
+        assert!(z.words.contains("unbounded"), "{}", z.words);
+        assert!(z.words.contains("not resolved"), "{}", z.words);
+        // The linear model has no such temperature.
+        let lin = fit(&data(0.01, -1000.0), &FitOptions::default()).unwrap();
+        assert!(lin.temperature_where_delta_h_is_zero().is_none());
+    }
+}
