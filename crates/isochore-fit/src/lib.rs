@@ -2,7 +2,8 @@
 //!
 //! The statistics of Isochore: weighted least-squares van 't Hoff regression written
 //! directly in thermodynamic parameters, with honest uncertainties, per-point diagnostics
-//! and the constant-ΔCp° model. Pure computation: no I/O, no clocks, no threads, no GUI.
+//! and the constant-ΔCp° model. Pure computation: no I/O, no clocks, no GUI; threads only
+//! to spread the draws of [`intervals`] over the cores (rayon).
 //!
 //! ## Brief overview
 //! - [`Measurement`]: one point on the fitting scale (T in K, ln K, optional σ(ln K),
@@ -15,6 +16,8 @@
 //!   confidence and prediction intervals, bands, the (ΔH°, ΔS°) ellipse and the temperature
 //!   for a target K.
 //! - [`two_point`] is the hand calculation with propagated uncertainty.
+//! - [`intervals`] gives Monte Carlo (GUM Supplement 1) and bootstrap (percentile, BCa)
+//!   intervals of the parameters and derived quantities, reproducible from a seed.
 //! - [`average_replicates`] makes one point of replicates at one temperature.
 //! - [`least_squares`] is the general Householder-QR solver underneath.
 //!

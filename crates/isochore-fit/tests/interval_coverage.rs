@@ -102,6 +102,12 @@ fn intervals_cover_the_truth() {
         "cases, BCa",
     ];
     let mut report = String::new();
+    // The delta method and Monte Carlo on the quantities linear in β, where both are exact
+    // in the limit, must cover within 93.0–97.0 % (±3 binomial SDs at 1000 sets, so that a
+    // method with exact coverage fails a cell about 0.3 % of the time; the ±2 SD band
+    // 93.6–96.4 % of the issue is what the README's table is read against). The other
+    // cells are reported, and the README says where a method falls short.
+    let mut failures: Vec<(&str, &str, &str, f64)> = Vec::new();
     for sc in scenarios() {
         let nq = sc.truth.len();
         let mut covered = vec![vec![0usize; nq]; methods.len()];
@@ -185,24 +191,24 @@ fn intervals_cover_the_truth() {
             }
             report.push('\n');
         }
-        // The delta method and Monte Carlo on the quantities linear in β must hold the band
-        // (the other cells are reported, and the README says where a method falls short).
-        if sets >= 1000 {
-            for m in 0..2 {
-                for (k, (key, _)) in sc.truth.iter().enumerate() {
-                    if ["delta_h", "delta_s", "delta_cp", "delta_g_at_reference"].contains(key) {
-                        let pct = 100.0 * covered[m][k] as f64 / sets as f64;
-                        assert!(
-                            (93.6..=96.4).contains(&pct),
-                            "{} {} {key}: {pct}",
-                            sc.name,
-                            methods[m]
-                        );
-                    }
-                }
-            }
-        }
+        failures.extend(
+            (0..2)
+                .flat_map(|m| sc.truth.iter().enumerate().map(move |(k, t)| (m, k, t.0)))
+                .filter(|(_, _, key)| {
+                    ["delta_h", "delta_s", "delta_cp", "delta_g_at_reference"].contains(key)
+                })
+                .map(|(m, k, key)| {
+                    (
+                        sc.name,
+                        methods[m],
+                        key,
+                        100.0 * covered[m][k] as f64 / sets as f64,
+                    )
+                })
+                .filter(|(.., pct)| sets >= 1000 && !(93.0..=97.0).contains(pct)),
+        );
     }
     use std::io::Write;
     let _ = std::io::stderr().write_all(report.as_bytes());
+    assert!(failures.is_empty(), "{failures:?}");
 }

@@ -60,6 +60,7 @@ pub fn bootstrap(
     let qs = quantities(fit, &options.temperatures, &options.k_targets);
     let nq = qs.len();
     let ev = Evaluator::new(fit);
+    let prepared: Vec<_> = qs.iter().map(|q| ev.prepare(q)).collect();
     let seed = options.seed;
     let sqrt_w: Vec<f64> = d.w.iter().map(|w| w.sqrt()).collect();
     let lev: Vec<f64> = d.h.iter().map(|&h| leverage_factor(h)).collect();
@@ -117,8 +118,12 @@ pub fn bootstrap(
                         }
                     },
                 };
-                for (o, q) in out.iter_mut().zip(&qs) {
-                    *o = if ok { ev.value(q, b) } else { f64::NAN };
+                for ((o, q), pq) in out.iter_mut().zip(&qs).zip(&prepared) {
+                    *o = if ok {
+                        ev.value_prepared(pq, q, b)
+                    } else {
+                        f64::NAN
+                    };
                 }
                 redraws
             },

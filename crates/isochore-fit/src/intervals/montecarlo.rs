@@ -18,6 +18,7 @@ use super::{
 use crate::measurement::Measurement;
 use crate::model::SigmaConvention;
 use crate::vant_hoff::VantHoffFit;
+use rand_distr::ChiSquared;
 use rayon::prelude::*;
 
 /// Monte Carlo intervals for every quantity of [`quantities`] of `fit`, made from `points`
@@ -64,10 +65,13 @@ pub fn monte_carlo(
     let qs = quantities(fit, &options.temperatures, &options.k_targets);
     let nq = qs.len();
     let ev = Evaluator::new(fit);
+    let prepared: Vec<_> = qs.iter().map(|q| ev.prepare(q)).collect();
     let scaled = fit.options().convention == SigmaConvention::ScaledByFit || !fit.weighted();
     let s = fit.variance_scale().sqrt();
     let nu = fit.dof() as f64;
     let sigma: Vec<f64> = d.w.iter().map(|w| 1.0 / w.sqrt()).collect();
+    // ν ≥ 1 whenever the scale is estimated (the fit needs n ≥ p + 1 then).
+    let chi2 = ChiSquared::new(nu.max(1.0)).map_err(|_| IntervalError::Singular)?;
     let seed = options.seed;
 
     let mut values = vec![0.0; options.draws * nq];
@@ -76,7 +80,7 @@ pub fn monte_carlo(
         |(delta, t_star, b), (i, out)| {
             let mut rng = DrawRng::new(seed, i as u64);
             let factor = if scaled {
-                s * (nu / rng.chi_squared(nu)).sqrt()
+                s * (nu / rng.sample(&chi2)).sqrt()
             } else {
                 1.0
             };
@@ -102,8 +106,12 @@ pub fn monte_carlo(
                     }
                 }
             };
-            for (o, q) in out.iter_mut().zip(&qs) {
-                *o = if ok { ev.value(q, b) } else { f64::NAN };
+            for ((o, q), pq) in out.iter_mut().zip(&qs).zip(&prepared) {
+                *o = if ok {
+                    ev.value_prepared(pq, q, b)
+                } else {
+                    f64::NAN
+                };
             }
         },
     );

@@ -66,6 +66,17 @@ pub struct Quantity {
     pub delta: Estimate,
 }
 
+/// A quantity made ready for the draws ([`Evaluator::prepare`]).
+#[derive(Debug, Clone)]
+pub(crate) enum Prepared {
+    /// c·β.
+    Linear(Vec<f64>),
+    /// exp(c·β).
+    Exp(Vec<f64>),
+    /// A root, found for each β.
+    Root,
+}
+
 /// Evaluates quantities from coefficient vectors.
 #[derive(Debug, Clone, Copy)]
 pub(crate) struct Evaluator {
@@ -85,16 +96,65 @@ impl Evaluator {
         row.iter().zip(beta).map(|(a, b)| a * b).sum()
     }
 
+    /// c·β for the row `write` fills, on the stack for up to 16 parameters (no allocation in
+    /// the draws' inner loop).
+    fn row_dot(beta: &[f64], write: impl Fn(&mut [f64])) -> f64 {
+        let p = beta.len();
+        if p <= 16 {
+            let mut buf = [0.0; 16];
+            write(&mut buf[..p]);
+            Self::dot(&buf[..p], beta)
+        } else {
+            let mut v = vec![0.0; p];
+            write(&mut v);
+            Self::dot(&v, beta)
+        }
+    }
+
     fn ln_k(&self, t: f64, beta: &[f64]) -> f64 {
-        Self::dot(&self.model.row(t, self.theta), beta)
+        Self::row_dot(beta, |out| self.model.row_into(t, self.theta, out))
     }
 
     fn delta_h(&self, t: f64, beta: &[f64]) -> f64 {
-        Self::dot(&self.model.delta_h_row(t, self.theta), beta)
+        Self::row_dot(beta, |out| {
+            self.model.spec().delta_h_row(t, self.theta, out)
+        })
     }
 
     fn delta_cp(&self, t: f64, beta: &[f64]) -> f64 {
-        Self::dot(&self.model.delta_cp_row(t, self.theta), beta)
+        Self::row_dot(beta, |out| {
+            self.model.spec().delta_cp_row(t, self.theta, out)
+        })
+    }
+
+    /// `q` made ready for many coefficient vectors: a quantity at a fixed temperature is a
+    /// fixed row c (value c·β, or exp(c·β) for K), computed once.
+    pub(crate) fn prepare(&self, q: &Quantity) -> Prepared {
+        let th = self.theta;
+        let p = self.model.n_params();
+        match q.kind {
+            QuantityKind::Parameter { index } => {
+                let mut c = vec![0.0; p];
+                c[index] = 1.0;
+                Prepared::Linear(c)
+            }
+            QuantityKind::DeltaG { t_k } => Prepared::Linear(self.model.delta_g_row(t_k, th)),
+            QuantityKind::DeltaH { t_k } => Prepared::Linear(self.model.delta_h_row(t_k, th)),
+            QuantityKind::DeltaS { t_k } => Prepared::Linear(self.model.delta_s_row(t_k, th)),
+            QuantityKind::K { t_k } => Prepared::Exp(self.model.row(t_k, th)),
+            QuantityKind::TemperatureForK { .. } | QuantityKind::TemperatureDeltaHZero => {
+                Prepared::Root
+            }
+        }
+    }
+
+    /// The value of `q` (prepared as `pq`) at `beta`: as [`Evaluator::value`].
+    pub(crate) fn value_prepared(&self, pq: &Prepared, q: &Quantity, beta: &[f64]) -> f64 {
+        match pq {
+            Prepared::Linear(c) => Self::dot(c, beta),
+            Prepared::Exp(c) => Self::dot(c, beta).exp(),
+            Prepared::Root => self.value(q, beta),
+        }
     }
 
     /// The value of `q` at `beta`; `start` is the fit's value (the root to follow). NaN

@@ -10,7 +10,7 @@
 
 use rand_chacha::ChaCha8Rng;
 use rand_core::{Rng, SeedableRng};
-use rand_distr::{ChiSquared, Distribution, StandardNormal};
+use rand_distr::{Distribution, StandardNormal};
 
 /// The generator of one draw.
 pub(crate) struct DrawRng(ChaCha8Rng);
@@ -30,12 +30,9 @@ impl DrawRng {
         StandardNormal.sample(&mut self.0)
     }
 
-    /// A χ² deviate with `dof` degrees of freedom (dof > 0).
-    pub(crate) fn chi_squared(&mut self, dof: f64) -> f64 {
-        match ChiSquared::new(dof) {
-            Ok(d) => d.sample(&mut self.0),
-            Err(_) => f64::NAN,
-        }
+    /// A deviate of the distribution `d` (the scale's χ² of the Monte Carlo).
+    pub(crate) fn sample<D: Distribution<f64>>(&mut self, d: &D) -> f64 {
+        d.sample(&mut self.0)
     }
 
     /// A uniform index in 0..n (n ≥ 1, n < 2³²), without bias (Lemire 2019, "Fast random
