@@ -139,3 +139,36 @@ fn the_bootstrap_refuses_too_few_points() {
     ]);
     assert_eq!(out.status.code(), Some(0), "{out:?}");
 }
+
+#[test]
+fn monte_carlo_draws_the_temperatures_when_sigma_t_is_given() {
+    let path = demo("acid_pka.csv");
+    let base = [
+        "fit",
+        path.as_str(),
+        "--json",
+        "--summary",
+        "--intervals",
+        "monte-carlo",
+        "--draws",
+        "3000",
+    ];
+    let without = json_of(&run(&base));
+    let mut args = base.to_vec();
+    args.extend(["--sigma-t", "0.5K"]);
+    let with = json_of(&run(&args));
+    let said = with["warnings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|w| w.as_str().unwrap().contains("temperatures were drawn"));
+    assert!(said, "{}", with["warnings"]);
+    // σ(T) = 0.5 K adds (ΔH°/R)·σT/T² to each σ(ln K): ΔH°'s SD of draws grows.
+    let sd = |j: &serde_json::Value| j["params"]["delta_h"]["se"].as_f64().unwrap();
+    assert!(
+        sd(&with) > sd(&without),
+        "{} vs {}",
+        sd(&with),
+        sd(&without)
+    );
+}

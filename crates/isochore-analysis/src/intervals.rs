@@ -56,7 +56,8 @@ impl Default for IntervalRequest {
 }
 
 /// Runs the requested method on `set` and its `fit`; `None` for the delta method, whose
-/// intervals are the fit's own.
+/// intervals are the fit's own. Monte Carlo draws the temperatures as well when the set has
+/// σ(T) ([`PreparedSet::sigma_t_k`]); the bootstrap resamples the fit in K only.
 ///
 /// # Errors
 /// The run's refusal in words ([`IntervalError`]: draws out of range, too few points for the
@@ -73,7 +74,11 @@ pub fn run_intervals(
     };
     match request.choice {
         IntervalChoice::Delta => Ok(None),
-        IntervalChoice::MonteCarlo => monte_carlo(&set.measurements, fit, None, &options).map(Some),
+        // With a σ(T) (a column, or one thermometer uncertainty), each draw draws the
+        // temperatures too.
+        IntervalChoice::MonteCarlo => {
+            monte_carlo(&set.measurements, fit, set.sigma_t_k.as_deref(), &options).map(Some)
+        }
         IntervalChoice::Bootstrap(s) => bootstrap(&set.measurements, fit, s, &options).map(Some),
     }
 }

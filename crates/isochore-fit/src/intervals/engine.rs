@@ -71,8 +71,7 @@ fn factor(
             }
         })
         .collect();
-    for j in 0..p {
-        let s = scale[j];
+    for (j, &s) in scale.iter().enumerate() {
         a.column_mut(j).iter_mut().for_each(|v| *v /= s);
     }
     if !a.iter().all(|v| v.is_finite()) {
