@@ -6,7 +6,7 @@ use crate::load::Job;
 use isochore_fit::VantHoffFit;
 use isochore_report::present::{
     critical_distribution, fitted_params, fixed, flag_words, level_percent, names, plus_minus,
-    result_rows, show_t, sig, statistics_rows, unit_of, MISSING,
+    quantity, result_rows, show_t, sig, statistics_rows, unit_of, MISSING,
 };
 use std::io::{self, Write};
 
@@ -54,6 +54,10 @@ pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<
         format!("{lp}% CI"),
         "unit".to_string(),
     ];
+    // Then the constant in the quantity the file gave (K_d in nM, pKa, K ×10ⁿ) at θ and
+    // T_hm, as the reports and the window give it; its interval is not symmetric, so no SE.
+    let symbol = quantity::quantity_symbol(job.quantity, &job.quantity_header);
+    let constant = quantity::constant_rows(fit, job.quantity, &symbol, job.temperature);
     let cells: Vec<[String; 5]> = rows
         .iter()
         .map(|r| {
@@ -66,6 +70,15 @@ pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<
                 r.unit.clone(),
             ]
         })
+        .chain(constant.into_iter().map(|c| {
+            [
+                c[0].clone(),
+                c[1].clone(),
+                String::new(),
+                format!("[{}, {}]", c[3], c[4]),
+                c[5].clone(),
+            ]
+        }))
         .collect();
     let mut widths = header.clone().map(|h| h.chars().count());
     for c in &cells {
