@@ -1,7 +1,9 @@
-//! `vhfit fit --calorimetric T:ΔH:u[,…]`: calorimetric enthalpies read from the command line
+//! `vhfit fit --calorimetric [SERIES:]T:ΔH:u[,…]`: calorimetric enthalpies read from the command line
 //! (temperature with an optional unit suffix, else --temp-unit; ΔH and u in the --energy
 //! unit, default kJ/mol) and compared with each fit's van 't Hoff ΔH°(T)
-//! (isochore-fit's [`compare_calorimetric`]), written as text or JSON.
+//! (isochore-fit's [`compare_calorimetric`]), written as text or JSON. With `--share` a
+//! value may name its series (`PX-13:25C:-45.1:0.5`) and is compared with that series' ΔH°(T)
+//! in the joint fit.
 
 use crate::cli::{parse_temperature, FitArgs};
 use crate::load::Job;
@@ -10,11 +12,39 @@ use isochore_fit::{EnergyUnit, VantHoffFit};
 use isochore_report::present::{energy, fixed, plus_minus, show_t};
 use std::io::{self, Write};
 
-/// The calorimetric values of `--calorimetric`, in SI, or `None` when not given.
+/// One item of `--calorimetric`: the series it names (`SERIES:T:ΔH:u`, with `--share`),
+/// or `None` for every series (`T:ΔH:u`), and the value in SI.
+pub type Tagged = (Option<String>, CalorimetricValue);
+
+/// The calorimetric values of `--calorimetric`, in SI, or `None` when not given. Every
+/// value applies to every fit; a value naming a series is refused here (it is for
+/// `--share`, see [`tagged`]).
 ///
 /// # Errors
 /// A usage message naming the item that is not `T:ΔH:u`.
 pub fn values(a: &FitArgs) -> Result<Option<Vec<CalorimetricValue>>, String> {
+    let Some(items) = tagged(a)? else {
+        return Ok(None);
+    };
+    let mut out = Vec::with_capacity(items.len());
+    for (series, v) in items {
+        if let Some(name) = series {
+            return Err(format!(
+                "--calorimetric '{name}:…': a series name before the temperature is for a joint fit (--share); without it, give temperature:ΔH:u and the value is compared with every series"
+            ));
+        }
+        out.push(v);
+    }
+    Ok(Some(out))
+}
+
+/// The items of `--calorimetric`, each `T:ΔH:u` (every series) or `SERIES:T:ΔH:u` (the
+/// series of that name; the name is everything before the last three fields, so it may
+/// hold a colon), in SI; `None` when the option is not given.
+///
+/// # Errors
+/// A usage message naming the item that is not `[SERIES:]T:ΔH:u`.
+pub fn tagged(a: &FitArgs) -> Result<Option<Vec<Tagged>>, String> {
     let Some(items) = &a.calorimetric else {
         return Ok(None);
     };
@@ -25,27 +55,33 @@ pub fn values(a: &FitArgs) -> Result<Option<Vec<CalorimetricValue>>, String> {
     let jpm = unit.joules_per_mole();
     let mut out = Vec::new();
     for item in items.iter().map(|s| s.trim()).filter(|s| !s.is_empty()) {
-        let parts: Vec<&str> = item.split(':').collect();
+        let mut parts: Vec<&str> = item.rsplitn(4, ':').collect();
+        parts.reverse();
         let bad = || {
             format!(
-                "--calorimetric '{item}': give temperature:ΔH:u, e.g. 37C:-28.4:0.5 (ΔH and u in {}, u ≥ 0)",
+                "--calorimetric '{item}': give temperature:ΔH:u, e.g. 37C:-28.4:0.5, or with --share series:temperature:ΔH:u, e.g. PX-13:25C:-45.1:0.5 (ΔH and u in {}, u ≥ 0)",
                 unit.symbol()
             )
         };
-        if parts.len() != 3 {
-            return Err(bad());
-        }
-        let t_k = parse_temperature(parts[0])?.kelvin(a.fit.temp_unit, "--calorimetric")?;
-        let h: f64 = parts[1].trim().parse().map_err(|_| bad())?;
-        let u: f64 = parts[2].trim().parse().map_err(|_| bad())?;
+        let (series, fields) = match parts.len() {
+            3 => (None, &parts[..]),
+            4 if !parts[0].trim().is_empty() => (Some(parts[0].trim().to_string()), &parts[1..]),
+            _ => return Err(bad()),
+        };
+        let t_k = parse_temperature(fields[0])?.kelvin(a.fit.temp_unit, "--calorimetric")?;
+        let h: f64 = fields[1].trim().parse().map_err(|_| bad())?;
+        let u: f64 = fields[2].trim().parse().map_err(|_| bad())?;
         if !(h.is_finite() && u.is_finite() && u >= 0.0) {
             return Err(bad());
         }
-        out.push(CalorimetricValue {
-            t_k,
-            delta_h: h * jpm,
-            u: u * jpm,
-        });
+        out.push((
+            series,
+            CalorimetricValue {
+                t_k,
+                delta_h: h * jpm,
+                u: u * jpm,
+            },
+        ));
     }
     if out.is_empty() {
         return Err(
@@ -53,6 +89,16 @@ pub fn values(a: &FitArgs) -> Result<Option<Vec<CalorimetricValue>>, String> {
         );
     }
     Ok(Some(out))
+}
+
+/// The values of `items` that apply to the series labelled `label` (or named `name`):
+/// those naming no series and those naming it.
+pub fn values_for(items: &[Tagged], label: &str, name: &str) -> Vec<CalorimetricValue> {
+    items
+        .iter()
+        .filter(|(s, _)| s.as_deref().is_none_or(|s| s == label || s == name))
+        .map(|(_, v)| *v)
+        .collect()
 }
 
 /// The comparisons for one fit, the error naming the series.

@@ -9,19 +9,37 @@ use crate::load::{load, Job};
 use crate::output::{self, Style};
 use crate::Failure;
 use isochore_analysis::joint::{fit_joint, JointAnalysis};
+use isochore_analysis::joint_report_input;
 use isochore_analysis::json::joint::write_joint;
+use isochore_fit::calorimetric::{compare_calorimetric_series, CalorimetricComparison};
 use isochore_fit::{Estimate, ParamInfo};
 use isochore_report::present::{diag, fixed, flag_words, percent, plus_minus, show_t, unit_of};
+use isochore_report::{OverwriteGuard, ReportFormat};
 use std::io::{self, Write};
+use std::path::{Path, PathBuf};
 
 /// Runs a joint fit of every data set in `a.files`, sharing `keys`.
 pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
     crate::load::reference_temperature(&a.fit).map_err(Failure::usage)?;
-    if a.report.is_some() {
+    let calorimetric = crate::calorimetric_cmd::tagged(a).map_err(Failure::usage)?;
+    if calorimetric.is_some() && a.json {
         return Err(Failure::usage(
-            "--report is not available with --share yet: reports of a joint fit are not written; use --json or the text output",
+            "--calorimetric with --share is compared in the text output and the report, not yet in the JSON; leave out --json or --calorimetric",
         ));
     }
+    let report_format = match &a.report {
+        Some(p) => {
+            let format = ReportFormat::from_path(p);
+            if format.is_none() && p.is_file() {
+                return Err(Failure::usage(format!(
+                    "--report {}: an existing file without a report extension; give a folder or a name ending in .html, .pdf, .md, .csv, .svg or .png",
+                    p.display()
+                )));
+            }
+            Some(format)
+        }
+        None => None,
+    };
     let keys: Vec<String> = keys
         .iter()
         .map(|k| k.trim().to_string())
@@ -34,9 +52,38 @@ pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
     }
     let mut sets: Vec<Job> = Vec::new();
     for path in &a.files {
-        sets.extend(load(path, &a.fit, false).map_err(Failure::input)?);
+        sets.extend(load(path, &a.fit, a.report.is_some()).map_err(Failure::input)?);
     }
     let joint = fit_joint(&sets, &keys).map_err(|e| Failure::input(format!("--share: {e}")))?;
+    if let Some(items) = &calorimetric {
+        for name in items.iter().filter_map(|(s, _)| s.as_deref()) {
+            if !sets
+                .iter()
+                .zip(&joint.labels)
+                .any(|(set, l)| l == name || set.series == name)
+            {
+                return Err(Failure::usage(format!(
+                    "--calorimetric names series '{name}', which is not among the series fitted: {}",
+                    joint.labels.join(", ")
+                )));
+            }
+        }
+    }
+    let comparisons: Vec<Vec<CalorimetricComparison>> = match &calorimetric {
+        Some(items) => (0..sets.len())
+            .map(|s| {
+                let values =
+                    crate::calorimetric_cmd::values_for(items, &joint.labels[s], &sets[s].series);
+                compare_calorimetric_series(&joint.fit, s, &values).map_err(|e| {
+                    Failure::input(format!("series '{}': --calorimetric: {e}", joint.labels[s]))
+                })
+            })
+            .collect::<Result<_, _>>()?,
+        None => Vec::new(),
+    };
+    if let (Some(format), Some(path)) = (report_format, &a.report) {
+        write_reports(a, path, format, &sets, &joint, &comparisons)?;
+    }
     let style = if a.json { Style::Json } else { Style::Text };
     let mut out = output::stdout(style);
     let io_fail = output::stdout_failure;
@@ -45,8 +92,109 @@ pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
         out.write_all(b"\n").map_err(io_fail)?;
     } else {
         text(&mut out, &sets, &joint, !a.summary).map_err(io_fail)?;
+        calorimetric_text(&mut out, &sets, &joint, &comparisons).map_err(io_fail)?;
     }
     out.flush().map_err(io_fail)
+}
+
+/// Writes the joint report to `path` (one file in `format`, or every format into a folder
+/// when `format` is `None`), after checking that no target is an input or a file isochore
+/// did not write.
+fn write_reports(
+    a: &FitArgs,
+    path: &Path,
+    format: Option<ReportFormat>,
+    sets: &[Job],
+    joint: &JointAnalysis,
+    comparisons: &[Vec<CalorimetricComparison>],
+) -> Result<(), Failure> {
+    let args: Vec<String> = std::env::args().skip(1).collect();
+    let command = (
+        "command line".to_string(),
+        format!("vhfit {}", args.join(" ")),
+    );
+    let input = joint_report_input(sets, joint, comparisons, &[command]);
+    let stem = "joint-fit";
+    let targets = match format {
+        Some(f) => isochore_report::joint_report_paths(&input, f, path),
+        None => isochore_report::joint_report_set_paths(&input, path, stem),
+    };
+    let guard = OverwriteGuard::new(&a.files);
+    let mut refusals: Vec<String> = targets.iter().filter_map(|t| guard.refusal(t)).collect();
+    if !refusals.is_empty() {
+        refusals.dedup();
+        return Err(Failure::usage(format!(
+            "no report was written:\n  {}",
+            refusals.join("\n  ")
+        )));
+    }
+    let folder = match format {
+        Some(_) => path
+            .parent()
+            .filter(|d| !d.as_os_str().is_empty())
+            .map_or_else(|| PathBuf::from("."), Path::to_path_buf),
+        None => path.to_path_buf(),
+    };
+    let stale = isochore_report::remove_stale_temporaries(&folder);
+    if !stale.is_empty() {
+        let names: Vec<String> = stale.iter().map(|s| s.display().to_string()).collect();
+        output::note(&format!(
+            "removed {} left by an interrupted report write: {}",
+            output::count(stale.len(), "stale temporary file", "stale temporary files"),
+            names.join(", ")
+        ));
+    }
+    let written = match format {
+        Some(f) => isochore_report::write_joint_report(&input, f, path),
+        None => isochore_report::write_joint_report_set(&input, path, stem),
+    }
+    .map_err(|e| Failure::input(format!("joint report: {e}")))?;
+    guard.record(&written).map_err(Failure::input)?;
+    for w in written {
+        output::note(&format!("wrote {}", w.display()));
+    }
+    Ok(())
+}
+
+/// The calorimetric comparisons of each series against its ΔH°(T) in the joint fit.
+fn calorimetric_text(
+    w: &mut impl Write,
+    sets: &[Job],
+    j: &JointAnalysis,
+    comparisons: &[Vec<CalorimetricComparison>],
+) -> io::Result<()> {
+    for (s, c) in comparisons.iter().enumerate() {
+        if c.is_empty() {
+            continue;
+        }
+        let job = &sets[s];
+        let u = isochore_report::present::energy(job.energy);
+        writeln!(w)?;
+        writeln!(
+            w,
+            "calorimetric ΔH° compared with the van 't Hoff ΔH° of the joint fit — series “{}”:",
+            j.labels[s]
+        )?;
+        for x in c {
+            let vh = u.estimate(x.van_t_hoff);
+            let d = u.estimate(x.difference);
+            writeln!(
+                w,
+                "  at {}: ΔH_vH = {} {sym}, ΔH_cal = {} {sym}, difference = {} {sym}, z = {}",
+                show_t(x.calorimetric.t_k, job.temperature),
+                plus_minus(vh.value, vh.se),
+                plus_minus(
+                    u.from_si(x.calorimetric.delta_h),
+                    u.from_si(x.calorimetric.u)
+                ),
+                plus_minus(d.value, d.se),
+                fixed(x.z, 2),
+                sym = u.symbol
+            )?;
+            writeln!(w, "    {}", x.verdict)?;
+        }
+    }
+    Ok(())
 }
 
 fn symbol(model: isochore_fit::Model, info: &ParamInfo) -> String {

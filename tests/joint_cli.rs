@@ -259,11 +259,29 @@ fn bad_joint_requests_are_refused_in_words() {
     let out = run(&["fit", &a, &b, "--share", ","]);
     assert_eq!(out.status.code(), Some(2));
 
+    // A report never overwrites its own input: a.csv named as the results table.
     let d = folder("bad2");
-    let report = d.join("r.html").to_string_lossy().into_owned();
-    let out = run(&["fit", &a, &b, "--share", "delta_h", "--report", &report]);
+    let before = std::fs::read(&a).unwrap();
+    let out = run(&["fit", &a, &b, "--share", "delta_h", "--report", &a]);
     assert_eq!(out.status.code(), Some(2));
-    assert!(stderr(&out).contains("--report"), "{}", stderr(&out));
+    assert!(
+        stderr(&out).contains("no report was written"),
+        "{}",
+        stderr(&out)
+    );
+    assert_eq!(std::fs::read(&a).unwrap(), before);
+    // A calorimetric value naming no series fitted is refused in words.
+    let out = run(&[
+        "fit",
+        &a,
+        &b,
+        "--share",
+        "delta_h",
+        "--calorimetric",
+        "nobody:25C:-20:0.5",
+    ]);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(stderr(&out).contains("'nobody'"), "{}", stderr(&out));
 
     // A file without σ is fitted unweighted, a file with σ weighted: refused in words,
     // and --unweighted settles it.
@@ -351,4 +369,72 @@ fn three_series_add_the_compensation_analysis() {
     assert!(comp["exner"]["df_num"] == 1 && comp["exner"]["df_den"] == 28 - 6);
     let out = run(&["fit", &a, &b, "--share", "delta_h", "--json", "--summary"]);
     assert!(json_of(&out)["compensation"].is_null());
+}
+
+#[test]
+fn joint_report_writes_every_format_with_the_verdict() {
+    let (a, b) = two_files("report");
+    let dir = folder("report-out").join("set");
+    let dir_s = dir.to_string_lossy().into_owned();
+    let out = run(&[
+        "fit",
+        &a,
+        &b,
+        "--model",
+        "cp",
+        "--share",
+        "delta_cp",
+        "--calorimetric",
+        "a:25C:-25.0:0.4",
+        "--report",
+        &dir_s,
+    ]);
+    assert!(out.status.success(), "{}", stderr(&out));
+    for name in [
+        "joint-fit.html",
+        "joint-fit.pdf",
+        "joint-fit.md",
+        "joint-fit-data.csv",
+        "joint-fit-results.csv",
+        "joint-fit-vanthoff-by-series.png",
+        "joint-fit-residuals-by-series.svg",
+    ] {
+        assert!(dir.join(name).is_file(), "{name} missing");
+    }
+    // Two series: no compensation figures.
+    assert!(!dir.join("joint-fit-compensation-dh-ds.png").exists());
+    let html = std::fs::read_to_string(dir.join("joint-fit.html")).unwrap();
+    // The verdict of statsmodels' F-test (F = 0.126, p = 0.729; make_global.py).
+    assert!(html.contains("No evidence that ΔCp° differs"), "verdict");
+    assert!(html.contains("0.1261") && html.contains("0.729"), "F and p");
+    assert!(html.contains("Fieller") && html.contains("coupled equilibria"));
+    assert!(html.contains("validated methods"));
+    let results = std::fs::read_to_string(dir.join("joint-fit-results.csv")).unwrap();
+    let shared = results
+        .lines()
+        .find(|l| l.starts_with("shared,"))
+        .expect("shared row");
+    let v: f64 = shared.split(',').nth(3).unwrap().parse().unwrap();
+    // statsmodels' shared ΔCp° (EST[4], J/(mol K)), shown in J/(mol·K).
+    assert!(close(v, EST[4], 1e-9), "{v}");
+    // Written again over its own files: allowed (the manifest lists them).
+    let again = run(&[
+        "fit", &a, &b, "--model", "cp", "--share", "delta_cp", "--report", &dir_s,
+    ]);
+    assert!(again.status.success(), "{}", stderr(&again));
+    // One file.
+    let pdf = folder("report-out").join("one.pdf");
+    let out = run(&[
+        "fit",
+        &a,
+        &b,
+        "--model",
+        "cp",
+        "--share",
+        "delta_cp",
+        "--report",
+        &pdf.to_string_lossy(),
+    ]);
+    assert!(out.status.success(), "{}", stderr(&out));
+    assert!(std::fs::read(&pdf).unwrap().starts_with(b"%PDF"));
 }

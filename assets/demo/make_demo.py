@@ -53,6 +53,39 @@ def acid():
             f.write(f"{t:.2f},{pka:.4f},{u:.3f}\n")
 
 
+def ligands():
+    # Fictional ligand series: four invented ligands "PX-11" … "PX-14" binding the invented
+    # protein "Orrin-3", each titrated at nine temperatures (the last ligand over a range
+    # 2 °C higher). Every ligand has the same ΔCp° = −850 J/(mol K) (a shared ΔCp° fits),
+    # and their ΔH° and ΔS° at 25 °C lie on a compensation line ΔH° = α + β ΔS° with
+    # β = 340 K, away from the harmonic-mean temperature (about 299 K), so the
+    # Krug–Hunter–Grieger test has something to find. Dissociation constants in nM with
+    # standard deviations from σ(ln K) of 0.04–0.07, seeded Gaussian noise.
+    rng = random.Random(23)
+    beta, alpha = 340.0, -38.9e3
+    ligands = [("PX-11", -62e3), ("PX-12", -50e3), ("PX-13", -38e3), ("PX-14", -27e3)]
+    with open("ligands_px_orrin3.csv", "w", encoding="utf-8") as f:
+        f.write("# Fictional demo: four invented ligands PX-11 to PX-14 binding the invented protein Orrin-3 (invented numbers, no real measurement)\n")
+        f.write("sample,T (°C),Kd (nM),sd_Kd (nM)\n")
+        for j, (name, dh) in enumerate(ligands):
+            ds = (dh - alpha) / beta
+            start = 12.0 if j == 3 else 10.0
+            for i in range(9):
+                tc = start + 4.0 * i
+                t = tc + 273.15
+                sigma = 0.04 + 0.01 * ((i + j) % 4)
+                lk = ln_k(t, dh, ds, -850.0) + rng.gauss(0.0, sigma)
+                kd_nm = math.exp(-lk) * 1e9
+                f.write(f"{name},{tc:.1f},{kd_nm:.2f},{kd_nm * sigma:.2f}\n")
+    # Invented calorimetric enthalpies for the README's example (given on the command line
+    # with --calorimetric): ΔH_cal at 25 °C of each ligand, and at 37 °C for PX-11; PX-13's
+    # was "measured" in a buffer whose protonation adds heat (7 kJ/mol more exothermic), the
+    # case the caution about coupled equilibria is for:
+    #   PX-11:25C:-62.4:0.6, PX-11:37C:-72.3:0.8, PX-12:25C:-51.8:0.5,
+    #   PX-13:25C:-45.1:0.5, PX-14:25C:-27.5:0.4  (kJ/mol)
+
+
 if __name__ == "__main__":
     binding()
     acid()
+    ligands()

@@ -43,6 +43,6 @@ pub use dataset::{
 };
 pub use files::{is_project_file, ReportStems, PROJECT_SUFFIX};
 pub use pair::KUncertainty;
-pub use report::{report_input, report_title, VERSION};
+pub use report::{joint_report_input, joint_report_title, report_input, report_title, VERSION};
 pub use rows::RowNumber;
 pub use weighting::{SigmaCoverage, Weighed};

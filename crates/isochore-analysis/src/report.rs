@@ -3,8 +3,12 @@
 //! [`report_input`], so their reports say the same things in the same words.
 
 use crate::dataset::PreparedSet;
+use crate::joint::JointAnalysis;
+use isochore_fit::calorimetric::CalorimetricComparison;
 use isochore_fit::VantHoffFit;
-use isochore_report::{Record, ReportInput, ReportRow};
+use isochore_report::{
+    JointCompensation, JointReportInput, JointSeries, Record, ReportInput, ReportRow,
+};
 
 /// The program's version, recorded in reports ("program: isochore 0.1.0") and in the JSON
 /// contract. Every crate of the workspace carries the same version.
@@ -25,21 +29,7 @@ pub fn report_input(
     fit: VantHoffFit,
     extra: &[(String, String)],
 ) -> ReportInput {
-    let rows = set
-        .rows
-        .iter()
-        .zip(&set.measurements)
-        .map(|(o, m)| ReportRow {
-            row: o.row.get(),
-            line: o.line,
-            cells: o.cells.clone(),
-            t_k: m.t_k,
-            ln_k: m.ln_k,
-            sigma_ln_k: m.sigma_ln_k,
-            included: m.included,
-            exclusion_reason: o.exclusion_reason.clone(),
-        })
-        .collect();
+    let rows = report_rows(set);
     let mut settings = set.settings.clone();
     settings.extend(extra.iter().cloned());
     settings.extend(
@@ -62,6 +52,83 @@ pub fn report_input(
             set.quantity,
             isochore_report::present::quantity::quantity_symbol(set.quantity, &set.quantity_header),
         )),
+        program_version: VERSION.to_string(),
+        record: Record {
+            analysed_at: utc_minutes(now_unix()),
+            ..Record::default()
+        },
+        settings,
+    }
+}
+
+/// Each point's origin paired with its measurement, in the order of the fit's points.
+fn report_rows(set: &PreparedSet) -> Vec<ReportRow> {
+    set.rows
+        .iter()
+        .zip(&set.measurements)
+        .map(|(o, m)| ReportRow {
+            row: o.row.get(),
+            line: o.line,
+            cells: o.cells.clone(),
+            t_k: m.t_k,
+            ln_k: m.ln_k,
+            sigma_ln_k: m.sigma_ln_k,
+            included: m.included,
+            exclusion_reason: o.exclusion_reason.clone(),
+        })
+        .collect()
+}
+
+/// The title of the report of a joint fit of `n` series.
+pub fn joint_report_title(n: usize) -> String {
+    format!("Van 't Hoff analysis: {n} series fitted together")
+}
+
+/// The report input of a joint fit of `sets` (in the order fitted). `calorimetric[s]`
+/// holds the comparisons of series s (empty where none were given; may be shorter than
+/// the series). `extra` records further settings (the command line records itself); each
+/// data set's own settings follow under its label.
+pub fn joint_report_input(
+    sets: &[PreparedSet],
+    joint: &JointAnalysis,
+    calorimetric: &[Vec<CalorimetricComparison>],
+    extra: &[(String, String)],
+) -> JointReportInput {
+    let series = sets
+        .iter()
+        .zip(&joint.labels)
+        .enumerate()
+        .map(|(s, (set, label))| JointSeries {
+            label: label.clone(),
+            source_name: set.file_name.clone(),
+            source_sha256: set.sha256.clone(),
+            rows: report_rows(set),
+            conversions: set.conversions.clone(),
+            calorimetric: calorimetric.get(s).cloned().unwrap_or_default(),
+        })
+        .collect();
+    let mut settings: Vec<(String, String)> = extra.to_vec();
+    for (set, label) in sets.iter().zip(&joint.labels) {
+        settings.extend(
+            set.settings
+                .iter()
+                .map(|(k, v)| (format!("{label}: {k}"), v.clone())),
+        );
+    }
+    let first = sets.first();
+    JointReportInput {
+        title: joint_report_title(sets.len()),
+        series,
+        fit: joint.fit.clone(),
+        equality: joint.equality.clone(),
+        compensation: joint.compensation.as_ref().map(|c| JointCompensation {
+            points: c.points.clone(),
+            beta: c.beta.clone(),
+            exner: c.exner.clone(),
+        }),
+        warnings: joint.warnings.clone(),
+        energy_unit: first.map_or(isochore_fit::EnergyUnit::KilojoulePerMole, |s| s.energy),
+        temperature_unit: first.map_or(isochore_fit::TemperatureUnit::Celsius, |s| s.temperature),
         program_version: VERSION.to_string(),
         record: Record {
             analysed_at: utc_minutes(now_unix()),

@@ -167,15 +167,11 @@ fn cautions(input: &ReportInput) -> Vec<String> {
     let fit = &input.fit;
     let tu = input.temperature_unit;
     vec![
-        "Activities are taken as concentrations relative to the standard state c° = 1 mol/L (dissociation constants are converted as K = c°/K_d); activity coefficients are assumed constant over the temperature range.".to_string(),
+        present::cautions::ACTIVITIES.to_string(),
         present::model_caution(fit.model()),
-        format!(
-            "Values outside the measured range {} to {} are extrapolations that hold only if the model does.",
-            show_t(fit.t_min_k(), tu),
-            show_t(fit.t_max_k(), tu)
-        ),
-        "Van 't Hoff enthalpies can differ from calorimetric ones (coupled equilibria, protonation, or a two-state assumption that does not hold); compare with calorimetry where it matters.".to_string(),
-        "This report documents a calculation; it does not replace the laboratory's own validated methods, which take precedence for any decision.".to_string(),
+        present::cautions::extrapolation(&show_t(fit.t_min_k(), tu), &show_t(fit.t_max_k(), tu)),
+        present::cautions::CALORIMETRY.to_string(),
+        present::cautions::LAB_METHODS.to_string(),
     ]
 }
 

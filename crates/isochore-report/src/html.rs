@@ -2,8 +2,8 @@
 //! network), every piece of text from the data escaped so a hostile series name shows as
 //! text.
 
-use crate::content::{build, Block, Table};
-use crate::figures::figure_svg;
+use crate::content::{Block, Table};
+use crate::document::Document;
 use crate::{ReportError, ReportInput};
 use std::fmt::Write;
 
@@ -62,14 +62,19 @@ fn inline_svg(svg: &str) -> &str {
 }
 
 pub(crate) fn render(input: &ReportInput) -> Result<String, ReportError> {
+    render_document(&Document::of(input))
+}
+
+/// The HTML page of any report's blocks (a single fit's or a joint fit's).
+pub(crate) fn render_document(doc: &Document<'_>) -> Result<String, ReportError> {
     let mut out = String::with_capacity(256 * 1024);
     let _ = write!(
         out,
         "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n<meta name=\"generator\" content=\"isochore {}\">\n<title>{}</title>\n<style>{STYLE}</style>\n</head>\n<body>\n",
-        html_escape::encode_double_quoted_attribute(&input.program_version),
-        esc(&input.title)
+        html_escape::encode_double_quoted_attribute(doc.program_version),
+        esc(doc.title)
     );
-    for block in build(input) {
+    for block in doc.blocks.iter().cloned() {
         match block {
             Block::Title(t) => {
                 let _ = writeln!(out, "<h1>{}</h1>", esc(&t));
@@ -102,7 +107,7 @@ pub(crate) fn render(input: &ReportInput) -> Result<String, ReportError> {
             }
             Block::Table(t) => table(&mut out, &t),
             Block::Figure(kind, caption) => {
-                let svg = figure_svg(input, kind)?;
+                let svg = (doc.figure_svg)(kind)?;
                 let _ = writeln!(
                     out,
                     "<figure>\n{}\n<figcaption><strong>{}.</strong> {}</figcaption>\n</figure>",

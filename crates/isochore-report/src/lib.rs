@@ -28,10 +28,12 @@
 mod atomic;
 pub mod content;
 mod csv_tables;
+mod document;
 pub mod figures;
 mod fonts;
 pub mod guard;
 mod html;
+pub mod joint;
 mod markdown;
 mod pdf;
 pub mod present;
@@ -43,6 +45,10 @@ use std::path::{Path, PathBuf};
 pub use atomic::{remove_stale_temporaries, write_atomic, STALE_AFTER, TEMP_PREFIX, TEMP_SUFFIX};
 pub use figures::FigureKind;
 pub use guard::{OverwriteGuard, MANIFEST};
+pub use joint::{
+    joint_report_paths, joint_report_set_paths, render_joint, write_joint_report,
+    write_joint_report_set, JointCompensation, JointReportInput, JointSeries,
+};
 
 /// One measured row as the caller read it, with its values on the fitting scale.
 ///

@@ -59,8 +59,13 @@ fn table(out: &mut String, t: &Table) {
 }
 
 pub(crate) fn render(input: &ReportInput, figure_stem: &str) -> String {
+    render_blocks(&build(input), figure_stem)
+}
+
+/// The Markdown of any report's blocks, figures linked as `<figure_stem>-<kind>.svg`.
+pub(crate) fn render_blocks(blocks: &[Block], figure_stem: &str) -> String {
     let mut out = String::new();
-    for block in build(input) {
+    for block in blocks.iter().cloned() {
         match block {
             Block::Title(t) => {
                 let _ = writeln!(out, "# {}\n", esc(&t));

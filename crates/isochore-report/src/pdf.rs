@@ -6,8 +6,9 @@
 //! The layout engine here is deliberately small: a cursor moving down the page, text
 //! measured with the font's own advance widths, a new page when the next piece would not fit.
 
-use crate::content::{build, Block, Table};
-use crate::figures::{figure_png, FigureKind};
+use crate::content::{Block, Table};
+use crate::document::Document;
+use crate::figures::{svg_to_png, FigureKind, PNG_SCALE};
 use crate::fonts::{self, Metrics};
 use crate::{ReportError, ReportInput};
 use printpdf::{
@@ -386,11 +387,11 @@ impl Layout {
 
     fn figure(
         &mut self,
-        input: &ReportInput,
+        doc: &Document<'_>,
         kind: FigureKind,
         caption: &str,
     ) -> Result<(), ReportError> {
-        let png = figure_png(input, kind)?;
+        let png = svg_to_png(&(doc.figure_svg)(kind)?, PNG_SCALE)?;
         let mut warn = Vec::new();
         let image = RawImage::decode_from_bytes(&png, &mut warn).map_err(ReportError::Pdf)?;
         let (w_px, h_px) = (image.width as f32, image.height as f32);
@@ -423,7 +424,12 @@ impl Layout {
 }
 
 pub(crate) fn render(input: &ReportInput) -> Result<Vec<u8>, ReportError> {
-    let mut doc = PdfDocument::new(&input.title);
+    render_document(&Document::of(input))
+}
+
+/// The PDF of any report's blocks (a single fit's or a joint fit's).
+pub(crate) fn render_document(source: &Document<'_>) -> Result<Vec<u8>, ReportError> {
+    let mut doc = PdfDocument::new(source.title);
     let mut fw = Vec::new();
     let regular = ParsedFont::from_bytes(fonts::REGULAR, 0, &mut fw)
         .ok_or_else(|| ReportError::Pdf("the bundled regular font could not be parsed".into()))?;
@@ -447,9 +453,8 @@ pub(crate) fn render(input: &ReportInput) -> Result<Vec<u8>, ReportError> {
         y: MARGIN_TOP,
     };
     let ink = rgb(30, 30, 30);
-    let next_blocks = build(input);
-    let blocks = build(input);
-    for (i, block) in blocks.into_iter().enumerate() {
+    let next_blocks = &source.blocks;
+    for (i, block) in source.blocks.iter().cloned().enumerate() {
         // Keep a heading on the same page as a figure that follows it, with the
         // paragraphs between them.
         if matches!(block, Block::Heading(_)) {
@@ -484,12 +489,12 @@ pub(crate) fn render(input: &ReportInput) -> Result<Vec<u8>, ReportError> {
             Block::Bullets(items) => l.bullets(&items, ink.clone()),
             Block::Warnings(items) => l.warnings(&items),
             Block::Table(t) => l.table(&t),
-            Block::Figure(kind, caption) => l.figure(input, kind, &caption)?,
+            Block::Figure(kind, caption) => l.figure(source, kind, &caption)?,
         }
     }
     l.new_page();
     let n = l.pages.len();
-    let footer_left = format!("Isochore report · {}", input.series_name);
+    let footer_left = source.footer.clone();
     let pages_ops = std::mem::take(&mut l.pages);
     let mut pages = Vec::with_capacity(n);
     for (i, ops) in pages_ops.into_iter().enumerate() {

@@ -145,7 +145,8 @@ fn envelope_extremes(points: &[(f64, f64)]) -> Vec<(f64, f64)> {
         .collect()
 }
 
-/// Which figure.
+/// Which figure: the four of a single fit's report ([`FigureKind::ALL`]) and the four of
+/// a joint fit's ([`FigureKind::JOINT`]).
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
 pub enum FigureKind {
     /// ln K against 1000/T with fit, confidence and prediction bands.
@@ -156,6 +157,14 @@ pub enum FigureKind {
     Influence,
     /// Joint confidence region of ΔH° and ΔS°.
     Ellipse,
+    /// A joint fit: every series' points with the line the joint fit gives it.
+    SeriesVantHoff,
+    /// A joint fit: the residuals of each series in a panel of its own.
+    SeriesResiduals,
+    /// A joint fit's compensation analysis: ΔH° against ΔS° with each series' region.
+    CompensationEntropy,
+    /// A joint fit's compensation analysis: ΔH° against ΔG°(T_hm) with each series' region.
+    CompensationGibbs,
 }
 
 impl FigureKind {
@@ -167,6 +176,15 @@ impl FigureKind {
         FigureKind::Ellipse,
     ];
 
+    /// The figures of a joint fit's report, in report order (the compensation figures
+    /// only with three or more series).
+    pub const JOINT: [FigureKind; 4] = [
+        FigureKind::SeriesVantHoff,
+        FigureKind::SeriesResiduals,
+        FigureKind::CompensationEntropy,
+        FigureKind::CompensationGibbs,
+    ];
+
     /// Short name used in file names: "vanthoff", "residuals", "influence", "ellipse".
     pub fn key(self) -> &'static str {
         match self {
@@ -174,6 +192,10 @@ impl FigureKind {
             FigureKind::Residuals => "residuals",
             FigureKind::Influence => "influence",
             FigureKind::Ellipse => "ellipse",
+            FigureKind::SeriesVantHoff => "vanthoff-by-series",
+            FigureKind::SeriesResiduals => "residuals-by-series",
+            FigureKind::CompensationEntropy => "compensation-dh-ds",
+            FigureKind::CompensationGibbs => "compensation-dh-dg",
         }
     }
 
@@ -184,6 +206,10 @@ impl FigureKind {
             FigureKind::Residuals => "Residuals",
             FigureKind::Influence => "Influence",
             FigureKind::Ellipse => "ΔH°–ΔS° confidence region",
+            FigureKind::SeriesVantHoff => "Van 't Hoff plot by series",
+            FigureKind::SeriesResiduals => "Residuals by series",
+            FigureKind::CompensationEntropy => "ΔH° against ΔS°",
+            FigureKind::CompensationGibbs => "ΔH° against ΔG°(T_hm)",
         }
     }
 }
@@ -207,6 +233,12 @@ pub fn figure_svg(input: &ReportInput, kind: FigureKind) -> Result<String, Repor
             FigureKind::Residuals => residuals(&root, input)?,
             FigureKind::Influence => influence(&root, input)?,
             FigureKind::Ellipse => ellipse(&root, input)?,
+            joint => {
+                return Err(ReportError::Input(format!(
+                    "the figure “{}” belongs to the report of a joint fit",
+                    joint.title()
+                )))
+            }
         }
         root.present().map_err(fe)?;
     }
@@ -421,6 +453,50 @@ fn draw_key<'a, 'b: 'a>(
         .map_err(fe)
 }
 
+/// The top axis of a van 't Hoff plot: round temperatures in `tu`, placed on the 1000/T
+/// scale of `chart` between `x0` and `x1`, with the axis title above them.
+fn top_temperature_axis(
+    root: &Area,
+    chart: &Chart<'_, '_>,
+    (x0, x1): (f64, f64),
+    y1: f64,
+    tu: TemperatureUnit,
+) -> Result<(), ReportError> {
+    let (keys, t_dec) = temperature_keys(x0, x1, tu);
+    let tick_style = (FONT, TICK_SIZE).into_font().color(&INK);
+    let (left, top) = chart.backend_coord(&(x0, y1));
+    let (right, _) = chart.backend_coord(&(x1, y1));
+    root.draw(&PathElement::new(
+        vec![(left, top), (right, top)],
+        INK.stroke_width(1),
+    ))
+    .map_err(fe)?;
+    for k in &keys {
+        let (px, _) = chart.backend_coord(&(*k, y1));
+        root.draw(&PathElement::new(
+            vec![(px, top), (px, top - 6)],
+            INK.stroke_width(1),
+        ))
+        .map_err(fe)?;
+        let label = fixed(tu.from_kelvin(1000.0 / k), t_dec);
+        root.draw(&Text::new(
+            label,
+            (px, top - 9),
+            tick_style.clone().pos(Pos::new(HPos::Center, VPos::Bottom)),
+        ))
+        .map_err(fe)?;
+    }
+    root.draw(&Text::new(
+        crate::present::names::t_axis(tu),
+        ((left + right) / 2, top - 32),
+        (FONT, DESC_SIZE)
+            .into_font()
+            .color(&INK)
+            .pos(Pos::new(HPos::Center, VPos::Bottom)),
+    ))
+    .map_err(fe)
+}
+
 fn no_data(root: &Area, what: &str) -> Result<(), ReportError> {
     root.draw(&Text::new(
         format!("no {what} to draw"),
@@ -430,8 +506,11 @@ fn no_data(root: &Area, what: &str) -> Result<(), ReportError> {
     .map_err(fe)
 }
 
+mod joint;
 mod marks;
 mod plots;
+
+pub(crate) use joint::joint_figure_svg;
 
 use marks::{draw_flag_rings, draw_labels, draw_points, draw_used_envelope, Rings};
 use plots::{ellipse, influence, residuals, vant_hoff};

@@ -27,8 +27,6 @@ pub(super) fn vant_hoff(root: &Area, input: &ReportInput) -> Result<(), ReportEr
         return no_data(root, "values");
     };
     let (y0, y1) = padded(yr, 0.06);
-    let (keys, t_dec) = temperature_keys(x0, x1, input.temperature_unit);
-    let tu = input.temperature_unit;
     let mut chart = framed_chart(
         root,
         Frame {
@@ -41,39 +39,7 @@ pub(super) fn vant_hoff(root: &Area, input: &ReportInput) -> Result<(), ReportEr
             y_decimals: None,
         },
     )?;
-    // Top axis: round temperatures in the user's unit, placed on the 1000/T scale.
-    let tick_style = (FONT, TICK_SIZE).into_font().color(&INK);
-    let (left, top) = chart.backend_coord(&(x0, y1));
-    let (right, _) = chart.backend_coord(&(x1, y1));
-    root.draw(&PathElement::new(
-        vec![(left, top), (right, top)],
-        INK.stroke_width(1),
-    ))
-    .map_err(fe)?;
-    for k in &keys {
-        let (px, _) = chart.backend_coord(&(*k, y1));
-        root.draw(&PathElement::new(
-            vec![(px, top), (px, top - 6)],
-            INK.stroke_width(1),
-        ))
-        .map_err(fe)?;
-        let label = fixed(tu.from_kelvin(1000.0 / k), t_dec);
-        root.draw(&Text::new(
-            label,
-            (px, top - 9),
-            tick_style.clone().pos(Pos::new(HPos::Center, VPos::Bottom)),
-        ))
-        .map_err(fe)?;
-    }
-    root.draw(&Text::new(
-        crate::present::names::t_axis(tu),
-        ((left + right) / 2, top - 32),
-        (FONT, DESC_SIZE)
-            .into_font()
-            .color(&INK)
-            .pos(Pos::new(HPos::Center, VPos::Bottom)),
-    ))
-    .map_err(fe)?;
+    top_temperature_axis(root, &chart, (x0, x1), y1, input.temperature_unit)?;
 
     let x_of = |b: &isochore_fit::BandPoint| b.inv_t * 1000.0;
     // Confidence band, shaded.

@@ -7,7 +7,9 @@
 //! ([`quantity`]). No statistics here: every number comes
 //! from the fit; flag limits and Cook's-distance contours are asked of `isochore_fit`.
 
+pub mod cautions;
 pub mod intervals;
+pub mod joint;
 pub mod model;
 pub mod names;
 pub mod number;
