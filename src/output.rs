@@ -121,6 +121,14 @@ fn escape_into(w: &mut impl Write, bytes: &[u8], style: Style) -> io::Result<()>
     let mut start = 0;
     let mut i = 0;
     while i < bytes.len() {
+        // Runs of 32 plain bytes (all of a number-heavy JSON document) are passed over a
+        // block at a time: the test of a whole block has no branch per byte.
+        if let Some(block) = bytes.get(i..i + 32) {
+            if !block.iter().fold(false, |any, &b| any | suspicious(b)) {
+                i += 32;
+                continue;
+            }
+        }
         if !suspicious(bytes[i]) {
             i += 1;
             continue;
@@ -315,6 +323,29 @@ mod tests {
         for cut in 0..s.len() {
             let t = through(&[&s[..cut], &s[cut..]], Style::Text);
             assert_eq!(t, "x\\u{9b}y°\\u{202e}z", "cut at {cut}");
+        }
+    }
+
+    #[test]
+    fn controls_anywhere_in_long_runs_are_escaped() {
+        // The block-at-a-time pass over plain bytes must not step over a control in any
+        // position of a block, nor over a character that starts at a block's end.
+        for bad in ["\u{1b}", "\u{9b}", "\u{202e}", "°"] {
+            for at in 0..80 {
+                let s = format!("{}{bad}{}", "7".repeat(at), "1".repeat(80 - at));
+                let want = format!(
+                    "{}{}{}",
+                    "7".repeat(at),
+                    escape_of(bad.chars().next().unwrap(), Style::Text)
+                        .unwrap_or_else(|| bad.to_string()),
+                    "1".repeat(80 - at)
+                );
+                assert_eq!(
+                    through(&[s.as_bytes()], Style::Text),
+                    want,
+                    "{bad:?} at {at}"
+                );
+            }
         }
     }
 

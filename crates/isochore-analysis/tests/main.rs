@@ -3,6 +3,7 @@
 
 mod common;
 mod json_contract;
+mod json_stream;
 mod loading;
 mod report_input;
 mod weighting;

@@ -81,9 +81,9 @@ pub fn write_fit_with_calorimetric(
     with_points: bool,
     comparisons: &[CalorimetricComparison],
 ) -> io::Result<()> {
-    let doc = FitWithCalorimetricJson {
+    let mut doc = FitWithCalorimetricJson {
         fit: FitJson::new(set, fit, source, with_points),
         calorimetric: comparisons.iter().map(CalorimetricJson::new).collect(),
     };
-    serde_json::to_writer(w, &doc).map_err(io::Error::from)
+    super::write_with_points(w, &mut doc, |d| &mut d.fit.points)
 }

@@ -17,6 +17,7 @@ pub mod errors_in_t;
 pub mod intervals;
 pub mod joint;
 pub mod predict;
+mod stream;
 pub mod two_point;
 
 use crate::dataset::PreparedSet;
@@ -256,9 +257,12 @@ pub struct PointJson<'a> {
 }
 
 /// The points of a fit, streamed: each element is built as it is written.
+#[derive(Clone, Copy)]
 pub struct PointsJson<'a> {
     set: &'a PreparedSet,
     fit: &'a VantHoffFit,
+    /// Written as `[]`: marks where [`stream`] writes the elements itself.
+    empty: bool,
 }
 
 impl PointsJson<'_> {
@@ -292,6 +296,9 @@ impl Serialize for PointsJson<'_> {
         // The undefined values were counted when the document was built; this pass only
         // writes.
         let mut scratch = Nulls::new();
+        if self.empty {
+            return s.collect_seq(std::iter::empty::<PointJson<'_>>());
+        }
         s.collect_seq(self.each(&mut scratch))
     }
 }
@@ -422,7 +429,11 @@ impl<'a> FitJson<'a> {
                 })
                 .collect(),
         });
-        let points = with_points.then_some(PointsJson { set, fit });
+        let points = with_points.then_some(PointsJson {
+            set,
+            fit,
+            empty: false,
+        });
         if let Some(p) = &points {
             // Counts the undefined values of the points, in row order.
             p.each(&mut n).for_each(drop);
@@ -492,7 +503,36 @@ pub fn write_fit(
     source: Option<&str>,
     with_points: bool,
 ) -> io::Result<()> {
-    serde_json::to_writer(w, &FitJson::new(set, fit, source, with_points)).map_err(io::Error::from)
+    let mut doc = FitJson::new(set, fit, source, with_points);
+    write_with_points(w, &mut doc, |d| &mut d.points)
+}
+
+/// Writes `doc`, whose points (`points` reaches them) are written by the fast writer of
+/// [`stream`]: the same bytes as `serde_json::to_writer(w, doc)`, several times faster.
+///
+/// # Errors
+/// The writer's.
+pub(crate) fn write_with_points<'a, T: Serialize>(
+    w: &mut impl Write,
+    doc: &mut T,
+    points: fn(&mut T) -> &mut Option<PointsJson<'a>>,
+) -> io::Result<()> {
+    let Some(p) = points(doc).take() else {
+        return serde_json::to_writer(w, doc).map_err(io::Error::from);
+    };
+    let without = stream::to_vec(doc)?;
+    *points(doc) = Some(PointsJson { empty: true, ..p });
+    let with_empty = stream::to_vec(doc)?;
+    stream::write_streamed(
+        w,
+        &with_empty,
+        &without,
+        |out| stream::write_points(out, &p),
+        |out| {
+            *points(doc) = Some(p);
+            serde_json::to_writer(out, doc).map_err(io::Error::from)
+        },
+    )
 }
 
 /// Writes an error element of a batch: `{"source": …, "error": …}`.
