@@ -53,25 +53,9 @@ pub struct Analysis {
     pub cooks_contours: Vec<(f64, Vec<[f64; 2]>)>,
 }
 
-/// A setting that settles why a fit was refused, offered beside the message.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum Remedy {
-    /// A weighted series with σ in some rows and an empty σ cell in others (or no σ at
-    /// all): fit with equal weights, which ignores every σ.
-    FitUnweighted,
-    /// A temperature (or θ) outside the plausible 1–10 000 K: the chemist confirms such
-    /// temperatures for this series.
-    ConfirmExtremeTemperatures,
-}
-
-/// Whether a data-set message is a row refused for an implausible temperature.
-fn implausible_row(e: &isochore_data::Error) -> bool {
-    matches!(
-        e,
-        isochore_data::Error::ProjectRow { rejected, .. }
-            if matches!(rejected.problem, isochore_data::RowProblem::ImplausibleTemperature { .. })
-    )
-}
+/// A setting that settles why a fit was refused, offered beside the message: the
+/// application layer's rule, shared with the command line (which names the flag).
+pub use isochore_analysis::Remedy;
 
 /// Fits one series (pure: the same series gives the same analysis).
 pub fn analyse(series: &Entry) -> Analysis {
@@ -81,10 +65,11 @@ pub fn analyse(series: &Entry) -> Analysis {
         Err(e) => {
             // Only on this error path is the series converted a second time, to tell a
             // refusal the chemist can confirm from one to correct.
-            let remedy = match series.data.converted() {
-                Err(d) if implausible_row(&d) => Some(Remedy::ConfirmExtremeTemperatures),
-                _ => None,
-            };
+            let remedy = series
+                .data
+                .converted()
+                .err()
+                .and_then(|d| Remedy::for_data(&d));
             return Analysis {
                 rev,
                 measurements: Vec::new(),
@@ -121,17 +106,7 @@ pub fn analyse(series: &Entry) -> Analysis {
                     }
                     (Ok(f), None)
                 }
-                Err(e) => {
-                    let remedy = match e {
-                        isochore_fit::Error::ImplausibleTemperature { .. }
-                        | isochore_fit::Error::ImplausibleReferenceTemperature(_) => {
-                            Some(Remedy::ConfirmExtremeTemperatures)
-                        }
-                        isochore_fit::Error::MissingSigma { .. } => Some(Remedy::FitUnweighted),
-                        _ => None,
-                    };
-                    (Err(e.to_string()), remedy)
-                }
+                Err(e) => (Err(e.to_string()), Remedy::for_fit(&e)),
             },
         };
     let (band, ellipse, h_g_region, contours) = match &fit {

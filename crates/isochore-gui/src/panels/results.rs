@@ -59,7 +59,9 @@ impl ResultsPanel {
                             apply = true;
                         }
                     }
-                    None => {}
+                    // Settled elsewhere: the decimal mark in the import preview, bad rows
+                    // by editing them in the table.
+                    Some(Remedy::StateDecimalMark | Remedy::SkipBadRows) | None => {}
                 }
                 if apply {
                     cx.out.push(Command::SetSettings {
