@@ -4,6 +4,7 @@
 //! (no copies of large series).
 
 use crate::doc::{Entry, Project};
+use isochore_analysis::RowNumber;
 use isochore_data::{Exclusion, SeriesSettings};
 use isochore_report::present::names;
 
@@ -72,10 +73,10 @@ impl Command {
     pub fn describe(&self) -> String {
         match self {
             Command::SetExclusion { row, exclusion, .. } => match exclusion {
-                None => names::use_row_again(row + 1),
-                Some(_) => names::exclude_row(row + 1),
+                None => names::use_row_again(RowNumber::from_index(*row).get()),
+                Some(_) => names::exclude_row(RowNumber::from_index(*row).get()),
             },
-            Command::EditCell { row, .. } => format!("edit row {}", row + 1),
+            Command::EditCell { row, .. } => format!("edit row {}", RowNumber::from_index(*row)),
             Command::SetSettings { .. } => "settings change".into(),
             Command::SetShown { .. } => "show/hide series".into(),
             Command::Rename { .. } => "rename".into(),
@@ -107,9 +108,12 @@ pub fn apply(project: &mut Project, cmd: Command) -> Option<Command> {
                 .exclusion(row)
                 .map(|e: &Exclusion| (e.reason.clone(), e.at.clone()));
             match &exclusion {
-                Some((reason, at)) => s.data.exclude(row + 1, reason, at).ok()?,
+                Some((reason, at)) => s
+                    .data
+                    .exclude(RowNumber::from_index(row).get(), reason, at)
+                    .ok()?,
                 None => {
-                    s.data.include(row + 1);
+                    s.data.include(RowNumber::from_index(row).get());
                 }
             }
             bump(s);
@@ -217,7 +221,7 @@ impl History {
                     },
                 ) = (excludes, &inverse)
                 {
-                    label = names::exclusion_reason_of_row(row + 1);
+                    label = names::exclusion_reason_of_row(RowNumber::from_index(*row).get());
                 }
                 self.undo.push((inverse, label));
                 if self.undo.len() > MAX_UNDO {

@@ -9,6 +9,7 @@ use crate::command::Command;
 use crate::panels::style;
 use egui::{RichText, Sense};
 use egui_extras::{Column, TableBuilder};
+use isochore_analysis::RowNumber;
 use isochore_report::present::names;
 
 /// What a cell being edited holds.
@@ -186,7 +187,7 @@ impl TablePanel {
                                 cx.links.selected == Some(key) || cx.links.hovered == Some(key),
                             );
                             tr.col(|ui| {
-                                let r = ui.label(format!("{}", i + 1));
+                                let r = ui.label(RowNumber::from_index(i).to_string());
                                 if let Some(line) = series.line(i) {
                                     r.on_hover_text(format!(
                                         "line {line} of {}",
@@ -197,7 +198,7 @@ impl TablePanel {
                             tr.col(|ui| {
                                 let mut inc = excl.is_none();
                                 let r = ui.checkbox(&mut inc, "");
-                                let label = format!("use row {}", i + 1);
+                                let label = format!("use row {}", RowNumber::from_index(i));
                                 r.widget_info(|| {
                                     egui::WidgetInfo::selected(
                                         egui::Role::CheckBox,
@@ -332,7 +333,7 @@ impl TablePanel {
                 return;
             };
             let resp = ui.add(egui::TextEdit::singleline(&mut e.text).desired_width(f32::INFINITY));
-            let label = format!("edit row {}", row + 1);
+            let label = format!("edit row {}", RowNumber::from_index(row));
             resp.widget_info(|| egui::WidgetInfo::labeled(egui::Role::TextInput, true, &label));
             if !e.focused {
                 resp.request_focus();

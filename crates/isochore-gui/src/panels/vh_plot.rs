@@ -15,6 +15,7 @@ use egui_plot::{
     AxisHints, Line, LineStyle, MarkerShape, Plot, PlotPoint, PlotPoints, PlotTransform, PlotUi,
     Points, Polygon, VPlacement,
 };
+use isochore_analysis::RowNumber;
 use std::sync::Arc;
 
 /// Series with more points than this are drawn decimated (min/max per pixel column).
@@ -231,7 +232,7 @@ impl PlotPanel {
         };
         let mut close = false;
         let mut save = false;
-        egui::Window::new(format!("Row {} excluded", p.row + 1))
+        egui::Window::new(format!("Row {} excluded", RowNumber::from_index(p.row)))
             .collapsible(false)
             .resizable(false)
             .anchor(egui::Align2::CENTER_TOP, [0.0, 80.0])
@@ -465,7 +466,7 @@ pub fn point_card(
     if row >= s.n_rows() {
         return;
     }
-    ui.strong(format!("{} — row {}", s.name(), row + 1));
+    ui.strong(format!("{} — row {}", s.name(), RowNumber::from_index(row)));
     let tu = s.data.settings.temperature_unit;
     let m = a.and_then(|a| a.measurements.get(point));
     egui::Grid::new("point_card").num_columns(2).show(ui, |ui| {
