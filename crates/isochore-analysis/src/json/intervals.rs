@@ -28,7 +28,7 @@ pub struct QuantityJson {
     pub mean_of_draws: Option<f64>,
     /// Draws in which the quantity was undefined.
     pub undefined_draws: usize,
-    /// The delta method's estimate (Fieller's interval for `t_at_k…`).
+    /// The delta method's estimate (Fieller's interval for `t_at_k…` and `t_delta_h_zero`).
     pub delta: EstimateJson,
 }
 
@@ -92,18 +92,11 @@ pub fn apply(doc: &mut FitJson<'_>, run: &IntervalRun) {
                 }),
                 mean_of_draws: q.mean.is_finite().then_some(q.mean),
                 undefined_draws: q.undefined,
-                delta: {
-                    let method = if q.quantity.key.starts_with("t_at_k") {
-                        "fieller"
-                    } else {
-                        "delta"
-                    };
-                    n.estimate_with(
-                        &format!("{}.delta", q.quantity.key),
-                        &q.quantity.delta,
-                        method,
-                    )
-                },
+                delta: n.estimate_with(
+                    &format!("{}.delta", q.quantity.key),
+                    &q.quantity.delta,
+                    q.quantity.delta_method.key(),
+                ),
             }
         })
         .collect();

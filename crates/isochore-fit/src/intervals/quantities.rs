@@ -10,6 +10,7 @@
 //! root cannot be found (K never reaches the target near the data, ΔCp° of the other sign)
 //! is counted as undefined, not guessed.
 
+use super::IntervalMethod;
 use crate::model::Model;
 use crate::vant_hoff::{Estimate, VantHoffFit};
 use crate::GAS_CONSTANT;
@@ -64,6 +65,9 @@ pub struct Quantity {
     /// The fit's estimate with its delta-method SE and interval (Fieller's for the
     /// temperature at a target K).
     pub delta: Estimate,
+    /// What made `delta`'s interval: the delta method, or Fieller's for the temperatures at
+    /// a target K and where ΔH° = 0.
+    pub delta_method: IntervalMethod,
 }
 
 /// A quantity made ready for the draws ([`Evaluator::prepare`]).
@@ -233,47 +237,12 @@ fn newton(f: impl Fn(f64) -> f64, df: impl Fn(f64) -> f64, start: f64) -> f64 {
     f64::NAN
 }
 
-/// The temperature where ΔH°(T) of the fit changes sign nearest T_hm, searched between a
-/// third of the lowest and three times the highest used temperature; `None` without one.
-fn delta_h_zero(fit: &VantHoffFit) -> Option<f64> {
-    let ev = Evaluator::new(fit);
-    let beta = fit.coefficients();
-    let (lo, hi) = (fit.t_min_k() / 3.0, fit.t_max_k() * 3.0);
-    const GRID: usize = 2048;
-    let mut best: Option<f64> = None;
-    let mut prev = (lo, ev.delta_h(lo, &beta));
-    for k in 1..=GRID {
-        let t = lo + (hi - lo) * k as f64 / GRID as f64;
-        let v = ev.delta_h(t, &beta);
-        if v.is_finite() && prev.1.is_finite() && (v == 0.0 || v.signum() != prev.1.signum()) {
-            let (mut a, mut b) = (prev.0, t);
-            let fa = prev.1;
-            for _ in 0..200 {
-                let m = 0.5 * (a + b);
-                let fm = ev.delta_h(m, &beta);
-                if fm.signum() == fa.signum() && fm != 0.0 {
-                    a = m;
-                } else {
-                    b = m;
-                }
-            }
-            let root = 0.5 * (a + b);
-            let hm = fit.t_harmonic_k();
-            if best.is_none_or(|r| (root - hm).abs() < (r - hm).abs()) {
-                best = Some(root);
-            }
-        }
-        prev = (t, v);
-    }
-    best
-}
-
 /// The quantities reported for `fit`: every parameter; ΔG° and K at θ and at T_hm (and
 /// ΔH°, ΔS° at T_hm for a model with a heat capacity, where they differ from the
 /// parameters); at each of `temperatures`, ΔG° and K; the temperature for each target in
 /// `k_targets` where the fit has one; and the temperature where ΔH° = 0 for a model with a
-/// heat capacity, where the fit has one within a third of the lowest and three times the
-/// highest temperature.
+/// heat capacity, where the fit has one ([`VantHoffFit::temperature_where_delta_h_is_zero`]:
+/// within a factor of three of T_hm, with Fieller's interval).
 pub fn quantities(fit: &VantHoffFit, temperatures: &[f64], k_targets: &[f64]) -> Vec<Quantity> {
     let mut out: Vec<Quantity> = fit
         .params()
@@ -283,6 +252,7 @@ pub fn quantities(fit: &VantHoffFit, temperatures: &[f64], k_targets: &[f64]) ->
             key: p.key().to_string(),
             kind: QuantityKind::Parameter { index },
             delta: p.estimate,
+            delta_method: IntervalMethod::Delta,
         })
         .collect();
     let at = |label: &str, t_k: f64, out: &mut Vec<Quantity>| {
@@ -290,6 +260,7 @@ pub fn quantities(fit: &VantHoffFit, temperatures: &[f64], k_targets: &[f64]) ->
             key: format!("delta_g_at_{label}"),
             kind: QuantityKind::DeltaG { t_k },
             delta: fit.delta_g(t_k),
+            delta_method: IntervalMethod::Delta,
         });
         if let Ok(p) = fit.predict(t_k) {
             out.push(Quantity {
@@ -301,6 +272,7 @@ pub fn quantities(fit: &VantHoffFit, temperatures: &[f64], k_targets: &[f64]) ->
                     ci_low: p.k.ci.low,
                     ci_high: p.k.ci.high,
                 },
+                delta_method: IntervalMethod::Delta,
             });
         }
     };
@@ -312,11 +284,13 @@ pub fn quantities(fit: &VantHoffFit, temperatures: &[f64], k_targets: &[f64]) ->
             key: "delta_h_at_t_hm".into(),
             kind: QuantityKind::DeltaH { t_k: hm },
             delta: fit.delta_h_at(hm),
+            delta_method: IntervalMethod::Delta,
         });
         out.push(Quantity {
             key: "delta_s_at_t_hm".into(),
             kind: QuantityKind::DeltaS { t_k: hm },
             delta: fit.delta_s_at(hm),
+            delta_method: IntervalMethod::Delta,
         });
     }
     for &t in temperatures {
@@ -333,26 +307,18 @@ pub fn quantities(fit: &VantHoffFit, temperatures: &[f64], k_targets: &[f64]) ->
                 key,
                 kind: QuantityKind::TemperatureForK { k_target: k },
                 delta: e,
+                delta_method: IntervalMethod::Fieller,
             });
         }
     }
-    if fit.model().has_heat_capacity() {
-        if let Some(t0) = delta_h_zero(fit) {
-            // Delta method: SE = √(cᵀΣc)/|ΔCp°(T₀)|, c the ΔH° row at T₀ (implicit function).
-            let c = fit.model().delta_h_row(t0, fit.options().t_ref_k);
-            let cov = fit.covariance();
-            let var: f64 = (0..c.len())
-                .flat_map(|a| (0..c.len()).map(move |b| (a, b)))
-                .map(|(a, b)| c[a] * cov[a][b] * c[b])
-                .sum();
-            let slope = Evaluator::new(fit).delta_cp(t0, &fit.coefficients());
-            let se = var.max(0.0).sqrt() / slope.abs();
-            out.push(Quantity {
-                key: "t_delta_h_zero".into(),
-                kind: QuantityKind::TemperatureDeltaHZero,
-                delta: Estimate::symmetric(t0, se, fit.critical_value()),
-            });
-        }
+    // The fit's own T₀ and Fieller's interval (`crate::enthalpy_zero`), the draws' start.
+    if let Some(ez) = fit.temperature_where_delta_h_is_zero() {
+        out.push(Quantity {
+            key: "t_delta_h_zero".into(),
+            kind: QuantityKind::TemperatureDeltaHZero,
+            delta: ez.estimate,
+            delta_method: IntervalMethod::Fieller,
+        });
     }
     out
 }
