@@ -843,6 +843,18 @@ fn analyst_and_note_are_recorded_in_the_report() {
     let text = std::fs::read_to_string(&md).unwrap();
     assert!(text.contains(" by R. Okafor with vhfit "), "{text}");
     assert!(text.contains("notebook 14, p. 32"), "{text}");
+    // Issue 11 item 3: the ΔH°–ΔG°(T_hm) region beside the ΔH°–ΔS° one, with the true
+    // sentence: for the linear model ΔG°(T_hm) is uncorrelated with ΔH° (Krug, Hunter &
+    // Grieger 1976), while ΔH° and ΔS° stay correlated.
+    // (Markdown escapes parentheses.)
+    let plain = text.replace('\\', "");
+    assert!(
+        plain.contains("ΔG° is uncorrelated with ΔH° (r = 0.0000)"),
+        "{text}"
+    );
+    assert!(!text.contains("least correlated"), "{text}");
+    let svg = std::fs::read_to_string(dir.path().join("qx7-ellipse.svg")).unwrap();
+    assert!(svg.contains("ΔG° at T_hm / (kJ/mol)") && svg.contains("ΔS° / (J/(mol·K))"));
     let out = run(&[
         "fit",
         &demo("binding_qx7_halo2.csv"),

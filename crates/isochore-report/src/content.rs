@@ -438,18 +438,25 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
 
     b.push(Block::Heading("ΔH° and ΔS° together".into()));
     b.push(Block::Paragraph(format!(
-        "ΔH° and ΔS° are estimated jointly and their errors are correlated (r = {} at θ). The ellipse is their joint {}% confidence region; quoting them separately overstates what is known about each. They stay this correlated at every temperature, because ΔS° = (ΔH° − ΔG°)/T; at T_hm = {}, ΔG° is uncorrelated with ΔH°, so ΔH° with ΔG°(T_hm) is the pair to quote.",
+        "ΔH° and ΔS° are estimated jointly and their errors are correlated (r = {} at θ). The left panel is their joint {}% confidence region; quoting them separately overstates what is known about each. They stay this correlated at every temperature, because ΔS° = (ΔH° − ΔG°)/T; at T_hm = {}, ΔG° is {} (r = {}), so ΔH° with ΔG°(T_hm) is the pair to quote: the right panel is their joint region.",
         fixed(fit.corr_h_s(), 4),
         percent(fit.options().level),
-        show_t(fit.t_harmonic_k(), tu)
+        show_t(fit.t_harmonic_k(), tu),
+        if fit.corr_h_g_harmonic().abs() < 1e-6 {
+            "uncorrelated with ΔH°"
+        } else {
+            "far less correlated with ΔH° than ΔS° is (zero only without ΔCp°)"
+        },
+        fixed(fit.corr_h_g_harmonic(), 4)
     )));
     b.push(Block::Figure(
         FigureKind::Ellipse,
         format!(
-            "Joint confidence region of ΔH° ({}) and ΔS° ({}) at θ = {}.",
+            "Joint confidence regions: ΔH° ({}) with ΔS° ({}) at θ = {} (left), and ΔH° with ΔG° at T_hm = {} (right).",
             e.symbol(),
             s_unit,
-            show_t(fit.options().t_ref_k, tu)
+            show_t(fit.options().t_ref_k, tu),
+            show_t(fit.t_harmonic_k(), tu)
         ),
     ));
     let (header, rows) = present::covariance_table(fit, e);

@@ -155,7 +155,7 @@ pub enum FigureKind {
     Residuals,
     /// Studentized residual against leverage with Cook's-distance contours.
     Influence,
-    /// Joint confidence region of ΔH° and ΔS°.
+    /// Joint confidence regions of ΔH° with ΔS° and of ΔH° with ΔG° at T_hm, side by side.
     Ellipse,
     /// A joint fit: every series' points with the line the joint fit gives it.
     SeriesVantHoff,
@@ -205,7 +205,7 @@ impl FigureKind {
             FigureKind::VantHoff => "Van 't Hoff plot",
             FigureKind::Residuals => "Residuals",
             FigureKind::Influence => "Influence",
-            FigureKind::Ellipse => "ΔH°–ΔS° confidence region",
+            FigureKind::Ellipse => "Joint confidence regions: ΔH°–ΔS° and ΔH°–ΔG° at T_hm",
             FigureKind::SeriesVantHoff => "Van 't Hoff plot by series",
             FigureKind::SeriesResiduals => "Residuals by series",
             FigureKind::CompensationEntropy => "ΔH° against ΔS°",

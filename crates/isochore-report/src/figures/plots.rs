@@ -280,13 +280,72 @@ pub(super) fn ellipse(root: &Area, input: &ReportInput) -> Result<(), ReportErro
     let fit = &input.fit;
     let eu = present::energy(input.energy_unit);
     let su = present::per_kelvin(input.energy_unit);
-    let Ok(poly) = fit.ellipse(fit.options().level, 180) else {
-        return no_data(root, "confidence region (degenerate covariance)");
-    };
-    let pts: Vec<(f64, f64)> = poly
-        .iter()
-        .map(|v| (eu.from_si(v[0]), su.from_si(v[1])))
-        .collect();
+    let level = fit.options().level;
+    // Left: ΔH° with ΔS° at θ (a needle when they are strongly correlated); right: ΔH°
+    // with ΔG° at T_hm, where ΔG° is uncorrelated with ΔH° for the linear model (Krug,
+    // Hunter & Grieger 1976), the pair worth quoting.
+    let (left, right) = root.split_horizontally(WIDTH / 2);
+    match fit.ellipse(level, 180) {
+        Ok(poly) => {
+            let pts: Vec<(f64, f64)> = poly
+                .iter()
+                .map(|v| (eu.from_si(v[0]), su.from_si(v[1])))
+                .collect();
+            let centre = (
+                eu.from_si(fit.delta_h().value),
+                su.from_si(fit.delta_s().value),
+            );
+            region_panel(
+                &left,
+                input,
+                &pts,
+                centre,
+                (
+                    &crate::present::names::quantity_axis("ΔH°", eu.symbol),
+                    &crate::present::names::quantity_axis("ΔS°", su.symbol),
+                ),
+                fit.corr_h_s(),
+            )?;
+        }
+        Err(_) => no_data(&left, "ΔH°–ΔS° region (degenerate covariance)")?,
+    }
+    match fit.h_g_region(level, 180) {
+        Ok(poly) => {
+            let t = fit.t_harmonic_k();
+            let pts: Vec<(f64, f64)> = poly
+                .iter()
+                .map(|v| (eu.from_si(v[0]), eu.from_si(v[1])))
+                .collect();
+            let centre = (
+                eu.from_si(fit.delta_h_at(t).value),
+                eu.from_si(fit.delta_g(t).value),
+            );
+            region_panel(
+                &right,
+                input,
+                &pts,
+                centre,
+                (
+                    &crate::present::names::quantity_axis("ΔH°", eu.symbol),
+                    &crate::present::names::quantity_axis("ΔG° at T_hm", eu.symbol),
+                ),
+                fit.corr_h_g_harmonic(),
+            )
+        }
+        Err(_) => no_data(&right, "ΔH°–ΔG° region (degenerate covariance)"),
+    }
+}
+
+/// One joint confidence region (display units) with its estimate and correlation r.
+fn region_panel(
+    root: &Area,
+    input: &ReportInput,
+    pts: &[(f64, f64)],
+    centre: (f64, f64),
+    (x_desc, y_desc): (&str, &str),
+    r: f64,
+) -> Result<(), ReportError> {
+    let fit = &input.fit;
     let Some(xr) = finite_range(pts.iter().map(|p| p.0)) else {
         return no_data(root, "confidence region");
     };
@@ -294,14 +353,16 @@ pub(super) fn ellipse(root: &Area, input: &ReportInput) -> Result<(), ReportErro
         return no_data(root, "confidence region");
     };
     let (x0, x1) = padded(xr, 0.12);
+    // Room above the region for the key.
     let (y0, y1) = padded(yr, 0.12);
+    let y1 = y1 + (y1 - y0) * 0.35;
     let mut chart = framed_chart(
         root,
         Frame {
             x: (x0, x1),
             y: (y0, y1),
-            x_desc: &crate::present::names::quantity_axis("ΔH°", eu.symbol),
-            y_desc: &crate::present::names::quantity_axis("ΔS°", su.symbol),
+            x_desc,
+            y_desc,
             left: 80,
             top: 14,
             y_decimals: None,
@@ -310,35 +371,23 @@ pub(super) fn ellipse(root: &Area, input: &ReportInput) -> Result<(), ReportErro
     let level = present::level_percent(fit);
     chart
         .draw_series(std::iter::once(Polygon::new(
-            pts.clone(),
+            pts.to_vec(),
             BAND_SKY.mix(0.35).filled(),
         )))
         .map_err(fe)?
-        .label(format!("{level}% joint confidence region"))
+        .label(format!("{level}% joint region"))
         .legend(|(x, y)| {
             Rectangle::new([(x, y - 6), (x + 22, y + 6)], BAND_SKY.mix(0.35).filled())
         });
-    let mut closed = pts.clone();
+    let mut closed = pts.to_vec();
     closed.push(pts[0]);
     chart
         .draw_series(LineSeries::new(closed, FIT_BLUE.stroke_width(2)))
         .map_err(fe)?;
-    let (h, s) = (
-        eu.from_si(fit.delta_h().value),
-        su.from_si(fit.delta_s().value),
-    );
     chart
-        .draw_series(std::iter::once(Cross::new((h, s), 7, INK.stroke_width(2))))
+        .draw_series(std::iter::once(Cross::new(centre, 7, INK.stroke_width(2))))
         .map_err(fe)?
-        .label(format!("estimate (r = {})", fixed(fit.corr_h_s(), 4)))
+        .label(format!("estimate (r = {})", fixed(r, 4)))
         .legend(|(x, y)| Cross::new((x + 11, y), 6, INK.stroke_width(2)));
-    let rising = fit.corr_h_s() > 0.0;
-    draw_key(
-        &mut chart,
-        if rising {
-            SeriesLabelPosition::UpperLeft
-        } else {
-            SeriesLabelPosition::UpperRight
-        },
-    )
+    draw_key(&mut chart, SeriesLabelPosition::UpperLeft)
 }
