@@ -452,7 +452,7 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
     b.push(Block::Figure(
         FigureKind::Ellipse,
         format!(
-            "Joint confidence regions: ΔH° ({}) with ΔS° ({}) at θ = {} (left), and ΔH° with ΔG° at T_hm = {} (right).",
+            "Left: ΔH° ({}) with ΔS° ({}) at θ = {}. Right: ΔH° with ΔG° at T_hm = {}.",
             e.symbol(),
             s_unit,
             show_t(fit.options().t_ref_k, tu),
