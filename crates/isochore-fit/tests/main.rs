@@ -2,6 +2,7 @@
 
 mod bca_scipy;
 mod calorimetric;
+mod calorimetric_joint;
 mod clarke_glew;
 mod common;
 mod compensation;

@@ -37,6 +37,7 @@
 //! ```
 
 pub mod compensation;
+mod constrained;
 mod contrast;
 mod design;
 mod equality;
@@ -45,6 +46,9 @@ mod region;
 mod result;
 
 pub use compensation::{compensation, exner_test, Compensation, CompensationPoint, ExnerTest};
+pub use constrained::{
+    fit_global_with_calorimetric, CalorimetricJointFit, CalorimetricObservation,
+};
 pub use contrast::SeriesDifference;
 pub use design::GlobalColumn;
 pub use equality::{test_equal_across_series, EqualityMethod, EqualityTest};
