@@ -298,3 +298,66 @@ fn bad_settings_are_refused_in_words() {
     ));
     let _ = GAS_CONSTANT;
 }
+
+#[test]
+fn an_excluded_point_takes_no_part_in_the_draws() {
+    // The draws of a fit with point 6 excluded equal those of the fit without it, bit for
+    // bit: each draw draws for the used points only, in input order.
+    let pts = twenty(Model::LINEAR);
+    let mut with_excluded = pts.clone();
+    with_excluded[5] = with_excluded[5].excluded();
+    let without: Vec<Measurement> = pts
+        .iter()
+        .enumerate()
+        .filter(|(i, _)| *i != 5)
+        .map(|(_, p)| *p)
+        .collect();
+    let fa = fitted(&with_excluded, Model::LINEAR, SigmaConvention::ScaledByFit);
+    let fb = fitted(&without, Model::LINEAR, SigmaConvention::ScaledByFit);
+    let o = IntervalOptions {
+        draws: 500,
+        ..Default::default()
+    };
+    let a = monte_carlo(&with_excluded, &fa, None, &o).unwrap();
+    let b = monte_carlo(&without, &fb, None, &o).unwrap();
+    let ra = bootstrap(&with_excluded, &fa, BootstrapScheme::Residuals, &o).unwrap();
+    let rb = bootstrap(&without, &fb, BootstrapScheme::Residuals, &o).unwrap();
+    for (x, y) in [(&a, &b), (&ra, &rb)] {
+        for key in ["delta_h", "delta_s"] {
+            let (p, q) = (x.get(key).unwrap(), y.get(key).unwrap());
+            // The fits agree to rounding (the engines may differ in the last bits).
+            assert!(
+                (p.interval.se - q.interval.se).abs() <= 1e-9 * q.interval.se,
+                "{key}"
+            );
+            assert!(
+                (p.interval.ci_low - q.interval.ci_low).abs() <= 1e-9 * q.interval.ci_low.abs()
+            );
+        }
+    }
+}
+
+#[test]
+fn exact_data_give_zero_width_without_panic() {
+    // No scatter: s = 0, every draw is the estimate; BCa is undefined (no spread), the
+    // percentile interval is the point.
+    let pts: Vec<Measurement> = (0..6)
+        .map(|i| {
+            let t = 280.0 + 8.0 * i as f64;
+            Measurement::new(t, 30e3 / (GAS_CONSTANT * t) - 20.0 / GAS_CONSTANT).with_sigma(0.05)
+        })
+        .collect();
+    let f = fitted(&pts, Model::LINEAR, SigmaConvention::ScaledByFit);
+    let o = IntervalOptions {
+        draws: 200,
+        ..Default::default()
+    };
+    for run in [
+        monte_carlo(&pts, &f, None, &o).unwrap(),
+        bootstrap(&pts, &f, BootstrapScheme::Wild, &o).unwrap(),
+    ] {
+        let h = run.get("delta_h").unwrap();
+        assert!(h.interval.se.abs() <= 1e-6 * h.quantity.delta.value.abs());
+        assert!(h.interval.ci_high - h.interval.ci_low <= 1e-6 * h.quantity.delta.value.abs());
+    }
+}
