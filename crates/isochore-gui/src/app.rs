@@ -99,6 +99,8 @@ pub struct Workbench {
     pub settings: SettingsPanel,
     /// Files: open, import preview, save, export.
     pub files: FilesPanel,
+    /// The "fit together" window (several series in one joint fit).
+    pub joint: crate::panels::joint::JointPanel,
     /// Messages for the chemist (errors while opening, saving, exporting).
     pub messages: Vec<String>,
     /// Where autosaves of never-saved projects go.
@@ -139,6 +141,7 @@ impl Workbench {
             predict: PredictPanel::default(),
             settings: SettingsPanel::default(),
             files: FilesPanel::default(),
+            joint: crate::panels::joint::JointPanel::default(),
             messages: Vec::new(),
             autosave_dir: None,
             block_fits: false,
@@ -357,6 +360,7 @@ impl Workbench {
             &mut self.prefs,
             &self.history,
             &mut self.files,
+            &mut self.joint,
         );
         crate::panels::status::status_bar(
             root,
@@ -409,6 +413,7 @@ impl Workbench {
             }
         });
         self.files.windows(ctx, &mut cx);
+        self.joint.show(ctx, cx.project);
         crate::panels::status::close_dialog(ctx, &mut cx, &mut self.asking_to_close);
         self.pending.extend(out);
         self.actions.extend(actions);

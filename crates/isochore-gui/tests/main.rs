@@ -3,6 +3,7 @@
 mod export;
 mod export_guard;
 mod features;
+mod joint_view;
 mod plots;
 mod shared_rules;
 mod small_screen;

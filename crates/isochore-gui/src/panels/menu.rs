@@ -3,6 +3,7 @@
 use crate::app::{Action, Cx, Prefs};
 use crate::command::History;
 use crate::panels::files::FilesPanel;
+use crate::panels::joint::JointPanel;
 use egui::Ui;
 
 /// Draws the menu bar.
@@ -12,6 +13,7 @@ pub fn menu_bar(
     prefs: &mut Prefs,
     history: &History,
     files: &mut FilesPanel,
+    joint: &mut JointPanel,
 ) {
     egui::Panel::top("menu").show(root, |ui| {
         egui::MenuBar::new().ui(ui, |ui| {
@@ -97,6 +99,11 @@ pub fn menu_bar(
                 ui.checkbox(&mut prefs.show_table, "Measurements table");
                 ui.checkbox(&mut prefs.show_diagnostics, "Residual and influence plots");
                 ui.checkbox(&mut prefs.show_results, "Results and predictions");
+                ui.separator();
+                if ui.button("Fit series together…").clicked() {
+                    joint.open_with_all(cx.project);
+                    ui.close();
+                }
                 ui.separator();
                 ui.checkbox(&mut prefs.dark, "Dark theme");
             });
