@@ -513,7 +513,7 @@ impl PreparedSet {
             settings: vec![replicates_setting(s.settings.replicates)],
             sigma_t_k: None,
         };
-        crate::errors_in_t::attach(&mut set, s, &points, o).map_err(data_error)?;
+        crate::errors_in_t::attach(&mut set, s, o).map_err(data_error)?;
         set.finish(averaged, weighed.note);
         Ok(set)
     }

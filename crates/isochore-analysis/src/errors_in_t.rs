@@ -1,7 +1,9 @@
 //! Errors in T as well as in K: which points carry a temperature uncertainty σ(T), and the
 //! fit that allows for it. σ(T) comes from the file's σ(T) column (a column choice gives
 //! the role, in the temperature column's unit) or from one thermometer uncertainty for all
-//! points ([`Overrides::sigma_t_k`], which takes the column's place). The statistics are
+//! points ([`Overrides::sigma_t_k`], else the data set's own
+//! `SeriesSettings::thermometer_uncertainty_k`, the window's setting; either takes the
+//! column's place). The statistics are
 //! isochore-fit's ([`isochore_fit::errors_in_t`]: York's line for the linear model,
 //! orthogonal distance for the others); without σ(T) nothing here runs and every output is
 //! as it was.
@@ -23,11 +25,13 @@ pub const SIGMA_T_SETTING: &str = "temperature uncertainty σ(T)";
 pub(crate) fn attach(
     set: &mut PreparedSet,
     s: &DataSet,
-    points: &[Point],
     o: &Overrides,
 ) -> Result<(), isochore_data::Error> {
-    if let Some(v) = o.sigma_t_k {
-        set.sigma_t_k = Some(vec![v; points.len()]);
+    let n = set.measurements.len();
+    // The caller's value, else the data set's own thermometer uncertainty (the window's
+    // setting, saved in the project).
+    if let Some(v) = o.sigma_t_k.or(s.settings.thermometer_uncertainty_k) {
+        set.sigma_t_k = Some(vec![v; n]);
         set.settings.push((
             SIGMA_T_SETTING.to_string(),
             format!("{} K for every point", short(v)),
@@ -37,6 +41,8 @@ pub(crate) fn attach(
     let Some(rows) = s.sigma_t_k()? else {
         return Ok(());
     };
+    // The rows of each point (replicates averaged or not), asked for only here.
+    let points: Vec<Point> = s.points()?;
     let per_point = points
         .iter()
         .map(|p| {
@@ -128,6 +134,14 @@ mod tests {
         };
         let sets = load(f.path(), &o).unwrap();
         assert_eq!(sets[0].sigma_t_k, Some(vec![0.05; 5]));
+        // The data set's own setting (the window's field, saved in projects).
+        let imp =
+            isochore_data::import_path(f.path(), &isochore_data::ImportOptions::default()).unwrap();
+        let mut d = imp.data_sets_with_cells().remove(0);
+        d.settings.thermometer_uncertainty_k = Some(0.2);
+        let set = PreparedSet::from_data_set(&d, "x.csv", &Overrides::default()).unwrap();
+        assert_eq!(set.sigma_t_k, Some(vec![0.2; 5]));
+        assert!(set.fit_errors_in_t().unwrap().is_ok());
     }
 
     #[test]

@@ -47,6 +47,12 @@ pub struct SeriesSettings {
     pub replicates: Replicates,
     /// Replicate temperature tolerance in K.
     pub replicate_tolerance_k: f64,
+    /// One thermometer uncertainty σ(T) for every point, K (the window's "thermometer
+    /// uncertainty"): the fit then allows for errors in T as well as in K. `None` (the
+    /// default) fits errors in K only; not written when `None`, so older projects save back
+    /// the same.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub thermometer_uncertainty_k: Option<f64>,
 }
 
 impl Default for SeriesSettings {
@@ -57,6 +63,7 @@ impl Default for SeriesSettings {
             temperature_unit: TemperatureUnit::Celsius,
             replicates: Replicates::Keep,
             replicate_tolerance_k: 0.05,
+            thermometer_uncertainty_k: None,
         }
     }
 }

@@ -248,6 +248,7 @@ fn settings() -> impl Strategy<Value = SeriesSettings> {
                     Replicates::Keep
                 },
                 replicate_tolerance_k: tol,
+                thermometer_uncertainty_k: if avg { Some(tol + 0.01) } else { None },
             },
         )
 }

@@ -51,6 +51,9 @@ pub struct Analysis {
     /// Cook's-distance contours for the influence view: (D, upper branch points (h, t)) in
     /// the plane of leverage against the externally studentized residual.
     pub cooks_contours: Vec<(f64, Vec<[f64; 2]>)>,
+    /// The fit with errors in T, when the series has a thermometer uncertainty or a σ(T)
+    /// column (isochore-analysis runs it; `None` otherwise), or why there is none.
+    pub errors_in_t: Option<Result<isochore_fit::errors_in_t::ErrorsInTFit, String>>,
 }
 
 /// A setting that settles why a fit was refused, offered beside the message: the
@@ -85,6 +88,7 @@ pub fn analyse(series: &Entry) -> Analysis {
                 infl_index: EnvelopeIndex::default(),
                 extent: None,
                 cooks_contours: Vec::new(),
+                errors_in_t: None,
             };
         }
     };
@@ -184,6 +188,26 @@ pub fn analyse(series: &Entry) -> Analysis {
         resid_index,
         infl_index,
         cooks_contours: contours,
+        errors_in_t: errors_in_t_of(series),
+    }
+}
+
+/// The fit with errors in T of a series that has σ(T) (the thermometer uncertainty setting
+/// or a σ(T) column), made by isochore-analysis as the command line makes it.
+fn errors_in_t_of(
+    series: &Entry,
+) -> Option<Result<isochore_fit::errors_in_t::ErrorsInTFit, String>> {
+    let d = &series.data;
+    if d.settings.thermometer_uncertainty_k.is_none() && d.mapping.temperature_uncertainty.is_none()
+    {
+        return None;
+    }
+    let o = isochore_analysis::Overrides::default();
+    match isochore_analysis::PreparedSet::from_data_set(d, &d.source.name, &o) {
+        Ok(set) => set
+            .fit_errors_in_t()
+            .map(|r| r.map_err(|e| e.error.to_string())),
+        Err(e) => Some(Err(e.to_string())),
     }
 }
 

@@ -211,6 +211,9 @@ impl ResultsPanel {
             );
             region_plot(ui, "hg_region", pts, centre, labels, &level);
         }
+        if let Some(e) = &a.errors_in_t {
+            errors_in_t_block(ui, e, energy_unit, flag);
+        }
         ui.add_space(6.0);
         ui.collapsing("Fit statistics", |ui| stats_grid(ui, fit, tu));
         if let Some(c) = fit.comparison() {
@@ -238,6 +241,62 @@ impl ResultsPanel {
             }
         }
     }
+}
+
+/// The fit with errors in T beside the fit in K only: which method made the numbers, each
+/// parameter with its SE, and the comparison in isochore-fit's words.
+fn errors_in_t_block(
+    ui: &mut egui::Ui,
+    e: &Result<isochore_fit::errors_in_t::ErrorsInTFit, String>,
+    energy_unit: isochore_fit::EnergyUnit,
+    flag: egui::Color32,
+) {
+    ui.add_space(6.0);
+    let mut title = names::ERRORS_IN_T.to_string();
+    if let Some(first) = title.get(..1) {
+        title = first.to_uppercase() + &title[1..];
+    }
+    ui.label(RichText::new(title).strong());
+    let f = match e {
+        Ok(f) => f,
+        Err(msg) => {
+            ui.colored_label(flag, msg);
+            return;
+        }
+    };
+    ui.label(format!(
+        "{} — numbers by {}",
+        f.sigma_t().describe(),
+        names::errors_in_t_method(f.method())
+    ));
+    egui::Grid::new("errors_in_t_grid")
+        .num_columns(3)
+        .spacing([10.0, 2.0])
+        .show(ui, |ui| {
+            for (p, k) in f.params().iter().zip(f.k_only().params()) {
+                let u = present::unit_of(p.info.dimension, energy_unit);
+                let (w, ko) = (u.estimate(p.estimate), u.estimate(k.estimate));
+                ui.label(RichText::new(p.info.symbol).strong());
+                ui.label(
+                    RichText::new(format!(
+                        "{} {}",
+                        present::plus_minus(w.value, w.se),
+                        u.symbol
+                    ))
+                    .monospace(),
+                );
+                ui.label(
+                    RichText::new(format!(
+                        "{}: {}",
+                        names::K_ONLY,
+                        present::plus_minus(ko.value, ko.se)
+                    ))
+                    .small(),
+                );
+                ui.end_row();
+            }
+        });
+    ui.label(RichText::new(f.comparison()).small());
 }
 
 /// A joint confidence region (closed polygon, display units) with its centre: tall enough

@@ -1,6 +1,6 @@
 //! The left panel: the list of series ([`crate::panels::series_list`]) and the active
 //! series' settings — model, θ, confidence level, weighting,
-//! σ convention, units for results and flag thresholds. Every change is one undoable
+//! σ convention, units for results, the thermometer uncertainty σ(T) and flag thresholds. Every change is one undoable
 //! command.
 
 use crate::app::Cx;
@@ -132,6 +132,25 @@ impl SettingsPanel {
                     egui::WidgetInfo::labeled(egui::Role::ComboBox, true, "temperature unit")
                 });
                 ui.end_row();
+
+                ui.label(capitalised(names::THERMOMETER_UNCERTAINTY)).on_hover_text(format!(
+                    "{} of every temperature, in K (0.1 °C is 0.1 K); empty: errors in K only. With it the fit allows for errors in T as well as in K ({} for the linear model, {} for the others)",
+                    names::SIGMA_T,
+                    names::errors_in_t_method(isochore_fit::errors_in_t::ErrorsInTMethod::York),
+                    names::errors_in_t_method(
+                        isochore_fit::errors_in_t::ErrorsInTMethod::OrthogonalDistance
+                    ),
+                ));
+                if let Some(v) = self.optional_number(
+                    ui,
+                    "sigma_t",
+                    names::THERMOMETER_UNCERTAINTY,
+                    cur.thermometer_uncertainty_k,
+                    "K",
+                ) {
+                    new.thermometer_uncertainty_k = v;
+                }
+                ui.end_row();
             });
         ui.add_space(6.0);
         ui.label(egui::RichText::new("Flag a point when").strong());
@@ -220,6 +239,63 @@ impl SettingsPanel {
             }
         });
         result
+    }
+}
+
+impl SettingsPanel {
+    /// A number field that may be empty (named `label` in the accessibility tree): returns
+    /// `Some(None)` when emptied, `Some(Some(v))` when a positive number is committed, and
+    /// refuses zero, negative and non-numbers in words.
+    fn optional_number(
+        &mut self,
+        ui: &mut egui::Ui,
+        key: &'static str,
+        label: &str,
+        current: Option<f64>,
+        unit: &str,
+    ) -> Option<Option<f64>> {
+        let mut result = None;
+        ui.horizontal(|ui| {
+            let shown = current.map(|v| style::fixed(v, 3)).unwrap_or_default();
+            let buf = self.buffers.entry(key).or_insert_with(|| shown.clone());
+            let resp = ui.add(egui::TextEdit::singleline(buf).desired_width(70.0));
+            resp.widget_info(|| egui::WidgetInfo::labeled(egui::Role::TextInput, true, label));
+            if resp.lost_focus() {
+                let text = buf.trim().replace(',', ".");
+                match text.parse::<f64>() {
+                    _ if text.is_empty() => {
+                        if current.is_some() {
+                            result = Some(None);
+                        }
+                    }
+                    Ok(v) if v.is_finite() && v > 0.0 => {
+                        if current != Some(v) {
+                            result = Some(Some(v));
+                        }
+                    }
+                    _ => {
+                        self.error = Some(format!(
+                            "{label}: '{}' is not a positive number of kelvin (leave it empty for errors in K only)",
+                            buf.trim()
+                        ));
+                        *buf = shown.clone();
+                    }
+                }
+            } else if !resp.has_focus() {
+                *buf = shown;
+            }
+            ui.label(unit);
+        });
+        result
+    }
+}
+
+/// "Thermometer uncertainty" from "thermometer uncertainty": a label at the start of a row.
+fn capitalised(s: &str) -> String {
+    let mut c = s.chars();
+    match c.next() {
+        Some(f) => f.to_uppercase().collect::<String>() + c.as_str(),
+        None => String::new(),
     }
 }
 
