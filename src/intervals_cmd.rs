@@ -7,10 +7,11 @@ use crate::cli::{FitArgs, IntervalsArg, SchemeArg};
 use crate::load::Job;
 use isochore_analysis::intervals::{run_intervals, IntervalChoice, IntervalRequest};
 use isochore_fit::intervals::{
-    BootstrapScheme, IntervalError, IntervalRun, DEFAULT_DRAWS, DEFAULT_SEED,
+    BootstrapScheme, IntervalError, IntervalMethod, IntervalRun, DEFAULT_DRAWS, DEFAULT_SEED,
 };
 use isochore_fit::VantHoffFit;
 use isochore_report::present::intervals::{interval_rows, method_line};
+use isochore_report::present::names::interval_method;
 use std::io::{self, Write};
 
 /// The request the flags make. `--draws`, `--seed` or `--bootstrap-scheme` with the delta
@@ -73,7 +74,14 @@ pub fn text(w: &mut impl Write, job: &Job, fit: &VantHoffFit, run: &IntervalRun)
         "± SE (SD of draws)",
         "interval",
         "method",
-        "delta method",
+        if rows
+            .iter()
+            .any(|r| r.delta_method != interval_method(IntervalMethod::Delta))
+        {
+            "delta method (Fieller for T)"
+        } else {
+            "delta method"
+        },
         "unit",
     ]
     .map(String::from);

@@ -76,7 +76,7 @@ fn bootstrap_text_says_which_method_made_the_intervals() {
     let text = String::from_utf8(out.stdout).unwrap();
     assert!(
         text.contains(
-            "95% intervals by bootstrap of residuals (leverage-corrected), 500 draws, seed 1"
+            "95% intervals by bootstrap of leverage-corrected residuals, 500 draws, seed 1"
         ),
         "{text}"
     );

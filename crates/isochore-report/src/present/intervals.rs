@@ -22,18 +22,21 @@ pub struct IntervalRow {
     pub interval: String,
     /// What made it ("Monte Carlo", "bootstrap BCa", …).
     pub method: &'static str,
-    /// The delta method's interval (Fieller's for a temperature at a target K), "[low, high]".
+    /// The delta method's interval (Fieller's for a temperature at a target K or where
+    /// ΔH° = 0), "[low, high]".
     pub delta: String,
+    /// What made [`IntervalRow::delta`]: "delta method" or "Fieller".
+    pub delta_method: &'static str,
     /// The unit of the numbers.
     pub unit: String,
 }
 
-/// "Monte Carlo (GUM Supplement 1), 10000 draws, seed 1" or "bootstrap, residuals
-/// (leverage-corrected), 10000 draws, seed 1".
+/// "95% intervals by Monte Carlo (GUM Supplement 1), 10000 draws, seed 1" or "95% intervals
+/// by bootstrap of leverage-corrected residuals, 10000 draws, seed 1".
 pub fn method_line(run: &IntervalRun) -> String {
     let what = match run.resampling {
         Resampling::MonteCarlo => "Monte Carlo (GUM Supplement 1)".to_string(),
-        Resampling::Bootstrap(s) => format!("bootstrap of {}", bootstrap_scheme(s)),
+        Resampling::Bootstrap(s) => bootstrap_scheme(s).to_string(),
     };
     format!(
         "{}% intervals by {what}, {} draws, seed {}",
@@ -123,9 +126,10 @@ fn row(fit: &VantHoffFit, q: &QuantityResult, e: EnergyUnit, tu: TemperatureUnit
         quantity,
         value: fmt(b.value, d.se),
         se: fmt(b.se, d.se),
-        interval: pair(fmt(b.ci_low, b.se), fmt(b.ci_high, b.se)),
+        interval: pair(fmt(b.ci_low, d.se), fmt(b.ci_high, d.se)),
         method: interval_method(best.method),
         delta: pair(fmt(d.ci_low, d.se), fmt(d.ci_high, d.se)),
+        delta_method: interval_method(q.quantity.delta_method),
         unit,
     }
 }

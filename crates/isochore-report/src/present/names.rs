@@ -118,14 +118,14 @@ pub fn interval_method(m: isochore_fit::intervals::IntervalMethod) -> &'static s
     }
 }
 
-/// The name of a bootstrap scheme: "residuals (leverage-corrected)", "wild (Rademacher
-/// weights)", "cases".
+/// The name of a bootstrap scheme: "bootstrap of leverage-corrected residuals", "wild
+/// bootstrap (Rademacher weights)", "bootstrap of cases".
 pub fn bootstrap_scheme(s: isochore_fit::intervals::BootstrapScheme) -> &'static str {
     use isochore_fit::intervals::BootstrapScheme::*;
     match s {
-        Residuals => "residuals (leverage-corrected)",
-        Wild => "wild (Rademacher weights)",
-        Cases => "cases",
+        Residuals => "bootstrap of leverage-corrected residuals",
+        Wild => "wild bootstrap (Rademacher weights)",
+        Cases => "bootstrap of cases",
     }
 }
 
