@@ -228,6 +228,11 @@ pub struct FitArgs {
         allow_hyphen_values = true
     )]
     pub calorimetric: Option<Vec<String>>,
+    /// With --share and --calorimetric: fit the calorimetric values together with ln K, each
+    /// as one more observation of its series' ΔH°(T) weighted by 1/u² (weighted fits only),
+    /// so that they constrain ΔH°(θ) and ΔCp°; printed after the joint fit.
+    #[arg(long, requires_all = ["share", "calorimetric"])]
+    pub calorimetric_in_fit: bool,
 
     // ---- Intervals beyond the delta method (issue 13) ----
     /// How the intervals are made: delta (the delta method; Fieller's interval for the

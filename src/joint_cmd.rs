@@ -12,6 +12,9 @@ use isochore_analysis::joint::{fit_joint, JointAnalysis};
 use isochore_analysis::joint_report_input;
 use isochore_analysis::json::joint::write_joint;
 use isochore_fit::calorimetric::{compare_calorimetric_series, CalorimetricComparison};
+use isochore_fit::global::{
+    fit_global_with_calorimetric, CalorimetricObservation, SeriesInput, Sharing, SharingMap,
+};
 use isochore_fit::{Estimate, ParamInfo};
 use isochore_report::present::{diag, fixed, flag_words, percent, plus_minus, show_t, unit_of};
 use isochore_report::{OverwriteGuard, ReportFormat};
@@ -22,7 +25,7 @@ use std::path::{Path, PathBuf};
 pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
     crate::load::reference_temperature(&a.fit).map_err(Failure::usage)?;
     let calorimetric = crate::calorimetric_cmd::tagged(a).map_err(Failure::usage)?;
-    if calorimetric.is_some() && a.json {
+    if (calorimetric.is_some() || a.calorimetric_in_fit) && a.json {
         return Err(Failure::usage(
             "--calorimetric with --share is compared in the text output and the report, not yet in the JSON; leave out --json or --calorimetric",
         ));
@@ -93,6 +96,11 @@ pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
     } else {
         text(&mut out, &sets, &joint, !a.summary).map_err(io_fail)?;
         calorimetric_text(&mut out, &sets, &joint, &comparisons).map_err(io_fail)?;
+        if a.calorimetric_in_fit {
+            if let Some(items) = &calorimetric {
+                constrained_text(&mut out, &sets, &joint, &keys, items).map_err(io_fail)?;
+            }
+        }
     }
     out.flush().map_err(io_fail)
 }
@@ -113,7 +121,10 @@ fn write_reports(
         "command line".to_string(),
         format!("vhfit {}", args.join(" ")),
     );
-    let input = joint_report_input(sets, joint, comparisons, &[command]);
+    let mut input = joint_report_input(sets, joint, comparisons, &[command]);
+    let given = |v: &Option<String>| v.as_ref().filter(|t| !t.trim().is_empty()).cloned();
+    input.record.analyst = given(&a.analyst);
+    input.record.note = given(&a.note);
     let stem = "joint-fit";
     let targets = match format {
         Some(f) => isochore_report::joint_report_paths(&input, f, path),
@@ -154,6 +165,87 @@ fn write_reports(
         output::note(&format!("wrote {}", w.display()));
     }
     Ok(())
+}
+
+/// The joint fit again with the calorimetric values as observations of ΔH°(T)
+/// (isochore-fit's `fit_global_with_calorimetric`), each parameter as fitted and beside it
+/// the joint fit of ln K alone; a refusal is printed in words.
+fn constrained_text(
+    w: &mut impl Write,
+    sets: &[Job],
+    j: &JointAnalysis,
+    keys: &[String],
+    items: &[crate::calorimetric_cmd::Tagged],
+) -> io::Result<()> {
+    let mut obs = Vec::new();
+    for (s, set) in sets.iter().enumerate() {
+        for v in crate::calorimetric_cmd::values_for(items, &j.labels[s], &set.series) {
+            obs.push(CalorimetricObservation {
+                series: s,
+                value: v,
+            });
+        }
+    }
+    let inputs: Vec<SeriesInput<'_>> = sets
+        .iter()
+        .zip(&j.labels)
+        .map(|(s, l)| SeriesInput::new(l, &s.measurements))
+        .collect();
+    let mut sharing = SharingMap::per_series();
+    for k in keys {
+        sharing.set(k, Sharing::Shared);
+    }
+    writeln!(w)?;
+    writeln!(
+        w,
+        "joint fit with the calorimetric values as observations of ΔH°(T) (weight 1/u²) | ln K alone:"
+    )?;
+    let fit = match fit_global_with_calorimetric(&inputs, &sharing, j.fit.options(), &obs) {
+        Ok(f) => f,
+        Err(e) => {
+            writeln!(w, "  not fitted: {e}")?;
+            return Ok(());
+        }
+    };
+    let first = &sets[0];
+    let model = j.fit.model();
+    for info in model.params() {
+        let series: Vec<usize> = if j.shared.contains(&info.key) {
+            vec![0]
+        } else {
+            (0..sets.len()).collect()
+        };
+        for s in series {
+            let who = if j.shared.contains(&info.key) {
+                "(shared)".to_string()
+            } else {
+                j.labels[s].clone()
+            };
+            let with = fit
+                .estimate(info.key, s)
+                .map_or_else(|| "—".to_string(), |e| shown(info, first, e));
+            let alone = j
+                .fit
+                .estimate(info.key, s)
+                .map_or_else(|| "—".to_string(), |e| shown(info, first, e));
+            writeln!(
+                w,
+                "  {:<10} {:<16} {:<44} | {}",
+                symbol(model, info),
+                who,
+                with,
+                alone
+            )?;
+        }
+    }
+    writeln!(
+        w,
+        "  χ² = {} over {} ln K points and {} calorimetric values, {} degrees of freedom. Combine only values that agree with the van 't Hoff ΔH° (see the comparison above): a calorimetric enthalpy that includes heat from coupled equilibria pulls ΔH° towards itself.",
+        fixed(fit.statistics().chi2, 4),
+        fit.n_ln_k(),
+        fit.n_calorimetric(),
+        fit.dof()
+    )
 }
 
 /// The calorimetric comparisons of each series against its ΔH°(T) in the joint fit.

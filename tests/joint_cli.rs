@@ -438,3 +438,54 @@ fn joint_report_writes_every_format_with_the_verdict() {
     assert!(out.status.success(), "{}", stderr(&out));
     assert!(std::fs::read(&pdf).unwrap().starts_with(b"%PDF"));
 }
+
+#[test]
+fn calorimetric_values_can_constrain_the_joint_fit() {
+    let (a, b) = two_files("constrained");
+    // The invented calorimetric values of make_calorimetric_joint.py (kJ/mol here).
+    let cal = "a:25C:-25.4:0.3,a:37C:-32.3:0.45,b:25C:-18.0:0.25";
+    let args = [
+        "fit",
+        &a,
+        &b,
+        "--model",
+        "cp",
+        "--share",
+        "delta_cp",
+        "--summary",
+        "--calorimetric",
+        cal,
+        "--calorimetric-in-fit",
+    ];
+    let out = run(&args);
+    assert!(out.status.success(), "{}", stderr(&out));
+    let text = String::from_utf8_lossy(&out.stdout);
+    let block = text
+        .split("joint fit with the calorimetric values")
+        .nth(1)
+        .expect("the constrained block");
+    // statsmodels 0.15.0 WLS on the stacked design (calorimetric_joint.txt): ΔCp° =
+    // −593.848 J/(mol K), SE 16.549 (scaled), shown to the SE's two digits.
+    let line = block
+        .lines()
+        .find(|l| l.contains("(shared)"))
+        .expect("shared row");
+    assert!(line.contains("-594 ± 17"), "{line}");
+    assert!(
+        block.contains("3 calorimetric values, 16 degrees of freedom"),
+        "{block}"
+    );
+    // Without --share (clap's requirement) and with --json: usage errors.
+    let out = run(&["fit", &a, "--calorimetric", cal, "--calorimetric-in-fit"]);
+    assert_eq!(out.status.code(), Some(2));
+    let mut json = args.to_vec();
+    json.push("--json");
+    assert_eq!(run(&json).status.code(), Some(2));
+    // Unweighted: the constrained fit is refused in words, the rest still printed.
+    let mut unweighted = args.to_vec();
+    unweighted.push("--unweighted");
+    let out = run(&unweighted);
+    assert!(out.status.success(), "{}", stderr(&out));
+    assert!(String::from_utf8_lossy(&out.stdout)
+        .contains("not fitted: calorimetric values can constrain the fit only when"),);
+}
