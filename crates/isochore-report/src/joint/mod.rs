@@ -20,9 +20,7 @@ use crate::document::Document;
 use crate::figures::{joint_figure_svg, svg_to_png, FigureKind, PNG_SCALE};
 use crate::{write_atomic, Record, ReportError, ReportFormat, ReportRow};
 use isochore_fit::calorimetric::CalorimetricComparison;
-use isochore_fit::global::{
-    Compensation, CompensationPoint, EqualityTest, ExnerTest, GlobalFit,
-};
+use isochore_fit::global::{Compensation, CompensationPoint, EqualityTest, ExnerTest, GlobalFit};
 use isochore_fit::{EnergyUnit, TemperatureUnit};
 use std::path::{Path, PathBuf};
 
@@ -151,10 +149,15 @@ fn document(input: &JointReportInput) -> Document<'_> {
 /// # Errors
 /// [`ReportError::Input`] for inconsistent input, [`ReportError::Figure`] or
 /// [`ReportError::Pdf`] when drawing fails.
-pub fn render_joint(input: &JointReportInput, format: ReportFormat) -> Result<Vec<u8>, ReportError> {
+pub fn render_joint(
+    input: &JointReportInput,
+    format: ReportFormat,
+) -> Result<Vec<u8>, ReportError> {
     input.validate()?;
     match format {
-        ReportFormat::Html => crate::html::render_document(&document(input)).map(String::into_bytes),
+        ReportFormat::Html => {
+            crate::html::render_document(&document(input)).map(String::into_bytes)
+        }
         ReportFormat::Pdf => crate::pdf::render_document(&document(input)),
         ReportFormat::Markdown => {
             Ok(crate::markdown::render_blocks(&content::build(input), "figure").into_bytes())
