@@ -30,7 +30,7 @@ pub fn values(a: &FitArgs) -> Result<Option<Vec<CalorimetricValue>>, String> {
     for (series, v) in items {
         if let Some(name) = series {
             return Err(format!(
-                "--calorimetric '{name}:…': a series name before the temperature is for a joint fit (--share); without it, give temperature:ΔH:u and the value is compared with every series"
+                "--calorimetric: a value of series '{name}' (a series name before the temperature, or a series column in --calorimetric-file) is for a joint fit (--share); without it, give temperature:ΔH:u and the value is compared with every series"
             ));
         }
         out.push(v);
@@ -45,8 +45,25 @@ pub fn values(a: &FitArgs) -> Result<Option<Vec<CalorimetricValue>>, String> {
 /// # Errors
 /// A usage message naming the item that is not `[SERIES:]T:ΔH:u`.
 pub fn tagged(a: &FitArgs) -> Result<Option<Vec<Tagged>>, String> {
+    let from_file: Vec<Tagged> = match &a.calorimetric_file {
+        Some(path) => isochore_data::calorimetric::read_calorimetric(path)
+            .map_err(|e| format!("--calorimetric-file: {e}"))?
+            .into_iter()
+            .map(|r| {
+                (
+                    r.series,
+                    CalorimetricValue {
+                        t_k: r.t_k,
+                        delta_h: r.delta_h,
+                        u: r.u,
+                    },
+                )
+            })
+            .collect(),
+        None => Vec::new(),
+    };
     let Some(items) = &a.calorimetric else {
-        return Ok(None);
+        return Ok((!from_file.is_empty()).then_some(from_file));
     };
     let unit = a
         .fit
@@ -88,6 +105,7 @@ pub fn tagged(a: &FitArgs) -> Result<Option<Vec<Tagged>>, String> {
             "--calorimetric needs at least one temperature:ΔH:u, e.g. 37C:-28.4:0.5".into(),
         );
     }
+    out.extend(from_file);
     Ok(Some(out))
 }
 

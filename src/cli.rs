@@ -231,8 +231,13 @@ pub struct FitArgs {
     /// With --share and --calorimetric: fit the calorimetric values together with ln K, each
     /// as one more observation of its series' ΔH°(T) weighted by 1/u² (weighted fits only),
     /// so that they constrain ΔH°(θ) and ΔCp°; printed after the joint fit.
-    #[arg(long, requires_all = ["share", "calorimetric"])]
+    #[arg(long, requires = "share")]
     pub calorimetric_in_fit: bool,
+    /// Calorimetric values from a file: a header naming the temperature with its unit
+    /// (T (°C)), ΔH with its unit (ΔH (kJ/mol)), its uncertainty u, and optionally the
+    /// series (series, sample, ligand); compared as --calorimetric values are.
+    #[arg(long, value_name = "FILE")]
+    pub calorimetric_file: Option<PathBuf>,
 
     // ---- Intervals beyond the delta method (issue 13) ----
     /// How the intervals are made: delta (the delta method; Fieller's interval for the

@@ -30,6 +30,11 @@ pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
             "--calorimetric with --share is compared in the text output and the report, not yet in the JSON; leave out --json or --calorimetric",
         ));
     }
+    if a.calorimetric_in_fit && calorimetric.is_none() {
+        return Err(Failure::usage(
+            "--calorimetric-in-fit needs calorimetric values: --calorimetric or --calorimetric-file",
+        ));
+    }
     let report_format = match &a.report {
         Some(p) => {
             let format = ReportFormat::from_path(p);

@@ -489,3 +489,51 @@ fn calorimetric_values_can_constrain_the_joint_fit() {
     assert!(String::from_utf8_lossy(&out.stdout)
         .contains("not fitted: calorimetric values can constrain the fit only when"),);
 }
+
+#[test]
+fn calorimetric_values_can_come_from_a_file() {
+    let (a, b) = two_files("calfile");
+    let d = folder("calfile-in");
+    let file = d.join("itc.csv");
+    std::fs::write(
+        &file,
+        "# invented\nsample,T (°C),dH_cal (kJ/mol),u (kJ/mol)\na,25,-25.4,0.3\na,37,-32.3,0.45\nb,25,-18.0,0.25\n",
+    )
+    .unwrap();
+    let file = file.to_string_lossy().into_owned();
+    let base = [
+        "fit",
+        &a,
+        &b,
+        "--model",
+        "cp",
+        "--share",
+        "delta_cp",
+        "--summary",
+    ];
+    let mut from_file = base.to_vec();
+    from_file.extend(["--calorimetric-file", &file, "--calorimetric-in-fit"]);
+    let mut inline = base.to_vec();
+    inline.extend([
+        "--calorimetric",
+        "a:25C:-25.4:0.3,a:37C:-32.3:0.45,b:25C:-18.0:0.25",
+        "--calorimetric-in-fit",
+    ]);
+    let (x, y) = (run(&from_file), run(&inline));
+    assert!(x.status.success(), "{}", stderr(&x));
+    // The same values read from the file and from the command line give the same output.
+    assert_eq!(x.stdout, y.stdout);
+    // A cell that is not a number is named by file, line and column.
+    let bad = d.join("bad.csv");
+    std::fs::write(&bad, "T (°C),ΔH (kJ/mol),u\n25,-25.4,0.3\n37,oops,0.45\n").unwrap();
+    let mut args = base.to_vec();
+    let bad = bad.to_string_lossy().into_owned();
+    args.extend(["--calorimetric-file", &bad]);
+    let out = run(&args);
+    assert_eq!(out.status.code(), Some(2));
+    let e = stderr(&out);
+    assert!(
+        e.contains("bad.csv") && e.contains("line 3") && e.contains("column 2"),
+        "{e}"
+    );
+}

@@ -77,12 +77,22 @@ def ligands():
                 lk = ln_k(t, dh, ds, -850.0) + rng.gauss(0.0, sigma)
                 kd_nm = math.exp(-lk) * 1e9
                 f.write(f"{name},{tc:.1f},{kd_nm:.2f},{kd_nm * sigma:.2f}\n")
-    # Invented calorimetric enthalpies for the README's example (given on the command line
-    # with --calorimetric): ΔH_cal at 25 °C of each ligand, and at 37 °C for PX-11; PX-13's
-    # was "measured" in a buffer whose protonation adds heat (7 kJ/mol more exothermic), the
-    # case the caution about coupled equilibria is for:
-    #   PX-11:25C:-62.4:0.6, PX-11:37C:-72.3:0.8, PX-12:25C:-51.8:0.5,
-    #   PX-13:25C:-45.1:0.5, PX-14:25C:-27.5:0.4  (kJ/mol)
+    # Invented calorimetric enthalpies of the same ligands (the README's example reads them
+    # with --calorimetric-file): ΔH_cal at 25 °C of each ligand and at 37 °C for PX-11.
+    # PX-13's was "measured" in a buffer whose protonation adds heat (7 kJ/mol more
+    # exothermic), the case the caution about coupled equilibria is for.
+    cal = [
+        ("PX-11", 25.0, -62.4, 0.6),
+        ("PX-11", 37.0, -72.3, 0.8),
+        ("PX-12", 25.0, -51.8, 0.5),
+        ("PX-13", 25.0, -45.1, 0.5),
+        ("PX-14", 25.0, -27.5, 0.4),
+    ]
+    with open("ligands_px_orrin3_itc.csv", "w", encoding="utf-8") as f:
+        f.write("# Fictional demo: invented calorimetric enthalpies of the PX ligands binding Orrin-3 (invented numbers, no real measurement)\n")
+        f.write("sample,T (°C),dH_cal (kJ/mol),u (kJ/mol)\n")
+        for name, tc, dh, u in cal:
+            f.write(f"{name},{tc:.1f},{dh:.1f},{u:.1f}\n")
 
 
 if __name__ == "__main__":

@@ -75,7 +75,7 @@ const UNC_UNITS: &str =
 
 /// Normalises a name: lower case, no spaces, underscores, dots, brackets or degree signs;
 /// Greek delta as "delta"; micro as "u"; subscript digits as digits.
-fn norm_name(s: &str) -> String {
+pub(crate) fn norm_name(s: &str) -> String {
     let mut out = String::with_capacity(s.len());
     for ch in s.chars() {
         match ch {
@@ -259,7 +259,7 @@ fn is_relative_marker(tok: &str) -> bool {
 }
 
 /// Splits a trailing "(unit)" or "[unit]": returns (base, unit).
-fn split_bracket_unit(h: &str) -> Option<(&str, &str)> {
+pub(crate) fn split_bracket_unit(h: &str) -> Option<(&str, &str)> {
     let h = h.trim_end();
     let (open, close) = if h.ends_with(')') {
         ('(', ')')
@@ -436,7 +436,7 @@ fn uncertainty_of(inner: &str, unit: Option<String>, mut relative: bool) -> Clas
     Class::Uncertainty { of, unit, relative }
 }
 
-fn temp_unit(u: &str) -> Option<TemperatureUnit> {
+pub(crate) fn temp_unit(u: &str) -> Option<TemperatureUnit> {
     match norm_unit(u).as_str() {
         "k" | "kelvin" => Some(TemperatureUnit::Kelvin),
         "c" | "celsius" | "oc" => Some(TemperatureUnit::Celsius),
@@ -471,7 +471,7 @@ fn conc_unit(u: &str) -> Option<ConcentrationUnit> {
     }
 }
 
-fn energy_unit(u: &str) -> Option<EnergyUnit> {
+pub(crate) fn energy_unit(u: &str) -> Option<EnergyUnit> {
     let n = norm_unit(u).replace('/', "").replace("mol-1", "mol");
     match n.as_str() {
         "kjmol" => Some(EnergyUnit::KilojoulePerMole),

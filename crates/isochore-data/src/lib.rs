@@ -35,6 +35,7 @@
 
 mod assign;
 pub mod atomic;
+pub mod calorimetric;
 pub mod dataset;
 mod edit;
 pub mod error;
