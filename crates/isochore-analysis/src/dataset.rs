@@ -8,7 +8,9 @@
 use crate::files::is_project_file;
 use crate::rows::RowNumber;
 use crate::weighting;
-use isochore_data::{ColumnChoice, DecimalMark, Import, ImportOptions, Project, RejectedRow};
+use isochore_data::{
+    ColumnChoice, DecimalMark, Import, ImportOptions, Project, RejectedRow, Replicates,
+};
 use isochore_fit::{
     EnergyUnit, FitOptions, Measurement, Model, QuantityKind, SigmaConvention, TemperatureUnit,
     Weighting,
@@ -458,37 +460,62 @@ impl PreparedSet {
             source: source.to_string(),
             error: Box::new(error),
         };
-        let points = s.points().map_err(data_error)?;
         let reasons: BTreeMap<usize, &str> = s
             .exclusions
             .iter()
             .map(|e| (e.row, e.reason.as_str()))
             .collect();
-        let mut measurements = Vec::with_capacity(points.len());
-        let mut origins = Vec::with_capacity(points.len());
-        let mut averaged = false;
-        for p in &points {
-            averaged |= p.rows.len() > 1;
-            let row = RowNumber::from_index(p.rows.first().map_or(0, |&r| r.saturating_sub(1)));
-            measurements.push(p.measurement);
-            origins.push(PointOrigin {
+        let origin = |first_row: usize, rows: &[usize], included: bool| {
+            let row = RowNumber::from_index(first_row.saturating_sub(1));
+            PointOrigin {
                 row,
                 line: s.line(row.get()).unwrap_or(0),
                 cells: match (o.with_cells, s.raw_rows().get(row.index())) {
                     (true, Some(r)) => r.cells.clone(),
                     _ => Vec::new(),
                 },
-                exclusion_reason: if p.measurement.included {
+                exclusion_reason: if included {
                     None
                 } else {
-                    p.rows
-                        .iter()
+                    rows.iter()
                         .find_map(|r| reasons.get(r).copied())
                         .filter(|r| !r.is_empty())
                         .map(str::to_string)
                 },
-            });
-        }
+            }
+        };
+        let mut averaged = false;
+        let (measurements, origins) = if s.settings.replicates == Replicates::Keep {
+            // One point per row, as `DataSet::points` makes them, built straight from the
+            // converted rows: no list of rows per point (a 10⁶-row file made a million small
+            // allocations here).
+            let rows = s.converted().map_err(data_error)?;
+            let excluded = s.excluded_rows();
+            let mut measurements = Vec::with_capacity(rows.len());
+            let mut origins = Vec::with_capacity(rows.len());
+            for r in rows.iter() {
+                let included = excluded.binary_search(&r.row()).is_err();
+                measurements.push(Measurement {
+                    t_k: r.t_k,
+                    ln_k: r.ln_k,
+                    sigma_ln_k: r.sigma_ln_k(),
+                    included,
+                });
+                origins.push(origin(r.row(), &[r.row()], included));
+            }
+            (measurements, origins)
+        } else {
+            let points = s.points().map_err(data_error)?;
+            let mut measurements = Vec::with_capacity(points.len());
+            let mut origins = Vec::with_capacity(points.len());
+            for p in &points {
+                averaged |= p.rows.len() > 1;
+                measurements.push(p.measurement);
+                let first = p.rows.first().copied().unwrap_or(0);
+                origins.push(origin(first, &p.rows, p.measurement.included));
+            }
+            (measurements, origins)
+        };
         let mut set = PreparedSet {
             source: source.to_string(),
             file_name: s.source.name.clone(),
