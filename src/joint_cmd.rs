@@ -25,9 +25,9 @@ use std::path::{Path, PathBuf};
 pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
     crate::load::reference_temperature(&a.fit).map_err(Failure::usage)?;
     let calorimetric = crate::calorimetric_cmd::tagged(a).map_err(Failure::usage)?;
-    if (calorimetric.is_some() || a.calorimetric_in_fit) && a.json {
+    if a.calorimetric_in_fit && a.json {
         return Err(Failure::usage(
-            "--calorimetric with --share is compared in the text output and the report, not yet in the JSON; leave out --json or --calorimetric",
+            "--calorimetric-in-fit is printed in the text output only, not yet in the JSON; leave out --json or --calorimetric-in-fit",
         ));
     }
     if a.calorimetric_in_fit && calorimetric.is_none() {
@@ -96,7 +96,18 @@ pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
     let mut out = output::stdout(style);
     let io_fail = output::stdout_failure;
     if a.json {
-        write_joint(&mut out, &sets, &joint, !a.summary).map_err(io_fail)?;
+        if calorimetric.is_some() {
+            isochore_analysis::json::calorimetric::write_joint_with_calorimetric(
+                &mut out,
+                &sets,
+                &joint,
+                !a.summary,
+                &comparisons,
+            )
+            .map_err(io_fail)?;
+        } else {
+            write_joint(&mut out, &sets, &joint, !a.summary).map_err(io_fail)?;
+        }
         out.write_all(b"\n").map_err(io_fail)?;
     } else {
         text(&mut out, &sets, &joint, !a.summary).map_err(io_fail)?;

@@ -537,3 +537,42 @@ fn calorimetric_values_can_come_from_a_file() {
         "{e}"
     );
 }
+
+#[test]
+fn joint_json_carries_the_calorimetric_comparisons() {
+    let (a, b) = two_files("caljson");
+    let out = run(&[
+        "fit",
+        &a,
+        &b,
+        "--model",
+        "cp",
+        "--share",
+        "delta_cp",
+        "--summary",
+        "--json",
+        "--calorimetric",
+        "b:25C:-18.0:0.25,30C:-20.0:0.5",
+    ]);
+    assert!(out.status.success(), "{}", stderr(&out));
+    let j = json_of(&out);
+    assert_eq!(j["kind"], "joint_fit");
+    let cal = j["calorimetric"].as_array().expect("calorimetric array");
+    // b's own value, then the value for every series (a, then b): three in series order.
+    let series: Vec<&str> = cal.iter().map(|c| c["series"].as_str().unwrap()).collect();
+    assert_eq!(series, ["a", "b", "b"]);
+    for c in cal {
+        // The definitions: d = ΔH_vH − ΔH_cal, z = d / SE(d).
+        let d = num(&c["difference"]["value"]);
+        assert!(close(
+            d,
+            num(&c["delta_h_vh"]["value"]) - num(&c["delta_h_cal"]),
+            1e-12
+        ));
+        assert!(close(num(&c["z"]), d / num(&c["difference"]["se"]), 1e-12));
+        assert!(c["verdict"]
+            .as_str()
+            .unwrap()
+            .contains("coupled equilibria"));
+    }
+}

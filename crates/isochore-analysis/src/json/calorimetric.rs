@@ -87,3 +87,54 @@ pub fn write_fit_with_calorimetric(
     };
     super::write_with_points(w, &mut doc, |d| &mut d.fit.points)
 }
+
+/// One element of a joint fit's `calorimetric`: the series it was compared with, then the
+/// comparison's fields (against that series' ΔH°(T) in the joint fit).
+#[derive(Serialize)]
+pub struct SeriesCalorimetricJson<'a> {
+    /// The series' label.
+    pub series: &'a str,
+    /// The comparison.
+    #[serde(flatten)]
+    pub comparison: CalorimetricJson,
+}
+
+/// A joint fit's object with `calorimetric` added.
+#[derive(Serialize)]
+pub struct JointWithCalorimetricJson<'a> {
+    /// The joint fit's own fields.
+    #[serde(flatten)]
+    pub joint: super::joint::JointJson<'a>,
+    /// The comparisons, series by series.
+    pub calorimetric: Vec<SeriesCalorimetricJson<'a>>,
+}
+
+/// Writes a joint fit with the calorimetric comparisons of each series (`comparisons[s]`
+/// for series s) as one JSON object.
+///
+/// # Errors
+/// The writer's.
+pub fn write_joint_with_calorimetric(
+    w: &mut impl Write,
+    sets: &[PreparedSet],
+    a: &crate::joint::JointAnalysis,
+    with_points: bool,
+    comparisons: &[Vec<CalorimetricComparison>],
+) -> io::Result<()> {
+    let calorimetric = comparisons
+        .iter()
+        .enumerate()
+        .flat_map(|(s, cs)| {
+            let series = a.labels.get(s).map_or("", String::as_str);
+            cs.iter().map(move |c| SeriesCalorimetricJson {
+                series,
+                comparison: CalorimetricJson::new(c),
+            })
+        })
+        .collect();
+    let doc = JointWithCalorimetricJson {
+        joint: super::joint::JointJson::new(sets, a, with_points),
+        calorimetric,
+    };
+    serde_json::to_writer(w, &doc).map_err(io::Error::from)
+}
