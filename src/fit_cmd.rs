@@ -58,8 +58,13 @@ fn write_report(
     job: &Job,
     fit: &VantHoffFit,
     targets: &[PathBuf],
+    intervals: &isochore_analysis::intervals::IntervalRequest,
 ) -> Result<Vec<PathBuf>, String> {
     let mut input = report_input(job, fit.clone());
+    // With --intervals monte-carlo or bootstrap the report compares both with the delta
+    // method (issue 13).
+    input.intervals = isochore_analysis::intervals::report_runs(job, fit, intervals)
+        .map_err(|e| format!("{}: series '{}': {e}", job.source, job.series))?;
     let given = |s: &Option<String>| {
         s.as_ref()
             .map(|s| s.trim().to_string())
@@ -362,7 +367,7 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
             if t.is_empty() {
                 continue;
             }
-            match write_report(p, job, fit, &t) {
+            match write_report(p, job, fit, &t, &intervals) {
                 Ok(paths) => {
                     if let Err(e) = guard.record(&paths) {
                         failures.push(e);

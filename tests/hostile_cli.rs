@@ -701,6 +701,7 @@ fn hostile_input(name: &str) -> isochore_report::ReportInput {
         program_version: "test".to_string(),
         record: isochore_report::Record::default(),
         settings: vec![(name.to_string(), name.to_string())],
+        intervals: vec![],
     }
 }
 

@@ -172,3 +172,41 @@ fn monte_carlo_draws_the_temperatures_when_sigma_t_is_given() {
         sd(&without)
     );
 }
+
+#[test]
+fn a_report_has_the_methods_paragraph_and_the_comparison_table() {
+    let dir = tempfile::tempdir().unwrap();
+    let md = dir.path().join("acid.md");
+    let path = demo("acid_pka.csv");
+    let out = run(&[
+        "fit",
+        &path,
+        "--intervals",
+        "monte-carlo",
+        "--draws",
+        "1000",
+        "--seed",
+        "7",
+        "--report",
+        md.to_str().unwrap(),
+    ]);
+    assert_eq!(out.status.code(), Some(0), "{out:?}");
+    let text = std::fs::read_to_string(&md).unwrap();
+    for words in [
+        "Intervals by resampling",
+        "1000 draws each from seed 7",
+        "GUM Supplement 1",
+        "Bootstrap of leverage-corrected residuals: new data sets",
+        "| quantity | value | delta method | Monte Carlo |",
+        "too narrow",
+    ] {
+        assert!(text.contains(words), "no “{words}” in\n{text}");
+    }
+    // The delta method alone: no such section.
+    let plain = dir.path().join("plain.md");
+    let out = run(&["fit", &path, "--report", plain.to_str().unwrap()]);
+    assert_eq!(out.status.code(), Some(0), "{out:?}");
+    assert!(!std::fs::read_to_string(&plain)
+        .unwrap()
+        .contains("Intervals by resampling"));
+}

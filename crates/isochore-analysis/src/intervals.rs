@@ -55,6 +55,47 @@ impl Default for IntervalRequest {
     }
 }
 
+/// The runs a report compares with the delta method: for a resampling request, Monte Carlo
+/// and the bootstrap (the requested scheme, else residuals), both with the request's draws
+/// and seed; empty for the delta method.
+///
+/// # Errors
+/// As [`run_intervals`]; the bootstrap's refusal of too few points leaves Monte Carlo alone.
+pub fn report_runs(
+    set: &PreparedSet,
+    fit: &VantHoffFit,
+    request: &IntervalRequest,
+) -> Result<Vec<IntervalRun>, IntervalError> {
+    let scheme = match request.choice {
+        IntervalChoice::Delta => return Ok(Vec::new()),
+        IntervalChoice::MonteCarlo => BootstrapScheme::Residuals,
+        IntervalChoice::Bootstrap(s) => s,
+    };
+    let mc = run_intervals(
+        set,
+        fit,
+        &IntervalRequest {
+            choice: IntervalChoice::MonteCarlo,
+            ..*request
+        },
+    )?;
+    let boot = run_intervals(
+        set,
+        fit,
+        &IntervalRequest {
+            choice: IntervalChoice::Bootstrap(scheme),
+            ..*request
+        },
+    );
+    let mut runs: Vec<IntervalRun> = mc.into_iter().collect();
+    match boot {
+        Ok(b) => runs.extend(b),
+        Err(IntervalError::TooFewPointsForBootstrap { .. }) => {}
+        Err(e) => return Err(e),
+    }
+    Ok(runs)
+}
+
 /// Runs the requested method on `set` and its `fit`; `None` for the delta method, whose
 /// intervals are the fit's own. Monte Carlo draws the temperatures as well when the set has
 /// σ(T) ([`PreparedSet::sigma_t_k`]); the bootstrap resamples the fit in K only.

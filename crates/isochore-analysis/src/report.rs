@@ -58,6 +58,7 @@ pub fn report_input(
             ..Record::default()
         },
         settings,
+        intervals: Vec::new(),
     }
 }
 

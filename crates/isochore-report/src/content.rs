@@ -385,6 +385,34 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
         numeric: vec![false, true],
         note: None,
     }));
+    if !input.intervals.is_empty() {
+        // Issue 13: the methods paragraph and the delta method beside the resampled
+        // intervals.
+        b.push(Block::Heading("Intervals by resampling".into()));
+        b.push(Block::Paragraph(present::intervals::methods_paragraph(
+            fit,
+            &input.intervals,
+        )));
+        let (header, rows) =
+            present::intervals::comparison_table(fit, &input.intervals, input.energy_unit, tu);
+        let columns = header.len();
+        b.push(Block::Table(Table {
+            header,
+            rows,
+            numeric: (0..columns).map(|i| i == 1).collect(),
+            note: Some(format!(
+                "{}% intervals; the value is the fit's estimate in every column.",
+                percent(fit.options().level)
+            )),
+        }));
+        b.extend(
+            input
+                .intervals
+                .iter()
+                .flat_map(|r| r.warnings.iter())
+                .map(|w| Block::Paragraph(format!("Note: {w}"))),
+        );
+    }
 
     b.push(Block::Heading("Van 't Hoff plot".into()));
     b.push(Block::Figure(

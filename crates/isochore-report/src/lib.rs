@@ -120,6 +120,9 @@ pub struct ReportInput {
     /// Further settings worth recording so the fit can be repeated (name, value), beyond the
     /// fit options, which are always listed.
     pub settings: Vec<(String, String)>,
+    /// Intervals also made by resampling (Monte Carlo, the bootstrap), shown in a methods
+    /// paragraph and a table beside the delta method's; empty for the delta method alone.
+    pub intervals: Vec<isochore_fit::intervals::IntervalRun>,
 }
 
 /// The output formats.

@@ -53,6 +53,7 @@ fn input(name: &str) -> ReportInput {
         program_version: "test".into(),
         record: isochore_report::Record::default(),
         settings: vec![],
+        intervals: vec![],
     }
 }
 

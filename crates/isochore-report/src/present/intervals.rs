@@ -1,12 +1,15 @@
 //! How a Monte Carlo or bootstrap run is shown (issue 13): the line that says which method
-//! made the intervals, and one row per quantity with the resampled interval beside the
-//! delta method's, in the chosen units. The command line's text and the reports take these
+//! made the intervals, one row per quantity with the resampled interval beside the delta
+//! method's, in the chosen units, and for reports the methods paragraph and the table that
+//! compares the delta method, Monte Carlo and the bootstrap. The command line's text and the reports take these
 //! rows; the names of the methods are [`super::names::interval_method`]'s.
 
 use super::names::{bootstrap_scheme, interval_method, T_HM};
 use super::number::{decimals_for, fixed, percent, times_ten, MISSING};
 use super::units::{show_t, unit_of};
-use isochore_fit::intervals::{IntervalRun, QuantityKind, QuantityResult, Resampling};
+use isochore_fit::intervals::{
+    IntervalMethod, IntervalRun, QuantityKind, QuantityResult, Resampling,
+};
 use isochore_fit::{EnergyUnit, Estimate, ParamDimension, TemperatureUnit, VantHoffFit};
 
 /// One row: a quantity with its resampled interval and the delta method's.
@@ -131,5 +134,127 @@ fn row(fit: &VantHoffFit, q: &QuantityResult, e: EnergyUnit, tu: TemperatureUnit
         delta: pair(fmt(d.ci_low, d.se), fmt(d.ci_high, d.se)),
         delta_method: interval_method(q.quantity.delta_method),
         unit,
+    }
+}
+
+/// The methods paragraph of a report whose intervals were also made by resampling: what was
+/// drawn, how many draws from which seed, how each interval is read, and the caution about
+/// the bootstrap with few points.
+pub fn methods_paragraph(fit: &VantHoffFit, runs: &[IntervalRun]) -> String {
+    let Some(first) = runs.first() else {
+        return String::new();
+    };
+    let mut s = format!(
+        "Besides the delta method (first-order propagation of the covariance; Fieller's interval for a temperature where K or ΔH° reaches a value), the {}% intervals were made by resampling, {} draws each from seed {} (a ChaCha8 generator with one stream per draw, so the same seed gives the same numbers on any machine).",
+        percent(first.level),
+        first.draws,
+        first.seed
+    );
+    for run in runs {
+        match run.resampling {
+            Resampling::MonteCarlo => {
+                s.push_str(" Monte Carlo (GUM Supplement 1): each ln K was drawn from a normal distribution about its measured value with its σ");
+                let scaled = fit.options().convention == isochore_fit::SigmaConvention::ScaledByFit
+                    || !fit.weighted();
+                if scaled {
+                    s.push_str(&format!(
+                        ", scaled by the residual SD, itself drawn from its χ² distribution with {} degrees of freedom (σ are relative weights only)",
+                        fit.dof()
+                    ));
+                }
+                s.push_str(", and the model refitted; the interval runs between the percentiles that leave equal shares outside, and the SE is the SD of the draws.");
+            }
+            Resampling::Bootstrap(scheme) => {
+                s.push_str(&format!(
+                    " {}: new data sets were made from the fit's {} and refitted; the interval is BCa (Efron 1987, acceleration from the jackknife) where defined, else the percentile interval, and the SE is the SD of the bootstrap values.",
+                    capitalised(bootstrap_scheme(scheme)),
+                    match scheme {
+                        isochore_fit::intervals::BootstrapScheme::Residuals => "leverage-corrected residuals, drawn with replacement",
+                        isochore_fit::intervals::BootstrapScheme::Wild => "residuals, each kept at its point with a random sign",
+                        isochore_fit::intervals::BootstrapScheme::Cases => "points, drawn with replacement",
+                    }
+                ));
+            }
+        }
+    }
+    if runs
+        .iter()
+        .any(|r| matches!(r.resampling, Resampling::Bootstrap(_)))
+        && fit.n_used() < 20
+    {
+        s.push_str(&format!(
+            " With {} points the bootstrap intervals are expected to be too narrow (about 90 % coverage for a nominal 95 % in simulations with 8 and 12 points, isochore-fit's documentation): read them as a check on the assumptions, not as the result.",
+            fit.n_used()
+        ));
+    }
+    s
+}
+
+/// The table comparing the delta method with each run: one row per quantity of the first
+/// run, the value, then the interval of each method, then the unit. Returns (header, rows).
+pub fn comparison_table(
+    fit: &VantHoffFit,
+    runs: &[IntervalRun],
+    e: EnergyUnit,
+    tu: TemperatureUnit,
+) -> (Vec<String>, Vec<Vec<String>>) {
+    let Some(first) = runs.first() else {
+        return (Vec::new(), Vec::new());
+    };
+    let mut header = vec![
+        "quantity".to_string(),
+        "value".to_string(),
+        "delta method".to_string(),
+    ];
+    for run in runs {
+        header.push(match run.resampling {
+            Resampling::MonteCarlo => "Monte Carlo".to_string(),
+            Resampling::Bootstrap(s) => bootstrap_scheme(s).to_string(),
+        });
+    }
+    header.push("unit".to_string());
+    let rows = first
+        .quantities
+        .iter()
+        .map(|q| {
+            let r = row(fit, q, e, tu);
+            let mut cells = vec![r.quantity.clone(), r.value.clone()];
+            cells.push(
+                if r.delta_method == interval_method(IntervalMethod::Delta) {
+                    r.delta.clone()
+                } else {
+                    format!("{} ({})", r.delta, r.delta_method)
+                },
+            );
+            for run in runs {
+                cells.push(match run.get(&q.quantity.key) {
+                    Some(other) => {
+                        let o = row(fit, other, e, tu);
+                        if matches!(run.resampling, Resampling::Bootstrap(_)) {
+                            format!(
+                                "{} ({})",
+                                o.interval,
+                                o.method.trim_start_matches("bootstrap ")
+                            )
+                        } else {
+                            o.interval
+                        }
+                    }
+                    None => MISSING.to_string(),
+                });
+            }
+            cells.push(r.unit);
+            cells
+        })
+        .collect();
+    (header, rows)
+}
+
+/// `s` with its first letter in capitals.
+fn capitalised(s: &str) -> String {
+    let mut c = s.chars();
+    match c.next() {
+        Some(f) => f.to_uppercase().chain(c).collect(),
+        None => String::new(),
     }
 }
