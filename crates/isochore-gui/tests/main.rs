@@ -2,6 +2,7 @@
 
 mod export;
 mod export_guard;
+mod errors_in_t_view;
 mod features;
 mod joint_view;
 mod plots;
