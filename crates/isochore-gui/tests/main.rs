@@ -1,8 +1,8 @@
 //! The one integration-test binary of this package: one module per subject.
 
+mod errors_in_t_view;
 mod export;
 mod export_guard;
-mod errors_in_t_view;
 mod features;
 mod joint_view;
 mod plots;
