@@ -89,3 +89,62 @@ fn the_influence_key_names_each_contour_and_the_flag_limit() {
         fixed(levels[1], 2)
     ));
 }
+
+/// Issue 16 item 10, in the window as drawn: eight series shown at once (the eighth is the
+/// one that reused the first series' pair before), one row excluded in each. Every series
+/// gets its own colour–shape pair, every shape has a hollow form (no asterisk, cross or
+/// plus, which are lines only — egui_plot's marker set), the excluded point is drawn
+/// hollow in the series' own shape and colour, and no series colour is the flag ring's.
+#[test]
+fn eight_series_get_eight_pairs_and_excluded_points_are_hollow() {
+    use egui_plot::MarkerShape;
+    use isochore_gui::command::Command;
+    use isochore_gui::doc::Entry;
+    let mut w = bench();
+    let base = w.project.series[0].data.clone();
+    while w.project.series.len() < 8 {
+        let mut data = base.clone();
+        data.name = format!("copy {}", w.project.series.len() + 1);
+        data.shown = true;
+        w.project.series.push(Entry::new(data));
+    }
+    for s in &mut w.project.series {
+        s.data.shown = true;
+    }
+    let ids: Vec<u64> = w.project.series.iter().map(|s| s.id).collect();
+    for &id in &ids {
+        w.push(Command::SetExclusion {
+            series: id,
+            row: 2,
+            exclusion: Some(("test".into(), "2026-12-03T09:00:00Z".into())),
+        });
+    }
+    w.apply_pending();
+    let mut h = harness(w);
+    h.run_steps(4);
+    let drawn = h.state().plot.drawn_styles.clone();
+    assert_eq!(drawn.len(), 8, "{drawn:?}");
+    let mut pairs = std::collections::HashSet::new();
+    for d in &drawn {
+        assert!(
+            pairs.insert((d.color, format!("{:?}", d.shape))),
+            "pair repeated: {d:?}"
+        );
+        assert!(
+            !matches!(
+                d.shape,
+                MarkerShape::Asterisk | MarkerShape::Cross | MarkerShape::Plus
+            ),
+            "{d:?} has no hollow form"
+        );
+        assert_eq!(d.excluded_hollow, 1, "{d:?}");
+        assert!(d.used_filled >= 2, "{d:?}");
+        for dark in [false, true] {
+            assert_ne!(
+                d.color,
+                isochore_gui::panels::style::flag_ring_color(dark),
+                "a series colour is the flag ring's"
+            );
+        }
+    }
+}

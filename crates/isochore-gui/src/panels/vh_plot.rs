@@ -44,6 +44,24 @@ pub struct PlotPanel {
     pub reason_prompt: Option<ReasonPrompt>,
     /// Markers drawn in the last frame (for the benchmark and the status line).
     pub drawn_markers: usize,
+    /// How each series' markers were drawn in the last frame (for tests of the marker
+    /// rules: one colour–shape pair per series, excluded points hollow).
+    pub drawn_styles: Vec<DrawnMarks>,
+}
+
+/// How one series' markers were drawn in a frame.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct DrawnMarks {
+    /// Series id.
+    pub series: u64,
+    /// The series' colour.
+    pub color: Color32,
+    /// The series' marker shape.
+    pub shape: MarkerShape,
+    /// Used points drawn, filled.
+    pub used_filled: usize,
+    /// Excluded points drawn, hollow, in the same shape and colour.
+    pub excluded_hollow: usize,
 }
 
 /// One drawable point: (series id, first row, point, x = 10³/T, y = ln K).
@@ -157,6 +175,7 @@ impl PlotPanel {
             .collect();
         let mut marks: Vec<Mark> = Vec::new();
         let mut drawn = 0usize;
+        let mut styles = Vec::new();
         let resp = plot.show(ui, |pu| {
             let bounds = pu.plot_bounds();
             let width_px = pu.transform().frame().width().max(1.0) as usize;
@@ -164,7 +183,16 @@ impl PlotPanel {
                 let color = style::series_color(*i);
                 let shape = style::series_shape(*i);
                 draw_fit(pu, s, a, color, level, dark);
-                drawn += draw_points(pu, s, a, color, shape, dark, &bounds, width_px, &mut marks);
+                let (used, excluded) =
+                    draw_points(pu, s, a, color, shape, dark, &bounds, width_px, &mut marks);
+                drawn += used + excluded;
+                styles.push(DrawnMarks {
+                    series: s.id,
+                    color,
+                    shape,
+                    used_filled: used,
+                    excluded_hollow: excluded,
+                });
             }
             for (sid, row) in &highlight {
                 if let Some(m) = marks.iter().find(|m| m.series == *sid && m.row == *row) {
@@ -180,6 +208,7 @@ impl PlotPanel {
             }
         });
         self.drawn_markers = drawn;
+        self.drawn_styles = styles;
         if has_data {
             temperature_ticks(ui, &resp.transform, t_unit);
         }
@@ -359,10 +388,10 @@ fn draw_points(
     bounds: &egui_plot::PlotBounds,
     width_px: usize,
     marks: &mut Vec<Mark>,
-) -> usize {
+) -> (usize, usize) {
     let m = &a.measurements;
     if m.is_empty() {
-        return 0;
+        return (0, 0);
     }
     let points = a.fit.as_ref().ok().map(|f| f.points());
     let mut used = Vec::new();
@@ -417,7 +446,7 @@ fn draw_points(
     if large {
         style::envelope_fill(pu, &format!("{} — envelope", s.name()), all, color);
     }
-    let n = used.len() + excluded.len();
+    let n = (used.len(), excluded.len());
     pu.points(
         Points::new(format!("{} — used", s.name()), PlotPoints::new(used))
             .shape(shape)
