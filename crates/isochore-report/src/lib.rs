@@ -380,9 +380,13 @@ pub fn write_report_set(
         path: dir.to_path_buf(),
         source,
     })?;
-    let mut written = Vec::new();
-    for (format, name) in set_plan(stem) {
-        written.extend(write_report(input, format, &dir.join(name))?);
-    }
-    Ok(written)
+    // The formats are independent (each rasterises its own figures), so they are written
+    // side by side on the machine's cores; the list of paths keeps the plan's order, and
+    // each file is the same bytes whichever thread wrote it.
+    use rayon::prelude::*;
+    let parts: Vec<Vec<PathBuf>> = set_plan(stem)
+        .into_par_iter()
+        .map(|(format, name)| write_report(input, format, &dir.join(name)))
+        .collect::<Result<_, _>>()?;
+    Ok(parts.into_iter().flatten().collect())
 }
