@@ -30,11 +30,9 @@ pub(crate) fn temporary_in(dir: &Path) -> std::io::Result<tempfile::NamedTempFil
     b.tempfile_in(dir)
 }
 
-/// The process id in a save temporary's name, if it carries one.
-fn pid_of(name: &str) -> Option<u32> {
-    let rest = name
-        .strip_prefix(SAVE_TEMP_PREFIX)?
-        .strip_suffix(SAVE_TEMP_SUFFIX)?;
+/// The process id in a temporary's name `<prefix><pid>-…<suffix>`, if it carries one.
+fn pid_of(name: &str, prefix: &str, suffix: &str) -> Option<u32> {
+    let rest = name.strip_prefix(prefix)?.strip_suffix(suffix)?;
     rest.split('-').next()?.parse().ok()
 }
 
@@ -50,6 +48,15 @@ fn process_gone(pid: u32) -> bool {
 /// other file is touched. Returns the paths removed; a folder that cannot be read removes
 /// nothing.
 pub fn remove_stale_save_temporaries(dir: &Path) -> Vec<PathBuf> {
+    remove_stale_temporaries_named(dir, SAVE_TEMP_PREFIX, SAVE_TEMP_SUFFIX)
+}
+
+/// Removes the temporary files named `<prefix><pid>-…<suffix>` in `dir` that a killed
+/// writer left: those of a process that no longer runs (where `/proc` can tell) and those
+/// older than [`STALE_AFTER`]. The one rule for project saves and report writes (the
+/// report crate names its own prefix and suffix). Returns the paths removed, sorted; a
+/// folder that cannot be read removes nothing.
+pub fn remove_stale_temporaries_named(dir: &Path, prefix: &str, suffix: &str) -> Vec<PathBuf> {
     let mut removed = Vec::new();
     let Ok(entries) = std::fs::read_dir(dir) else {
         return removed;
@@ -57,7 +64,7 @@ pub fn remove_stale_save_temporaries(dir: &Path) -> Vec<PathBuf> {
     let me = std::process::id();
     for entry in entries.flatten() {
         let name = entry.file_name().to_string_lossy().into_owned();
-        if !(name.starts_with(SAVE_TEMP_PREFIX) && name.ends_with(SAVE_TEMP_SUFFIX)) {
+        if !(name.starts_with(prefix) && name.ends_with(suffix)) {
             continue;
         }
         let Ok(meta) = entry.metadata() else { continue };
@@ -69,7 +76,7 @@ pub fn remove_stale_save_temporaries(dir: &Path) -> Vec<PathBuf> {
             .ok()
             .and_then(|t| SystemTime::now().duration_since(t).ok())
             .is_some_and(|age| age > STALE_AFTER);
-        let orphan = pid_of(&name).is_some_and(|p| p != me && process_gone(p));
+        let orphan = pid_of(&name, prefix, suffix).is_some_and(|p| p != me && process_gone(p));
         if (old || orphan) && std::fs::remove_file(entry.path()).is_ok() {
             removed.push(entry.path());
         }
@@ -133,6 +140,17 @@ mod tests {
             assert_eq!(mode(&path), 0o640);
             assert_eq!(mode(&reference), 0o640);
         }
+    }
+
+    #[test]
+    fn process_ids_are_read_from_both_kinds_of_name() {
+        assert_eq!(
+            pid_of(".isochore-123-4-ff.part", ".isochore-", ".part"),
+            Some(123)
+        );
+        assert_eq!(pid_of(".isochore-abc.part", ".isochore-", ".part"), None);
+        let save = format!("{SAVE_TEMP_PREFIX}77-x1{SAVE_TEMP_SUFFIX}");
+        assert_eq!(pid_of(&save, SAVE_TEMP_PREFIX, SAVE_TEMP_SUFFIX), Some(77));
     }
 
     #[test]

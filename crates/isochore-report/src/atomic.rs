@@ -20,8 +20,8 @@ pub const TEMP_PREFIX: &str = ".isochore-";
 /// Suffix of every temporary file.
 pub const TEMP_SUFFIX: &str = ".part";
 /// Age after which a temporary file is stale whatever its process (a report is written in
-/// seconds).
-pub const STALE_AFTER: Duration = Duration::from_secs(10 * 60);
+/// seconds): isochore-data's, the one rule for every temporary of ours.
+pub const STALE_AFTER: Duration = isochore_data::atomic::STALE_AFTER;
 
 static COUNTER: AtomicU64 = AtomicU64::new(0);
 
@@ -79,49 +79,13 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), ReportError> {
     Ok(())
 }
 
-/// The process id in a temporary file's name, if it has one.
-fn pid_of(name: &str) -> Option<u32> {
-    let rest = name.strip_prefix(TEMP_PREFIX)?.strip_suffix(TEMP_SUFFIX)?;
-    rest.split('-').next()?.parse().ok()
-}
-
-/// Whether process `pid` is known to be gone (only where `/proc` shows processes).
-fn process_gone(pid: u32) -> bool {
-    let proc_root = Path::new("/proc");
-    proc_root.join("self").exists() && !proc_root.join(pid.to_string()).exists()
-}
-
 /// Removes the temporary files (`.isochore-*.part`) that killed report writes left in
 /// `dir`: those named after a process that no longer runs (where `/proc` can tell) and
 /// those older than [`STALE_AFTER`]. Files of running writes are left alone. Returns the
-/// paths removed; a folder that cannot be read removes nothing.
+/// paths removed; a folder that cannot be read removes nothing. The rule is isochore-data's,
+/// shared with project saves.
 pub fn remove_stale_temporaries(dir: &Path) -> Vec<PathBuf> {
-    let mut removed = Vec::new();
-    let Ok(entries) = std::fs::read_dir(dir) else {
-        return removed;
-    };
-    let me = std::process::id();
-    for entry in entries.flatten() {
-        let name = entry.file_name().to_string_lossy().into_owned();
-        if !(name.starts_with(TEMP_PREFIX) && name.ends_with(TEMP_SUFFIX)) {
-            continue;
-        }
-        let Ok(meta) = entry.metadata() else { continue };
-        if !meta.is_file() {
-            continue;
-        }
-        let old = meta
-            .modified()
-            .ok()
-            .and_then(|t| SystemTime::now().duration_since(t).ok())
-            .is_some_and(|age| age > STALE_AFTER);
-        let orphan = pid_of(&name).is_some_and(|p| p != me && process_gone(p));
-        if (old || orphan) && std::fs::remove_file(entry.path()).is_ok() {
-            removed.push(entry.path());
-        }
-    }
-    removed.sort();
-    removed
+    isochore_data::atomic::remove_stale_temporaries_named(dir, TEMP_PREFIX, TEMP_SUFFIX)
 }
 
 #[cfg(test)]
@@ -163,7 +127,5 @@ mod tests {
         let removed = remove_stale_temporaries(dir.path());
         assert_eq!(removed, vec![old.clone()]);
         assert!(!old.exists() && mine.exists() && other.exists());
-        assert_eq!(pid_of(".isochore-123-4-ff.part"), Some(123));
-        assert_eq!(pid_of(".isochore-abc.part"), None);
     }
 }
