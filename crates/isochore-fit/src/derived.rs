@@ -93,7 +93,7 @@ impl VantHoffFit {
     }
 
     /// gᵀ Cov g.
-    fn quadratic_form(&self, g: &[f64]) -> f64 {
+    pub(crate) fn quadratic_form(&self, g: &[f64]) -> f64 {
         let p = self.n_params();
         let mut s = 0.0;
         for a in 0..p {
@@ -520,12 +520,26 @@ impl VantHoffFit {
     /// unbounded: `+∞` above, `−∞` below (the set then reaches towards 0 K; no finite bound
     /// is ever at or below 0 K).
     pub fn fieller_interval(&self, t_star: f64, target: f64) -> (f64, f64) {
-        let theta = self.options.t_ref_k;
-        let model = self.model();
+        let (theta, model) = (self.options.t_ref_k, self.model());
+        self.accepted_temperatures(t_star, target, |t| model.row(t, theta))
+    }
+
+    /// The connected set of temperatures around `centre` where the t-test of
+    /// `row_at(T)·β = target` does not reject at the fit's level: the test inverted
+    /// pointwise, searched outwards on a logarithmic grid (steps of 0.2 % in T, out to 1000
+    /// times and a thousandth of `centre`) with the ends refined by bisection. An end not
+    /// found is unbounded (`+∞` above, `−∞` below). Fieller's interval for T at a target K
+    /// and for the temperature where ΔH° = 0 are both this set.
+    pub(crate) fn accepted_temperatures(
+        &self,
+        centre: f64,
+        target: f64,
+        row_at: impl Fn(f64) -> Vec<f64>,
+    ) -> (f64, f64) {
         let beta = self.coefficients();
         let c2 = self.critical_value * self.critical_value;
         let outside = |t: f64| -> bool {
-            let row = model.row(t, theta);
+            let row = row_at(t);
             let y: f64 = row.iter().zip(&beta).map(|(x, b)| x * b).sum();
             let d = y - target;
             // A temperature where the model cannot be evaluated ends the set, and so does
@@ -537,9 +551,9 @@ impl VantHoffFit {
         const REACH: f64 = 1000.0;
         let steps = (REACH.ln() / STEP).ceil() as usize;
         let edge = |up: bool| -> f64 {
-            let mut inside = t_star;
+            let mut inside = centre;
             for k in 1..=steps {
-                let t = t_star * (if up { 1.0 } else { -1.0 } * STEP * k as f64).exp();
+                let t = centre * (if up { 1.0 } else { -1.0 } * STEP * k as f64).exp();
                 if outside(t) {
                     // Bisect between the last temperature inside and this one.
                     let (mut a, mut b) = (inside, t);

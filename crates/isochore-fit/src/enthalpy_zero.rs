@@ -78,7 +78,7 @@ impl VantHoffFit {
         let (t0, _) = best?;
         let c = model.delta_h_row(t0, theta);
         let slope = dot(&model.delta_cp_row(t0, theta));
-        let se = self.form(&c).sqrt() / slope.abs();
+        let se = self.quadratic_form(&c).sqrt() / slope.abs();
         let (ci_low, ci_high) = self.zero_set(t0);
         let estimate = Estimate {
             value: t0,
@@ -112,55 +112,11 @@ impl VantHoffFit {
         })
     }
 
-    /// gᵀΣg with the fit's covariance.
-    fn form(&self, g: &[f64]) -> f64 {
-        let c = &self.covariance;
-        (0..g.len())
-            .map(|a| (0..g.len()).map(|b| g[a] * c[a][b] * g[b]).sum::<f64>())
-            .sum()
-    }
-
     /// The ends of the connected set around `t0` where ΔH°(T) = 0 is not rejected,
     /// searched up to a factor of 1000 each way (beyond it: infinite, i.e. unbounded).
     fn zero_set(&self, t0: f64) -> (f64, f64) {
-        let theta = self.options.t_ref_k;
-        let model = self.model();
-        let beta = self.coefficients();
-        let c2 = self.critical_value * self.critical_value;
-        let outside = |t: f64| -> bool {
-            let row = model.delta_h_row(t, theta);
-            let v: f64 = row.iter().zip(&beta).map(|(x, b)| x * b).sum();
-            // NaN counts as outside.
-            !(v.is_finite() && v * v <= c2 * self.form(&row))
-        };
-        const STEP: f64 = 0.002;
-        const REACH: f64 = 1000.0;
-        let steps = (REACH.ln() / STEP).ceil() as usize;
-        let edge = |up: bool| -> f64 {
-            let mut inside = t0;
-            for k in 1..=steps {
-                let t = t0 * (if up { 1.0 } else { -1.0 } * STEP * k as f64).exp();
-                if outside(t) {
-                    let (mut a, mut b) = (inside, t);
-                    for _ in 0..80 {
-                        let m = 0.5 * (a + b);
-                        if outside(m) {
-                            b = m;
-                        } else {
-                            a = m;
-                        }
-                    }
-                    return 0.5 * (a + b);
-                }
-                inside = t;
-            }
-            if up {
-                f64::INFINITY
-            } else {
-                f64::NEG_INFINITY
-            }
-        };
-        (edge(false), edge(true))
+        let (theta, model) = (self.options.t_ref_k, self.model());
+        self.accepted_temperatures(t0, 0.0, |t| model.delta_h_row(t, theta))
     }
 }
 
