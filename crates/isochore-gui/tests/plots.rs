@@ -148,3 +148,37 @@ fn eight_series_get_eight_pairs_and_excluded_points_are_hollow() {
         }
     }
 }
+
+/// Issue 11 item 1: the influence plot draws what the flag rule tests — the externally
+/// studentized residual — so the demo's outlier (row 7) sits where the table puts it
+/// (about −7.05, far outside the ±3 flag lines), not at the internally studentized −2.7.
+#[test]
+fn the_influence_plot_draws_the_residual_the_flag_rule_tests() {
+    let h = harness(bench());
+    let w = h.state();
+    let s = w.project.get(w.active.unwrap()).unwrap();
+    let a = w.fitter.get(s.id).unwrap();
+    let fit = a.fit.as_ref().unwrap();
+    let k = a.point_of_row[OUTLIER_ROW].unwrap();
+    let d = &fit.points()[k];
+    let ext = d.student_ext.expect("an externally studentized residual");
+    // By hand from the internally studentized r: t = r·√((ν − 1)/(ν − r²)), ν = n − p
+    // (Belsley, Kuh & Welsch 1980; from memory).
+    let nu = fit.dof() as f64;
+    let r = d.student_int.expect("an internally studentized residual");
+    let by_hand = r * ((nu - 1.0) / (nu - r * r)).sqrt();
+    assert!(
+        (ext - by_hand).abs() < 1e-9 * ext.abs(),
+        "{ext} vs {by_hand}"
+    );
+    let drawn = w
+        .diagnostics
+        .influence_drawn
+        .iter()
+        .find(|(i, _)| *i == k)
+        .expect("the outlier is drawn")
+        .1;
+    assert_eq!(drawn[0], d.leverage);
+    assert_eq!(drawn[1], ext);
+    assert!(drawn[1] < -3.0 && r > -3.0, "ext {ext}, int {r}");
+}

@@ -17,6 +17,9 @@ pub struct DiagnosticsPanel {
     decimated: Option<Decimated>,
     /// The residual plot's y-range as last drawn (read by tests).
     pub residual_y: Option<[f64; 2]>,
+    /// The influence plot's points as last drawn: (point index, [leverage h, y]) — the y
+    /// is what the flag rule tests (read by tests).
+    pub influence_drawn: Vec<(usize, [f64; 2])>,
 }
 
 /// Rows of the residual and influence plots of a large series, for one analysis and width.
@@ -159,6 +162,7 @@ impl DiagnosticsPanel {
                     &highlight,
                     isochore_fit::influence::influence_coordinates,
                 );
+                self.influence_drawn = m.all.clone();
                 let lev_threshold = isochore_fit::influence::FlagLimits::of(fit).leverage;
                 let max_h = m.all.iter().map(|q| q.1[0]).fold(lev_threshold, f64::max);
                 // Contours are cut a little above the largest residual, so they do not
