@@ -135,13 +135,24 @@ pub fn compare(
 
 /// The readable block of one fit's comparisons.
 pub fn text(w: &mut impl Write, job: &Job, c: &[CalorimetricComparison]) -> io::Result<()> {
-    let u = energy(job.energy);
-    writeln!(w)?;
-    writeln!(
-        w,
+    let heading = format!(
         "calorimetric ΔH° compared with the van 't Hoff ΔH° — series “{}”:",
         job.series
-    )?;
+    );
+    lines(w, job, &heading, c)
+}
+
+/// The comparisons under `heading`, one line each with its verdict (the text of a single
+/// fit's and of a joint fit's comparisons).
+pub fn lines(
+    w: &mut impl Write,
+    job: &Job,
+    heading: &str,
+    c: &[CalorimetricComparison],
+) -> io::Result<()> {
+    let u = energy(job.energy);
+    writeln!(w)?;
+    writeln!(w, "{heading}")?;
     for x in c {
         let vh = u.estimate(x.van_t_hoff);
         let d = u.estimate(x.difference);

@@ -275,32 +275,11 @@ fn calorimetric_text(
         if c.is_empty() {
             continue;
         }
-        let job = &sets[s];
-        let u = isochore_report::present::energy(job.energy);
-        writeln!(w)?;
-        writeln!(
-            w,
+        let heading = format!(
             "calorimetric ΔH° compared with the van 't Hoff ΔH° of the joint fit — series “{}”:",
             j.labels[s]
-        )?;
-        for x in c {
-            let vh = u.estimate(x.van_t_hoff);
-            let d = u.estimate(x.difference);
-            writeln!(
-                w,
-                "  at {}: ΔH_vH = {} {sym}, ΔH_cal = {} {sym}, difference = {} {sym}, z = {}",
-                show_t(x.calorimetric.t_k, job.temperature),
-                plus_minus(vh.value, vh.se),
-                plus_minus(
-                    u.from_si(x.calorimetric.delta_h),
-                    u.from_si(x.calorimetric.u)
-                ),
-                plus_minus(d.value, d.se),
-                fixed(x.z, 2),
-                sym = u.symbol
-            )?;
-            writeln!(w, "    {}", x.verdict)?;
-        }
+        );
+        crate::calorimetric_cmd::lines(w, &sets[s], &heading, c)?;
     }
     Ok(())
 }
