@@ -47,7 +47,7 @@ impl VantHoffFit {
         let dot = |c: &[f64]| c.iter().zip(&beta).map(|(a, b)| a * b).sum::<f64>();
         let h = |t: f64| dot(&model.delta_h_row(t, theta));
         let centre = self.t_harmonic_k;
-        let (lo, hi) = (centre / SEARCH_FACTOR, centre * SEARCH_FACTOR);
+        let (lo, hi) = self.delta_h_zero_search_range();
         let step = (hi / lo).ln() / GRID as f64;
         // The sign change nearest T_hm.
         let mut best: Option<(f64, f64)> = None;
@@ -110,6 +110,33 @@ impl VantHoffFit {
             extrapolated: self.is_extrapolation(t0),
             words,
         })
+    }
+
+    /// The temperature where ΔH° = 0 in words, for every model with ΔCp°: the words of
+    /// [`VantHoffFit::temperature_where_delta_h_is_zero`] where ΔH° changes sign near the
+    /// data, else that it keeps its sign over the whole range searched (a factor of three
+    /// either side of T_hm). `None` for a model without ΔCp° (ΔH° is then constant).
+    pub fn delta_h_zero_words(&self) -> Option<String> {
+        if !self.model().has_heat_capacity() {
+            return None;
+        }
+        Some(match self.temperature_where_delta_h_is_zero() {
+            Some(z) => z.words,
+            None => {
+                let (lo, hi) = self.delta_h_zero_search_range();
+                format!(
+                    "ΔH° keeps its sign from {lo:.0} K to {hi:.0} K (a factor of {SEARCH_FACTOR:.0} either side of T_hm): no temperature where ΔH° = 0 near the data"
+                )
+            }
+        })
+    }
+
+    /// The range (K) searched for the temperature where ΔH° = 0: T_hm/3 to 3·T_hm.
+    pub fn delta_h_zero_search_range(&self) -> (f64, f64) {
+        (
+            self.t_harmonic_k / SEARCH_FACTOR,
+            self.t_harmonic_k * SEARCH_FACTOR,
+        )
     }
 
     /// The ends of the connected set around `t0` where ΔH°(T) = 0 is not rejected,
@@ -197,8 +224,32 @@ mod tests {
         assert!(!z.estimate.ci_low.is_finite() || !z.estimate.ci_high.is_finite());
         assert!(z.words.contains("unbounded"), "{}", z.words);
         assert!(z.words.contains("not resolved"), "{}", z.words);
-        // The linear model has no such temperature.
+        // The linear model has no such temperature, and no words for it.
         let lin = fit(&data(0.01, -1000.0), &FitOptions::default()).unwrap();
         assert!(lin.temperature_where_delta_h_is_zero().is_none());
+        assert!(lin.delta_h_zero_words().is_none());
+    }
+
+    #[test]
+    fn no_sign_change_near_the_data_is_said_in_words() {
+        // ΔH°(θ) = −20 kJ/mol with ΔCp° = −10 J/(mol K): ΔH° = 0 only at θ − 2000 K < 0
+        // (T₀ = θ − ΔH°/ΔCp°, Kirchhoff's law integrated at constant ΔCp°), far outside
+        // T_hm/3 … 3·T_hm.
+        let opts = FitOptions {
+            model: Model::CONSTANT_CP,
+            ..FitOptions::default()
+        };
+        let f = fit(&data(0.01, -10.0), &opts).unwrap();
+        assert!(f.temperature_where_delta_h_is_zero().is_none());
+        let w = f.delta_h_zero_words().unwrap();
+        assert!(w.contains("keeps its sign"), "{w}");
+        let (lo, hi) = f.delta_h_zero_search_range();
+        assert!((hi / lo - 9.0).abs() < 1e-12);
+        // With a sign change the words are the estimate's own.
+        let g = fit(&data(0.01, -1000.0), &opts).unwrap();
+        assert_eq!(
+            g.delta_h_zero_words(),
+            g.temperature_where_delta_h_is_zero().map(|z| z.words)
+        );
     }
 }
