@@ -6,54 +6,14 @@
 
 use crate::dataset::PreparedSet;
 use isochore_fit::intervals::{
-    bootstrap, monte_carlo, BootstrapScheme, IntervalError, IntervalOptions, IntervalRun,
-    DEFAULT_DRAWS, DEFAULT_SEED,
+    bootstrap_with, monte_carlo_with, BootstrapScheme, IntervalError, IntervalOptions,
+    IntervalRun, Progress, RunWithDraws,
 };
 use isochore_fit::VantHoffFit;
 
-/// Which intervals to give.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
-pub enum IntervalChoice {
-    /// The fit's own: the delta method (Fieller's for a temperature at a target K).
-    #[default]
-    Delta,
-    /// Parametric Monte Carlo (GUM Supplement 1).
-    MonteCarlo,
-    /// The bootstrap with this scheme.
-    Bootstrap(BootstrapScheme),
-}
-
-impl IntervalChoice {
-    /// The command-line value: "delta", "monte-carlo", "bootstrap".
-    pub fn cli_name(self) -> &'static str {
-        match self {
-            IntervalChoice::Delta => "delta",
-            IntervalChoice::MonteCarlo => "monte-carlo",
-            IntervalChoice::Bootstrap(_) => "bootstrap",
-        }
-    }
-}
-
-/// The method with its draws and seed.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub struct IntervalRequest {
-    /// Which method.
-    pub choice: IntervalChoice,
-    /// Number of draws (ignored by the delta method).
-    pub draws: usize,
-    /// The seed (ignored by the delta method).
-    pub seed: u64,
-}
-
-impl Default for IntervalRequest {
-    fn default() -> Self {
-        IntervalRequest {
-            choice: IntervalChoice::Delta,
-            draws: DEFAULT_DRAWS,
-            seed: DEFAULT_SEED,
-        }
-    }
-}
+/// The request types live with the runs in isochore-fit (the project file records them
+/// too); re-exported here, where the front ends take them from.
+pub use isochore_fit::intervals::{IntervalChoice, IntervalRequest};
 
 /// The runs a report compares with the delta method: for a resampling request, Monte Carlo
 /// and the bootstrap (the requested scheme, else residuals), both with the request's draws
@@ -108,6 +68,21 @@ pub fn run_intervals(
     fit: &VantHoffFit,
     request: &IntervalRequest,
 ) -> Result<Option<IntervalRun>, IntervalError> {
+    run_intervals_with(set, fit, request, &Progress::new()).map(|r| r.map(|r| r.run))
+}
+
+/// [`run_intervals`] watched by `progress` (draws done; stops when cancelled), with every
+/// draw kept: what the window runs on its worker thread. Its intervals are
+/// [`run_intervals`]'s, to the last bit.
+///
+/// # Errors
+/// As [`run_intervals`], and `IntervalError::Cancelled`.
+pub fn run_intervals_with(
+    set: &PreparedSet,
+    fit: &VantHoffFit,
+    request: &IntervalRequest,
+    progress: &Progress,
+) -> Result<Option<RunWithDraws>, IntervalError> {
     let options = IntervalOptions {
         draws: request.draws,
         seed: request.seed,
@@ -117,9 +92,16 @@ pub fn run_intervals(
         IntervalChoice::Delta => Ok(None),
         // With a σ(T) (a column, or one thermometer uncertainty), each draw draws the
         // temperatures too.
-        IntervalChoice::MonteCarlo => {
-            monte_carlo(&set.measurements, fit, set.sigma_t_k.as_deref(), &options).map(Some)
+        IntervalChoice::MonteCarlo => monte_carlo_with(
+            &set.measurements,
+            fit,
+            set.sigma_t_k.as_deref(),
+            &options,
+            progress,
+        )
+        .map(Some),
+        IntervalChoice::Bootstrap(s) => {
+            bootstrap_with(&set.measurements, fit, s, &options, progress).map(Some)
         }
-        IntervalChoice::Bootstrap(s) => bootstrap(&set.measurements, fit, s, &options).map(Some),
     }
 }

@@ -361,3 +361,56 @@ fn exact_data_give_zero_width_without_panic() {
         assert!(h.interval.ci_high - h.interval.ci_low <= 1e-6 * h.quantity.delta.value.abs());
     }
 }
+
+#[test]
+fn a_watched_run_gives_the_same_intervals_keeps_its_draws_and_can_be_stopped() {
+    use isochore_fit::intervals::{bootstrap_with, mean_sd, monte_carlo_with, Progress};
+    let pts = twenty(Model::CONSTANT_CP);
+    let f = fitted(&pts, Model::CONSTANT_CP, SigmaConvention::ScaledByFit);
+    // Not a multiple of the block of draws, so the last block is a short one.
+    let o = IntervalOptions {
+        draws: 1000,
+        seed: 11,
+        ..IntervalOptions::default()
+    };
+    let progress = Progress::new();
+    let mc = monte_carlo_with(&pts, &f, None, &o, &progress).unwrap();
+    assert_eq!(mc.run, monte_carlo(&pts, &f, None, &o).unwrap());
+    assert_eq!(progress.done(), 1000);
+    assert_eq!(mc.draws.count(), 1000);
+    // The SE of each quantity is the SD of its kept draws (the run's definition).
+    for (k, q) in mc.run.quantities.iter().enumerate() {
+        let mut v: Vec<f64> = mc
+            .draws
+            .of(k)
+            .into_iter()
+            .filter(|x| x.is_finite())
+            .collect();
+        v.sort_by(f64::total_cmp);
+        let (_, sd) = mean_sd(&v);
+        assert!(
+            (sd - q.interval.se).abs() <= 1e-12 * sd.abs(),
+            "{}",
+            q.quantity.key
+        );
+    }
+    let progress = Progress::new();
+    let b = bootstrap_with(&pts, &f, BootstrapScheme::Wild, &o, &progress).unwrap();
+    assert_eq!(
+        b.run,
+        bootstrap(&pts, &f, BootstrapScheme::Wild, &o).unwrap()
+    );
+    assert_eq!(progress.done(), 1000);
+    // Asked to stop, a run says so and gives no intervals.
+    let stopped = Progress::new();
+    stopped.cancel();
+    assert_eq!(
+        monte_carlo_with(&pts, &f, None, &o, &stopped).unwrap_err(),
+        IntervalError::Cancelled
+    );
+    assert_eq!(
+        bootstrap_with(&pts, &f, BootstrapScheme::Residuals, &o, &stopped).unwrap_err(),
+        IntervalError::Cancelled
+    );
+    assert_eq!(stopped.done(), 0);
+}

@@ -13,8 +13,9 @@ use super::engine::{apply, linear_map, solve};
 use super::quantities::Evaluator;
 use super::rng::DrawRng;
 use super::{
-    check_draws, design, quantities, summarise, BootstrapScheme, IntervalError, IntervalMethod,
-    IntervalOptions, IntervalRun, Resampling, CASES_WARN_BELOW,
+    check_draws, design, quantities, summarise, BootstrapScheme, Draws, IntervalError,
+    IntervalMethod, IntervalOptions, IntervalRun, Progress, Resampling, RunWithDraws, BLOCK,
+    CASES_WARN_BELOW,
 };
 use crate::measurement::Measurement;
 use crate::model::SigmaConvention;
@@ -46,6 +47,21 @@ pub fn bootstrap(
     scheme: BootstrapScheme,
     options: &IntervalOptions,
 ) -> Result<IntervalRun, IntervalError> {
+    bootstrap_with(points, fit, scheme, options, &Progress::new()).map(|r| r.run)
+}
+
+/// [`bootstrap`] watched by `progress` (draws done; stops when cancelled), with every draw
+/// kept. The intervals are [`bootstrap`]'s, to the last bit.
+///
+/// # Errors
+/// As [`bootstrap`], and [`IntervalError::Cancelled`].
+pub fn bootstrap_with(
+    points: &[Measurement],
+    fit: &VantHoffFit,
+    scheme: BootstrapScheme,
+    options: &IntervalOptions,
+    progress: &Progress,
+) -> Result<RunWithDraws, IntervalError> {
     check_draws(options.draws)?;
     let (d, _) = design(points, fit)?;
     let (n, p) = (d.n(), d.p());
@@ -70,8 +86,9 @@ pub fn bootstrap(
     u.iter_mut().for_each(|x| *x -= u_mean);
 
     let mut values = vec![0.0; options.draws * nq];
+    // Blocks of BLOCK draws: a look at the cancel flag before each, the counter after it.
     let redrawn: usize = values
-        .par_chunks_mut(nq)
+        .par_chunks_mut(nq * BLOCK)
         .enumerate()
         .map_init(
             || {
@@ -83,52 +100,64 @@ pub fn bootstrap(
                     vec![0.0; p],
                 )
             },
-            |(delta, t, y, w, b), (i, out)| {
-                let mut rng = DrawRng::new(seed, i as u64);
-                let mut redraws = 0usize;
-                let ok = match scheme {
-                    BootstrapScheme::Residuals => {
-                        for k in 0..n {
-                            delta[k] = u[rng.index(n)] / sqrt_w[k];
-                        }
-                        apply(&m, &beta, delta, b);
-                        true
-                    }
-                    BootstrapScheme::Wild => {
-                        for k in 0..n {
-                            delta[k] = rng.sign() * d.e[k] * lev[k];
-                        }
-                        apply(&m, &beta, delta, b);
-                        true
-                    }
-                    BootstrapScheme::Cases => loop {
-                        for k in 0..n {
-                            let j = rng.index(n);
-                            t[k] = d.t[j];
-                            y[k] = d.y[j];
-                            w[k] = d.w[j];
-                        }
-                        if let Some(sol) = solve(d.model, d.theta, t, y, w) {
-                            b.copy_from_slice(&sol);
-                            break true;
-                        }
-                        redraws += 1;
-                        if redraws >= MAX_REDRAWS {
-                            break false;
-                        }
-                    },
-                };
-                for ((o, q), pq) in out.iter_mut().zip(&qs).zip(&prepared) {
-                    *o = if ok {
-                        ev.value_prepared(pq, q, b)
-                    } else {
-                        f64::NAN
-                    };
+            |(delta, t, y, w, b), (block, outs)| {
+                if progress.is_cancelled() {
+                    return 0;
                 }
+                let mut redraws = 0usize;
+                for (j, out) in outs.chunks_mut(nq).enumerate() {
+                    let i = block * BLOCK + j;
+                    let mut rng = DrawRng::new(seed, i as u64);
+                    let mut tries = 0usize;
+                    let ok = match scheme {
+                        BootstrapScheme::Residuals => {
+                            for k in 0..n {
+                                delta[k] = u[rng.index(n)] / sqrt_w[k];
+                            }
+                            apply(&m, &beta, delta, b);
+                            true
+                        }
+                        BootstrapScheme::Wild => {
+                            for k in 0..n {
+                                delta[k] = rng.sign() * d.e[k] * lev[k];
+                            }
+                            apply(&m, &beta, delta, b);
+                            true
+                        }
+                        BootstrapScheme::Cases => loop {
+                            for k in 0..n {
+                                let j = rng.index(n);
+                                t[k] = d.t[j];
+                                y[k] = d.y[j];
+                                w[k] = d.w[j];
+                            }
+                            if let Some(sol) = solve(d.model, d.theta, t, y, w) {
+                                b.copy_from_slice(&sol);
+                                break true;
+                            }
+                            tries += 1;
+                            if tries >= MAX_REDRAWS {
+                                break false;
+                            }
+                        },
+                    };
+                    redraws += tries;
+                    for ((o, q), pq) in out.iter_mut().zip(&qs).zip(&prepared) {
+                        *o = if ok {
+                            ev.value_prepared(pq, q, b)
+                        } else {
+                            f64::NAN
+                        };
+                    }
+                }
+                progress.add(outs.len() / nq.max(1));
                 redraws
             },
         )
         .sum();
+    if progress.is_cancelled() {
+        return Err(IntervalError::Cancelled);
+    }
 
     // The jackknife, for the BCa acceleration.
     let mut jack = vec![0.0; n * nq];
@@ -177,7 +206,7 @@ pub fn bootstrap(
         IntervalMethod::BootstrapPercentile,
         &mut warnings,
     );
-    Ok(IntervalRun {
+    let run = IntervalRun {
         resampling: Resampling::Bootstrap(scheme),
         draws: options.draws,
         seed,
@@ -185,5 +214,9 @@ pub fn bootstrap(
         redrawn,
         quantities,
         warnings,
+    };
+    Ok(RunWithDraws {
+        run,
+        draws: Draws::new(nq, values),
     })
 }

@@ -21,21 +21,27 @@
 
 mod bca;
 mod bootstrap;
+mod draws;
 mod engine;
 mod montecarlo;
+mod progress;
 mod quantities;
+mod request;
 mod rng;
 
 pub use bca::{acceleration, bca_interval, mean_sd, percentile_interval, percentile_sorted};
-pub use bootstrap::bootstrap;
-pub use montecarlo::monte_carlo;
+pub use bootstrap::{bootstrap, bootstrap_with};
+pub use draws::{histogram, Draws, Histogram, TAIL_LEFT_OUT};
+pub use montecarlo::{monte_carlo, monte_carlo_with};
+pub use progress::{Progress, BLOCK};
 pub use quantities::{quantities, Quantity, QuantityKind};
+pub use request::{IntervalChoice, IntervalRequest};
 
 use crate::error::Error;
 use crate::measurement::Measurement;
 use crate::vant_hoff::{Estimate, VantHoffFit};
 use engine::Design;
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 use std::fmt;
 
 /// Draws when none are asked for.
@@ -78,7 +84,7 @@ impl IntervalMethod {
 }
 
 /// How the bootstrap makes a new data set.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Default)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
 #[serde(rename_all = "snake_case")]
 pub enum BootstrapScheme {
     /// Residual resampling: y*ᵢ = ŷᵢ + (uⱼ − ū)/√wᵢ with uⱼ = √wⱼ eⱼ/√(1 − hⱼ), j drawn
@@ -89,6 +95,7 @@ pub enum BootstrapScheme {
     /// Wild bootstrap (Wu 1986; Liu 1988): y*ᵢ = ŷᵢ + vᵢ eᵢ/√(1 − hᵢ), vᵢ = ±1 with
     /// probability ½ (Rademacher weights; Davidson & Flachaire 2008). Keeps each point's own
     /// error size, so it allows for unequal scatter the weights do not describe.
+    #[serde(rename = "wild_rademacher")]
     Wild,
     /// Case resampling: n points drawn with replacement and refitted. A resample with too
     /// few distinct temperatures is singular; it is drawn again and counted. Comes with a
@@ -139,6 +146,15 @@ impl Default for IntervalOptions {
             k_targets: vec![1.0],
         }
     }
+}
+
+/// A finished run with its draws ([`monte_carlo_with`], [`bootstrap_with`]).
+#[derive(Debug, Clone, PartialEq)]
+pub struct RunWithDraws {
+    /// The intervals.
+    pub run: IntervalRun,
+    /// Every draw of every quantity, for pictures of their distribution.
+    pub draws: Draws,
 }
 
 /// A value with an SE and an interval made by a resampling method.
@@ -249,6 +265,8 @@ pub enum IntervalError {
     Singular,
     /// The fit library refused something.
     Fit(Error),
+    /// Stopped by [`Progress::cancel`] before every draw was done.
+    Cancelled,
 }
 
 impl fmt::Display for IntervalError {
@@ -277,6 +295,7 @@ impl fmt::Display for IntervalError {
                 "the design of the fit could not be factorised again; no resampled intervals"
             ),
             IntervalError::Fit(e) => write!(f, "{e}"),
+            IntervalError::Cancelled => write!(f, "stopped before every draw was done"),
         }
     }
 }

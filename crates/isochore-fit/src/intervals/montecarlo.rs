@@ -12,8 +12,8 @@ use super::engine::{apply, linear_map, solve};
 use super::quantities::Evaluator;
 use super::rng::DrawRng;
 use super::{
-    check_draws, design, quantities, summarise, IntervalError, IntervalMethod, IntervalOptions,
-    IntervalRun, Resampling,
+    check_draws, design, quantities, summarise, Draws, IntervalError, IntervalMethod,
+    IntervalOptions, IntervalRun, Progress, Resampling, RunWithDraws, BLOCK,
 };
 use crate::measurement::Measurement;
 use crate::model::SigmaConvention;
@@ -36,6 +36,21 @@ pub fn monte_carlo(
     sigma_t: Option<&[f64]>,
     options: &IntervalOptions,
 ) -> Result<IntervalRun, IntervalError> {
+    monte_carlo_with(points, fit, sigma_t, options, &Progress::new()).map(|r| r.run)
+}
+
+/// [`monte_carlo`] watched by `progress` (draws done; stops when cancelled), with every
+/// draw kept. The intervals are [`monte_carlo`]'s, to the last bit.
+///
+/// # Errors
+/// As [`monte_carlo`], and [`IntervalError::Cancelled`].
+pub fn monte_carlo_with(
+    points: &[Measurement],
+    fit: &VantHoffFit,
+    sigma_t: Option<&[f64]>,
+    options: &IntervalOptions,
+    progress: &Progress,
+) -> Result<RunWithDraws, IntervalError> {
     check_draws(options.draws)?;
     let (d, used) = design(points, fit)?;
     let sigma_t: Option<Vec<f64>> = match sigma_t {
@@ -75,46 +90,58 @@ pub fn monte_carlo(
     let seed = options.seed;
 
     let mut values = vec![0.0; options.draws * nq];
-    values.par_chunks_mut(nq).enumerate().for_each_init(
+    // Blocks of BLOCK draws: a look at the cancel flag before each, the counter after it.
+    values.par_chunks_mut(nq * BLOCK).enumerate().for_each_init(
         || (vec![0.0; n], vec![0.0; n], vec![0.0; p]),
-        |(delta, t_star, b), (i, out)| {
-            let mut rng = DrawRng::new(seed, i as u64);
-            let factor = if scaled {
-                s * (nu / rng.sample(&chi2)).sqrt()
-            } else {
-                1.0
-            };
-            for (dl, sg) in delta.iter_mut().zip(&sigma) {
-                *dl = factor * sg * rng.normal();
+        |(delta, t_star, b), (block, outs)| {
+            if progress.is_cancelled() {
+                return;
             }
-            let ok = match &sigma_t {
-                None => {
-                    apply(&m, &beta, delta, b);
-                    true
-                }
-                Some(st) => {
-                    for k in 0..n {
-                        t_star[k] = d.t[k] + st[k] * rng.normal();
-                    }
-                    let y: Vec<f64> = d.y.iter().zip(delta.iter()).map(|(y, e)| y + e).collect();
-                    match solve(d.model, d.theta, t_star, &y, &d.w) {
-                        Some(sol) => {
-                            b.copy_from_slice(&sol);
-                            true
-                        }
-                        None => false,
-                    }
-                }
-            };
-            for ((o, q), pq) in out.iter_mut().zip(&qs).zip(&prepared) {
-                *o = if ok {
-                    ev.value_prepared(pq, q, b)
+            for (j, out) in outs.chunks_mut(nq).enumerate() {
+                let i = block * BLOCK + j;
+                let mut rng = DrawRng::new(seed, i as u64);
+                let factor = if scaled {
+                    s * (nu / rng.sample(&chi2)).sqrt()
                 } else {
-                    f64::NAN
+                    1.0
                 };
+                for (dl, sg) in delta.iter_mut().zip(&sigma) {
+                    *dl = factor * sg * rng.normal();
+                }
+                let ok = match &sigma_t {
+                    None => {
+                        apply(&m, &beta, delta, b);
+                        true
+                    }
+                    Some(st) => {
+                        for k in 0..n {
+                            t_star[k] = d.t[k] + st[k] * rng.normal();
+                        }
+                        let y: Vec<f64> =
+                            d.y.iter().zip(delta.iter()).map(|(y, e)| y + e).collect();
+                        match solve(d.model, d.theta, t_star, &y, &d.w) {
+                            Some(sol) => {
+                                b.copy_from_slice(&sol);
+                                true
+                            }
+                            None => false,
+                        }
+                    }
+                };
+                for ((o, q), pq) in out.iter_mut().zip(&qs).zip(&prepared) {
+                    *o = if ok {
+                        ev.value_prepared(pq, q, b)
+                    } else {
+                        f64::NAN
+                    };
+                }
             }
+            progress.add(outs.len() / nq.max(1));
         },
     );
+    if progress.is_cancelled() {
+        return Err(IntervalError::Cancelled);
+    }
 
     let mut warnings = Vec::new();
     if scaled {
@@ -137,7 +164,7 @@ pub fn monte_carlo(
         IntervalMethod::MonteCarlo,
         &mut warnings,
     );
-    Ok(IntervalRun {
+    let run = IntervalRun {
         resampling: Resampling::MonteCarlo,
         draws: options.draws,
         seed,
@@ -145,5 +172,9 @@ pub fn monte_carlo(
         redrawn: 0,
         quantities,
         warnings,
+    };
+    Ok(RunWithDraws {
+        run,
+        draws: Draws::new(nq, values),
     })
 }
