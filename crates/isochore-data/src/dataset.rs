@@ -20,6 +20,7 @@
 use crate::error::{Error, RejectedRow};
 use crate::import::{make_points, Point, Replicates, Row, SourceInfo};
 use crate::mapping::{convert_cells, convert_sigma_t, ColumnMapping};
+use isochore_fit::intervals::IntervalRequest;
 use isochore_fit::{EnergyUnit, FitOptions, Measurement, QuantityKind, TemperatureUnit};
 use serde::{Deserialize, Serialize};
 use std::borrow::Cow;
@@ -53,6 +54,12 @@ pub struct SeriesSettings {
     /// the same.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub thermometer_uncertainty_k: Option<f64>,
+    /// How the window makes the intervals: the delta method (the default), Monte Carlo or
+    /// the bootstrap, with the number of draws and the generator's seed, so that reopening
+    /// the project gives the same intervals. Not written when it is the default, so older
+    /// projects save back the same.
+    #[serde(skip_serializing_if = "IntervalRequest::is_default")]
+    pub intervals: IntervalRequest,
 }
 
 impl Default for SeriesSettings {
@@ -64,6 +71,7 @@ impl Default for SeriesSettings {
             replicates: Replicates::Keep,
             replicate_tolerance_k: 0.05,
             thermometer_uncertainty_k: None,
+            intervals: IntervalRequest::default(),
         }
     }
 }

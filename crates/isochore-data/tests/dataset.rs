@@ -143,6 +143,40 @@ fn a_project_file_from_before_round_trips() {
 }
 
 #[test]
+fn the_interval_method_draws_and_generator_start_value_are_kept_through_save_and_load() {
+    use isochore_fit::intervals::{BootstrapScheme, IntervalChoice, IntervalRequest};
+    let dir = tempfile::tempdir().unwrap();
+    let mut p = Project::load(data(V1)).unwrap();
+    // A project from before records none: the delta method, 10 000 draws, seed 1.
+    assert!(p.series.iter().all(|s| s.settings.intervals.is_default()));
+    p.series[0].settings.intervals = IntervalRequest {
+        choice: IntervalChoice::MonteCarlo,
+        draws: 2500,
+        seed: 987_654_321_012,
+    };
+    p.series[2].settings.intervals = IntervalRequest {
+        choice: IntervalChoice::Bootstrap(BootstrapScheme::Wild),
+        draws: 400,
+        seed: 5,
+    };
+    let path = dir.path().join("intervals.isochore.json");
+    p.save_atomic(&path).unwrap();
+    let back = Project::load(&path).unwrap();
+    assert_eq!(back, p);
+    // Written with the JSON output's keys; the series left at the delta method has none.
+    let v: Value = serde_json::from_str(&std::fs::read_to_string(&path).unwrap()).unwrap();
+    let ivl = &v["series"][0]["settings"]["intervals"];
+    assert_eq!(ivl["method"], "monte_carlo");
+    assert_eq!(ivl["draws"], 2500);
+    assert_eq!(ivl["seed"], 987_654_321_012u64);
+    assert_eq!(
+        v["series"][2]["settings"]["intervals"]["scheme"],
+        "wild_rademacher"
+    );
+    assert!(v["series"][1]["settings"].get("intervals").is_none());
+}
+
+#[test]
 fn a_hidden_data_set_stays_hidden_through_save_and_load() {
     let dir = tempfile::tempdir().unwrap();
     let mut p = Project::load(data(V1)).unwrap();

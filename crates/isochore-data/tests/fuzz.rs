@@ -249,6 +249,15 @@ fn settings() -> impl Strategy<Value = SeriesSettings> {
                 },
                 replicate_tolerance_k: tol,
                 thermometer_uncertainty_k: if avg { Some(tol + 0.01) } else { None },
+                intervals: isochore_fit::intervals::IntervalRequest {
+                    choice: if c {
+                        isochore_fit::intervals::IntervalChoice::MonteCarlo
+                    } else {
+                        isochore_fit::intervals::IntervalChoice::Delta
+                    },
+                    draws: 1 + (tol * 1e4) as usize,
+                    seed: (level * 1e6) as u64,
+                },
             },
         )
 }
