@@ -8,13 +8,12 @@ use crate::cli::FitArgs;
 use crate::load::{load, Job};
 use crate::output::{self, Style};
 use crate::Failure;
+use isochore_analysis::joint::fit_with_calorimetric;
 use isochore_analysis::joint::{fit_joint, JointAnalysis};
 use isochore_analysis::joint_report_input;
 use isochore_analysis::json::joint::write_joint;
 use isochore_fit::calorimetric::{compare_calorimetric_series, CalorimetricComparison};
-use isochore_fit::global::{
-    fit_global_with_calorimetric, CalorimetricObservation, SeriesInput, Sharing, SharingMap,
-};
+use isochore_fit::global::{CalorimetricJointFit, GlobalError};
 use isochore_fit::{Estimate, ParamInfo};
 use isochore_report::present::{diag, fixed, flag_words, percent, plus_minus, show_t, unit_of};
 use isochore_report::{OverwriteGuard, ReportFormat};
@@ -25,11 +24,6 @@ use std::path::{Path, PathBuf};
 pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
     crate::load::reference_temperature(&a.fit).map_err(Failure::usage)?;
     let calorimetric = crate::calorimetric_cmd::tagged(a).map_err(Failure::usage)?;
-    if a.calorimetric_in_fit && a.json {
-        return Err(Failure::usage(
-            "--calorimetric-in-fit is printed in the text output only, not yet in the JSON; leave out --json or --calorimetric-in-fit",
-        ));
-    }
     if a.calorimetric_in_fit && calorimetric.is_none() {
         return Err(Failure::usage(
             "--calorimetric-in-fit needs calorimetric values: --calorimetric or --calorimetric-file",
@@ -89,8 +83,27 @@ pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
             .collect::<Result<_, _>>()?,
         None => Vec::new(),
     };
+    let constrained = match (&calorimetric, a.calorimetric_in_fit) {
+        (Some(items), true) => {
+            let values: Vec<Vec<_>> = (0..sets.len())
+                .map(|s| {
+                    crate::calorimetric_cmd::values_for(items, &joint.labels[s], &sets[s].series)
+                })
+                .collect();
+            Some(fit_with_calorimetric(&sets, &joint, &values))
+        }
+        _ => None,
+    };
     if let (Some(format), Some(path)) = (report_format, &a.report) {
-        write_reports(a, path, format, &sets, &joint, &comparisons)?;
+        write_reports(
+            a,
+            path,
+            format,
+            &sets,
+            &joint,
+            &comparisons,
+            constrained.as_ref(),
+        )?;
     }
     let style = if a.json { Style::Json } else { Style::Text };
     let mut out = output::stdout(style);
@@ -103,6 +116,7 @@ pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
                 &joint,
                 !a.summary,
                 &comparisons,
+                constrained.as_ref(),
             )
             .map_err(io_fail)?;
         } else {
@@ -112,10 +126,8 @@ pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
     } else {
         text(&mut out, &sets, &joint, !a.summary).map_err(io_fail)?;
         calorimetric_text(&mut out, &sets, &joint, &comparisons).map_err(io_fail)?;
-        if a.calorimetric_in_fit {
-            if let Some(items) = &calorimetric {
-                constrained_text(&mut out, &sets, &joint, &keys, items).map_err(io_fail)?;
-            }
+        if let Some(c) = &constrained {
+            constrained_text(&mut out, &sets, &joint, c).map_err(io_fail)?;
         }
     }
     out.flush().map_err(io_fail)
@@ -131,13 +143,14 @@ fn write_reports(
     sets: &[Job],
     joint: &JointAnalysis,
     comparisons: &[Vec<CalorimetricComparison>],
+    constrained: Option<&Result<CalorimetricJointFit, GlobalError>>,
 ) -> Result<(), Failure> {
     let args: Vec<String> = std::env::args().skip(1).collect();
     let command = (
         "command line".to_string(),
         format!("vhfit {}", args.join(" ")),
     );
-    let mut input = joint_report_input(sets, joint, comparisons, &[command]);
+    let mut input = joint_report_input(sets, joint, comparisons, constrained, &[command]);
     let given = |v: &Option<String>| v.as_ref().filter(|t| !t.trim().is_empty()).cloned();
     input.record.analyst = given(&a.analyst);
     input.record.note = given(&a.note);
@@ -184,39 +197,20 @@ fn write_reports(
 }
 
 /// The joint fit again with the calorimetric values as observations of ΔH°(T)
-/// (isochore-fit's `fit_global_with_calorimetric`), each parameter as fitted and beside it
+/// (isochore-analysis' `fit_with_calorimetric`), each parameter as fitted and beside it
 /// the joint fit of ln K alone; a refusal is printed in words.
 fn constrained_text(
     w: &mut impl Write,
     sets: &[Job],
     j: &JointAnalysis,
-    keys: &[String],
-    items: &[crate::calorimetric_cmd::Tagged],
+    constrained: &Result<CalorimetricJointFit, GlobalError>,
 ) -> io::Result<()> {
-    let mut obs = Vec::new();
-    for (s, set) in sets.iter().enumerate() {
-        for v in crate::calorimetric_cmd::values_for(items, &j.labels[s], &set.series) {
-            obs.push(CalorimetricObservation {
-                series: s,
-                value: v,
-            });
-        }
-    }
-    let inputs: Vec<SeriesInput<'_>> = sets
-        .iter()
-        .zip(&j.labels)
-        .map(|(s, l)| SeriesInput::new(l, &s.measurements))
-        .collect();
-    let mut sharing = SharingMap::per_series();
-    for k in keys {
-        sharing.set(k, Sharing::Shared);
-    }
     writeln!(w)?;
     writeln!(
         w,
         "joint fit with the calorimetric values as observations of ΔH°(T) (weight 1/u²) | ln K alone:"
     )?;
-    let fit = match fit_global_with_calorimetric(&inputs, &sharing, j.fit.options(), &obs) {
+    let fit = match constrained {
         Ok(f) => f,
         Err(e) => {
             writeln!(w, "  not fitted: {e}")?;
@@ -256,11 +250,8 @@ fn constrained_text(
     }
     writeln!(
         w,
-        "  χ² = {} over {} ln K points and {} calorimetric values, {} degrees of freedom. Combine only values that agree with the van 't Hoff ΔH° (see the comparison above): a calorimetric enthalpy that includes heat from coupled equilibria pulls ΔH° towards itself.",
-        fixed(fit.statistics().chi2, 4),
-        fit.n_ln_k(),
-        fit.n_calorimetric(),
-        fit.dof()
+        "  {}",
+        isochore_report::present::joint::constrained_summary(fit)
     )
 }
 

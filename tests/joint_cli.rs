@@ -475,12 +475,87 @@ fn calorimetric_values_can_constrain_the_joint_fit() {
         block.contains("3 calorimetric values, 16 degrees of freedom"),
         "{block}"
     );
-    // Without --share (clap's requirement) and with --json: usage errors.
+    // The Markdown report has the same numbers beside the fit of ln K alone.
+    let md = folder("constrained-report").join("joint.md");
+    let mut report = args.to_vec();
+    let md_s = md.to_string_lossy().into_owned();
+    report.extend(["--report", &md_s]);
+    let out = run(&report);
+    assert!(out.status.success(), "{}", stderr(&out));
+    let text = std::fs::read_to_string(&md).unwrap();
+    let row = text
+        .lines()
+        .find(|l| l.contains("| shared |") && l.contains("ΔCp°"))
+        .unwrap_or_else(|| panic!("no shared ΔCp° row in\n{text}"));
+    // ΔCp° −593.848 ± 16.549 (statsmodels, above) beside ln K alone −594.476 ± 20.835
+    // (make_global.py), each shown to its SE's two digits.
+    assert!(
+        row.contains("-594 ± 17") && row.contains("-594 ± 21"),
+        "{row}"
+    );
+    assert!(text.contains("ln K alone: value ± SE"), "{text}");
+    assert!(text.contains("3 calorimetric values, 16 degrees of freedom"));
+    // Without --share (clap's requirement): a usage error.
     let out = run(&["fit", &a, "--calorimetric", cal, "--calorimetric-in-fit"]);
     assert_eq!(out.status.code(), Some(2));
+    // With --json: one object, `calorimetric_fit`, with the same numbers as the text.
     let mut json = args.to_vec();
     json.push("--json");
-    assert_eq!(run(&json).status.code(), Some(2));
+    let out = run(&json);
+    assert!(out.status.success(), "{}", stderr(&out));
+    let j = json_of(&out);
+    let c = &j["calorimetric_fit"];
+    // statsmodels 0.15.0 WLS on the stacked design (calorimetric_joint.txt, scaled SEs):
+    // ΔH°_a, ΔH°_b, ΔS°_a, ΔS°_b, ΔCp°; χ² and the degrees of freedom.
+    let rel = 1e-9; // the project's bar (issue 10), not a reference value
+    let dcp = &c["params"]["delta_cp"];
+    assert!(close(num(&dcp["value"]), -593.8482917236602, rel), "{dcp}");
+    assert!(close(num(&dcp["se"]), 16.5485340846324, rel), "{dcp}");
+    let refs = [
+        (
+            -25192.87254952666,
+            112.75055602892492,
+            -40.60552278435859,
+            0.38355105067508843,
+        ),
+        (
+            -18089.072294496782,
+            141.87004039145057,
+            -15.305824523464757,
+            0.4757536025320592,
+        ),
+    ];
+    for (s, (h, se_h, ds, se_s)) in refs.into_iter().enumerate() {
+        let p = &c["series_params"][s]["params"];
+        assert!(close(num(&p["delta_h"]["value"]), h, rel), "{p}");
+        assert!(close(num(&p["delta_h"]["se"]), se_h, rel), "{p}");
+        assert!(close(num(&p["delta_s"]["value"]), ds, rel), "{p}");
+        assert!(close(num(&p["delta_s"]["se"]), se_s, rel), "{p}");
+        assert!(p.get("delta_cp").is_none(), "shared ΔCp° is not per series");
+    }
+    assert!(close(num(&c["chi2"]), 8.38932597035888, rel));
+    assert_eq!(c["dof"], 16);
+    assert_eq!(c["n_calorimetric"], 3);
+    assert_eq!(c["n_ln_k"], 18);
+    assert_eq!(c["columns"].as_array().unwrap().len(), 5);
+    // The joint fit of ln K alone stays beside it, unchanged (make_global.py's ΔCp°).
+    assert!(close(num(&j["params"]["delta_cp"]["value"]), EST[4], rel));
+    // Without --calorimetric-in-fit the object is left out.
+    let plain: Vec<&str> = json
+        .iter()
+        .copied()
+        .filter(|a| *a != "--calorimetric-in-fit")
+        .collect();
+    assert!(json_of(&run(&plain)).get("calorimetric_fit").is_none());
+    // Unweighted: null, and a warning says why.
+    let mut json_unweighted = json.clone();
+    json_unweighted.push("--unweighted");
+    let j = json_of(&run(&json_unweighted));
+    assert!(j["calorimetric_fit"].is_null());
+    assert!(j["warnings"].as_array().unwrap().iter().any(|w| w
+        .as_str()
+        .unwrap()
+        .contains("only when every ln K has its σ")));
     // Unweighted: the constrained fit is refused in words, the rest still printed.
     let mut unweighted = args.to_vec();
     unweighted.push("--unweighted");

@@ -5,9 +5,11 @@
 //! with one pooled residual variance), and its failure to run is a warning, not a refusal.
 
 use crate::dataset::PreparedSet;
+use isochore_fit::calorimetric::CalorimetricValue;
 use isochore_fit::global::{
-    compensation, exner_test, fit_global, Compensation, CompensationPoint, EqualityTest, ExnerTest,
-    GlobalError, GlobalFit,
+    compensation, exner_test, fit_global, fit_global_with_calorimetric, CalorimetricJointFit,
+    CalorimetricObservation, Compensation, CompensationPoint, EqualityTest, ExnerTest, GlobalError,
+    GlobalFit,
 };
 use isochore_fit::{FitOptions, SeriesInput, Sharing, SharingMap};
 use std::fmt;
@@ -165,15 +167,8 @@ pub fn fit_joint(sets: &[PreparedSet], shared: &[String]) -> Result<JointAnalysi
             });
         }
     }
-    let mut sharing = SharingMap::per_series();
-    for key in shared {
-        sharing.set(key, Sharing::Shared);
-    }
-    let inputs: Vec<SeriesInput<'_>> = sets
-        .iter()
-        .zip(&labels)
-        .map(|(s, l)| SeriesInput::new(l, &s.measurements))
-        .collect();
+    let sharing = sharing_of(shared);
+    let inputs = inputs_of(sets, &labels);
     let fit = fit_global(&inputs, &sharing, &options).map_err(JointError::Fit)?;
     let shared_keys: Vec<&'static str> = options
         .model
@@ -223,4 +218,52 @@ pub fn fit_joint(sets: &[PreparedSet], shared: &[String]) -> Result<JointAnalysi
         compensation,
         warnings,
     })
+}
+
+/// The sharing that shares the parameters `shared` (JSON keys) and fits every other one
+/// per series.
+fn sharing_of<S: AsRef<str>>(shared: &[S]) -> SharingMap {
+    let mut sharing = SharingMap::per_series();
+    for key in shared {
+        sharing.set(key.as_ref(), Sharing::Shared);
+    }
+    sharing
+}
+
+fn inputs_of<'a>(sets: &'a [PreparedSet], labels: &'a [String]) -> Vec<SeriesInput<'a>> {
+    sets.iter()
+        .zip(labels)
+        .map(|(s, l)| SeriesInput::new(l, &s.measurements))
+        .collect()
+}
+
+/// The joint fit of `joint` again, with the calorimetric values as observations of each
+/// series' ΔH°(T) (weight 1/u², beside the ln K points weighted by 1/σ(ln K)²): the same
+/// series, model, options and sharing. `values[s]` holds the values of series s (empty, or
+/// shorter than the series, where there are none).
+///
+/// # Errors
+/// isochore-fit's refusal (`fit_global_with_calorimetric`): an unweighted fit, no value at
+/// all, a value with u = 0, a sharing the extra rows do not make identifiable.
+pub fn fit_with_calorimetric(
+    sets: &[PreparedSet],
+    joint: &JointAnalysis,
+    values: &[Vec<CalorimetricValue>],
+) -> Result<CalorimetricJointFit, GlobalError> {
+    let obs: Vec<CalorimetricObservation> = values
+        .iter()
+        .enumerate()
+        .take(sets.len())
+        .flat_map(|(series, vs)| {
+            vs.iter()
+                .map(move |&value| CalorimetricObservation { series, value })
+        })
+        .collect();
+    let inputs = inputs_of(sets, &joint.labels);
+    fit_global_with_calorimetric(
+        &inputs,
+        &sharing_of(&joint.shared),
+        joint.fit.options(),
+        &obs,
+    )
 }

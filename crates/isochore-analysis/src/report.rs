@@ -5,6 +5,7 @@
 use crate::dataset::PreparedSet;
 use crate::joint::JointAnalysis;
 use isochore_fit::calorimetric::CalorimetricComparison;
+use isochore_fit::global::{CalorimetricJointFit, GlobalError};
 use isochore_fit::VantHoffFit;
 use isochore_report::{
     JointCompensation, JointReportInput, JointSeries, Record, ReportInput, ReportRow,
@@ -87,12 +88,15 @@ pub fn joint_report_title(n: usize) -> String {
 
 /// The report input of a joint fit of `sets` (in the order fitted). `calorimetric[s]`
 /// holds the comparisons of series s (empty where none were given; may be shorter than
-/// the series). `extra` records further settings (the command line records itself); each
-/// data set's own settings follow under its label.
+/// the series); `constrained`, when asked for, the joint fit with the calorimetric values
+/// as observations of ΔH°(T) ([`crate::joint::fit_with_calorimetric`]) or its refusal.
+/// `extra` records further settings (the command line records itself); each data set's
+/// own settings follow under its label.
 pub fn joint_report_input(
     sets: &[PreparedSet],
     joint: &JointAnalysis,
     calorimetric: &[Vec<CalorimetricComparison>],
+    constrained: Option<&Result<CalorimetricJointFit, GlobalError>>,
     extra: &[(String, String)],
 ) -> JointReportInput {
     let series = sets
@@ -127,6 +131,7 @@ pub fn joint_report_input(
             beta: c.beta.clone(),
             exner: c.exner.clone(),
         }),
+        calorimetric_fit: constrained.map(|r| r.clone().map_err(|e| e.to_string())),
         warnings: joint.warnings.clone(),
         energy_unit: first.map_or(isochore_fit::EnergyUnit::KilojoulePerMole, |s| s.energy),
         temperature_unit: first.map_or(isochore_fit::TemperatureUnit::Celsius, |s| s.temperature),

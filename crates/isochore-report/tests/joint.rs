@@ -100,6 +100,7 @@ fn input(labels: [&str; 3]) -> JointReportInput {
             beta,
             exner,
         }),
+        calorimetric_fit: None,
         warnings: vec![],
         energy_unit: EnergyUnit::KilojoulePerMole,
         temperature_unit: TemperatureUnit::Celsius,

@@ -1,10 +1,15 @@
 //! The JSON of `vhfit fit --calorimetric …`: a single fit's object ([`super::FitJson`]) with a
 //! `calorimetric` array beside its fields, one element per calorimetric value compared with
-//! the van 't Hoff ΔH° at its temperature. SI units; undefined numbers are null.
+//! the van 't Hoff ΔH° at its temperature; a joint fit's object with the comparisons of
+//! each series and, with `--calorimetric-in-fit`, `calorimetric_fit`: the joint fit again
+//! with the calorimetric values as observations of ΔH°(T) ([`CalorimetricFitJson`]). SI
+//! units; undefined numbers are null.
 
-use super::{EstimateJson, FitJson};
+use super::joint::{ColumnJson, SeriesParamsJson};
+use super::{EstimateJson, FitJson, Nulls, ParamsJson};
 use crate::dataset::PreparedSet;
 use isochore_fit::calorimetric::CalorimetricComparison;
+use isochore_fit::global::{CalorimetricJointFit, GlobalError};
 use isochore_fit::VantHoffFit;
 use serde::Serialize;
 use std::io::{self, Write};
@@ -107,10 +112,105 @@ pub struct JointWithCalorimetricJson<'a> {
     pub joint: super::joint::JointJson<'a>,
     /// The comparisons, series by series.
     pub calorimetric: Vec<SeriesCalorimetricJson<'a>>,
+    /// With `--calorimetric-in-fit`: the joint fit with the calorimetric values as
+    /// observations of ΔH°(T), or null when it was refused (a warning says why); left out
+    /// otherwise.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub calorimetric_fit: Option<Option<CalorimetricFitJson<'a>>>,
+}
+
+/// `calorimetric_fit`: the joint fit of ln K and the calorimetric values together (each
+/// ΔH_cal ± u one more observation of its series' ΔH°(T), weight 1/u²), with the same
+/// series, model, options and sharing as the joint fit of ln K alone, whose numbers
+/// (`params`, `series_params`) stand beside it in the same object.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CalorimetricFitJson<'a> {
+    /// The shared parameters, by key, `{value, se, ci_low, ci_high}`.
+    pub params: ParamsJson,
+    /// Per series, its own parameters.
+    pub series_params: Vec<SeriesParamsJson<'a>>,
+    /// What the rows and columns of `cov` hold.
+    pub columns: Vec<ColumnJson<'a>>,
+    /// The full covariance of this fit.
+    pub cov: Vec<Vec<Option<f64>>>,
+    /// Used ln K points over all series.
+    pub n_ln_k: usize,
+    /// Calorimetric values in the fit.
+    pub n_calorimetric: usize,
+    /// Residual degrees of freedom: ln K points + calorimetric values − columns.
+    pub dof: usize,
+    /// χ² over both kinds of observation.
+    pub chi2: Option<f64>,
+    /// χ²/dof.
+    pub reduced_chi2: Option<f64>,
+}
+
+impl<'a> CalorimetricFitJson<'a> {
+    /// The object of `fit`, its series labelled `labels`; undefined numbers go to `n`.
+    pub fn new(
+        n: &mut Nulls,
+        fit: &CalorimetricJointFit,
+        labels: &'a [String],
+    ) -> CalorimetricFitJson<'a> {
+        let label = |s: usize| labels.get(s).map_or("", String::as_str);
+        let mut params = Vec::new();
+        let mut series_params: Vec<SeriesParamsJson<'a>> = (0..labels.len())
+            .map(|s| SeriesParamsJson {
+                series: label(s),
+                params: ParamsJson(Vec::new()),
+            })
+            .collect();
+        for (c, e) in fit.columns().iter().zip(fit.estimates()) {
+            match c.series() {
+                None => params.push((
+                    c.key(),
+                    n.estimate(&format!("calorimetric_fit.params.{}", c.key()), e),
+                )),
+                Some(s) => {
+                    if let Some(sp) = series_params.get_mut(s) {
+                        let what = format!("calorimetric_fit.series_params[{s}].{}", c.key());
+                        sp.params.0.push((c.key(), n.estimate(&what, e)));
+                    }
+                }
+            }
+        }
+        let columns = fit
+            .columns()
+            .iter()
+            .map(|c| ColumnJson {
+                key: c.key(),
+                series: c.series().map(label),
+            })
+            .collect();
+        let cov = fit
+            .covariance()
+            .iter()
+            .enumerate()
+            .map(|(i, row)| {
+                row.iter()
+                    .enumerate()
+                    .map(|(j, v)| n.num(|| format!("calorimetric_fit.cov[{i}][{j}]"), *v))
+                    .collect()
+            })
+            .collect();
+        let s = fit.statistics();
+        CalorimetricFitJson {
+            params: ParamsJson(params),
+            series_params,
+            columns,
+            cov,
+            n_ln_k: fit.n_ln_k(),
+            n_calorimetric: fit.n_calorimetric(),
+            dof: fit.dof(),
+            chi2: n.num(|| "calorimetric_fit.chi2".into(), s.chi2),
+            reduced_chi2: n.num(|| "calorimetric_fit.reduced_chi2".into(), s.reduced_chi2),
+        }
+    }
 }
 
 /// Writes a joint fit with the calorimetric comparisons of each series (`comparisons[s]`
-/// for series s) as one JSON object.
+/// for series s) as one JSON object; `constrained` (with `--calorimetric-in-fit`) adds
+/// `calorimetric_fit`, null with a warning when the fit was refused.
 ///
 /// # Errors
 /// The writer's.
@@ -120,6 +220,7 @@ pub fn write_joint_with_calorimetric(
     a: &crate::joint::JointAnalysis,
     with_points: bool,
     comparisons: &[Vec<CalorimetricComparison>],
+    constrained: Option<&Result<CalorimetricJointFit, GlobalError>>,
 ) -> io::Result<()> {
     let calorimetric = comparisons
         .iter()
@@ -132,9 +233,22 @@ pub fn write_joint_with_calorimetric(
             })
         })
         .collect();
+    let mut joint = super::joint::JointJson::new(sets, a, with_points);
+    let mut n = Nulls::new();
+    let calorimetric_fit = constrained.map(|r| match r {
+        Ok(fit) => Some(CalorimetricFitJson::new(&mut n, fit, &a.labels)),
+        Err(e) => {
+            joint.warnings.push(format!(
+                "no joint fit with the calorimetric values as observations of ΔH°(T): {e}"
+            ));
+            None
+        }
+    });
+    joint.warnings.extend(n.warning());
     let doc = JointWithCalorimetricJson {
-        joint: super::joint::JointJson::new(sets, a, with_points),
+        joint,
         calorimetric,
+        calorimetric_fit,
     };
     serde_json::to_writer(w, &doc).map_err(io::Error::from)
 }

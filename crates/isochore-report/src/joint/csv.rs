@@ -1,7 +1,9 @@
 //! A joint fit's tables as CSV: every data row of every series with its converted values
 //! and diagnostics in the joint fit, and the results — shared and per-series estimates,
 //! differences, the test of equality, the compensation analysis and the calorimetric
-//! comparison — one row each, full precision in the display units.
+//! comparison, and the joint fit with the calorimetric values as observations of ΔH°(T)
+//! when asked for (section `calorimetric_fit`) — one row each, full precision in the
+//! display units.
 
 use super::JointReportInput;
 use crate::present::{flag_words, joint};
@@ -221,6 +223,22 @@ pub(super) fn results_csv(input: &JointReportInput) -> Result<Vec<u8>, ReportErr
                 fin(c.z),
                 "",
             )?;
+        }
+    }
+    if let Some(Ok(c)) = &input.calorimetric_fit {
+        for r in joint::constrained_rows(c, &input.fit, &input.labels(), e, tu) {
+            let x = r.with.estimate;
+            w.write_record([
+                "calorimetric_fit".to_string(),
+                r.series.clone(),
+                r.with.quantity.clone(),
+                fin(x.value),
+                fin(x.se),
+                fin(x.ci_low),
+                fin(x.ci_high),
+                r.with.unit.clone(),
+            ])
+            .map_err(csv_err)?;
         }
     }
     w.into_inner()

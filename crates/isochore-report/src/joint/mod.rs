@@ -11,7 +11,9 @@
 //! ΔS° and against ΔG°(T_hm), each series' joint confidence region, β with the
 //! Krug–Hunter–Grieger test and Exner's test, and the caution that compensation between
 //! correlated estimates proves nothing by itself), the calorimetric comparison where
-//! values were given, and the single report's methods, assumptions and record.
+//! values were given (and, when asked, the joint fit with the calorimetric values as
+//! observations of ΔH°(T) beside the fit of ln K alone), and the single report's methods,
+//! assumptions and record.
 
 mod content;
 mod csv;
@@ -20,7 +22,9 @@ use crate::document::Document;
 use crate::figures::{joint_figure_svg, svg_to_png, FigureKind, PNG_SCALE};
 use crate::{write_atomic, Record, ReportError, ReportFormat, ReportRow};
 use isochore_fit::calorimetric::CalorimetricComparison;
-use isochore_fit::global::{Compensation, CompensationPoint, EqualityTest, ExnerTest, GlobalFit};
+use isochore_fit::global::{
+    CalorimetricJointFit, Compensation, CompensationPoint, EqualityTest, ExnerTest, GlobalFit,
+};
 use isochore_fit::{EnergyUnit, TemperatureUnit};
 use std::path::{Path, PathBuf};
 
@@ -67,6 +71,9 @@ pub struct JointReportInput {
     pub equality: Option<EqualityTest>,
     /// The compensation analysis, with three or more series.
     pub compensation: Option<JointCompensation>,
+    /// When asked for: the joint fit with the calorimetric values as observations of
+    /// ΔH°(T), or why it was refused, in words.
+    pub calorimetric_fit: Option<Result<CalorimetricJointFit, String>>,
     /// Cautions in words from reading and fitting.
     pub warnings: Vec<String>,
     /// Energy unit for ΔH°, ΔG° (entropies follow).

@@ -10,7 +10,8 @@ use super::rows::{varies_with_t, ResultRow};
 use super::units::{energy, per_kelvin, show_t, unit_of};
 use isochore_fit::calorimetric::CalorimetricComparison;
 use isochore_fit::global::{
-    Compensation, CompensationPoint, EqualityMethod, EqualityTest, ExnerTest, GlobalFit,
+    CalorimetricJointFit, Compensation, CompensationPoint, EqualityMethod, EqualityTest, ExnerTest,
+    GlobalFit,
 };
 use isochore_fit::{EnergyUnit, Estimate, ParamInfo, TemperatureUnit};
 
@@ -378,4 +379,101 @@ pub fn calorimetric_cells(
 /// no rescaling, normal intervals, the Δχ² test.
 pub fn is_absolute(fit: &GlobalFit) -> bool {
     fit.options().convention == isochore_fit::SigmaConvention::Absolute && fit.weighted()
+}
+
+/// One parameter of the joint fit with the calorimetric values as observations of ΔH°(T),
+/// beside the same parameter of the joint fit of ln K alone.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ConstrainedRow {
+    /// "shared", or the series' label.
+    pub series: String,
+    /// With the calorimetric values in the fit (display units).
+    pub with: ResultRow,
+    /// From ln K alone (display units).
+    pub alone: ResultRow,
+}
+
+/// What the joint fit with calorimetric values is called (the window, reports, text).
+pub const CONSTRAINED_FIT: &str =
+    "joint fit with the calorimetric values as observations of ΔH°(T) (weight 1/u²)";
+
+/// Every parameter of `constrained` (shared ones first under "shared", then each series'
+/// own, in the model's order) beside the same parameter of `fit`, the joint fit of ln K
+/// alone, in display units.
+pub fn constrained_rows(
+    constrained: &CalorimetricJointFit,
+    fit: &GlobalFit,
+    labels: &[String],
+    e: EnergyUnit,
+    tu: TemperatureUnit,
+) -> Vec<ConstrainedRow> {
+    let params = fit.model().params();
+    let mut out = Vec::new();
+    let mut push = |info: &'static ParamInfo, s: usize, who: String| {
+        let (Some(w), Some(a)) = (constrained.estimate(info.key, s), fit.estimate(info.key, s))
+        else {
+            return;
+        };
+        let u = unit_of(info.dimension, e);
+        let label = param_label(fit, info, tu);
+        out.push(ConstrainedRow {
+            series: who,
+            with: row(label.clone(), Some(info), u.estimate(w), u.symbol),
+            alone: row(label, Some(info), u.estimate(a), u.symbol),
+        });
+    };
+    for info in params.iter().filter(|p| fit.shared(p.key).is_some()) {
+        push(info, 0, "shared".into());
+    }
+    for (s, l) in labels.iter().enumerate() {
+        for info in params.iter().filter(|p| fit.shared(p.key).is_none()) {
+            push(info, s, l.clone());
+        }
+    }
+    out
+}
+
+/// The column headings of [`constrained_cells`], at confidence level `level`.
+pub fn constrained_header(level: f64) -> Vec<String> {
+    let pct = super::number::percent(level);
+    vec![
+        "parameter".into(),
+        "series".into(),
+        "with ΔH_cal: value ± SE".into(),
+        format!("{pct}% CI"),
+        "ln K alone: value ± SE".into(),
+        format!("{pct}% CI"),
+        "unit".into(),
+    ]
+}
+
+/// One [`ConstrainedRow`] as the cells of [`constrained_header`].
+pub fn constrained_cells(r: &ConstrainedRow) -> Vec<String> {
+    let pair = |x: &ResultRow| {
+        let [v, se, lo, hi] = x.cells();
+        (format!("{v} ± {se}"), format!("[{lo}, {hi}]"))
+    };
+    let (wv, wi) = pair(&r.with);
+    let (av, ai) = pair(&r.alone);
+    vec![
+        r.with.quantity.clone(),
+        r.series.clone(),
+        wv,
+        wi,
+        av,
+        ai,
+        r.with.unit.clone(),
+    ]
+}
+
+/// The constrained fit's χ², degrees of freedom and counts in words, with the caution that
+/// a calorimetric value including heat from coupled equilibria pulls ΔH° towards itself.
+pub fn constrained_summary(c: &CalorimetricJointFit) -> String {
+    format!(
+        "χ² = {} over {} ln K points and {} calorimetric values, {} degrees of freedom. Combine only values that agree with the van 't Hoff ΔH° (see the comparison): a calorimetric enthalpy that includes heat from coupled equilibria pulls ΔH° towards itself.",
+        fixed(c.statistics().chi2, 4),
+        c.n_ln_k(),
+        c.n_calorimetric(),
+        c.dof()
+    )
 }
