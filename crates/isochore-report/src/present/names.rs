@@ -129,6 +129,26 @@ pub fn bootstrap_scheme(s: isochore_fit::intervals::BootstrapScheme) -> &'static
     }
 }
 
+/// The setting that chooses what makes the intervals (command line `--intervals`):
+/// "intervals by".
+pub const INTERVALS_BY: &str = "intervals by";
+/// The number of draws of Monte Carlo or the bootstrap (`--draws`, JSON `intervals.draws`).
+pub const DRAWS: &str = "draws";
+/// The generator's start value (`--seed`, JSON `intervals.seed`): the same value gives the
+/// same draws.
+pub const SEED: &str = "seed";
+
+/// A choice of the interval method in words: "delta method", "Monte Carlo", or the
+/// bootstrap's scheme ([`bootstrap_scheme`]).
+pub fn interval_choice(c: isochore_fit::intervals::IntervalChoice) -> &'static str {
+    use isochore_fit::intervals::{IntervalChoice, IntervalMethod};
+    match c {
+        IntervalChoice::Delta => interval_method(IntervalMethod::Delta),
+        IntervalChoice::MonteCarlo => interval_method(IntervalMethod::MonteCarlo),
+        IntervalChoice::Bootstrap(s) => bootstrap_scheme(s),
+    }
+}
+
 /// The temperature's standard uncertainty, in every front end: "σ(T)" (JSON `sigma_t_k`,
 /// command line `--sigma-t`, column role `sigma-t`).
 pub const SIGMA_T: &str = "σ(T)";
