@@ -15,7 +15,37 @@
 
 use crate::error::{Error, RejectedRow, RowProblem};
 use crate::header::{energy_unit, norm_name, split_bracket_unit, temp_unit};
+use serde::{Deserialize, Serialize};
 use std::path::Path;
+
+/// One calorimetric enthalpy kept with a data set in a project file (the window's
+/// calorimetric values of a series): ΔH_cal ± u at a temperature, SI units, the keys those
+/// of the JSON output.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct SavedCalorimetric {
+    /// Temperature, K.
+    pub t_k: f64,
+    /// ΔH_cal, J/mol.
+    pub delta_h_cal: f64,
+    /// Its standard uncertainty, J/mol.
+    pub u_cal: f64,
+}
+
+impl SavedCalorimetric {
+    /// Why the value cannot be used, in words, or `None`: a temperature at or below 0 K, a
+    /// ΔH_cal that is not a number, or an uncertainty that is negative or not a number.
+    pub fn problem(&self) -> Option<&'static str> {
+        if !(self.t_k.is_finite() && self.t_k > 0.0) {
+            Some("the temperature must be above 0 K")
+        } else if !self.delta_h_cal.is_finite() {
+            Some("ΔH_cal must be a number")
+        } else if !(self.u_cal.is_finite() && self.u_cal >= 0.0) {
+            Some("the uncertainty u must be a number ≥ 0")
+        } else {
+            None
+        }
+    }
+}
 
 /// One calorimetric value as read: SI units, the series it names if any, and its line.
 #[derive(Debug, Clone, PartialEq)]

@@ -122,6 +122,10 @@ pub struct DataSet {
     /// Whether the data set is drawn (hiding one is an undoable change, so it is saved).
     #[serde(default = "yes")]
     pub shown: bool,
+    /// Calorimetric enthalpies measured on this data set, to compare with its van 't Hoff
+    /// ΔH°(T). Not written when empty, so older projects load and save back the same.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub calorimetric: Vec<crate::calorimetric::SavedCalorimetric>,
     /// The reader's converted rows (when the cells were not kept).
     #[serde(skip)]
     pub(crate) read: Vec<Row>,
@@ -158,6 +162,7 @@ impl DataSet {
             exclusions: Vec::new(),
             notes: String::new(),
             shown: true,
+            calorimetric: Vec::new(),
             read: Vec::new(),
             read_notes: Vec::new(),
         }
@@ -447,13 +452,14 @@ impl DataSet {
             exclusions: self.exclusions.clone(),
             notes: self.notes.clone(),
             shown: self.shown,
+            calorimetric: self.calorimetric.clone(),
             read: Vec::new(),
             read_notes: Vec::new(),
         }
     }
 
-    /// The checks a loaded project's data set must pass: the mapping fits the headers and
-    /// every exclusion names a row the data set has.
+    /// The checks a loaded project's data set must pass: the mapping fits the headers,
+    /// every exclusion names a row the data set has, every calorimetric value is usable.
     pub(crate) fn check(&self) -> Result<(), String> {
         self.mapping
             .check(self.headers.len())
@@ -465,6 +471,15 @@ impl DataSet {
                     self.name,
                     e.row,
                     self.len()
+                ));
+            }
+        }
+        for (i, c) in self.calorimetric.iter().enumerate() {
+            if let Some(why) = c.problem() {
+                return Err(format!(
+                    "data set '{}': calorimetric value {}: {why}",
+                    self.name,
+                    i + 1
                 ));
             }
         }

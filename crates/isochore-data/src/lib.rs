@@ -47,6 +47,7 @@ pub mod project;
 mod text;
 
 pub use assign::{ColumnChoice, ColumnRef, COLUMN_ROLES};
+pub use calorimetric::SavedCalorimetric;
 pub use dataset::{DataSet, Exclusion, RawRow, SeriesSettings};
 pub use error::{Error, RejectedRow, RowProblem, ACCEPTED_HEADERS};
 pub use export::{export_csv, quantity_header};

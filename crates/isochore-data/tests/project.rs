@@ -495,3 +495,37 @@ fn two_point_data_sets_allowed_on_request() {
     };
     assert_eq!(import_text("t.csv", text, &o).unwrap().series[0].len(), 2);
 }
+
+/// Calorimetric values kept with a data set (the window's, issue 12): they survive save and
+/// load in SI; a project without them writes no `calorimetric` key, so older projects load
+/// and save back as before; an unusable value is a damaged project, named.
+#[test]
+fn calorimetric_values_are_kept_with_their_data_set() {
+    let mut p = sample_project("");
+    let before = p.to_json();
+    assert!(
+        !before.contains("calorimetric"),
+        "nothing written when empty"
+    );
+    assert_eq!(
+        Project::from_json(&before, "p.json").unwrap().to_json(),
+        before
+    );
+    let v = isochore_data::SavedCalorimetric {
+        t_k: 298.15,
+        delta_h_cal: -45_100.0,
+        u_cal: 500.0,
+    };
+    p.series[1].calorimetric.push(v);
+    let back = Project::from_json(&p.to_json(), "p.json").unwrap();
+    assert_eq!(back.series[1].calorimetric, vec![v]);
+    assert!(back.series[0].calorimetric.is_empty());
+    assert!(p.to_json().contains("\"delta_h_cal\": -45100.0"));
+    p.series[1].calorimetric[0].t_k = -1.0;
+    let e = Project::from_json(&p.to_json(), "p.json").unwrap_err();
+    assert!(
+        e.to_string()
+            .contains("calorimetric value 1: the temperature must be above 0 K"),
+        "{e}"
+    );
+}
