@@ -101,6 +101,12 @@ pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<
     for c in &cells {
         line(w, c)?;
     }
+    // ΔCp° models: where ΔH° changes sign (or that it does not near the data) in words.
+    // Below the table, after a blank line (the table ends at the first blank line).
+    if let Some(words) = fit.delta_h_zero_words() {
+        writeln!(w)?;
+        writeln!(w, "  {words}")?;
+    }
     writeln!(w)?;
     writeln!(w, "fit statistics:")?;
     for (k, v) in statistics_rows(fit) {

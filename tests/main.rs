@@ -3,6 +3,7 @@
 mod calorimetric_cli;
 mod cli;
 mod columns;
+mod delta_h_zero_cli;
 mod errors_in_t_cli;
 mod headless;
 mod hostile_cli;

@@ -999,6 +999,16 @@ fn text_table_numbers_match_the_library() {
                     };
                     let u_t = if off > 0.0 { "°C" } else { "K" };
                     (lib.t_at_k1().unwrap(), 1.0, u_t, off)
+                } else if q.starts_with("T where ΔH° = 0") {
+                    // ΔCp° models: the library's T₀ with Fieller's interval, in the unit.
+                    let off = if unit == TemperatureUnit::Celsius {
+                        273.15
+                    } else {
+                        0.0
+                    };
+                    let u_t = if off > 0.0 { "°C" } else { "K" };
+                    let z = lib.temperature_where_delta_h_is_zero().unwrap();
+                    (z.estimate, 1.0, u_t, off)
                 } else {
                     let at = if q.contains("T_hm") {
                         &lib.at_harmonic()

@@ -368,6 +368,11 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
             names::T_HM_MEANING
         )),
     }));
+    // ΔCp° models: where ΔH° changes sign, or that it does not near the data, in words
+    // (the row above gives the numbers; the words say when Fieller's interval is unbounded).
+    if let Some(words) = fit.delta_h_zero_words() {
+        b.push(Block::Paragraph(format!("{words}.")));
+    }
     if !fit.warnings().is_empty() {
         b.push(Block::Warnings(
             fit.warnings()

@@ -1,8 +1,8 @@
 //! The JSON of a fit whose intervals were made by Monte Carlo or the bootstrap (`vhfit fit
 //! --intervals monte-carlo|bootstrap --json`): the same document as the delta method's, with
-//! every parameter's `{value, se, ci_low, ci_high, method}` and `t_at_k1` taken from the run
-//! (`se` the SD of the draws; the interval BCa where defined, else percentile or Monte
-//! Carlo, as `method` says), and an `intervals` object recording the method, draws, seed and
+//! every parameter's `{value, se, ci_low, ci_high, method}`, `t_at_k1` and `t_delta_h_zero`
+//! taken from the run (`se` the SD of the draws; the interval BCa where defined, else
+//! percentile or Monte Carlo, as `method` says; `t_delta_h_zero.words` stay Fieller's), and an `intervals` object recording the method, draws, seed and
 //! every quantity of the run with the delta method's estimate beside it.
 
 use super::{EstimateJson, FitJson, Nulls};
@@ -68,6 +68,13 @@ pub fn apply(doc: &mut FitJson<'_>, run: &IntervalRun) {
         }
     }
     if let (Some(t), Some(q)) = (doc.t_at_k1.as_mut(), run.get("t_at_k1")) {
+        let best = q.best();
+        t.se = best.se.is_finite().then_some(best.se);
+        t.ci_low = best.ci_low.is_finite().then_some(best.ci_low);
+        t.ci_high = best.ci_high.is_finite().then_some(best.ci_high);
+        t.method = best.method.key();
+    }
+    if let (Some(t), Some(q)) = (doc.t_delta_h_zero.as_mut(), run.get("t_delta_h_zero")) {
         let best = q.best();
         t.se = best.se.is_finite().then_some(best.se);
         t.ci_low = best.ci_low.is_finite().then_some(best.ci_low);

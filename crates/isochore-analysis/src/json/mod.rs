@@ -223,6 +223,57 @@ pub struct TAtK1Json {
     pub extrapolated: bool,
 }
 
+/// `t_delta_h_zero`: the temperature where ΔH° changes sign, written for every model with
+/// ΔCp° (absent for the linear model, whose ΔH° is constant).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct TDeltaHZeroJson {
+    /// Kelvin; null when ΔH° keeps its sign from T_hm/3 to 3·T_hm (`words` says so).
+    pub value: Option<f64>,
+    /// Standard error, K (delta method).
+    pub se: Option<f64>,
+    /// Lower end of Fieller's interval, K; null where the interval is unbounded below.
+    pub ci_low: Option<f64>,
+    /// Upper end of Fieller's interval, K; null where the interval is unbounded above.
+    pub ci_high: Option<f64>,
+    /// What made the interval: "fieller" (its SE by the delta method), or the resampling
+    /// method's key with `--intervals`.
+    pub method: &'static str,
+    /// Whether it lies outside the measured range.
+    pub extrapolated: bool,
+    /// The result in words: the interval, or why it is unbounded, or that ΔH° keeps its
+    /// sign near the data.
+    pub words: String,
+}
+
+impl TDeltaHZeroJson {
+    /// The JSON of `fit`'s temperature where ΔH° = 0; `None` for a model without ΔCp°.
+    pub fn new(fit: &VantHoffFit) -> Option<TDeltaHZeroJson> {
+        let words = fit.delta_h_zero_words()?;
+        let finite = |v: f64| v.is_finite().then_some(v);
+        Some(match fit.temperature_where_delta_h_is_zero() {
+            // An infinite end is an unbounded interval, said in `words`.
+            Some(z) => TDeltaHZeroJson {
+                value: finite(z.estimate.value),
+                se: finite(z.estimate.se),
+                ci_low: finite(z.estimate.ci_low),
+                ci_high: finite(z.estimate.ci_high),
+                method: "fieller",
+                extrapolated: z.extrapolated,
+                words,
+            },
+            None => TDeltaHZeroJson {
+                value: None,
+                se: None,
+                ci_low: None,
+                ci_high: None,
+                method: "fieller",
+                extrapolated: false,
+                words,
+            },
+        })
+    }
+}
+
 /// One element of `points`.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct PointJson<'a> {
@@ -349,6 +400,9 @@ pub struct FitJson<'a> {
     pub points: Option<PointsJson<'a>>,
     /// The temperature where K = 1.
     pub t_at_k1: Option<TAtK1Json>,
+    /// The temperature where ΔH° = 0 (models with ΔCp° only).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub t_delta_h_zero: Option<TDeltaHZeroJson>,
     /// The Monte Carlo or bootstrap run that made the intervals (absent for the delta
     /// method).
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -476,6 +530,7 @@ impl<'a> FitJson<'a> {
             model_comparison,
             points,
             t_at_k1,
+            t_delta_h_zero: TDeltaHZeroJson::new(fit),
             intervals: None,
             warnings,
             version: VERSION,

@@ -102,7 +102,7 @@ fn row(fit: &VantHoffFit, q: &QuantityResult, e: EnergyUnit, tu: TemperatureUnit
         QuantityKind::TemperatureForK { k_target } => {
             (format!("T where K = {}", times_ten(k_target, 4)), None)
         }
-        QuantityKind::TemperatureDeltaHZero => ("T where ΔH° = 0".to_string(), None),
+        QuantityKind::TemperatureDeltaHZero => (super::names::T_DELTA_H_ZERO.to_string(), None),
     };
     let is_k = matches!(q.quantity.kind, QuantityKind::K { .. });
     let (scale, unit) = match dimension {

@@ -162,6 +162,10 @@ pub const K_ONLY: &str = "fit in K only";
 /// The fit's estimate of a point's true temperature: "adjusted T" (JSON `t_adjusted_k`).
 pub const ADJUSTED_T: &str = "adjusted T";
 
+/// The temperature where ΔH° changes sign (ΔCp° models): "T where ΔH° = 0" (JSON
+/// `t_delta_h_zero`).
+pub const T_DELTA_H_ZERO: &str = "T where ΔH° = 0";
+
 /// The method of a fit with errors in T: "York's fit" (the linear model) or
 /// "orthogonal-distance fit" (JSON `york`, `orthogonal_distance`).
 pub fn errors_in_t_method(m: isochore_fit::errors_in_t::ErrorsInTMethod) -> &'static str {

@@ -117,8 +117,9 @@ fn param_row(
 
 /// The results of the documents and the command line: ΔH°, ΔS° and ΔG° at θ and at the
 /// harmonic-mean temperature, then every further parameter of the model (ΔCp°, …; "at θ"
-/// where it varies with T, "(constant)" where it does not), and the temperature where
-/// K = 1 when there is one.
+/// where it varies with T, "(constant)" where it does not), the temperature where
+/// K = 1 when there is one, and (ΔCp° models) the temperature where ΔH° = 0 when ΔH° changes
+/// sign near the data.
 pub fn result_rows(fit: &VantHoffFit, e: EnergyUnit, tu: TemperatureUnit) -> Vec<ResultRow> {
     let (eu, su) = (energy(e), per_kelvin(e));
     let theta = show_t(fit.at_reference().t_k, tu);
@@ -170,25 +171,46 @@ pub fn result_rows(fit: &VantHoffFit, e: EnergyUnit, tu: TemperatureUnit) -> Vec
             "T where K = 1 (ΔG° = 0)".to_string()
         };
         // An infinite end of Fieller's interval is shown as "—"; the words say why.
-        match (t1.ci_low.is_finite(), t1.ci_high.is_finite()) {
-            (true, false) => quantity.push_str("; interval unbounded above"),
-            (false, true) => quantity.push_str("; interval unbounded below"),
-            (false, false) => quantity.push_str("; interval unbounded"),
-            (true, true) => {}
-        }
-        rows.push(ResultRow::new(
-            quantity,
-            None,
-            Estimate {
-                value: tu.from_kelvin(t1.value),
-                se: t_difference(t1.se, tu),
-                ci_low: tu.from_kelvin(t1.ci_low),
-                ci_high: tu.from_kelvin(t1.ci_high),
-            },
-            tu.symbol(),
-        ));
+        quantity.push_str(unbounded_suffix(&t1));
+        rows.push(temperature_row(quantity, t1, tu));
+    }
+    // ΔCp° models: the temperature where ΔH° changes sign, with Fieller's interval; the
+    // words ([`VantHoffFit::delta_h_zero_words`]) go beside the table.
+    if let Some(z) = fit.temperature_where_delta_h_is_zero() {
+        let mut quantity = if z.extrapolated {
+            format!("{}, extrapolated", names::T_DELTA_H_ZERO)
+        } else {
+            names::T_DELTA_H_ZERO.to_string()
+        };
+        quantity.push_str(unbounded_suffix(&z.estimate));
+        rows.push(temperature_row(quantity, z.estimate, tu));
     }
     rows
+}
+
+/// "; interval unbounded above" (below, both) for an estimate with an infinite end.
+fn unbounded_suffix(e: &Estimate) -> &'static str {
+    match (e.ci_low.is_finite(), e.ci_high.is_finite()) {
+        (true, false) => "; interval unbounded above",
+        (false, true) => "; interval unbounded below",
+        (false, false) => "; interval unbounded",
+        (true, true) => "",
+    }
+}
+
+/// A temperature (K) with Fieller's interval as a row in `tu`.
+fn temperature_row(quantity: String, t: Estimate, tu: TemperatureUnit) -> ResultRow {
+    ResultRow::new(
+        quantity,
+        None,
+        Estimate {
+            value: tu.from_kelvin(t.value),
+            se: t_difference(t.se, tu),
+            ci_low: tu.from_kelvin(t.ci_low),
+            ci_high: tu.from_kelvin(t.ci_high),
+        },
+        tu.symbol(),
+    )
 }
 
 /// The results of the window: every parameter of the model ("ΔH° at θ = 25.00 °C" where it
