@@ -17,6 +17,8 @@
 //! - [`report`]: the report input of a fitted data set, its title and the program line.
 //! - [`joint`]: several data sets fitted together with shared parameters, and the test of
 //!   equality against the separate fits.
+//! - [`calorimetric`]: calorimetric enthalpies kept with a data set, typed in display units
+//!   or read from a file, compared with a single or a joint fit's ΔH°(T).
 //! - [`json`]: the JSON contract as typed serde structs.
 //! - [`pair`]: the inputs of the two-point calculation (u(K) or σ(ln K), one rule).
 //!
@@ -25,6 +27,7 @@
 
 #![deny(missing_docs)]
 
+pub mod calorimetric;
 pub mod columns;
 pub mod dataset;
 pub mod errors_in_t;
