@@ -8,7 +8,7 @@ use crate::load::{hint, Job};
 use isochore_analysis::json;
 use isochore_fit::errors_in_t::ErrorsInTFit;
 use isochore_fit::VantHoffFit;
-use isochore_report::present::{fixed, names, plus_minus, show_t, sig, unit_of};
+use isochore_report::present::{errors_in_t, names};
 use std::io::{self, Write};
 
 /// The fit with errors in T of `job`, when it has σ(T); a refusal is added to `failures`
@@ -50,74 +50,40 @@ pub fn write_json(
 
 /// The readable block: the parameters with errors in T beside the fit in K only, S and its
 /// degrees of freedom, the comparison in words, and (with `points`) each point's adjusted T,
-/// its residuals in T and ln K and its share of S.
+/// its residuals in T and ln K and its share of S. The lines are isochore-report's
+/// (`present::errors_in_t`), the same the reports show.
 ///
 /// # Errors
 /// The writer's.
 pub fn text(w: &mut impl Write, job: &Job, f: &ErrorsInTFit, points: bool) -> io::Result<()> {
     writeln!(w)?;
-    writeln!(
-        w,
-        "{} — {} (numbers by {}; {}):",
-        names::ERRORS_IN_T,
-        f.sigma_t().describe(),
-        names::errors_in_t_method(f.method()),
-        names::sigma_convention(f.convention())
-    )?;
-    for (p, k) in f.params().iter().zip(f.k_only().params()) {
-        let u = unit_of(p.info.dimension, job.energy);
-        let e = u.estimate(p.estimate);
-        let ko = u.estimate(k.estimate);
+    writeln!(w, "{}:", errors_in_t::heading_line(f))?;
+    for r in errors_in_t::parameter_rows(f, job.energy) {
+        let (with, k_only) = r.plus_minus();
         writeln!(
             w,
             "  {:<10} {:>22} {}   ({}: {})",
-            p.info.symbol,
-            plus_minus(e.value, e.se),
-            u.symbol,
+            r.symbol,
+            with,
+            r.unit,
             names::K_ONLY,
-            plus_minus(ko.value, ko.se)
+            k_only
         )?;
     }
-    writeln!(
-        w,
-        "  S = {} on {} degrees of freedom (reduced χ² {})",
-        sig(f.chi2(), 5),
-        f.dof(),
-        sig(f.reduced_chi2(), 4)
-    )?;
+    writeln!(w, "  {}", errors_in_t::sum_line(f))?;
     writeln!(w, "  {}", f.comparison())?;
     if points {
-        writeln!(
-            w,
-            "  {:>5}  {:>12}  {:>8}  {:>12}  {:>10}  {:>13}  {:>8}",
-            "row",
-            "T",
-            names::SIGMA_T,
-            names::ADJUSTED_T,
-            "T − T*",
-            "ln K − f(T*)",
-            "share"
-        )?;
-        let total = f.chi2();
-        for (o, p) in job.rows.iter().zip(f.points()) {
-            let share = if p.used && total > 0.0 {
-                format!("{} %", fixed(100.0 * p.chi2_contribution / total, 1))
-            } else if p.used {
-                "0 %".to_string()
-            } else {
-                names::EXCLUDED.to_string()
-            };
-            writeln!(
-                w,
+        let line = |c: &[&str]| {
+            format!(
                 "  {:>5}  {:>12}  {:>8}  {:>12}  {:>10}  {:>13}  {:>8}",
-                o.row.to_string(),
-                show_t(p.t_k, job.temperature),
-                format!("{} K", sig(p.sigma_t_k, 3)),
-                show_t(p.t_adjusted_k, job.temperature),
-                format!("{} K", sig(p.residual_t_k, 3)),
-                sig(p.residual_ln_k, 3),
-                share
-            )?;
+                c[0], c[1], c[2], c[3], c[4], c[5], c[6]
+            )
+        };
+        writeln!(w, "{}", line(&errors_in_t::POINT_HEADER))?;
+        let rows = job.rows.iter().map(|o| o.row.get());
+        for c in errors_in_t::point_rows(f, rows, job.temperature) {
+            let c: Vec<&str> = c.iter().map(String::as_str).collect();
+            writeln!(w, "{}", line(&c))?;
         }
     }
     Ok(())

@@ -131,3 +131,65 @@ fn a_sigma_t_column_and_bad_values() {
         );
     }
 }
+
+/// Issue 13: the report of a fit with σ(T) has the section on the fit with errors in T,
+/// with the same comparison sentence as the JSON and the text (one function, the fit's).
+#[test]
+fn the_report_has_the_fit_with_errors_in_t() {
+    let path = demo("binding_qx7_halo2.csv");
+    let dir = tempfile::tempdir().unwrap();
+    for (model, method) in [("linear", "York's fit"), ("cp", "orthogonal-distance fit")] {
+        let md = dir.path().join(format!("{model}.md"));
+        let out = run(&[
+            "fit",
+            &path,
+            "--model",
+            model,
+            "--sigma-t",
+            "0.2K",
+            "--report",
+            &md.to_string_lossy(),
+        ]);
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        let report = std::fs::read_to_string(&md).unwrap();
+        assert!(report.contains("## Fit with errors in T"), "{report}");
+        assert!(report.contains(method), "{report}");
+        let j = json_of(&run(&[
+            "fit",
+            &path,
+            "--model",
+            model,
+            "--sigma-t",
+            "0.2K",
+            "--json",
+        ]));
+        let sentence = j["errors_in_t"]["comparison"].as_str().unwrap();
+        // The text prints it as it is; the report capitalises it and escapes Markdown.
+        let text = String::from_utf8_lossy(
+            &run(&["fit", &path, "--model", model, "--sigma-t", "0.2K"]).stdout,
+        )
+        .into_owned();
+        assert!(text.contains(sentence), "{text}");
+        let escaped = sentence[1..]
+            .replace('(', "\\(")
+            .replace(')', "\\)")
+            .replace('+', "\\+");
+        assert!(report.contains(&escaped), "{report}\n{escaped}");
+        // ΔH° with errors in T in kJ/mol as the JSON gives it (J/mol).
+        let h = &j["errors_in_t"]["params"]["delta_h"];
+        let shown = isochore_report::present::plus_minus(
+            h["value"].as_f64().unwrap() / 1000.0,
+            h["se"].as_f64().unwrap() / 1000.0,
+        );
+        assert!(report.contains(&shown), "{report}\n{shown}");
+    }
+    // Without σ(T): no section.
+    let md = dir.path().join("plain.md");
+    run(&["fit", &path, "--report", &md.to_string_lossy()]);
+    let report = std::fs::read_to_string(&md).unwrap();
+    assert!(!report.contains("errors in T"), "{report}");
+}

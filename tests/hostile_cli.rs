@@ -702,6 +702,7 @@ fn hostile_input(name: &str) -> isochore_report::ReportInput {
         record: isochore_report::Record::default(),
         settings: vec![(name.to_string(), name.to_string())],
         intervals: vec![],
+        errors_in_t: None,
     }
 }
 

@@ -60,6 +60,11 @@ pub fn report_input(
         },
         settings,
         intervals: Vec::new(),
+        // With σ(T) (a column, one thermometer uncertainty), the fit with errors in T; its
+        // refusal in words (for example an unweighted fit) takes its place.
+        errors_in_t: set
+            .fit_errors_in_t()
+            .map(|r| r.map_err(|e| e.error.to_string())),
     }
 }
 

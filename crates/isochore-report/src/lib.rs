@@ -29,6 +29,7 @@ mod atomic;
 pub mod content;
 mod csv_tables;
 mod document;
+mod errors_in_t_section;
 pub mod figures;
 mod fonts;
 pub mod guard;
@@ -123,6 +124,9 @@ pub struct ReportInput {
     /// Intervals also made by resampling (Monte Carlo, the bootstrap), shown in a methods
     /// paragraph and a table beside the delta method's; empty for the delta method alone.
     pub intervals: Vec<isochore_fit::intervals::IntervalRun>,
+    /// The fit with errors in T when the data set has σ(T) (or why it could not be made),
+    /// shown in its own section beside the fit in K only; `None` without σ(T).
+    pub errors_in_t: Option<Result<isochore_fit::errors_in_t::ErrorsInTFit, String>>,
 }
 
 /// The output formats.

@@ -9,7 +9,7 @@ use isochore_report::{
     TEMP_PREFIX, TEMP_SUFFIX,
 };
 
-fn input(name: &str) -> ReportInput {
+pub(crate) fn input(name: &str) -> ReportInput {
     // Exact data with ΔH° = −30 kJ/mol, ΔS° = −20 J/(mol K), plus a small alternating wobble
     // so the fit has residual scatter (values invented for the test).
     let temps = [283.15, 288.15, 293.15, 298.15, 303.15, 308.15, 313.15];
@@ -54,6 +54,7 @@ fn input(name: &str) -> ReportInput {
         record: isochore_report::Record::default(),
         settings: vec![],
         intervals: vec![],
+        errors_in_t: None,
     }
 }
 

@@ -8,6 +8,7 @@
 //! from the fit; flag limits and Cook's-distance contours are asked of `isochore_fit`.
 
 pub mod cautions;
+pub mod errors_in_t;
 pub mod intervals;
 pub mod joint;
 pub mod model;
