@@ -6,7 +6,9 @@
 
 use crate::load::{hint, Job};
 use isochore_analysis::json;
+use isochore_fit::calorimetric::CalorimetricComparison;
 use isochore_fit::errors_in_t::ErrorsInTFit;
+use isochore_fit::intervals::IntervalRun;
 use isochore_fit::VantHoffFit;
 use isochore_report::present::{errors_in_t, names};
 use std::io::{self, Write};
@@ -28,23 +30,44 @@ pub fn fit(job: &Job, failures: &mut Vec<String>) -> Option<ErrorsInTFit> {
 }
 
 /// Writes the JSON of one fit: with the `errors_in_t` block when there is a fit with errors
-/// in T, else exactly the plain fit's document.
+/// in T, beside the intervals of a Monte Carlo or bootstrap `run` and the `calorimetric`
+/// comparisons when there are; without a fit with errors in T exactly the document of the
+/// run, of the comparisons, or of the plain fit, byte for byte as before.
 ///
 /// # Errors
 /// The writer's.
+#[allow(clippy::too_many_arguments)]
 pub fn write_json(
     out: &mut impl Write,
     job: &Job,
     fit: &VantHoffFit,
     errors_in_t: Option<&ErrorsInTFit>,
+    run: Option<&IntervalRun>,
+    calorimetric: Option<&[CalorimetricComparison]>,
     source: Option<&str>,
     with_points: bool,
 ) -> io::Result<()> {
-    match errors_in_t {
-        Some(f) => {
+    match (errors_in_t, run, calorimetric) {
+        (Some(f), None, None) => {
             json::errors_in_t::write_fit_with_errors_in_t(out, job, fit, f, source, with_points)
         }
-        None => json::write_fit(out, job, fit, source, with_points),
+        (Some(f), r, c) => json::errors_in_t::write_fit_with_additions(
+            out,
+            job,
+            fit,
+            source,
+            with_points,
+            r,
+            c,
+            Some(f),
+        ),
+        (None, _, Some(c)) => {
+            json::calorimetric::write_fit_with_calorimetric(out, job, fit, source, with_points, c)
+        }
+        (None, Some(r), None) => {
+            json::intervals::write_fit_with_intervals(out, job, fit, source, with_points, r)
+        }
+        (None, None, None) => json::write_fit(out, job, fit, source, with_points),
     }
 }
 

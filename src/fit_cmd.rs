@@ -302,22 +302,18 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                     out.write_all(b",\n").map_err(io_fail)?;
                 }
                 let src = this_array.then_some(source.as_str());
-                match (&comparisons, &run) {
-                    (Some(c), _) => json::calorimetric::write_fit_with_calorimetric(
-                        &mut out, job, fit, src, !a.summary, c,
-                    ),
-                    (None, Some(r)) => json::intervals::write_fit_with_intervals(
-                        &mut out, job, fit, src, !a.summary, r,
-                    ),
-                    (None, None) => crate::errors_in_t_cmd::write_json(
-                        &mut out,
-                        job,
-                        fit,
-                        errors_in_t.as_ref(),
-                        src,
-                        !a.summary,
-                    ),
-                }
+                // The errors_in_t block goes with the intervals and the calorimetric
+                // comparisons alike (issue 13).
+                crate::errors_in_t_cmd::write_json(
+                    &mut out,
+                    job,
+                    fit,
+                    errors_in_t.as_ref(),
+                    run.as_ref(),
+                    comparisons.as_deref(),
+                    src,
+                    !a.summary,
+                )
                 .map_err(io_fail)?;
                 entries += 1;
             } else if detailed_text && !multi {

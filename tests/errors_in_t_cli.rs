@@ -193,3 +193,46 @@ fn the_report_has_the_fit_with_errors_in_t() {
     let report = std::fs::read_to_string(&md).unwrap();
     assert!(!report.contains("errors in T"), "{report}");
 }
+
+/// Issue 13: the `errors_in_t` block is written beside `--intervals` and `--calorimetric`
+/// too, the same block as without them, and the rest of each document is unchanged.
+#[test]
+fn errors_in_t_json_goes_with_intervals_and_calorimetric_values() {
+    let path = demo("binding_qx7_halo2.csv");
+    let base = ["fit", path.as_str(), "--model", "cp", "--json", "--summary"];
+    let with = |extra: &[&str]| {
+        let args: Vec<&str> = base.iter().chain(extra).copied().collect();
+        let out = run(&args);
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        json_of(&out)
+    };
+    let alone = with(&["--sigma-t", "0.2K"]);
+    let block = alone["errors_in_t"].clone();
+    assert_eq!(block["method"], "orthogonal_distance");
+
+    // With calorimetric values: the calorimetric document, plus the same block.
+    let cal = ["--calorimetric", "25C:-40.0:0.5"];
+    let mut both = with(&[cal[0], cal[1], "--sigma-t", "0.2K"]);
+    assert_eq!(both["errors_in_t"], block);
+    assert!(both["calorimetric"].is_array());
+    both.as_object_mut().unwrap().remove("errors_in_t");
+    assert_eq!(both, with(&cal));
+
+    // With Monte Carlo: the run's document, plus the same block.
+    let mc = ["--intervals", "monte-carlo", "--draws", "400"];
+    let j = with(&[mc[0], mc[1], mc[2], mc[3], "--sigma-t", "0.2K"]);
+    assert_eq!(j["errors_in_t"], block);
+    assert_eq!(j["intervals"]["method"], "monte_carlo");
+    assert_eq!(j["params"]["delta_h"]["method"], "monte_carlo");
+    // And with the bootstrap, which resamples the fit in K only: its document is the same
+    // with or without σ(T), but for the block.
+    let boot = ["--intervals", "bootstrap", "--draws", "300"];
+    let mut j = with(&[boot[0], boot[1], boot[2], boot[3], "--sigma-t", "0.2K"]);
+    assert_eq!(j["errors_in_t"], block);
+    j.as_object_mut().unwrap().remove("errors_in_t");
+    assert_eq!(j, with(&boot));
+}

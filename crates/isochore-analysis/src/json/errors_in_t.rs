@@ -206,3 +206,58 @@ pub fn write_fit_with_errors_in_t(
     doc.fit.warnings.extend(n.warning());
     serde_json::to_writer(w, &doc).map_err(io::Error::from)
 }
+
+/// A single fit's object with any of the additions of the command line: the resampled
+/// intervals (inside the fit's fields, [`super::intervals::apply`]), `calorimetric`, and
+/// `errors_in_t`, in that order.
+#[derive(Serialize)]
+pub struct FitWithAdditionsJson<'a> {
+    /// The fit's own fields (the fit in K only), with the run's intervals when there is one.
+    #[serde(flatten)]
+    pub fit: FitJson<'a>,
+    /// The calorimetric comparisons, in the order given.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub calorimetric: Option<Vec<super::calorimetric::CalorimetricJson>>,
+    /// The fit with errors in T.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub errors_in_t: Option<ErrorsInTJson>,
+}
+
+/// Writes one fit with the `errors_in_t` block beside a Monte Carlo or bootstrap run
+/// (`run`) and/or calorimetric comparisons (`calorimetric`): the document of
+/// [`super::intervals::write_fit_with_intervals`] or
+/// [`super::calorimetric::write_fit_with_calorimetric`] with `errors_in_t` added last, as
+/// [`write_fit_with_errors_in_t`] adds it to the plain document. The run's warnings, then
+/// the undefined values of the `errors_in_t` block, follow the fit's.
+///
+/// # Errors
+/// The writer's.
+#[allow(clippy::too_many_arguments)]
+pub fn write_fit_with_additions(
+    w: &mut impl Write,
+    set: &PreparedSet,
+    fit: &VantHoffFit,
+    source: Option<&str>,
+    with_points: bool,
+    run: Option<&isochore_fit::intervals::IntervalRun>,
+    calorimetric: Option<&[isochore_fit::calorimetric::CalorimetricComparison]>,
+    errors_in_t: Option<&ErrorsInTFit>,
+) -> io::Result<()> {
+    let mut fit_doc = FitJson::new(set, fit, source, with_points);
+    if let Some(r) = run {
+        super::intervals::apply(&mut fit_doc, r);
+    }
+    let mut n = Nulls::new();
+    let block = errors_in_t.map(|f| ErrorsInTJson::new(set, f, &mut n));
+    fit_doc.warnings.extend(n.warning());
+    let mut doc = FitWithAdditionsJson {
+        fit: fit_doc,
+        calorimetric: calorimetric.map(|c| {
+            c.iter()
+                .map(super::calorimetric::CalorimetricJson::new)
+                .collect()
+        }),
+        errors_in_t: block,
+    };
+    super::write_with_points(w, &mut doc, |d| &mut d.fit.points)
+}
