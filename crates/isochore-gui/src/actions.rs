@@ -38,6 +38,10 @@ pub enum Action {
     QuitDiscarding,
     /// Save, then close.
     SaveAndQuit,
+    /// Stop the Monte Carlo or bootstrap run of this series.
+    CancelIntervals(u64),
+    /// Start the run of this series again (after a Cancel).
+    RunIntervalsAgain(u64),
 }
 
 impl Workbench {
@@ -78,6 +82,8 @@ impl Workbench {
                 self.close_now = true;
                 self.asking_to_close = false;
             }
+            Action::CancelIntervals(id) => self.interval_runs.cancel(id),
+            Action::RunIntervalsAgain(id) => self.interval_runs.run_again(id),
             Action::SaveAndQuit => {
                 match self.project.path.clone() {
                     Some(p) => {

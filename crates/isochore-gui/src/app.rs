@@ -79,6 +79,9 @@ pub struct Workbench {
     pub history: History,
     /// The fits.
     pub fitter: Fitter,
+    /// Monte Carlo and bootstrap runs (series whose interval setting is not the delta
+    /// method).
+    pub interval_runs: crate::intervals_run::IntervalRunner,
     /// Remembered preferences.
     pub prefs: Prefs,
     /// The series shown in the table and results.
@@ -95,6 +98,8 @@ pub struct Workbench {
     pub results: ResultsPanel,
     /// Predictions and the two-point calculation.
     pub predict: PredictPanel,
+    /// Intervals by Monte Carlo or the bootstrap, with histograms of the draws.
+    pub intervals: crate::panels::intervals::IntervalsPanel,
     /// Per-series settings.
     pub settings: SettingsPanel,
     /// Files: open, import preview, save, export.
@@ -131,6 +136,7 @@ impl Workbench {
             project: Project::default(),
             history: History::default(),
             fitter: Fitter::default(),
+            interval_runs: Default::default(),
             prefs,
             active: None,
             links: Links::default(),
@@ -139,6 +145,7 @@ impl Workbench {
             diagnostics: DiagnosticsPanel::default(),
             results: ResultsPanel,
             predict: PredictPanel::default(),
+            intervals: Default::default(),
             settings: SettingsPanel::default(),
             files: FilesPanel::default(),
             joint: crate::panels::joint::JointPanel::default(),
@@ -212,6 +219,8 @@ impl Workbench {
         }
         self.fitter
             .update(&self.project.series, self.now, self.block_fits);
+        self.interval_runs
+            .update(&self.project.series, self.now, self.block_fits);
     }
 
     /// The wall-clock time recorded with exclusions (fixed in tests).
@@ -258,7 +267,8 @@ impl Workbench {
         if std::mem::take(&mut self.close_now) {
             ctx.send_viewport_cmd(egui::ViewportCommand::Close);
         }
-        if !self.fitter.running(&self.project.series).is_empty() {
+        if !self.fitter.running(&self.project.series).is_empty() || self.interval_runs.any_running()
+        {
             ctx.request_repaint_after(std::time::Duration::from_millis(100));
         }
     }
@@ -346,6 +356,7 @@ impl Workbench {
         let mut cx = Cx {
             project: &self.project,
             fitter: &self.fitter,
+            intervals: &self.interval_runs,
             active: self.active,
             links: &mut self.links,
             out: &mut out,
@@ -386,6 +397,7 @@ impl Workbench {
                 .show(root, |ui| {
                     egui::ScrollArea::both().auto_shrink(false).show(ui, |ui| {
                         self.results.ui(ui, &mut cx);
+                        self.intervals.ui(ui, &mut cx);
                         ui.separator();
                         self.predict.ui(ui, &mut cx);
                     });

@@ -24,6 +24,8 @@ pub struct Cx<'a> {
     pub project: &'a Project,
     /// Latest fits.
     pub fitter: &'a Fitter,
+    /// Monte Carlo and bootstrap runs.
+    pub intervals: &'a crate::intervals_run::IntervalRunner,
     /// The active series.
     pub active: Option<u64>,
     /// Hover and selection.

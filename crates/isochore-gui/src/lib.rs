@@ -7,7 +7,8 @@
 //!
 //! Entry point: [`run`]. The pieces: [`doc`] (the document), [`command`] (every edit, with
 //! undo), [`fitting`] (fits in and off the UI thread), [`decimate`] (drawing a million
-//! points), [`io`] (files), [`export`] (reports written off the UI thread), [`panels`]
+//! points), [`io`] (files), [`export`] (reports written off the UI thread),
+//! [`intervals_run`] (Monte Carlo and bootstrap intervals off the UI thread), [`panels`]
 //! (one struct per panel), [`context`] (what panels see
 //! and propose), [`actions`] (what the app does for them), [`autosave`] (autosave and
 //! recovery) and [`app`] (the frame loop).
@@ -23,6 +24,7 @@ pub mod decimate;
 pub mod doc;
 pub mod export;
 pub mod fitting;
+pub mod intervals_run;
 pub mod io;
 pub mod panels;
 pub mod start;

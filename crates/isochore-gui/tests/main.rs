@@ -4,6 +4,7 @@ mod errors_in_t_view;
 mod export;
 mod export_guard;
 mod features;
+mod intervals_view;
 mod joint_view;
 mod plots;
 mod shared_rules;

@@ -4,6 +4,7 @@
 pub mod diagnostics;
 pub mod export;
 pub mod files;
+pub mod intervals;
 pub mod joint;
 pub mod menu;
 pub mod predict;

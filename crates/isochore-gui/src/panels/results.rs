@@ -97,7 +97,16 @@ impl ResultsPanel {
                 ui.strong("");
                 ui.strong("value");
                 ui.strong("SE");
-                ui.strong(format!("{level} % CI"));
+                // Which method made the intervals of this table, under the header.
+                ui.vertical(|ui| {
+                    ui.strong(format!("{level} % CI"));
+                    ui.label(
+                        RichText::new(names::interval_method(
+                            isochore_fit::intervals::IntervalMethod::Delta,
+                        ))
+                        .small(),
+                    );
+                });
                 ui.end_row();
                 // Every parameter of the model, then ΔG° at θ and at T_hm; "at θ = …" on a
                 // second line, so the names of the table keep the panel narrow.

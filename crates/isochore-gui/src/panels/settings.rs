@@ -1,6 +1,8 @@
 //! The left panel: the list of series ([`crate::panels::series_list`]) and the active
 //! series' settings — model, θ, confidence level, weighting,
-//! σ convention, units for results, the thermometer uncertainty σ(T) and flag thresholds. Every change is one undoable
+//! σ convention, units for results, the thermometer uncertainty σ(T), flag thresholds and
+//! the interval method (delta method, Monte Carlo, bootstrap; draws; generator start value,
+//! [`crate::panels::intervals`]). Every change is one undoable
 //! command.
 
 use crate::app::Cx;
@@ -17,6 +19,8 @@ pub struct SettingsPanel {
     pub error: Option<String>,
     /// The list of series above the settings.
     pub list: crate::panels::series_list::SeriesList,
+    /// The interval method, draws and generator start value being typed.
+    pub intervals: crate::panels::intervals::IntervalFields,
 }
 
 impl SettingsPanel {
@@ -184,6 +188,15 @@ impl SettingsPanel {
                     new.fit.thresholds.cooks_factor = v;
                 }
                 ui.end_row();
+            });
+        ui.add_space(6.0);
+        ui.label(egui::RichText::new("Intervals").strong());
+        egui::Grid::new("intervals_grid")
+            .num_columns(2)
+            .spacing([8.0, 6.0])
+            .show(ui, |ui| {
+                self.intervals
+                    .rows(ui, cur.intervals, &mut new.intervals, &mut self.error);
             });
         if let Some(e) = &self.error {
             ui.colored_label(style::flag_color(cx.dark), e);
