@@ -106,6 +106,8 @@ pub struct Workbench {
     pub files: FilesPanel,
     /// The "fit together" window (several series in one joint fit).
     pub joint: crate::panels::joint::JointPanel,
+    /// The "Calorimetric ΔH°" window (the active series' calorimetric values).
+    pub calorimetric: crate::panels::calorimetric::CalorimetricPanel,
     /// Messages for the chemist (errors while opening, saving, exporting).
     pub messages: Vec<String>,
     /// Where autosaves of never-saved projects go.
@@ -149,6 +151,7 @@ impl Workbench {
             settings: SettingsPanel::default(),
             files: FilesPanel::default(),
             joint: crate::panels::joint::JointPanel::default(),
+            calorimetric: Default::default(),
             messages: Vec::new(),
             autosave_dir: None,
             block_fits: false,
@@ -372,6 +375,7 @@ impl Workbench {
             &self.history,
             &mut self.files,
             &mut self.joint,
+            &mut self.calorimetric,
         );
         crate::panels::status::status_bar(
             root,
@@ -425,7 +429,8 @@ impl Workbench {
             }
         });
         self.files.windows(ctx, &mut cx);
-        self.joint.show(ctx, cx.project);
+        self.joint.show(ctx, &mut cx);
+        self.calorimetric.show(ctx, &mut cx);
         crate::panels::status::close_dialog(ctx, &mut cx, &mut self.asking_to_close);
         self.pending.extend(out);
         self.actions.extend(actions);

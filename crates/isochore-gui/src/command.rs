@@ -5,7 +5,7 @@
 
 use crate::doc::{Entry, Project};
 use isochore_analysis::RowNumber;
-use isochore_data::{Exclusion, SeriesSettings};
+use isochore_data::{Exclusion, SavedCalorimetric, SeriesSettings};
 use isochore_report::present::names;
 
 /// One change to the document.
@@ -66,6 +66,13 @@ pub enum Command {
     },
     /// Replace the whole project (open, recover, demo).
     ReplaceProject(Box<Project>),
+    /// Replace the calorimetric values of a series (added, removed or loaded from a file).
+    SetCalorimetric {
+        /// Series id.
+        series: u64,
+        /// The new values, SI.
+        values: Vec<SavedCalorimetric>,
+    },
 }
 
 impl Command {
@@ -83,6 +90,7 @@ impl Command {
             Command::InsertSeries { .. } => "add series".into(),
             Command::RemoveSeries { .. } => "remove series".into(),
             Command::ReplaceProject(_) => "replace project".into(),
+            Command::SetCalorimetric { .. } => "calorimetric values".into(),
         }
     }
 }
@@ -177,6 +185,15 @@ pub fn apply(project: &mut Project, cmd: Command) -> Option<Command> {
         Command::ReplaceProject(new) => {
             let old = std::mem::replace(project, *new);
             Some(Command::ReplaceProject(Box::new(old)))
+        }
+        Command::SetCalorimetric { series, values } => {
+            // No refit: the values are compared with the fit, not part of it.
+            let s = project.get_mut(series)?;
+            let old = std::mem::replace(&mut s.data.calorimetric, values);
+            Some(Command::SetCalorimetric {
+                series,
+                values: old,
+            })
         }
     }
 }

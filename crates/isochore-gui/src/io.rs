@@ -314,6 +314,33 @@ pub fn demo_project() -> Result<Project, String> {
     Ok(p)
 }
 
+/// The ligand demo: four invented ligands (PX-11 … PX-14) binding the invented protein
+/// Orrin-3, one file with a `sample` column (`assets/demo/ligands_px_orrin3.csv`), fitted
+/// with the constant-ΔCp° model, each with its invented calorimetric values
+/// (`ligands_px_orrin3_itc.csv`, the rows naming it): the set the "fit together" view, the
+/// compensation analysis and the calorimetric comparison are shown on. Read by
+/// isochore-data as a user's files are.
+///
+/// # Errors
+/// isochore-data's message if a bundled file is refused (a build fault).
+pub fn ligand_demo_project() -> Result<Project, String> {
+    let file = "ligands_px_orrin3.csv";
+    let text = include_str!("../../../assets/demo/ligands_px_orrin3.csv");
+    let itc_file = "ligands_px_orrin3_itc.csv";
+    let itc = include_str!("../../../assets/demo/ligands_px_orrin3_itc.csv");
+    let imp = isochore_data::import_text(file, text, &ImportOptions::default())
+        .map_err(|e| e.to_string())?;
+    let rows = isochore_data::calorimetric::parse_calorimetric(itc_file, itc)
+        .map_err(|e| e.to_string())?;
+    let mut data = isochore_data::Project::new();
+    data.add_import(&imp);
+    for s in &mut data.series {
+        s.settings.fit.model = isochore_fit::Model::CONSTANT_CP;
+        s.calorimetric = isochore_analysis::calorimetric::rows_for_series(&rows, &s.name);
+    }
+    Ok(Project::from_data(data, None))
+}
+
 /// Reads a data file for preview (the decimal mark decided by the file).
 ///
 /// # Errors

@@ -9,18 +9,20 @@ use crate::doc::Project;
 use crate::io;
 use std::path::{Path, PathBuf};
 
-/// Whether `project` is the demo project (never saved, every series one of the demo's
-/// data sets), however it was changed since.
+/// Whether `project` is a demo project (never saved, every series one of the demo's data
+/// sets or the ligand demo's), however it was changed since.
 pub fn is_demo(project: &Project) -> bool {
     if project.path.is_some() || project.series.is_empty() {
         return false;
     }
-    let Ok(demo) = io::demo_project() else {
-        return false;
-    };
+    let demos: Vec<Project> = [io::demo_project(), io::ligand_demo_project()]
+        .into_iter()
+        .filter_map(Result::ok)
+        .collect();
     project.series.iter().all(|s| {
-        demo.series
+        demos
             .iter()
+            .flat_map(|d| &d.series)
             .any(|d| d.data.source.sha256 == s.data.source.sha256)
     })
 }

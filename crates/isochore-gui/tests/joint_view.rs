@@ -4,12 +4,20 @@
 //! isochore-analysis' `fit_joint` gives for the same data sets and sharing — ΔCp° shared
 //! (no evidence that it differs) and, after the checkboxes are changed, ΔH° shared (rejected:
 //! the ligands' enthalpies differ by tens of kJ/mol by construction, make_demo.py).
+//! The ligand demo (File menu) brings the same series with their invented calorimetric
+//! values; the "Calorimetric ΔH°" window adds, removes and undoes values and shows the
+//! library's comparison; the view's model chooser and its fit with the calorimetric values
+//! give the library's numbers.
 
 use crate::workbench::{harness, menu_item, CLOCK};
 use egui::accesskit::Role;
+use egui::{Key, Modifiers};
 use egui_kittest::kittest::Queryable;
-use isochore_analysis::joint::fit_joint;
+use egui_kittest::Harness;
+use isochore_analysis::calorimetric::compare_single;
+use isochore_analysis::joint::{fit_joint, fit_with_calorimetric};
 use isochore_analysis::{Overrides, PreparedSet};
+use isochore_fit::calorimetric::COUPLED_EQUILIBRIA_CAUTION;
 use isochore_fit::Model;
 use isochore_gui::{Prefs, Workbench};
 
@@ -75,4 +83,167 @@ fn fit_together_shows_the_library_verdict() {
     }
     h.get_by_label("Tick two or more series to fit them together.");
     assert_eq!(h.state().joint.verdict(), None);
+}
+
+/// The ligand demo (File ▸ "Demo ligand series (fit together)"): its series as the
+/// view's, each with its calorimetric values already kept with it.
+fn ligand_demo() -> Harness<'static, Workbench> {
+    let mut h = harness(crate::workbench::bench());
+    menu_item(&mut h, "File", "Demo ligand series (fit together)");
+    h.run_steps(3);
+    h
+}
+
+#[test]
+fn the_ligand_demo_opens_with_its_calorimetric_values() {
+    let h = ligand_demo();
+    let w = h.state();
+    let names: Vec<&str> = w.project.series.iter().map(|s| s.name()).collect();
+    assert_eq!(names, ["PX-11", "PX-12", "PX-13", "PX-14"]);
+    // assets/demo/ligands_px_orrin3_itc.csv: two values for PX-11, one for each other.
+    let counts: Vec<usize> = w
+        .project
+        .series
+        .iter()
+        .map(|s| s.data.calorimetric.len())
+        .collect();
+    assert_eq!(counts, [2, 1, 1, 1]);
+    assert!(w
+        .project
+        .series
+        .iter()
+        .all(|s| s.options().model == Model::CONSTANT_CP));
+    // Still a demo: data opened now start a project of their own.
+    assert!(isochore_gui::start::is_demo(&w.project));
+    // The project file keeps the values (isochore-data's SavedCalorimetric, SI).
+    let json = w.project.to_data().to_json();
+    assert!(
+        json.contains("\"delta_h_cal\": -45100.0"),
+        "PX-13's −45.1 kJ/mol"
+    );
+}
+
+/// Clicks the text field labelled `label`, empties it and types `text`.
+fn type_into(h: &mut Harness<'_, Workbench>, label: &str, text: &str) {
+    h.get_by_role_and_label(Role::TextInput, label).click();
+    h.run_steps(1);
+    h.key_press_modifiers(Modifiers::COMMAND, Key::A);
+    h.key_press(Key::Backspace);
+    h.run_steps(1);
+    if !text.is_empty() {
+        h.get_by_role_and_label(Role::TextInput, label)
+            .type_text(text);
+        h.run_steps(1);
+    }
+}
+
+/// A value typed in the "Calorimetric ΔH°" window is added to the active series (an
+/// undoable change), a refusal is said in words, and the comparison shown is
+/// isochore-analysis' for the series' own fit.
+#[test]
+fn calorimetric_values_are_typed_compared_and_undone() {
+    let mut h = ligand_demo();
+    menu_item(&mut h, "View", "Calorimetric ΔH°…");
+    h.run_steps(3);
+    let id = h.state().active.unwrap();
+    let values =
+        |h: &Harness<'_, Workbench>| h.state().project.get(id).unwrap().data.calorimetric.clone();
+    assert_eq!(values(&h).len(), 2);
+    // The library's verdict for PX-11 at 25 °C, as the window shows it.
+    let verdict = {
+        let w = h.state();
+        let s = w.project.get(id).unwrap();
+        let a = w.fitter.get(id).unwrap();
+        let fit = a.fit.as_ref().unwrap();
+        let c = compare_single(fit, &s.data).unwrap();
+        let v = c[0]
+            .verdict
+            .trim_end_matches(COUPLED_EQUILIBRIA_CAUTION)
+            .trim_end_matches("; ")
+            .to_string();
+        format!("PX-11: {v}.")
+    };
+    h.get_by_label(&verdict);
+    h.get_by_label_contains("Caution: the van 't Hoff and calorimetric enthalpies differ");
+    // A new value at 31 °C: −67.0 ± 0.7 kJ/mol.
+    type_into(&mut h, "T / °C", "31");
+    type_into(&mut h, "ΔH_cal / (kJ/mol)", "-67.0");
+    type_into(&mut h, "u / (kJ/mol)", "0.7");
+    h.get_by_label("Add calorimetric value").click();
+    h.run_steps(3);
+    let v = values(&h);
+    assert_eq!(v.len(), 3);
+    // 31 °C = 304.15 K; kJ/mol to J/mol (SI units, from memory).
+    assert!((v[2].t_k - 304.15).abs() < 1e-9 && (v[2].delta_h_cal + 67_000.0).abs() < 1e-6);
+    assert!((v[2].u_cal - 700.0).abs() < 1e-9);
+    // Ctrl+Z takes it away again; "Remove value 1" removes the first.
+    h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
+    h.run_steps(3);
+    assert_eq!(values(&h).len(), 2);
+    h.get_by_label("Remove value 1").click();
+    h.run_steps(3);
+    let left = values(&h);
+    assert_eq!(left.len(), 1);
+    assert!((left[0].t_k - 310.15).abs() < 1e-9, "the 37 °C value stays");
+    // A temperature that is not a number is refused in words, nothing added.
+    type_into(&mut h, "T / °C", "");
+    type_into(&mut h, "T / °C", "x");
+    h.get_by_label("Add calorimetric value").click();
+    h.run_steps(3);
+    assert_eq!(values(&h).len(), 1);
+    assert!(h
+        .query_all_by_label_contains("is not a number")
+        .next()
+        .is_some());
+}
+
+/// The view's model chooser fits every series with the model chosen (the library's joint
+/// fit with that model for each data set), and with "use the calorimetric values" the
+/// fit shown is isochore-analysis' `fit_with_calorimetric`.
+#[test]
+fn the_joint_view_chooses_its_model_and_fits_the_calorimetric_values() {
+    let mut h = ligand_demo();
+    menu_item(&mut h, "View", "Fit series together…");
+    h.run_steps(3);
+    h.get_by_role_and_label(Role::ComboBox, "joint model")
+        .click();
+    h.run_steps(2);
+    h.get_by_role_and_label(Role::Button, "linear").click();
+    h.run_steps(3);
+    assert_eq!(h.state().joint.model, Some(Model::LINEAR));
+    // The linear model has no ΔCp° to share: share ΔH°.
+    h.get_by_label("ΔH° shared").click();
+    h.run_steps(3);
+    let overrides = Overrides {
+        model: Some(Model::LINEAR),
+        ..Overrides::default()
+    };
+    let sets: Vec<PreparedSet> = h
+        .state()
+        .project
+        .series
+        .iter()
+        .map(|s| PreparedSet::from_data_set(&s.data, s.name(), &overrides).unwrap())
+        .collect();
+    let joint = fit_joint(&sets, &["delta_h".to_string()]).unwrap();
+    let want = joint.equality.as_ref().unwrap().verdict();
+    assert_eq!(h.state().joint.verdict().as_deref(), Some(want.as_str()));
+    // The fit with the calorimetric values, as the library makes it.
+    h.state_mut().joint.calorimetric_in_fit = true;
+    h.run_steps(3);
+    let values: Vec<_> = h
+        .state()
+        .project
+        .series
+        .iter()
+        .map(|s| isochore_analysis::calorimetric::values(&s.data))
+        .collect();
+    let lib = fit_with_calorimetric(&sets, &joint, &values).unwrap();
+    let shown = h
+        .state()
+        .joint
+        .calorimetric_fit()
+        .expect("a fit with ΔH_cal");
+    assert_eq!(shown.estimates(), lib.estimates());
+    assert_eq!(shown.n_calorimetric(), 5);
 }

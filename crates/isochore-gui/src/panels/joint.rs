@@ -3,27 +3,43 @@
 //! isochore-analysis (`joint::fit_joint`, the command line's `--share`) drawn — every series
 //! with the line the joint fit gives it on one van 't Hoff plot, the residuals by series,
 //! the shared and per-series estimates, the differences between series and the test of
-//! equality's verdict. A view: every number is the library's, every label `present`'s.
+//! equality's verdict. The model is chosen here for every series (the models the fit crate
+//! ships). Each chosen series' calorimetric values can be edited here (the same editor as
+//! the "Calorimetric ΔH°" window) and are compared with its ΔH°(T) in the joint fit; the
+//! joint fit with the calorimetric values as observations of ΔH°(T) is shown beside the fit
+//! of ln K alone when asked for. A view: every number is the library's, every label
+//! `present`'s.
 
-use crate::doc::Project;
+use crate::context::Cx;
+use crate::panels::calorimetric::{comparisons, editor, Fields};
 use crate::panels::style;
 use egui::RichText;
 use egui_plot::{Line, Plot, PlotPoints, Points};
-use isochore_analysis::joint::{fit_joint, JointAnalysis};
+use isochore_analysis::calorimetric::{compare_joint, values};
+use isochore_analysis::joint::{fit_joint, fit_with_calorimetric, JointAnalysis};
 use isochore_analysis::{Overrides, PreparedSet};
+use isochore_fit::calorimetric::{CalorimetricComparison, CalorimetricValue};
+use isochore_fit::global::CalorimetricJointFit;
 use isochore_fit::{EnergyUnit, Model, TemperatureUnit};
-use isochore_report::present::{joint as pj, names};
+use isochore_report::present::{joint as pj, model_name, names};
+use std::collections::HashMap;
 
-/// A joint fit with the display units of its first series.
+/// A joint fit with the display units of its first series, and the data sets it was made
+/// from (for the fit with calorimetric values).
 struct Joint {
     analysis: JointAnalysis,
+    sets: Vec<PreparedSet>,
     energy: EnergyUnit,
     temperature: TemperatureUnit,
 }
 
-/// What the last joint fit was made from: each chosen series' id and revision, and the
-/// shared keys.
-type Key = (Vec<(u64, u64)>, Vec<String>);
+/// What the last joint fit was made from: each chosen series' id and revision, the shared
+/// keys and the model's key.
+type Key = (Vec<(u64, u64)>, Vec<String>, &'static str);
+
+/// What the last fit with calorimetric values was made from: the joint fit's key and every
+/// value's bits.
+type CalKey = (Key, Vec<[u64; 3]>);
 
 /// The "fit together" window.
 #[derive(Default)]
@@ -34,18 +50,24 @@ pub struct JointPanel {
     pub chosen: Vec<u64>,
     /// The keys of the parameters ticked "shared".
     pub shared: Vec<String>,
+    /// The model fitted to every series (`None`: the first chosen series' own).
+    pub model: Option<Model>,
+    /// Show the joint fit with the calorimetric values as observations of ΔH°(T).
+    pub calorimetric_in_fit: bool,
     last: Option<(Key, Result<Joint, String>)>,
+    constrained: Option<(CalKey, Result<CalorimetricJointFit, String>)>,
+    fields: HashMap<u64, Fields>,
 }
 
 impl JointPanel {
     /// Opens the window with every series of `project` ticked and nothing shared yet
     /// (except ΔCp° where the first series' model has it).
-    pub fn open_with_all(&mut self, project: &Project) {
+    pub fn open_with_all(&mut self, project: &crate::doc::Project) {
         self.open = true;
         self.chosen = project.series.iter().map(|s| s.id).collect();
         if self.shared.is_empty() {
             if let Some(first) = project.series.first() {
-                let model = first.options().model;
+                let model = self.model.unwrap_or(first.options().model);
                 if model.params().iter().any(|p| p.key == "delta_cp") {
                     self.shared.push("delta_cp".into());
                 }
@@ -61,8 +83,13 @@ impl JointPanel {
         }
     }
 
+    /// The fit with the calorimetric values shown, if any (tests).
+    pub fn calorimetric_fit(&self) -> Option<&CalorimetricJointFit> {
+        self.constrained.as_ref().and_then(|(_, r)| r.as_ref().ok())
+    }
+
     /// Draws the window (when open) over the workbench.
-    pub fn show(&mut self, ctx: &egui::Context, project: &Project) {
+    pub fn show(&mut self, ctx: &egui::Context, cx: &mut Cx<'_>) {
         if !self.open {
             return;
         }
@@ -71,11 +98,12 @@ impl JointPanel {
             .open(&mut open)
             .default_size([920.0, 760.0])
             .vscroll(true)
-            .show(ctx, |ui| self.contents(ui, project));
+            .show(ctx, |ui| self.contents(ui, cx));
         self.open = open;
     }
 
-    fn contents(&mut self, ui: &mut egui::Ui, project: &Project) {
+    fn contents(&mut self, ui: &mut egui::Ui, cx: &mut Cx<'_>) {
+        let project = cx.project;
         self.chosen.retain(|id| project.get(*id).is_some());
         ui.label(RichText::new("Series").strong());
         ui.horizontal_wrapped(|ui| {
@@ -96,7 +124,29 @@ impl JointPanel {
             .iter()
             .filter(|s| self.chosen.contains(&s.id))
             .collect();
-        let model: Model = chosen.first().map_or(Model::LINEAR, |s| s.options().model);
+        let model: Model = self
+            .model
+            .or_else(|| chosen.first().map(|s| s.options().model))
+            .unwrap_or(Model::LINEAR);
+        ui.horizontal(|ui| {
+            ui.label(RichText::new("Model").strong());
+            let mut m = model;
+            let combo = egui::ComboBox::from_id_salt("joint_model")
+                .selected_text(model_name(model))
+                .show_ui(ui, |ui| {
+                    for &x in Model::all() {
+                        ui.selectable_value(&mut m, x, model_name(x))
+                            .on_hover_text(x.describe());
+                    }
+                });
+            combo.response.widget_info(|| {
+                egui::WidgetInfo::labeled(egui::Role::ComboBox, true, "joint model")
+            });
+            if m != model {
+                self.model = Some(m);
+            }
+        });
+        let model = self.model.unwrap_or(model);
         self.shared
             .retain(|k| model.params().iter().any(|p| p.key == k));
         ui.label(RichText::new("Shared by all series (the others are fitted per series)").strong());
@@ -119,10 +169,11 @@ impl JointPanel {
         let key: Key = (
             chosen.iter().map(|s| (s.id, s.rev)).collect(),
             self.shared.clone(),
+            model.key(),
         );
         if self.last.as_ref().is_none_or(|(k, _)| *k != key) {
-            let result = run(&chosen, &self.shared);
-            self.last = Some((key, result));
+            let result = run(&chosen, &self.shared, model);
+            self.last = Some((key.clone(), result));
         }
         match &self.last {
             Some((_, Err(e))) => {
@@ -131,27 +182,123 @@ impl JointPanel {
             Some((_, Ok(j))) => show_joint(ui, j),
             None => {}
         }
+        ui.separator();
+        ui.label(RichText::new("Calorimetric ΔH°").strong());
+        for s in &chosen {
+            let n = s.data.calorimetric.len();
+            egui::CollapsingHeader::new(format!("Calorimetric values of {} ({n})", s.name()))
+                .id_salt(("joint_cal", s.id))
+                .show(ui, |ui| {
+                    editor(ui, cx.out, s, self.fields.entry(s.id).or_default());
+                });
+        }
+        let Some((_, Ok(j))) = &self.last else {
+            return;
+        };
+        let vals: Vec<Vec<CalorimetricValue>> = chosen.iter().map(|s| values(&s.data)).collect();
+        if vals.iter().all(Vec::is_empty) {
+            ui.label("No calorimetric value for the chosen series.");
+            return;
+        }
+        match compare_joint(&j.analysis, &vals) {
+            Ok(c) => {
+                let rows: Vec<(String, &CalorimetricComparison)> = c
+                    .iter()
+                    .enumerate()
+                    .flat_map(|(s, cs)| cs.iter().map(move |x| (j.analysis.labels[s].clone(), x)))
+                    .collect();
+                ui.label("Compared with each series' ΔH°(T) in the joint fit:");
+                comparisons(
+                    ui,
+                    "joint_calorimetric",
+                    &rows,
+                    j.energy,
+                    j.temperature,
+                    j.analysis.fit.options().level,
+                );
+            }
+            Err(e) => {
+                ui.colored_label(ui.visuals().error_fg_color, e);
+            }
+        }
+        ui.checkbox(
+            &mut self.calorimetric_in_fit,
+            "Use the calorimetric values in the joint fit",
+        );
+        if !self.calorimetric_in_fit {
+            return;
+        }
+        let bits: Vec<[u64; 3]> = vals
+            .iter()
+            .flatten()
+            .map(|v| [v.t_k.to_bits(), v.delta_h.to_bits(), v.u.to_bits()])
+            .collect();
+        let cal_key: CalKey = (key, bits);
+        if self.constrained.as_ref().is_none_or(|(k, _)| *k != cal_key) {
+            let r = fit_with_calorimetric(&j.sets, &j.analysis, &vals).map_err(|e| e.to_string());
+            self.constrained = Some((cal_key, r));
+        }
+        if let Some((_, r)) = &self.constrained {
+            show_constrained(ui, j, r);
+        }
     }
 }
 
-/// The joint fit of the chosen series (the command line's rule, from isochore-analysis).
-fn run(chosen: &[&crate::doc::Entry], shared: &[String]) -> Result<Joint, String> {
+/// The joint fit with the calorimetric values beside the fit of ln K alone, or why there
+/// is none.
+fn show_constrained(ui: &mut egui::Ui, j: &Joint, r: &Result<CalorimetricJointFit, String>) {
+    ui.label(format!(
+        "{}, beside the joint fit of ln K alone:",
+        pj::CONSTRAINED_FIT
+    ));
+    let c = match r {
+        Ok(c) => c,
+        Err(e) => {
+            ui.colored_label(ui.visuals().error_fg_color, format!("Not fitted: {e}"));
+            return;
+        }
+    };
+    let a = &j.analysis;
+    egui::Grid::new("joint_constrained")
+        .striped(true)
+        .show(ui, |ui| {
+            for h in pj::constrained_header(a.fit.options().level) {
+                ui.label(RichText::new(h).strong());
+            }
+            ui.end_row();
+            for r in pj::constrained_rows(c, &a.fit, &a.labels, j.energy, j.temperature) {
+                for cell in pj::constrained_cells(&r) {
+                    ui.label(cell);
+                }
+                ui.end_row();
+            }
+        });
+    ui.label(pj::constrained_summary(c));
+}
+
+/// The joint fit of the chosen series with `model` (the command line's rule, from
+/// isochore-analysis).
+fn run(chosen: &[&crate::doc::Entry], shared: &[String], model: Model) -> Result<Joint, String> {
     if chosen.len() < 2 {
         return Err("Tick two or more series to fit them together.".into());
     }
     if shared.is_empty() {
         return Err("Tick a parameter to share.".into());
     }
+    let overrides = Overrides {
+        model: Some(model),
+        ..Overrides::default()
+    };
     let sets: Vec<PreparedSet> = chosen
         .iter()
         .map(|s| {
-            PreparedSet::from_data_set(&s.data, s.name(), &Overrides::default())
-                .map_err(|e| e.to_string())
+            PreparedSet::from_data_set(&s.data, s.name(), &overrides).map_err(|e| e.to_string())
         })
         .collect::<Result<_, _>>()?;
     let analysis = fit_joint(&sets, shared).map_err(|e| e.to_string())?;
     Ok(Joint {
         analysis,
+        sets,
         energy: chosen[0].data.settings.energy_unit,
         temperature: chosen[0].data.settings.temperature_unit,
     })

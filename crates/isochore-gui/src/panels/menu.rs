@@ -14,6 +14,7 @@ pub fn menu_bar(
     history: &History,
     files: &mut FilesPanel,
     joint: &mut JointPanel,
+    calorimetric: &mut crate::panels::calorimetric::CalorimetricPanel,
 ) {
     egui::Panel::top("menu").show(root, |ui| {
         egui::MenuBar::new().ui(ui, |ui| {
@@ -42,6 +43,15 @@ pub fn menu_bar(
                 });
                 if ui.button("Demo project").clicked() {
                     cx.actions.push(Action::Demo);
+                    ui.close();
+                }
+                if ui.button("Demo ligand series (fit together)").clicked() {
+                    // Undoable, as the demo project is; the first series becomes active.
+                    // The bundled files are read as the demo's are (a refusal: a build fault).
+                    if let Ok(p) = crate::io::ligand_demo_project() {
+                        cx.out
+                            .push(crate::command::Command::ReplaceProject(Box::new(p)));
+                    }
                     ui.close();
                 }
                 ui.separator();
@@ -102,6 +112,10 @@ pub fn menu_bar(
                 ui.separator();
                 if ui.button("Fit series together…").clicked() {
                     joint.open_with_all(cx.project);
+                    ui.close();
+                }
+                if ui.button("Calorimetric ΔH°…").clicked() {
+                    calorimetric.open = true;
                     ui.close();
                 }
                 ui.separator();

@@ -1,6 +1,7 @@
 //! One module per panel of the window. Panels read the document through
 //! [`crate::app::Cx`] and propose commands; none of them changes the document directly.
 
+pub mod calorimetric;
 pub mod diagnostics;
 pub mod export;
 pub mod files;
