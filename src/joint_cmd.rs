@@ -5,7 +5,7 @@
 //! as one JSON object.
 
 use crate::cli::FitArgs;
-use crate::load::{load, Job};
+use crate::load::{load_for_joint, Job};
 use crate::output::{self, Style};
 use crate::Failure;
 use isochore_analysis::joint::fit_with_calorimetric;
@@ -54,7 +54,7 @@ pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
     }
     let mut sets: Vec<Job> = Vec::new();
     for path in &a.files {
-        sets.extend(load(path, &a.fit, a.report.is_some()).map_err(Failure::input)?);
+        sets.extend(load_for_joint(path, &a.fit, a.report.is_some()).map_err(Failure::input)?);
     }
     let joint = fit_joint(&sets, &keys).map_err(|e| Failure::input(format!("--share: {e}")))?;
     if let Some(items) = &calorimetric {

@@ -74,6 +74,7 @@ fn overrides(a: &FitOptionsArgs, with_cells: bool) -> Overrides {
         sigma_t_k: a
             .sigma_t
             .and_then(|t| t.kelvin_difference(a.temp_unit, "--sigma-t").ok()),
+        min_points: None,
     }
 }
 
@@ -137,11 +138,28 @@ fn message(e: &LoadError) -> String {
 /// A message naming the file (and line and column where there is one), with the flag that
 /// settles it.
 pub fn load(path: &Path, a: &FitOptionsArgs, with_cells: bool) -> Result<Vec<Job>, String> {
+    load_with(path, a, overrides(a, with_cells))
+}
+
+/// As [`load`], for a joint fit: a data set of two points is read too (whether a series
+/// has enough points is decided by the sharing, when the joint fit is made).
+pub fn load_for_joint(
+    path: &Path,
+    a: &FitOptionsArgs,
+    with_cells: bool,
+) -> Result<Vec<Job>, String> {
+    let o = Overrides {
+        min_points: Some(2),
+        ..overrides(a, with_cells)
+    };
+    load_with(path, a, o)
+}
+
+fn load_with(path: &Path, a: &FitOptionsArgs, o: Overrides) -> Result<Vec<Job>, String> {
     if let Some(t) = a.sigma_t {
         t.kelvin_difference(a.temp_unit, "--sigma-t")?;
     }
-    let mut sets =
-        isochore_analysis::load(path, &overrides(a, with_cells)).map_err(|e| message(&e))?;
+    let mut sets = isochore_analysis::load(path, &o).map_err(|e| message(&e))?;
     if let Some(rows) = &a.exclude {
         let listed = rows
             .0

@@ -124,6 +124,10 @@ pub struct Overrides {
     /// `--sigma-t`): the fit then allows for errors in T as well as in K. It takes the place
     /// of a σ(T) column of the file.
     pub sigma_t_k: Option<f64>,
+    /// Fewest usable points a data set of a data file needs (`None`: 3, what a fit of one
+    /// series needs for an error estimate). A joint fit reads with 2: whether a series
+    /// has enough points is then decided by the sharing (isochore-fit's block design).
+    pub min_points: Option<usize>,
 }
 
 impl Overrides {
@@ -157,6 +161,9 @@ impl Overrides {
             allow_extreme_temperatures: self.allow_extreme_temperatures,
             columns: self.columns.clone(),
             temperature_unit: self.data_temperature_unit,
+            min_points: self
+                .min_points
+                .unwrap_or(ImportOptions::default().min_points),
             ..ImportOptions::default()
         }
     }
