@@ -8,11 +8,12 @@ use crate::cli::FitArgs;
 use crate::load::{load_for_joint, Job};
 use crate::output::{self, Style};
 use crate::Failure;
+use isochore_analysis::calorimetric::compare_joint;
 use isochore_analysis::joint::fit_with_calorimetric;
 use isochore_analysis::joint::{fit_joint, JointAnalysis};
 use isochore_analysis::joint_report_input;
 use isochore_analysis::json::joint::write_joint;
-use isochore_fit::calorimetric::{compare_calorimetric_series, CalorimetricComparison};
+use isochore_fit::calorimetric::{CalorimetricComparison, CalorimetricValue};
 use isochore_fit::global::{CalorimetricJointFit, GlobalError};
 use isochore_fit::{Estimate, ParamInfo};
 use isochore_report::present::{diag, fixed, flag_words, percent, plus_minus, show_t, unit_of};
@@ -71,27 +72,20 @@ pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
             }
         }
     }
-    let comparisons: Vec<Vec<CalorimetricComparison>> = match &calorimetric {
-        Some(items) => (0..sets.len())
-            .map(|s| {
-                let values =
-                    crate::calorimetric_cmd::values_for(items, &joint.labels[s], &sets[s].series);
-                compare_calorimetric_series(&joint.fit, s, &values).map_err(|e| {
-                    Failure::input(format!("series '{}': --calorimetric: {e}", joint.labels[s]))
-                })
-            })
-            .collect::<Result<_, _>>()?,
+    // Each series' values: those naming it and those naming no series.
+    let values: Option<Vec<Vec<CalorimetricValue>>> = calorimetric.as_ref().map(|items| {
+        (0..sets.len())
+            .map(|s| crate::calorimetric_cmd::values_for(items, &joint.labels[s], &sets[s].series))
+            .collect()
+    });
+    let comparisons: Vec<Vec<CalorimetricComparison>> = match &values {
+        Some(v) => {
+            compare_joint(&joint, v).map_err(|e| Failure::input(format!("--calorimetric: {e}")))?
+        }
         None => Vec::new(),
     };
-    let constrained = match (&calorimetric, a.calorimetric_in_fit) {
-        (Some(items), true) => {
-            let values: Vec<Vec<_>> = (0..sets.len())
-                .map(|s| {
-                    crate::calorimetric_cmd::values_for(items, &joint.labels[s], &sets[s].series)
-                })
-                .collect();
-            Some(fit_with_calorimetric(&sets, &joint, &values))
-        }
+    let constrained = match (&values, a.calorimetric_in_fit) {
+        (Some(v), true) => Some(fit_with_calorimetric(&sets, &joint, v)),
         _ => None,
     };
     if let (Some(format), Some(path)) = (report_format, &a.report) {
