@@ -98,8 +98,6 @@ pub struct Workbench {
     pub results: ResultsPanel,
     /// Predictions and the two-point calculation.
     pub predict: PredictPanel,
-    /// Intervals by Monte Carlo or the bootstrap, with histograms of the draws.
-    pub intervals: crate::panels::intervals::IntervalsPanel,
     /// Per-series settings.
     pub settings: SettingsPanel,
     /// Files: open, import preview, save, export.
@@ -145,9 +143,8 @@ impl Workbench {
             table: TablePanel::default(),
             plot: PlotPanel::default(),
             diagnostics: DiagnosticsPanel::default(),
-            results: ResultsPanel,
+            results: ResultsPanel::default(),
             predict: PredictPanel::default(),
-            intervals: Default::default(),
             settings: SettingsPanel::default(),
             files: FilesPanel::default(),
             joint: crate::panels::joint::JointPanel::default(),
@@ -401,7 +398,6 @@ impl Workbench {
                 .show(root, |ui| {
                     egui::ScrollArea::both().auto_shrink(false).show(ui, |ui| {
                         self.results.ui(ui, &mut cx);
-                        self.intervals.ui(ui, &mut cx);
                         ui.separator();
                         self.predict.ui(ui, &mut cx);
                     });

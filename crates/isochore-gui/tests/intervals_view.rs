@@ -100,7 +100,7 @@ fn monte_carlo_names_its_intervals_draws_histograms_and_matches_the_command_line
     let dh = run.get("delta_h").unwrap();
     assert!(dh.interval.ci_low < dh.interval.value && dh.interval.value < dh.interval.ci_high);
     // One histogram per parameter and derived quantity, each of HISTOGRAM_BINS bars.
-    let drawn = h.state().intervals.drawn_histograms.clone();
+    let drawn = h.state().results.intervals.drawn_histograms.clone();
     let labels: Vec<&str> = drawn.iter().map(|d| d.0.as_str()).collect();
     assert!(
         labels.contains(&"ΔH°") && labels.contains(&"ΔS°"),
@@ -137,7 +137,7 @@ fn monte_carlo_names_its_intervals_draws_histograms_and_matches_the_command_line
         .intervals
         .is_default());
     assert!(!shows_part(&h, "% CI ("));
-    assert!(h.state().intervals.drawn_histograms.is_empty());
+    assert!(h.state().results.intervals.drawn_histograms.is_empty());
 }
 
 #[test]
@@ -200,7 +200,7 @@ fn cancel_stops_a_long_run_and_leaves_the_delta_method() {
     ));
     // The results table is still the delta method's, and no histogram is drawn.
     assert!(shows(&h, "95 % CI") && shows(&h, names::interval_method(IntervalMethod::Delta)));
-    assert!(h.state().intervals.drawn_histograms.is_empty());
+    assert!(h.state().results.intervals.drawn_histograms.is_empty());
     // It stays cancelled over more frames, until asked to run again.
     h.run_steps(5);
     assert!(matches!(

@@ -67,15 +67,21 @@ impl Histogram {
     }
 }
 
-/// Share of the draws left outside the range at each side (before `marks` widen it): the
-/// range is the 0.1 % to 99.9 % percentiles, so a few far draws (a root found far away)
-/// do not squeeze the bulk into one bin; [`Histogram::below`] and [`Histogram::above`]
-/// count them.
+/// Share of the draws left outside the range at most at each side (before `marks` widen
+/// it): the range is at most the 0.1 % to 99.9 % percentiles, so a few far draws (a root
+/// found far away) do not squeeze the bulk into one bin; [`Histogram::below`] and
+/// [`Histogram::above`] count them.
 pub const TAIL_LEFT_OUT: f64 = 0.001;
 
-/// The histogram of `values` in `bins` equal bins over their 0.1 %–99.9 % range, widened
-/// to take in every finite number of `marks` (the estimate, the interval's ends). `None`
-/// when `bins` is 0 or no value is finite.
+/// How far beyond the quartiles the range reaches at most, in interquartile ranges: a
+/// heavy tail (the temperature where K = 1 of a nearly flat line) is cut there.
+pub const IQR_REACH: f64 = 3.0;
+
+/// The histogram of `values` in `bins` equal bins over their bulk, widened to take in every
+/// finite number of `marks` (the estimate, the interval's ends). The bulk is the 0.1 % to
+/// 99.9 % percentiles, cut at [`IQR_REACH`] interquartile ranges beyond the quartiles (for
+/// normal draws the percentiles, at ±3.1 SD, lie inside that reach of ±4.7 SD). `None` when
+/// `bins` is 0 or no value is finite.
 pub fn histogram(values: &[f64], marks: &[f64], bins: usize) -> Option<Histogram> {
     let mut v: Vec<f64> = values.iter().copied().filter(|x| x.is_finite()).collect();
     if bins == 0 || v.is_empty() {
@@ -83,8 +89,10 @@ pub fn histogram(values: &[f64], marks: &[f64], bins: usize) -> Option<Histogram
     }
     let undefined = values.len() - v.len();
     v.sort_by(f64::total_cmp);
-    let mut lo = percentile_sorted(&v, TAIL_LEFT_OUT);
-    let mut hi = percentile_sorted(&v, 1.0 - TAIL_LEFT_OUT);
+    let (q1, q3) = (percentile_sorted(&v, 0.25), percentile_sorted(&v, 0.75));
+    let reach = IQR_REACH * (q3 - q1);
+    let mut lo = percentile_sorted(&v, TAIL_LEFT_OUT).max(q1 - reach);
+    let mut hi = percentile_sorted(&v, 1.0 - TAIL_LEFT_OUT).min(q3 + reach);
     for &m in marks.iter().filter(|m| m.is_finite()) {
         lo = lo.min(m);
         hi = hi.max(m);
@@ -140,6 +148,14 @@ mod tests {
         assert_eq!((h.start, h.below), (0.0, 0));
         assert!(histogram(&[f64::NAN], &[], 10).is_none());
         assert!(histogram(&v, &[], 0).is_none());
+        // A heavy tail: 1..=100 and ten draws at 10⁶. The 99.9 % point is 10⁶, but the
+        // range stops 3 IQR above the upper quartile: numpy.percentile of the 110 values
+        // gives q1 = 28.25, q3 = 82.75, so 82.75 + 3 × 54.5 = 246.25.
+        let mut tail: Vec<f64> = (1..=100).map(f64::from).collect();
+        tail.extend([1e6; 10]);
+        let h = histogram(&tail, &[], 20).unwrap();
+        assert_eq!(h.above, 10);
+        assert!((h.end() - 246.25).abs() < 1e-9, "{}", h.end());
         // All equal: one bin holds them all.
         let h = histogram(&[2.0; 5], &[], 4).unwrap();
         assert_eq!(h.counts.iter().sum::<usize>(), 5);

@@ -176,13 +176,15 @@ impl IntervalsPanel {
         let current = cx.intervals.is_current(id, s.rev);
         let flag = style::flag_color(cx.dark);
         ui.separator();
-        ui.label(
-            RichText::new(format!(
-                "Intervals by {}",
-                names::interval_choice(request.choice)
-            ))
-            .strong(),
-        );
+        if !matches!(state, RunState::Done(_)) {
+            ui.label(
+                RichText::new(format!(
+                    "Intervals by {}",
+                    names::interval_choice(request.choice)
+                ))
+                .strong(),
+            );
+        }
         match state {
             RunState::Running(job) => {
                 let (done, total) = job.progress();
@@ -250,109 +252,146 @@ impl IntervalsPanel {
             .spacing([8.0, 2.0])
             .show(ui, |ui| {
                 ui.strong("");
-                ui.strong(format!("{level} % CI"));
                 ui.strong("made by");
+                ui.strong(format!("{level} % CI"));
                 ui.end_row();
+                // The unit under the quantity's name and the method before the interval, so
+                // what made each interval stays in view in a narrow panel; the delta
+                // method's (or Fieller's) below each, weaker.
                 for r in &rows {
-                    let unit = if r.unit.is_empty() {
-                        String::new()
-                    } else {
-                        format!(" {}", r.unit)
-                    };
-                    ui.label(RichText::new(r.quantity.replacen(" at ", "\nat ", 1)).strong());
-                    let text = format!("{}{unit}", r.interval);
-                    let l = ui.label(RichText::new(text.clone()).monospace());
-                    l.widget_info(|| {
-                        egui::WidgetInfo::labeled(
-                            egui::Role::Label,
-                            true,
-                            format!("{}: {text} ({})", r.quantity, r.method),
-                        )
+                    // Labels that never wrap: a grid cell is as narrow as the last frame's.
+                    let plain =
+                        |ui: &mut egui::Ui, t: RichText| ui.add(egui::Label::new(t).extend());
+                    ui.vertical(|ui| {
+                        plain(
+                            ui,
+                            RichText::new(r.quantity.replacen(" at ", "\nat ", 1)).strong(),
+                        );
+                        if !r.unit.is_empty() {
+                            plain(ui, RichText::new(&r.unit).small().weak());
+                        }
                     });
-                    ui.label(r.method);
-                    ui.end_row();
-                    ui.label("");
-                    ui.label(
-                        RichText::new(format!("{}{unit}", r.delta))
-                            .monospace()
-                            .weak(),
-                    );
-                    ui.label(RichText::new(r.delta_method).weak());
+                    ui.vertical(|ui| {
+                        plain(ui, RichText::new(r.method));
+                        plain(ui, RichText::new(r.delta_method).weak());
+                    });
+                    ui.vertical(|ui| {
+                        let l = plain(ui, RichText::new(&r.interval).monospace());
+                        l.widget_info(|| {
+                            egui::WidgetInfo::labeled(
+                                egui::Role::Label,
+                                true,
+                                format!("{}: {} {} ({})", r.quantity, r.interval, r.unit, r.method),
+                            )
+                        });
+                        plain(ui, RichText::new(&r.delta).monospace().weak());
+                    });
                     ui.end_row();
                 }
             });
+        // Wrapped at the visible edge of the panel (which scrolls sideways).
+        let visible = (ui.clip_rect().right() - ui.cursor().left() - 8.0).max(160.0);
         for w in &run.warnings {
-            ui.horizontal_wrapped(|ui| {
-                ui.colored_label(flag, "⚠");
-                ui.label(RichText::new(w).small());
+            ui.scope(|ui| {
+                ui.set_max_width(visible);
+                ui.horizontal_wrapped(|ui| {
+                    ui.colored_label(flag, "⚠");
+                    ui.label(RichText::new(w).small());
+                });
             });
         }
         ui.add_space(4.0);
-        ui.label(RichText::new("Draws").strong()).on_hover_text(
-            "Histograms of the draws; solid lines: the interval's ends; dashed: the estimate",
-        );
-        for (k, h) in &o.histograms {
-            let q = &run.quantities[*k];
-            let Some(row) = rows.get(*k) else {
-                continue;
-            };
-            let scale = si_per_unit(&o.fit, q.quantity.kind, energy);
-            let best = q.best();
-            let axis = if row.unit.is_empty() {
-                row.quantity.clone()
-            } else {
-                names::quantity_axis(&row.quantity, &row.unit)
-            };
-            let bars: Vec<Bar> = h
-                .counts
-                .iter()
-                .enumerate()
-                .map(|(i, &c)| Bar::new(h.centre(i) / scale, c as f64).width(h.width / scale))
-                .collect();
-            let n = bars.len();
-            let visible = (ui.clip_rect().right() - ui.cursor().left() - 8.0).max(160.0);
-            Plot::new(("draws_histogram", q.quantity.key.as_str()))
-                .height(110.0)
-                .width(visible)
-                .x_axis_label(axis)
-                .show_y(false)
-                .show_x(false)
-                .y_axis_min_width(24.0)
-                .x_grid_spacer(egui_plot::uniform_grid_spacer(style::nice_steps))
-                .allow_scroll(false)
-                .allow_drag(false)
-                .allow_zoom(false)
-                .show(ui, |pu| {
-                    pu.bar_chart(
-                        BarChart::new(row.quantity.clone(), bars).color(style::series_color(0)),
-                    );
-                    for (name, x) in [
-                        ("interval low end", best.ci_low),
-                        ("interval high end", best.ci_high),
-                    ] {
-                        if x.is_finite() {
-                            pu.vline(VLine::new(name, x / scale).color(flag).width(1.5));
-                        }
+        let drawn = &mut self.drawn_histograms;
+        egui::CollapsingHeader::new("Histograms of the draws")
+            .default_open(true)
+            .show(ui, |ui| {
+                ui.label(
+                    RichText::new("solid lines: the interval's ends; dashed: the estimate")
+                        .small()
+                        .weak(),
+                );
+                histograms(ui, o, &rows, energy, flag, drawn);
+            });
+    }
+}
+
+/// One histogram of draws per pictured quantity, in display units; records each in `drawn`.
+fn histograms(
+    ui: &mut egui::Ui,
+    o: &IntervalOutcome,
+    rows: &[present::intervals::IntervalRow],
+    energy: EnergyUnit,
+    flag: egui::Color32,
+    drawn: &mut Vec<(String, usize)>,
+) {
+    let run = &o.run;
+    for (k, h) in &o.histograms {
+        let q = &run.quantities[*k];
+        let Some(row) = rows.get(*k) else {
+            continue;
+        };
+        let scale = si_per_unit(&o.fit, q.quantity.kind, energy);
+        let best = q.best();
+        // A compound unit in parentheses (present's rule); a plain one as "T / K".
+        let axis = if row.unit.is_empty() {
+            row.quantity.clone()
+        } else if row.unit.contains(['/', '·']) {
+            names::quantity_axis(&row.quantity, &row.unit)
+        } else {
+            format!("{} / {}", row.quantity, row.unit)
+        };
+        let bars: Vec<Bar> = h
+            .counts
+            .iter()
+            .enumerate()
+            .map(|(i, &c)| Bar::new(h.centre(i) / scale, c as f64).width(h.width / scale))
+            .collect();
+        let n = bars.len();
+        let visible = (ui.clip_rect().right() - ui.cursor().left() - 8.0).max(160.0);
+        Plot::new(("draws_histogram", q.quantity.key.as_str()))
+            .height(110.0)
+            .width(visible)
+            .x_axis_label(axis)
+            .show_y(false)
+            .show_x(false)
+            .y_axis_min_width(24.0)
+            .x_grid_spacer(egui_plot::uniform_grid_spacer(style::nice_steps))
+            .allow_scroll(false)
+            .allow_drag(false)
+            .allow_zoom(false)
+            .show(ui, |pu| {
+                pu.bar_chart(
+                    BarChart::new(row.quantity.clone(), bars).color(style::series_color(0)),
+                );
+                for (name, x) in [
+                    ("interval low end", best.ci_low),
+                    ("interval high end", best.ci_high),
+                ] {
+                    if x.is_finite() {
+                        pu.vline(VLine::new(name, x / scale).color(flag).width(1.5));
                     }
-                    pu.vline(
-                        VLine::new("estimate", best.value / scale)
-                            .style(LineStyle::dashed_loose())
-                            .width(1.0),
-                    );
-                });
-            let outside = h.below + h.above;
-            if outside > 0 || h.undefined > 0 {
-                let mut note = Vec::new();
-                if outside > 0 {
-                    note.push(format!("{outside} draws lie beyond the range shown"));
                 }
-                if h.undefined > 0 {
-                    note.push(format!("{} draws had no value", h.undefined));
-                }
-                ui.label(RichText::new(note.join("; ")).small().weak());
+                pu.vline(
+                    VLine::new("estimate", best.value / scale)
+                        .style(LineStyle::dashed_loose())
+                        .width(1.0),
+                );
+            });
+        let outside = h.below + h.above;
+        if outside > 0 || h.undefined > 0 {
+            let mut note = Vec::new();
+            if outside > 0 {
+                note.push(format!(
+                    "{outside} of {} draws lie beyond the range shown",
+                    run.draws
+                ));
             }
-            self.drawn_histograms.push((row.quantity.clone(), n));
+            if h.undefined > 0 {
+                note.push(format!("{} had no value", h.undefined));
+            }
+            ui.label(RichText::new(note.join("; ")).small().weak());
         }
+        drawn.push((row.quantity.clone(), n));
     }
 }
 

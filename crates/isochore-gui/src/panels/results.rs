@@ -12,9 +12,13 @@ use egui_plot::{Line, Plot, PlotPoints, Points};
 use isochore_fit::{VantHoffFit, WarningKind, Weighting};
 use isochore_report::present::{self, names};
 
-/// The results panel (no state of its own).
+/// The results panel.
 #[derive(Debug, Default)]
-pub struct ResultsPanel;
+pub struct ResultsPanel {
+    /// The intervals by Monte Carlo or the bootstrap, below the table (nothing for the
+    /// delta method).
+    pub intervals: crate::panels::intervals::IntervalsPanel,
+}
 
 impl ResultsPanel {
     /// Draws the results of the active series.
@@ -174,6 +178,7 @@ impl ResultsPanel {
             .small()
             .weak(),
         );
+        self.intervals.ui(ui, cx);
         ui.add_space(6.0);
         ui.horizontal(|ui| {
             ui.label(format!(
