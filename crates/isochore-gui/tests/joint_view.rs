@@ -195,6 +195,32 @@ fn calorimetric_values_are_typed_compared_and_undone() {
         .query_all_by_label_contains("is not a number")
         .next()
         .is_some());
+    // A calorimetric file: its rows naming PX-11 (or none) replace the series' values,
+    // read by isochore-data in SI (25 °C = 298.15 K, 37 °C = 310.15 K).
+    let dir = crate::workbench::temp_dir("calorimetric-file");
+    let file = dir.join("itc.csv");
+    std::fs::write(
+        &file,
+        "series,T (°C),ΔH (kJ/mol),u (kJ/mol)\nPX-11,25,-62.4,0.6\nPX-12,25,-51.8,0.5\n,37,-72.3,0.8\n",
+    )
+    .unwrap();
+    type_into(&mut h, "calorimetric file", &file.display().to_string());
+    h.get_by_label("Load calorimetric file").click();
+    h.run_steps(3);
+    let v = values(&h);
+    let temps: Vec<f64> = v.iter().map(|x| x.t_k).collect();
+    assert_eq!(temps.len(), 2, "{temps:?}");
+    assert!((temps[0] - 298.15).abs() < 1e-9 && (temps[1] - 310.15).abs() < 1e-9);
+    assert!((v[0].delta_h_cal + 62_400.0).abs() < 1e-6);
+    // Loading it again replaces rather than doubles; Ctrl+Z twice returns to one value.
+    h.get_by_label("Load calorimetric file").click();
+    h.run_steps(3);
+    assert_eq!(values(&h).len(), 2);
+    for _ in 0..2 {
+        h.key_press_modifiers(Modifiers::COMMAND, Key::Z);
+        h.run_steps(3);
+    }
+    assert_eq!(values(&h).len(), 1);
 }
 
 /// The view's model chooser fits every series with the model chosen (the library's joint

@@ -1,7 +1,8 @@
 //! Calorimetric ΔH° in the window (issue 12): each series keeps its calorimetric values
 //! ΔH_cal(T) ± u (saved with its data set in the project file). The editor lists them, adds
 //! one typed in the series' display units or loads a calorimetric file (rows naming the
-//! series or none), removes one — every change an undoable [`Command::SetCalorimetric`].
+//! series or none, in place of the series' values), removes one — every change an undoable
+//! [`Command::SetCalorimetric`].
 //! The comparison with the van 't Hoff ΔH°(T) — the difference with its interval and z, the
 //! ratio ΔH_vH/ΔH_cal with Fieller's interval, the verdict and the caution about coupled
 //! equilibria — is isochore-analysis' (`calorimetric::compare_single`, `compare_joint`);
@@ -103,7 +104,10 @@ pub fn editor(ui: &mut egui::Ui, out: &mut Vec<Command>, s: &Entry, f: &mut Fiel
                 f.path = p.display().to_string();
             }
         }
-        if ui.button("Load calorimetric file").clicked() {
+        let load = ui.button("Load calorimetric file").on_hover_text(
+            "Replaces this series' values with the file's rows that name it or no series",
+        );
+        if load.clicked() {
             match load_file(&f.path, s) {
                 Ok(v) => {
                     out.push(Command::SetCalorimetric {
@@ -121,7 +125,8 @@ pub fn editor(ui: &mut egui::Ui, out: &mut Vec<Command>, s: &Entry, f: &mut Fiel
     }
 }
 
-/// The series' values with those of the file that name it or no series added.
+/// The file's rows that name series `s` or no series (they replace the series' values:
+/// loading the same file twice does not double them).
 fn load_file(path: &str, s: &Entry) -> Result<Vec<isochore_data::SavedCalorimetric>, String> {
     if path.trim().is_empty() {
         return Err("Give the calorimetric file's path (or Browse…).".into());
@@ -136,9 +141,7 @@ fn load_file(path: &str, s: &Entry) -> Result<Vec<isochore_data::SavedCalorimetr
             s.name()
         ));
     }
-    let mut all = s.data.calorimetric.clone();
-    all.extend(found);
-    Ok(all)
+    Ok(found)
 }
 
 fn field(ui: &mut egui::Ui, label: &str, text: &mut String, width: f32) {
