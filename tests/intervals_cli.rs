@@ -163,7 +163,13 @@ fn monte_carlo_draws_the_temperatures_when_sigma_t_is_given() {
         .iter()
         .any(|w| w.as_str().unwrap().contains("temperatures were drawn"));
     assert!(said, "{}", with["warnings"]);
-    // σ(T) = 0.5 K adds (ΔH°/R)·σT/T² to each σ(ln K): ΔH°'s SD of draws grows.
+    // The draws are centred on the fit with errors in T (issue 13): its ΔH° is the value
+    // quoted, beside the same block as without --intervals.
+    let h = &with["params"]["delta_h"];
+    assert_eq!(h["method"], "monte_carlo");
+    assert_eq!(h["value"], with["errors_in_t"]["params"]["delta_h"]["value"]);
+    assert_ne!(h["value"], without["params"]["delta_h"]["value"]);
+    // σ(T) = 0.5 K adds (ΔH°/R)·σT/T² to each σ(ln K): ΔH°'s SD of draws grows here.
     let sd = |j: &serde_json::Value| j["params"]["delta_h"]["se"].as_f64().unwrap();
     assert!(
         sd(&with) > sd(&without),

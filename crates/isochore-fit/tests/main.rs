@@ -18,6 +18,7 @@ mod handbook;
 mod hostile;
 mod interval_coverage;
 mod intervals;
+mod intervals_errors_in_t;
 mod known_answers;
 mod known_sigma;
 mod nist_strd;

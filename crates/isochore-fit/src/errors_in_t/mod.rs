@@ -220,6 +220,40 @@ impl ErrorsInTFit {
     }
 }
 
+/// The coefficients alone of a fit with errors in T of the used points `t`, `y` with
+/// standard uncertainties `sy`, `st` (all checked by the caller), started from `beta0`:
+/// York's line for the linear model, orthogonal distance otherwise — the same solvers as
+/// [`fit_errors_in_t`], without its K-only fit, diagnostics and words. For the draws of
+/// Monte Carlo ([`crate::intervals::monte_carlo`] with σ(T)). `None` when the solver does
+/// not settle.
+pub(crate) fn coefficients(
+    model: Model,
+    theta: f64,
+    t: &[f64],
+    y: &[f64],
+    sy: &[f64],
+    st: &[f64],
+    beta0: &[f64],
+) -> Option<Vec<f64>> {
+    let beta = if model == Model::LINEAR {
+        let x: Vec<f64> = t.iter().map(|t| 1.0 / t).collect();
+        let sx: Vec<f64> = t.iter().zip(st).map(|(t, s)| s / (t * t)).collect();
+        let line = york::york(&x, y, &sx, sy, -beta0[0] / GAS_CONSTANT).ok()?;
+        vec![-GAS_CONSTANT * line.b, GAS_CONSTANT * line.a]
+    } else {
+        let problem = odr::Problem {
+            model,
+            theta,
+            t,
+            y,
+            sy,
+            st,
+        };
+        odr::solve_full(&problem, beta0).ok()?.beta
+    };
+    beta.iter().all(|b| b.is_finite()).then_some(beta)
+}
+
 /// Fits `options.model` to `points` with errors in both ln K and T: York's line for the
 /// linear model, orthogonal-distance least squares for the others. `sigma_t_k[i]` is the
 /// standard uncertainty of point i's temperature in kelvin (a σ in °C is the same number;

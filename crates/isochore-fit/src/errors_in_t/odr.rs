@@ -159,8 +159,11 @@ pub(crate) fn solve_full(pb: &Problem<'_>, beta0: &[f64]) -> Result<OdrSolution,
                 delta = nd;
                 s = ns;
                 accepted = true;
-                // A full step that gains no more than rounding: done.
-                if gain <= 1e-15 * s.max(f64::MIN_POSITIVE) && alpha == 1.0 {
+                // A step that gains no more than rounding: done. (A shortened step counts
+                // too: near the minimum rounding can make the full step's S a hair larger,
+                // and a halved step that gains nothing would otherwise repeat to
+                // MAX_STEPS — about one Monte Carlo draw in seven did so.)
+                if gain <= 1e-15 * s.max(f64::MIN_POSITIVE) {
                     settled = true;
                 }
                 break;

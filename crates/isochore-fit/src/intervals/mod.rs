@@ -24,6 +24,7 @@ mod bootstrap;
 mod draws;
 mod engine;
 mod montecarlo;
+mod montecarlo_t;
 mod progress;
 mod quantities;
 mod request;

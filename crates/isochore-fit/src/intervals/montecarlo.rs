@@ -6,7 +6,9 @@
 //! each used point in input order a standard normal zᵢ, ln K*ᵢ = ln Kᵢ + s*σᵢzᵢ (σᵢ = 1
 //! unweighted); then, where σ(T) is given, for each used point a normal z′ᵢ,
 //! T*ᵢ = Tᵢ + σ(T)ᵢz′ᵢ. With the temperatures fixed the refit is β* = β̂ + M(ln K* − ln K)
-//! ([`super::engine`]); with temperatures drawn, a QR refit of the new design.
+//! ([`super::engine`]). With σ(T) the draws are centred on the fit with errors in T and
+//! refitted by it ([`super::montecarlo_t`]); only where that fit cannot be made, a QR refit
+//! in K only of the new design.
 
 use super::engine::{apply, linear_map, solve};
 use super::quantities::Evaluator;
@@ -24,7 +26,10 @@ use rayon::prelude::*;
 /// Monte Carlo intervals for every quantity of [`quantities`] of `fit`, made from `points`
 /// (the same slice, excluded points included). `sigma_t`, when given, holds σ(T) in kelvin
 /// for every point of `points` (used for the used ones) and makes each draw draw its
-/// temperatures too; the fit itself is still the one with T taken as exact.
+/// temperatures too; the draws are then centred on the fit with errors in T and refitted by
+/// it (York's line or the orthogonal-distance fit, [`crate::errors_in_t`]), whose estimates
+/// are the values quoted — unless that fit cannot be made (an unweighted fit), when each
+/// draw is refitted in K only about the fit that takes T as exact, and a warning says so.
 ///
 /// # Errors
 /// [`IntervalError::NoDraws`], [`IntervalError::TooManyDraws`],
@@ -53,6 +58,7 @@ pub fn monte_carlo_with(
 ) -> Result<RunWithDraws, IntervalError> {
     check_draws(options.draws)?;
     let (d, used) = design(points, fit)?;
+    let sigma_t_all = sigma_t;
     let sigma_t: Option<Vec<f64>> = match sigma_t {
         None => None,
         Some(s) => {
@@ -73,11 +79,21 @@ pub fn monte_carlo_with(
             Some(used.iter().map(|&i| s[i]).collect())
         }
     };
+    let qs = quantities(fit, &options.temperatures, &options.k_targets);
+    // With σ(T) the draws are centred on the fit with errors in T and refitted by it
+    // ([`super::montecarlo_t`]); only when that fit cannot be made (an unweighted fit) are
+    // they refitted in K only about the fit that takes T as exact, as below.
+    if let (Some(st), Some(all)) = (&sigma_t, sigma_t_all) {
+        if fit.weighted() {
+            if let Ok(eiv) = crate::errors_in_t::fit_errors_in_t(points, all, &fit.options()) {
+                return super::montecarlo_t::run(points, fit, &eiv, st, qs, options, progress);
+            }
+        }
+    }
     let m = linear_map(&d).ok_or(IntervalError::Singular)?;
     let beta = fit.coefficients();
     let p = beta.len();
     let n = d.n();
-    let qs = quantities(fit, &options.temperatures, &options.k_targets);
     let nq = qs.len();
     let ev = Evaluator::new(fit);
     let prepared: Vec<_> = qs.iter().map(|q| ev.prepare(q)).collect();
@@ -152,7 +168,7 @@ pub fn monte_carlo_with(
     }
     if sigma_t.is_some() {
         warnings.push(
-            "temperatures were drawn with their σ(T); the central values are those of the fit that takes T as exact".into(),
+            "temperatures were drawn with their σ(T) and each draw refitted in K only, since the fit with errors in T could not be made (it needs σ(ln K) on every point); the central values are those of the fit that takes T as exact".into(),
         );
     }
     let level = fit.options().level;
