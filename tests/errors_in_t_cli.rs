@@ -236,3 +236,36 @@ fn errors_in_t_json_goes_with_intervals_and_calorimetric_values() {
     j.as_object_mut().unwrap().remove("errors_in_t");
     assert_eq!(j, with(&boot));
 }
+
+/// Issue 13: a report of a resampled run with σ(T) has both sections and says that Monte
+/// Carlo's numbers belong to the fit with errors in T.
+#[test]
+fn a_resampled_report_with_sigma_t_says_which_fit_monte_carlo_follows() {
+    let path = demo("acid_pka.csv");
+    let dir = tempfile::tempdir().unwrap();
+    let md = dir.path().join("r.md");
+    let out = run(&[
+        "fit",
+        &path,
+        "--sigma-t",
+        "0.2K",
+        "--intervals",
+        "monte-carlo",
+        "--draws",
+        "500",
+        "--report",
+        &md.to_string_lossy(),
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let report = std::fs::read_to_string(&md).unwrap();
+    assert!(report.contains("## Intervals by resampling"), "{report}");
+    assert!(report.contains("## Fit with errors in T"), "{report}");
+    assert!(
+        report.contains("belong to the fit with errors in T"),
+        "{report}"
+    );
+}

@@ -190,6 +190,10 @@ pub fn methods_paragraph(fit: &VantHoffFit, runs: &[IntervalRun]) -> String {
     s
 }
 
+/// The sentence a report adds to the methods paragraph when the data set has σ(T): Monte
+/// Carlo is then centred on the fit with errors in T, the bootstrap on the fit in K only.
+pub const WITH_SIGMA_T: &str = "The temperatures carry σ(T): Monte Carlo drew each temperature too and refitted every draw with errors in T, so its intervals, and the value and delta-method columns of the table below, belong to the fit with errors in T (see “Fit with errors in T”); the bootstrap resamples the fit in K only, whose own estimates are in the results above.";
+
 /// The table comparing the delta method with each run: one row per quantity of the first
 /// run, the value, then the interval of each method, then the unit. Returns (header, rows).
 pub fn comparison_table(
