@@ -78,6 +78,8 @@ fn monte_carlo_names_its_intervals_draws_histograms_and_matches_the_command_line
     // The delta method: the results table says so, and there is no resampling block.
     assert!(shows(&h, "95 % CI") && shows(&h, names::interval_method(IntervalMethod::Delta)));
     assert!(!shows_part(&h, "% CI ("));
+    // The predictions below name theirs too.
+    assert!(shows(&h, "CI and PI by the delta method"));
     choose(&mut h, names::INTERVALS_BY, "Monte Carlo");
     retype(&mut h, names::DRAWS, "2000");
     retype(&mut h, names::SEED, "7");
@@ -161,6 +163,9 @@ fn the_bootstrap_run_is_the_command_lines_and_names_bca_or_percentile() {
             names::bootstrap_scheme(BootstrapScheme::Wild)
         )
     ));
+    // With 10 points the methods paragraph, open for the bootstrap, warns in words that its
+    // intervals run narrow (present::intervals::methods_paragraph's caution).
+    assert!(shows_part(&h, "bootstrap intervals are expected to be too narrow"));
     // Each quantity's row names what made its interval.
     let dh = run.get("delta_h").unwrap().best();
     assert!(shows_part(

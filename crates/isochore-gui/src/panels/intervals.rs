@@ -14,7 +14,7 @@ use crate::panels::style;
 use egui::RichText;
 use egui_plot::{Bar, BarChart, LineStyle, Plot, VLine};
 use isochore_fit::intervals::{
-    check_draws, BootstrapScheme, IntervalChoice, IntervalRequest, QuantityKind,
+    check_draws, BootstrapScheme, IntervalChoice, IntervalRequest, QuantityKind, Resampling,
 };
 use isochore_fit::{EnergyUnit, ParamDimension, TemperatureUnit};
 use isochore_report::present::{self, intervals::interval_rows, names};
@@ -300,6 +300,21 @@ impl IntervalsPanel {
                 });
             });
         }
+        // The report's methods paragraph: what was drawn, how each interval is read, and the
+        // caution about the bootstrap with few points (so open for the bootstrap).
+        egui::CollapsingHeader::new("How these intervals were made")
+            .default_open(matches!(run.resampling, Resampling::Bootstrap(_)))
+            .show(ui, |ui| {
+                // Inside the header's indent: the visible width from here.
+                ui.set_max_width((ui.clip_rect().right() - ui.cursor().left() - 8.0).max(160.0));
+                ui.label(
+                    RichText::new(present::intervals::methods_paragraph(
+                        &o.fit,
+                        std::slice::from_ref(run),
+                    ))
+                    .small(),
+                );
+            });
         ui.add_space(4.0);
         let drawn = &mut self.drawn_histograms;
         egui::CollapsingHeader::new("Histograms of the draws")

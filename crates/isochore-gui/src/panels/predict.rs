@@ -206,6 +206,17 @@ impl PredictPanel {
                             ui.label("");
                             ui.end_row();
                         });
+                    // What made these intervals (issue 13: every interval names its method).
+                    ui.label(
+                        RichText::new(format!(
+                            "CI and PI by the {}",
+                            present::names::interval_method(
+                                isochore_fit::intervals::IntervalMethod::Delta
+                            )
+                        ))
+                        .small()
+                        .weak(),
+                    );
                     if let Some(w) = &p.warning {
                         ui.horizontal_wrapped(|ui| {
                             ui.colored_label(flag, "⚠");
@@ -257,6 +268,16 @@ impl PredictPanel {
                         style::fixed(tu.from_kelvin(t.ci_low), 1),
                         present::show_t_with(t.ci_high, tu, 1),
                     ));
+                    ui.label(
+                        RichText::new(format!(
+                            "CI by {}'s method",
+                            present::names::interval_method(
+                                isochore_fit::intervals::IntervalMethod::Fieller
+                            )
+                        ))
+                        .small()
+                        .weak(),
+                    );
                 }
                 Some(Err(e)) => {
                     ui.colored_label(flag, e);
