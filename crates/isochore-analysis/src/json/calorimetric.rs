@@ -5,7 +5,7 @@
 //! with the calorimetric values as observations of ΔH°(T) ([`CalorimetricFitJson`]). SI
 //! units; undefined numbers are null.
 
-use super::joint::{ColumnJson, SeriesParamsJson};
+use super::joint::{columns_json, cov_json, ColumnJson, SeriesParamsJson};
 use super::{EstimateJson, FitJson, Nulls, ParamsJson};
 use crate::dataset::PreparedSet;
 use isochore_fit::calorimetric::CalorimetricComparison;
@@ -174,25 +174,8 @@ impl<'a> CalorimetricFitJson<'a> {
                 }
             }
         }
-        let columns = fit
-            .columns()
-            .iter()
-            .map(|c| ColumnJson {
-                key: c.key(),
-                series: c.series().map(label),
-            })
-            .collect();
-        let cov = fit
-            .covariance()
-            .iter()
-            .enumerate()
-            .map(|(i, row)| {
-                row.iter()
-                    .enumerate()
-                    .map(|(j, v)| n.num(|| format!("calorimetric_fit.cov[{i}][{j}]"), *v))
-                    .collect()
-            })
-            .collect();
+        let columns = columns_json(fit.columns(), labels);
+        let cov = cov_json(n, "calorimetric_fit.cov", fit.covariance());
         let s = fit.statistics();
         CalorimetricFitJson {
             params: ParamsJson(params),

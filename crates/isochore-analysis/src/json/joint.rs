@@ -6,7 +6,9 @@ use super::{EstimateJson, Nulls, ParamsJson, PointJson};
 use crate::dataset::PreparedSet;
 use crate::joint::JointAnalysis;
 use crate::report::VERSION;
-use isochore_fit::global::{Compensation, CompensationPoint, EqualityTest, ExnerTest};
+use isochore_fit::global::{
+    Compensation, CompensationPoint, EqualityTest, ExnerTest, GlobalColumn,
+};
 use serde::Serialize;
 use std::io::{self, Write};
 
@@ -259,25 +261,8 @@ impl<'a> JointJson<'a> {
                 ),
             })
             .collect();
-        let columns = fit
-            .columns()
-            .iter()
-            .map(|c| ColumnJson {
-                key: c.key(),
-                series: c.series().map(label),
-            })
-            .collect();
-        let cov = fit
-            .covariance()
-            .iter()
-            .enumerate()
-            .map(|(i, row)| {
-                row.iter()
-                    .enumerate()
-                    .map(|(j, v)| n.num(|| format!("cov[{i}][{j}]"), *v))
-                    .collect()
-            })
-            .collect();
+        let columns = columns_json(fit.columns(), &a.labels);
+        let cov = cov_json(&mut n, "cov", fit.covariance());
         let fit_statistics = BothFitsJson {
             joint: statistics(&mut n, "fit_statistics.joint", fit),
             separate: a
@@ -331,6 +316,34 @@ impl<'a> JointJson<'a> {
             version: VERSION,
         }
     }
+}
+
+/// What the rows and columns of a block design's covariance hold, each column's series
+/// named by `labels` (the joint fit's `columns`, and the fit with calorimetric values').
+pub(crate) fn columns_json<'a>(
+    columns: &[GlobalColumn],
+    labels: &'a [String],
+) -> Vec<ColumnJson<'a>> {
+    columns
+        .iter()
+        .map(|c| ColumnJson {
+            key: c.key(),
+            series: c.series().map(|s| labels.get(s).map_or("", String::as_str)),
+        })
+        .collect()
+}
+
+/// A covariance matrix with undefined entries null and named `{what}[i][j]`.
+pub(crate) fn cov_json(n: &mut Nulls, what: &str, cov: &[Vec<f64>]) -> Vec<Vec<Option<f64>>> {
+    cov.iter()
+        .enumerate()
+        .map(|(i, row)| {
+            row.iter()
+                .enumerate()
+                .map(|(j, v)| n.num(|| format!("{what}[{i}][{j}]"), *v))
+                .collect()
+        })
+        .collect()
 }
 
 /// Options are validated finite before any fit.
