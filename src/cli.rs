@@ -335,6 +335,22 @@ pub struct PredictArgs {
     /// Print JSON (SI units) instead of text.
     #[arg(long)]
     pub json: bool,
+    /// How the intervals of K and ΔG° at each temperature and of the temperature at the
+    /// target K are made: delta (the delta method; Fieller's for the temperature),
+    /// monte-carlo or bootstrap, as for `vhfit fit`. The text adds a table of the resampled
+    /// intervals; the JSON's carry "method".
+    #[arg(long, value_enum, value_name = "METHOD", default_value = "delta")]
+    pub intervals: IntervalsArg,
+    /// Number of Monte Carlo or bootstrap draws, 1 to 1000000 (default 10000).
+    #[arg(long, value_name = "N", value_parser = parse_draws)]
+    pub draws: Option<usize>,
+    /// Seed of the random-number generator, a whole number from 0 to 18446744073709551615
+    /// (default 1).
+    #[arg(long, value_name = "S", value_parser = parse_seed)]
+    pub seed: Option<u64>,
+    /// How the bootstrap makes new data: residuals (default), wild or cases.
+    #[arg(long, value_enum, value_name = "SCHEME")]
+    pub bootstrap_scheme: Option<SchemeArg>,
 }
 
 /// `vhfit two-point`.

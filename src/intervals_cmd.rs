@@ -1,6 +1,7 @@
-//! `vhfit fit --intervals delta|monte-carlo|bootstrap --draws N --seed S
+//! `vhfit fit|predict --intervals delta|monte-carlo|bootstrap --draws N --seed S
 //! [--bootstrap-scheme residuals|wild|cases]`: the request from the flags, the run on each
-//! fitted data set (isochore-analysis' `run_intervals`), and its block of readable text
+//! fitted data set (isochore-analysis' `run_intervals`, `run_intervals_at` for predict's
+//! temperatures and target K), and its block of readable text
 //! (the method line and each quantity's resampled interval beside the delta method's).
 
 use crate::cli::{FitArgs, IntervalsArg, SchemeArg};
@@ -14,33 +15,58 @@ use isochore_report::present::intervals::{interval_rows, method_line};
 use isochore_report::present::names::interval_method;
 use std::io::{self, Write};
 
-/// The request the flags make. `--draws`, `--seed` or `--bootstrap-scheme` with the delta
-/// method, or `--bootstrap-scheme` with Monte Carlo, is a usage error (nothing would use it).
+/// The request the flags of `vhfit fit` make (see [`request_from`]).
 pub fn request(a: &FitArgs) -> Result<IntervalRequest, String> {
-    let scheme = match a.bootstrap_scheme {
+    request_from(a.intervals, a.draws, a.seed, a.bootstrap_scheme)
+}
+
+/// The request `--intervals`, `--draws`, `--seed` and `--bootstrap-scheme` make (`vhfit
+/// fit` and `vhfit predict`). `--draws`, `--seed` or `--bootstrap-scheme` with the delta
+/// method, or `--bootstrap-scheme` with Monte Carlo, is a usage error (nothing would use it).
+pub fn request_from(
+    intervals: IntervalsArg,
+    draws: Option<usize>,
+    seed: Option<u64>,
+    bootstrap_scheme: Option<SchemeArg>,
+) -> Result<IntervalRequest, String> {
+    let scheme = match bootstrap_scheme {
         None | Some(SchemeArg::Residuals) => BootstrapScheme::Residuals,
         Some(SchemeArg::Wild) => BootstrapScheme::Wild,
         Some(SchemeArg::Cases) => BootstrapScheme::Cases,
     };
-    let choice = match a.intervals {
+    let choice = match intervals {
         IntervalsArg::Delta => IntervalChoice::Delta,
         IntervalsArg::MonteCarlo => IntervalChoice::MonteCarlo,
         IntervalsArg::Bootstrap => IntervalChoice::Bootstrap(scheme),
     };
-    if choice == IntervalChoice::Delta && (a.draws.is_some() || a.seed.is_some()) {
+    if choice == IntervalChoice::Delta && (draws.is_some() || seed.is_some()) {
         return Err(
             "--draws and --seed apply to --intervals monte-carlo or bootstrap; the delta method draws nothing"
                 .into(),
         );
     }
-    if a.bootstrap_scheme.is_some() && !matches!(choice, IntervalChoice::Bootstrap(_)) {
+    if bootstrap_scheme.is_some() && !matches!(choice, IntervalChoice::Bootstrap(_)) {
         return Err("--bootstrap-scheme applies to --intervals bootstrap only".into());
     }
     Ok(IntervalRequest {
         choice,
-        draws: a.draws.unwrap_or(DEFAULT_DRAWS),
-        seed: a.seed.unwrap_or(DEFAULT_SEED),
+        draws: draws.unwrap_or(DEFAULT_DRAWS),
+        seed: seed.unwrap_or(DEFAULT_SEED),
     })
+}
+
+/// Runs the request on one fitted data set with the quantities of `vhfit predict`: ΔG° and K
+/// at each of `temperatures` (K) and the temperature at each of `k_targets`, besides the
+/// usual ones; `Ok(None)` for the delta method. A refusal is named with the data set.
+pub fn run_at(
+    job: &Job,
+    fit: &VantHoffFit,
+    req: &IntervalRequest,
+    temperatures: &[f64],
+    k_targets: &[f64],
+) -> Result<Option<IntervalRun>, String> {
+    isochore_analysis::intervals::run_intervals_at(job, fit, req, temperatures, k_targets)
+        .map_err(|e: IntervalError| format!("{}: series '{}': {e}", job.source, job.series))
 }
 
 /// Runs the request on one fitted data set; `Ok(None)` for the delta method. A refusal is

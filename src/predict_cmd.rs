@@ -1,6 +1,9 @@
 //! `vhfit predict`: fits the file, then gives ln K, K, ΔG°, ΔH° and ΔS° at each asked
 //! temperature with confidence and prediction intervals, warns when a temperature lies
-//! outside the measured range, and optionally finds the temperature for a target K.
+//! outside the measured range, and optionally finds the temperature for a target K. With
+//! `--intervals monte-carlo|bootstrap`, K and ΔG° at each temperature and the temperature
+//! for the target K also get that method's interval (text: the table of `vhfit fit`'s
+//! intervals block; JSON: `method` on each, and an `intervals` record).
 
 use crate::cli::PredictArgs;
 use crate::fit_cmd::fit_job;
@@ -8,6 +11,7 @@ use crate::load::{load, Job};
 use crate::output::{self, Style};
 use crate::Failure;
 use isochore_analysis::json::predict::PredictJson;
+use isochore_fit::intervals::IntervalRun;
 use isochore_fit::{QuantityKind, VantHoffFit};
 use isochore_report::content::{decimals_for, entropy_unit, num, show_t, sig};
 use isochore_report::present::{quantity, times_ten};
@@ -33,11 +37,22 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
             return Err(Failure::usage("--for-k must be a positive number"));
         }
     }
+    let request =
+        crate::intervals_cmd::request_from(a.intervals, a.draws, a.seed, a.bootstrap_scheme)
+            .map_err(Failure::usage)?;
     let jobs = load(&a.file, &a.fit, false).map_err(Failure::input)?;
     let mut fits: Vec<(Job, VantHoffFit, Option<f64>)> = Vec::new();
+    let mut runs: Vec<Option<IntervalRun>> = Vec::new();
     for job in jobs {
         let fit = fit_job(&job).map_err(Failure::input)?;
         let for_k = target_k(a, &job)?;
+        // With --intervals monte-carlo|bootstrap: K and ΔG° at each temperature and T at
+        // the target K resampled (a refusal is a usage error, as for `vhfit fit`).
+        let targets: Vec<f64> = for_k.into_iter().collect();
+        runs.push(
+            crate::intervals_cmd::run_at(&job, &fit, &request, &temps_k, &targets)
+                .map_err(Failure::usage)?,
+        );
         fits.push((job, fit, for_k));
     }
     let mut out = output::stdout(if a.json { Style::Json } else { Style::Text });
@@ -45,10 +60,15 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
     if a.json {
         let docs: Vec<PredictJson> = fits
             .iter()
-            .map(|(job, fit, for_k)| {
-                PredictJson::new(job, fit, &temps_k, *for_k, |t| {
+            .zip(&runs)
+            .map(|((job, fit, for_k), run)| {
+                let mut doc = PredictJson::new(job, fit, &temps_k, *for_k, |t| {
                     format!("at {} K", sig(t, 6))
-                })
+                });
+                if let Some(r) = run {
+                    doc.apply_run(r);
+                }
+                doc
             })
             .collect();
         let written = match docs.as_slice() {
@@ -59,7 +79,7 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
         writeln!(out).map_err(io)?;
         return out.flush().map_err(io);
     }
-    for (job, fit, for_k) in &fits {
+    for ((job, fit, for_k), run) in fits.iter().zip(&runs) {
         let e = job.energy;
         let ef = e.joules_per_mole();
         let (sf, s_unit) = entropy_unit(e);
@@ -188,6 +208,10 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
             .chain(fit.warnings().iter().map(|w| &w.message))
         {
             writeln!(out, "warning: {w}").map_err(io)?;
+        }
+        // The resampled intervals, beside the delta method's (the same block as `vhfit fit`).
+        if let Some(r) = run {
+            crate::intervals_cmd::text(&mut out, job, fit, r).map_err(io)?;
         }
     }
     out.flush().map_err(io)

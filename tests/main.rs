@@ -10,6 +10,7 @@ mod hostile_cli;
 mod hostile_input;
 mod intervals_cli;
 mod joint_cli;
+mod predict_intervals_cli;
 mod promises;
 mod two_point;
 mod vocabulary;

@@ -71,6 +71,44 @@ pub fn run_intervals(
     run_intervals_with(set, fit, request, &Progress::new()).map(|r| r.map(|r| r.run))
 }
 
+/// [`run_intervals`] with further quantities, as `vhfit predict` asks for them: ΔG° and K
+/// at each of `temperatures` (K), and the temperature where K reaches each of `k_targets`
+/// (K = 1 is always among them).
+///
+/// # Errors
+/// As [`run_intervals`].
+pub fn run_intervals_at(
+    set: &PreparedSet,
+    fit: &VantHoffFit,
+    request: &IntervalRequest,
+    temperatures: &[f64],
+    k_targets: &[f64],
+) -> Result<Option<IntervalRun>, IntervalError> {
+    let mut targets = vec![1.0];
+    targets.extend(k_targets.iter().copied().filter(|&k| k != 1.0));
+    let options = IntervalOptions {
+        draws: request.draws,
+        seed: request.seed,
+        temperatures: temperatures.to_vec(),
+        k_targets: targets,
+    };
+    let progress = Progress::new();
+    match request.choice {
+        IntervalChoice::Delta => Ok(None),
+        IntervalChoice::MonteCarlo => monte_carlo_with(
+            &set.measurements,
+            fit,
+            set.sigma_t_k.as_deref(),
+            &options,
+            &progress,
+        )
+        .map(|r| Some(r.run)),
+        IntervalChoice::Bootstrap(s) => {
+            bootstrap_with(&set.measurements, fit, s, &options, &progress).map(|r| Some(r.run))
+        }
+    }
+}
+
 /// [`run_intervals`] watched by `progress` (draws done; stops when cancelled), with every
 /// draw kept: what the window runs on its worker thread. Its intervals are
 /// [`run_intervals`]'s, to the last bit.

@@ -5,6 +5,7 @@
 use super::{EstimateJson, Nulls};
 use crate::dataset::PreparedSet;
 use crate::report::VERSION;
+use isochore_fit::intervals::{IntervalRun, QuantityKind, Resampling};
 use isochore_fit::{Prediction, ValuePrediction, VantHoffFit};
 use serde::Serialize;
 
@@ -24,7 +25,9 @@ pub struct ValueJson {
     pub pi_low: Option<f64>,
     /// Prediction interval, upper end.
     pub pi_high: Option<f64>,
-    /// What made the intervals: "delta" (K's are the exponentials of ln K's).
+    /// What made the confidence interval: "delta" (K's are the exponentials of ln K's), or
+    /// with `--intervals` K's "monte_carlo", "bootstrap_percentile" or "bootstrap_bca" (the
+    /// prediction interval stays the delta method's).
     pub method: &'static str,
 }
 
@@ -122,6 +125,10 @@ pub struct PredictJson<'a> {
     pub predictions: Vec<PredictionJson>,
     /// The temperature for a target K, when asked.
     pub for_k: Option<ForKJson>,
+    /// What made the resampled intervals (`--intervals monte-carlo|bootstrap`; absent for
+    /// the delta method).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub intervals: Option<PredictIntervalsJson>,
     /// Cautions in words.
     pub warnings: Vec<String>,
     /// The program's version.
@@ -171,8 +178,74 @@ impl<'a> PredictJson<'a> {
             t_max_k: fit.t_max_k().is_finite().then_some(fit.t_max_k()),
             predictions,
             for_k,
+            intervals: None,
             warnings,
             version: VERSION,
         }
     }
+
+    /// Puts a Monte Carlo or bootstrap `run` (made with these temperatures and this target K,
+    /// `isochore_analysis::intervals::run_intervals_at`) into the document: K and ΔG° at
+    /// each temperature and the temperature for the target K take the run's value, SE (the
+    /// SD of the draws) and interval with its `method`; ln K, ΔH°, ΔS° and every prediction
+    /// interval (`pi_low`, `pi_high`: a new measurement, not resampled) stay the delta
+    /// method's. Adds `intervals` and the run's warnings.
+    pub fn apply_run(&mut self, run: &IntervalRun) {
+        let mut n = Nulls::new();
+        let find = |want: &dyn Fn(&QuantityKind) -> bool| {
+            run.quantities
+                .iter()
+                .find(|q| want(&q.quantity.kind))
+                .map(|q| q.best())
+        };
+        for p in &mut self.predictions {
+            let Some(t) = p.t_k else { continue };
+            if let Some(b) = find(&|k| matches!(*k, QuantityKind::K { t_k } if t_k == t)) {
+                let finite = |v: f64| v.is_finite().then_some(v);
+                p.k.value = finite(b.value);
+                p.k.se = finite(b.se);
+                p.k.ci_low = finite(b.ci_low);
+                p.k.ci_high = finite(b.ci_high);
+                p.k.method = b.method.key();
+            }
+            if let Some(b) = find(&|k| matches!(*k, QuantityKind::DeltaG { t_k } if t_k == t)) {
+                p.delta_g =
+                    n.estimate_with(&format!("delta_g at {t} K"), &b.estimate(), b.method.key());
+            }
+        }
+        if let Some(f) = self.for_k.as_mut().filter(|f| f.t_k.is_some()) {
+            let k = f.k;
+            if let Some(b) =
+                find(&|q| matches!(*q, QuantityKind::TemperatureForK { k_target } if k_target == k))
+            {
+                f.t_k = Some(n.estimate_with("for_k.t_k", &b.estimate(), b.method.key()));
+            }
+        }
+        let (method, scheme) = match run.resampling {
+            Resampling::MonteCarlo => ("monte_carlo", None),
+            Resampling::Bootstrap(s) => ("bootstrap", Some(s.key())),
+        };
+        self.intervals = Some(PredictIntervalsJson {
+            method,
+            scheme,
+            draws: run.draws,
+            seed: run.seed,
+        });
+        self.warnings.extend(run.warnings.iter().cloned());
+        self.warnings.extend(n.warning());
+    }
+}
+
+/// `intervals` of a prediction made with `--intervals monte-carlo|bootstrap`.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct PredictIntervalsJson {
+    /// "monte_carlo" or "bootstrap".
+    pub method: &'static str,
+    /// The bootstrap's scheme ("residuals", "wild_rademacher", "cases"); null for Monte
+    /// Carlo.
+    pub scheme: Option<&'static str>,
+    /// Number of draws.
+    pub draws: usize,
+    /// The seed of the generator.
+    pub seed: u64,
 }
