@@ -63,7 +63,7 @@ impl IntervalFields {
         );
         let combo = egui::ComboBox::from_id_salt("interval_method")
             .selected_text(names::interval_choice(cur.choice))
-            .width(200.0)
+            .width(150.0)
             .show_ui(ui, |ui| {
                 for c in CHOICES {
                     ui.selectable_value(&mut new.choice, c, names::interval_choice(c));
