@@ -31,8 +31,9 @@ pub fn fit(job: &Job, failures: &mut Vec<String>) -> Option<ErrorsInTFit> {
 
 /// Writes the JSON of one fit: with the `errors_in_t` block when there is a fit with errors
 /// in T, beside the intervals of a Monte Carlo or bootstrap `run` and the `calorimetric`
-/// comparisons when there are; without a fit with errors in T exactly the document of the
-/// run, of the comparisons, or of the plain fit, byte for byte as before.
+/// comparisons when there are (a run and comparisons together: both, the comparisons
+/// staying the delta method's); otherwise exactly the document of the run, of the
+/// comparisons, or of the plain fit, byte for byte as before.
 ///
 /// # Errors
 /// The writer's.
@@ -61,7 +62,17 @@ pub fn write_json(
             c,
             Some(f),
         ),
-        (None, _, Some(c)) => {
+        (None, Some(r), Some(c)) => json::errors_in_t::write_fit_with_additions(
+            out,
+            job,
+            fit,
+            source,
+            with_points,
+            Some(r),
+            Some(c),
+            None,
+        ),
+        (None, None, Some(c)) => {
             json::calorimetric::write_fit_with_calorimetric(out, job, fit, source, with_points, c)
         }
         (None, Some(r), None) => {

@@ -114,9 +114,12 @@ fn error_entry(
 pub fn run(a: &FitArgs) -> Result<(), Failure> {
     let intervals = crate::intervals_cmd::request(a).map_err(Failure::usage)?;
     let resampled = intervals.choice != isochore_analysis::intervals::IntervalChoice::Delta;
-    if resampled && (a.share.is_some() || a.calorimetric.is_some()) {
+    // A joint fit would need every series resampled and refitted together; not built yet.
+    // (With --calorimetric the run is written beside the comparisons, which stay the delta
+    // method's.)
+    if resampled && a.share.is_some() {
         return Err(Failure::usage(
-            "--intervals monte-carlo or bootstrap is not available with --share or --calorimetric yet; use the delta method there",
+            "--intervals monte-carlo or bootstrap is not available for a joint fit (--share) yet: each draw would have to refit every series together; leave --intervals out (the delta method) for a joint fit, or fit each series on its own with --intervals",
         ));
     }
     if let Some(keys) = &a.share {

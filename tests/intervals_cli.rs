@@ -167,7 +167,10 @@ fn monte_carlo_draws_the_temperatures_when_sigma_t_is_given() {
     // quoted, beside the same block as without --intervals.
     let h = &with["params"]["delta_h"];
     assert_eq!(h["method"], "monte_carlo");
-    assert_eq!(h["value"], with["errors_in_t"]["params"]["delta_h"]["value"]);
+    assert_eq!(
+        h["value"],
+        with["errors_in_t"]["params"]["delta_h"]["value"]
+    );
     assert_ne!(h["value"], without["params"]["delta_h"]["value"]);
     // σ(T) = 0.5 K adds (ΔH°/R)·σT/T² to each σ(ln K): ΔH°'s SD of draws grows here.
     let sd = |j: &serde_json::Value| j["params"]["delta_h"]["se"].as_f64().unwrap();
@@ -215,4 +218,63 @@ fn a_report_has_the_methods_paragraph_and_the_comparison_table() {
     assert!(!std::fs::read_to_string(&plain)
         .unwrap()
         .contains("Intervals by resampling"));
+}
+
+/// Issue 13: `--intervals` with `--calorimetric` writes both (the comparisons stay the
+/// delta method's: the rest of the document is the run's, unchanged); with `--share` it is
+/// refused in words (exit 2) until joint fits are resampled.
+#[test]
+fn intervals_go_with_calorimetric_values_and_are_refused_for_joint_fits() {
+    let path = demo("binding_qx7_halo2.csv");
+    let base = [
+        "fit",
+        path.as_str(),
+        "--model",
+        "cp",
+        "--json",
+        "--summary",
+        "--intervals",
+        "bootstrap",
+        "--draws",
+        "400",
+    ];
+    let with = |extra: &[&str]| {
+        let args: Vec<&str> = base.iter().chain(extra).copied().collect();
+        let out = run(&args);
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        json_of(&out)
+    };
+    let mut both = with(&["--calorimetric", "25C:-40.0:0.5"]);
+    let cal = both
+        .as_object_mut()
+        .unwrap()
+        .remove("calorimetric")
+        .unwrap();
+    assert_eq!(cal.as_array().unwrap().len(), 1);
+    // ΔH_vH in the comparison is the delta method's.
+    assert_eq!(cal[0]["delta_h_vh"]["method"], "delta");
+    assert_eq!(both, with(&[]));
+    assert_eq!(both["intervals"]["method"], "bootstrap");
+
+    let multi = demo("ligands_px_orrin3.csv");
+    let out = run(&[
+        "fit",
+        &multi,
+        "--model",
+        "cp",
+        "--share",
+        "delta_cp",
+        "--intervals",
+        "monte-carlo",
+    ]);
+    assert_eq!(out.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains("joint fit") && err.contains("--share"),
+        "{err}"
+    );
 }

@@ -223,12 +223,12 @@ pub struct FitWithAdditionsJson<'a> {
     pub errors_in_t: Option<ErrorsInTJson>,
 }
 
-/// Writes one fit with the `errors_in_t` block beside a Monte Carlo or bootstrap run
-/// (`run`) and/or calorimetric comparisons (`calorimetric`): the document of
-/// [`super::intervals::write_fit_with_intervals`] or
-/// [`super::calorimetric::write_fit_with_calorimetric`] with `errors_in_t` added last, as
-/// [`write_fit_with_errors_in_t`] adds it to the plain document. The run's warnings, then
-/// the undefined values of the `errors_in_t` block, follow the fit's.
+/// Writes one fit with any of a Monte Carlo or bootstrap run (`run`), calorimetric
+/// comparisons (`calorimetric`, which stay the delta method's) and the `errors_in_t` block:
+/// the document of [`super::intervals::write_fit_with_intervals`] or
+/// [`super::calorimetric::write_fit_with_calorimetric`] with the other additions, and
+/// `errors_in_t` last, as [`write_fit_with_errors_in_t`] adds it to the plain document. The
+/// run's warnings, then the undefined values of the `errors_in_t` block, follow the fit's.
 ///
 /// # Errors
 /// The writer's.
