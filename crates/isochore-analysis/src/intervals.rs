@@ -6,8 +6,8 @@
 
 use crate::dataset::PreparedSet;
 use isochore_fit::intervals::{
-    bootstrap_with, monte_carlo_with, BootstrapScheme, IntervalError, IntervalOptions,
-    IntervalRun, Progress, RunWithDraws,
+    bootstrap_with, monte_carlo_with, BootstrapScheme, IntervalError, IntervalOptions, IntervalRun,
+    Progress, RunWithDraws,
 };
 use isochore_fit::VantHoffFit;
 

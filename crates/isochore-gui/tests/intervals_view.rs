@@ -165,7 +165,10 @@ fn the_bootstrap_run_is_the_command_lines_and_names_bca_or_percentile() {
     ));
     // With 10 points the methods paragraph, open for the bootstrap, warns in words that its
     // intervals run narrow (present::intervals::methods_paragraph's caution).
-    assert!(shows_part(&h, "bootstrap intervals are expected to be too narrow"));
+    assert!(shows_part(
+        &h,
+        "bootstrap intervals are expected to be too narrow"
+    ));
     // Each quantity's row names what made its interval.
     let dh = run.get("delta_h").unwrap().best();
     assert!(shows_part(
