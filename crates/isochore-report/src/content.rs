@@ -400,7 +400,9 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
         )));
         // With σ(T), Monte Carlo is centred on the fit with errors in T (issue 13).
         if matches!(input.errors_in_t, Some(Ok(_))) {
-            b.push(Block::Paragraph(present::intervals::WITH_SIGMA_T.to_string()));
+            b.push(Block::Paragraph(
+                present::intervals::WITH_SIGMA_T.to_string(),
+            ));
         }
         let (header, rows) =
             present::intervals::comparison_table(fit, &input.intervals, input.energy_unit, tu);
