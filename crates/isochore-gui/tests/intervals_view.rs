@@ -81,6 +81,25 @@ fn monte_carlo_names_its_intervals_draws_histograms_and_matches_the_command_line
     // The predictions below name theirs too.
     assert!(shows(&h, "CI and PI by the delta method"));
     choose(&mut h, names::INTERVALS_BY, "Monte Carlo");
+    // Refused in words, the setting unchanged: no draws, too many, not a number
+    // (isochore-fit's check_draws gives the first two sentences).
+    retype(&mut h, names::DRAWS, "0");
+    assert!(shows(&h, "the number of draws must be at least 1"));
+    retype(&mut h, names::DRAWS, "2000000");
+    assert!(shows_part(&h, "at most 1000000 are allowed"));
+    retype(&mut h, names::SEED, "x7");
+    assert!(shows_part(&h, "'x7' is not a whole number"));
+    assert_eq!(
+        h.state()
+            .project
+            .get(id)
+            .unwrap()
+            .data
+            .settings
+            .intervals
+            .draws,
+        10_000
+    );
     retype(&mut h, names::DRAWS, "2000");
     retype(&mut h, names::SEED, "7");
     let want = IntervalRequest {
