@@ -178,7 +178,7 @@ impl ExportJob {
             )
             .collect();
         let guard = isochore_report::OverwriteGuard::new(&inputs);
-        let mut jobs: Vec<(ReportInput, String)> = Vec::new();
+        let mut jobs: Vec<(ReportInput, String, Option<isochore_data::DataSet>)> = Vec::new();
         let mut stems = ReportStems::new();
         for s in project.series.iter().filter(|s| series.contains(&s.id)) {
             let Some(a) = fitter.get(s.id) else {
@@ -198,7 +198,12 @@ impl ExportJob {
             let given = |t: &str| Some(t.trim().to_string()).filter(|t| !t.is_empty());
             input.record.analyst = given(analyst);
             input.record.note = given(note);
-            jobs.push((input, stems.next(file, s.name(), several)));
+            // A resampling setting: the report compares the delta method, Monte Carlo and
+            // the bootstrap, as `vhfit fit --intervals … --report` does; run on the worker.
+            let resample = (s.data.settings.intervals.choice
+                != isochore_analysis::intervals::IntervalChoice::Delta)
+                .then(|| s.data.clone());
+            jobs.push((input, stems.next(file, s.name(), several), resample));
         }
         let plan = |stem: &str| -> Vec<(ReportFormat, PathBuf)> {
             isochore_report::report_set_plan(stem)
@@ -209,7 +214,7 @@ impl ExportJob {
         };
         let refusals: Vec<String> = jobs
             .iter()
-            .flat_map(|(_, stem)| plan(stem))
+            .flat_map(|(_, stem, _)| plan(stem))
             .flat_map(|(f, p)| isochore_report::report_paths(f, &p))
             .filter_map(|p| guard.refusal(&p))
             .collect();
@@ -218,9 +223,9 @@ impl ExportJob {
         }
         let work: Vec<Work> = jobs
             .into_iter()
-            .map(|(input, stem)| {
+            .map(|(input, stem, resample)| {
                 let p = plan(&stem);
-                (input, stem, p)
+                (input, stem, p, resample)
             })
             .collect();
         let total = work.iter().map(|w| w.2.len()).sum();
@@ -253,7 +258,30 @@ impl ExportJob {
     }
 }
 
-type Work = (ReportInput, String, Vec<(ReportFormat, PathBuf)>);
+/// A report to write: its input, file stem, files, and the data set to resample for the
+/// comparison of interval methods (when its setting is Monte Carlo or the bootstrap).
+type Work = (
+    ReportInput,
+    String,
+    Vec<(ReportFormat, PathBuf)>,
+    Option<isochore_data::DataSet>,
+);
+
+/// The runs the report compares with the delta method (isochore-analysis' `report_runs`,
+/// the command line's), for the data set's own interval setting.
+fn resampled_runs(
+    data: &isochore_data::DataSet,
+    fit: &isochore_fit::VantHoffFit,
+) -> Result<Vec<isochore_fit::intervals::IntervalRun>, String> {
+    let set = isochore_analysis::PreparedSet::from_data_set(
+        data,
+        &data.source.name,
+        &isochore_analysis::Overrides::default(),
+    )
+    .map_err(|e| e.to_string())?;
+    isochore_analysis::intervals::report_runs(&set, fit, &data.settings.intervals)
+        .map_err(|e| format!("{}: {e}", data.name))
+}
 
 fn write_all(
     work: &[Work],
@@ -265,7 +293,17 @@ fn write_all(
         .map_err(|e| format!("{}: could not create the folder: {e}", folder.display()))?;
     let mut written = 0usize;
     let mut stems = Vec::new();
-    for (input, stem, plan) in work {
+    for (input, stem, plan, resample) in work {
+        let with_runs;
+        let input = match resample {
+            Some(data) => {
+                let mut i = input.clone();
+                i.intervals = resampled_runs(data, &input.fit)?;
+                with_runs = i;
+                &with_runs
+            }
+            None => input,
+        };
         for (format, path) in plan {
             let paths =
                 isochore_report::write_report(input, *format, path).map_err(|e| e.to_string())?;

@@ -243,3 +243,44 @@ fn cancel_stops_a_long_run_and_leaves_the_delta_method() {
     h.get_by_role_and_label(Role::Button, "Cancel").click();
     h.run_steps(2);
 }
+
+#[test]
+fn a_report_exported_from_the_window_compares_the_methods_as_the_command_line_does() {
+    use isochore_gui::export::{ExportFormat, ExportJob, FormatSet};
+    let mut w = bench();
+    let id = w.active.unwrap();
+    let mut settings = w.project.get(id).unwrap().data.settings;
+    settings.intervals = IntervalRequest {
+        choice: IntervalChoice::MonteCarlo,
+        draws: 500,
+        seed: 3,
+    };
+    w.push(isochore_gui::command::Command::SetSettings {
+        series: id,
+        settings,
+    });
+    w.apply_pending();
+    let dir = crate::workbench::temp_dir("intervals-report");
+    let mut formats = FormatSet(0);
+    formats.set(ExportFormat::Markdown, true);
+    let job = ExportJob::start(&w.project, &w.fitter, &[id], formats, &dir, "", "").unwrap();
+    let outcome = loop {
+        if let Some(r) = job.poll() {
+            break r;
+        }
+        std::thread::sleep(std::time::Duration::from_millis(20));
+    };
+    outcome.unwrap();
+    let md = std::fs::read_dir(&dir)
+        .unwrap()
+        .filter_map(|e| e.ok().map(|e| e.path()))
+        .find(|p| p.extension().is_some_and(|x| x == "md"))
+        .expect("a Markdown report");
+    let text = std::fs::read_to_string(md).unwrap();
+    // The section the command line's --intervals monte-carlo --report writes: the methods
+    // paragraph (the draws and generator start value) and the comparison of methods.
+    assert!(text.contains("Intervals by resampling"), "{text}");
+    assert!(text.contains("500 draws each from seed 3"), "{text}");
+    assert!(text.contains(names::bootstrap_scheme(BootstrapScheme::Residuals)));
+    let _ = std::fs::remove_dir_all(&dir);
+}
