@@ -1,7 +1,8 @@
 //! Speed of the resampled intervals (issue 13): 10⁴ Monte Carlo draws of a 20-point
 //! constant-ΔCp° fit, and 10⁴ bootstrap draws of the same fit (residuals, wild, cases), each
 //! with every reported quantity (parameters, ΔG° and K at θ and T_hm, ΔH° and ΔS° at T_hm,
-//! T at K = 1, T where ΔH° = 0) and, for the bootstrap, the jackknife and BCa intervals.
+//! T at K = 1, T where ΔH° = 0) and, for the bootstrap, the jackknife and BCa intervals;
+//! and Monte Carlo with σ(T) = 0.1 K, each draw refitted by the orthogonal-distance fit.
 //! The fit itself is outside the timing. Issue 13's target: under 50 ms each on the 2-core
 //! machine.
 //!
@@ -43,6 +44,11 @@ fn bench_intervals(c: &mut Criterion) {
     group.sample_size(20);
     group.bench_function("monte_carlo", |b| {
         b.iter(|| monte_carlo(black_box(&pts), black_box(&f), None, &io).unwrap())
+    });
+    // With σ(T) = 0.1 K: every draw refitted by the orthogonal-distance fit (issue 13).
+    let sigma_t = vec![0.1; pts.len()];
+    group.bench_function("monte_carlo_sigma_t_orthogonal_distance", |b| {
+        b.iter(|| monte_carlo(black_box(&pts), black_box(&f), Some(&sigma_t), &io).unwrap())
     });
     for scheme in [
         BootstrapScheme::Residuals,
