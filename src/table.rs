@@ -103,7 +103,7 @@ pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<
     }
     // ΔCp° models: where ΔH° changes sign (or that it does not near the data) in words.
     // Below the table, after a blank line (the table ends at the first blank line).
-    if let Some(words) = fit.delta_h_zero_words() {
+    if let Some(words) = fit.delta_h_zero_words_in(|t| show_t(t, job.temperature)) {
         writeln!(w)?;
         writeln!(w, "  {words}")?;
     }

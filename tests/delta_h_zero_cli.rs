@@ -100,6 +100,9 @@ fn no_sign_change_and_unresolved_heat_capacity_are_said_in_words() {
     );
     let text = String::from_utf8_lossy(&run(&["fit", &path, "--model", "cp"]).stdout).into_owned();
     assert!(text.contains("ΔH° keeps its sign"), "{text}");
+    // The text writes the words' temperatures in the file's unit (°C here); the JSON in K.
+    assert!(text.contains(" °C to "), "{text}");
+    assert!(z["words"].as_str().unwrap().contains(" K to "), "{z}");
 
     // A file where ΔH° changes sign inside the data but ΔCp° is not resolved: an unbounded
     // interval, said in words (invented numbers: ΔH°(θ) ≈ 0 and ΔCp° ≈ 0 with scatter).

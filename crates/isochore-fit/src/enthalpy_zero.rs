@@ -86,30 +86,38 @@ impl VantHoffFit {
             ci_low,
             ci_high,
         };
+        let mut z = EnthalpyZero {
+            estimate,
+            extrapolated: self.is_extrapolation(t0),
+            words: String::new(),
+        };
+        z.words = self.root_words(&z, &|t| format!("{t:.2} K"));
+        Some(z)
+    }
+
+    /// The words of a found T₀, its temperatures written by `show`.
+    fn root_words(&self, z: &EnthalpyZero, show: &dyn Fn(f64) -> String) -> String {
         let level = self.options.level;
         let pct = crate::vant_hoff::comparison_percent(level);
-        let words = match unbounded_interval("the temperature where ΔH° = 0", &estimate, level) {
+        let e = &z.estimate;
+        match unbounded_interval("the temperature where ΔH° = 0", e, level) {
             Some(w) => format!(
-                "ΔH° = 0 at {:.2} K, but ΔCp° is not resolved from zero well enough to fix where ΔH° changes sign: {}",
-                t0, w.message
+                "ΔH° = 0 at {}, but ΔCp° is not resolved from zero well enough to fix where ΔH° changes sign: {}",
+                show(e.value),
+                w.message
             ),
             None => format!(
-                "ΔH° = 0 at {:.2} K ({pct}% interval {:.2}–{:.2} K, Fieller){}",
-                t0,
-                ci_low,
-                ci_high,
-                if self.is_extrapolation(t0) {
+                "ΔH° = 0 at {} ({pct}% interval {} to {}, Fieller){}",
+                show(e.value),
+                show(e.ci_low),
+                show(e.ci_high),
+                if z.extrapolated {
                     "; outside the measured range, so it rests on the model's assumption about ΔCp°"
                 } else {
                     ""
                 }
             ),
-        };
-        Some(EnthalpyZero {
-            estimate,
-            extrapolated: self.is_extrapolation(t0),
-            words,
-        })
+        }
     }
 
     /// The temperature where ΔH° = 0 in words, for every model with ΔCp°: the words of
@@ -117,15 +125,23 @@ impl VantHoffFit {
     /// data, else that it keeps its sign over the whole range searched (a factor of three
     /// either side of T_hm). `None` for a model without ΔCp° (ΔH° is then constant).
     pub fn delta_h_zero_words(&self) -> Option<String> {
+        self.delta_h_zero_words_in(|t| format!("{t:.2} K"))
+    }
+
+    /// [`VantHoffFit::delta_h_zero_words`] with every temperature written by `show` (the
+    /// display unit of a report or the text; the JSON's words are in kelvin).
+    pub fn delta_h_zero_words_in(&self, show: impl Fn(f64) -> String) -> Option<String> {
         if !self.model().has_heat_capacity() {
             return None;
         }
         Some(match self.temperature_where_delta_h_is_zero() {
-            Some(z) => z.words,
+            Some(z) => self.root_words(&z, &show),
             None => {
                 let (lo, hi) = self.delta_h_zero_search_range();
                 format!(
-                    "ΔH° keeps its sign from {lo:.0} K to {hi:.0} K (a factor of {SEARCH_FACTOR:.0} either side of T_hm): no temperature where ΔH° = 0 near the data"
+                    "ΔH° keeps its sign from {} to {} (a factor of {SEARCH_FACTOR:.0} either side of T_hm): no temperature where ΔH° = 0 near the data",
+                    show(lo),
+                    show(hi)
                 )
             }
         })
@@ -251,5 +267,15 @@ mod tests {
             g.delta_h_zero_words(),
             g.temperature_where_delta_h_is_zero().map(|z| z.words)
         );
+        // In another unit every temperature is written by the caller (°C = K − 273.15, the
+        // definition of the Celsius scale; T₀ near 278.15 K, 5 °C, with this scatter).
+        let z = g.temperature_where_delta_h_is_zero().unwrap();
+        let c = g
+            .delta_h_zero_words_in(|t| format!("{:.2} °C", t - 273.15))
+            .unwrap();
+        let want = format!("ΔH° = 0 at {:.2} °C (", z.estimate.value - 273.15);
+        assert!(c.starts_with(&want), "{c}");
+        assert!((z.estimate.value - 278.15).abs() < 0.5);
+        assert!(!c.contains(" K"), "{c}");
     }
 }

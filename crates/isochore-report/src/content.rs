@@ -370,7 +370,7 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
     }));
     // ΔCp° models: where ΔH° changes sign, or that it does not near the data, in words
     // (the row above gives the numbers; the words say when Fieller's interval is unbounded).
-    if let Some(words) = fit.delta_h_zero_words() {
+    if let Some(words) = fit.delta_h_zero_words_in(|t| show_t(t, tu)) {
         b.push(Block::Paragraph(format!("{words}.")));
     }
     if !fit.warnings().is_empty() {
