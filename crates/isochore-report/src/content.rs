@@ -550,13 +550,35 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
         vec!["source SHA-256".into(), input.source_sha256.clone()],
         vec!["series".into(), input.series_name.clone()],
         vec!["model".into(), o.model.key().to_string()],
+    ];
+    settings.extend(option_rows(o, fit.weighted(), e));
+    for (k, v) in &input.settings {
+        settings.push(vec![k.clone(), v.clone()]);
+    }
+    b.push(Block::Table(Table {
+        header: vec!["setting".into(), "value".into()],
+        rows: settings,
+        numeric: vec![false, false],
+        note: None,
+    }));
+    b
+}
+
+/// The fit options as rows of the "Reproducibility" table, from θ to R: the single fit's
+/// report and the joint fit's alike.
+pub(crate) fn option_rows(
+    o: &isochore_fit::FitOptions,
+    weighted: bool,
+    e: EnergyUnit,
+) -> Vec<Vec<String>> {
+    vec![
         vec![
             "reference temperature θ".into(),
             format!("{} K", fixed(o.t_ref_k, 2)),
         ],
         vec![
             names::WEIGHTING.into(),
-            names::weighting(fit.weighted()).to_string(),
+            names::weighting(weighted).to_string(),
         ],
         vec![
             names::SIGMA_CONVENTION.into(),
@@ -569,15 +591,5 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
         ],
         vec!["energy unit".into(), e.symbol().to_string()],
         vec!["R".into(), format!("{GAS_CONSTANT} J mol⁻¹ K⁻¹")],
-    ];
-    for (k, v) in &input.settings {
-        settings.push(vec![k.clone(), v.clone()]);
-    }
-    b.push(Block::Table(Table {
-        header: vec!["setting".into(), "value".into()],
-        rows: settings,
-        numeric: vec![false, false],
-        note: None,
-    }));
-    b
+    ]
 }

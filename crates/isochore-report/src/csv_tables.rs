@@ -7,11 +7,13 @@ use crate::present::{flag_words, statistics_rows};
 use crate::{ReportError, ReportInput};
 use std::fmt::Write as _;
 
-fn csv_err(e: csv::Error) -> ReportError {
+/// A CSV writer's error as the report's.
+pub(crate) fn csv_err(e: csv::Error) -> ReportError {
     ReportError::Input(format!("writing CSV: {e}"))
 }
 
-fn fin(v: f64) -> String {
+/// A number at full precision, or an empty cell when it is not finite.
+pub(crate) fn fin(v: f64) -> String {
     if v.is_finite() {
         format!("{v}")
     } else {
@@ -19,30 +21,30 @@ fn fin(v: f64) -> String {
     }
 }
 
+/// The columns of each point after its origin (row, line, cells as read): converted
+/// values and diagnostics — the single report's data CSV and the joint report's alike.
+pub(crate) const POINT_COLUMNS: [&str; 13] = [
+    "t_k",
+    "ln_k",
+    "sigma_ln_k",
+    "used",
+    "fitted",
+    "residual",
+    "leverage",
+    "student_int",
+    "student_ext",
+    "cooks_d",
+    "dffits",
+    "flags",
+    "exclusion_reason",
+];
+
 /// All data rows with full-precision converted values and diagnostics.
 pub(crate) fn data_csv(input: &ReportInput) -> Result<Vec<u8>, ReportError> {
     let mut w = csv::Writer::from_writer(Vec::new());
     let mut header: Vec<String> = vec!["row".into(), "line".into()];
     header.extend(input.headers.iter().map(|h| format!("as read: {h}")));
-    header.extend(
-        [
-            "t_k",
-            "ln_k",
-            "sigma_ln_k",
-            "used",
-            "fitted",
-            "residual",
-            "leverage",
-            "student_int",
-            "student_ext",
-            "cooks_d",
-            "dffits",
-            "flags",
-            "exclusion_reason",
-        ]
-        .iter()
-        .map(|s| s.to_string()),
-    );
+    header.extend(POINT_COLUMNS.iter().map(|s| s.to_string()));
     w.write_record(&header).map_err(csv_err)?;
     // One reused buffer per field rather than a vector of strings per row: a million rows
     // are written in about a second instead of several.

@@ -285,11 +285,22 @@ pub fn render_markdown(input: &ReportInput, figure_stem: &str) -> Result<String,
 /// The files [`write_report`] writes for `format` at `path`, in the order it writes them:
 /// for Markdown its figures `<file stem>-<kind>.svg` beside it, then the file itself.
 pub fn report_paths(format: ReportFormat, path: &Path) -> Vec<PathBuf> {
+    paths_with_figures(format, path, &FigureKind::ALL)
+}
+
+/// The files one format writes at `path` when the report holds the figures `kinds`: for
+/// Markdown each figure as `<file stem>-<kind>.svg` beside it, then the file itself (a
+/// single fit's report and a joint fit's alike).
+pub(crate) fn paths_with_figures(
+    format: ReportFormat,
+    path: &Path,
+    kinds: &[FigureKind],
+) -> Vec<PathBuf> {
     let mut paths = Vec::new();
     if format == ReportFormat::Markdown {
         let stem = markdown_stem(path);
         let dir = path.parent().unwrap_or_else(|| Path::new(""));
-        for kind in FigureKind::ALL {
+        for kind in kinds {
             paths.push(dir.join(format!("{stem}-{}.svg", kind.key())));
         }
     }
@@ -297,7 +308,8 @@ pub fn report_paths(format: ReportFormat, path: &Path) -> Vec<PathBuf> {
     paths
 }
 
-fn markdown_stem(path: &Path) -> String {
+/// The stem a Markdown report names its figures by: the file's name without extension.
+pub(crate) fn markdown_stem(path: &Path) -> String {
     path.file_stem()
         .and_then(|s| s.to_str())
         .unwrap_or("report")
@@ -312,6 +324,12 @@ pub fn report_set_plan(stem: &str) -> Vec<(ReportFormat, String)> {
 }
 
 fn set_plan(stem: &str) -> Vec<(ReportFormat, String)> {
+    plan_with_figures(stem, &FigureKind::ALL)
+}
+
+/// The formats of a report set holding the figures `kinds` and their file names under
+/// `stem`, in writing order (a single fit's set and a joint fit's alike).
+pub(crate) fn plan_with_figures(stem: &str, kinds: &[FigureKind]) -> Vec<(ReportFormat, String)> {
     let mut plan = vec![
         (ReportFormat::Markdown, format!("{stem}.md")),
         (ReportFormat::Html, format!("{stem}.html")),
@@ -319,7 +337,7 @@ fn set_plan(stem: &str) -> Vec<(ReportFormat, String)> {
         (ReportFormat::DataCsv, format!("{stem}-data.csv")),
         (ReportFormat::ResultsCsv, format!("{stem}-results.csv")),
     ];
-    for kind in FigureKind::ALL {
+    for &kind in kinds {
         plan.push((
             ReportFormat::FigurePng(kind),
             format!("{stem}-{}.png", kind.key()),

@@ -6,7 +6,7 @@
 use super::JointReportInput;
 use crate::content::{Block, Table, MAX_LIST_ITEMS, MAX_TABLE_ROWS};
 use crate::figures::FigureKind;
-use crate::present::{self, cautions, fixed, flag_words, joint, names, percent, show_t, sig};
+use crate::present::{self, cautions, fixed, flag_words, joint, names, percent, show_t};
 use isochore_fit::calorimetric::COUPLED_EQUILIBRIA_CAUTION;
 use isochore_fit::global::compensation::CORRELATED_ESTIMATES_CAUTION;
 use isochore_fit::{Weighting, GAS_CONSTANT};
@@ -563,22 +563,12 @@ fn record(input: &JointReportInput, b: &mut Vec<Block>) {
     rows.extend([
         vec!["model".into(), o.model.key().to_string()],
         vec!["shared".into(), shared.join(", ")],
-        vec![
-            "reference temperature θ".into(),
-            format!("{} K", fixed(o.t_ref_k, 2)),
-        ],
-        vec![
-            names::WEIGHTING.into(),
-            names::weighting(fit.weighted()).to_string(),
-        ],
-        vec![
-            names::SIGMA_CONVENTION.into(),
-            names::sigma_convention(o.convention).to_string(),
-        ],
-        vec!["confidence level".into(), sig(o.level, 4)],
-        vec!["energy unit".into(), input.energy_unit.symbol().to_string()],
-        vec!["R".into(), format!("{GAS_CONSTANT} J mol⁻¹ K⁻¹")],
     ]);
+    rows.extend(crate::content::option_rows(
+        o,
+        fit.weighted(),
+        input.energy_unit,
+    ));
     for (k, v) in &input.settings {
         rows.push(vec![k.clone(), v.clone()]);
     }

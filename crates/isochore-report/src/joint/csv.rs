@@ -6,20 +6,9 @@
 //! display units.
 
 use super::JointReportInput;
+use crate::csv_tables::{csv_err, fin, POINT_COLUMNS};
 use crate::present::{flag_words, joint};
 use crate::ReportError;
-
-fn csv_err(e: csv::Error) -> ReportError {
-    ReportError::Input(format!("writing CSV: {e}"))
-}
-
-fn fin(v: f64) -> String {
-    if v.is_finite() {
-        format!("{v}")
-    } else {
-        String::new()
-    }
-}
 
 fn opt(v: Option<f64>) -> String {
     v.map_or_else(String::new, fin)
@@ -28,26 +17,9 @@ fn opt(v: Option<f64>) -> String {
 /// Every row of every series, in the fit's series order.
 pub(super) fn data_csv(input: &JointReportInput) -> Result<Vec<u8>, ReportError> {
     let mut w = csv::Writer::from_writer(Vec::new());
-    w.write_record([
-        "series",
-        "source",
-        "row",
-        "line",
-        "t_k",
-        "ln_k",
-        "sigma_ln_k",
-        "used",
-        "fitted",
-        "residual",
-        "leverage",
-        "student_int",
-        "student_ext",
-        "cooks_d",
-        "dffits",
-        "flags",
-        "exclusion_reason",
-    ])
-    .map_err(csv_err)?;
+    let mut header = vec!["series", "source", "row", "line"];
+    header.extend(POINT_COLUMNS);
+    w.write_record(&header).map_err(csv_err)?;
     for (s, series) in input.series.iter().enumerate() {
         for (r, d) in series.rows.iter().zip(input.fit.points(s).unwrap_or(&[])) {
             w.write_record([

@@ -180,13 +180,6 @@ pub fn render_joint(
     }
 }
 
-fn markdown_stem(path: &Path) -> String {
-    path.file_stem()
-        .and_then(|s| s.to_str())
-        .unwrap_or("report")
-        .to_string()
-}
-
 /// The files [`write_joint_report`] writes for `format` at `path`, in writing order: for
 /// Markdown its figures `<file stem>-<kind>.svg` beside it, then the file itself.
 pub fn joint_report_paths(
@@ -194,16 +187,7 @@ pub fn joint_report_paths(
     format: ReportFormat,
     path: &Path,
 ) -> Vec<PathBuf> {
-    let mut paths = Vec::new();
-    if format == ReportFormat::Markdown {
-        let stem = markdown_stem(path);
-        let dir = path.parent().unwrap_or_else(|| Path::new(""));
-        for kind in input.figures() {
-            paths.push(dir.join(format!("{stem}-{}.svg", kind.key())));
-        }
-    }
-    paths.push(path.to_path_buf());
-    paths
+    crate::paths_with_figures(format, path, &input.figures())
 }
 
 /// Writes one format of a joint fit's report to `path` atomically (Markdown with its SVG
@@ -218,7 +202,7 @@ pub fn write_joint_report(
 ) -> Result<Vec<PathBuf>, ReportError> {
     input.validate()?;
     if format == ReportFormat::Markdown {
-        let stem = markdown_stem(path);
+        let stem = crate::markdown_stem(path);
         let paths = joint_report_paths(input, format, path);
         let mut written = Vec::new();
         for (kind, p) in input.figures().into_iter().zip(&paths) {
@@ -237,20 +221,7 @@ pub fn write_joint_report(
 
 /// The formats of a joint report set and their file names under `stem`, in writing order.
 pub fn joint_report_set_plan(input: &JointReportInput, stem: &str) -> Vec<(ReportFormat, String)> {
-    let mut plan = vec![
-        (ReportFormat::Markdown, format!("{stem}.md")),
-        (ReportFormat::Html, format!("{stem}.html")),
-        (ReportFormat::Pdf, format!("{stem}.pdf")),
-        (ReportFormat::DataCsv, format!("{stem}-data.csv")),
-        (ReportFormat::ResultsCsv, format!("{stem}-results.csv")),
-    ];
-    for kind in input.figures() {
-        plan.push((
-            ReportFormat::FigurePng(kind),
-            format!("{stem}-{}.png", kind.key()),
-        ));
-    }
-    plan
+    crate::plan_with_figures(stem, &input.figures())
 }
 
 /// Every file [`write_joint_report_set`] writes into `dir` under `stem`.
