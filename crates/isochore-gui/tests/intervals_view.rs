@@ -284,3 +284,51 @@ fn a_report_exported_from_the_window_compares_the_methods_as_the_command_line_do
     assert!(text.contains(names::bootstrap_scheme(BootstrapScheme::Residuals)));
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn with_a_heat_capacity_the_draws_of_delta_cp_and_of_the_temperature_where_delta_h_is_zero_are_drawn(
+) {
+    // The invented ligand demo (assets/demo), first series, fitted with constant ΔCp°: its
+    // run has ΔCp° and the temperature where ΔH° = 0 (as `vhfit fit … --model cp
+    // --intervals monte-carlo` lists them).
+    let path = concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/../../assets/demo/ligands_px_orrin3.csv"
+    );
+    let text = std::fs::read_to_string(path).unwrap();
+    let imp = isochore_data::import_text(
+        "ligands_px_orrin3.csv",
+        &text,
+        &isochore_data::ImportOptions::default(),
+    )
+    .unwrap();
+    let mut w = bench();
+    w.replace_project(
+        isochore_gui::doc::Project::from_data(isochore_data::Project::from_import(&imp), None),
+        false,
+    );
+    let id = w.active.unwrap();
+    let mut settings = w.project.get(id).unwrap().data.settings;
+    settings.fit.model = isochore_fit::Model::CONSTANT_CP;
+    settings.intervals = IntervalRequest {
+        choice: IntervalChoice::MonteCarlo,
+        draws: 1000,
+        seed: 1,
+    };
+    w.push(isochore_gui::command::Command::SetSettings {
+        series: id,
+        settings,
+    });
+    w.apply_pending();
+    let mut h = harness(w);
+    h.run_steps(2);
+    let run = window_run(h.state(), id);
+    assert!(run.get("delta_cp").is_some() && run.get("t_delta_h_zero").is_some());
+    assert!(same(&run, &command_line_run(h.state(), id)));
+    let drawn = h.state().results.intervals.drawn_histograms.clone();
+    let labels: Vec<&str> = drawn.iter().map(|d| d.0.as_str()).collect();
+    // present's label (it writes "ΔCp°(θ)" here, though ΔCp° of this model is constant).
+    assert!(labels.iter().any(|l| l.starts_with("ΔCp°")), "{labels:?}");
+    assert!(labels.contains(&"T where ΔH° = 0"), "{labels:?}");
+    assert!(drawn.iter().all(|d| d.1 == HISTOGRAM_BINS), "{drawn:?}");
+}
