@@ -96,10 +96,10 @@ pub(super) fn run(
         return Err(IntervalError::Cancelled);
     }
     let mut warnings = vec![format!(
-        "temperatures were drawn with their σ(T) and each draw refitted by the {} (the fit with errors in T); the values and the delta-method estimates beside the draws are that fit's, not the fit in K only's",
+        "temperatures were drawn with their σ(T) and each draw refitted by {} (the fit with errors in T); the values and the delta-method estimates beside the draws are that fit's, not the fit in K only's",
         match eiv.method() {
-            crate::errors_in_t::ErrorsInTMethod::York => "York fit",
-            crate::errors_in_t::ErrorsInTMethod::OrthogonalDistance => "orthogonal-distance fit",
+            crate::errors_in_t::ErrorsInTMethod::York => "York's fit",
+            crate::errors_in_t::ErrorsInTMethod::OrthogonalDistance => "the orthogonal-distance fit",
         }
     )];
     if scaled {
