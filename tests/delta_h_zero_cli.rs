@@ -139,3 +139,37 @@ fn no_sign_change_and_unresolved_heat_capacity_are_said_in_words() {
         "{text}"
     );
 }
+
+/// With `--intervals`, `t_delta_h_zero` takes the run's interval and value: the fit's own T₀
+/// without σ(T) (the same number as the delta-method document's), the fit with errors in
+/// T's when Monte Carlo is centred on it (`--sigma-t`).
+#[test]
+fn resampled_runs_fill_the_temperature_where_delta_h_is_zero() {
+    let path = demo("acid_pka.csv");
+    let base = ["fit", path.as_str(), "--model", "cp", "--json", "--summary"];
+    let with = |extra: &[&str]| {
+        let args: Vec<&str> = base.iter().chain(extra).copied().collect();
+        json_of(&run(&args))
+    };
+    let plain = with(&[]);
+    let mc = ["--intervals", "monte-carlo", "--draws", "800"];
+    let j = with(&mc);
+    let quantity = |j: &serde_json::Value| {
+        j["intervals"]["quantities"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .find(|q| q["key"] == "t_delta_h_zero")
+            .unwrap()["estimate"]
+            .clone()
+    };
+    let z = &j["t_delta_h_zero"];
+    assert_eq!(z["method"], "monte_carlo");
+    assert_eq!(z["value"], plain["t_delta_h_zero"]["value"]);
+    assert_eq!(z["ci_low"], quantity(&j)["ci_low"]);
+    assert_eq!(z["se"], quantity(&j)["se"]);
+    let j = with(&[mc[0], mc[1], mc[2], mc[3], "--sigma-t", "0.5K"]);
+    let z = &j["t_delta_h_zero"];
+    assert_eq!(z["value"], quantity(&j)["value"]);
+    assert_ne!(z["value"], plain["t_delta_h_zero"]["value"]);
+}

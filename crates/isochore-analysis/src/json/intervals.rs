@@ -67,8 +67,11 @@ pub fn apply(doc: &mut FitJson<'_>, run: &IntervalRun) {
             *e = n.estimate_with(key, &best.estimate(), best.method.key());
         }
     }
+    // The value too: the fit's own without σ(T) (the same number), the fit with errors in
+    // T's when Monte Carlo was centred on it.
     if let (Some(t), Some(q)) = (doc.t_at_k1.as_mut(), run.get("t_at_k1")) {
         let best = q.best();
+        t.value = best.value.is_finite().then_some(best.value);
         t.se = best.se.is_finite().then_some(best.se);
         t.ci_low = best.ci_low.is_finite().then_some(best.ci_low);
         t.ci_high = best.ci_high.is_finite().then_some(best.ci_high);
@@ -76,6 +79,7 @@ pub fn apply(doc: &mut FitJson<'_>, run: &IntervalRun) {
     }
     if let (Some(t), Some(q)) = (doc.t_delta_h_zero.as_mut(), run.get("t_delta_h_zero")) {
         let best = q.best();
+        t.value = best.value.is_finite().then_some(best.value);
         t.se = best.se.is_finite().then_some(best.se);
         t.ci_low = best.ci_low.is_finite().then_some(best.ci_low);
         t.ci_high = best.ci_high.is_finite().then_some(best.ci_high);
