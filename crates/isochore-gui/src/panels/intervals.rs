@@ -347,13 +347,14 @@ fn histograms(
         };
         let scale = si_per_unit(&o.fit, q.quantity.kind, energy);
         let best = q.best();
-        // A compound unit in parentheses (present's rule); a plain one as "T / K".
+        // A compound unit in parentheses (present's rule); a plain one after a comma, since
+        // "T where K = 1.000 / K" would read as a division.
         let axis = if row.unit.is_empty() {
             row.quantity.clone()
         } else if row.unit.contains(['/', '·']) {
             names::quantity_axis(&row.quantity, &row.unit)
         } else {
-            format!("{} / {}", row.quantity, row.unit)
+            format!("{}, in {}", row.quantity, row.unit)
         };
         let bars: Vec<Bar> = h
             .counts
