@@ -58,7 +58,9 @@ pub fn report_runs(
 
 /// Runs the requested method on `set` and its `fit`; `None` for the delta method, whose
 /// intervals are the fit's own. Monte Carlo draws the temperatures as well when the set has
-/// σ(T) ([`PreparedSet::sigma_t_k`]); the bootstrap resamples the fit in K only.
+/// σ(T) ([`PreparedSet::sigma_t_k`]), and is then centred on the fit with errors in T and
+/// refits each draw by it (isochore-fit's `monte_carlo`); the bootstrap resamples the fit in
+/// K only.
 ///
 /// # Errors
 /// The run's refusal in words ([`IntervalError`]: draws out of range, too few points for the
