@@ -332,3 +332,41 @@ fn with_a_heat_capacity_the_draws_of_delta_cp_and_of_the_temperature_where_delta
     assert!(labels.contains(&"T where ΔH° = 0"), "{labels:?}");
     assert!(drawn.iter().all(|d| d.1 == HISTOGRAM_BINS), "{drawn:?}");
 }
+
+#[test]
+fn a_run_the_library_refuses_is_said_in_words_and_the_delta_method_stays() {
+    let mut w = bench();
+    let id = w.active.unwrap();
+    // Seven of the binding demo's ten rows left out: three points, fewer than the
+    // bootstrap's p + 2 = 4 for the linear model.
+    for row in 3..10 {
+        w.push(isochore_gui::command::Command::SetExclusion {
+            series: id,
+            row,
+            exclusion: Some(("test".into(), "2026-12-01T21:00:00Z".into())),
+        });
+    }
+    let mut settings = w.project.get(id).unwrap().data.settings;
+    settings.intervals = IntervalRequest {
+        choice: IntervalChoice::Bootstrap(BootstrapScheme::Residuals),
+        draws: 100,
+        seed: 1,
+    };
+    w.push(isochore_gui::command::Command::SetSettings {
+        series: id,
+        settings,
+    });
+    w.apply_pending();
+    let h = harness(w);
+    assert!(matches!(
+        h.state().interval_runs.state(id).map(|s| s.1),
+        Some(RunState::Failed(_))
+    ));
+    // isochore-fit's sentence, after the window's words.
+    assert!(shows_part(
+        &h,
+        "No intervals by resampling: the bootstrap needs at least 4 used points"
+    ));
+    assert!(shows(&h, "95 % CI") && shows(&h, names::interval_method(IntervalMethod::Delta)));
+    assert!(h.state().results.intervals.drawn_histograms.is_empty());
+}
