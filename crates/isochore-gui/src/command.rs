@@ -140,6 +140,7 @@ pub fn apply(project: &mut Project, cmd: Command) -> Option<Command> {
             let s = project.get_mut(series)?;
             let cell = s.data.raw_rows_mut().get_mut(row)?.cells.get_mut(column)?;
             let old = std::mem::replace(cell, text);
+            s.cells_rev = s.cells_rev.wrapping_add(1);
             bump(s);
             Some(Command::EditCell {
                 series,

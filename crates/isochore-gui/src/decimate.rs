@@ -30,7 +30,21 @@ impl EnvelopeIndex {
             .into_iter()
             .filter(|(_, x, y)| x.is_finite() && y.is_finite())
             .collect();
-        pts.sort_by(|a, b| a.1.total_cmp(&b.1).then(a.0.cmp(&b.0)));
+        pts.sort_by(by_x_then_id);
+        Self::from_sorted(pts)
+    }
+
+    /// Builds the index from `(id, x, y)` triples already in the order [`EnvelopeIndex::new`]
+    /// sorts them into (x ascending, ties by id), skipping the sort; points with a
+    /// non-finite coordinate are left out, as there. Given such an order, the index is the
+    /// same as `new` builds from the same points (a refit reuses the order of its points by
+    /// temperature, which an exclusion does not change).
+    pub fn from_sorted(points: impl IntoIterator<Item = (u32, f64, f64)>) -> Self {
+        let pts: Vec<(u32, f64, f64)> = points
+            .into_iter()
+            .filter(|(_, x, y)| x.is_finite() && y.is_finite())
+            .collect();
+        debug_assert!(pts.windows(2).all(|w| by_x_then_id(&w[0], &w[1]).is_lt()));
         let xs: Vec<f64> = pts.iter().map(|p| p.1).collect();
         let ys: Vec<f64> = pts.iter().map(|p| p.2).collect();
         let ids: Vec<u32> = pts.iter().map(|p| p.0).collect();
@@ -48,6 +62,11 @@ impl EnvelopeIndex {
             ids,
             blocks,
         }
+    }
+
+    /// The ids of the points in the index's order (x ascending, ties by id).
+    pub fn ids(&self) -> &[u32] {
+        &self.ids
     }
 
     /// Number of drawable points.
@@ -126,6 +145,12 @@ impl EnvelopeIndex {
         }
         (lo, hi)
     }
+}
+
+/// The order of the index: x ascending (`total_cmp`), ties by id. A total order, so every
+/// sort of the same points gives the same sequence whatever order they arrive in.
+pub fn by_x_then_id(a: &(u32, f64, f64), b: &(u32, f64, f64)) -> std::cmp::Ordering {
+    a.1.total_cmp(&b.1).then(a.0.cmp(&b.0))
 }
 
 /// The first position in `a..end` where `inside` turns false, given it holds at `a` and
@@ -322,5 +347,12 @@ mod tests {
         }
         assert!(index.envelope(5.0, 5.0, 10).is_empty());
         assert!(EnvelopeIndex::default().envelope(0.0, 1.0, 10).is_empty());
+        // The same points handed over already in order give the same index.
+        let sorted =
+            EnvelopeIndex::from_sorted(order.iter().map(|&i| (i, xs[i as usize], ys[i as usize])));
+        assert_eq!(sorted.ids(), index.ids());
+        for (lo, hi, cols) in [(0.0, 49.99, 1000), (3.3, 3.31, 640)] {
+            assert_eq!(sorted.envelope(lo, hi, cols), index.envelope(lo, hi, cols));
+        }
     }
 }

@@ -28,6 +28,10 @@ pub struct Entry {
     pub id: u64,
     /// Revision, bumped by every change (drives refits).
     pub rev: u64,
+    /// Bumped by every change to a cell (not by exclusions or settings): while it stays
+    /// the same, the cells convert as before, so a refit after an exclusion reuses the
+    /// converted points ([`crate::fitting`]).
+    pub cells_rev: u64,
     /// The data set as saved in project files.
     pub data: DataSet,
 }
@@ -49,6 +53,7 @@ impl Entry {
         Entry {
             id: next_id(),
             rev: 0,
+            cells_rev: 0,
             data,
         }
     }

@@ -2,9 +2,18 @@
 //! in the same frame; large ones on a worker thread, with the previous result kept on
 //! screen and a progress note until the new one arrives. The numbers all come from
 //! `isochore_fit`; this module only schedules the calls and orders points for drawing.
+//!
+//! A refit after an exclusion does not start from the cells again: what the cells give
+//! before any fit ([`Prepared`]: the converted points, which rows each stands for, the
+//! weighting rule's decision, the van 't Hoff plot's index and the points' order by
+//! temperature) is kept with the analysis and reused while the cells, the mapping and the
+//! settings stay the same; only the points' "included" marks are set again and the fit
+//! runs. The analysis is the same, field for field, as one made from the cells (tested).
 
-use crate::decimate::EnvelopeIndex;
+use crate::decimate::{by_x_then_id, EnvelopeIndex};
 use crate::doc::Entry;
+use isochore_analysis::weighting::Weighed;
+use isochore_data::{ColumnMapping, Replicates, SeriesSettings};
 use isochore_fit::{BandPoint, Measurement, VantHoffFit};
 use std::collections::HashMap;
 use std::sync::mpsc::{channel, Receiver, TryRecvError};
@@ -25,9 +34,9 @@ pub struct Analysis {
     /// unless replicates are averaged.
     pub measurements: Vec<Measurement>,
     /// 0-based rows of each point.
-    pub point_rows: Vec<Vec<usize>>,
+    pub point_rows: Arc<Vec<Vec<usize>>>,
     /// For each 0-based row, its point.
-    pub point_of_row: Vec<Option<usize>>,
+    pub point_of_row: Arc<Vec<Option<usize>>>,
     /// The fit, or the reason there is none, in words.
     pub fit: Result<VantHoffFit, String>,
     /// The way out the window offers when the fit was refused for a reason the chemist
@@ -41,11 +50,11 @@ pub struct Analysis {
     pub h_g_region: Option<Vec<[f64; 2]>>,
     /// Large series only (else empty): points by 10³/T with ln K, for decimated drawing
     /// of the van 't Hoff plot.
-    pub vh_index: EnvelopeIndex,
+    pub vh_index: Arc<EnvelopeIndex>,
     /// Large series only: points by T (kelvin) with their residual (residual plot).
-    pub resid_index: EnvelopeIndex,
+    pub resid_index: Arc<EnvelopeIndex>,
     /// Large series only: points with a studentized residual, by leverage (influence view).
-    pub infl_index: EnvelopeIndex,
+    pub infl_index: Arc<EnvelopeIndex>,
     /// Data extent on the van 't Hoff plot: [min 10³/T, max 10³/T, min ln K, max ln K].
     pub extent: Option<[f64; 4]>,
     /// Cook's-distance contours for the influence view: (D, upper branch points (h, t)) in
@@ -54,6 +63,138 @@ pub struct Analysis {
     /// The fit with errors in T, when the series has a thermometer uncertainty or a σ(T)
     /// column (isochore-analysis runs it; `None` otherwise), or why there is none.
     pub errors_in_t: Option<Result<isochore_fit::errors_in_t::ErrorsInTFit, String>>,
+    /// What the cells gave before the fit, for the next refit while they stay the same.
+    prepared: Option<Arc<Prepared>>,
+}
+
+/// What decides how a series' cells convert and are weighted: while it is the same, the
+/// converted points of [`Prepared`] still hold (an exclusion changes none of it).
+#[derive(Debug, Clone, PartialEq)]
+struct PrepKey {
+    cells_rev: u64,
+    n_rows: usize,
+    sha256: String,
+    mapping: ColumnMapping,
+    decimal_comma: bool,
+    settings: SeriesSettings,
+}
+
+impl PrepKey {
+    fn of(series: &Entry) -> PrepKey {
+        let d = &series.data;
+        PrepKey {
+            cells_rev: series.cells_rev,
+            n_rows: series.n_rows(),
+            sha256: d.source.sha256.clone(),
+            mapping: d.mapping.clone(),
+            decimal_comma: d.decimal_comma,
+            settings: d.settings,
+        }
+    }
+}
+
+/// What a series' cells give before any fit, kept for the refits that follow an exclusion.
+struct Prepared {
+    key: PrepKey,
+    /// The converted points, "included" as they were when converted.
+    measurements: Vec<Measurement>,
+    point_rows: Arc<Vec<Vec<usize>>>,
+    point_of_row: Arc<Vec<Option<usize>>>,
+    /// The weighting rule's decision (isochore-analysis), or its refusal in words.
+    weighed: Result<Weighed, String>,
+    vh_index: Arc<EnvelopeIndex>,
+    extent: Option<[f64; 4]>,
+    /// Large series only: the points with a finite temperature, by T and then index (the
+    /// residual plot's order, which no refit changes).
+    t_order: Vec<u32>,
+    large: bool,
+}
+
+/// Only the key: the rest is shown by the analysis' own fields, and the points' "included"
+/// marks are those of the conversion, not of the analysis.
+impl std::fmt::Debug for Prepared {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.debug_struct("Prepared")
+            .field("key", &self.key)
+            .finish_non_exhaustive()
+    }
+}
+
+impl Prepared {
+    fn new(series: &Entry, points: crate::doc::Points) -> Prepared {
+        let measurements = points.measurements;
+        // The weighting rule the command line follows, from isochore-analysis: no σ at all
+        // is fitted with equal weights (and says so among the fit's cautions); σ in some rows
+        // and an empty σ cell in another is refused with the line and column of that cell,
+        // never fitted silently, and fitting unweighted is the way out.
+        let weighed = isochore_analysis::weighting::for_data_set(&series.data, *series.options())
+            .map_err(|e| e.to_string());
+        let large = measurements.len() > crate::panels::vh_plot::DECIMATE_ABOVE;
+        let vh_index = if large {
+            EnvelopeIndex::new(
+                measurements
+                    .iter()
+                    .enumerate()
+                    .map(|(k, m)| (k as u32, 1e3 / m.t_k, m.ln_k)),
+            )
+        } else {
+            EnvelopeIndex::default()
+        };
+        let t_order = if large {
+            let mut order: Vec<(u32, f64, f64)> = measurements
+                .iter()
+                .enumerate()
+                .filter(|(_, m)| m.t_k.is_finite())
+                .map(|(k, m)| (k as u32, m.t_k, 0.0))
+                .collect();
+            order.sort_by(by_x_then_id);
+            order.into_iter().map(|p| p.0).collect()
+        } else {
+            Vec::new()
+        };
+        let extent = measurements.iter().fold(None, |acc: Option<[f64; 4]>, m| {
+            let x = 1e3 / m.t_k;
+            Some(match acc {
+                None => [x, x, m.ln_k, m.ln_k],
+                Some([a, b, c, d]) => [a.min(x), b.max(x), c.min(m.ln_k), d.max(m.ln_k)],
+            })
+        });
+        Prepared {
+            key: PrepKey::of(series),
+            measurements,
+            point_rows: Arc::new(points.rows),
+            point_of_row: Arc::new(points.point_of_row),
+            weighed,
+            vh_index: Arc::new(vh_index),
+            extent,
+            t_order,
+            large,
+        }
+    }
+
+    /// Whether a refit of `series` may start from these points: the same cells, mapping and
+    /// settings, each point one row (replicates averaged regroup when a row is excluded), and
+    /// no fit with errors in T (made by isochore-analysis from the data set itself).
+    fn serves(&self, series: &Entry) -> bool {
+        let d = &series.data;
+        d.settings.replicates == Replicates::Keep
+            && d.settings.thermometer_uncertainty_k.is_none()
+            && d.mapping.temperature_uncertainty.is_none()
+            && self.point_rows.iter().all(|r| r.len() == 1)
+            && self.key == PrepKey::of(series)
+    }
+
+    /// The points with the "included" marks of the sorted 1-based rows `excluded`, as
+    /// isochore-data marks them (a point is left out when its row is excluded).
+    fn measurements_excluding(&self, excluded: &[usize]) -> Vec<Measurement> {
+        let mut out = self.measurements.clone();
+        for (m, rows) in out.iter_mut().zip(self.point_rows.iter()) {
+            m.included = !rows
+                .iter()
+                .any(|&r| excluded.binary_search(&(r + 1)).is_ok());
+        }
+        out
+    }
 }
 
 /// A setting that settles why a fit was refused, offered beside the message: the
@@ -62,7 +203,6 @@ pub use isochore_analysis::Remedy;
 
 /// Fits one series (pure: the same series gives the same analysis).
 pub fn analyse(series: &Entry) -> Analysis {
-    let rev = series.rev;
     let points = match series.points() {
         Ok(p) => p,
         Err(e) => {
@@ -74,45 +214,84 @@ pub fn analyse(series: &Entry) -> Analysis {
                 .err()
                 .and_then(|d| Remedy::for_data(&d));
             return Analysis {
-                rev,
+                rev: series.rev,
                 measurements: Vec::new(),
-                point_rows: Vec::new(),
-                point_of_row: Vec::new(),
+                point_rows: Arc::default(),
+                point_of_row: Arc::default(),
                 fit: Err(e),
                 remedy,
                 band: Vec::new(),
                 ellipse: None,
                 h_g_region: None,
-                vh_index: EnvelopeIndex::default(),
-                resid_index: EnvelopeIndex::default(),
-                infl_index: EnvelopeIndex::default(),
+                vh_index: Arc::default(),
+                resid_index: Arc::default(),
+                infl_index: Arc::default(),
                 extent: None,
                 cooks_contours: Vec::new(),
                 errors_in_t: None,
+                prepared: None,
             };
         }
     };
-    let measurements = points.measurements;
-    // The weighting rule the command line follows, from isochore-analysis: no σ at all is
-    // fitted with equal weights (and says so among the fit's cautions); σ in some rows and an
-    // empty σ cell in another is refused with the line and column of that cell, never fitted
-    // silently, and fitting unweighted is the way out.
-    let (fit, remedy) =
-        match isochore_analysis::weighting::for_data_set(&series.data, *series.options()) {
-            Err(e) => (Err(e.to_string()), Some(Remedy::FitUnweighted)),
-            Ok(weighed) => match isochore_fit::fit(&measurements, &weighed.options) {
-                Ok(mut f) => {
-                    if let Some(note) = weighed.note {
-                        f.prepend_warning(isochore_fit::Warning::new(
-                            isochore_fit::WarningKind::SettingIgnored,
-                            note,
-                        ));
-                    }
-                    (Ok(f), None)
+    let prepared = Arc::new(Prepared::new(series, points));
+    let measurements = prepared.measurements.clone();
+    finish(
+        series.rev,
+        prepared,
+        measurements,
+        errors_in_t_of(series),
+        None,
+    )
+}
+
+/// Refits `series` from the points `previous` was made from, when they still hold (only
+/// exclusions changed): the same analysis as [`analyse`] gives, without converting the
+/// cells again. `None` when the cells, mapping or settings changed since.
+pub fn reanalyse(series: &Entry, previous: &Analysis) -> Option<Analysis> {
+    refit_job(series, previous).map(|job| job())
+}
+
+/// The work of [`reanalyse`], ready to run on another thread (it holds no reference to the
+/// series).
+fn refit_job(series: &Entry, previous: &Analysis) -> Option<impl FnOnce() -> Analysis + Send> {
+    let prepared = previous.prepared.clone()?;
+    if !prepared.serves(series) {
+        return None;
+    }
+    let excluded = series.data.excluded_rows();
+    let rev = series.rev;
+    let hint = previous.infl_index.clone();
+    Some(move || {
+        let m = prepared.measurements_excluding(&excluded);
+        finish(rev, prepared, m, None, Some(hint))
+    })
+}
+
+/// The fit of `measurements` (the points of `prepared` with their current "included"
+/// marks) and everything drawn from it. `infl_hint`: the influence view's previous order,
+/// a starting point for sorting the new one (the result does not depend on it).
+fn finish(
+    rev: u64,
+    prepared: Arc<Prepared>,
+    measurements: Vec<Measurement>,
+    errors_in_t: Option<Result<isochore_fit::errors_in_t::ErrorsInTFit, String>>,
+    infl_hint: Option<Arc<EnvelopeIndex>>,
+) -> Analysis {
+    let (fit, remedy) = match &prepared.weighed {
+        Err(e) => (Err(e.clone()), Some(Remedy::FitUnweighted)),
+        Ok(weighed) => match isochore_fit::fit(&measurements, &weighed.options) {
+            Ok(mut f) => {
+                if let Some(note) = weighed.note {
+                    f.prepend_warning(isochore_fit::Warning::new(
+                        isochore_fit::WarningKind::SettingIgnored,
+                        note,
+                    ));
                 }
-                Err(e) => (Err(e.to_string()), Remedy::for_fit(&e)),
-            },
-        };
+                (Ok(f), None)
+            }
+            Err(e) => (Err(e.to_string()), Remedy::for_fit(&e)),
+        },
+    };
     let (band, ellipse, h_g_region, contours) = match &fit {
         Ok(f) => {
             let band = f.band_grid(BAND_POINTS, 0.08);
@@ -141,55 +320,69 @@ pub fn analyse(series: &Entry) -> Analysis {
         }
         Err(_) => (Vec::new(), None, None, Vec::new()),
     };
-    let large = measurements.len() > crate::panels::vh_plot::DECIMATE_ABOVE;
-    let vh_index = if large {
-        EnvelopeIndex::new(
-            measurements
-                .iter()
-                .enumerate()
-                .map(|(k, m)| (k as u32, 1e3 / m.t_k, m.ln_k)),
-        )
-    } else {
-        EnvelopeIndex::default()
-    };
     let (resid_index, infl_index) = match &fit {
-        Ok(f) if large => (
-            EnvelopeIndex::new(
-                f.points()
-                    .iter()
-                    .map(|d| (d.index as u32, d.t_k, d.residual)),
-            ),
-            EnvelopeIndex::new(f.points().iter().filter_map(|d| {
-                isochore_fit::influence::influence_coordinates(d)
-                    .map(|[h, t]| (d.index as u32, h, t))
-            })),
-        ),
+        Ok(f) if prepared.large => {
+            // Every point's diagnostics are made here, on the fit's thread, so that the
+            // panels' first look at them costs the UI thread nothing.
+            let points = f.points();
+            let resid = EnvelopeIndex::from_sorted(prepared.t_order.iter().filter_map(|&k| {
+                points
+                    .get(k as usize)
+                    .map(|d| (d.index as u32, d.t_k, d.residual))
+            }));
+            (resid, influence_index(points, infl_hint.as_deref()))
+        }
         _ => (EnvelopeIndex::default(), EnvelopeIndex::default()),
     };
-    let extent = measurements.iter().fold(None, |acc: Option<[f64; 4]>, m| {
-        let x = 1e3 / m.t_k;
-        Some(match acc {
-            None => [x, x, m.ln_k, m.ln_k],
-            Some([a, b, c, d]) => [a.min(x), b.max(x), c.min(m.ln_k), d.max(m.ln_k)],
-        })
-    });
     Analysis {
         rev,
-        extent,
+        extent: prepared.extent,
         measurements,
-        point_rows: points.rows,
-        point_of_row: points.point_of_row,
+        point_rows: prepared.point_rows.clone(),
+        point_of_row: prepared.point_of_row.clone(),
         fit,
         remedy,
         band,
         ellipse,
         h_g_region,
-        vh_index,
-        resid_index,
-        infl_index,
+        vh_index: prepared.vh_index.clone(),
+        resid_index: Arc::new(resid_index),
+        infl_index: Arc::new(infl_index),
         cooks_contours: contours,
-        errors_in_t: errors_in_t_of(series),
+        errors_in_t,
+        prepared: Some(prepared),
     }
+}
+
+/// The influence view's index: points with a studentized residual, by leverage. A refit
+/// moves every leverage a little but seldom their order, so the previous index's order
+/// (`hint`) is sorted again, which the sort does in nearly one pass; the order sorted to is
+/// total (leverage, then index), so the index is the same whatever the starting order.
+fn influence_index(
+    points: &[isochore_fit::PointDiagnostics],
+    hint: Option<&EnvelopeIndex>,
+) -> EnvelopeIndex {
+    let coords: Vec<Option<[f64; 2]>> = points
+        .iter()
+        .map(isochore_fit::influence::influence_coordinates)
+        .collect();
+    let mut seen = vec![false; points.len()];
+    let mut order: Vec<(u32, f64, f64)> = Vec::with_capacity(points.len());
+    let mut take = |k: usize, order: &mut Vec<(u32, f64, f64)>| {
+        if let (Some(Some([h, t])), Some(false)) = (coords.get(k), seen.get(k).copied()) {
+            seen[k] = true;
+            order.push((points[k].index as u32, *h, *t));
+        }
+    };
+    for &id in hint.map_or(&[][..], EnvelopeIndex::ids) {
+        take(id as usize, &mut order);
+    }
+    for k in 0..points.len() {
+        take(k, &mut order);
+    }
+    order.retain(|(_, x, y)| x.is_finite() && y.is_finite());
+    order.sort_by(by_x_then_id);
+    EnvelopeIndex::from_sorted(order)
 }
 
 /// The fit with errors in T of a series that has σ(T) (the thermometer uncertainty setting
@@ -264,16 +457,29 @@ impl Fitter {
             if up_to_date || in_flight {
                 continue;
             }
+            // After an exclusion the previous analysis' converted points still hold: the
+            // refit starts from them (no copy of the series, no conversion of its cells).
+            let job = slot.current.as_ref().and_then(|a| refit_job(s, a));
             if s.n_rows() <= BACKGROUND_ROWS {
-                slot.current = Some(Arc::new(analyse(s)));
+                let a = match job {
+                    Some(job) => job(),
+                    None => analyse(s),
+                };
+                slot.current = Some(Arc::new(a));
                 slot.pending = None;
             } else {
                 let (tx, rx) = channel();
-                let copy = s.clone();
+                let work: Box<dyn FnOnce() -> Analysis + Send> = match job {
+                    Some(job) => Box::new(job),
+                    None => {
+                        let copy = s.clone();
+                        Box::new(move || analyse(&copy))
+                    }
+                };
                 let spawned = std::thread::Builder::new()
                     .name("isochore-fit".into())
                     .spawn(move || {
-                        let _ = tx.send(analyse(&copy));
+                        let _ = tx.send(work());
                     });
                 match spawned {
                     Ok(_) => slot.pending = Some((s.rev, rx, now)),

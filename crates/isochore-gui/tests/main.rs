@@ -7,6 +7,7 @@ mod features;
 mod intervals_view;
 mod joint_view;
 mod plots;
+mod refit;
 mod shared_rules;
 mod small_screen;
 mod walkthrough;

@@ -1,0 +1,91 @@
+//! A refit after an exclusion with 10⁶ points, as the window does it: the series' revision
+//! changes, `fitting::Fitter::update` starts the refit on its worker thread and the
+//! benchmark waits for the result (the window keeps drawing the previous result
+//! meanwhile). Each iteration excludes or brings back one row, so every refit fits a
+//! different set of points. Beside it, for comparison: `isochore_fit::fit` alone on the same
+//! points, and the analysis made from the cells (what every refit cost before the
+//! converted points were kept).
+//!
+//! Run: `cargo bench -p isochore-gui --bench refit`.
+
+use criterion::{criterion_group, criterion_main, Criterion};
+use isochore_gui::command::{apply, Command};
+use isochore_gui::doc::Project;
+use isochore_gui::fitting::{analyse, Fitter};
+use std::time::{Duration, Instant};
+
+/// A million invented points: ln K = 3000/T − 5 with deterministic noise, 5–45 °C, read by
+/// isochore-data from CSV text exactly as a file would be (as in the `frames` benchmark).
+fn big_project(n: usize) -> Project {
+    let mut state: u64 = 0x2545_f491_4f6c_dd1d;
+    let mut noise = || {
+        // xorshift64*: a fixed, portable pseudo-random stream.
+        state ^= state >> 12;
+        state ^= state << 25;
+        state ^= state >> 27;
+        let x = state.wrapping_mul(0x2545_f491_4f6c_dd1d);
+        (x >> 11) as f64 / (1u64 << 53) as f64 - 0.5
+    };
+    let mut text = String::from("T (°C),ln K,u(ln K)\n");
+    for i in 0..n {
+        let t = 5.0 + 40.0 * i as f64 / n as f64;
+        let ln_k = 3000.0 / (t + 273.15) - 5.0 + 0.05 * noise();
+        text.push_str(&format!("{t:.6},{ln_k:.6},0.03\n"));
+    }
+    let imp = isochore_data::import_text("synthetic.csv", &text, &Default::default())
+        .expect("synthetic data import");
+    Project::from_data(isochore_data::Project::from_import(&imp), None)
+}
+
+fn refit(c: &mut Criterion) {
+    let mut project = big_project(1_000_000);
+    let id = project.series[0].id;
+    let mut fitter = Fitter::default();
+    let start = Instant::now();
+    fitter.update(&project.series, 0.0, true);
+    eprintln!(
+        "first analysis of 10⁶ points (from the cells): {:.2?}",
+        start.elapsed()
+    );
+    let mut row = 0usize;
+    let mut excluded = false;
+    let mut group = c.benchmark_group("refit, 10^6 points");
+    group.sample_size(10);
+    group.measurement_time(Duration::from_secs(10));
+    group.bench_function("after an exclusion (the window's path)", |b| {
+        b.iter(|| {
+            excluded = !excluded;
+            if excluded {
+                row = (row + 7919) % 1_000_000;
+            }
+            apply(
+                &mut project,
+                Command::SetExclusion {
+                    series: id,
+                    row,
+                    exclusion: excluded.then(|| ("bench".into(), "2026-12-03T12:00:00Z".into())),
+                },
+            )
+            .expect("row exists");
+            fitter.update(&project.series, 0.0, true);
+            std::hint::black_box(fitter.get(id));
+        })
+    });
+    let points = project.series[0].points().expect("points").measurements;
+    let options = isochore_analysis::weighting::for_data_set(
+        &project.series[0].data,
+        *project.series[0].options(),
+    )
+    .expect("weighting")
+    .options;
+    group.bench_function("isochore_fit::fit alone", |b| {
+        b.iter(|| std::hint::black_box(isochore_fit::fit(&points, &options).expect("fit")))
+    });
+    group.bench_function("analysis from the cells", |b| {
+        b.iter(|| std::hint::black_box(analyse(&project.series[0])))
+    });
+    group.finish();
+}
+
+criterion_group!(benches, refit);
+criterion_main!(benches);
