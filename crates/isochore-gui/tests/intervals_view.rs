@@ -370,3 +370,32 @@ fn a_run_the_library_refuses_is_said_in_words_and_the_delta_method_stays() {
     assert!(shows(&h, "95 % CI") && shows(&h, names::interval_method(IntervalMethod::Delta)));
     assert!(h.state().results.intervals.drawn_histograms.is_empty());
 }
+
+#[test]
+fn with_a_thermometer_uncertainty_monte_carlo_is_still_the_command_lines() {
+    // σ(T) = 0.1 K for every point: each draw draws the temperatures too (isochore-analysis
+    // passes the data set's σ(T), as `vhfit fit … --sigma-t 0.1K --intervals monte-carlo`).
+    let mut w = bench();
+    let id = w.active.unwrap();
+    let mut settings = w.project.get(id).unwrap().data.settings;
+    settings.thermometer_uncertainty_k = Some(0.1);
+    settings.intervals = IntervalRequest {
+        choice: IntervalChoice::MonteCarlo,
+        draws: 300,
+        seed: 11,
+    };
+    w.push(isochore_gui::command::Command::SetSettings {
+        series: id,
+        settings,
+    });
+    w.apply_pending();
+    let h = harness(w);
+    let run = window_run(h.state(), id);
+    assert!(same(&run, &command_line_run(h.state(), id)));
+    assert!(
+        run.warnings.iter().any(|w| w.contains("σ(T)")),
+        "{:?}",
+        run.warnings
+    );
+    assert!(shows(&h, "95 % CI (Monte Carlo, 300 draws)"));
+}
