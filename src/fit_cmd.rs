@@ -59,8 +59,10 @@ fn write_report(
     fit: &VantHoffFit,
     targets: &[PathBuf],
     intervals: &isochore_analysis::intervals::IntervalRequest,
+    calorimetric: &[isochore_fit::calorimetric::CalorimetricComparison],
 ) -> Result<Vec<PathBuf>, String> {
     let mut input = report_input(job, fit.clone());
+    input.calorimetric = calorimetric.to_vec();
     // With --intervals monte-carlo or bootstrap the report compares both with the delta
     // method (issue 13).
     input.intervals = isochore_analysis::intervals::report_runs(job, fit, intervals)
@@ -366,7 +368,14 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
             if t.is_empty() {
                 continue;
             }
-            match write_report(p, job, fit, &t, &intervals) {
+            match write_report(
+                p,
+                job,
+                fit,
+                &t,
+                &intervals,
+                comparisons.as_deref().unwrap_or_default(),
+            ) {
                 Ok(paths) => {
                     if let Err(e) = guard.record(&paths) {
                         failures.push(e);

@@ -78,3 +78,61 @@ fn calorimetric_text_and_refusals() {
         assert_eq!(out.status.code(), Some(2), "{bad}");
     }
 }
+
+/// With --report the single fit's report has a "Calorimetric ΔH°" section whose ΔH_vH and
+/// ΔH_cal cells are the text output's numbers, each verdict and the caution in words.
+#[test]
+fn calorimetric_values_appear_in_the_single_report() {
+    let path = demo("binding_qx7_halo2.csv");
+    let dir = std::env::temp_dir().join(format!("isochore-cal-report-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let md = dir.join("one.md");
+    let md_s = md.to_string_lossy().into_owned();
+    let args = ["fit", &path, "--calorimetric", "25C:-40:0.5,35C:-47:0.8"];
+    let text = String::from_utf8(run(&args).stdout).unwrap();
+    let mut with_report = args.to_vec();
+    with_report.extend(["--report", &md_s]);
+    let out = run(&with_report);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let report = std::fs::read_to_string(&md).unwrap();
+    let section = report
+        .split("## Calorimetric ΔH°")
+        .nth(1)
+        .unwrap_or_else(|| panic!("no calorimetric section in\n{report}"));
+    // "ΔH_vH = a ± b kJ/mol, ΔH_cal = c ± d kJ/mol" of each text line, in the table.
+    let lines: Vec<&str> = text.lines().filter(|l| l.contains("ΔH_vH = ")).collect();
+    assert_eq!(lines.len(), 2, "{text}");
+    for l in lines {
+        let vh = l
+            .split("ΔH_vH = ")
+            .nth(1)
+            .unwrap()
+            .split(" kJ/mol")
+            .next()
+            .unwrap();
+        let cal = l
+            .split("ΔH_cal = ")
+            .nth(1)
+            .unwrap()
+            .split(" kJ/mol")
+            .next()
+            .unwrap();
+        assert!(
+            section.lines().any(|r| r.contains(vh) && r.contains(cal)),
+            "{vh} / {cal} not in\n{section}"
+        );
+    }
+    assert!(section.contains("Fieller"), "{section}");
+    assert!(section.contains("coupled equilibria"), "{section}");
+    // Without calorimetric values, no such section.
+    let plain = dir.join("plain.md");
+    let out = run(&["fit", &path, "--report", &plain.to_string_lossy()]);
+    assert!(out.status.success());
+    assert!(!std::fs::read_to_string(&plain)
+        .unwrap()
+        .contains("Calorimetric ΔH°"));
+}

@@ -703,6 +703,7 @@ fn hostile_input(name: &str) -> isochore_report::ReportInput {
         settings: vec![(name.to_string(), name.to_string())],
         intervals: vec![],
         errors_in_t: None,
+        calorimetric: vec![],
     }
 }
 

@@ -65,6 +65,9 @@ pub fn report_input(
         errors_in_t: set
             .fit_errors_in_t()
             .map(|r| r.map_err(|e| e.error.to_string())),
+        // The caller adds calorimetric comparisons when it has values (the command line's
+        // --calorimetric, the window's values kept with the data set).
+        calorimetric: Vec::new(),
     }
 }
 

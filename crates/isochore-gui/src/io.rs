@@ -398,5 +398,11 @@ pub fn report_input(s: &Entry, a: &crate::fitting::Analysis) -> Result<ReportInp
     };
     let set = PreparedSet::from_data_set(&s.data, &s.data.source.name, &with_cells)
         .map_err(|e| format!("{}: no fit to report: {e}", s.name()))?;
-    Ok(isochore_analysis::report_input(&set, fit.clone(), &[]))
+    let mut input = isochore_analysis::report_input(&set, fit.clone(), &[]);
+    // The series' calorimetric values, compared as the "Calorimetric ΔH°" window shows them.
+    if !s.data.calorimetric.is_empty() {
+        input.calorimetric = isochore_analysis::calorimetric::compare_single(fit, &s.data)
+            .map_err(|e| format!("{}: calorimetric values: {e}", s.name()))?;
+    }
+    Ok(input)
 }

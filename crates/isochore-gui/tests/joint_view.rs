@@ -121,6 +121,16 @@ fn the_ligand_demo_opens_with_its_calorimetric_values() {
         json.contains("\"delta_h_cal\": -45100.0"),
         "PX-13's −45.1 kJ/mol"
     );
+    // The window's report of PX-11 (the export's input) carries its two comparisons, the
+    // library's, in a section of their own.
+    let s = &w.project.series[0];
+    let a = w.fitter.get(s.id).unwrap();
+    let input = isochore_gui::io::report_input(s, &a).unwrap();
+    let want = compare_single(a.fit.as_ref().unwrap(), &s.data).unwrap();
+    assert_eq!(input.calorimetric, want);
+    assert_eq!(want.len(), 2);
+    let md = isochore_report::render_markdown(&input, "fig").unwrap();
+    assert!(md.contains("## Calorimetric ΔH°"), "{md}");
 }
 
 /// Clicks the text field labelled `label`, empties it and types `text`.

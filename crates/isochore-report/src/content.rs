@@ -427,6 +427,7 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
 
     // Issue 13: with σ(T), the fit with errors in T beside the fit in K only.
     b.extend(crate::errors_in_t_section::blocks(input));
+    b.extend(crate::calorimetric_section::blocks(input));
 
     b.push(Block::Heading("Van 't Hoff plot".into()));
     b.push(Block::Figure(

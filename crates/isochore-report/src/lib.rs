@@ -26,6 +26,7 @@
 #![deny(missing_docs)]
 
 mod atomic;
+mod calorimetric_section;
 pub mod content;
 mod csv_tables;
 mod document;
@@ -127,6 +128,9 @@ pub struct ReportInput {
     /// The fit with errors in T when the data set has σ(T) (or why it could not be made),
     /// shown in its own section beside the fit in K only; `None` without σ(T).
     pub errors_in_t: Option<Result<isochore_fit::errors_in_t::ErrorsInTFit, String>>,
+    /// Calorimetric enthalpies compared with the fit's ΔH°(T), shown in a section of their
+    /// own ("Calorimetric ΔH°"); empty when none were given.
+    pub calorimetric: Vec<isochore_fit::calorimetric::CalorimetricComparison>,
 }
 
 /// The output formats.

@@ -55,6 +55,7 @@ pub(crate) fn input(name: &str) -> ReportInput {
         settings: vec![],
         intervals: vec![],
         errors_in_t: None,
+        calorimetric: vec![],
     }
 }
 

@@ -1,0 +1,56 @@
+//! The single report's section on calorimetric enthalpies (issue 12), when values were
+//! given (the command line's `--calorimetric`, the window's values kept with the data set):
+//! each ΔH_cal(T) ± u compared with the fit's ΔH°(T) — the difference with its interval and
+//! z, the ratio ΔH_vH/ΔH_cal with Fieller's interval — each verdict in words and the caution
+//! about coupled equilibria. The table's cells are the joint report's
+//! ([`crate::present::joint::calorimetric_cells`]).
+
+use crate::content::{Block, Table};
+use crate::present::joint;
+use crate::ReportInput;
+use isochore_fit::calorimetric::COUPLED_EQUILIBRIA_CAUTION;
+
+/// The blocks of the section; empty without calorimetric values.
+pub(crate) fn blocks(input: &ReportInput) -> Vec<Block> {
+    if input.calorimetric.is_empty() {
+        return Vec::new();
+    }
+    let (e, tu) = (input.energy_unit, input.temperature_unit);
+    let mut b = vec![
+        Block::Heading("Calorimetric ΔH°".into()),
+        Block::Paragraph(
+            "Each calorimetric enthalpy is compared with the van 't Hoff ΔH° of this fit at the same temperature (ΔCp° taken into account where the model has it): d = ΔH_vH(T) − ΔH_cal with SE √(SE_vH² + u²) (the two measurements are independent), z = d/SE and a normal interval; the ratio ΔH_vH/ΔH_cal with Fieller's interval, unbounded when ΔH_cal is not clearly different from zero.".into(),
+        ),
+    ];
+    let mut rows = Vec::new();
+    let mut verdicts = Vec::new();
+    for c in &input.calorimetric {
+        let mut r = vec![input.series_name.clone()];
+        r.extend(joint::calorimetric_cells(c, e, tu));
+        rows.push(r);
+        let v = c
+            .verdict
+            .trim_end_matches(COUPLED_EQUILIBRIA_CAUTION)
+            .trim_end_matches("; ");
+        verdicts.push(format!("{v}."));
+    }
+    b.push(Block::Table(Table {
+        header: joint::calorimetric_header(e, input.fit.options().level),
+        rows,
+        numeric: vec![false, true, true, true, true, true, true],
+        note: None,
+    }));
+    b.push(Block::Bullets(verdicts));
+    b.push(Block::Paragraph(format!(
+        "Caution: {}.",
+        capitalised(COUPLED_EQUILIBRIA_CAUTION)
+    )));
+    b
+}
+
+fn capitalised(s: &str) -> String {
+    let mut c = s.chars();
+    c.next()
+        .map(|f| f.to_uppercase().collect::<String>() + c.as_str())
+        .unwrap_or_default()
+}
