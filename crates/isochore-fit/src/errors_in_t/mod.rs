@@ -249,7 +249,7 @@ pub(crate) fn coefficients(
             sy,
             st,
         };
-        odr::solve_full(&problem, beta0).ok()?.beta
+        odr::solve_coefficients(&problem, beta0).ok()?
     };
     beta.iter().all(|b| b.is_finite()).then_some(beta)
 }

@@ -53,10 +53,39 @@ const MAX_HALVINGS: usize = 60;
 
 /// The model's ln K and d ln K/dT at `t` for parameters `beta`.
 pub(crate) fn value_and_slope(model: Model, theta: f64, beta: &[f64], t: f64) -> (f64, f64) {
-    let x = model.row(t, theta);
-    let h = model.delta_h_row(t, theta);
-    let dot = |v: &[f64]| v.iter().zip(beta).map(|(a, b)| a * b).sum::<f64>();
-    (dot(&x), dot(&h) / (GAS_CONSTANT * t * t))
+    let p = beta.len();
+    if p > STACK {
+        let x = model.row(t, theta);
+        let h = model.delta_h_row(t, theta);
+        return (dot(&x, beta), dot(&h, beta) / (GAS_CONSTANT * t * t));
+    }
+    // The rows on the stack: no allocation in the inner loops (Monte Carlo refits this
+    // fit thousands of times); the same sums in the same order as with vectors.
+    let (mut x, mut h) = ([0.0; STACK], [0.0; STACK]);
+    model.row_into(t, theta, &mut x[..p]);
+    model.delta_h_row_into(t, theta, &mut h[..p]);
+    (
+        dot(&x[..p], beta),
+        dot(&h[..p], beta) / (GAS_CONSTANT * t * t),
+    )
+}
+
+/// The model's ln K at `t` (the first of [`value_and_slope`], without the slope).
+fn value(model: Model, theta: f64, beta: &[f64], t: f64) -> f64 {
+    let p = beta.len();
+    if p > STACK {
+        return dot(&model.row(t, theta), beta);
+    }
+    let mut x = [0.0; STACK];
+    model.row_into(t, theta, &mut x[..p]);
+    dot(&x[..p], beta)
+}
+
+/// Parameters up to which the rows are kept on the stack.
+const STACK: usize = 16;
+
+fn dot(v: &[f64], beta: &[f64]) -> f64 {
+    v.iter().zip(beta).map(|(a, b)| a * b).sum::<f64>()
 }
 
 /// The data of one problem: the model, θ, and per used point T, ln K, σ(ln K), σ(T).
@@ -74,7 +103,7 @@ impl Problem<'_> {
     fn objective(&self, beta: &[f64], delta: &[f64]) -> f64 {
         (0..self.t.len())
             .map(|i| {
-                let (f, _) = value_and_slope(self.model, self.theta, beta, self.t[i] + delta[i]);
+                let f = value(self.model, self.theta, beta, self.t[i] + delta[i]);
                 let ey = (self.y[i] - f) / self.sy[i];
                 let et = delta[i] / self.st[i];
                 ey * ey + et * et
@@ -91,9 +120,11 @@ impl Problem<'_> {
         let mut z = Vec::with_capacity(n);
         let mut w = Vec::with_capacity(n);
         let mut g = Vec::with_capacity(n);
+        // One row buffer for every point.
+        let mut x = vec![0.0; p];
         for i in 0..n {
             let ts = self.t[i] + delta[i];
-            let x = self.model.row(ts, self.theta);
+            self.model.row_into(ts, self.theta, &mut x);
             let (f, gi) = value_and_slope(self.model, self.theta, beta, ts);
             for (j, v) in x.iter().enumerate() {
                 design[(i, j)] = *v;
@@ -114,6 +145,37 @@ impl Problem<'_> {
 /// when the temperatures run off (an adjusted temperature at or below 0 K or not finite)
 /// or the iteration does not settle.
 pub(crate) fn solve_full(pb: &Problem<'_>, beta0: &[f64]) -> Result<OdrSolution, Error> {
+    let (beta, delta, s, iterations) = minimise(pb, beta0)?;
+    let (t, n) = (pb.t, pb.t.len());
+    let (design, _, w, _) = pb.reduced(&beta, &delta);
+    let zero = vec![0.0; n];
+    let last = solve(&design, &zero, Some(&w))?;
+    let t_star: Vec<f64> = (0..n).map(|i| t[i] + delta[i]).collect();
+    if beta.iter().chain(&t_star).any(|v| !v.is_finite()) {
+        return Err(Error::NoSolution(
+            "the fit with errors in T gave numbers that are not finite".into(),
+        ));
+    }
+    Ok(OdrSolution {
+        beta,
+        t_star,
+        chi2: s,
+        unscaled_covariance: last.unscaled_covariance,
+        iterations,
+    })
+}
+
+/// The coefficients alone of [`solve_full`]'s minimum (the same iteration, without the
+/// covariance): for the refits of Monte Carlo draws.
+///
+/// # Errors
+/// As [`solve_full`].
+pub(crate) fn solve_coefficients(pb: &Problem<'_>, beta0: &[f64]) -> Result<Vec<f64>, Error> {
+    minimise(pb, beta0).map(|(beta, ..)| beta)
+}
+
+/// The Gauss–Newton iteration of [`solve_full`]: β, δ, S and the steps taken.
+fn minimise(pb: &Problem<'_>, beta0: &[f64]) -> Result<(Vec<f64>, Vec<f64>, f64, usize), Error> {
     let (t, st) = (pb.t, pb.st);
     let n = t.len();
     let p = beta0.len();
@@ -184,22 +246,7 @@ pub(crate) fn solve_full(pb: &Problem<'_>, beta0: &[f64]) -> Result<OdrSolution,
             "the fit with errors in T did not settle within {MAX_STEPS} steps; the temperature uncertainties may be too large for the data to fix the true temperatures"
         )));
     }
-    let (design, _, w, _) = pb.reduced(&beta, &delta);
-    let zero = vec![0.0; n];
-    let last = solve(&design, &zero, Some(&w))?;
-    let t_star: Vec<f64> = (0..n).map(|i| t[i] + delta[i]).collect();
-    if beta.iter().chain(&t_star).any(|v| !v.is_finite()) {
-        return Err(Error::NoSolution(
-            "the fit with errors in T gave numbers that are not finite".into(),
-        ));
-    }
-    Ok(OdrSolution {
-        beta,
-        t_star,
-        chi2: s,
-        unscaled_covariance: last.unscaled_covariance,
-        iterations,
-    })
+    Ok((beta, delta, s, iterations))
 }
 
 /// The adjusted temperature of one point for fixed β (an excluded point's, for its

@@ -256,6 +256,10 @@ impl Model {
         self.0.row(t_k, theta, &mut v);
         v
     }
+    /// Writes the ΔH°(T) coefficient row at `t_k` into `out` (length [`Model::n_params`]).
+    pub fn delta_h_row_into(self, t_k: f64, theta: f64, out: &mut [f64]) {
+        self.0.delta_h_row(t_k, theta, out)
+    }
     /// The ΔH°(T) coefficient row as a vector.
     pub fn delta_h_row(self, t_k: f64, theta: f64) -> Vec<f64> {
         let mut v = vec![0.0; self.n_params()];
