@@ -116,6 +116,7 @@ pub struct PointDiagnostics {
 }
 
 /// What every point's diagnostics share: the fit's sizes, variance, covariance and thresholds.
+#[derive(Debug, Clone)]
 pub(crate) struct PointContext {
     pub(crate) p: usize,
     /// Residual degrees of freedom n − p.
@@ -275,6 +276,141 @@ pub(crate) fn diagnose_one(
         d.flags.outlier = d.prediction_residual.is_some_and(|z| z.abs() > ctx.outlier);
     }
     d
+}
+
+/// The per-point diagnostics a fit keeps: records written once (the general solver's, whose
+/// leverages come from its QR), or computed on demand from a compact copy of the points
+/// (the streaming path: see [`crate::fast`]), materialised into records only when a caller
+/// asks for the whole slice.
+#[derive(Clone)]
+pub(crate) enum PointStore {
+    /// Records computed with the fit.
+    Kept(Vec<PointDiagnostics>),
+    /// Computed when asked for; `cache` holds the records once the slice was asked for.
+    OnDemand {
+        /// The compact points and what their diagnostics share.
+        points: Box<crate::fast::OnDemand>,
+        /// The records, once made.
+        cache: std::sync::OnceLock<Vec<PointDiagnostics>>,
+    },
+}
+
+impl PointStore {
+    /// Number of points (used and excluded).
+    pub(crate) fn len(&self) -> usize {
+        match self {
+            PointStore::Kept(v) => v.len(),
+            PointStore::OnDemand { points, .. } => points.len(),
+        }
+    }
+
+    /// Every record, made now if they were computed on demand.
+    pub(crate) fn slice(&self) -> &[PointDiagnostics] {
+        match self {
+            PointStore::Kept(v) => v,
+            PointStore::OnDemand { points, cache } => cache.get_or_init(|| {
+                let mut v = Vec::with_capacity(points.len());
+                points.for_each(0..points.len(), &mut |d| v.push(d));
+                v
+            }),
+        }
+    }
+
+    /// The diagnostics of point `i`, without making the others.
+    pub(crate) fn get(&self, i: usize) -> Option<PointDiagnostics> {
+        match self {
+            PointStore::Kept(v) => v.get(i).cloned(),
+            PointStore::OnDemand { points, cache } => match cache.get() {
+                Some(v) => v.get(i).cloned(),
+                None => points.point(i),
+            },
+        }
+    }
+
+    /// Calls `f` with the diagnostics of every point in order, without keeping them.
+    pub(crate) fn for_each(&self, f: &mut dyn FnMut(PointDiagnostics)) {
+        self.for_each_in(0..self.len(), f);
+    }
+
+    /// Calls `f` with the diagnostics of the points in `range`, in order.
+    fn for_each_in(&self, range: std::ops::Range<usize>, f: &mut dyn FnMut(PointDiagnostics)) {
+        match self {
+            PointStore::Kept(v) => v[range].iter().cloned().for_each(f),
+            PointStore::OnDemand { points, cache } => match cache.get() {
+                Some(v) => v[range].iter().cloned().for_each(f),
+                None => points.for_each(range, f),
+            },
+        }
+    }
+}
+
+/// The diagnostics of a fit's points in order, each made as it is reached (see
+/// `VantHoffFit::points_iter`): a group of 64 at a time, none kept.
+pub struct PointIter<'a> {
+    store: &'a PointStore,
+    next: usize,
+    buf: std::collections::VecDeque<PointDiagnostics>,
+}
+
+impl<'a> PointIter<'a> {
+    pub(crate) fn new(store: &'a PointStore) -> Self {
+        PointIter {
+            store,
+            next: 0,
+            buf: std::collections::VecDeque::with_capacity(64),
+        }
+    }
+}
+
+impl Iterator for PointIter<'_> {
+    type Item = PointDiagnostics;
+
+    fn next(&mut self) -> Option<PointDiagnostics> {
+        if self.buf.is_empty() && self.next < self.store.len() {
+            let end = (self.next + 64).min(self.store.len());
+            let buf = &mut self.buf;
+            self.store
+                .for_each_in(self.next..end, &mut |d| buf.push_back(d));
+            self.next = end;
+        }
+        self.buf.pop_front()
+    }
+
+    fn size_hint(&self) -> (usize, Option<usize>) {
+        let n = self.store.len() - self.next + self.buf.len();
+        (n, Some(n))
+    }
+}
+
+impl ExactSizeIterator for PointIter<'_> {}
+
+/// Written as the list of records, as a `Vec<PointDiagnostics>` is.
+impl std::fmt::Debug for PointStore {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        let mut list = f.debug_list();
+        self.for_each(&mut |d| {
+            list.entry(&d);
+        });
+        list.finish()
+    }
+}
+
+/// Serialised as the list of records, as a `Vec<PointDiagnostics>` is.
+impl Serialize for PointStore {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        use serde::ser::SerializeSeq;
+        let mut seq = s.serialize_seq(Some(self.len()))?;
+        let mut err = None;
+        self.for_each(&mut |d| {
+            if err.is_none() {
+                err = seq.serialize_element(&d).err();
+            }
+        });
+        match err {
+            Some(e) => Err(e),
+            None => seq.end(),
+        }
+    }
 }
 
 /// What the warnings need from the diagnostics, gathered while they are made.

@@ -194,8 +194,8 @@ mod tests {
             .collect();
         let f = fit(&data, &FitOptions::default()).unwrap();
         let l = FlagLimits::of(&f);
-        assert!(f.points.iter().any(|d| d.flags.any()));
-        for d in f.points.iter().filter(|d| d.used) {
+        assert!(f.points().iter().any(|d| d.flags.any()));
+        for d in f.points().iter().filter(|d| d.used) {
             assert_eq!(d.flags.high_leverage, d.leverage > l.leverage, "{d:?}");
             assert_eq!(
                 d.flags.influential,

@@ -58,7 +58,7 @@ pub mod units;
 pub mod vant_hoff;
 
 pub use derived::{BandPoint, Interval, Prediction, ValuePrediction};
-pub use diagnostics::{FlagKind, Flags, PointDiagnostics};
+pub use diagnostics::{FlagKind, Flags, PointDiagnostics, PointIter};
 pub use error::Error;
 pub use global::{
     fit_global, test_equal_across_series, EqualityMethod, EqualityTest, GlobalColumn, GlobalError,

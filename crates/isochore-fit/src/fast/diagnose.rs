@@ -1,122 +1,253 @@
-//! The per-point diagnostics pass of the streaming path: points in groups, the cheap sums
-//! first, then the studentized residuals, Cook's distance and DFFITS as plain loops.
+//! The per-point diagnostics of the streaming path, computed on demand.
+//!
+//! A fit on the streaming path keeps no record per point: [`OnDemand`] holds a compact copy
+//! of the points (T, ln K and σ, 24 bytes, and one bit for "used") and the few numbers every
+//! point's diagnostics share (the coefficients, R⁻¹, the [`PointContext`]). A point's
+//! [`PointDiagnostics`] are computed from them when asked for, with the arithmetic of
+//! [`diagnose_one`] and of the fit itself (the design row from the temperature, √w from σ
+//! as the read pass forms them), so they are the same numbers, bit for bit, as records
+//! written once at the fit. A million points then cost 24 MB instead of 168 MB of records.
+//!
+//! Points go through in groups of [`GROUP`]: the cheap per-point sums first, then the
+//! square roots and divisions of the studentized residuals, Cook's distance and DFFITS as
+//! plain loops over arrays (so they pipeline and vectorise), then the records. Every
+//! number of a point depends on that point only, so a group of one gives the same bits.
 
 use super::*;
 
-impl FastFit {
-    /// Per-point diagnostics in input order, with what the warnings need from them.
-    ///
-    /// Points go through in groups of [`GROUP`]: the cheap per-point sums first, then the
-    /// square roots and divisions of the studentized residuals, Cook's distance and DFFITS
-    /// as plain loops over arrays (so they pipeline and vectorise), then the records. The
-    /// arithmetic is that of [`diagnose_one`], which excluded points still take.
-    pub(crate) fn diagnose(
-        &self,
-        points: &[Measurement],
+/// The diagnostics of a streaming fit, computed from a compact copy of its points.
+#[derive(Debug, Clone)]
+pub(crate) struct OnDemand {
+    /// T (K), ln K and σ(ln K) (NaN when absent) of every point, in input order.
+    values: Vec<[f64; 3]>,
+    /// Bit i: point i took part in the fit.
+    included: Vec<u64>,
+    ctx: PointContext,
+    beta: [f64; 3],
+    r_inv: [[f64; 3]; 3],
+    p: usize,
+    theta: f64,
+    model: Model,
+    /// Weights 1/σ² were applied (√w then comes from σ; 1 otherwise).
+    weighted: bool,
+}
+
+/// The compact copy of the points an [`OnDemand`] is made from, taken while the points are
+/// read.
+#[derive(Debug, Default)]
+pub(crate) struct Compact {
+    values: Vec<[f64; 3]>,
+    included: Vec<u64>,
+}
+
+impl Compact {
+    /// Room for `n` points.
+    pub(crate) fn with_capacity(n: usize) -> Compact {
+        Compact {
+            values: Vec::with_capacity(n),
+            included: Vec::with_capacity(n.div_ceil(64)),
+        }
+    }
+
+    /// Appends one point.
+    #[inline]
+    pub(crate) fn push(&mut self, m: &Measurement) {
+        let i = self.values.len();
+        if i.is_multiple_of(64) {
+            self.included.push(0);
+        }
+        if m.included {
+            if let Some(w) = self.included.last_mut() {
+                *w |= 1 << (i % 64);
+            }
+        }
+        self.values
+            .push([m.t_k, m.ln_k, m.sigma_ln_k.unwrap_or(f64::NAN)]);
+    }
+}
+
+impl OnDemand {
+    /// The on-demand diagnostics of `fit`, whose points were copied into `points`.
+    pub(crate) fn new(
+        fit: &FastFit,
+        points: Compact,
         options: &FitOptions,
-        ctx: &PointContext,
-    ) -> (Vec<PointDiagnostics>, DiagnosticsSummary) {
-        let sub = &self.fitted;
-        let p = sub.p;
+        ctx: PointContext,
+    ) -> OnDemand {
+        OnDemand {
+            values: points.values,
+            included: points.included,
+            ctx,
+            beta: fit.fitted.beta,
+            r_inv: fit.fitted.r_inv,
+            p: fit.fitted.p,
+            theta: options.t_ref_k,
+            model: options.model,
+            weighted: options.weighting == Weighting::InverseVariance,
+        }
+    }
+
+    /// Number of points (used and excluded).
+    pub(crate) fn len(&self) -> usize {
+        self.values.len()
+    }
+
+    /// Point `i` as the fit was given it.
+    #[inline]
+    fn measurement(&self, i: usize) -> Measurement {
+        let [t_k, ln_k, s] = self.values[i];
+        Measurement {
+            t_k,
+            ln_k,
+            sigma_ln_k: (!s.is_nan()).then_some(s),
+            included: self.included[i / 64] >> (i % 64) & 1 == 1,
+        }
+    }
+
+    /// Diagnostics of point `i`, if there is one.
+    pub(crate) fn point(&self, i: usize) -> Option<PointDiagnostics> {
+        if i >= self.len() {
+            return None;
+        }
+        let mut g = Group::default();
+        let mut out = None;
+        self.group(i, 1, &mut g, &mut |d| out = Some(d));
+        out
+    }
+
+    /// Calls `f` with the diagnostics of every point in `range`, in order.
+    pub(crate) fn for_each(
+        &self,
+        range: std::ops::Range<usize>,
+        f: &mut dyn FnMut(PointDiagnostics),
+    ) {
+        let end = range.end.min(self.len());
+        let mut g = Group::default();
+        let mut start = range.start;
+        while start < end {
+            let len = GROUP.min(end - start);
+            self.group(start, len, &mut g, f);
+            start += len;
+        }
+    }
+
+    /// The diagnostics of points `start..start + len` (`len` ≤ [`GROUP`]) into `f`.
+    fn group(&self, start: usize, len: usize, g: &mut Group, f: &mut dyn FnMut(PointDiagnostics)) {
+        let ctx = &self.ctx;
+        let p = self.p;
         let pf = p as f64;
-        let beta = sub.beta;
-        let ri = &sub.r_inv;
-        let theta = options.t_ref_k;
-        let mut used_rows = self.rows.iter();
-        let mut out = Vec::with_capacity(points.len());
-        let mut summary = DiagnosticsSummary::default();
+        let beta = self.beta;
+        let ri = &self.r_inv;
+        let theta = self.theta;
         let stats_defined = ctx.dof >= 1.0 && ctx.s2 > 0.0;
         let dof_s2 = ctx.dof * ctx.s2;
-        let mut g = Group::default();
-        for (start, chunk) in points.chunks(GROUP).enumerate() {
-            let start = start * GROUP;
-            // Per-point sums.
-            for (k, m) in chunk.iter().enumerate() {
-                let row = if m.included { used_rows.next() } else { None };
-                let Some(row) = row else {
-                    g.used[k] = false;
-                    continue;
-                };
-                g.used[k] = true;
-                let x = [row.c0, C1, row.c2];
-                let fitted: f64 = (0..p).map(|j| x[j] * beta[j]).sum();
-                let e = m.ln_k - fitted;
-                // hᵢ = ‖R⁻ᵀ aᵢ‖² with aᵢ the weighted row (R⁻¹ upper triangular).
-                let (a, _) = row.weighted();
-                let s0 = ri[0][0] * a[0];
-                let s1 = ri[0][1] * a[0] + ri[1][1] * a[1];
-                let mut h = s0 * s0 + s1 * s1;
-                if p == 3 {
-                    let s2 = ri[0][2] * a[0] + ri[1][2] * a[1] + ri[2][2] * a[2];
-                    h += s2 * s2;
-                }
-                let sigma = if ctx.weighted { m.sigma_ln_k } else { None };
-                g.inv_w[k] = sigma.map_or(ctx.typical_inv_w, |s| s * s);
-                g.quad[k] = crate::diagnostics::quadratic(&ctx.cov, &x, p);
-                g.h[k] = h.min(1.0);
-                g.e[k] = e;
-                g.fitted[k] = fitted;
-                g.rw[k] = row.sw * e;
+        // Per-point sums.
+        for k in 0..len {
+            let m = self.measurement(start + k);
+            if !m.included {
+                g.used[k] = false;
+                continue;
             }
-            // Roots and quotients, branch-free over the group.
-            let len = chunk.len();
-            for k in 0..len {
-                g.pse[k] = (ctx.variance_scale * g.inv_w[k] + g.quad[k]).sqrt();
-                let omh = 1.0 - g.h[k];
-                g.omh[k] = omh;
-                let rq = g.rw[k] / omh.sqrt();
-                let t_int = rq * ctx.inv_s;
-                g.t_int[k] = t_int;
-                g.cook[k] = t_int * t_int * g.h[k] / (pf * omh);
-                let s2_i = (dof_s2 - rq * rq) * ctx.inv_dof_less_one;
-                g.s2_i[k] = s2_i;
-                let t_ext = rq / s2_i.sqrt();
-                g.t_ext[k] = t_ext;
-                g.dffits[k] = t_ext * (g.h[k] / omh).sqrt();
+            g.used[k] = true;
+            // The design row and √w as every pass of the fit forms them.
+            let Some((row, _)) = Row::of(&m, theta, self.weighted) else {
+                g.used[k] = false;
+                continue;
+            };
+            let sw = row.sw;
+            let x = [row.c0, C1, row.c2];
+            let fitted: f64 = (0..p).map(|j| x[j] * beta[j]).sum();
+            let e = m.ln_k - fitted;
+            // hᵢ = ‖R⁻ᵀ aᵢ‖² with aᵢ the weighted row (R⁻¹ upper triangular).
+            let (a, _) = row.weighted();
+            let s0 = ri[0][0] * a[0];
+            let s1 = ri[0][1] * a[0] + ri[1][1] * a[1];
+            let mut h = s0 * s0 + s1 * s1;
+            if p == 3 {
+                let s2 = ri[0][2] * a[0] + ri[1][2] * a[1] + ri[2][2] * a[2];
+                h += s2 * s2;
             }
-            // Records, written straight into the output.
-            out.extend(chunk.iter().enumerate().map(|(k, m)| {
-                let i = start + k;
-                let d = if g.used[k] {
-                    let good = |v: f64| v.is_finite().then_some(v);
-                    let h = g.h[k];
-                    let mut d = PointDiagnostics {
-                        index: i,
-                        t_k: m.t_k,
-                        ln_k: m.ln_k,
-                        sigma_ln_k: if ctx.weighted { m.sigma_ln_k } else { None },
-                        used: true,
-                        fitted: g.fitted[k],
-                        residual: g.e[k],
-                        weighted_residual: g.rw[k],
-                        leverage: h,
-                        student_int: None,
-                        student_ext: None,
-                        cooks_d: None,
-                        dffits: None,
-                        prediction_se: g.pse[k],
-                        prediction_residual: None,
-                        flags: Flags::default(),
-                    };
-                    if stats_defined && g.omh[k] > 1e-10 {
-                        d.student_int = good(g.t_int[k]);
-                        d.cooks_d = good(g.cook[k]);
-                        if ctx.dof >= 2.0 && g.s2_i[k] > 0.0 {
-                            d.student_ext = good(g.t_ext[k]);
-                            d.dffits = good(g.dffits[k]);
-                        }
-                    }
-                    d.flags.outlier = d.student_ext.is_some_and(|t| t.abs() > ctx.outlier);
-                    d.flags.high_leverage = h > ctx.leverage_limit;
-                    d.flags.influential = d.cooks_d.is_some_and(|c| c > ctx.cooks_limit);
-                    d
-                } else {
-                    diagnose_one(ctx, i, m, &options.model.row(m.t_k, theta), None)
-                };
-                summary.note(&d);
-                d
-            }));
+            let sigma = if ctx.weighted { m.sigma_ln_k } else { None };
+            g.inv_w[k] = sigma.map_or(ctx.typical_inv_w, |s| s * s);
+            g.quad[k] = crate::diagnostics::quadratic(&ctx.cov, &x, p);
+            g.h[k] = h.min(1.0);
+            g.e[k] = e;
+            g.fitted[k] = fitted;
+            g.rw[k] = sw * e;
         }
-        (out, summary)
+        // Roots and quotients, branch-free over the group.
+        for k in 0..len {
+            g.pse[k] = (ctx.variance_scale * g.inv_w[k] + g.quad[k]).sqrt();
+            let omh = 1.0 - g.h[k];
+            g.omh[k] = omh;
+            let rq = g.rw[k] / omh.sqrt();
+            let t_int = rq * ctx.inv_s;
+            g.t_int[k] = t_int;
+            g.cook[k] = t_int * t_int * g.h[k] / (pf * omh);
+            let s2_i = (dof_s2 - rq * rq) * ctx.inv_dof_less_one;
+            g.s2_i[k] = s2_i;
+            let t_ext = rq / s2_i.sqrt();
+            g.t_ext[k] = t_ext;
+            g.dffits[k] = t_ext * (g.h[k] / omh).sqrt();
+        }
+        // Records.
+        for k in 0..len {
+            let i = start + k;
+            let m = self.measurement(i);
+            let d = if g.used[k] {
+                let good = |v: f64| v.is_finite().then_some(v);
+                let h = g.h[k];
+                let mut d = PointDiagnostics {
+                    index: i,
+                    t_k: m.t_k,
+                    ln_k: m.ln_k,
+                    sigma_ln_k: if ctx.weighted { m.sigma_ln_k } else { None },
+                    used: true,
+                    fitted: g.fitted[k],
+                    residual: g.e[k],
+                    weighted_residual: g.rw[k],
+                    leverage: h,
+                    student_int: None,
+                    student_ext: None,
+                    cooks_d: None,
+                    dffits: None,
+                    prediction_se: g.pse[k],
+                    prediction_residual: None,
+                    flags: Flags::default(),
+                };
+                if stats_defined && g.omh[k] > 1e-10 {
+                    d.student_int = good(g.t_int[k]);
+                    d.cooks_d = good(g.cook[k]);
+                    if ctx.dof >= 2.0 && g.s2_i[k] > 0.0 {
+                        d.student_ext = good(g.t_ext[k]);
+                        d.dffits = good(g.dffits[k]);
+                    }
+                }
+                d.flags.outlier = d.student_ext.is_some_and(|t| t.abs() > ctx.outlier);
+                d.flags.high_leverage = h > ctx.leverage_limit;
+                d.flags.influential = d.cooks_d.is_some_and(|c| c > ctx.cooks_limit);
+                d
+            } else {
+                diagnose_one(ctx, i, &m, &self.model.row(m.t_k, theta), None)
+            };
+            f(d);
+        }
+    }
+}
+
+impl FastFit {
+    /// The on-demand diagnostics of this fit (from the copy of the points taken while they
+    /// were read), with what the warnings need from them, gathered in one pass that keeps
+    /// no record.
+    pub(crate) fn diagnose(
+        &self,
+        options: &FitOptions,
+        ctx: PointContext,
+    ) -> (OnDemand, DiagnosticsSummary) {
+        let points = self.compact.take().unwrap_or_default();
+        let od = OnDemand::new(self, points, options, ctx);
+        let mut summary = DiagnosticsSummary::default();
+        od.for_each(0..od.len(), &mut |d| summary.note(&d));
+        (od, summary)
     }
 }

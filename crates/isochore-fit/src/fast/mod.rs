@@ -6,8 +6,9 @@
 //! (a reflection for column j touches only rows ≥ j). The QR is built while the points are
 //! read, a block of rows at a time: the 4×4 triangle so far is stacked on the next block
 //! and four Householder reflections reduce the stack back to a triangle (tall-skinny QR).
-//! No n×p matrix, no Q and no normal equations are formed; each used point is kept as four
-//! numbers (1/T-column, ΔCp°-column, √w, ln K) for the later passes.
+//! No n×p matrix, no Q and no normal equations are formed, and nothing is kept per point:
+//! each later pass forms a used point's row (1/T-column, ΔCp°-column, √w, ln K) again from
+//! the caller's points, with the same arithmetic ([`Row::of`]).
 //!
 //! Column scaling by powers of two changes no rounding in a Householder QR, so the factor is
 //! computed on the √w-scaled columns and the powers of two (nearest the column norms) enter
@@ -58,6 +59,32 @@ struct Row {
 }
 
 impl Row {
+    /// The row of an included point: the design entries of the constant-ΔCp° model and
+    /// √w = √(1/σ²) (1 unweighted). `None` for a weighted fit's point without σ. Every pass
+    /// forms a point's row here, so every pass sees the same numbers.
+    #[inline]
+    fn of(pt: &Measurement, theta: f64, weighted: bool) -> Option<(Row, f64)> {
+        let (w, sw) = if weighted {
+            let s = pt.sigma_ln_k?;
+            let w = 1.0 / (s * s);
+            (w, w.sqrt())
+        } else {
+            (1.0, 1.0)
+        };
+        let mut x = [0.0; 3];
+        Model::CONSTANT_CP.row_into(pt.t_k, theta, &mut x);
+        debug_assert_eq!(x[1], C1);
+        Some((
+            Row {
+                c0: x[0],
+                c2: x[2],
+                sw,
+                y: pt.ln_k,
+            },
+            w,
+        ))
+    }
+
     /// The weighted row (√w·c₀, √w·c₁, √w·c₂) and √w·y, formed as the general path forms them.
     #[inline]
     fn weighted(&self) -> ([f64; 3], f64) {
@@ -296,7 +323,11 @@ impl Sub {
 
 /// A fit made on the streaming path, with what the diagnostics pass needs.
 pub(crate) struct FastFit {
-    rows: Vec<Row>,
+    /// Number of used points.
+    n: usize,
+    /// Every point (used and excluded) in the compact form its diagnostics are computed
+    /// from on demand; taken by [`FastFit::diagnose`].
+    compact: std::cell::Cell<Option<Compact>>,
     fitted: Sub,
     /// χ² of the fitted model.
     pub(crate) rss: f64,
@@ -321,7 +352,7 @@ pub(crate) struct FastFit {
 impl FastFit {
     /// Number of used points.
     pub(crate) fn n(&self) -> usize {
-        self.rows.len()
+        self.n
     }
 
     /// Coefficients of the fitted model.
@@ -346,7 +377,9 @@ impl FastFit {
         }
         let weighted = options.weighting == Weighting::InverseVariance;
         let theta = options.t_ref_k;
-        let mut rows = Vec::with_capacity(points.len());
+        // Used points (their rows are formed again by each later pass, not kept).
+        let mut n = 0usize;
+        let mut compact = Compact::with_capacity(points.len());
         let mut r4 = [[0.0f64; 4]; 4];
         let mut block = [[0.0f64; BLOCK]; 4];
         let mut m = 0;
@@ -357,26 +390,12 @@ impl FastFit {
         let mut t_min = f64::INFINITY;
         let mut t_max = f64::NEG_INFINITY;
         for pt in points {
+            compact.push(pt);
             if !pt.included {
                 continue;
             }
-            let (w, sw) = if weighted {
-                let s = pt.sigma_ln_k?;
-                let w = 1.0 / (s * s);
-                (w, w.sqrt())
-            } else {
-                (1.0, 1.0)
-            };
-            let mut x = [0.0; 3];
-            Model::CONSTANT_CP.row_into(pt.t_k, theta, &mut x);
-            debug_assert_eq!(x[1], C1);
-            let row = Row {
-                c0: x[0],
-                c2: x[2],
-                sw,
-                y: pt.ln_k,
-            };
-            rows.push(row);
+            let (row, w) = Row::of(pt, theta, weighted)?;
+            n += 1;
             let t = pt.t_k;
             t_min = t_min.min(t);
             t_max = t_max.max(t);
@@ -402,7 +421,6 @@ impl FastFit {
         if m > 0 {
             absorb(&mut r4, &mut block, m);
         }
-        let n = rows.len();
         let sum_ln_w = log_w.total();
         let p = options.model.n_params();
         // Keep to numbers whose squares and sums of squares are safely representable;
@@ -434,13 +452,14 @@ impl FastFit {
             tracks.push(Track::new(o, r, &scale));
         }
         let mean = sum_wy / sum_w;
-        let tss = residual_passes(&rows, &mut tracks, &scale, mean)?;
+        let tss = residual_passes(points, theta, weighted, &mut tracks, &scale, mean)?;
         let mut tracks = tracks.into_iter();
         let first = tracks.next()?;
         let (fitted, rss) = (first.sub, first.rss);
         let rss_other = tracks.next().map(|t| t.rss);
         Some(FastFit {
-            rows,
+            n,
+            compact: std::cell::Cell::new(Some(compact)),
             fitted,
             rss,
             rss_other,
@@ -534,6 +553,9 @@ impl Track {
 
 mod diagnose;
 mod passes;
+
+use diagnose::Compact;
+pub(crate) use diagnose::OnDemand;
 
 use passes::{amax, residual_passes};
 

@@ -3,6 +3,34 @@
 
 use super::*;
 
+/// The rows of the used points, formed by [`Row::of`], to `f` a block of at most
+/// [`BLOCK`] at a time, in order.
+fn used_blocks(points: &[Measurement], theta: f64, weighted: bool, mut f: impl FnMut(&[Row])) {
+    let zero = Row {
+        c0: 0.0,
+        c2: 0.0,
+        sw: 0.0,
+        y: 0.0,
+    };
+    let mut buf = [zero; BLOCK];
+    let mut m = 0;
+    for pt in points.iter().filter(|p| p.included) {
+        // A used point of a weighted fit has σ here (the read pass refused otherwise).
+        let Some((row, _)) = Row::of(pt, theta, weighted) else {
+            continue;
+        };
+        buf[m] = row;
+        m += 1;
+        if m == BLOCK {
+            f(&buf);
+            m = 0;
+        }
+    }
+    if m > 0 {
+        f(&buf[..m]);
+    }
+}
+
 /// max |βⱼ Dⱼ| over the first p entries (the size in scaled units).
 pub(super) fn amax(v: &[f64; 3], p: usize, scale: &[f64; 3]) -> f64 {
     (0..p).map(|j| (v[j] * scale[j]).abs()).fold(0.0, f64::max)
@@ -49,7 +77,9 @@ fn block_residuals(
 /// Σs² − ‖R⁻ᵀg‖² (exact for the least-squares correction), so no extra pass is needed.
 /// Returns Σ w(y − ȳ_w)² from the first pass; `None` if anything is not finite.
 pub(super) fn residual_passes(
-    rows: &[Row],
+    points: &[Measurement],
+    theta: f64,
+    weighted: bool,
     tracks: &mut [Track],
     scale: &[f64; 3],
     mean: f64,
@@ -62,7 +92,7 @@ pub(super) fn residual_passes(
         }
         let mut cols = [[0.0f64; BLOCK]; 4];
         let mut res = [0.0f64; BLOCK];
-        for chunk in rows.chunks(BLOCK) {
+        used_blocks(points, theta, weighted, |chunk| {
             let m = chunk.len();
             // The weighted block, column by column, so the loops below vectorise.
             for (k, row) in chunk.iter().enumerate() {
@@ -89,7 +119,7 @@ pub(super) fn residual_passes(
                     }
                 }
             }
-        }
+        });
         for t in tracks.iter_mut().filter(|t| !t.done) {
             let p = t.sub.p;
             if !t.refine || step == MAX_REFINEMENT_STEPS {

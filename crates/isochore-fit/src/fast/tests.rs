@@ -74,7 +74,7 @@ fn streaming_path_agrees_with_the_general_solver() {
                 // Leverages through the full fit.
                 let f = crate::fit(&pts, &opts).unwrap();
                 let lev: Vec<f64> = f
-                    .points
+                    .points()
                     .iter()
                     .filter(|d| d.used)
                     .map(|d| d.leverage)
@@ -118,11 +118,11 @@ fn every_output_agrees_with_the_general_path() {
                     assert!(close(a.stats.chi2, b.stats.chi2));
                     assert!(close(a.stats.r2, b.stats.r2));
                     assert!(close(a.stats.log_likelihood, b.stats.log_likelihood));
-                    let (ca, cb) = (a.comparison.unwrap(), b.comparison.unwrap());
+                    let (ca, cb) = (a.comparison.clone().unwrap(), b.comparison.clone().unwrap());
                     assert!(close(ca.f_statistic, cb.f_statistic), "{ca:?} {cb:?}");
                     assert_eq!(ca.preferred, cb.preferred);
                     assert_eq!(a.warnings.len(), b.warnings.len());
-                    for (x, y) in a.points.iter().zip(&b.points) {
+                    for (x, y) in a.points().iter().zip(b.points()) {
                         assert_eq!((x.index, x.used, x.flags), (y.index, y.used, y.flags));
                         for (u, v) in [
                             (x.fitted, y.fitted),
@@ -186,4 +186,45 @@ fn hard_cases_take_the_general_path() {
         crate::fit(&pts, &bad).unwrap_err(),
         crate::Error::InvalidLevel(2.0)
     );
+}
+
+#[test]
+fn diagnostics_on_demand_are_the_same_numbers_however_they_are_asked_for() {
+    // One point at a time, one pass, and the whole slice: the same records, bit for bit
+    // (Debug prints every f64 exactly), for a weighted and an unweighted fit with an
+    // excluded point (invented data).
+    for weighting in [Weighting::InverseVariance, Weighting::Unweighted] {
+        let pts = data(300);
+        let opts = FitOptions {
+            weighting,
+            ..FitOptions::default()
+        };
+        let f = crate::fit(&pts, &opts).unwrap();
+        let pass: Vec<_> = f.points_iter().collect();
+        assert_eq!(f.points_iter().len(), pts.len());
+        let one: Vec<_> = (0..pts.len()).map(|i| f.point(i).unwrap()).collect();
+        assert!(f.point(pts.len()).is_none());
+        let flagged = f.flagged_points();
+        let whole = f.points().to_vec();
+        assert_eq!(format!("{pass:?}"), format!("{whole:?}"));
+        assert_eq!(format!("{one:?}"), format!("{whole:?}"));
+        assert_eq!(
+            format!("{f:?}").matches("PointDiagnostics").count(),
+            pts.len()
+        );
+        let again: Vec<usize> = whole
+            .iter()
+            .filter(|d| d.flags.any())
+            .map(|d| d.index)
+            .collect();
+        assert_eq!(flagged, again);
+        assert!(!whole[3].used && whole[3].prediction_residual.is_some());
+        // The general solver's records agree to rounding.
+        let general = crate::vant_hoff::fit_with(&pts, &opts, false).unwrap();
+        for (a, b) in whole.iter().zip(general.points()) {
+            assert_eq!((a.index, a.used, a.flags), (b.index, b.used, b.flags));
+            assert!((a.leverage - b.leverage).abs() < 1e-9, "{a:?} {b:?}");
+            assert!((a.residual - b.residual).abs() < 1e-9, "{a:?} {b:?}");
+        }
+    }
 }

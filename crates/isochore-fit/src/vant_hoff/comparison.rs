@@ -6,10 +6,10 @@
 //! [`compare_models`] runs it on its own, and [`super::fit`] runs it with the χ² its engine
 //! already has.
 
-use super::inputs::{design, prepare};
+use super::inputs::prepare;
 use super::statistics::{statistics, WeightSums};
 use crate::error::Error;
-use crate::least_squares::weighted_rss;
+use crate::least_squares::weighted_rss_formed;
 use crate::measurement::Measurement;
 use crate::model::{FitOptions, Model, SigmaConvention};
 use crate::stats::{chi2_upper_tail, f_upper_tail};
@@ -122,8 +122,11 @@ pub(super) fn chi2_on_points(
     model: Model,
 ) -> Result<f64, Error> {
     let prepared = prepare(points, options, model)?;
-    let x = design(points, &prepared.used, model, options.t_ref_k);
-    weighted_rss(&x, &prepared.y, prepared.weights.as_deref())
+    // The used temperatures only: the design's rows are formed from them when needed (a
+    // 10⁶-point Clarke–Glew design is 32 MB, and the general solver keeps its own copy).
+    let t_k: Vec<f64> = prepared.used.iter().map(|&i| points[i].t_k).collect();
+    drop(prepared.used);
+    weighted_rss_formed(model, options.t_ref_k, &t_k, prepared.y, prepared.weights)
 }
 
 /// The comparison along `ladder`, with `chi2` giving each model's χ² on the same points.

@@ -9,7 +9,7 @@
 use super::comparison::chi2_on_points;
 use super::inputs::{design, prepare};
 use super::statistics::WeightSums;
-use crate::diagnostics::{diagnose_points, DiagnosticsSummary, PointContext, PointDiagnostics};
+use crate::diagnostics::{diagnose_points, DiagnosticsSummary, PointContext, PointStore};
 use crate::error::Error;
 use crate::fast::FastFit;
 use crate::least_squares::{solve, LinearFit};
@@ -29,7 +29,8 @@ pub(super) trait SolvedFit {
     /// Lowest and highest used temperature, Σwᵢ and Σwᵢ/Tᵢ over the used points.
     fn temperatures(&self, points: &[Measurement]) -> (f64, f64, f64, f64);
 
-    /// Per-point diagnostics of every point, with what the warnings need from them.
+    /// Per-point diagnostics of every point (kept, or computed on demand), with what the
+    /// warnings need from them.
     #[allow(clippy::too_many_arguments)]
     fn diagnose(
         &self,
@@ -41,7 +42,7 @@ pub(super) trait SolvedFit {
         variance_scale: f64,
         weighted: bool,
         sum_w: f64,
-    ) -> (Vec<PointDiagnostics>, DiagnosticsSummary);
+    ) -> (PointStore, DiagnosticsSummary);
 
     /// χ² of `other` on the same used points and weights.
     fn chi2_of(
@@ -129,7 +130,7 @@ impl SolvedFit for FastFit {
 
     fn diagnose(
         &self,
-        points: &[Measurement],
+        _points: &[Measurement],
         options: &FitOptions,
         lin: &LinearFit,
         cov: &DMatrix<f64>,
@@ -137,7 +138,7 @@ impl SolvedFit for FastFit {
         variance_scale: f64,
         weighted: bool,
         sum_w: f64,
-    ) -> (Vec<PointDiagnostics>, DiagnosticsSummary) {
+    ) -> (PointStore, DiagnosticsSummary) {
         let ctx = PointContext::new(
             lin,
             cov,
@@ -147,7 +148,14 @@ impl SolvedFit for FastFit {
             if weighted { sum_w / lin.n as f64 } else { 1.0 },
             options.thresholds,
         );
-        FastFit::diagnose(self, points, options, &ctx)
+        let (points, summary) = FastFit::diagnose(self, options, ctx);
+        (
+            PointStore::OnDemand {
+                points: Box::new(points),
+                cache: std::sync::OnceLock::new(),
+            },
+            summary,
+        )
     }
 
     fn chi2_of(
@@ -203,13 +211,13 @@ impl SolvedFit for General {
         variance_scale: f64,
         _weighted: bool,
         _sum_w: f64,
-    ) -> (Vec<PointDiagnostics>, DiagnosticsSummary) {
+    ) -> (PointStore, DiagnosticsSummary) {
         let d = diagnose_points(points, &self.solved, options, cov, variance_scale, s2);
         let mut summary = DiagnosticsSummary::default();
         for p in &d {
             summary.note(p);
         }
-        (d, summary)
+        (PointStore::Kept(d), summary)
     }
 
     fn chi2_of(

@@ -7,7 +7,7 @@
 use super::comparison::ModelComparison;
 use super::statistics::FitStatistics;
 use super::warnings::Warning;
-use crate::diagnostics::PointDiagnostics;
+use crate::diagnostics::{PointDiagnostics, PointStore};
 use crate::model::{FitOptions, Model};
 use crate::models::{ParamDimension, ParamInfo};
 use serde::{Deserialize, Serialize};
@@ -139,8 +139,9 @@ pub struct VantHoffFit {
     pub(crate) at_harmonic: ThermoAt,
     /// The temperature where K = 1 (ΔG° = 0), when there is one near the data.
     pub(crate) t_at_k1: Option<Estimate>,
-    /// Per-point diagnostics, in the order of the input slice.
-    pub(crate) points: Vec<PointDiagnostics>,
+    /// Per-point diagnostics, in the order of the input slice: kept, or (streaming path)
+    /// computed on demand from a compact copy of the points.
+    pub(crate) points: PointStore,
     /// Comparison along the ladder of nested models on the same points, when enough points.
     pub(crate) comparison: Option<ModelComparison>,
     /// Cautions in words.
@@ -274,8 +275,25 @@ impl VantHoffFit {
     }
 
     /// Per-point diagnostics, in the order of the input slice.
+    ///
+    /// A fit on the streaming path keeps no records: the first call makes them all (168
+    /// bytes a point) and keeps them. Callers that only read the points once, or one at a
+    /// time, use [`VantHoffFit::points_iter`] or [`VantHoffFit::point`], which keep none.
     pub fn points(&self) -> &[PointDiagnostics] {
-        &self.points
+        self.points.slice()
+    }
+
+    /// The diagnostics of point `i` (0-based, in the order of the input slice), the same
+    /// numbers as `points()[i]`, computed without making the other records.
+    pub fn point(&self, i: usize) -> Option<PointDiagnostics> {
+        self.points.get(i)
+    }
+
+    /// The diagnostics of every point in order, the same numbers as
+    /// [`VantHoffFit::points`], each made as it is reached and none kept: for a pass over a
+    /// large fit (the JSON's points, a count of flags).
+    pub fn points_iter(&self) -> crate::diagnostics::PointIter<'_> {
+        crate::diagnostics::PointIter::new(&self.points)
     }
 
     /// The comparison along the ladder of nested models, when enough points.
@@ -332,10 +350,12 @@ impl VantHoffFit {
 
     /// Indices (into the input slice) of points carrying any flag.
     pub fn flagged_points(&self) -> Vec<usize> {
-        self.points
-            .iter()
-            .filter(|d| d.flags.any())
-            .map(|d| d.index)
-            .collect()
+        let mut out = Vec::new();
+        self.points.for_each(&mut |d| {
+            if d.flags.any() {
+                out.push(d.index);
+            }
+        });
+        out
     }
 }
