@@ -30,7 +30,7 @@ impl EnvelopeIndex {
             .into_iter()
             .filter(|(_, x, y)| x.is_finite() && y.is_finite())
             .collect();
-        pts.sort_by(by_x_then_id);
+        sort_by_x_then_id(&mut pts);
         Self::from_sorted(pts)
     }
 
@@ -40,14 +40,23 @@ impl EnvelopeIndex {
     /// same as `new` builds from the same points (a refit reuses the order of its points by
     /// temperature, which an exclusion does not change).
     pub fn from_sorted(points: impl IntoIterator<Item = (u32, f64, f64)>) -> Self {
-        let pts: Vec<(u32, f64, f64)> = points
-            .into_iter()
-            .filter(|(_, x, y)| x.is_finite() && y.is_finite())
-            .collect();
-        debug_assert!(pts.windows(2).all(|w| by_x_then_id(&w[0], &w[1]).is_lt()));
-        let xs: Vec<f64> = pts.iter().map(|p| p.1).collect();
-        let ys: Vec<f64> = pts.iter().map(|p| p.2).collect();
-        let ids: Vec<u32> = pts.iter().map(|p| p.0).collect();
+        let points = points.into_iter();
+        let room = points.size_hint().0;
+        let (mut xs, mut ys, mut ids) = (
+            Vec::with_capacity(room),
+            Vec::with_capacity(room),
+            Vec::with_capacity(room),
+        );
+        for (id, x, y) in points.filter(|(_, x, y)| x.is_finite() && y.is_finite()) {
+            ids.push(id);
+            xs.push(x);
+            ys.push(y);
+        }
+        debug_assert!((1..ids.len()).all(|i| by_x_then_id(
+            &(ids[i - 1], xs[i - 1], 0.0),
+            &(ids[i], xs[i], 0.0)
+        )
+        .is_lt()));
         let blocks = ys
             .chunks(BLOCK)
             .enumerate()
@@ -151,6 +160,57 @@ impl EnvelopeIndex {
 /// sort of the same points gives the same sequence whatever order they arrive in.
 pub fn by_x_then_id(a: &(u32, f64, f64), b: &(u32, f64, f64)) -> std::cmp::Ordering {
     a.1.total_cmp(&b.1).then(a.0.cmp(&b.0))
+}
+
+/// Sorts points into the index's order ([`by_x_then_id`]). Many points whose ids ascend (as
+/// a fit's points arrive) are sorted by a stable radix sort of x's bits (six passes of 11
+/// bits; a pass is skipped when every point has the same digit), which keeps equal x in id
+/// order and so gives exactly what the comparison sort gives, in a fraction of the time at
+/// 10⁶ points; anything else by the comparison sort.
+pub fn sort_by_x_then_id(pts: &mut Vec<(u32, f64, f64)>) {
+    const RADIX_FROM: usize = 1 << 14;
+    const BITS: u32 = 11;
+    const PASSES: usize = 6; // 6 × 11 ≥ 64
+    const BUCKETS: usize = 1 << BITS;
+    if pts.len() < RADIX_FROM || !pts.windows(2).all(|w| w[0].0 < w[1].0) {
+        pts.sort_by(by_x_then_id);
+        return;
+    }
+    // The bits of x as an unsigned number in `f64::total_cmp`'s order.
+    let key = |x: f64| {
+        let b = x.to_bits();
+        if b >> 63 == 1 {
+            !b
+        } else {
+            b | (1 << 63)
+        }
+    };
+    let digit = |x: f64, pass: usize| ((key(x) >> (pass as u32 * BITS)) as usize) & (BUCKETS - 1);
+    let mut counts = vec![[0usize; BUCKETS]; PASSES];
+    for p in pts.iter() {
+        for (pass, c) in counts.iter_mut().enumerate() {
+            c[digit(p.1, pass)] += 1;
+        }
+    }
+    let n = pts.len();
+    let mut scratch: Vec<(u32, f64, f64)> = vec![(0, 0.0, 0.0); n];
+    for (pass, c) in counts.iter().enumerate() {
+        if c.contains(&n) {
+            continue; // every point has this digit: the pass would change nothing
+        }
+        let mut start = [0usize; BUCKETS];
+        let mut sum = 0;
+        for (s, &k) in start.iter_mut().zip(c.iter()) {
+            *s = sum;
+            sum += k;
+        }
+        for p in pts.iter() {
+            let d = digit(p.1, pass);
+            scratch[start[d]] = *p;
+            start[d] += 1;
+        }
+        std::mem::swap(pts, &mut scratch);
+    }
 }
 
 /// The first position in `a..end` where `inside` turns false, given it holds at `a` and
@@ -347,6 +407,22 @@ mod tests {
         }
         assert!(index.envelope(5.0, 5.0, 10).is_empty());
         assert!(EnvelopeIndex::default().envelope(0.0, 1.0, 10).is_empty());
+        // 20 000 points with ascending ids take the radix sort: the same order as the
+        // comparison sort, ties in x (many here), NaN, ±∞, ±0 and negative x included.
+        let mut pts: Vec<(u32, f64, f64)> =
+            (0..n).map(|i| (i as u32, xs[i] - 25.0, ys[i])).collect();
+        pts[5].1 = f64::NEG_INFINITY;
+        pts[6].1 = f64::INFINITY;
+        pts[7].1 = -0.0;
+        pts[8].1 = 0.0;
+        pts[9].1 = -f64::NAN;
+        let mut by_comparison = pts.clone();
+        by_comparison.sort_by(by_x_then_id);
+        sort_by_x_then_id(&mut pts);
+        assert!(pts
+            .iter()
+            .zip(&by_comparison)
+            .all(|(a, b)| a.0 == b.0 && a.1.to_bits() == b.1.to_bits()));
         // The same points handed over already in order give the same index.
         let sorted =
             EnvelopeIndex::from_sorted(order.iter().map(|&i| (i, xs[i as usize], ys[i as usize])));

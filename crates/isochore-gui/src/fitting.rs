@@ -10,7 +10,7 @@
 //! settings stay the same; only the points' "included" marks are set again and the fit
 //! runs. The analysis is the same, field for field, as one made from the cells (tested).
 
-use crate::decimate::{by_x_then_id, EnvelopeIndex};
+use crate::decimate::{sort_by_x_then_id, EnvelopeIndex};
 use crate::doc::Entry;
 use isochore_analysis::weighting::Weighed;
 use isochore_data::{ColumnMapping, Replicates, SeriesSettings};
@@ -147,7 +147,7 @@ impl Prepared {
                 .filter(|(_, m)| m.t_k.is_finite())
                 .map(|(k, m)| (k as u32, m.t_k, 0.0))
                 .collect();
-            order.sort_by(by_x_then_id);
+            sort_by_x_then_id(&mut order);
             order.into_iter().map(|p| p.0).collect()
         } else {
             Vec::new()
@@ -235,13 +235,7 @@ pub fn analyse(series: &Entry) -> Analysis {
     };
     let prepared = Arc::new(Prepared::new(series, points));
     let measurements = prepared.measurements.clone();
-    finish(
-        series.rev,
-        prepared,
-        measurements,
-        errors_in_t_of(series),
-        None,
-    )
+    finish(series.rev, prepared, measurements, errors_in_t_of(series))
 }
 
 /// Refits `series` from the points `previous` was made from, when they still hold (only
@@ -260,22 +254,19 @@ fn refit_job(series: &Entry, previous: &Analysis) -> Option<impl FnOnce() -> Ana
     }
     let excluded = series.data.excluded_rows();
     let rev = series.rev;
-    let hint = previous.infl_index.clone();
     Some(move || {
         let m = prepared.measurements_excluding(&excluded);
-        finish(rev, prepared, m, None, Some(hint))
+        finish(rev, prepared, m, None)
     })
 }
 
 /// The fit of `measurements` (the points of `prepared` with their current "included"
-/// marks) and everything drawn from it. `infl_hint`: the influence view's previous order,
-/// a starting point for sorting the new one (the result does not depend on it).
+/// marks) and everything drawn from it.
 fn finish(
     rev: u64,
     prepared: Arc<Prepared>,
     measurements: Vec<Measurement>,
     errors_in_t: Option<Result<isochore_fit::errors_in_t::ErrorsInTFit, String>>,
-    infl_hint: Option<Arc<EnvelopeIndex>>,
 ) -> Analysis {
     let (fit, remedy) = match &prepared.weighed {
         Err(e) => (Err(e.clone()), Some(Remedy::FitUnweighted)),
@@ -330,7 +321,7 @@ fn finish(
                     .get(k as usize)
                     .map(|d| (d.index as u32, d.t_k, d.residual))
             }));
-            (resid, influence_index(points, infl_hint.as_deref()))
+            (resid, influence_index(points))
         }
         _ => (EnvelopeIndex::default(), EnvelopeIndex::default()),
     };
@@ -354,34 +345,18 @@ fn finish(
     }
 }
 
-/// The influence view's index: points with a studentized residual, by leverage. A refit
-/// moves every leverage a little but seldom their order, so the previous index's order
-/// (`hint`) is sorted again, which the sort does in nearly one pass; the order sorted to is
-/// total (leverage, then index), so the index is the same whatever the starting order.
-fn influence_index(
-    points: &[isochore_fit::PointDiagnostics],
-    hint: Option<&EnvelopeIndex>,
-) -> EnvelopeIndex {
-    let coords: Vec<Option<[f64; 2]>> = points
+/// The influence view's index: points with a studentized residual, by leverage (then
+/// index), sorted by the index's radix sort.
+fn influence_index(points: &[isochore_fit::PointDiagnostics]) -> EnvelopeIndex {
+    let mut order: Vec<(u32, f64, f64)> = points
         .iter()
-        .map(isochore_fit::influence::influence_coordinates)
+        .filter_map(|d| {
+            isochore_fit::influence::influence_coordinates(d)
+                .filter(|[h, t]| h.is_finite() && t.is_finite())
+                .map(|[h, t]| (d.index as u32, h, t))
+        })
         .collect();
-    let mut seen = vec![false; points.len()];
-    let mut order: Vec<(u32, f64, f64)> = Vec::with_capacity(points.len());
-    let mut take = |k: usize, order: &mut Vec<(u32, f64, f64)>| {
-        if let (Some(Some([h, t])), Some(false)) = (coords.get(k), seen.get(k).copied()) {
-            seen[k] = true;
-            order.push((points[k].index as u32, *h, *t));
-        }
-    };
-    for &id in hint.map_or(&[][..], EnvelopeIndex::ids) {
-        take(id as usize, &mut order);
-    }
-    for k in 0..points.len() {
-        take(k, &mut order);
-    }
-    order.retain(|(_, x, y)| x.is_finite() && y.is_finite());
-    order.sort_by(by_x_then_id);
+    sort_by_x_then_id(&mut order);
     EnvelopeIndex::from_sorted(order)
 }
 
