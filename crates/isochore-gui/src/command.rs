@@ -73,6 +73,13 @@ pub enum Command {
         /// The new values, SI.
         values: Vec<SavedCalorimetric>,
     },
+    /// Replace the interval method, draws and generator start value of a series.
+    SetIntervals {
+        /// Series id.
+        series: u64,
+        /// The new request.
+        request: isochore_fit::intervals::IntervalRequest,
+    },
 }
 
 impl Command {
@@ -91,6 +98,7 @@ impl Command {
             Command::RemoveSeries { .. } => "remove series".into(),
             Command::ReplaceProject(_) => "replace project".into(),
             Command::SetCalorimetric { .. } => "calorimetric values".into(),
+            Command::SetIntervals { .. } => "interval method".into(),
         }
     }
 }
@@ -194,6 +202,16 @@ pub fn apply(project: &mut Project, cmd: Command) -> Option<Command> {
             Some(Command::SetCalorimetric {
                 series,
                 values: old,
+            })
+        }
+        Command::SetIntervals { series, request } => {
+            // No refit: the fit is the same whatever makes its intervals; the interval run
+            // follows the request (`crate::intervals_run`).
+            let s = project.get_mut(series)?;
+            let old = std::mem::replace(&mut s.data.settings.intervals, request);
+            Some(Command::SetIntervals {
+                series,
+                request: old,
             })
         }
     }

@@ -80,7 +80,11 @@ fn monte_carlo_names_its_intervals_draws_histograms_and_matches_the_command_line
     assert!(!shows_part(&h, "% CI ("));
     // The predictions below name theirs too.
     assert!(shows(&h, "CI and PI by the delta method"));
+    let rev = h.state().project.get(id).unwrap().rev;
     choose(&mut h, names::INTERVALS_BY, "Monte Carlo");
+    // One undoable change that does not refit the series (its revision stays).
+    assert_eq!(h.state().history.undo_label(), Some("interval method"));
+    assert_eq!(h.state().project.get(id).unwrap().rev, rev);
     // Refused in words, the setting unchanged: no draws, too many, not a number
     // (isochore-fit's check_draws gives the first two sentences).
     retype(&mut h, names::DRAWS, "0");

@@ -201,7 +201,19 @@ impl SettingsPanel {
         if let Some(e) = &self.error {
             ui.colored_label(style::flag_color(cx.dark), e);
         }
-        if new != cur {
+        let only_intervals = {
+            let mut c = cur;
+            c.intervals = new.intervals;
+            c == new
+        };
+        if new != cur && only_intervals {
+            // Only the interval setting changed: no refit.
+            self.error = None;
+            cx.out.push(Command::SetIntervals {
+                series: id,
+                request: new.intervals,
+            });
+        } else if new != cur {
             if let Err(e) = new.fit.validate() {
                 self.error = Some(e.to_string());
             } else {
