@@ -26,6 +26,7 @@ pub mod export;
 pub mod fitting;
 pub mod intervals_run;
 pub mod io;
+pub mod joint_export;
 pub mod panels;
 pub mod start;
 

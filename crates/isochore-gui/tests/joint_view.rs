@@ -283,3 +283,52 @@ fn the_joint_view_chooses_its_model_and_fits_the_calorimetric_values() {
     assert_eq!(shown.estimates(), lib.estimates());
     assert_eq!(shown.n_calorimetric(), 5);
 }
+
+/// The view writes the joint report into a folder (the command line's `--report DIR` for a
+/// joint fit): every format of isochore-report's plan, the Markdown with the calorimetric
+/// comparison of the ligand demo; a folder holding a `joint-fit.md` that isochore did not
+/// write is refused in words and the file left as it was.
+#[test]
+fn the_joint_view_writes_the_joint_report() {
+    let mut h = ligand_demo();
+    menu_item(&mut h, "View", "Fit series together…");
+    h.run_steps(3);
+    let dir = crate::workbench::temp_dir("joint-report");
+    type_into(&mut h, "joint report folder", &dir.display().to_string());
+    h.get_by_label("Write joint report").click();
+    let mut outcome = None;
+    // A debug build draws the PDF and PNG figures slowly: wait up to five minutes.
+    for _ in 0..3000 {
+        h.run_steps(1);
+        if let Some(o) = h.state().joint.export_outcome.clone() {
+            outcome = Some(o);
+            break;
+        }
+        std::thread::sleep(std::time::Duration::from_millis(100));
+    }
+    let outcome = outcome.expect("the export finished");
+    assert!(outcome.is_ok(), "{outcome:?}");
+    let md = std::fs::read_to_string(dir.join("joint-fit.md")).unwrap();
+    assert!(md.contains("## Calorimetric ΔH°"), "{md}");
+    for name in [
+        "joint-fit.html",
+        "joint-fit.pdf",
+        "joint-fit-data.csv",
+        "joint-fit-results.csv",
+    ] {
+        assert!(dir.join(name).is_file(), "{name}");
+    }
+    // A file of someone else's where the report would go: nothing is written.
+    let other = crate::workbench::temp_dir("joint-report-other");
+    std::fs::write(other.join("joint-fit.md"), "mine").unwrap();
+    h.state_mut().joint.export_folder = other.display().to_string();
+    h.get_by_label("Write joint report").click();
+    h.run_steps(3);
+    let refused = h.state().joint.export_outcome.clone().unwrap();
+    assert!(refused.unwrap_err().starts_with("No report was written"));
+    assert_eq!(
+        std::fs::read_to_string(other.join("joint-fit.md")).unwrap(),
+        "mine"
+    );
+    assert!(!other.join("joint-fit.html").exists());
+}

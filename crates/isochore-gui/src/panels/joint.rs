@@ -11,6 +11,7 @@
 //! `present`'s.
 
 use crate::context::Cx;
+use crate::joint_export::JointExport;
 use crate::panels::calorimetric::{comparisons, editor, Fields};
 use crate::panels::style;
 use egui::RichText;
@@ -19,7 +20,7 @@ use isochore_analysis::calorimetric::{compare_joint, values};
 use isochore_analysis::joint::{fit_joint, fit_with_calorimetric, JointAnalysis};
 use isochore_analysis::{Overrides, PreparedSet};
 use isochore_fit::calorimetric::{CalorimetricComparison, CalorimetricValue};
-use isochore_fit::global::CalorimetricJointFit;
+use isochore_fit::global::{CalorimetricJointFit, GlobalError};
 use isochore_fit::{EnergyUnit, Model, TemperatureUnit};
 use isochore_report::present::{joint as pj, model_name, names};
 use std::collections::HashMap;
@@ -55,8 +56,13 @@ pub struct JointPanel {
     /// Show the joint fit with the calorimetric values as observations of ΔH°(T).
     pub calorimetric_in_fit: bool,
     last: Option<(Key, Result<Joint, String>)>,
-    constrained: Option<(CalKey, Result<CalorimetricJointFit, String>)>,
+    constrained: Option<(CalKey, Result<CalorimetricJointFit, GlobalError>)>,
     fields: HashMap<u64, Fields>,
+    /// The folder the joint report is written into.
+    pub export_folder: String,
+    export: Option<JointExport>,
+    /// What the last joint report export did, in words (`Err` for a refusal or failure).
+    pub export_outcome: Option<Result<String, String>>,
 }
 
 impl JointPanel {
@@ -175,6 +181,7 @@ impl JointPanel {
             let result = run(&chosen, &self.shared, model);
             self.last = Some((key.clone(), result));
         }
+        self.export_row(ui, project, &chosen, model);
         match &self.last {
             Some((_, Err(e))) => {
                 ui.colored_label(ui.visuals().error_fg_color, e);
@@ -235,7 +242,7 @@ impl JointPanel {
             .collect();
         let cal_key: CalKey = (key, bits);
         if self.constrained.as_ref().is_none_or(|(k, _)| *k != cal_key) {
-            let r = fit_with_calorimetric(&j.sets, &j.analysis, &vals).map_err(|e| e.to_string());
+            let r = fit_with_calorimetric(&j.sets, &j.analysis, &vals);
             self.constrained = Some((cal_key, r));
         }
         if let Some((_, r)) = &self.constrained {
@@ -244,9 +251,91 @@ impl JointPanel {
     }
 }
 
+impl JointPanel {
+    /// The joint report's folder, "Write joint report" and the outcome in words; the report
+    /// holds what the view shows (the calorimetric comparisons, and the fit with the
+    /// calorimetric values when it is shown).
+    fn export_row(
+        &mut self,
+        ui: &mut egui::Ui,
+        project: &crate::doc::Project,
+        chosen: &[&crate::doc::Entry],
+        model: Model,
+    ) {
+        if let Some(r) = self.export.as_ref().and_then(JointExport::poll) {
+            self.export = None;
+            self.export_outcome = Some(r.map(|written| {
+                format!(
+                    "Wrote {} files of the joint report into {}.",
+                    written.len(),
+                    self.export_folder.trim()
+                )
+            }));
+        }
+        let Some((_, Ok(j))) = &self.last else {
+            return;
+        };
+        ui.horizontal(|ui| {
+            let name = ui.label("joint report folder");
+            ui.add(
+                egui::TextEdit::singleline(&mut self.export_folder)
+                    .hint_text("/path/to/folder")
+                    .desired_width(300.0),
+            )
+            .labelled_by(name.id);
+            if ui.button("Browse…").clicked() {
+                if let Some(p) = rfd::FileDialog::new().pick_folder() {
+                    self.export_folder = p.display().to_string();
+                }
+            }
+            let busy = self.export.is_some();
+            if ui
+                .add_enabled(!busy, egui::Button::new("Write joint report"))
+                .clicked()
+            {
+                let vals: Vec<Vec<CalorimetricValue>> =
+                    chosen.iter().map(|s| values(&s.data)).collect();
+                let comparisons = compare_joint(&j.analysis, &vals).unwrap_or_default();
+                let constrained = (self.calorimetric_in_fit && vals.iter().any(|v| !v.is_empty()))
+                    .then(|| fit_with_calorimetric(&j.sets, &j.analysis, &vals));
+                let folder = std::path::PathBuf::from(self.export_folder.trim());
+                match JointExport::start(
+                    project,
+                    chosen,
+                    model,
+                    &j.analysis,
+                    &comparisons,
+                    constrained.as_ref(),
+                    &folder,
+                ) {
+                    Ok(x) => {
+                        self.export = Some(x);
+                        self.export_outcome = None;
+                    }
+                    Err(e) => self.export_outcome = Some(Err(e)),
+                }
+            }
+            if busy {
+                ui.spinner();
+                ui.ctx()
+                    .request_repaint_after(std::time::Duration::from_millis(50));
+            }
+        });
+        match &self.export_outcome {
+            Some(Ok(m)) => {
+                ui.label(m);
+            }
+            Some(Err(e)) => {
+                ui.colored_label(ui.visuals().error_fg_color, e);
+            }
+            None => {}
+        }
+    }
+}
+
 /// The joint fit with the calorimetric values beside the fit of ln K alone, or why there
 /// is none.
-fn show_constrained(ui: &mut egui::Ui, j: &Joint, r: &Result<CalorimetricJointFit, String>) {
+fn show_constrained(ui: &mut egui::Ui, j: &Joint, r: &Result<CalorimetricJointFit, GlobalError>) {
     ui.label(format!(
         "{}, beside the joint fit of ln K alone:",
         pj::CONSTRAINED_FIT
