@@ -39,6 +39,7 @@ pub mod joint;
 mod markdown;
 mod pdf;
 pub mod present;
+mod set;
 
 use isochore_fit::{EnergyUnit, QuantityKind, TemperatureUnit, VantHoffFit};
 use std::fmt;
@@ -406,13 +407,8 @@ pub fn write_report_set(
         path: dir.to_path_buf(),
         source,
     })?;
-    // The formats are independent (each rasterises its own figures), so they are written
-    // side by side on the machine's cores; the list of paths keeps the plan's order, and
-    // each file is the same bytes whichever thread wrote it.
-    use rayon::prelude::*;
-    let parts: Vec<Vec<PathBuf>> = set_plan(stem)
-        .into_par_iter()
-        .map(|(format, name)| write_report(input, format, &dir.join(name)))
-        .collect::<Result<_, _>>()?;
-    Ok(parts.into_iter().flatten().collect())
+    // Each figure drawn and rasterised once for every format, then the files written side
+    // by side on the machine's cores; the list of paths keeps the plan's order, and each
+    // file is the same bytes write_report writes for its format.
+    set::write(input, dir, set_plan(stem))
 }

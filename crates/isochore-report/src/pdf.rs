@@ -387,13 +387,11 @@ impl Layout {
 
     fn figure(
         &mut self,
-        doc: &Document<'_>,
+        image: &FigureImage<'_>,
         kind: FigureKind,
         caption: &str,
     ) -> Result<(), ReportError> {
-        let png = svg_to_png(&(doc.figure_svg)(kind)?, PNG_SCALE)?;
-        let mut warn = Vec::new();
-        let image = RawImage::decode_from_bytes(&png, &mut warn).map_err(ReportError::Pdf)?;
+        let image = image(kind)?;
         let (w_px, h_px) = (image.width as f32, image.height as f32);
         // Fit the available width; at 300 dpi the figure is about 16.7 cm wide.
         let natural_w = w_px / FIGURE_DPI * 72.0;
@@ -427,8 +425,41 @@ pub(crate) fn render(input: &ReportInput) -> Result<Vec<u8>, ReportError> {
     render_document(&Document::of(input))
 }
 
+/// One figure's pixels at [`PNG_SCALE`], as the figure files hold them.
+pub(crate) type FigureImage<'a> = dyn Fn(FigureKind) -> Result<RawImage, ReportError> + 'a;
+
+/// The pixels of a figure's PNG file (RGBA, as decoded from it).
+pub(crate) fn image_of_png(png: &[u8]) -> Result<RawImage, ReportError> {
+    let mut warn = Vec::new();
+    RawImage::decode_from_bytes(png, &mut warn).map_err(ReportError::Pdf)
+}
+
+/// The same pixels straight from the rasteriser: the un-premultiplied RGBA that the PNG
+/// file stores and [`image_of_png`] reads back, without encoding and decoding it.
+pub(crate) fn image_of_pixmap(pixmap: &resvg::tiny_skia::Pixmap) -> RawImage {
+    RawImage {
+        width: pixmap.width() as usize,
+        height: pixmap.height() as usize,
+        pixels: printpdf::RawImageData::U8(pixmap.clone().take_demultiplied()),
+        data_format: printpdf::RawImageFormat::RGBA8,
+        tag: Vec::new(),
+    }
+}
+
 /// The PDF of any report's blocks (a single fit's or a joint fit's).
 pub(crate) fn render_document(source: &Document<'_>) -> Result<Vec<u8>, ReportError> {
+    render_document_with(source, &|kind| {
+        image_of_png(&svg_to_png(&(source.figure_svg)(kind)?, PNG_SCALE)?)
+    })
+}
+
+/// The PDF of a document whose figures are the pixels `image` gives: a report set passes
+/// the figures it rasterised for its PNG files (the pixels [`render_document`] gets by
+/// rasterising, encoding and decoding each figure itself).
+pub(crate) fn render_document_with(
+    source: &Document<'_>,
+    image: &FigureImage<'_>,
+) -> Result<Vec<u8>, ReportError> {
     let mut doc = PdfDocument::new(source.title);
     let mut fw = Vec::new();
     let regular = ParsedFont::from_bytes(fonts::REGULAR, 0, &mut fw)
@@ -489,7 +520,7 @@ pub(crate) fn render_document(source: &Document<'_>) -> Result<Vec<u8>, ReportEr
             Block::Bullets(items) => l.bullets(&items, ink.clone()),
             Block::Warnings(items) => l.warnings(&items),
             Block::Table(t) => l.table(&t),
-            Block::Figure(kind, caption) => l.figure(source, kind, &caption)?,
+            Block::Figure(kind, caption) => l.figure(image, kind, &caption)?,
         }
     }
     l.new_page();

@@ -5,3 +5,4 @@ mod errors_in_t;
 mod joint;
 mod permissions;
 mod render;
+mod report_set;

@@ -259,6 +259,24 @@ pub fn figure_png(input: &ReportInput, kind: FigureKind) -> Result<Vec<u8>, Repo
 /// # Errors
 /// [`ReportError::Figure`] when the SVG cannot be parsed or the image is empty.
 pub fn svg_to_png(svg: &str, scale: f32) -> Result<Vec<u8>, ReportError> {
+    encode_png(&rasterise(svg, scale)?)
+}
+
+/// Encodes a rasterised figure as [`svg_to_png`] does (tagged [`PNG_DPI`]).
+///
+/// # Errors
+/// [`ReportError::Figure`] when encoding fails.
+pub(crate) fn encode_png(pixmap: &resvg::tiny_skia::Pixmap) -> Result<Vec<u8>, ReportError> {
+    let png = pixmap.encode_png().map_err(fe)?;
+    Ok(with_dpi(png, PNG_DPI))
+}
+
+/// Rasterises an SVG document with the bundled fonts at `scale`, on white (the pixels
+/// [`svg_to_png`] encodes).
+///
+/// # Errors
+/// [`ReportError::Figure`] when the SVG cannot be parsed or the image is empty.
+pub(crate) fn rasterise(svg: &str, scale: f32) -> Result<resvg::tiny_skia::Pixmap, ReportError> {
     use resvg::{tiny_skia, usvg};
     let opt = usvg::Options {
         fontdb: fonts::font_database(),
@@ -277,8 +295,7 @@ pub fn svg_to_png(svg: &str, scale: f32) -> Result<Vec<u8>, ReportError> {
         tiny_skia::Transform::from_scale(scale, scale),
         &mut pixmap.as_mut(),
     );
-    let png = pixmap.encode_png().map_err(fe)?;
-    Ok(with_dpi(png, PNG_DPI))
+    Ok(pixmap)
 }
 
 /// Inserts a pHYs chunk (physical pixel size) after IHDR so viewers and word processors
