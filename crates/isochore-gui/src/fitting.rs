@@ -379,6 +379,20 @@ fn errors_in_t_of(
     }
 }
 
+/// Puts `new` in the slot. A large series' previous analysis (hundreds of megabytes at 10⁶
+/// points) is freed on a thread of its own, not in the frame that receives the new one.
+fn replace(slot: &mut Option<Arc<Analysis>>, new: Analysis) {
+    if let Some(old) = slot.replace(Arc::new(new)) {
+        if old.measurements.len() > BACKGROUND_ROWS {
+            let freed = std::thread::Builder::new()
+                .name("isochore-free".into())
+                .spawn(move || drop(old));
+            // Without a thread it is freed here, as before.
+            drop(freed);
+        }
+    }
+}
+
 #[derive(Default)]
 struct Slot {
     current: Option<Arc<Analysis>>,
@@ -419,7 +433,7 @@ impl Fitter {
                 };
                 match got {
                     Ok(a) => {
-                        slot.current = Some(Arc::new(a));
+                        replace(&mut slot.current, a);
                         slot.pending = None;
                     }
                     Err(TryRecvError::Empty) => {}
@@ -440,7 +454,7 @@ impl Fitter {
                     Some(job) => job(),
                     None => analyse(s),
                 };
-                slot.current = Some(Arc::new(a));
+                replace(&mut slot.current, a);
                 slot.pending = None;
             } else {
                 let (tx, rx) = channel();
@@ -458,12 +472,12 @@ impl Fitter {
                     });
                 match spawned {
                     Ok(_) => slot.pending = Some((s.rev, rx, now)),
-                    Err(_) => slot.current = Some(Arc::new(analyse(s))),
+                    Err(_) => replace(&mut slot.current, analyse(s)),
                 }
                 if block {
                     if let Some((_, rx, _)) = &slot.pending {
                         if let Ok(a) = rx.recv() {
-                            slot.current = Some(Arc::new(a));
+                            replace(&mut slot.current, a);
                         }
                     }
                     slot.pending = None;

@@ -39,11 +39,16 @@ use std::time::Instant;
 struct WindowApp {
     bench: Workbench,
     start: Instant,
+    /// The cold-start probe (`ISOCHORE_FIRST_FRAME`), when asked for.
+    probe: Option<start::FirstFrameProbe>,
 }
 
 impl eframe::App for WindowApp {
     fn ui(&mut self, ui: &mut egui::Ui, _frame: &mut eframe::Frame) {
         // The frame also answers the window's close button (the close question).
+        if let Some(probe) = &mut self.probe {
+            probe.frame(ui.ctx());
+        }
         let now = self.start.elapsed().as_secs_f64();
         self.bench.frame(ui, now);
         // eframe writes preferences and layout at the end of a frame once the save interval
@@ -108,6 +113,7 @@ pub fn run(project: Option<PathBuf>) -> Result<(), String> {
             Ok(Box::new(WindowApp {
                 bench,
                 start: Instant::now(),
+                probe: start::FirstFrameProbe::from_env(),
             }))
         }),
     )

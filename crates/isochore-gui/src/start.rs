@@ -67,3 +67,57 @@ impl Workbench {
         w
     }
 }
+
+/// The cold-start probe: with `ISOCHORE_FIRST_FRAME` set in the environment, the window
+/// writes to stderr when its first frame was on screen — the Unix time in nanoseconds (for
+/// a script that noted the time it started the program) and the time since the process
+/// started (from Linux's `/proc`, to 10 ms) — and closes. Used by
+/// `scripts/bench_window_start.sh`; nothing changes without the variable.
+#[derive(Debug, Default)]
+pub struct FirstFrameProbe {
+    frames: u32,
+}
+
+impl FirstFrameProbe {
+    /// The probe, when `ISOCHORE_FIRST_FRAME` is set.
+    pub fn from_env() -> Option<FirstFrameProbe> {
+        std::env::var_os("ISOCHORE_FIRST_FRAME").map(|_| FirstFrameProbe::default())
+    }
+
+    /// Called at the start of every frame. The first frame asks for a second at once; when
+    /// the second starts, the first has been painted and presented, so the time is written
+    /// and the window asked to close.
+    pub fn frame(&mut self, ctx: &egui::Context) {
+        self.frames += 1;
+        if self.frames == 1 {
+            ctx.request_repaint();
+            return;
+        }
+        if self.frames != 2 {
+            return;
+        }
+        let unix_ns = std::time::SystemTime::now()
+            .duration_since(std::time::UNIX_EPOCH)
+            .map_or(0, |d| d.as_nanos());
+        let since_start = process_age_secs()
+            .map_or_else(|| "unknown".to_string(), |s| format!("{:.0} ms", s * 1e3));
+        eprintln!("first frame on screen: unix_ns={unix_ns} since_process_start={since_start}");
+        ctx.send_viewport_cmd(egui::ViewportCommand::Close);
+    }
+}
+
+/// Seconds since this process started, from `/proc/self/stat` (field 22, in clock ticks of
+/// 1/100 s, the Linux value of `CLK_TCK` on the usual architectures) and `/proc/uptime`.
+fn process_age_secs() -> Option<f64> {
+    let stat = std::fs::read_to_string("/proc/self/stat").ok()?;
+    // The command name (field 2) may hold spaces; the fields after its ')' are plain.
+    let after = &stat[stat.rfind(')')? + 2..];
+    let start_ticks: f64 = after.split_whitespace().nth(19)?.parse().ok()?;
+    let uptime: f64 = std::fs::read_to_string("/proc/uptime")
+        .ok()?
+        .split_whitespace()
+        .next()?
+        .parse()
+        .ok()?;
+    Some(uptime - start_ticks / 100.0)
+}
