@@ -345,19 +345,22 @@ impl PointStore {
 }
 
 /// The diagnostics of a fit's points in order, each made as it is reached (see
-/// `VantHoffFit::points_iter`): a group of 64 at a time, none kept.
+/// `VantHoffFit::points_iter`): [`PointIter::CHUNK`] at a time, none kept.
 pub struct PointIter<'a> {
     store: &'a PointStore,
     next: usize,
-    buf: std::collections::VecDeque<PointDiagnostics>,
+    buf: std::vec::IntoIter<PointDiagnostics>,
 }
 
 impl<'a> PointIter<'a> {
+    /// Points made at a time (about 170 kB of records, within the cache).
+    const CHUNK: usize = 1024;
+
     pub(crate) fn new(store: &'a PointStore) -> Self {
         PointIter {
             store,
             next: 0,
-            buf: std::collections::VecDeque::with_capacity(64),
+            buf: Vec::new().into_iter(),
         }
     }
 }
@@ -366,14 +369,19 @@ impl Iterator for PointIter<'_> {
     type Item = PointDiagnostics;
 
     fn next(&mut self) -> Option<PointDiagnostics> {
-        if self.buf.is_empty() && self.next < self.store.len() {
-            let end = (self.next + 64).min(self.store.len());
-            let buf = &mut self.buf;
-            self.store
-                .for_each_in(self.next..end, &mut |d| buf.push_back(d));
-            self.next = end;
+        if let Some(d) = self.buf.next() {
+            return Some(d);
         }
-        self.buf.pop_front()
+        let len = self.store.len();
+        if self.next >= len {
+            return None;
+        }
+        let end = (self.next + Self::CHUNK).min(len);
+        let mut v = Vec::with_capacity(end - self.next);
+        self.store.for_each_in(self.next..end, &mut |d| v.push(d));
+        self.next = end;
+        self.buf = v.into_iter();
+        self.buf.next()
     }
 
     fn size_hint(&self) -> (usize, Option<usize>) {

@@ -141,9 +141,12 @@ impl OnDemand {
         let theta = self.theta;
         let stats_defined = ctx.dof >= 1.0 && ctx.s2 > 0.0;
         let dof_s2 = ctx.dof * ctx.s2;
+        let mut ms = [Measurement::new(0.0, 0.0); GROUP];
+        for (k, m) in ms[..len].iter_mut().enumerate() {
+            *m = self.measurement(start + k);
+        }
         // Per-point sums.
-        for k in 0..len {
-            let m = self.measurement(start + k);
+        for (k, &m) in ms[..len].iter().enumerate() {
             if !m.included {
                 g.used[k] = false;
                 continue;
@@ -191,9 +194,8 @@ impl OnDemand {
             g.dffits[k] = t_ext * (g.h[k] / omh).sqrt();
         }
         // Records.
-        for k in 0..len {
+        for (k, m) in ms[..len].iter().enumerate() {
             let i = start + k;
-            let m = self.measurement(i);
             let d = if g.used[k] {
                 let good = |v: f64| v.is_finite().then_some(v);
                 let h = g.h[k];
@@ -228,7 +230,7 @@ impl OnDemand {
                 d.flags.influential = d.cooks_d.is_some_and(|c| c > ctx.cooks_limit);
                 d
             } else {
-                diagnose_one(ctx, i, &m, &self.model.row(m.t_k, theta), None)
+                diagnose_one(ctx, i, m, &self.model.row(m.t_k, theta), None)
             };
             f(d);
         }
