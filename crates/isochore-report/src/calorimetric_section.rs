@@ -6,7 +6,7 @@
 //! ([`crate::present::joint::calorimetric_cells`]).
 
 use crate::content::{Block, Table};
-use crate::present::joint;
+use crate::present::{joint, names};
 use crate::ReportInput;
 use isochore_fit::calorimetric::COUPLED_EQUILIBRIA_CAUTION;
 
@@ -17,7 +17,7 @@ pub(crate) fn blocks(input: &ReportInput) -> Vec<Block> {
     }
     let (e, tu) = (input.energy_unit, input.temperature_unit);
     let mut b = vec![
-        Block::Heading("Calorimetric ΔH°".into()),
+        Block::Heading(names::CALORIMETRIC.into()),
         Block::Paragraph(
             "Each calorimetric enthalpy is compared with the van 't Hoff ΔH° of this fit at the same temperature (ΔCp° taken into account where the model has it): d = ΔH_vH(T) − ΔH_cal with SE √(SE_vH² + u²) (the two measurements are independent), z = d/SE and a normal interval; the ratio ΔH_vH/ΔH_cal with Fieller's interval, unbounded when ΔH_cal is not clearly different from zero.".into(),
         ),

@@ -17,7 +17,7 @@ use egui::RichText;
 use isochore_analysis::calorimetric::{compare_single, entry_from_display, rows_for_series};
 use isochore_fit::calorimetric::{CalorimetricComparison, COUPLED_EQUILIBRIA_CAUTION};
 use isochore_fit::{EnergyUnit, TemperatureUnit};
-use isochore_report::present::{self, joint as pj};
+use isochore_report::present::{self, joint as pj, names};
 use std::collections::HashMap;
 
 /// What is being typed for one series: a new value and a calorimetric file's path, and the
@@ -202,7 +202,7 @@ impl CalorimetricPanel {
             return;
         }
         let mut open = true;
-        egui::Window::new("Calorimetric ΔH°")
+        egui::Window::new(names::CALORIMETRIC)
             .open(&mut open)
             .default_size([760.0, 420.0])
             .vscroll(true)

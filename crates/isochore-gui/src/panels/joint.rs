@@ -190,7 +190,7 @@ impl JointPanel {
             None => {}
         }
         ui.separator();
-        ui.label(RichText::new("Calorimetric ΔH°").strong());
+        ui.label(RichText::new(names::CALORIMETRIC).strong());
         for s in &chosen {
             let n = s.data.calorimetric.len();
             egui::CollapsingHeader::new(format!("Calorimetric values of {} ({n})", s.name()))

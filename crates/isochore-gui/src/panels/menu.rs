@@ -114,7 +114,13 @@ pub fn menu_bar(
                     joint.open_with_all(cx.project);
                     ui.close();
                 }
-                if ui.button("Calorimetric ΔH°…").clicked() {
+                if ui
+                    .button(format!(
+                        "{}…",
+                        isochore_report::present::names::CALORIMETRIC
+                    ))
+                    .clicked()
+                {
                     calorimetric.open = true;
                     ui.close();
                 }

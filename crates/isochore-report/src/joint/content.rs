@@ -360,7 +360,7 @@ fn calorimetric(input: &JointReportInput, b: &mut Vec<Block>) {
         return;
     }
     let (e, tu) = (input.energy_unit, input.temperature_unit);
-    b.push(Block::Heading("Calorimetric ΔH°".into()));
+    b.push(Block::Heading(names::CALORIMETRIC.into()));
     b.push(Block::Paragraph(
         "Each calorimetric enthalpy is compared with the van 't Hoff ΔH° of its series at the same temperature, from the joint fit (so a shared ΔCp° carries every series' information into the comparison): the difference with a normal interval and z, and the ratio ΔH_vH/ΔH_cal with Fieller's interval.".into(),
     ));

@@ -194,3 +194,7 @@ mod tests {
         assert_eq!(use_row_again(7), "use row 7 again");
     }
 }
+
+/// Calorimetric enthalpies compared with the van 't Hoff ΔH°: the reports' section and the
+/// window's "Calorimetric ΔH°" window and heading (DEVELOPERS.md: "ΔH_cal" ± "u").
+pub const CALORIMETRIC: &str = "Calorimetric ΔH°";
