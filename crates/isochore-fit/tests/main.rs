@@ -19,6 +19,7 @@ mod hostile;
 mod interval_coverage;
 mod intervals;
 mod intervals_errors_in_t;
+mod joint_intervals;
 mod known_answers;
 mod known_sigma;
 mod nist_strd;

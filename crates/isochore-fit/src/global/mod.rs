@@ -284,3 +284,31 @@ pub fn fit_global(
         warnings,
     })
 }
+
+/// The used rows of `fit`'s block design made again from `series` (the inputs `fit` was
+/// made from), for the interval runs of a joint fit: (series, index) of each row, ln K,
+/// the weights (`None` unweighted) and the design, rows in the fit's order.
+///
+/// # Errors
+/// As [`fit_global`]'s checks (none when `series` are the fit's inputs).
+#[allow(clippy::type_complexity)]
+pub(crate) fn block_system(
+    series: &[SeriesInput<'_>],
+    fit: &GlobalFit,
+) -> Result<
+    (
+        Vec<(usize, usize)>,
+        Vec<f64>,
+        Option<Vec<f64>>,
+        nalgebra::DMatrix<f64>,
+    ),
+    GlobalError,
+> {
+    let mut sharing = SharingMap::per_series();
+    for (info, s) in fit.model().params().iter().zip(&fit.sharing) {
+        sharing.set(info.key, *s);
+    }
+    let layout = Layout::new(fit.model(), &sharing, series)?;
+    let p = prepare(series, &layout, fit.options())?;
+    Ok((p.rows, p.y, p.weights, p.design))
+}

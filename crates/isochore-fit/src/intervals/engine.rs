@@ -61,6 +61,21 @@ fn factor(
             a[(i, j)] = row[j] * sw;
         }
     }
+    factor_weighted(a)
+}
+
+/// The QR and column scales of `a`, a design whose rows are already scaled by √w.
+#[allow(clippy::type_complexity)]
+fn factor_weighted(
+    mut a: DMatrix<f64>,
+) -> Option<(
+    nalgebra::linalg::QR<f64, nalgebra::Dyn, nalgebra::Dyn>,
+    Vec<f64>,
+)> {
+    let (n, p) = (a.nrows(), a.ncols());
+    if n < p {
+        return None;
+    }
     let scale: Vec<f64> = (0..p)
         .map(|j| {
             let norm = a.column(j).norm();
@@ -90,15 +105,36 @@ fn factor(
 /// The p×n map M with β(y) = M y for the weighted least-squares fit of `d` (column-major
 /// p×n: `m[i * p + j]` is Mⱼᵢ). `None` when the design is rank deficient.
 pub(crate) fn linear_map(d: &Design) -> Option<Vec<f64>> {
-    let (n, p) = (d.n(), d.p());
     let (qr, scale) = factor(d.model, d.theta, &d.t, &d.w)?;
+    map_of(qr, &scale, &d.w)
+}
+
+/// The p×n map M with β(y) = M y for the weighted least-squares fit of any design `x`
+/// (n×p, rows not yet weighted) with weights `w` (a joint fit's block design), laid out as
+/// [`linear_map`]'s. `None` when the design is rank deficient.
+pub(crate) fn linear_map_of(x: &DMatrix<f64>, w: &[f64]) -> Option<Vec<f64>> {
+    let mut a = x.clone();
+    for (i, wi) in w.iter().enumerate() {
+        let sw = wi.sqrt();
+        a.row_mut(i).iter_mut().for_each(|v| *v *= sw);
+    }
+    let (qr, scale) = factor_weighted(a)?;
+    map_of(qr, &scale, w)
+}
+
+fn map_of(
+    qr: nalgebra::linalg::QR<f64, nalgebra::Dyn, nalgebra::Dyn>,
+    scale: &[f64],
+    w: &[f64],
+) -> Option<Vec<f64>> {
+    let (n, p) = (w.len(), scale.len());
     let q = qr.q(); // n×p
     let r = qr.r();
     let qt = q.transpose(); // p×n
     let x = r.solve_upper_triangular(&qt)?; // R⁻¹Q₁ᵀ, p×n
     let mut m = vec![0.0; n * p];
     for i in 0..n {
-        let sw = d.w[i].sqrt();
+        let sw = w[i].sqrt();
         for j in 0..p {
             m[i * p + j] = x[(j, i)] * sw / scale[j];
         }

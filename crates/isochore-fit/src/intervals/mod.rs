@@ -23,6 +23,7 @@ mod bca;
 mod bootstrap;
 mod draws;
 mod engine;
+mod joint;
 mod montecarlo;
 mod montecarlo_t;
 mod progress;
@@ -33,6 +34,7 @@ mod rng;
 pub use bca::{acceleration, bca_interval, mean_sd, percentile_interval, percentile_sorted};
 pub use bootstrap::{bootstrap, bootstrap_with};
 pub use draws::{histogram, Draws, Histogram, TAIL_LEFT_OUT};
+pub use joint::{joint_bootstrap, joint_monte_carlo, JointRun, JointTarget};
 pub use montecarlo::{monte_carlo, monte_carlo_with};
 pub use progress::{Progress, BLOCK};
 pub use quantities::{quantities, Quantity, QuantityKind};
@@ -268,6 +270,8 @@ pub enum IntervalError {
     Fit(Error),
     /// Stopped by [`Progress::cancel`] before every draw was done.
     Cancelled,
+    /// A resampling a joint fit does not offer, with the reason in words.
+    NotForJointFit(&'static str),
 }
 
 impl fmt::Display for IntervalError {
@@ -297,6 +301,7 @@ impl fmt::Display for IntervalError {
             ),
             IntervalError::Fit(e) => write!(f, "{e}"),
             IntervalError::Cancelled => write!(f, "stopped before every draw was done"),
+            IntervalError::NotForJointFit(why) => write!(f, "{why}"),
         }
     }
 }
