@@ -8,7 +8,8 @@
 use crate::content::{Block, Table};
 use crate::present::{joint, names};
 use crate::ReportInput;
-use isochore_fit::calorimetric::COUPLED_EQUILIBRIA_CAUTION;
+use isochore_fit::calorimetric::{CalorimetricComparison, COUPLED_EQUILIBRIA_CAUTION};
+use isochore_fit::{EnergyUnit, TemperatureUnit};
 
 /// The blocks of the section; empty without calorimetric values.
 pub(crate) fn blocks(input: &ReportInput) -> Vec<Block> {
@@ -22,30 +23,45 @@ pub(crate) fn blocks(input: &ReportInput) -> Vec<Block> {
             "Each calorimetric enthalpy is compared with the van 't Hoff ΔH° of this fit at the same temperature (ΔCp° taken into account where the model has it): d = ΔH_vH(T) − ΔH_cal with SE √(SE_vH² + u²) (the two measurements are independent), z = d/SE and a normal interval; the ratio ΔH_vH/ΔH_cal with Fieller's interval, unbounded when ΔH_cal is not clearly different from zero.".into(),
         ),
     ];
+    let items: Vec<(&str, &CalorimetricComparison)> = input
+        .calorimetric
+        .iter()
+        .map(|c| (input.series_name.as_str(), c))
+        .collect();
+    b.extend(comparison_blocks(&items, e, tu, input.fit.options().level));
+    b
+}
+
+/// The comparison table of `items` (each after its series' label), each verdict after its
+/// label, and the caution about coupled equilibria once: the single report's section and
+/// the joint report's alike.
+pub(crate) fn comparison_blocks(
+    items: &[(&str, &CalorimetricComparison)],
+    e: EnergyUnit,
+    tu: TemperatureUnit,
+    level: f64,
+) -> Vec<Block> {
     let mut rows = Vec::new();
     let mut verdicts = Vec::new();
-    for c in &input.calorimetric {
-        let mut r = vec![input.series_name.clone()];
+    for (label, c) in items {
+        let mut r = vec![label.to_string()];
         r.extend(joint::calorimetric_cells(c, e, tu));
         rows.push(r);
-        let v = c
-            .verdict
-            .trim_end_matches(COUPLED_EQUILIBRIA_CAUTION)
-            .trim_end_matches("; ");
-        verdicts.push(format!("{v}."));
+        verdicts.push(format!("{label}: {}.", joint::verdict_words(c)));
     }
-    b.push(Block::Table(Table {
-        header: joint::calorimetric_header(e, input.fit.options().level),
-        rows,
-        numeric: vec![false, true, true, true, true, true, true],
-        note: None,
-    }));
-    b.push(Block::Bullets(verdicts));
-    b.push(Block::Paragraph(format!(
-        "Caution: {}.",
-        capitalised(COUPLED_EQUILIBRIA_CAUTION)
-    )));
-    b
+    vec![
+        Block::Table(Table {
+            header: joint::calorimetric_header(e, level),
+            rows,
+            numeric: vec![false, true, true, true, true, true, true],
+            note: None,
+        }),
+        Block::Bullets(verdicts),
+        Block::Paragraph(format!(
+            "Caution: {}.",
+            capitalised(COUPLED_EQUILIBRIA_CAUTION)
+        )),
+    ]
 }
 
 fn capitalised(s: &str) -> String {

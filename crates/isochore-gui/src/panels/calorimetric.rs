@@ -177,11 +177,7 @@ pub fn comparisons(
         }
     });
     for (label, c) in rows {
-        let v = c
-            .verdict
-            .trim_end_matches(COUPLED_EQUILIBRIA_CAUTION)
-            .trim_end_matches("; ");
-        ui.label(format!("{label}: {v}."));
+        ui.label(format!("{label}: {}.", pj::verdict_words(c)));
     }
     ui.label(format!("Caution: {COUPLED_EQUILIBRIA_CAUTION}."));
 }

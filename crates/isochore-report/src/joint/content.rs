@@ -7,7 +7,6 @@ use super::JointReportInput;
 use crate::content::{Block, Table, MAX_LIST_ITEMS, MAX_TABLE_ROWS};
 use crate::figures::FigureKind;
 use crate::present::{self, cautions, fixed, flag_words, joint, names, percent, show_t};
-use isochore_fit::calorimetric::COUPLED_EQUILIBRIA_CAUTION;
 use isochore_fit::global::compensation::CORRELATED_ESTIMATES_CAUTION;
 use isochore_fit::{Weighting, GAS_CONSTANT};
 
@@ -364,31 +363,17 @@ fn calorimetric(input: &JointReportInput, b: &mut Vec<Block>) {
     b.push(Block::Paragraph(
         "Each calorimetric enthalpy is compared with the van 't Hoff ΔH° of its series at the same temperature, from the joint fit (so a shared ΔCp° carries every series' information into the comparison): the difference with a normal interval and z, and the ratio ΔH_vH/ΔH_cal with Fieller's interval.".into(),
     ));
-    let mut rows = Vec::new();
-    let mut verdicts = Vec::new();
-    for s in &input.series {
-        for c in &s.calorimetric {
-            let mut r = vec![s.label.clone()];
-            r.extend(joint::calorimetric_cells(c, e, tu));
-            rows.push(r);
-            let v = c
-                .verdict
-                .trim_end_matches(COUPLED_EQUILIBRIA_CAUTION)
-                .trim_end_matches("; ");
-            verdicts.push(format!("{}: {v}.", s.label));
-        }
-    }
-    b.push(Block::Table(Table {
-        header: joint::calorimetric_header(e, input.fit.options().level),
-        rows,
-        numeric: vec![false, true, true, true, true, true, true],
-        note: None,
-    }));
-    b.push(Block::Bullets(verdicts));
-    b.push(Block::Paragraph(format!(
-        "Caution: {}",
-        sentence(COUPLED_EQUILIBRIA_CAUTION)
-    )));
+    let items: Vec<(&str, &isochore_fit::calorimetric::CalorimetricComparison)> = input
+        .series
+        .iter()
+        .flat_map(|s| s.calorimetric.iter().map(move |c| (s.label.as_str(), c)))
+        .collect();
+    b.extend(crate::calorimetric_section::comparison_blocks(
+        &items,
+        e,
+        tu,
+        input.fit.options().level,
+    ));
     constrained(input, b);
 }
 

@@ -375,6 +375,14 @@ pub fn calorimetric_cells(
     ]
 }
 
+/// A comparison's verdict without the caution about coupled equilibria that ends it (said
+/// once beside the table instead of after every value).
+pub fn verdict_words(c: &CalorimetricComparison) -> &str {
+    c.verdict
+        .trim_end_matches(isochore_fit::calorimetric::COUPLED_EQUILIBRIA_CAUTION)
+        .trim_end_matches("; ")
+}
+
 /// Whether a joint fit took its σ as known standard uncertainties (weighted, absolute σ):
 /// no rescaling, normal intervals, the Δχ² test.
 pub fn is_absolute(fit: &GlobalFit) -> bool {

@@ -175,6 +175,10 @@ pub fn errors_in_t_method(m: isochore_fit::errors_in_t::ErrorsInTMethod) -> &'st
     }
 }
 
+/// Calorimetric enthalpies compared with the van 't Hoff ΔH°: the reports' section and the
+/// window's "Calorimetric ΔH°" window and heading (DEVELOPERS.md: "ΔH_cal" ± "u").
+pub const CALORIMETRIC: &str = "Calorimetric ΔH°";
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -194,7 +198,3 @@ mod tests {
         assert_eq!(use_row_again(7), "use row 7 again");
     }
 }
-
-/// Calorimetric enthalpies compared with the van 't Hoff ΔH°: the reports' section and the
-/// window's "Calorimetric ΔH°" window and heading (DEVELOPERS.md: "ΔH_cal" ± "u").
-pub const CALORIMETRIC: &str = "Calorimetric ΔH°";
