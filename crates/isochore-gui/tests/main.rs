@@ -1,5 +1,6 @@
 //! The one integration-test binary of this package: one module per subject.
 
+mod delta_h_zero_view;
 mod errors_in_t_view;
 mod export;
 mod export_guard;

@@ -1,5 +1,6 @@
 //! The results of the active series as isochore-fit gives them: ΔH°, ΔS°, ΔG°(θ) and ΔCp°
-//! with standard error and confidence interval in the chosen units, the ΔH°–ΔS°
+//! with standard error and confidence interval in the chosen units, the temperature where
+//! ΔH° = 0 (ΔCp° models) with Fieller's interval and its words, the ΔH°–ΔS°
 //! correlation with its joint confidence ellipse, fit statistics, the linear-vs-ΔCp°
 //! comparison in words, and every warning beside the numbers it qualifies.
 
@@ -164,7 +165,36 @@ impl ResultsPanel {
                     ui.label(RichText::new(format!("{} … {}", w(lo), w(hi))).monospace());
                     ui.end_row();
                 }
+                // ΔCp° models: the temperature where ΔH° changes sign, with Fieller's
+                // interval (the method named under it); its words below the table.
+                if let Some(r) = present::delta_h_zero_row(fit, tu) {
+                    let shown = r.quantity.replace(", ", ",\n").replace("; ", ";\n");
+                    ui.label(RichText::new(shown).strong());
+                    let value = r.value_with_unit();
+                    let v = ui.label(RichText::new(value.clone()).monospace());
+                    v.widget_info(|| {
+                        egui::WidgetInfo::labeled(
+                            egui::Role::Label,
+                            true,
+                            format!("{} = {value}", r.quantity),
+                        )
+                    });
+                    ui.label(RichText::new(r.se_short()).monospace());
+                    ui.vertical(|ui| {
+                        ui.label(RichText::new(r.interval_short()).monospace());
+                        ui.label(
+                            RichText::new(names::interval_method(
+                                isochore_fit::intervals::IntervalMethod::Fieller,
+                            ))
+                            .small(),
+                        );
+                    });
+                    ui.end_row();
+                }
             });
+        if let Some(words) = fit.delta_h_zero_words_in(|t| present::show_t(t, tu)) {
+            ui.label(RichText::new(format!("{words}.")).small());
+        }
         ui.label(
             RichText::new(format!(
                 "{}; there ΔG° is {}: quote ΔH° with ΔG° at T_hm.",

@@ -28,9 +28,9 @@ pub use number::{
 };
 pub use rows::{
     compact_statistics_rows, comparison_rows, covariance_table, covariance_unit,
-    critical_distribution, fitted_params, flag_words, is_absolute, ladder_text, level_percent,
-    parameter_rows, result_rows, si_symbol, statistics_rows, step_name, step_summary,
-    varies_with_t, ResultRow,
+    critical_distribution, delta_h_zero_row, fitted_params, flag_words, is_absolute, ladder_text,
+    level_percent, parameter_rows, result_rows, si_symbol, statistics_rows, step_name,
+    step_summary, varies_with_t, ResultRow,
 };
 pub use units::{
     energy, order, per_kelvin, per_kelvin_squared, show_t, show_t_with, t_difference, unit_of, Unit,

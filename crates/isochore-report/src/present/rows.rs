@@ -176,16 +176,24 @@ pub fn result_rows(fit: &VantHoffFit, e: EnergyUnit, tu: TemperatureUnit) -> Vec
     }
     // ΔCp° models: the temperature where ΔH° changes sign, with Fieller's interval; the
     // words ([`VantHoffFit::delta_h_zero_words`]) go beside the table.
-    if let Some(z) = fit.temperature_where_delta_h_is_zero() {
-        let mut quantity = if z.extrapolated {
-            format!("{}, extrapolated", names::T_DELTA_H_ZERO)
-        } else {
-            names::T_DELTA_H_ZERO.to_string()
-        };
-        quantity.push_str(unbounded_suffix(&z.estimate));
-        rows.push(temperature_row(quantity, z.estimate, tu));
-    }
+    rows.extend(delta_h_zero_row(fit, tu));
     rows
+}
+
+/// The row of the temperature where ΔH° changes sign (ΔCp° models), with Fieller's
+/// interval, in `tu`: "T where ΔH° = 0", with ", extrapolated" outside the measured range
+/// and "; interval unbounded below" (above, both) where an end is infinite. `None` for the
+/// linear model and when ΔH° keeps its sign near the data; the words of
+/// [`VantHoffFit::delta_h_zero_words_in`] go beside it in every front end.
+pub fn delta_h_zero_row(fit: &VantHoffFit, tu: TemperatureUnit) -> Option<ResultRow> {
+    let z = fit.temperature_where_delta_h_is_zero()?;
+    let mut quantity = if z.extrapolated {
+        format!("{}, extrapolated", names::T_DELTA_H_ZERO)
+    } else {
+        names::T_DELTA_H_ZERO.to_string()
+    };
+    quantity.push_str(unbounded_suffix(&z.estimate));
+    Some(temperature_row(quantity, z.estimate, tu))
 }
 
 /// "; interval unbounded above" (below, both) for an estimate with an infinite end.
