@@ -34,6 +34,7 @@ pub mod errors_in_t;
 pub mod files;
 pub mod intervals;
 pub mod joint;
+pub mod joint_intervals;
 pub mod json;
 pub mod pair;
 pub mod report;

@@ -205,6 +205,32 @@ pub fn write_joint_with_calorimetric(
     comparisons: &[Vec<CalorimetricComparison>],
     constrained: Option<&Result<CalorimetricJointFit, GlobalError>>,
 ) -> io::Result<()> {
+    write_joint_with_calorimetric_and_intervals(
+        w,
+        sets,
+        a,
+        with_points,
+        comparisons,
+        constrained,
+        None,
+    )
+}
+
+/// [`write_joint_with_calorimetric`] with the joint fit's estimates and `intervals` from a
+/// Monte Carlo or bootstrap `run` (see [`super::joint_intervals::apply`]); the comparisons
+/// and `calorimetric_fit` stay the delta method's.
+///
+/// # Errors
+/// The writer's.
+pub fn write_joint_with_calorimetric_and_intervals(
+    w: &mut impl Write,
+    sets: &[PreparedSet],
+    a: &crate::joint::JointAnalysis,
+    with_points: bool,
+    comparisons: &[Vec<CalorimetricComparison>],
+    constrained: Option<&Result<CalorimetricJointFit, GlobalError>>,
+    run: Option<&isochore_fit::intervals::JointRun>,
+) -> io::Result<()> {
     let calorimetric = comparisons
         .iter()
         .enumerate()
@@ -217,6 +243,9 @@ pub fn write_joint_with_calorimetric(
         })
         .collect();
     let mut joint = super::joint::JointJson::new(sets, a, with_points);
+    if let Some(r) = run {
+        super::joint_intervals::apply(&mut joint, r, &a.labels);
+    }
     let mut n = Nulls::new();
     let calorimetric_fit = constrained.map(|r| match r {
         Ok(fit) => Some(CalorimetricFitJson::new(&mut n, fit, &a.labels)),

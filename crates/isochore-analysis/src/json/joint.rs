@@ -172,6 +172,10 @@ pub struct JointJson<'a> {
     /// Per-point values of every series, series by series (left out by `--summary`).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub points: Option<Vec<PointJson<'a>>>,
+    /// The Monte Carlo or bootstrap run that made the intervals (absent for the delta
+    /// method; [`super::joint_intervals`]).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub intervals: Option<super::joint_intervals::JointIntervalsJson<'a>>,
     /// Cautions in words.
     pub warnings: Vec<String>,
     /// The program's version.
@@ -312,6 +316,7 @@ impl<'a> JointJson<'a> {
             separate_params,
             compensation,
             points,
+            intervals: None,
             warnings,
             version: VERSION,
         }
@@ -394,4 +399,23 @@ pub fn write_joint(
     with_points: bool,
 ) -> io::Result<()> {
     serde_json::to_writer(w, &JointJson::new(sets, a, with_points)).map_err(io::Error::from)
+}
+
+/// Writes a joint fit as one JSON object with the intervals of `run` (see
+/// [`super::joint_intervals::apply`]); without a run, [`write_joint`]'s object.
+///
+/// # Errors
+/// The writer's.
+pub fn write_joint_with_intervals(
+    w: &mut impl Write,
+    sets: &[PreparedSet],
+    a: &JointAnalysis,
+    with_points: bool,
+    run: Option<&isochore_fit::intervals::JointRun>,
+) -> io::Result<()> {
+    let mut doc = JointJson::new(sets, a, with_points);
+    if let Some(r) = run {
+        super::joint_intervals::apply(&mut doc, r, &a.labels);
+    }
+    serde_json::to_writer(w, &doc).map_err(io::Error::from)
 }

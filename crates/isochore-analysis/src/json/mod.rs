@@ -15,6 +15,7 @@
 pub mod calorimetric;
 pub mod errors_in_t;
 pub mod intervals;
+pub mod joint_intervals;
 pub mod joint;
 pub mod predict;
 mod stream;
