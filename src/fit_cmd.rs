@@ -115,17 +115,9 @@ fn error_entry(
 /// checked (no input, nothing isochore did not write) before the first one is written.
 pub fn run(a: &FitArgs) -> Result<(), Failure> {
     let intervals = crate::intervals_cmd::request(a).map_err(Failure::usage)?;
-    let resampled = intervals.choice != isochore_analysis::intervals::IntervalChoice::Delta;
-    // A joint fit would need every series resampled and refitted together; not built yet.
-    // (With --calorimetric the run is written beside the comparisons, which stay the delta
-    // method's.)
-    if resampled && a.share.is_some() {
-        return Err(Failure::usage(
-            "--intervals monte-carlo or bootstrap is not available for a joint fit (--share) yet: each draw would have to refit every series together; leave --intervals out (the delta method) for a joint fit, or fit each series on its own with --intervals",
-        ));
-    }
+    // A joint fit runs the request on the whole block design (joint_cmd).
     if let Some(keys) = &a.share {
-        return crate::joint_cmd::run(a, keys);
+        return crate::joint_cmd::run(a, keys, &intervals);
     }
     let calorimetric = crate::calorimetric_cmd::values(a).map_err(Failure::usage)?;
     // Data sets whose resampled intervals were refused (a usage error: another method or
@@ -279,6 +271,14 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                         error_entry(&mut out, &mut entries, &source, e).map_err(io_fail)?;
                     }
                     failures.push(e.clone());
+                    continue;
+                }
+            };
+            // Without --intervals, the method the data set records (a project's).
+            let intervals = match crate::intervals_cmd::for_set(a, &intervals, job) {
+                Ok(r) => r,
+                Err(e) => {
+                    interval_refusals.push(e);
                     continue;
                 }
             };

@@ -11,18 +11,24 @@ use crate::Failure;
 use isochore_analysis::calorimetric::compare_joint;
 use isochore_analysis::joint::fit_with_calorimetric;
 use isochore_analysis::joint::{fit_joint, JointAnalysis};
+use isochore_analysis::joint_intervals::run_joint_intervals;
 use isochore_analysis::joint_report_input;
-use isochore_analysis::json::joint::write_joint;
+use isochore_analysis::json::joint::write_joint_with_intervals;
 use isochore_fit::calorimetric::{CalorimetricComparison, CalorimetricValue};
 use isochore_fit::global::{CalorimetricJointFit, GlobalError};
+use isochore_fit::intervals::{IntervalRequest, JointRun, JointTarget};
 use isochore_fit::{Estimate, ParamInfo};
+use isochore_report::present::intervals::method_line;
+use isochore_report::present::names::interval_method;
 use isochore_report::present::{diag, fixed, flag_words, percent, plus_minus, show_t, unit_of};
 use isochore_report::{OverwriteGuard, ReportFormat};
 use std::io::{self, Write};
 use std::path::{Path, PathBuf};
 
-/// Runs a joint fit of every data set in `a.files`, sharing `keys`.
-pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
+/// Runs a joint fit of every data set in `a.files`, sharing `keys`, with the intervals
+/// `intervals` asks for (the delta method's, or a Monte Carlo or bootstrap run over the
+/// whole block design).
+pub fn run(a: &FitArgs, keys: &[String], intervals: &IntervalRequest) -> Result<(), Failure> {
     crate::load::reference_temperature(&a.fit).map_err(Failure::usage)?;
     let calorimetric = crate::calorimetric_cmd::tagged(a).map_err(Failure::usage)?;
     if a.calorimetric_in_fit && calorimetric.is_none() {
@@ -58,6 +64,9 @@ pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
         sets.extend(load_for_joint(path, &a.fit, a.report.is_some()).map_err(Failure::input)?);
     }
     let joint = fit_joint(&sets, &keys).map_err(|e| Failure::input(format!("--share: {e}")))?;
+    // A refusal of the run is a usage error: another method or setting settles it.
+    let resampled = run_joint_intervals(&sets, &joint, intervals)
+        .map_err(|e| Failure::usage(format!("--intervals with --share: {e}")))?;
     if let Some(items) = &calorimetric {
         for name in items.iter().filter_map(|(s, _)| s.as_deref()) {
             if !sets
@@ -88,6 +97,12 @@ pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
         (Some(v), true) => Some(fit_with_calorimetric(&sets, &joint, v)),
         _ => None,
     };
+    if let (Some(_), Some(run)) = (&a.report, &resampled) {
+        output::note(&format!(
+            "the joint report shows the delta method's intervals; the run ({}) is in the text and JSON output only",
+            method_line(&run.run)
+        ));
+    }
     if let (Some(format), Some(path)) = (report_format, &a.report) {
         write_reports(
             a,
@@ -104,21 +119,26 @@ pub fn run(a: &FitArgs, keys: &[String]) -> Result<(), Failure> {
     let io_fail = output::stdout_failure;
     if a.json {
         if calorimetric.is_some() {
-            isochore_analysis::json::calorimetric::write_joint_with_calorimetric(
+            isochore_analysis::json::calorimetric::write_joint_with_calorimetric_and_intervals(
                 &mut out,
                 &sets,
                 &joint,
                 !a.summary,
                 &comparisons,
                 constrained.as_ref(),
+                resampled.as_ref(),
             )
             .map_err(io_fail)?;
         } else {
-            write_joint(&mut out, &sets, &joint, !a.summary).map_err(io_fail)?;
+            write_joint_with_intervals(&mut out, &sets, &joint, !a.summary, resampled.as_ref())
+                .map_err(io_fail)?;
         }
         out.write_all(b"\n").map_err(io_fail)?;
     } else {
         text(&mut out, &sets, &joint, !a.summary).map_err(io_fail)?;
+        if let Some(run) = &resampled {
+            intervals_text(&mut out, &sets, &joint, run).map_err(io_fail)?;
+        }
         calorimetric_text(&mut out, &sets, &joint, &comparisons).map_err(io_fail)?;
         if let Some(c) = &constrained {
             constrained_text(&mut out, &sets, &joint, c).map_err(io_fail)?;
@@ -289,6 +309,56 @@ fn shown(info: &ParamInfo, job: &Job, e: Estimate) -> String {
         fixed(e.ci_high, d),
         u.symbol
     )
+}
+
+/// The joint fit's Monte Carlo or bootstrap run: the method line, then each parameter
+/// (shared, each series' own) and each difference between series with its resampled
+/// interval and the joint fit's delta-method one beside it.
+fn intervals_text(
+    w: &mut impl Write,
+    sets: &[Job],
+    j: &JointAnalysis,
+    run: &JointRun,
+) -> io::Result<()> {
+    let first = &sets[0];
+    let model = j.fit.model();
+    writeln!(w)?;
+    writeln!(
+        w,
+        "{} over the joint fit (every draw refits all series together; the tables above are the delta method's):",
+        method_line(&run.run)
+    )?;
+    writeln!(
+        w,
+        "  {:<10} {:<22} {:<44} {:<20} | delta method",
+        "quantity", "series", "value ± SE (SD of draws)  [interval]", "method"
+    )?;
+    for (t, q) in run.targets.iter().zip(&run.run.quantities) {
+        let Some(info) = model.params().iter().find(|p| p.key == t.key()) else {
+            continue;
+        };
+        let who = match *t {
+            JointTarget::Shared { .. } => "(shared)".to_string(),
+            JointTarget::Series { series, .. } => j.labels[series].clone(),
+            JointTarget::Difference { a, b, .. } => {
+                format!("{} − {}", j.labels[a], j.labels[b])
+            }
+        };
+        let best = q.best();
+        writeln!(
+            w,
+            "  {:<10} {:<22} {:<44} {:<20} | {}",
+            symbol(model, info),
+            who,
+            shown(info, first, best.estimate()),
+            interval_method(best.method),
+            shown(info, first, q.quantity.delta)
+        )?;
+    }
+    for warning in &run.run.warnings {
+        writeln!(w, "  note: {warning}")?;
+    }
+    Ok(())
 }
 
 /// The readable account of a joint fit.

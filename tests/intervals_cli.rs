@@ -221,10 +221,10 @@ fn a_report_has_the_methods_paragraph_and_the_comparison_table() {
 }
 
 /// Issue 13: `--intervals` with `--calorimetric` writes both (the comparisons stay the
-/// delta method's: the rest of the document is the run's, unchanged); with `--share` it is
-/// refused in words (exit 2) until joint fits are resampled.
+/// delta method's: the rest of the document is the run's, unchanged); with `--share` the
+/// joint fit is resampled (`joint_intervals_cli` checks its numbers).
 #[test]
-fn intervals_go_with_calorimetric_values_and_are_refused_for_joint_fits() {
+fn intervals_go_with_calorimetric_values_and_with_joint_fits() {
     let path = demo("binding_qx7_halo2.csv");
     let base = [
         "fit",
@@ -270,11 +270,17 @@ fn intervals_go_with_calorimetric_values_and_are_refused_for_joint_fits() {
         "delta_cp",
         "--intervals",
         "monte-carlo",
+        "--draws",
+        "400",
+        "--json",
+        "--summary",
     ]);
-    assert_eq!(out.status.code(), Some(2));
-    let err = String::from_utf8_lossy(&out.stderr);
     assert!(
-        err.contains("joint fit") && err.contains("--share"),
-        "{err}"
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
     );
+    let j = json_of(&out);
+    assert_eq!(j["intervals"]["method"], "monte_carlo");
+    assert_eq!(j["params"]["delta_cp"]["method"], "monte_carlo");
 }

@@ -14,22 +14,22 @@ use super::cli::{close, json_of, run};
 use serde_json::Value;
 use std::path::PathBuf;
 
-const T_A: [f64; 10] = [
+pub(super) const T_A: [f64; 10] = [
     278.15, 283.15, 288.15, 293.15, 298.15, 303.15, 308.15, 313.15, 318.15, 323.15,
 ];
-const LNK_A: [f64; 10] = [
+pub(super) const LNK_A: [f64; 10] = [
     5.8331, 5.7024, 5.5965, 5.4316, 5.263, 5.1037, 4.9169, 4.6914, 4.4942, 4.273,
 ];
-const SIG_A: [f64; 10] = [
+pub(super) const SIG_A: [f64; 10] = [
     0.010, 0.015, 0.008, 0.012, 0.020, 0.010, 0.009, 0.018, 0.011, 0.014,
 ];
-const T_B: [f64; 8] = [
+pub(super) const T_B: [f64; 8] = [
     280.65, 285.65, 290.65, 295.65, 300.65, 305.65, 310.65, 315.65,
 ];
-const LNK_B: [f64; 8] = [
+pub(super) const LNK_B: [f64; 8] = [
     5.7651, 5.7206, 5.6158, 5.5179, 5.4051, 5.2448, 5.1088, 4.9333,
 ];
-const SIG_B: [f64; 8] = [0.020, 0.012, 0.016, 0.010, 0.025, 0.013, 0.015, 0.011];
+pub(super) const SIG_B: [f64; 8] = [0.020, 0.012, 0.016, 0.010, 0.025, 0.013, 0.015, 0.011];
 
 /// statsmodels 0.15.0 WLS (make_global.py): ΔH°_A, ΔH°_B, ΔS°_A, ΔS°_B, ΔCp° and their SEs.
 const EST: [f64; 5] = [
@@ -66,7 +66,7 @@ fn write_csv(dir: &std::path::Path, name: &str, t: &[f64], y: &[f64], s: &[f64])
     p.to_string_lossy().into_owned()
 }
 
-fn two_files(name: &str) -> (String, String) {
+pub(super) fn two_files(name: &str) -> (String, String) {
     let d = folder(name);
     (
         write_csv(&d, "a.csv", &T_A, &LNK_A, &SIG_A),
