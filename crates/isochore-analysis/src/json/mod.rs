@@ -340,36 +340,10 @@ impl PointsJson<'_> {
                 leverage: n.num(at("leverage"), d.leverage),
                 cooks_d: n.opt(at("cooks_d"), d.cooks_d),
                 dffits: n.opt(at("dffits"), d.dffits),
-                flags: flag_set(d.flags),
+                flags: stream::flag_set(d.flags),
             }
         })
     }
-}
-
-/// The eight combinations of flags, to borrow from when the diagnostics are not kept.
-static FLAG_SETS: [Flags; 8] = {
-    let mut all = [Flags {
-        outlier: false,
-        high_leverage: false,
-        influential: false,
-    }; 8];
-    let mut i = 0;
-    while i < 8 {
-        all[i] = Flags {
-            outlier: i & 1 != 0,
-            high_leverage: i & 2 != 0,
-            influential: i & 4 != 0,
-        };
-        i += 1;
-    }
-    all
-};
-
-/// `f` as one of [`FLAG_SETS`].
-fn flag_set(f: Flags) -> &'static Flags {
-    &FLAG_SETS[usize::from(f.outlier)
-        | usize::from(f.high_leverage) << 1
-        | usize::from(f.influential) << 2]
 }
 
 impl Serialize for PointsJson<'_> {

@@ -137,6 +137,32 @@ fn number(buf: &mut Vec<u8>, key: &[u8], v: Option<f64>) -> io::Result<()> {
     }
 }
 
+/// The eight combinations of flags, to borrow from when the diagnostics are not kept.
+static FLAG_SETS: [Flags; 8] = {
+    let mut all = [Flags {
+        outlier: false,
+        high_leverage: false,
+        influential: false,
+    }; 8];
+    let mut i = 0;
+    while i < 8 {
+        all[i] = Flags {
+            outlier: i & 1 != 0,
+            high_leverage: i & 2 != 0,
+            influential: i & 4 != 0,
+        };
+        i += 1;
+    }
+    all
+};
+
+/// `f` as one of [`FLAG_SETS`].
+pub(super) fn flag_set(f: Flags) -> &'static Flags {
+    &FLAG_SETS[usize::from(f.outlier)
+        | usize::from(f.high_leverage) << 1
+        | usize::from(f.influential) << 2]
+}
+
 /// The combination of flags as a number 0–7.
 fn flag_index(f: &Flags) -> usize {
     usize::from(f.outlier) | usize::from(f.high_leverage) << 1 | usize::from(f.influential) << 2
