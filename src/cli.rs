@@ -245,9 +245,11 @@ pub struct FitArgs {
     /// ln K drawn from the stated σ, scaled by the fit's residual SD when σ are relative
     /// weights only, and refitted) or bootstrap (see --bootstrap-scheme). The text adds a
     /// table of the resampled intervals beside the delta method's; the JSON's intervals
-    /// carry "method".
-    #[arg(long, value_enum, value_name = "METHOD", default_value = "delta")]
-    pub intervals: IntervalsArg,
+    /// carry "method". Default: the method a project file records for each series (chosen
+    /// in the window, with its draws and seed; --draws, --seed and --bootstrap-scheme
+    /// replace those), else delta.
+    #[arg(long, value_enum, value_name = "METHOD")]
+    pub intervals: Option<IntervalsArg>,
     /// Number of Monte Carlo or bootstrap draws, 1 to 1000000 (default 10000).
     #[arg(long, value_name = "N", value_parser = parse_draws)]
     pub draws: Option<usize>,

@@ -274,6 +274,14 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                     continue;
                 }
             };
+            // Without --intervals, the method the data set records (a project's).
+            let intervals = match crate::intervals_cmd::for_set(a, &intervals, job) {
+                Ok(r) => r,
+                Err(e) => {
+                    interval_refusals.push(e);
+                    continue;
+                }
+            };
             let run = match crate::intervals_cmd::run(job, fit, &intervals) {
                 Ok(r) => r,
                 Err(e) => {

@@ -3,6 +3,8 @@
 //! fitted data set (isochore-analysis' `run_intervals`, `run_intervals_at` for predict's
 //! temperatures and target K), and its block of readable text
 //! (the method line and each quantity's resampled interval beside the delta method's).
+//! Without `--intervals`, `vhfit fit` runs the method a project records for each data set
+//! ([`for_set`]).
 
 use crate::cli::{FitArgs, IntervalsArg, SchemeArg};
 use crate::load::Job;
@@ -15,9 +17,61 @@ use isochore_report::present::intervals::{interval_rows, method_line};
 use isochore_report::present::names::interval_method;
 use std::io::{self, Write};
 
-/// The request the flags of `vhfit fit` make (see [`request_from`]).
+/// The request the flags of `vhfit fit` make (see [`request_from`]); without `--intervals`,
+/// the delta method's. When no `--intervals` is given and an input is a project file (and
+/// no joint fit is asked for), `--draws`, `--seed` and `--bootstrap-scheme` are checked
+/// against each data set's recorded method instead, by [`for_set`].
 pub fn request(a: &FitArgs) -> Result<IntervalRequest, String> {
-    request_from(a.intervals, a.draws, a.seed, a.bootstrap_scheme)
+    if a.intervals.is_none()
+        && a.share.is_none()
+        && a.files
+            .iter()
+            .any(|p| isochore_analysis::is_project_file(p))
+    {
+        return Ok(IntervalRequest::default());
+    }
+    request_from(
+        a.intervals.unwrap_or(IntervalsArg::Delta),
+        a.draws,
+        a.seed,
+        a.bootstrap_scheme,
+    )
+}
+
+/// The request for one data set of `vhfit fit`: `given` ([`request`]'s) when `--intervals`
+/// is given — an explicit option wins — else the one recorded with the data set (a
+/// project's `SeriesSettings::intervals`, chosen in the window; the delta method for a data
+/// file), with `--draws`, `--seed` and `--bootstrap-scheme` replacing its draws, generator
+/// start value and scheme. Such a flag that the recorded method would not use is refused in
+/// [`request_from`]'s words, the data set named.
+pub fn for_set(a: &FitArgs, given: &IntervalRequest, job: &Job) -> Result<IntervalRequest, String> {
+    if a.intervals.is_some() || a.share.is_some() {
+        return Ok(*given);
+    }
+    let recorded = job.intervals;
+    let method = match recorded.choice {
+        IntervalChoice::Delta => IntervalsArg::Delta,
+        IntervalChoice::MonteCarlo => IntervalsArg::MonteCarlo,
+        IntervalChoice::Bootstrap(_) => IntervalsArg::Bootstrap,
+    };
+    let mut r = request_from(method, a.draws, a.seed, a.bootstrap_scheme).map_err(|e| {
+        format!(
+            "{}: series '{}' records the intervals by {}: {e}",
+            job.source,
+            job.series,
+            isochore_report::present::names::interval_choice(recorded.choice)
+        )
+    })?;
+    if a.draws.is_none() {
+        r.draws = recorded.draws;
+    }
+    if a.seed.is_none() {
+        r.seed = recorded.seed;
+    }
+    if a.bootstrap_scheme.is_none() {
+        r.choice = recorded.choice;
+    }
+    Ok(r)
 }
 
 /// The request `--intervals`, `--draws`, `--seed` and `--bootstrap-scheme` make (`vhfit

@@ -12,6 +12,7 @@ mod intervals_cli;
 mod joint_cli;
 mod joint_intervals_cli;
 mod predict_intervals_cli;
+mod project_intervals_cli;
 mod promises;
 mod two_point;
 mod vocabulary;

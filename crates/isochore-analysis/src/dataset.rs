@@ -76,6 +76,10 @@ pub struct PreparedSet {
     /// uncertainty for all points ([`Overrides::sigma_t_k`]); `None` fits errors in K only.
     /// See [`crate::errors_in_t`].
     pub sigma_t_k: Option<Vec<f64>>,
+    /// How the intervals of this data set are to be made as recorded with it (a project's
+    /// `SeriesSettings::intervals`, chosen in the window; the delta method for a data
+    /// file): the command line's `vhfit fit` runs it when no `--intervals` is given.
+    pub intervals: isochore_fit::intervals::IntervalRequest,
 }
 
 /// Rows to leave out of every data set read, with the reason and time recorded.
@@ -550,6 +554,7 @@ impl PreparedSet {
                 .collect(),
             settings: vec![replicates_setting(s.settings.replicates)],
             sigma_t_k: None,
+            intervals: s.settings.intervals,
         };
         crate::errors_in_t::attach(&mut set, s, o).map_err(data_error)?;
         set.finish(averaged, weighed.note);
