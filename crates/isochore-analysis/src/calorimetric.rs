@@ -2,8 +2,10 @@
 //! [`SavedCalorimetric`]), the rules both front ends follow with them: a value typed in the
 //! display units becomes SI ([`entry_from_display`]), a calorimetric file's rows go to the
 //! series they name or, naming none, to every series ([`rows_for_series`], the command
-//! line's rule for `--calorimetric-file`), and the comparisons with a single fit's and a
-//! joint fit's ΔH°(T) ([`compare_single`], [`compare_joint`]). The statistics are
+//! line's rule for `--calorimetric-file`), the comparisons with a single fit's and a
+//! joint fit's ΔH°(T) ([`compare_single`], [`compare_joint`]), and a single data set fitted
+//! with its calorimetric values as observations of ΔH°(T)
+//! ([`fit_single_with_calorimetric`]). The statistics are
 //! isochore-fit's (`calorimetric`).
 
 use crate::joint::JointAnalysis;
@@ -12,7 +14,11 @@ use isochore_data::{DataSet, SavedCalorimetric};
 use isochore_fit::calorimetric::{
     compare_calorimetric, compare_calorimetric_series, CalorimetricComparison, CalorimetricValue,
 };
-use isochore_fit::{EnergyUnit, TemperatureUnit, VantHoffFit};
+use isochore_fit::global::{
+    fit_global, fit_global_with_calorimetric, CalorimetricJointFit, CalorimetricObservation,
+    GlobalError, GlobalFit,
+};
+use isochore_fit::{EnergyUnit, SeriesInput, SharingMap, TemperatureUnit, VantHoffFit};
 
 /// A saved value as isochore-fit's.
 pub fn value_of(s: &SavedCalorimetric) -> CalorimetricValue {
@@ -105,6 +111,29 @@ pub fn compare_joint(
             })
         })
         .collect()
+}
+
+/// One data set fitted again with calorimetric values as observations of its ΔH°(T)
+/// (isochore-fit's `fit_with_calorimetric` on a single series, every parameter its own),
+/// with the same fit of ln K alone in the same form for the side-by-side table
+/// (`present::joint::constrained_rows`). `label` names the series.
+///
+/// # Errors
+/// isochore-fit's refusal: an unweighted fit, no value, a value with u = 0, too few points.
+pub fn fit_single_with_calorimetric(
+    set: &crate::PreparedSet,
+    label: &str,
+    values: &[CalorimetricValue],
+) -> Result<(GlobalFit, CalorimetricJointFit), GlobalError> {
+    let inputs = [SeriesInput::new(label, &set.measurements)];
+    let sharing = SharingMap::per_series();
+    let alone = fit_global(&inputs, &sharing, &set.options)?;
+    let obs: Vec<CalorimetricObservation> = values
+        .iter()
+        .map(|&value| CalorimetricObservation { series: 0, value })
+        .collect();
+    let with = fit_global_with_calorimetric(&inputs, &sharing, &set.options, &obs)?;
+    Ok((alone, with))
 }
 
 #[cfg(test)]

@@ -332,3 +332,53 @@ fn the_joint_view_writes_the_joint_report() {
     );
     assert!(!other.join("joint-fit.html").exists());
 }
+
+/// A single series fitted with its calorimetric values as observations of ΔH° (the
+/// "Calorimetric ΔH°" window's "Use the calorimetric values in the fit"): the binding demo
+/// with −40.0 ± 0.5 kJ/mol at 25 °C and −47.0 ± 0.8 kJ/mol at 35 °C (invented), against
+/// statsmodels 0.15.0 WLS on the stacked design (tests/data/independent/
+/// make_single_calorimetric.py → single_calorimetric.txt, scaled SEs) to 1e-9.
+#[test]
+fn a_single_series_is_fitted_with_its_calorimetric_values() {
+    let w = crate::workbench::bench();
+    let id = w.active.unwrap();
+    let mut h = harness(w);
+    let value = |t_k, delta_h_cal, u_cal| isochore_data::SavedCalorimetric {
+        t_k,
+        delta_h_cal,
+        u_cal,
+    };
+    h.state_mut()
+        .push(isochore_gui::command::Command::SetCalorimetric {
+            series: id,
+            values: vec![
+                value(298.15, -40_000.0, 500.0),
+                value(308.15, -47_000.0, 800.0),
+            ],
+        });
+    h.run_steps(2);
+    menu_item(&mut h, "View", "Calorimetric ΔH°…");
+    h.run_steps(2);
+    h.get_by_label("Use the calorimetric values in the fit")
+        .click();
+    h.run_steps(3);
+    let fit = h.state().calorimetric.fitted().expect("a fit with ΔH_cal");
+    // single_calorimetric.txt: ΔH°, ΔS° and their SEs; 12 rows, 2 columns.
+    let want = [
+        (-42199.80212609279, 1271.545061937142),
+        (-11.39266306458515, 4.300249834446576),
+    ];
+    let close = |a: f64, b: f64| (a - b).abs() <= 1e-9 * b.abs(); // the project's bar
+    for (e, (v, se)) in fit.estimates().iter().zip(want) {
+        assert!(
+            close(e.value, v) && close(e.se, se),
+            "{e:?} against {v} ± {se}"
+        );
+    }
+    assert!(close(fit.statistics().chi2, 98.34556427896956));
+    assert_eq!(fit.dof(), 10);
+    assert!(h
+        .query_all_by_label_contains("ln K alone: value ± SE")
+        .next()
+        .is_some());
+}

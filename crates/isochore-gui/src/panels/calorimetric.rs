@@ -14,8 +14,12 @@ use crate::command::Command;
 use crate::context::Cx;
 use crate::doc::Entry;
 use egui::RichText;
-use isochore_analysis::calorimetric::{compare_single, entry_from_display, rows_for_series};
+use isochore_analysis::calorimetric::{
+    compare_single, entry_from_display, fit_single_with_calorimetric, rows_for_series, values,
+};
+use isochore_analysis::{Overrides, PreparedSet};
 use isochore_fit::calorimetric::{CalorimetricComparison, COUPLED_EQUILIBRIA_CAUTION};
+use isochore_fit::global::{CalorimetricJointFit, GlobalError, GlobalFit};
 use isochore_fit::{EnergyUnit, TemperatureUnit};
 use isochore_report::present::{self, joint as pj, names};
 use std::collections::HashMap;
@@ -188,7 +192,50 @@ pub fn comparisons(
 pub struct CalorimetricPanel {
     /// Whether the window is open.
     pub open: bool,
+    /// Show the series fitted with its calorimetric values as observations of ΔH°(T).
+    pub in_fit: bool,
     fields: HashMap<u64, Fields>,
+    /// The last fit with calorimetric values: (series id, revision, every value's bits),
+    /// the fit of ln K alone in the joint form, and the fit with the values (or why none).
+    fitted: Option<(SingleKey, SingleFit)>,
+}
+
+/// What a fit with calorimetric values was made from.
+type SingleKey = (u64, u64, Vec<[u64; 3]>);
+
+/// The fit of ln K alone (in the joint form) and the fit with the calorimetric values, or
+/// why they could not be made.
+type SingleFit = Result<(GlobalFit, CalorimetricJointFit), GlobalError>;
+
+/// The fit with the calorimetric values as observations of ΔH°(T) beside `alone` (the same
+/// series, ln K alone), one row per parameter, with χ² and the caution: the single series'
+/// window and the joint view alike.
+pub fn constrained_table(
+    ui: &mut egui::Ui,
+    id: &str,
+    c: &CalorimetricJointFit,
+    alone: &GlobalFit,
+    labels: &[String],
+    e: EnergyUnit,
+    tu: TemperatureUnit,
+) {
+    ui.label(format!(
+        "{}, beside the fit of ln K alone:",
+        pj::CONSTRAINED_FIT
+    ));
+    egui::Grid::new(id).striped(true).show(ui, |ui| {
+        for h in pj::constrained_header(alone.options().level) {
+            ui.label(RichText::new(h).strong());
+        }
+        ui.end_row();
+        for r in pj::constrained_rows(c, alone, labels, e, tu) {
+            for cell in pj::constrained_cells(&r) {
+                ui.label(cell);
+            }
+            ui.end_row();
+        }
+    });
+    ui.label(pj::constrained_summary(c));
 }
 
 impl CalorimetricPanel {
@@ -249,5 +296,45 @@ impl CalorimetricPanel {
                 ui.colored_label(ui.visuals().error_fg_color, e);
             }
         }
+        ui.checkbox(&mut self.in_fit, "Use the calorimetric values in the fit");
+        if !self.in_fit {
+            return;
+        }
+        let bits: Vec<[u64; 3]> = s
+            .data
+            .calorimetric
+            .iter()
+            .map(|v| [v.t_k.to_bits(), v.delta_h_cal.to_bits(), v.u_cal.to_bits()])
+            .collect();
+        let key: SingleKey = (s.id, s.rev, bits);
+        if self.fitted.as_ref().is_none_or(|(k, _)| *k != key) {
+            let r = PreparedSet::from_data_set(&s.data, s.name(), &Overrides::default())
+                .map_err(|e| GlobalError::NoSolution(e.to_string()))
+                .and_then(|set| fit_single_with_calorimetric(&set, s.name(), &values(&s.data)));
+            self.fitted = Some((key, r));
+        }
+        match &self.fitted {
+            Some((_, Ok((alone, with)))) => constrained_table(
+                ui,
+                "single_constrained",
+                with,
+                alone,
+                &[s.name().to_string()],
+                s.data.settings.energy_unit,
+                s.data.settings.temperature_unit,
+            ),
+            Some((_, Err(e))) => {
+                ui.colored_label(ui.visuals().error_fg_color, format!("Not fitted: {e}"));
+            }
+            None => {}
+        }
+    }
+
+    /// The fit with calorimetric values shown, if any (tests).
+    pub fn fitted(&self) -> Option<&CalorimetricJointFit> {
+        self.fitted
+            .as_ref()
+            .and_then(|(_, r)| r.as_ref().ok())
+            .map(|(_, with)| with)
     }
 }

@@ -336,33 +336,20 @@ impl JointPanel {
 /// The joint fit with the calorimetric values beside the fit of ln K alone, or why there
 /// is none.
 fn show_constrained(ui: &mut egui::Ui, j: &Joint, r: &Result<CalorimetricJointFit, GlobalError>) {
-    ui.label(format!(
-        "{}, beside the joint fit of ln K alone:",
-        pj::CONSTRAINED_FIT
-    ));
-    let c = match r {
-        Ok(c) => c,
+    match r {
+        Ok(c) => crate::panels::calorimetric::constrained_table(
+            ui,
+            "joint_constrained",
+            c,
+            &j.analysis.fit,
+            &j.analysis.labels,
+            j.energy,
+            j.temperature,
+        ),
         Err(e) => {
             ui.colored_label(ui.visuals().error_fg_color, format!("Not fitted: {e}"));
-            return;
         }
-    };
-    let a = &j.analysis;
-    egui::Grid::new("joint_constrained")
-        .striped(true)
-        .show(ui, |ui| {
-            for h in pj::constrained_header(a.fit.options().level) {
-                ui.label(RichText::new(h).strong());
-            }
-            ui.end_row();
-            for r in pj::constrained_rows(c, &a.fit, &a.labels, j.energy, j.temperature) {
-                for cell in pj::constrained_cells(&r) {
-                    ui.label(cell);
-                }
-                ui.end_row();
-            }
-        });
-    ui.label(pj::constrained_summary(c));
+    }
 }
 
 /// The joint fit of the chosen series with `model` (the command line's rule, from
