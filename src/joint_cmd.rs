@@ -112,6 +112,7 @@ pub fn run(a: &FitArgs, keys: &[String], intervals: &IntervalRequest) -> Result<
             &joint,
             &comparisons,
             constrained.as_ref(),
+            resampled.as_ref(),
         )?;
     }
     let style = if a.json { Style::Json } else { Style::Text };
@@ -150,6 +151,7 @@ pub fn run(a: &FitArgs, keys: &[String], intervals: &IntervalRequest) -> Result<
 /// Writes the joint report to `path` (one file in `format`, or every format into a folder
 /// when `format` is `None`), after checking that no target is an input or a file isochore
 /// did not write.
+#[allow(clippy::too_many_arguments)]
 fn write_reports(
     a: &FitArgs,
     path: &Path,
@@ -158,13 +160,24 @@ fn write_reports(
     joint: &JointAnalysis,
     comparisons: &[Vec<CalorimetricComparison>],
     constrained: Option<&Result<CalorimetricJointFit, GlobalError>>,
+    resampled: Option<&JointRun>,
 ) -> Result<(), Failure> {
     let args: Vec<String> = std::env::args().skip(1).collect();
-    let command = (
+    let mut settings = vec![(
         "command line".to_string(),
         format!("vhfit {}", args.join(" ")),
-    );
-    let mut input = joint_report_input(sets, joint, comparisons, constrained, &[command]);
+    )];
+    // The report's tables stay the delta method's; the record names the run asked for.
+    if let Some(run) = resampled {
+        settings.push((
+            "interval method".to_string(),
+            format!(
+                "{} asked for; this report's intervals are the delta method's, the resampled ones are in the text and JSON output",
+                method_line(&run.run)
+            ),
+        ));
+    }
+    let mut input = joint_report_input(sets, joint, comparisons, constrained, &settings);
     let given = |v: &Option<String>| v.as_ref().filter(|t| !t.trim().is_empty()).cloned();
     input.record.analyst = given(&a.analyst);
     input.record.note = given(&a.note);

@@ -169,6 +169,34 @@ fn joint_text_names_the_method_and_bad_settings_are_refused() {
         text.contains("(shared)") && text.contains("a − b"),
         "{text}"
     );
+    // The joint report keeps the delta method's intervals and says so in its record, naming
+    // the run asked for.
+    let md = std::env::temp_dir().join(format!(
+        "isochore-joint-intervals-{}.md",
+        std::process::id()
+    ));
+    let md_s = md.to_string_lossy().into_owned();
+    let out = with(&[
+        "--intervals",
+        "bootstrap",
+        "--draws",
+        "300",
+        "--report",
+        &md_s,
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let report = std::fs::read_to_string(&md).unwrap();
+    let _ = std::fs::remove_file(&md);
+    assert!(
+        report.contains("interval method")
+            && report.contains("bootstrap of leverage-corrected residuals, 300 draws")
+            && report.contains("this report's intervals are the delta method's"),
+        "{report}"
+    );
     // Zero draws, and case resampling, are refused in words with exit 2.
     let out = with(&["--intervals", "monte-carlo", "--draws", "0"]);
     assert_eq!(out.status.code(), Some(2));
