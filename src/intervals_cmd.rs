@@ -189,7 +189,8 @@ pub fn text(w: &mut impl Write, job: &Job, fit: &VantHoffFit, run: &IntervalRun)
         let line: Vec<String> = c.iter().zip(widths).map(|(s, w)| pad(s, w)).collect();
         writeln!(w, "  {}", line.join("  ").trim_end())?;
     }
-    for warning in &run.warnings {
+    // Each quantity named as in the rows, not by its JSON key.
+    for warning in isochore_report::present::intervals::run_warnings(fit, run, job.temperature) {
         writeln!(w, "  note: {warning}")?;
     }
     Ok(())

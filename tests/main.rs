@@ -8,6 +8,7 @@ mod errors_in_t_cli;
 mod headless;
 mod hostile_cli;
 mod hostile_input;
+mod interval_names_cli;
 mod intervals_cli;
 mod joint_cli;
 mod joint_intervals_cli;

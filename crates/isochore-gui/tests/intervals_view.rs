@@ -331,8 +331,13 @@ fn with_a_heat_capacity_the_draws_of_delta_cp_and_of_the_temperature_where_delta
     assert!(same(&run, &command_line_run(h.state(), id)));
     let drawn = h.state().results.intervals.drawn_histograms.clone();
     let labels: Vec<&str> = drawn.iter().map(|d| d.0.as_str()).collect();
-    // present's label (it writes "ΔCp°(θ)" here, though ΔCp° of this model is constant).
-    assert!(labels.iter().any(|l| l.starts_with("ΔCp°")), "{labels:?}");
+    // present's label: "ΔCp°", a constant in this model ("ΔCp°(θ)" only where it varies
+    // with T, DEVELOPERS.md's table).
+    assert!(labels.contains(&"ΔCp°"), "{labels:?}");
+    assert!(
+        !labels.iter().any(|l| l.starts_with("ΔCp°(θ)")),
+        "{labels:?}"
+    );
     assert!(labels.contains(&"T where ΔH° = 0"), "{labels:?}");
     assert!(drawn.iter().all(|d| d.1 == HISTOGRAM_BINS), "{drawn:?}");
 }
@@ -402,4 +407,40 @@ fn with_a_thermometer_uncertainty_monte_carlo_is_still_the_command_lines() {
         run.warnings
     );
     assert!(shows(&h, "95 % CI (Monte Carlo, 300 draws)"));
+}
+
+#[test]
+fn a_caution_about_one_quantity_names_it_as_the_rows_do() {
+    // The binding demo with constant ΔCp° and Monte Carlo: K never reaches 1 near the data
+    // in many draws; the caution says "T where K = 1" (DEVELOPERS.md's name), not the JSON
+    // key t_at_k1, which the run's own warnings keep.
+    let mut w = bench();
+    let id = w.active.unwrap();
+    let mut settings = w.project.get(id).unwrap().data.settings;
+    settings.fit.model = isochore_fit::Model::CONSTANT_CP;
+    settings.intervals = IntervalRequest {
+        choice: IntervalChoice::MonteCarlo,
+        draws: 2000,
+        seed: 1,
+    };
+    w.push(isochore_gui::command::Command::SetSettings {
+        series: id,
+        settings,
+    });
+    w.apply_pending();
+    let mut h = harness(w);
+    h.run_steps(2);
+    let run = window_run(h.state(), id);
+    assert!(
+        run.warnings
+            .iter()
+            .any(|w| w.starts_with("t_at_k1: undefined in ")),
+        "{:?}",
+        run.warnings
+    );
+    assert!(shows_part(
+        &h,
+        &format!("{}: undefined in ", names::T_AT_K1)
+    ));
+    assert!(!shows_part(&h, "t_at_k1"));
 }

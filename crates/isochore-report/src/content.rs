@@ -416,11 +416,12 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
                 percent(fit.options().level)
             )),
         }));
+        // Each quantity named as in the table, not by its JSON key.
         b.extend(
             input
                 .intervals
                 .iter()
-                .flat_map(|r| r.warnings.iter())
+                .flat_map(|r| present::intervals::run_warnings(fit, r, tu))
                 .map(|w| Block::Paragraph(format!("Note: {w}"))),
         );
     }

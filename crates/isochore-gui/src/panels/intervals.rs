@@ -291,7 +291,8 @@ impl IntervalsPanel {
             });
         // Wrapped at the visible edge of the panel (which scrolls sideways).
         let visible = (ui.clip_rect().right() - ui.cursor().left() - 8.0).max(160.0);
-        for w in &run.warnings {
+        // Each quantity named as in the rows, not by its JSON key.
+        for w in &present::intervals::run_warnings(&o.fit, run, tu) {
             ui.scope(|ui| {
                 ui.set_max_width(visible);
                 ui.horizontal_wrapped(|ui| {
@@ -348,7 +349,7 @@ fn histograms(
         let scale = si_per_unit(&o.fit, q.quantity.kind, energy);
         let best = q.best();
         // A compound unit in parentheses (present's rule); a plain one after a comma, since
-        // "T where K = 1.000 / K" would read as a division.
+        // "T where K = 1 / K" would read as a division.
         let axis = if row.unit.is_empty() {
             row.quantity.clone()
         } else if row.unit.contains(['/', '·']) {

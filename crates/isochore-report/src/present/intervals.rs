@@ -6,6 +6,7 @@
 
 use super::names::{bootstrap_scheme, interval_method, T_HM};
 use super::number::{decimals_for, fixed, percent, times_ten, MISSING};
+use super::rows::varies_with_t;
 use super::units::{show_t, unit_of};
 use isochore_fit::intervals::{
     IntervalMethod, IntervalRun, QuantityKind, QuantityResult, Resampling,
@@ -15,7 +16,8 @@ use isochore_fit::{EnergyUnit, Estimate, ParamDimension, TemperatureUnit, VantHo
 /// One row: a quantity with its resampled interval and the delta method's.
 #[derive(Debug, Clone, PartialEq)]
 pub struct IntervalRow {
-    /// The quantity in words: "ΔH°(θ)", "ΔG° at θ = 25.00 °C", "T where K = 1".
+    /// The quantity in words: "ΔH°(θ)", "ΔCp°" (constant-ΔCp° model; "ΔCp°(θ)" where it
+    /// varies with T), "ΔG° at θ = 25.00 °C", "T where K = 1".
     pub quantity: String,
     /// The estimate.
     pub value: String,
@@ -64,8 +66,39 @@ pub fn interval_rows(
     run.quantities.iter().map(|q| row(fit, q, e, tu)).collect()
 }
 
-fn row(fit: &VantHoffFit, q: &QuantityResult, e: EnergyUnit, tu: TemperatureUnit) -> IntervalRow {
-    let best = q.best();
+/// The quantity's name as the rows write it ("ΔH°(θ)", "ΔCp°", "ΔG° at θ = 25.00 °C", "T
+/// where K = 1") — the name of DEVELOPERS.md's vocabulary, where the JSON writes its key
+/// (`delta_h`, `delta_g_at_reference`, `t_at_k1`).
+pub fn quantity_name(fit: &VantHoffFit, q: &QuantityResult, tu: TemperatureUnit) -> String {
+    name_and_dimension(fit, q, tu).0
+}
+
+/// The run's cautions in the vocabulary's words: a caution about one quantity starts with
+/// its name ([`quantity_name`]: "T where K = 1: undefined in 433 of 10000 draws; …") where
+/// isochore-fit, and the JSON's `warnings`, start it with the quantity's key (`t_at_k1`).
+/// Cautions about the run as a whole are as isochore-fit writes them.
+pub fn run_warnings(fit: &VantHoffFit, run: &IntervalRun, tu: TemperatureUnit) -> Vec<String> {
+    run.warnings
+        .iter()
+        .map(|w| {
+            run.quantities
+                .iter()
+                .find_map(|q| {
+                    w.strip_prefix(q.quantity.key.as_str())
+                        .and_then(|rest| rest.strip_prefix(": "))
+                        .map(|rest| format!("{}: {rest}", quantity_name(fit, q, tu)))
+                })
+                .unwrap_or_else(|| w.clone())
+        })
+        .collect()
+}
+
+/// The quantity's name and, where it has one, the dimension of its unit.
+fn name_and_dimension(
+    fit: &VantHoffFit,
+    q: &QuantityResult,
+    tu: TemperatureUnit,
+) -> (String, Option<ParamDimension>) {
     let theta = fit.options().t_ref_k;
     let at = |t: f64| {
         if t == theta {
@@ -76,12 +109,14 @@ fn row(fit: &VantHoffFit, q: &QuantityResult, e: EnergyUnit, tu: TemperatureUnit
             show_t(t, tu)
         }
     };
-    let (quantity, dimension): (String, Option<ParamDimension>) = match q.quantity.kind {
+    match q.quantity.kind {
         QuantityKind::Parameter { index } => {
             let p = &fit.params()[index];
-            let varies = p.info.at_reference && fit.model().has_heat_capacity();
+            // "(θ)" only where the parameter varies with T (the rule of the results rows):
+            // ΔH° and ΔS° of the ΔCp° models, ΔCp° of Clarke–Glew; the constant-ΔCp°
+            // model's ΔCp° is a constant.
             (
-                if varies {
+                if varies_with_t(fit.model(), p.info) {
                     format!("{}(θ)", p.info.symbol)
                 } else {
                     p.info.symbol.to_string()
@@ -99,11 +134,19 @@ fn row(fit: &VantHoffFit, q: &QuantityResult, e: EnergyUnit, tu: TemperatureUnit
             (format!("ΔS° at {}", at(t_k)), Some(ParamDimension::Entropy))
         }
         QuantityKind::K { t_k } => (format!("K at {}", at(t_k)), None),
+        QuantityKind::TemperatureForK { k_target: 1.0 } => {
+            (super::names::T_AT_K1.to_string(), None)
+        }
         QuantityKind::TemperatureForK { k_target } => {
             (format!("T where K = {}", times_ten(k_target, 4)), None)
         }
         QuantityKind::TemperatureDeltaHZero => (super::names::T_DELTA_H_ZERO.to_string(), None),
-    };
+    }
+}
+
+fn row(fit: &VantHoffFit, q: &QuantityResult, e: EnergyUnit, tu: TemperatureUnit) -> IntervalRow {
+    let best = q.best();
+    let (quantity, dimension) = name_and_dimension(fit, q, tu);
     let is_k = matches!(q.quantity.kind, QuantityKind::K { .. });
     let (scale, unit) = match dimension {
         Some(d) => {

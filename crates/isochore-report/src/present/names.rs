@@ -162,6 +162,10 @@ pub const K_ONLY: &str = "fit in K only";
 /// The fit's estimate of a point's true temperature: "adjusted T" (JSON `t_adjusted_k`).
 pub const ADJUSTED_T: &str = "adjusted T";
 
+/// The temperature where K = 1, i.e. ΔG° = 0: "T where K = 1" (JSON `t_at_k1`); the
+/// temperature at another target K is "T where K = 1.000 × 10⁵".
+pub const T_AT_K1: &str = "T where K = 1";
+
 /// The temperature where ΔH° changes sign (ΔCp° models): "T where ΔH° = 0" (JSON
 /// `t_delta_h_zero`).
 pub const T_DELTA_H_ZERO: &str = "T where ΔH° = 0";

@@ -166,9 +166,9 @@ pub fn result_rows(fit: &VantHoffFit, e: EnergyUnit, tu: TemperatureUnit) -> Vec
         // Usually far outside the data (K = 1 is rarely near the measured range): say so
         // next to the number.
         let mut quantity = if fit.is_extrapolation(t1.value) {
-            "T where K = 1 (ΔG° = 0), extrapolated".to_string()
+            format!("{} (ΔG° = 0), extrapolated", names::T_AT_K1)
         } else {
-            "T where K = 1 (ΔG° = 0)".to_string()
+            format!("{} (ΔG° = 0)", names::T_AT_K1)
         };
         // An infinite end of Fieller's interval is shown as "—"; the words say why.
         quantity.push_str(unbounded_suffix(&t1));
@@ -353,7 +353,7 @@ pub fn compact_statistics_rows(fit: &VantHoffFit, tu: TemperatureUnit) -> Vec<(S
         ),
     ));
     if let Some(t1) = fit.t_at_k1() {
-        v.push(("T where K = 1".to_string(), show_t_with(t1.value, tu, 1)));
+        v.push((names::T_AT_K1.to_string(), show_t_with(t1.value, tu, 1)));
     }
     v
 }
