@@ -432,6 +432,8 @@ pub(crate) struct DiagnosticsSummary {
     pub(crate) flagged: usize,
     /// Whether a used point has leverage 1 (to 1e-10).
     pub(crate) leverage_one: bool,
+    /// Points seen with a number that is not finite (an absent one aside).
+    pub(crate) not_finite: usize,
 }
 
 impl DiagnosticsSummary {
@@ -448,6 +450,22 @@ impl DiagnosticsSummary {
         }
         self.flagged += usize::from(d.used && d.flags.any());
         self.leverage_one |= d.used && d.leverage >= 1.0 - 1e-10;
+        let opt = |v: Option<f64>| v.is_none_or(f64::is_finite);
+        let all_finite = [d.t_k, d.ln_k, d.fitted, d.residual, d.weighted_residual]
+            .iter()
+            .chain(&[d.leverage, d.prediction_se])
+            .all(|v| v.is_finite())
+            && [
+                d.sigma_ln_k,
+                d.student_int,
+                d.student_ext,
+                d.cooks_d,
+                d.dffits,
+                d.prediction_residual,
+            ]
+            .into_iter()
+            .all(opt);
+        self.not_finite += usize::from(!all_finite);
     }
 }
 

@@ -493,8 +493,12 @@ impl<'a> FitJson<'a> {
             empty: false,
         });
         if let Some(p) = &points {
-            // Counts the undefined values of the points, in row order.
-            p.each(&mut n).for_each(drop);
+            // Counts the undefined values of the points, in row order: none when the fit
+            // found every number of every point finite (then the pass, which would make each
+            // point's diagnostics once more, is skipped).
+            if !fit.points_finite() {
+                p.each(&mut n).for_each(drop);
+            }
         }
         let t_at_k1 = fit.t_at_k1().map(|e| TAtK1Json {
             value: n.num(name("t_at_k1.value"), e.value),

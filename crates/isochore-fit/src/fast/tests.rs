@@ -219,6 +219,30 @@ fn diagnostics_on_demand_are_the_same_numbers_however_they_are_asked_for() {
             .collect();
         assert_eq!(flagged, again);
         assert!(!whole[3].used && whole[3].prediction_residual.is_some());
+        // The fit's own finding that every number is finite agrees with the records.
+        let finite = |v: f64| v.is_finite();
+        let seen = whole.iter().all(|d| {
+            [
+                d.t_k,
+                d.ln_k,
+                d.fitted,
+                d.residual,
+                d.weighted_residual,
+                d.leverage,
+            ]
+            .into_iter()
+            .all(finite)
+                && [
+                    d.sigma_ln_k,
+                    d.student_int,
+                    d.student_ext,
+                    d.cooks_d,
+                    d.dffits,
+                ]
+                .into_iter()
+                .all(|v| v.is_none_or(finite))
+        });
+        assert!(seen && f.points_finite());
         // The general solver's records agree to rounding.
         let general = crate::vant_hoff::fit_with(&pts, &opts, false).unwrap();
         for (a, b) in whole.iter().zip(general.points()) {

@@ -195,6 +195,7 @@ fn fit_threads(
         at_harmonic: ThermoAt::placeholder(t_harmonic_k),
         t_at_k1: None,
         points: points_diag,
+        points_finite: summary.not_finite == 0,
         comparison: None,
         warnings: Vec::new(),
     };

@@ -142,6 +142,9 @@ pub struct VantHoffFit {
     /// Per-point diagnostics, in the order of the input slice: kept, or (streaming path)
     /// computed on demand from a compact copy of the points.
     pub(crate) points: PointStore,
+    /// Whether every number of every point's diagnostics is finite (absent ones aside),
+    /// as seen when the fit checked them.
+    pub(crate) points_finite: bool,
     /// Comparison along the ladder of nested models on the same points, when enough points.
     pub(crate) comparison: Option<ModelComparison>,
     /// Cautions in words.
@@ -281,6 +284,14 @@ impl VantHoffFit {
     /// time, use [`VantHoffFit::points_iter`] or [`VantHoffFit::point`], which keep none.
     pub fn points(&self) -> &[PointDiagnostics] {
         self.points.slice()
+    }
+
+    /// Whether every number in every point's diagnostics is finite (an absent one, such as
+    /// a studentized residual with no degrees of freedom left, aside), as found when the
+    /// fit checked each point: a writer that must name every undefined number can skip its
+    /// pass over the points when this is true.
+    pub fn points_finite(&self) -> bool {
+        self.points_finite
     }
 
     /// The diagnostics of point `i` (0-based, in the order of the input slice), the same
