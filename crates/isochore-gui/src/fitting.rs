@@ -313,15 +313,30 @@ fn finish(
     };
     let (resid_index, infl_index) = match &fit {
         Ok(f) if prepared.large => {
-            // Every point's diagnostics are made here, on the fit's thread, so that the
-            // panels' first look at them costs the UI thread nothing.
-            let points = f.points();
-            let resid = EnvelopeIndex::from_sorted(prepared.t_order.iter().filter_map(|&k| {
-                points
-                    .get(k as usize)
-                    .map(|d| (d.index as u32, d.t_k, d.residual))
-            }));
-            (resid, influence_index(points))
+            // One pass over the points' diagnostics, each computed as it is reached and
+            // none kept (`points_iter`): a million records (168 MB) are never made; the
+            // panels compute the few they draw the same way (`VantHoffFit::point`).
+            let mut t_residual = vec![[f64::NAN; 2]; prepared.measurements.len()];
+            let mut influence = Vec::with_capacity(prepared.measurements.len());
+            for d in f.points_iter() {
+                if let Some(slot) = t_residual.get_mut(d.index) {
+                    *slot = [d.t_k, d.residual];
+                }
+                if let Some([h, t]) = isochore_fit::influence::influence_coordinates(&d) {
+                    if h.is_finite() && t.is_finite() {
+                        influence.push((d.index as u32, h, t));
+                    }
+                }
+            }
+            let resid = EnvelopeIndex::from_sorted(
+                prepared
+                    .t_order
+                    .iter()
+                    .filter_map(|&k| t_residual.get(k as usize).map(|&[t, r]| (k, t, r))),
+            );
+            // The points arrive by index, so the radix sort applies.
+            sort_by_x_then_id(&mut influence);
+            (resid, EnvelopeIndex::from_sorted(influence))
         }
         _ => (EnvelopeIndex::default(), EnvelopeIndex::default()),
     };
@@ -343,21 +358,6 @@ fn finish(
         errors_in_t,
         prepared: Some(prepared),
     }
-}
-
-/// The influence view's index: points with a studentized residual, by leverage (then
-/// index), sorted by the index's radix sort.
-fn influence_index(points: &[isochore_fit::PointDiagnostics]) -> EnvelopeIndex {
-    let mut order: Vec<(u32, f64, f64)> = points
-        .iter()
-        .filter_map(|d| {
-            isochore_fit::influence::influence_coordinates(d)
-                .filter(|[h, t]| h.is_finite() && t.is_finite())
-                .map(|[h, t]| (d.index as u32, h, t))
-        })
-        .collect();
-    sort_by_x_then_id(&mut order);
-    EnvelopeIndex::from_sorted(order)
 }
 
 /// The fit with errors in T of a series that has σ(T) (the thermometer uncertainty setting

@@ -54,7 +54,7 @@ impl DiagnosticsPanel {
         // Large series: the min/max envelope per pixel column along each plot's x axis.
         let key = (s.id, a.rev, px);
         let (resid_rows, infl_rows) = if a.resid_index.is_empty() {
-            let all: Vec<usize> = (0..fit.points().len()).collect();
+            let all: Vec<usize> = (0..a.measurements.len()).collect();
             (all.clone(), all)
         } else {
             match &self.decimated {
@@ -94,10 +94,10 @@ impl DiagnosticsPanel {
                 ui.set_width(half);
                 // The used points set the y-range; an excluded point beyond it is drawn
                 // at the edge, so it cannot squash the used points onto zero.
-                let (lo, hi) = used_span(&resid_rows, fit.points());
+                let (lo, hi) = used_span(&resid_rows, fit);
                 let beyond = resid_rows
                     .iter()
-                    .filter_map(|&i| fit.points().get(i))
+                    .filter_map(|&i| fit.point(i))
                     .filter(|d| !d.used && !(lo..=hi).contains(&d.residual))
                     .count();
                 ui.horizontal(|ui| {
@@ -117,7 +117,7 @@ impl DiagnosticsPanel {
                         );
                     }
                 });
-                let m = Marks::collect(&resid_rows, fit.points(), &highlight, |d| {
+                let m = Marks::collect(&resid_rows, fit, &highlight, |d| {
                     let y = if d.used {
                         d.residual
                     } else {
@@ -158,7 +158,7 @@ impl DiagnosticsPanel {
                 });
                 let m = Marks::collect(
                     &infl_rows,
-                    fit.points(),
+                    fit,
                     &highlight,
                     isochore_fit::influence::influence_coordinates,
                 );
@@ -260,10 +260,11 @@ struct Marks {
 }
 
 impl Marks {
-    /// The points of `rows`, placed by `at` (`None`: not drawn on this plot).
+    /// The points of `rows`, placed by `at` (`None`: not drawn on this plot). Each point's
+    /// diagnostics are computed as it is reached (`VantHoffFit::point`).
     fn collect(
         rows: &[usize],
-        points: &[isochore_fit::PointDiagnostics],
+        fit: &isochore_fit::VantHoffFit,
         highlight: &[usize],
         at: impl Fn(&isochore_fit::PointDiagnostics) -> Option<[f64; 2]>,
     ) -> Self {
@@ -274,7 +275,8 @@ impl Marks {
             flagged: Vec::new(),
             highlighted: Vec::new(),
         };
-        for d in rows.iter().filter_map(|&i| points.get(i)) {
+        for d in rows.iter().filter_map(|&i| fit.point(i)) {
+            let d = &d;
             let Some(p) = at(d) else {
                 continue;
             };
@@ -358,10 +360,10 @@ fn contour_key(contours: &[(f64, Vec<[f64; 2]>)]) -> String {
 
 /// The y-span of the residual plot: the used points' residuals and zero, with a margin
 /// (a tenth of the span each side, at least 0.05 in ln K when all lie on the fit).
-pub fn used_span(rows: &[usize], points: &[isochore_fit::PointDiagnostics]) -> (f64, f64) {
+pub fn used_span(rows: &[usize], fit: &isochore_fit::VantHoffFit) -> (f64, f64) {
     let (lo, hi) = rows
         .iter()
-        .filter_map(|&i| points.get(i))
+        .filter_map(|&i| fit.point(i))
         .filter(|d| d.used && d.residual.is_finite())
         .fold((0.0f64, 0.0f64), |(lo, hi), d| {
             (lo.min(d.residual), hi.max(d.residual))

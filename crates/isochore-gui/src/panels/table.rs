@@ -68,7 +68,9 @@ impl TablePanel {
         };
         let analysis = cx.fitter.get(series.id);
         let a = analysis.as_deref();
-        let diag = a.and_then(|a| a.fit.as_ref().ok().map(|f| f.points()));
+        // Each visible row's diagnostics are computed when drawn (`VantHoffFit::point`), so
+        // a large fit's records are never all made on the UI thread.
+        let fit = a.and_then(|a| a.fit.as_ref().ok());
         let n_excl = series.data.exclusions.len();
         ui.horizontal(|ui| {
             ui.heading("Measurements");
@@ -182,7 +184,8 @@ impl TablePanel {
                             let key = (sid, i);
                             let excl = series.exclusion(i);
                             let point = a.and_then(|a| a.point_of_row.get(i).copied().flatten());
-                            let d = point.and_then(|k| diag.and_then(|d| d.get(k)));
+                            let d_owned = point.and_then(|k| fit.and_then(|f| f.point(k)));
+                            let d = d_owned.as_ref();
                             tr.set_selected(
                                 cx.links.selected == Some(key) || cx.links.hovered == Some(key),
                             );

@@ -393,7 +393,7 @@ fn draw_points(
     if m.is_empty() {
         return (0, 0);
     }
-    let points = a.fit.as_ref().ok().map(|f| f.points());
+    let fit = a.fit.as_ref().ok();
     let mut used = Vec::new();
     let mut excluded = Vec::new();
     let mut flagged = Vec::new();
@@ -409,7 +409,7 @@ fn draw_points(
         } else {
             excluded.push(xy);
         }
-        if points.and_then(|p| p.get(k)).is_some_and(|d| d.flags.any()) {
+        if fit.and_then(|f| f.point(k)).is_some_and(|d| d.flags.any()) {
             flagged.push(xy);
         }
         let row = a
@@ -516,7 +516,7 @@ pub fn point_card(
         }
         let d = a
             .and_then(|a| a.fit.as_ref().ok())
-            .and_then(|f| f.points().get(point));
+            .and_then(|f| f.point(point));
         if let Some(d) = d {
             ui.label("ln K (fit)");
             ui.label(format!(
