@@ -22,13 +22,15 @@ pub struct DiagnosticsPanel {
     pub influence_drawn: Vec<(usize, [f64; 2])>,
 }
 
-/// Rows of the residual and influence plots of a large series, for one analysis and width.
+/// The points of the residual and influence plots of a large series, with their
+/// diagnostics (computed once from the fit, `VantHoffFit::point`), for one analysis and
+/// width.
 #[derive(Debug)]
 struct Decimated {
     /// (series id, analysis revision, pixel columns).
     key: (u64, u64, usize),
-    residual: Vec<usize>,
-    influence: Vec<usize>,
+    residual: std::sync::Arc<Vec<isochore_fit::PointDiagnostics>>,
+    influence: std::sync::Arc<Vec<isochore_fit::PointDiagnostics>>,
 }
 
 impl DiagnosticsPanel {
@@ -53,23 +55,34 @@ impl DiagnosticsPanel {
         let px = (ui.available_width() / 2.0).max(100.0) as usize;
         // Large series: the min/max envelope per pixel column along each plot's x axis.
         let key = (s.id, a.rev, px);
-        let (resid_rows, infl_rows) = if a.resid_index.is_empty() {
-            let all: Vec<usize> = (0..a.measurements.len()).collect();
-            (all.clone(), all)
+        let cached = if a.resid_index.is_empty() {
+            None
         } else {
             match &self.decimated {
-                Some(d) if d.key == key => (d.residual.clone(), d.influence.clone()),
+                Some(d) if d.key == key => Some((d.residual.clone(), d.influence.clone())),
                 _ => {
-                    let residual = whole_envelope(&a.resid_index, px);
-                    let influence = whole_envelope(&a.infl_index, px);
+                    let of = |rows: Vec<usize>| {
+                        std::sync::Arc::new(
+                            rows.into_iter()
+                                .filter_map(|i| fit.point(i))
+                                .collect::<Vec<_>>(),
+                        )
+                    };
+                    let residual = of(whole_envelope(&a.resid_index, px));
+                    let influence = of(whole_envelope(&a.infl_index, px));
                     self.decimated = Some(Decimated {
                         key,
                         residual: residual.clone(),
                         influence: influence.clone(),
                     });
-                    (residual, influence)
+                    Some((residual, influence))
                 }
             }
+        };
+        // A small series draws every point (its records are made once and kept).
+        let (resid_pts, infl_pts): (&[isochore_fit::PointDiagnostics], &[_]) = match &cached {
+            Some((r, i)) => (r, i),
+            None => (fit.points(), fit.points()),
         };
         let highlight: Vec<usize> = [cx.links.hovered, cx.links.selected]
             .into_iter()
@@ -94,10 +107,9 @@ impl DiagnosticsPanel {
                 ui.set_width(half);
                 // The used points set the y-range; an excluded point beyond it is drawn
                 // at the edge, so it cannot squash the used points onto zero.
-                let (lo, hi) = used_span(&resid_rows, fit);
-                let beyond = resid_rows
+                let (lo, hi) = used_span(resid_pts);
+                let beyond = resid_pts
                     .iter()
-                    .filter_map(|&i| fit.point(i))
                     .filter(|d| !d.used && !(lo..=hi).contains(&d.residual))
                     .count();
                 ui.horizontal(|ui| {
@@ -117,7 +129,7 @@ impl DiagnosticsPanel {
                         );
                     }
                 });
-                let m = Marks::collect(&resid_rows, fit, &highlight, |d| {
+                let m = Marks::collect(resid_pts, &highlight, |d| {
                     let y = if d.used {
                         d.residual
                     } else {
@@ -157,8 +169,7 @@ impl DiagnosticsPanel {
                     ui.label(RichText::new(contour_key(&a.cooks_contours)).small().weak());
                 });
                 let m = Marks::collect(
-                    &infl_rows,
-                    fit,
+                    infl_pts,
                     &highlight,
                     isochore_fit::influence::influence_coordinates,
                 );
@@ -260,23 +271,20 @@ struct Marks {
 }
 
 impl Marks {
-    /// The points of `rows`, placed by `at` (`None`: not drawn on this plot). Each point's
-    /// diagnostics are computed as it is reached (`VantHoffFit::point`).
+    /// The points, placed by `at` (`None`: not drawn on this plot).
     fn collect(
-        rows: &[usize],
-        fit: &isochore_fit::VantHoffFit,
+        points: &[isochore_fit::PointDiagnostics],
         highlight: &[usize],
         at: impl Fn(&isochore_fit::PointDiagnostics) -> Option<[f64; 2]>,
     ) -> Self {
         let mut m = Marks {
-            all: Vec::with_capacity(rows.len()),
+            all: Vec::with_capacity(points.len()),
             used: Vec::new(),
             excluded: Vec::new(),
             flagged: Vec::new(),
             highlighted: Vec::new(),
         };
-        for d in rows.iter().filter_map(|&i| fit.point(i)) {
-            let d = &d;
+        for d in points {
             let Some(p) = at(d) else {
                 continue;
             };
@@ -360,10 +368,9 @@ fn contour_key(contours: &[(f64, Vec<[f64; 2]>)]) -> String {
 
 /// The y-span of the residual plot: the used points' residuals and zero, with a margin
 /// (a tenth of the span each side, at least 0.05 in ln K when all lie on the fit).
-pub fn used_span(rows: &[usize], fit: &isochore_fit::VantHoffFit) -> (f64, f64) {
-    let (lo, hi) = rows
+pub fn used_span(points: &[isochore_fit::PointDiagnostics]) -> (f64, f64) {
+    let (lo, hi) = points
         .iter()
-        .filter_map(|&i| fit.point(i))
         .filter(|d| d.used && d.residual.is_finite())
         .fold((0.0f64, 0.0f64), |(lo, hi), d| {
             (lo.min(d.residual), hi.max(d.residual))
