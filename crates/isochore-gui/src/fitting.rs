@@ -55,6 +55,10 @@ pub struct Analysis {
     pub resid_index: Arc<EnvelopeIndex>,
     /// Large series only: points with a studentized residual, by leverage (influence view).
     pub infl_index: Arc<EnvelopeIndex>,
+    /// For each point, whether it carries a flag (outlier, high leverage, influential), from
+    /// the fit's diagnostics: what the plots ring, without computing a point's diagnostics
+    /// again in every frame. Empty without a fit.
+    pub flagged: Vec<bool>,
     /// Data extent on the van 't Hoff plot: [min 10³/T, max 10³/T, min ln K, max ln K].
     pub extent: Option<[f64; 4]>,
     /// Cook's-distance contours for the influence view: (D, upper branch points (h, t)) in
@@ -226,6 +230,7 @@ pub fn analyse(series: &Entry) -> Analysis {
                 vh_index: Arc::default(),
                 resid_index: Arc::default(),
                 infl_index: Arc::default(),
+                flagged: Vec::new(),
                 extent: None,
                 cooks_contours: Vec::new(),
                 errors_in_t: None,
@@ -311,6 +316,7 @@ fn finish(
         }
         Err(_) => (Vec::new(), None, None, Vec::new()),
     };
+    let mut flagged = vec![false; if fit.is_ok() { measurements.len() } else { 0 }];
     let (resid_index, infl_index) = match &fit {
         Ok(f) if prepared.large => {
             // One pass over the points' diagnostics, each computed as it is reached and
@@ -321,6 +327,9 @@ fn finish(
             for d in f.points_iter() {
                 if let Some(slot) = t_residual.get_mut(d.index) {
                     *slot = [d.t_k, d.residual];
+                }
+                if let Some(slot) = flagged.get_mut(d.index) {
+                    *slot = d.flags.any();
                 }
                 if let Some([h, t]) = isochore_fit::influence::influence_coordinates(&d) {
                     if h.is_finite() && t.is_finite() {
@@ -338,7 +347,15 @@ fn finish(
             sort_by_x_then_id(&mut influence);
             (resid, EnvelopeIndex::from_sorted(influence))
         }
-        _ => (EnvelopeIndex::default(), EnvelopeIndex::default()),
+        Ok(f) => {
+            for k in f.flagged_points() {
+                if let Some(slot) = flagged.get_mut(k) {
+                    *slot = true;
+                }
+            }
+            (EnvelopeIndex::default(), EnvelopeIndex::default())
+        }
+        Err(_) => (EnvelopeIndex::default(), EnvelopeIndex::default()),
     };
     Analysis {
         rev,
@@ -354,6 +371,7 @@ fn finish(
         vh_index: prepared.vh_index.clone(),
         resid_index: Arc::new(resid_index),
         infl_index: Arc::new(infl_index),
+        flagged,
         cooks_contours: contours,
         errors_in_t,
         prepared: Some(prepared),

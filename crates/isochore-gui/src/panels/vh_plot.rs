@@ -393,7 +393,6 @@ fn draw_points(
     if m.is_empty() {
         return (0, 0);
     }
-    let fit = a.fit.as_ref().ok();
     let mut used = Vec::new();
     let mut excluded = Vec::new();
     let mut flagged = Vec::new();
@@ -409,7 +408,7 @@ fn draw_points(
         } else {
             excluded.push(xy);
         }
-        if fit.and_then(|f| f.point(k)).is_some_and(|d| d.flags.any()) {
+        if a.flagged.get(k).copied().unwrap_or(false) {
             flagged.push(xy);
         }
         let row = a
