@@ -91,6 +91,24 @@ fn a_report_never_overwrites_its_input_file() {
 }
 
 #[test]
+fn a_report_into_a_missing_folder_names_the_folder() {
+    let dir = tempfile::tempdir().unwrap();
+    write(dir.path(), "k.csv", SMALL);
+    let out = run_in(dir.path(), &["fit", "k.csv", "--report", "nofolder/k.md"]);
+    no_panic(&out, "missing folder");
+    assert_ne!(out.status.code(), Some(0));
+    let err = text(&out.stderr);
+    assert!(
+        err.contains("the folder nofolder does not exist"),
+        "the error names the missing folder: {err}"
+    );
+    assert!(
+        !dir.path().join("nofolder").exists(),
+        "no folder made behind the user's back"
+    );
+}
+
+#[test]
 fn folder_mode_never_overwrites_inputs_and_reads_them_first() {
     let dir = tempfile::tempdir().unwrap();
     // x-data.csv is the user's own data, and also the name the report set of x.csv would

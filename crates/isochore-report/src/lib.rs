@@ -226,7 +226,22 @@ impl fmt::Display for ReportError {
                     f,
                     "{}: could not write the report: {source}",
                     path.display()
-                )
+                )?;
+                // A missing folder is the usual cause of "not found" here: say which one.
+                match path.parent() {
+                    Some(dir)
+                        if source.kind() == std::io::ErrorKind::NotFound
+                            && !dir.as_os_str().is_empty()
+                            && !dir.is_dir() =>
+                    {
+                        write!(
+                            f,
+                            " (the folder {} does not exist; create it first)",
+                            dir.display()
+                        )
+                    }
+                    _ => Ok(()),
+                }
             }
         }
     }
