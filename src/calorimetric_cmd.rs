@@ -8,6 +8,7 @@
 use crate::cli::{parse_temperature, FitArgs};
 use crate::load::Job;
 use isochore_fit::calorimetric::{compare_calorimetric, CalorimetricComparison, CalorimetricValue};
+use isochore_fit::global::{CalorimetricJointFit, GlobalError, GlobalFit};
 use isochore_fit::{EnergyUnit, VantHoffFit};
 use isochore_report::present::{energy, fixed, plus_minus, show_t};
 use std::io::{self, Write};
@@ -172,4 +173,87 @@ pub fn lines(
         writeln!(w, "    {}", x.verdict)?;
     }
     Ok(())
+}
+
+/// A fit with the calorimetric values as observations of ΔH°(T) (`constrained`, or its
+/// refusal, printed in words) under `heading`: each parameter, shared ones once under
+/// "(shared)", beside the same parameter of `alone`, the fit of ln K alone, then χ² and the
+/// degrees of freedom. The joint fit's block and a single series' alike; `job` gives the
+/// display units, `labels` the series.
+pub fn constrained_lines(
+    w: &mut impl Write,
+    job: &Job,
+    heading: &str,
+    labels: &[String],
+    alone: &GlobalFit,
+    constrained: Result<&CalorimetricJointFit, &GlobalError>,
+) -> io::Result<()> {
+    use crate::joint_cmd::{shown, symbol};
+    writeln!(w)?;
+    writeln!(w, "{heading}")?;
+    let fit = match constrained {
+        Ok(f) => f,
+        Err(e) => {
+            writeln!(w, "  not fitted: {e}")?;
+            return Ok(());
+        }
+    };
+    let model = alone.model();
+    for info in model.params() {
+        let shared = alone.shared(info.key).is_some();
+        let series: Vec<usize> = if shared {
+            vec![0]
+        } else {
+            (0..labels.len()).collect()
+        };
+        for s in series {
+            let who = if shared {
+                "(shared)".to_string()
+            } else {
+                labels[s].clone()
+            };
+            let with = fit
+                .estimate(info.key, s)
+                .map_or_else(|| "—".to_string(), |e| shown(info, job, e));
+            let ln_k_only = alone
+                .estimate(info.key, s)
+                .map_or_else(|| "—".to_string(), |e| shown(info, job, e));
+            writeln!(
+                w,
+                "  {:<10} {:<16} {:<44} | {}",
+                symbol(model, info),
+                who,
+                with,
+                ln_k_only
+            )?;
+        }
+    }
+    writeln!(
+        w,
+        "  {}",
+        isochore_report::present::joint::constrained_summary(fit)
+    )
+}
+
+/// A single series fitted with its calorimetric values as observations of ΔH°(T)
+/// (isochore-analysis' `fit_single_with_calorimetric`, `--calorimetric-in-fit` without
+/// `--share`), beside its fit of ln K alone; a refusal in words.
+pub fn single_fit_text(
+    w: &mut impl Write,
+    job: &Job,
+    fitted: &Result<(GlobalFit, CalorimetricJointFit), GlobalError>,
+) -> io::Result<()> {
+    let heading = format!(
+        "fit with the calorimetric values as observations of ΔH°(T) (weight 1/u²) | ln K alone — series “{}”:",
+        job.series
+    );
+    let labels = [job.series.clone()];
+    match fitted {
+        Ok((alone, with)) => constrained_lines(w, job, &heading, &labels, alone, Ok(with)),
+        Err(e) => {
+            writeln!(w)?;
+            writeln!(w, "{heading}")?;
+            writeln!(w, "  not fitted: {e}")
+        }
+    }
 }

@@ -228,10 +228,11 @@ pub struct FitArgs {
         allow_hyphen_values = true
     )]
     pub calorimetric: Option<Vec<String>>,
-    /// With --share and --calorimetric: fit the calorimetric values together with ln K, each
-    /// as one more observation of its series' ΔH°(T) weighted by 1/u² (weighted fits only),
-    /// so that they constrain ΔH°(θ) and ΔCp°; printed after the joint fit.
-    #[arg(long, requires = "share")]
+    /// With --calorimetric or --calorimetric-file: fit the calorimetric values together with
+    /// ln K, each as one more observation of its series' ΔH°(T) weighted by 1/u² (weighted
+    /// fits only), so that they constrain ΔH°(θ) and ΔCp°; printed after the fit (each
+    /// series alone, or the joint fit with --share) beside the fit of ln K alone.
+    #[arg(long)]
     pub calorimetric_in_fit: bool,
     /// Calorimetric values from a file: a header naming the temperature with its unit
     /// (T (°C)), ΔH with its unit (ΔH (kJ/mol)), its uncertainty u, and optionally the

@@ -120,6 +120,14 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
         return crate::joint_cmd::run(a, keys, &intervals);
     }
     let calorimetric = crate::calorimetric_cmd::values(a).map_err(Failure::usage)?;
+    if a.calorimetric_in_fit && calorimetric.is_none() {
+        return Err(Failure::usage(
+            "--calorimetric-in-fit needs calorimetric values: --calorimetric or --calorimetric-file",
+        ));
+    }
+    if a.calorimetric_in_fit && a.report.is_some() {
+        output::note("the report shows the calorimetric comparisons; the fit with the calorimetric values in it (--calorimetric-in-fit) is in the text and JSON output only");
+    }
     // Data sets whose resampled intervals were refused (a usage error: another method or
     // setting settles it).
     let mut interval_refusals: Vec<String> = Vec::new();
@@ -302,6 +310,18 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                 }
                 None => None,
             };
+            // --calorimetric-in-fit: the data set fitted again with its values as
+            // observations of ΔH°(T), beside its fit of ln K alone (the window's rule).
+            let constrained = calorimetric
+                .as_deref()
+                .filter(|_| a.calorimetric_in_fit)
+                .map(|v| {
+                    isochore_analysis::calorimetric::fit_single_with_calorimetric(
+                        job,
+                        &job.series,
+                        v,
+                    )
+                });
             if a.json {
                 if this_array && entries > 0 {
                     out.write_all(b",\n").map_err(io_fail)?;
@@ -309,16 +329,30 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                 let src = this_array.then_some(source.as_str());
                 // The errors_in_t block goes with the intervals and the calorimetric
                 // comparisons alike (issue 13).
-                crate::errors_in_t_cmd::write_json(
-                    &mut out,
-                    job,
-                    fit,
-                    errors_in_t.as_ref(),
-                    run.as_ref(),
-                    comparisons.as_deref(),
-                    src,
-                    !a.summary,
-                )
+                if let Some(c) = &constrained {
+                    json::calorimetric::write_fit_with_calorimetric_fit(
+                        &mut out,
+                        job,
+                        fit,
+                        src,
+                        !a.summary,
+                        run.as_ref(),
+                        comparisons.as_deref(),
+                        errors_in_t.as_ref(),
+                        c,
+                    )
+                } else {
+                    crate::errors_in_t_cmd::write_json(
+                        &mut out,
+                        job,
+                        fit,
+                        errors_in_t.as_ref(),
+                        run.as_ref(),
+                        comparisons.as_deref(),
+                        src,
+                        !a.summary,
+                    )
+                }
                 .map_err(io_fail)?;
                 entries += 1;
             } else if detailed_text && !multi {
@@ -331,6 +365,9 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                 }
                 if let Some(c) = &comparisons {
                     crate::calorimetric_cmd::text(&mut out, job, c).map_err(io_fail)?;
+                }
+                if let Some(c) = &constrained {
+                    crate::calorimetric_cmd::single_fit_text(&mut out, job, c).map_err(io_fail)?;
                 }
             } else {
                 summary_rows.push(table::SummaryRow::new(job, fit));
@@ -356,6 +393,10 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                 }
                 if let Some(c) = &comparisons {
                     crate::calorimetric_cmd::text(&mut calorimetric_after, job, c)
+                        .map_err(io_fail)?;
+                }
+                if let Some(c) = &constrained {
+                    crate::calorimetric_cmd::single_fit_text(&mut calorimetric_after, job, c)
                         .map_err(io_fail)?;
                 }
             }

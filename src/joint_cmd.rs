@@ -232,53 +232,13 @@ fn constrained_text(
     j: &JointAnalysis,
     constrained: &Result<CalorimetricJointFit, GlobalError>,
 ) -> io::Result<()> {
-    writeln!(w)?;
-    writeln!(
+    crate::calorimetric_cmd::constrained_lines(
         w,
-        "joint fit with the calorimetric values as observations of ΔH°(T) (weight 1/u²) | ln K alone:"
-    )?;
-    let fit = match constrained {
-        Ok(f) => f,
-        Err(e) => {
-            writeln!(w, "  not fitted: {e}")?;
-            return Ok(());
-        }
-    };
-    let first = &sets[0];
-    let model = j.fit.model();
-    for info in model.params() {
-        let series: Vec<usize> = if j.shared.contains(&info.key) {
-            vec![0]
-        } else {
-            (0..sets.len()).collect()
-        };
-        for s in series {
-            let who = if j.shared.contains(&info.key) {
-                "(shared)".to_string()
-            } else {
-                j.labels[s].clone()
-            };
-            let with = fit
-                .estimate(info.key, s)
-                .map_or_else(|| "—".to_string(), |e| shown(info, first, e));
-            let alone = j
-                .fit
-                .estimate(info.key, s)
-                .map_or_else(|| "—".to_string(), |e| shown(info, first, e));
-            writeln!(
-                w,
-                "  {:<10} {:<16} {:<44} | {}",
-                symbol(model, info),
-                who,
-                with,
-                alone
-            )?;
-        }
-    }
-    writeln!(
-        w,
-        "  {}",
-        isochore_report::present::joint::constrained_summary(fit)
+        &sets[0],
+        "joint fit with the calorimetric values as observations of ΔH°(T) (weight 1/u²) | ln K alone:",
+        &j.labels,
+        &j.fit,
+        constrained.as_ref(),
     )
 }
 
@@ -302,7 +262,8 @@ fn calorimetric_text(
     Ok(())
 }
 
-fn symbol(model: isochore_fit::Model, info: &ParamInfo) -> String {
+/// The parameter's symbol, with (θ) where its value depends on the temperature.
+pub(crate) fn symbol(model: isochore_fit::Model, info: &ParamInfo) -> String {
     if isochore_report::present::varies_with_t(model, info) {
         format!("{}(θ)", info.symbol)
     } else {
@@ -311,7 +272,7 @@ fn symbol(model: isochore_fit::Model, info: &ParamInfo) -> String {
 }
 
 /// "value ± SE  [low, high]" in the parameter's display unit.
-fn shown(info: &ParamInfo, job: &Job, e: Estimate) -> String {
+pub(crate) fn shown(info: &ParamInfo, job: &Job, e: Estimate) -> String {
     let u = unit_of(info.dimension, job.energy);
     let e = u.estimate(e);
     let d = isochore_report::present::decimals_for(e.se);

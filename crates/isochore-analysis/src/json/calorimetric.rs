@@ -2,7 +2,8 @@
 //! `calorimetric` array beside its fields, one element per calorimetric value compared with
 //! the van 't Hoff ΔH° at its temperature; a joint fit's object with the comparisons of
 //! each series and, with `--calorimetric-in-fit`, `calorimetric_fit`: the joint fit again
-//! with the calorimetric values as observations of ΔH°(T) ([`CalorimetricFitJson`]). SI
+//! with the calorimetric values as observations of ΔH°(T) ([`CalorimetricFitJson`]), and
+//! the same object beside a single fit's fields ([`write_fit_with_calorimetric_fit`]). SI
 //! units; undefined numbers are null.
 
 use super::joint::{columns_json, cov_json, ColumnJson, SeriesParamsJson};
@@ -91,6 +92,70 @@ pub fn write_fit_with_calorimetric(
         calorimetric: comparisons.iter().map(CalorimetricJson::new).collect(),
     };
     super::write_with_points(w, &mut doc, |d| &mut d.fit.points)
+}
+
+/// A single fit's document (with whatever else the command line added:
+/// [`super::errors_in_t::FitWithAdditionsJson`]) and, with `--calorimetric-in-fit` and no
+/// `--share`, `calorimetric_fit`: the data set fitted again with its calorimetric values as
+/// observations of ΔH°(T) ([`crate::calorimetric::fit_single_with_calorimetric`]), in the
+/// joint fit's form ([`CalorimetricFitJson`]: every parameter is the series' own, so
+/// `params` is empty and `series_params` has the one series); null when refused (a warning
+/// says why).
+#[derive(Serialize)]
+pub struct FitWithCalorimetricFitJson<'a> {
+    /// The fit's document.
+    #[serde(flatten)]
+    pub fit: super::errors_in_t::FitWithAdditionsJson<'a>,
+    /// The fit with the calorimetric values, or null.
+    pub calorimetric_fit: Option<CalorimetricFitJson<'a>>,
+}
+
+/// Writes one fit with its calorimetric comparisons (and a Monte Carlo or bootstrap `run`,
+/// the `errors_in_t` block, as [`super::errors_in_t::write_fit_with_additions`] does) and
+/// `calorimetric_fit` from `constrained`, the result of
+/// [`crate::calorimetric::fit_single_with_calorimetric`] for this data set, its series
+/// labelled with the data set's name.
+///
+/// # Errors
+/// The writer's.
+#[allow(clippy::too_many_arguments)]
+pub fn write_fit_with_calorimetric_fit(
+    w: &mut impl Write,
+    set: &PreparedSet,
+    fit: &VantHoffFit,
+    source: Option<&str>,
+    with_points: bool,
+    run: Option<&isochore_fit::intervals::IntervalRun>,
+    calorimetric: Option<&[CalorimetricComparison]>,
+    errors_in_t: Option<&isochore_fit::errors_in_t::ErrorsInTFit>,
+    constrained: &Result<(isochore_fit::GlobalFit, CalorimetricJointFit), GlobalError>,
+) -> io::Result<()> {
+    let labels = [set.series.clone()];
+    let mut doc = super::errors_in_t::FitWithAdditionsJson::new(
+        set,
+        fit,
+        source,
+        with_points,
+        run,
+        calorimetric,
+        errors_in_t,
+    );
+    let mut n = Nulls::new();
+    let calorimetric_fit = match constrained {
+        Ok((_, with)) => Some(CalorimetricFitJson::new(&mut n, with, &labels)),
+        Err(e) => {
+            doc.fit.warnings.push(format!(
+                "no fit with the calorimetric values as observations of ΔH°(T): {e}"
+            ));
+            None
+        }
+    };
+    doc.fit.warnings.extend(n.warning());
+    let mut doc = FitWithCalorimetricFitJson {
+        fit: doc,
+        calorimetric_fit,
+    };
+    super::write_with_points(w, &mut doc, |d| &mut d.fit.fit.points)
 }
 
 /// One element of a joint fit's `calorimetric`: the series it was compared with, then the

@@ -243,21 +243,46 @@ pub fn write_fit_with_additions(
     calorimetric: Option<&[isochore_fit::calorimetric::CalorimetricComparison]>,
     errors_in_t: Option<&ErrorsInTFit>,
 ) -> io::Result<()> {
-    let mut fit_doc = FitJson::new(set, fit, source, with_points);
-    if let Some(r) = run {
-        super::intervals::apply(&mut fit_doc, r);
-    }
-    let mut n = Nulls::new();
-    let block = errors_in_t.map(|f| ErrorsInTJson::new(set, f, &mut n));
-    fit_doc.warnings.extend(n.warning());
-    let mut doc = FitWithAdditionsJson {
-        fit: fit_doc,
-        calorimetric: calorimetric.map(|c| {
-            c.iter()
-                .map(super::calorimetric::CalorimetricJson::new)
-                .collect()
-        }),
-        errors_in_t: block,
-    };
+    let mut doc = FitWithAdditionsJson::new(
+        set,
+        fit,
+        source,
+        with_points,
+        run,
+        calorimetric,
+        errors_in_t,
+    );
     super::write_with_points(w, &mut doc, |d| &mut d.fit.points)
+}
+
+impl<'a> FitWithAdditionsJson<'a> {
+    /// The document [`write_fit_with_additions`] writes (also the base of
+    /// [`super::calorimetric::write_fit_with_calorimetric_fit`]).
+    #[allow(clippy::too_many_arguments)]
+    pub fn new(
+        set: &'a PreparedSet,
+        fit: &'a VantHoffFit,
+        source: Option<&'a str>,
+        with_points: bool,
+        run: Option<&isochore_fit::intervals::IntervalRun>,
+        calorimetric: Option<&[isochore_fit::calorimetric::CalorimetricComparison]>,
+        errors_in_t: Option<&ErrorsInTFit>,
+    ) -> FitWithAdditionsJson<'a> {
+        let mut fit_doc = FitJson::new(set, fit, source, with_points);
+        if let Some(r) = run {
+            super::intervals::apply(&mut fit_doc, r);
+        }
+        let mut n = Nulls::new();
+        let block = errors_in_t.map(|f| ErrorsInTJson::new(set, f, &mut n));
+        fit_doc.warnings.extend(n.warning());
+        FitWithAdditionsJson {
+            fit: fit_doc,
+            calorimetric: calorimetric.map(|c| {
+                c.iter()
+                    .map(super::calorimetric::CalorimetricJson::new)
+                    .collect()
+            }),
+            errors_in_t: block,
+        }
+    }
 }
