@@ -382,3 +382,64 @@ fn a_single_series_is_fitted_with_its_calorimetric_values() {
         .next()
         .is_some());
 }
+
+/// The compensation plots of the "fit together" view (three or more series): the ligand
+/// demo's four series (ΔCp° shared) each drawn with its joint confidence region on both
+/// plots (ΔH° against ΔS° and against ΔG° at T_hm), in four different series colours, and
+/// the compensation line whose slope, converted back from the display units, is the β of
+/// isochore-analysis' `fit_joint` for the same data sets; T_hm the separate fits'.
+#[test]
+fn the_joint_view_draws_the_compensation_plots() {
+    let mut h = ligand_demo();
+    menu_item(&mut h, "View", "Fit series together…");
+    h.run_steps(3);
+    let w = h.state();
+    let sets: Vec<PreparedSet> = w
+        .project
+        .series
+        .iter()
+        .map(|s| PreparedSet::from_data_set(&s.data, s.name(), &Overrides::default()).unwrap())
+        .collect();
+    let joint = fit_joint(&sets, &["delta_cp".to_string()]).unwrap();
+    let beta = joint
+        .compensation
+        .as_ref()
+        .and_then(|c| c.beta.as_ref())
+        .expect("the library finds β for the ligand demo");
+    let t_hm = joint.equality.as_ref().unwrap().full().t_harmonic_all_k();
+    let drawn = w
+        .joint
+        .drawn_compensation
+        .clone()
+        .expect("the compensation plots were drawn");
+    for regions in [&drawn.entropy_regions, &drawn.gibbs_regions] {
+        let labels: Vec<&str> = regions.iter().map(|r| r.0.as_str()).collect();
+        assert_eq!(labels, ["PX-11", "PX-12", "PX-13", "PX-14"]);
+        assert!(regions.iter().all(|r| r.2 >= 3), "{regions:?}");
+        let mut colours: Vec<_> = regions.iter().map(|r| r.1).collect();
+        colours.dedup();
+        assert_eq!(colours.len(), 4, "one colour per series");
+    }
+    // The drawn ends, display units: ΔS° in J/(mol·K) per kelvin of the energy unit, ΔH°
+    // in the energy unit (present::energy / per_kelvin); the slope back in SI is β, K.
+    let e = w.project.series[0].data.settings.energy_unit;
+    let (eu, su) = (
+        isochore_report::present::energy(e),
+        isochore_report::present::per_kelvin(e),
+    );
+    let [a, b] = drawn.beta_line.expect("the β line was drawn");
+    let slope = (b[1] - a[1]) * eu.si_per_unit / ((b[0] - a[0]) * su.si_per_unit);
+    assert!(
+        ((slope - beta.beta) / beta.beta).abs() < 1e-9,
+        "drawn slope {slope} K against β {} K",
+        beta.beta
+    );
+    assert_eq!(drawn.beta_slope_k.map(|k| (k - slope).abs() < 1e-9), Some(true));
+    assert_eq!(drawn.t_hm_k, t_hm);
+    // The legend names the line in the one vocabulary.
+    let want = isochore_report::present::names::beta_line(beta.beta);
+    assert!(
+        h.query_all_by_label_contains(&want).next().is_some(),
+        "{want} in the legend"
+    );
+}

@@ -13,6 +13,7 @@
 use crate::context::Cx;
 use crate::joint_export::JointExport;
 use crate::panels::calorimetric::{comparisons, editor, Fields};
+use crate::panels::compensation::{CompensationPlots, DrawnCompensation};
 use crate::panels::style;
 use egui::RichText;
 use egui_plot::{Line, Plot, PlotPoints, Points};
@@ -32,6 +33,8 @@ struct Joint {
     sets: Vec<PreparedSet>,
     energy: EnergyUnit,
     temperature: TemperatureUnit,
+    /// The compensation plots (three or more series).
+    compensation: Option<CompensationPlots>,
 }
 
 /// What the last joint fit was made from: each chosen series' id and revision, the shared
@@ -63,6 +66,8 @@ pub struct JointPanel {
     export: Option<JointExport>,
     /// What the last joint report export did, in words (`Err` for a refusal or failure).
     pub export_outcome: Option<Result<String, String>>,
+    /// What the compensation plots drew in the last frame (`None`: no plots shown).
+    pub drawn_compensation: Option<DrawnCompensation>,
 }
 
 impl JointPanel {
@@ -184,9 +189,10 @@ impl JointPanel {
         self.export_row(ui, project, &chosen, model);
         match &self.last {
             Some((_, Err(e))) => {
+                self.drawn_compensation = None;
                 ui.colored_label(ui.visuals().error_fg_color, e);
             }
-            Some((_, Ok(j))) => show_joint(ui, j),
+            Some((_, Ok(j))) => self.drawn_compensation = show_joint(ui, j),
             None => {}
         }
         ui.separator();
@@ -372,15 +378,19 @@ fn run(chosen: &[&crate::doc::Entry], shared: &[String], model: Model) -> Result
         })
         .collect::<Result<_, _>>()?;
     let analysis = fit_joint(&sets, shared).map_err(|e| e.to_string())?;
+    let energy = chosen[0].data.settings.energy_unit;
+    let temperature = chosen[0].data.settings.temperature_unit;
     Ok(Joint {
+        compensation: CompensationPlots::new(&analysis, energy, temperature),
         analysis,
         sets,
-        energy: chosen[0].data.settings.energy_unit,
-        temperature: chosen[0].data.settings.temperature_unit,
+        energy,
+        temperature,
     })
 }
 
-fn show_joint(ui: &mut egui::Ui, j: &Joint) {
+/// Draws the joint fit; returns what the compensation plots drew, if shown.
+fn show_joint(ui: &mut egui::Ui, j: &Joint) -> Option<DrawnCompensation> {
     let a = &j.analysis;
     let fit = &a.fit;
     let (e, tu) = (j.energy, j.temperature);
@@ -526,10 +536,12 @@ fn show_joint(ui: &mut egui::Ui, j: &Joint) {
             ui.label(&x.verdict);
         }
     }
+    let drawn = j.compensation.as_ref().map(|p| p.show(ui));
     if !a.warnings.is_empty() {
         ui.label(RichText::new("Warnings").strong());
         for w in &a.warnings {
             ui.label(w);
         }
     }
+    drawn
 }

@@ -2,6 +2,7 @@
 //! [`crate::app::Cx`] and propose commands; none of them changes the document directly.
 
 pub mod calorimetric;
+pub mod compensation;
 pub mod diagnostics;
 pub mod export;
 pub mod files;

@@ -420,24 +420,14 @@ fn compensation_plot(
     };
     let (x0, x1) = padded(xr, 0.12);
     let (y0, y1) = padded(yr, 0.12);
-    let x_desc = if gibbs {
-        crate::present::names::quantity_axis(
-            &format!(
-                "ΔG° at T_hm = {}",
-                present::show_t(t_hm, input.temperature_unit)
-            ),
-            eu.symbol,
-        )
-    } else {
-        crate::present::names::quantity_axis(
-            &format!(
-                "ΔS° at θ = {}",
-                present::show_t(theta, input.temperature_unit)
-            ),
-            su.symbol,
-        )
-    };
-    let y_desc = crate::present::names::quantity_axis("ΔH° at θ", eu.symbol);
+    let names_at = if gibbs { t_hm } else { theta };
+    let x_desc = crate::present::names::compensation_x_axis(
+        gibbs,
+        names_at,
+        input.temperature_unit,
+        xu.symbol,
+    );
+    let y_desc = crate::present::names::compensation_h_axis(eu.symbol);
     let mut chart = framed_chart(
         root,
         Frame {
@@ -479,7 +469,7 @@ fn compensation_plot(
             chart
                 .draw_series(DashedLineSeries::new(grey_line, 9, 6, GREY.stroke_width(2)))
                 .map_err(fe)?
-                .label(format!("slope T_hm = {} K", fixed(t_hm, 1)))
+                .label(crate::present::names::t_hm_slope_line(t_hm))
                 .legend(|(x, y)| {
                     DashedPathElement::new(vec![(x, y), (x + 22, y)], 6, 4, GREY.stroke_width(2))
                 });
@@ -491,7 +481,7 @@ fn compensation_plot(
                 chart
                     .draw_series(LineSeries::new(line, INK.stroke_width(2)))
                     .map_err(fe)?
-                    .label(format!("β = {} K (York)", fixed(b.beta, 0)))
+                    .label(crate::present::names::beta_line(b.beta))
                     .legend(|(x, y)| {
                         PathElement::new(vec![(x, y), (x + 22, y)], INK.stroke_width(2))
                     });

@@ -183,6 +183,34 @@ pub fn errors_in_t_method(m: isochore_fit::errors_in_t::ErrorsInTMethod) -> &'st
 /// window's "Calorimetric ΔH°" window and heading (DEVELOPERS.md: "ΔH_cal" ± "u").
 pub const CALORIMETRIC: &str = "Calorimetric ΔH°";
 
+/// The compensation plots' vertical axis: "ΔH° at θ / (kJ/mol)".
+pub fn compensation_h_axis(energy_unit: &str) -> String {
+    quantity_axis("ΔH° at θ", energy_unit)
+}
+
+/// The compensation plots' horizontal axis: ΔS° at θ ("ΔS° at θ = 25.00 °C / (J/(mol·K))")
+/// or, with `gibbs`, ΔG° at the harmonic-mean temperature of every series' used points
+/// ("ΔG° at T_hm = 27.31 °C / (kJ/mol)"); `at_k` is θ or T_hm, `unit` the axis unit.
+pub fn compensation_x_axis(gibbs: bool, at_k: f64, tu: TemperatureUnit, unit: &str) -> String {
+    let at = super::units::show_t(at_k, tu);
+    if gibbs {
+        quantity_axis(&format!("ΔG° at {T_HM} = {at}"), unit)
+    } else {
+        quantity_axis(&format!("ΔS° at θ = {at}"), unit)
+    }
+}
+
+/// The fitted compensation line ΔH° = α + βΔS°, by its slope: "β = 612 K (York)".
+pub fn beta_line(beta_k: f64) -> String {
+    format!("β = {} K (York)", super::number::fixed(beta_k, 0))
+}
+
+/// The reference line of slope T_hm, the slope correlated errors alone give:
+/// "slope T_hm = 300.1 K".
+pub fn t_hm_slope_line(t_hm_k: f64) -> String {
+    format!("slope {T_HM} = {} K", super::number::fixed(t_hm_k, 1))
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -200,5 +228,11 @@ mod tests {
         assert_eq!(t_axis(TemperatureUnit::Celsius), "T / °C");
         assert_eq!(weighting(false), "unweighted");
         assert_eq!(use_row_again(7), "use row 7 again");
+        assert_eq!(beta_line(612.4), "β = 612 K (York)");
+        assert_eq!(t_hm_slope_line(300.06), "slope T_hm = 300.1 K");
+        assert_eq!(
+            compensation_x_axis(true, 298.15, TemperatureUnit::Celsius, "kJ/mol"),
+            "ΔG° at T_hm = 25.00 °C / (kJ/mol)"
+        );
     }
 }
