@@ -434,7 +434,10 @@ fn the_joint_view_draws_the_compensation_plots() {
         "drawn slope {slope} K against β {} K",
         beta.beta
     );
-    assert_eq!(drawn.beta_slope_k.map(|k| (k - slope).abs() < 1e-9), Some(true));
+    assert_eq!(
+        drawn.beta_slope_k.map(|k| (k - slope).abs() < 1e-9),
+        Some(true)
+    );
     assert_eq!(drawn.t_hm_k, t_hm);
     // The legend names the line in the one vocabulary.
     let want = isochore_report::present::names::beta_line(beta.beta);

@@ -17,13 +17,22 @@ use isochore_report::present::{self, names};
 /// Vertices of each drawn confidence region (as the report's figures).
 const VERTICES: usize = 120;
 
+/// A straight line's two ends, display units.
+type Ends = [[f64; 2]; 2];
+
+/// A series' region (vertices, display units) and its estimate.
+type Region = (Vec<[f64; 2]>, [f64; 2]);
+
+/// A line of a plot: its ends (`None`: it misses the plot), its legend name, dashed or not.
+type PlotLine = (Option<Ends>, String, bool);
+
 /// Both compensation plots of one joint analysis, in display units (made once per fit).
 pub(crate) struct CompensationPlots {
     labels: Vec<String>,
     /// Per series: the ΔH°–ΔS° region as (ΔS°, ΔH°) vertices and its centre.
-    entropy: Vec<(Vec<[f64; 2]>, [f64; 2])>,
+    entropy: Vec<Region>,
     /// Per series: the ΔH°–ΔG°(T_hm) region as (ΔG°, ΔH°) vertices and its centre.
-    gibbs: Vec<(Vec<[f64; 2]>, [f64; 2])>,
+    gibbs: Vec<Region>,
     /// β and α (SI) of ΔH° = α + βΔS°, when the analysis has them.
     beta: Option<(f64, f64)>,
     theta_k: f64,
@@ -176,9 +185,9 @@ impl CompensationPlots {
         &self,
         ui: &mut egui::Ui,
         id: &str,
-        regions: &[(Vec<[f64; 2]>, [f64; 2])],
+        regions: &[Region],
         (x_axis, y_axis): (String, &str),
-        lines: &[(Option<[[f64; 2]; 2]>, String, bool)],
+        lines: &[PlotLine],
     ) -> Vec<(String, Color32, usize)> {
         let mut drawn = Vec::new();
         let ink = ui.visuals().strong_text_color();
@@ -226,7 +235,7 @@ impl CompensationPlots {
 }
 
 /// The padded extent (x, y) of the regions and centres: 12 % each side, as the report.
-fn extent(regions: &[(Vec<[f64; 2]>, [f64; 2])]) -> Option<((f64, f64), (f64, f64))> {
+fn extent(regions: &[Region]) -> Option<((f64, f64), (f64, f64))> {
     let all = regions
         .iter()
         .flat_map(|(p, c)| p.iter().chain(std::iter::once(c)))
@@ -257,7 +266,7 @@ fn clip_line(
     through: [f64; 2],
     (x0, x1): (f64, f64),
     (y0, y1): (f64, f64),
-) -> Option<[[f64; 2]; 2]> {
+) -> Option<Ends> {
     let y = |x: f64| through[1] + k * (x - through[0]);
     let (mut a, mut b) = (x0, x1);
     if k != 0.0 && k.is_finite() {
