@@ -136,3 +136,169 @@ fn calorimetric_values_appear_in_the_single_report() {
         .unwrap()
         .contains("Calorimetric ΔH°"));
 }
+
+/// One `value ± SE  [low, high]` of the text, as numbers with the decimals each is shown to.
+fn shown_numbers(cell: &str) -> Vec<(f64, usize)> {
+    let t: Vec<&str> = cell.split_whitespace().collect();
+    let i = t.iter().position(|x| *x == "±").expect("value ± SE");
+    [t[i - 1], t[i + 1], t[i + 2], t[i + 3]]
+        .iter()
+        .map(|x| {
+            let x = x.trim_matches(|c| c == '[' || c == ']' || c == ',');
+            let d = x.split('.').nth(1).map_or(0, str::len);
+            (x.parse().unwrap_or_else(|_| panic!("{x} in {cell}")), d)
+        })
+        .collect()
+}
+
+/// The text's `value ± SE  [low, high]` is the JSON's `{value, se, ci_low, ci_high}` (SI,
+/// divided by `scale` for the display unit), each rounded to the decimals shown.
+fn text_is_json(cell: &str, e: &serde_json::Value, scale: f64) {
+    for ((shown, d), key) in shown_numbers(cell)
+        .into_iter()
+        .zip(["value", "se", "ci_low", "ci_high"])
+    {
+        let v = e[key].as_f64().unwrap() / scale;
+        let half = 0.5 * 10f64.powi(-(d as i32)) * (1.0 + 1e-9);
+        assert!(
+            (v - shown).abs() <= half,
+            "{key}: {v} shown as {shown} in {cell}"
+        );
+    }
+}
+
+/// `--calorimetric-in-fit` without `--share` (issue 12): the binding demo with −40.0 ± 0.5
+/// kJ/mol at 25 °C and −47.0 ± 0.8 kJ/mol at 35 °C (invented) fitted together with ln K
+/// through isochore-analysis' `fit_single_with_calorimetric` (the window's), against
+/// statsmodels 0.15.0 WLS on the stacked design (tests/data/independent/
+/// make_single_calorimetric.py → single_calorimetric.txt, scaled SEs) to 1e-9; the text's
+/// numbers are the JSON's; the same values from a file give the same output; unweighted,
+/// refused in words.
+#[test]
+fn a_single_series_is_fitted_with_its_calorimetric_values() {
+    let path = demo("binding_qx7_halo2.csv");
+    let cal = "25C:-40:0.5,35C:-47:0.8";
+    let args = ["fit", &path, "--calorimetric", cal, "--calorimetric-in-fit"];
+    let mut json_args = args.to_vec();
+    json_args.extend(["--json", "--summary"]);
+    let out = run(&json_args);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let j = json_of(&out);
+    let c = &j["calorimetric_fit"];
+    // single_calorimetric.txt (statsmodels 0.15.0): params, bse, chi2, dof.
+    let reference = std::fs::read_to_string(
+        super::cli::root().join("tests/data/independent/single_calorimetric.txt"),
+    )
+    .unwrap();
+    let line = |name: &str| -> Vec<f64> {
+        reference
+            .lines()
+            .find_map(|l| l.strip_prefix(&format!("{name} ")))
+            .unwrap_or_else(|| panic!("no {name} in single_calorimetric.txt"))
+            .split_whitespace()
+            .map(|x| x.parse().unwrap())
+            .collect()
+    };
+    let (params, bse) = (line("params"), line("bse"));
+    let rel = 1e-9; // the project's bar (issue 10), not a reference value
+    let p = &c["series_params"][0]["params"];
+    assert_eq!(c["series_params"][0]["series"], "binding_qx7_halo2");
+    assert_eq!(c["params"], serde_json::json!({}), "nothing is shared");
+    for (k, key) in ["delta_h", "delta_s"].into_iter().enumerate() {
+        assert!(close(num(&p[key]["value"]), params[k], rel), "{key}: {p}");
+        assert!(close(num(&p[key]["se"]), bse[k], rel), "{key}: {p}");
+    }
+    assert!(close(num(&c["chi2"]), line("chi2")[0], rel), "{c}");
+    assert_eq!(c["dof"].as_u64(), Some(line("dof")[0] as u64));
+    assert_eq!(c["n_ln_k"], 10);
+    assert_eq!(c["n_calorimetric"], 2);
+    assert_eq!(c["columns"].as_array().unwrap().len(), 2);
+    // The fit of ln K alone is the plain fit's, unchanged, and the comparisons stay.
+    assert!(j["calorimetric"].as_array().is_some_and(|a| a.len() == 2));
+    let plain = json_of(&run(&["fit", &path, "--json", "--summary"]));
+    assert_eq!(j["params"], plain["params"]);
+
+    // The text: each parameter with the calorimetric values | ln K alone, the same numbers.
+    let out = run(&args);
+    assert!(out.status.success());
+    let text = String::from_utf8(out.stdout).unwrap();
+    let block = text
+        .split("fit with the calorimetric values as observations of ΔH°(T)")
+        .nth(1)
+        .unwrap_or_else(|| panic!("no constrained block in\n{text}"));
+    for (symbol, key, scale) in [("ΔH°", "delta_h", 1000.0), ("ΔS°", "delta_s", 1.0)] {
+        let row = block
+            .lines()
+            .find(|l| l.trim_start().starts_with(symbol))
+            .unwrap_or_else(|| panic!("no {symbol} row in\n{block}"));
+        let (with, alone) = row.split_once(" | ").expect("two columns");
+        text_is_json(with, &p[key], scale);
+        text_is_json(alone, &plain["params"][key], scale);
+    }
+    assert!(
+        block.contains("2 calorimetric values, 10 degrees of freedom"),
+        "{block}"
+    );
+
+    // The same values from a calorimetric file: the same output.
+    let dir = std::env::temp_dir().join(format!("isochore-cal-single-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let file = dir.join("itc.csv");
+    std::fs::write(
+        &file,
+        "# invented\nT (°C),ΔH (kJ/mol),u (kJ/mol)\n25,-40,0.5\n35,-47,0.8\n",
+    )
+    .unwrap();
+    let file = file.to_string_lossy().into_owned();
+    let from_file = run(&[
+        "fit",
+        &path,
+        "--calorimetric-file",
+        &file,
+        "--calorimetric-in-fit",
+    ]);
+    assert_eq!(String::from_utf8(from_file.stdout).unwrap(), text);
+
+    // Unweighted: refused in words, the rest printed; in JSON null with the reason.
+    let mut unweighted = args.to_vec();
+    unweighted.push("--unweighted");
+    let out = run(&unweighted);
+    assert!(out.status.success());
+    let text = String::from_utf8(out.stdout).unwrap();
+    assert!(
+        text.contains(
+            "not fitted: calorimetric values can constrain the fit only when every ln K has its σ"
+        ),
+        "{text}"
+    );
+    assert!(text.contains("calorimetric ΔH° compared with the van 't Hoff ΔH°"));
+    json_args.push("--unweighted");
+    let j = json_of(&run(&json_args));
+    assert!(j["calorimetric_fit"].is_null());
+    assert!(j["warnings"].as_array().unwrap().iter().any(|w| w
+        .as_str()
+        .unwrap()
+        .contains("only when every ln K has its σ")));
+
+    // Without values: a usage error in words; without the option, no object.
+    let out = run(&["fit", &path, "--calorimetric-in-fit"]);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("needs calorimetric values"));
+    let j = json_of(&run(&[
+        "fit",
+        &path,
+        "--calorimetric",
+        cal,
+        "--json",
+        "--summary",
+    ]));
+    assert!(j.get("calorimetric_fit").is_none());
+}
+
+fn num(v: &serde_json::Value) -> f64 {
+    v.as_f64().unwrap_or_else(|| panic!("not a number: {v}"))
+}

@@ -495,9 +495,15 @@ fn calorimetric_values_can_constrain_the_joint_fit() {
     );
     assert!(text.contains("ln K alone: value ± SE"), "{text}");
     assert!(text.contains("3 calorimetric values, 16 degrees of freedom"));
-    // Without --share (clap's requirement): a usage error.
+    // Without --share, values naming a series: a usage error in words (a single series'
+    // fit with its values is tests/calorimetric_cli.rs's).
     let out = run(&["fit", &a, "--calorimetric", cal, "--calorimetric-in-fit"]);
     assert_eq!(out.status.code(), Some(2));
+    assert!(
+        stderr(&out).contains("is for a joint fit (--share)"),
+        "{}",
+        stderr(&out)
+    );
     // With --json: one object, `calorimetric_fit`, with the same numbers as the text.
     let mut json = args.to_vec();
     json.push("--json");
