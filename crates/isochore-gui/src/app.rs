@@ -392,9 +392,12 @@ impl Workbench {
                 });
             });
         if self.prefs.show_results {
+            // Wide enough for a value, its SE and both ends of its interval on one line on a
+            // common screen (at 1600 px wide the table's interval column was cut at 380 px).
+            let results_width = (root.ctx().content_rect().width() * 0.30).clamp(380.0, 560.0);
             egui::Panel::right("results")
                 .resizable(true)
-                .default_size(380.0)
+                .default_size(results_width)
                 .show(root, |ui| {
                     egui::ScrollArea::both().auto_shrink(false).show(ui, |ui| {
                         self.results.ui(ui, &mut cx);
