@@ -1,9 +1,15 @@
-//! The fast writer of the points array (`json::write_fit`, `json::calorimetric`) against
+//! The fast writer of the points array (`json::write_fit`, `json::calorimetric`, with and
+//! without `calorimetric_fit`) against
 //! serde_json writing the same typed document: the bytes must be the same, for the cases
 //! that put nulls, negative zeros, flags, escapes and the `source` field in the points.
 
 use crate::common::file;
-use isochore_analysis::json::calorimetric::{write_fit_with_calorimetric, FitWithCalorimetricJson};
+use isochore_analysis::calorimetric::fit_single_with_calorimetric;
+use isochore_analysis::json::calorimetric::{
+    write_fit_with_calorimetric, write_fit_with_calorimetric_fit, CalorimetricFitJson,
+    FitWithCalorimetricFitJson, FitWithCalorimetricJson,
+};
+use isochore_analysis::json::errors_in_t::FitWithAdditionsJson;
 use isochore_analysis::json::{write_fit, FitJson};
 use isochore_analysis::{load, Exclusions, Overrides, RowNumber};
 use isochore_fit::{calorimetric, Model};
@@ -98,6 +104,47 @@ fn streamed_points_are_the_bytes_serde_writes() {
             let mut got = Vec::new();
             write_fit_with_calorimetric(&mut got, set, &fit, None, true, &comparisons).unwrap();
             assert_eq!(got, want, "case {i}, calorimetric");
+            // With `calorimetric_fit` (`--calorimetric-in-fit`), fitted or refused
+            // (unweighted): the object a level further down.
+            let constrained = fit_single_with_calorimetric(set, &set.series, &cal);
+            let mut n = isochore_analysis::json::Nulls::new();
+            let labels = [set.series.clone()];
+            let mut doc = FitWithCalorimetricFitJson {
+                fit: FitWithAdditionsJson::new(
+                    set,
+                    &fit,
+                    None,
+                    true,
+                    None,
+                    Some(&comparisons),
+                    None,
+                ),
+                calorimetric_fit: constrained
+                    .as_ref()
+                    .ok()
+                    .map(|(_, with)| CalorimetricFitJson::new(&mut n, with, &labels)),
+            };
+            if let Err(e) = &constrained {
+                doc.fit.fit.warnings.push(format!(
+                    "no fit with the calorimetric values as observations of ΔH°(T): {e}"
+                ));
+            }
+            doc.fit.fit.warnings.extend(n.warning());
+            let want = serde_json::to_vec(&doc).unwrap();
+            let mut got = Vec::new();
+            write_fit_with_calorimetric_fit(
+                &mut got,
+                set,
+                &fit,
+                None,
+                true,
+                None,
+                Some(&comparisons),
+                None,
+                &constrained,
+            )
+            .unwrap();
+            assert_eq!(got, want, "case {i}, calorimetric_fit");
         }
     }
 }
