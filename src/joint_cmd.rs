@@ -307,6 +307,8 @@ fn intervals_text(
         "  {:<10} {:<22} {:<44} {:<20} | delta method",
         "quantity", "series", "value ± SE (SD of draws)  [interval]", "method"
     )?;
+    // Each quantity's name as the table writes it, for the notes below.
+    let mut names: Vec<(&str, String)> = Vec::new();
     for (t, q) in run.targets.iter().zip(&run.run.quantities) {
         let Some(info) = model.params().iter().find(|p| p.key == t.key()) else {
             continue;
@@ -328,9 +330,23 @@ fn intervals_text(
             interval_method(best.method),
             shown(info, first, q.quantity.delta)
         )?;
+        names.push((
+            q.quantity.key.as_str(),
+            format!("{} {who}", symbol(model, info)),
+        ));
     }
     for warning in &run.run.warnings {
-        writeln!(w, "  note: {warning}")?;
+        // The library's notes begin with the quantity's key; say its name instead.
+        let named = names
+            .iter()
+            .find_map(|(key, name)| {
+                warning
+                    .strip_prefix(key)
+                    .and_then(|rest| rest.strip_prefix(": "))
+                    .map(|rest| format!("{name}: {rest}"))
+            })
+            .unwrap_or_else(|| warning.clone());
+        writeln!(w, "  note: {named}")?;
     }
     Ok(())
 }
