@@ -190,19 +190,7 @@ fn a_single_series_is_fitted_with_its_calorimetric_values() {
     let j = json_of(&out);
     let c = &j["calorimetric_fit"];
     // single_calorimetric.txt (statsmodels 0.15.0): params, bse, chi2, dof.
-    let reference = std::fs::read_to_string(
-        super::cli::root().join("tests/data/independent/single_calorimetric.txt"),
-    )
-    .unwrap();
-    let line = |name: &str| -> Vec<f64> {
-        reference
-            .lines()
-            .find_map(|l| l.strip_prefix(&format!("{name} ")))
-            .unwrap_or_else(|| panic!("no {name} in single_calorimetric.txt"))
-            .split_whitespace()
-            .map(|x| x.parse().unwrap())
-            .collect()
-    };
+    let line = reference("single_calorimetric.txt");
     let (params, bse) = (line("params"), line("bse"));
     let rel = 1e-9; // the project's bar (issue 10), not a reference value
     let p = &c["series_params"][0]["params"];
@@ -297,6 +285,62 @@ fn a_single_series_is_fitted_with_its_calorimetric_values() {
         "--summary",
     ]));
     assert!(j.get("calorimetric_fit").is_none());
+}
+
+/// A line of a reference file of tests/data/independent (`params …`, `bse …`, `chi2 …`,
+/// `dof …`) as numbers.
+fn reference(file: &str) -> impl Fn(&str) -> Vec<f64> {
+    let text =
+        std::fs::read_to_string(super::cli::root().join("tests/data/independent").join(file))
+            .unwrap_or_else(|e| panic!("{file}: {e}"));
+    let file = file.to_string();
+    move |name: &str| {
+        text.lines()
+            .find_map(|l| l.strip_prefix(&format!("{name} ")))
+            .unwrap_or_else(|| panic!("no {name} in {file}"))
+            .split_whitespace()
+            .map(|x| x.parse().unwrap())
+            .collect()
+    }
+}
+
+/// With ΔCp° (`--model cp`, θ = 298.15 K) three calorimetric values at 15, 25 and 35 °C
+/// (invented) constrain ΔH°(θ) and ΔCp° together: against statsmodels 0.15.0 WLS on the
+/// stacked design (tests/data/independent/make_single_calorimetric_cp.py →
+/// single_calorimetric_cp.txt, scaled SEs) to 1e-9.
+#[test]
+fn a_single_series_with_a_heat_capacity_is_fitted_with_its_calorimetric_values() {
+    let path = demo("binding_qx7_halo2.csv");
+    let out = run(&[
+        "fit",
+        &path,
+        "--model",
+        "cp",
+        "--calorimetric",
+        "15C:-33.5:0.6,25C:-40:0.5,35C:-47:0.8",
+        "--calorimetric-in-fit",
+        "--json",
+        "--summary",
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let j = json_of(&out);
+    assert_eq!(j["t_ref_k"].as_f64(), Some(298.15));
+    let c = &j["calorimetric_fit"];
+    let line = reference("single_calorimetric_cp.txt");
+    let (params, bse) = (line("params"), line("bse"));
+    let rel = 1e-9; // the project's bar (issue 10), not a reference value
+    let p = &c["series_params"][0]["params"];
+    for (k, key) in ["delta_h", "delta_s", "delta_cp"].into_iter().enumerate() {
+        assert!(close(num(&p[key]["value"]), params[k], rel), "{key}: {p}");
+        assert!(close(num(&p[key]["se"]), bse[k], rel), "{key}: {p}");
+    }
+    assert!(close(num(&c["chi2"]), line("chi2")[0], rel), "{c}");
+    assert_eq!(c["dof"].as_u64(), Some(line("dof")[0] as u64));
+    assert_eq!(c["n_calorimetric"], 3);
 }
 
 fn num(v: &serde_json::Value) -> f64 {
