@@ -9,7 +9,7 @@
 
 use crate::panels::style;
 use egui::{Color32, RichText};
-use egui_plot::{Line, LineStyle, Plot, PlotPoints, Points, Polygon};
+use egui_plot::{Line, LineStyle, Plot, PlotPoint, PlotPoints, Points, Polygon, Text};
 use isochore_analysis::joint::JointAnalysis;
 use isochore_fit::{EnergyUnit, TemperatureUnit};
 use isochore_report::present::{self, names};
@@ -191,13 +191,22 @@ impl CompensationPlots {
     ) -> Vec<(String, Color32, usize)> {
         let mut drawn = Vec::new();
         let ink = ui.visuals().strong_text_color();
+        // 12 % room each side (as the report), for the names beside the estimates.
+        let ((x0, x1), (y0, y1)) = extent(regions).unwrap_or(((0.0, 0.0), (0.0, 0.0)));
         Plot::new(id)
+            .include_x(x0)
+            .include_x(x1)
+            .include_y(y0)
+            .include_y(y1)
             .height(300.0)
             .x_grid_spacer(egui_plot::uniform_grid_spacer(style::nice_steps))
             .y_grid_spacer(egui_plot::uniform_grid_spacer(style::nice_steps))
             .x_axis_label(x_axis)
             .y_axis_label(y_axis)
-            .legend(egui_plot::Legend::default().position(egui_plot::Corner::RightBottom))
+            // The legend names the lines only (upper left: with a positive slope the lines
+            // leave that corner empty); each series is named below right of its estimate
+            // (off a rising line).
+            .legend(egui_plot::Legend::default().position(egui_plot::Corner::LeftTop))
             .allow_scroll(false)
             .show(ui, |pu| {
                 for (s, (poly, centre)) in regions.iter().enumerate() {
@@ -205,7 +214,7 @@ impl CompensationPlots {
                     let label = &self.labels[s];
                     if poly.len() >= 3 {
                         pu.polygon(
-                            Polygon::new(label.clone(), PlotPoints::new(poly.clone()))
+                            Polygon::new("", PlotPoints::new(poly.clone()))
                                 .fill_color(color.gamma_multiply(0.22))
                                 .stroke(egui::Stroke::new(1.5, color))
                                 .allow_hover(false),
@@ -213,11 +222,19 @@ impl CompensationPlots {
                         drawn.push((label.clone(), color, poly.len()));
                     }
                     pu.points(
-                        Points::new(label.clone(), PlotPoints::new(vec![*centre]))
+                        Points::new("", PlotPoints::new(vec![*centre]))
                             .shape(style::series_shape(s))
                             .color(color)
                             .filled(true)
                             .radius(5.0),
+                    );
+                    pu.text(
+                        Text::new(
+                            "",
+                            PlotPoint::new(centre[0], centre[1]),
+                            RichText::new(format!("     {label}")).small().color(color),
+                        )
+                        .anchor(egui::Align2::LEFT_TOP),
                     );
                 }
                 for (ends, name, dashed) in lines {
