@@ -272,6 +272,20 @@ fn a_single_series_is_fitted_with_its_calorimetric_values() {
         .unwrap()
         .contains("only when every ln K has its σ")));
 
+    // One value: the counts in the right number (10 ln K + 1 − 2 columns = 9).
+    let out = run(&[
+        "fit",
+        &path,
+        "--calorimetric",
+        "25C:-40:0.5",
+        "--calorimetric-in-fit",
+    ]);
+    let text = String::from_utf8(out.stdout).unwrap();
+    assert!(
+        text.contains("over 10 ln K points and 1 calorimetric value, 9 degrees of freedom"),
+        "{text}"
+    );
+
     // Without values: a usage error in words; without the option, no object.
     let out = run(&["fit", &path, "--calorimetric-in-fit"]);
     assert_eq!(out.status.code(), Some(2));

@@ -478,10 +478,12 @@ pub fn constrained_cells(r: &ConstrainedRow) -> Vec<String> {
 /// a calorimetric value including heat from coupled equilibria pulls ΔH° towards itself.
 pub fn constrained_summary(c: &CalorimetricJointFit) -> String {
     format!(
-        "χ² = {} over {} ln K points and {} calorimetric values, {} degrees of freedom. Combine only values that agree with the van 't Hoff ΔH° (see the comparison): a calorimetric enthalpy that includes heat from coupled equilibria pulls ΔH° towards itself.",
+        "χ² = {} over {} ln K points and {} calorimetric {}, {} {}. Combine only values that agree with the van 't Hoff ΔH° (see the comparison): a calorimetric enthalpy that includes heat from coupled equilibria pulls ΔH° towards itself.",
         fixed(c.statistics().chi2, 4),
         c.n_ln_k(),
         c.n_calorimetric(),
-        c.dof()
+        if c.n_calorimetric() == 1 { "value" } else { "values" },
+        c.dof(),
+        if c.dof() == 1 { "degree of freedom" } else { "degrees of freedom" }
     )
 }
