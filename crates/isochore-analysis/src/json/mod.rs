@@ -15,8 +15,8 @@
 pub mod calorimetric;
 pub mod errors_in_t;
 pub mod intervals;
-pub mod joint_intervals;
 pub mod joint;
+pub mod joint_intervals;
 pub mod predict;
 mod stream;
 pub mod two_point;
