@@ -244,7 +244,8 @@ pub fn single_fit_text(
     fitted: &Result<(GlobalFit, CalorimetricJointFit), GlobalError>,
 ) -> io::Result<()> {
     let heading = format!(
-        "fit with the calorimetric values as observations of ΔH°(T) (weight 1/u²) | ln K alone — series “{}”:",
+        "{} | ln K alone — series “{}”:",
+        isochore_report::present::joint::SINGLE_CONSTRAINED_FIT,
         job.series
     );
     let labels = [job.series.clone()];

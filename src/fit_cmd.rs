@@ -52,6 +52,16 @@ impl ReportPlan {
     }
 }
 
+/// A series fitted with its calorimetric values as observations of ΔH°(T), beside its fit
+/// of ln K alone (isochore-analysis' `fit_single_with_calorimetric`), or the refusal.
+type Constrained = Result<
+    (
+        isochore_fit::global::GlobalFit,
+        isochore_fit::global::CalorimetricJointFit,
+    ),
+    isochore_fit::global::GlobalError,
+>;
+
 /// Writes the report of one job to `targets` (from [`ReportPlan::targets`]).
 fn write_report(
     plan: &ReportPlan,
@@ -60,9 +70,13 @@ fn write_report(
     targets: &[PathBuf],
     intervals: &isochore_analysis::intervals::IntervalRequest,
     calorimetric: &[isochore_fit::calorimetric::CalorimetricComparison],
+    constrained: Option<&Constrained>,
 ) -> Result<Vec<PathBuf>, String> {
     let mut input = report_input(job, fit.clone());
     input.calorimetric = calorimetric.to_vec();
+    // --calorimetric-in-fit: the fit with the values in it, beside ln K alone, in the
+    // report's "Calorimetric ΔH°" section (or its refusal in words).
+    input.calorimetric_fit = constrained.map(|c| c.clone().map_err(|e| e.to_string()));
     // With --intervals monte-carlo or bootstrap the report compares both with the delta
     // method (issue 13).
     input.intervals = isochore_analysis::intervals::report_runs(job, fit, intervals)
@@ -124,9 +138,6 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
         return Err(Failure::usage(
             "--calorimetric-in-fit needs calorimetric values: --calorimetric or --calorimetric-file",
         ));
-    }
-    if a.calorimetric_in_fit && a.report.is_some() {
-        output::note("the report shows the calorimetric comparisons; the fit with the calorimetric values in it (--calorimetric-in-fit) is in the text and JSON output only");
     }
     // Data sets whose resampled intervals were refused (a usage error: another method or
     // setting settles it).
@@ -416,6 +427,7 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
                 &t,
                 &intervals,
                 comparisons.as_deref().unwrap_or_default(),
+                constrained.as_ref(),
             ) {
                 Ok(paths) => {
                     if let Err(e) = guard.record(&paths) {

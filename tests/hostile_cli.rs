@@ -722,6 +722,7 @@ fn hostile_input(name: &str) -> isochore_report::ReportInput {
         intervals: vec![],
         errors_in_t: None,
         calorimetric: vec![],
+        calorimetric_fit: None,
     }
 }
 

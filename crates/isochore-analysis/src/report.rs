@@ -68,6 +68,9 @@ pub fn report_input(
         // The caller adds calorimetric comparisons when it has values (the command line's
         // --calorimetric, the window's values kept with the data set).
         calorimetric: Vec::new(),
+        // The caller adds the fit with the calorimetric values in it when asked
+        // (`--calorimetric-in-fit`: `calorimetric::fit_single_with_calorimetric`).
+        calorimetric_fit: None,
     }
 }
 

@@ -131,6 +131,47 @@ pub(crate) fn results_csv(input: &ReportInput) -> Result<Vec<u8>, ReportError> {
         ])
         .map_err(csv_err)?;
     }
+    // With --calorimetric-in-fit: the series fitted again with its calorimetric values as
+    // observations of ΔH°(T), each parameter "… with ΔH_cal", then its χ² and degrees of
+    // freedom (the fit of ln K alone is the rows above).
+    if let Some(Ok((alone, with))) = &input.calorimetric_fit {
+        let labels = [input.series_name.clone()];
+        let (e, tu) = (input.energy_unit, input.temperature_unit);
+        for r in crate::present::joint::constrained_rows(with, alone, &labels, e, tu) {
+            let x = r.with.estimate;
+            w.write_record([
+                format!("{} with ΔH_cal", r.with.quantity),
+                fin(x.value),
+                fin(x.se),
+                fin(x.ci_low),
+                fin(x.ci_high),
+                r.with.unit.clone(),
+            ])
+            .map_err(csv_err)?;
+        }
+        let plain = |k: &str, v: String| {
+            [
+                k.to_string(),
+                v,
+                String::new(),
+                String::new(),
+                String::new(),
+                String::new(),
+            ]
+        };
+        w.write_record(plain("χ² with ΔH_cal", fin(with.statistics().chi2)))
+            .map_err(csv_err)?;
+        w.write_record(plain(
+            "degrees of freedom with ΔH_cal",
+            with.dof().to_string(),
+        ))
+        .map_err(csv_err)?;
+        w.write_record(plain(
+            "calorimetric values in the fit",
+            with.n_calorimetric().to_string(),
+        ))
+        .map_err(csv_err)?;
+    }
     w.into_inner()
         .map_err(|e| ReportError::Input(format!("writing CSV: {e}")))
 }

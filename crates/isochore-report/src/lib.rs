@@ -132,7 +132,21 @@ pub struct ReportInput {
     /// Calorimetric enthalpies compared with the fit's ΔH°(T), shown in a section of their
     /// own ("Calorimetric ΔH°"); empty when none were given.
     pub calorimetric: Vec<isochore_fit::calorimetric::CalorimetricComparison>,
+    /// When asked for (`vhfit fit --calorimetric-in-fit`): the series fitted again with its
+    /// calorimetric values as observations of ΔH°(T) — the fit of ln K alone (as a
+    /// one-series [`GlobalFit`](isochore_fit::global::GlobalFit)) and the fit with the
+    /// values (isochore-analysis' `calorimetric::fit_single_with_calorimetric`) — or why it
+    /// could not be made. Shown in the "Calorimetric ΔH°" section, each parameter "with
+    /// ΔH_cal" beside "ln K alone", and as rows of the results CSV; `None` leaves it out.
+    pub calorimetric_fit: Option<Result<SingleConstrainedFit, String>>,
 }
+
+/// One series' fit of ln K alone and its fit with the calorimetric values as observations
+/// of ΔH°(T), in that order ([`ReportInput::calorimetric_fit`]).
+pub type SingleConstrainedFit = (
+    isochore_fit::global::GlobalFit,
+    isochore_fit::global::CalorimetricJointFit,
+);
 
 /// The output formats.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]

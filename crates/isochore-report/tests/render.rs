@@ -56,6 +56,7 @@ pub(crate) fn input(name: &str) -> ReportInput {
         intervals: vec![],
         errors_in_t: None,
         calorimetric: vec![],
+        calorimetric_fit: None,
     }
 }
 

@@ -378,32 +378,22 @@ fn calorimetric(input: &JointReportInput, b: &mut Vec<Block>) {
 }
 
 /// The joint fit with the calorimetric values as observations of ΔH°(T), when asked for:
-/// each parameter beside the joint fit of ln K alone, or the refusal in words.
+/// each parameter beside the joint fit of ln K alone, or the refusal in words (the single
+/// report's builder, [`crate::calorimetric_section::constrained_blocks`]).
 fn constrained(input: &JointReportInput, b: &mut Vec<Block>) {
     let Some(result) = &input.calorimetric_fit else {
         return;
     };
-    let (e, tu) = (input.energy_unit, input.temperature_unit);
-    b.push(Block::Paragraph(format!(
-        "{}, each parameter beside the joint fit of ln K alone:",
-        sentence(joint::CONSTRAINED_FIT).trim_end_matches('.')
-    )));
-    match result {
-        Ok(c) => {
-            let rows: Vec<Vec<String>> =
-                joint::constrained_rows(c, &input.fit, &input.labels(), e, tu)
-                    .iter()
-                    .map(joint::constrained_cells)
-                    .collect();
-            b.push(Block::Table(Table {
-                header: joint::constrained_header(input.fit.options().level),
-                rows,
-                numeric: vec![false, false, true, true, true, true, false],
-                note: Some(joint::constrained_summary(c)),
-            }));
-        }
-        Err(why) => b.push(Block::Paragraph(format!("Not fitted: {}", sentence(why)))),
-    }
+    let labels = input.labels();
+    b.extend(crate::calorimetric_section::constrained_blocks(
+        &format!(
+            "{}, each parameter beside the joint fit of ln K alone:",
+            sentence(joint::CONSTRAINED_FIT).trim_end_matches('.')
+        ),
+        result.as_ref().map(|c| (c, &input.fit, &labels[..])),
+        input.energy_unit,
+        input.temperature_unit,
+    ));
 }
 
 fn data(input: &JointReportInput, b: &mut Vec<Block>) {

@@ -405,6 +405,11 @@ pub struct ConstrainedRow {
 pub const CONSTRAINED_FIT: &str =
     "joint fit with the calorimetric values as observations of ΔH°(T) (weight 1/u²)";
 
+/// What one series fitted with its calorimetric values is called (the single report, the
+/// text of `vhfit fit --calorimetric-in-fit`).
+pub const SINGLE_CONSTRAINED_FIT: &str =
+    "fit with the calorimetric values as observations of ΔH°(T) (weight 1/u²)";
+
 /// Every parameter of `constrained` (shared ones first under "shared", then each series'
 /// own, in the model's order) beside the same parameter of `fit`, the joint fit of ln K
 /// alone, in display units.
