@@ -360,3 +360,133 @@ fn a_single_series_with_a_heat_capacity_is_fitted_with_its_calorimetric_values()
 fn num(v: &serde_json::Value) -> f64 {
     v.as_f64().unwrap_or_else(|| panic!("not a number: {v}"))
 }
+
+/// `--calorimetric-in-fit --report` (issue 12): the Markdown report's "Calorimetric ΔH°"
+/// section holds the series fitted with its values beside ln K alone, with the same
+/// numbers as the text output (each rounded as shown), χ² and the degrees of freedom in the
+/// same words; the results CSV holds the fit's rows at full precision, against statsmodels
+/// 0.15.0 WLS on the stacked design (single_calorimetric.txt) to 1e-9. Without the option,
+/// the section has no such table; the stderr note that sent readers to the text is gone.
+#[test]
+fn the_single_report_shows_the_fit_with_the_calorimetric_values() {
+    let path = demo("binding_qx7_halo2.csv");
+    let cal = "25C:-40:0.5,35C:-47:0.8";
+    let dir = std::env::temp_dir().join(format!("isochore-cal-report-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&dir);
+    std::fs::create_dir_all(&dir).unwrap();
+    let md = dir.join("with.md");
+    let md_arg = md.to_string_lossy().into_owned();
+    let args = [
+        "fit",
+        &path,
+        "--calorimetric",
+        cal,
+        "--calorimetric-in-fit",
+        "--report",
+        &md_arg,
+    ];
+    let out = run(&args);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    assert!(
+        !String::from_utf8_lossy(&out.stderr).contains("text and JSON output only"),
+        "the old note is gone"
+    );
+    let text = String::from_utf8(out.stdout).unwrap();
+    let block = text
+        .split("fit with the calorimetric values as observations of ΔH°(T)")
+        .nth(1)
+        .unwrap_or_else(|| panic!("no constrained block in\n{text}"));
+    // The Markdown without its escapes.
+    let report = std::fs::read_to_string(&md).unwrap().replace('\\', "");
+    let section = report
+        .split("## Calorimetric ΔH°")
+        .nth(1)
+        .and_then(|s| s.split("\n## ").next())
+        .unwrap_or_else(|| panic!("no calorimetric section in\n{report}"));
+    assert!(
+        section.contains("| parameter | series | with ΔH_cal: value ± SE | 95% CI | ln K alone: value ± SE | 95% CI | unit |"),
+        "{section}"
+    );
+    for symbol in ["ΔH°", "ΔS°"] {
+        let text_row = block
+            .lines()
+            .find(|l| l.trim_start().starts_with(symbol))
+            .unwrap_or_else(|| panic!("no {symbol} row in\n{block}"));
+        let (text_with, text_alone) = text_row.split_once(" | ").expect("two columns");
+        let md_row = section
+            .lines()
+            .find(|l| l.starts_with(&format!("| {symbol} | binding_qx7_halo2 |")))
+            .unwrap_or_else(|| panic!("no {symbol} row in\n{section}"));
+        let cells: Vec<&str> = md_row.split('|').map(str::trim).collect();
+        // cells: "", parameter, series, with, CI, alone, CI, unit, "".
+        let md_with = format!("{} {}", cells[3], cells[4]);
+        let md_alone = format!("{} {}", cells[5], cells[6]);
+        assert_eq!(
+            shown_numbers(&md_with),
+            shown_numbers(text_with),
+            "{md_row}"
+        );
+        assert_eq!(
+            shown_numbers(&md_alone),
+            shown_numbers(text_alone),
+            "{md_row}"
+        );
+        assert!(text_with.trim_end().ends_with(cells[7]), "{text_row}");
+    }
+    // χ² and the degrees of freedom in the same words, χ² to the 4 decimals shown of
+    // single_calorimetric.txt (statsmodels 0.15.0: 98.34556427896956, dof 10).
+    let line = reference("single_calorimetric.txt");
+    let summary = format!(
+        "χ² = {:.4} over 10 ln K points and 2 calorimetric values, {} degrees of freedom.",
+        line("chi2")[0],
+        line("dof")[0]
+    );
+    assert!(block.contains(&summary), "{summary} not in\n{block}");
+    assert!(section.contains(&summary), "{summary} not in\n{section}");
+    assert!(section.contains("pulls ΔH° towards itself"), "{section}");
+
+    // The results CSV: "ΔH° with ΔH_cal" and "ΔS° with ΔH_cal" at full precision (kJ/mol and
+    // J/(mol·K)), χ² and the degrees of freedom.
+    let csv = dir.join("with.csv");
+    let mut csv_args = args.to_vec();
+    let csv_arg = csv.to_string_lossy().into_owned();
+    *csv_args.last_mut().unwrap() = &csv_arg;
+    assert!(run(&csv_args).status.success());
+    let csv = std::fs::read_to_string(&csv).unwrap();
+    let cell = |name: &str, col: usize| -> f64 {
+        let row = csv
+            .lines()
+            .find(|l| l.starts_with(&format!("{name},")))
+            .unwrap_or_else(|| panic!("no {name} in\n{csv}"));
+        row.split(',').nth(col).unwrap().parse().unwrap()
+    };
+    let (params, bse) = (line("params"), line("bse"));
+    let rel = 1e-9; // the project's bar (issue 10), not a reference value
+    assert!(close(cell("ΔH° with ΔH_cal", 1) * 1000.0, params[0], rel));
+    assert!(close(cell("ΔH° with ΔH_cal", 2) * 1000.0, bse[0], rel));
+    assert!(close(cell("ΔS° with ΔH_cal", 1), params[1], rel));
+    assert!(close(cell("ΔS° with ΔH_cal", 2), bse[1], rel));
+    assert!(close(cell("χ² with ΔH_cal", 1), line("chi2")[0], rel));
+    assert_eq!(cell("degrees of freedom with ΔH_cal", 1), line("dof")[0]);
+
+    // Without --calorimetric-in-fit: the comparisons, but no such table.
+    let plain = dir.join("plain.md");
+    let out = run(&[
+        "fit",
+        &path,
+        "--calorimetric",
+        cal,
+        "--report",
+        &plain.to_string_lossy(),
+    ]);
+    assert!(out.status.success());
+    let plain = std::fs::read_to_string(&plain).unwrap().replace('\\', "");
+    assert!(plain.contains("## Calorimetric ΔH°"));
+    assert!(!plain.contains("with ΔH_cal"), "{plain}");
+    assert!(!plain.contains("beside the fit of ln K alone"), "{plain}");
+    let _ = std::fs::remove_dir_all(&dir);
+}
