@@ -16,24 +16,25 @@ use isochore_fit::calorimetric::{CalorimetricComparison, COUPLED_EQUILIBRIA_CAUT
 use isochore_fit::global::{CalorimetricJointFit, GlobalFit};
 use isochore_fit::{EnergyUnit, TemperatureUnit};
 
-/// The blocks of the section; empty without calorimetric values.
+/// The blocks of the section; empty without calorimetric values (neither comparisons nor
+/// the fit with them).
 pub(crate) fn blocks(input: &ReportInput) -> Vec<Block> {
-    if input.calorimetric.is_empty() {
+    if input.calorimetric.is_empty() && input.calorimetric_fit.is_none() {
         return Vec::new();
     }
     let (e, tu) = (input.energy_unit, input.temperature_unit);
-    let mut b = vec![
-        Block::Heading(names::CALORIMETRIC.into()),
-        Block::Paragraph(
+    let mut b = vec![Block::Heading(names::CALORIMETRIC.into())];
+    if !input.calorimetric.is_empty() {
+        b.push(Block::Paragraph(
             "Each calorimetric enthalpy is compared with the van 't Hoff ΔH° of this fit at the same temperature (ΔCp° taken into account where the model has it): d = ΔH_vH(T) − ΔH_cal with SE √(SE_vH² + u²) (the two measurements are independent), z = d/SE and a normal interval; the ratio ΔH_vH/ΔH_cal with Fieller's interval, unbounded when ΔH_cal is not clearly different from zero.".into(),
-        ),
-    ];
-    let items: Vec<(&str, &CalorimetricComparison)> = input
-        .calorimetric
-        .iter()
-        .map(|c| (input.series_name.as_str(), c))
-        .collect();
-    b.extend(comparison_blocks(&items, e, tu, input.fit.options().level));
+        ));
+        let items: Vec<(&str, &CalorimetricComparison)> = input
+            .calorimetric
+            .iter()
+            .map(|c| (input.series_name.as_str(), c))
+            .collect();
+        b.extend(comparison_blocks(&items, e, tu, input.fit.options().level));
+    }
     if let Some(result) = &input.calorimetric_fit {
         let labels = [input.series_name.clone()];
         b.extend(constrained_blocks(

@@ -1,6 +1,7 @@
 //! The one integration-test binary of this package: one module per subject.
 
 mod atomic;
+mod calorimetric;
 mod errors_in_t;
 mod joint;
 mod permissions;
