@@ -371,7 +371,8 @@ fn num(v: &serde_json::Value) -> f64 {
 fn the_single_report_shows_the_fit_with_the_calorimetric_values() {
     let path = demo("binding_qx7_halo2.csv");
     let cal = "25C:-40:0.5,35C:-47:0.8";
-    let dir = std::env::temp_dir().join(format!("isochore-cal-report-{}", std::process::id()));
+    let dir =
+        std::env::temp_dir().join(format!("isochore-cal-in-fit-report-{}", std::process::id()));
     let _ = std::fs::remove_dir_all(&dir);
     std::fs::create_dir_all(&dir).unwrap();
     let md = dir.join("with.md");
