@@ -23,14 +23,13 @@
 //!   the points its own parameters need).
 
 use super::engine::{apply, linear_map_of};
-use super::rng::DrawRng;
+use super::rng::{DrawRng, SigmaScale};
 use super::{
     check_draws, summarise, BootstrapScheme, Draws, IntervalError, IntervalMethod, IntervalOptions,
     IntervalRun, Progress, Quantity, QuantityKind, Resampling, BLOCK,
 };
 use crate::global::{block_system, GlobalFit, SeriesInput};
 use crate::model::SigmaConvention;
-use rand_distr::ChiSquared;
 use rayon::prelude::*;
 use serde::Serialize;
 
@@ -252,14 +251,10 @@ pub fn joint_monte_carlo(
     let s = fit.variance_scale().sqrt();
     let nu = fit.dof() as f64;
     let sigma: Vec<f64> = sys.w.iter().map(|w| 1.0 / w.sqrt()).collect();
-    let chi2 = ChiSquared::new(nu.max(1.0)).map_err(|_| IntervalError::Singular)?;
+    let scale = SigmaScale::new(scaled, s, nu)?;
     let beta = fit.coefficients();
     let values = run_draws(&sys, &beta, &combos, options, progress, |rng, delta| {
-        let factor = if scaled {
-            s * (nu / rng.sample(&chi2)).sqrt()
-        } else {
-            1.0
-        };
+        let factor = scale.draw(rng);
         for (dl, sg) in delta.iter_mut().zip(&sigma) {
             *dl = factor * sg * rng.normal();
         }

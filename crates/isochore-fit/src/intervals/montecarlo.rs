@@ -12,7 +12,7 @@
 
 use super::engine::{apply, linear_map, solve};
 use super::quantities::Evaluator;
-use super::rng::DrawRng;
+use super::rng::{DrawRng, SigmaScale};
 use super::{
     check_draws, design, quantities, summarise, Draws, IntervalError, IntervalMethod,
     IntervalOptions, IntervalRun, Progress, Resampling, RunWithDraws, BLOCK,
@@ -20,7 +20,6 @@ use super::{
 use crate::measurement::Measurement;
 use crate::model::SigmaConvention;
 use crate::vant_hoff::VantHoffFit;
-use rand_distr::ChiSquared;
 use rayon::prelude::*;
 
 /// Monte Carlo intervals for every quantity of [`quantities`] of `fit`, made from `points`
@@ -101,8 +100,7 @@ pub fn monte_carlo_with(
     let s = fit.variance_scale().sqrt();
     let nu = fit.dof() as f64;
     let sigma: Vec<f64> = d.w.iter().map(|w| 1.0 / w.sqrt()).collect();
-    // ν ≥ 1 whenever the scale is estimated (the fit needs n ≥ p + 1 then).
-    let chi2 = ChiSquared::new(nu.max(1.0)).map_err(|_| IntervalError::Singular)?;
+    let scale = SigmaScale::new(scaled, s, nu)?;
     let seed = options.seed;
 
     let mut values = vec![0.0; options.draws * nq];
@@ -116,11 +114,7 @@ pub fn monte_carlo_with(
             for (j, out) in outs.chunks_mut(nq).enumerate() {
                 let i = block * BLOCK + j;
                 let mut rng = DrawRng::new(seed, i as u64);
-                let factor = if scaled {
-                    s * (nu / rng.sample(&chi2)).sqrt()
-                } else {
-                    1.0
-                };
+                let factor = scale.draw(&mut rng);
                 for (dl, sg) in delta.iter_mut().zip(&sigma) {
                     *dl = factor * sg * rng.normal();
                 }

@@ -18,7 +18,7 @@
 //! not Fieller's interval.
 
 use super::quantities::{Evaluator, Quantity, QuantityKind};
-use super::rng::DrawRng;
+use super::rng::{DrawRng, SigmaScale};
 use super::{
     design, summarise, Draws, IntervalError, IntervalMethod, IntervalOptions, IntervalRun,
     Progress, Resampling, RunWithDraws, BLOCK,
@@ -27,7 +27,6 @@ use crate::errors_in_t::{coefficients, ErrorsInTFit};
 use crate::measurement::Measurement;
 use crate::model::SigmaConvention;
 use crate::vant_hoff::{Estimate, VantHoffFit};
-use rand_distr::ChiSquared;
 use rayon::prelude::*;
 
 /// The run of [`super::monte_carlo_with`] when σ(T) is given and the fit with errors in T
@@ -57,7 +56,7 @@ pub(super) fn run(
         1.0
     };
     let sigma: Vec<f64> = d.w.iter().map(|w| 1.0 / w.sqrt()).collect();
-    let chi2 = ChiSquared::new(nu.max(1.0)).map_err(|_| IntervalError::Singular)?;
+    let scale = SigmaScale::new(scaled, s, nu)?;
     let seed = options.seed;
 
     let mut values = vec![0.0; options.draws * nq];
@@ -70,11 +69,7 @@ pub(super) fn run(
             for (j, out) in outs.chunks_mut(nq).enumerate() {
                 let i = block * BLOCK + j;
                 let mut rng = DrawRng::new(seed, i as u64);
-                let factor = if scaled {
-                    s * (nu / rng.sample(&chi2)).sqrt()
-                } else {
-                    1.0
-                };
+                let factor = scale.draw(&mut rng);
                 for k in 0..n {
                     y_star[k] = d.y[k] + factor * sigma[k] * rng.normal();
                 }

@@ -8,9 +8,10 @@
 //! the platform either. Indices and signs are taken from the raw 32-bit words here (Lemire's
 //! unbiased multiply-and-reject), so no third algorithm of another crate is involved.
 
+use super::IntervalError;
 use rand_chacha::ChaCha8Rng;
 use rand_core::{Rng, SeedableRng};
-use rand_distr::{Distribution, StandardNormal};
+use rand_distr::{ChiSquared, Distribution, StandardNormal};
 
 /// The generator of one draw.
 pub(crate) struct DrawRng(ChaCha8Rng);
@@ -55,6 +56,46 @@ impl DrawRng {
             1.0
         } else {
             -1.0
+        }
+    }
+}
+
+/// The factor every σ of one Monte Carlo draw is multiplied by. With σ known it is 1 and
+/// nothing is drawn; with σ as relative weights only (the scale estimated from the
+/// residuals) it is s·√(ν/X), X drawn from χ² with ν degrees of freedom once per draw, so
+/// that the draws carry the scale's own uncertainty (after GUM Supplement 1's treatment of
+/// a standard deviation estimated from ν degrees of freedom; from memory). One rule for the
+/// single-series, the σ(T) and the joint Monte Carlo.
+pub(crate) struct SigmaScale {
+    scaled: bool,
+    s: f64,
+    nu: f64,
+    chi2: ChiSquared<f64>,
+}
+
+impl SigmaScale {
+    /// `scaled`: whether σ are relative weights only; `s`: the fit's residual SD; `nu`: its
+    /// degrees of freedom.
+    ///
+    /// # Errors
+    /// [`IntervalError::Singular`] when χ²(ν) cannot be formed (ν not finite).
+    pub(crate) fn new(scaled: bool, s: f64, nu: f64) -> Result<SigmaScale, IntervalError> {
+        // ν ≥ 1 whenever the scale is estimated (the fit needs n ≥ p + 1 then).
+        let chi2 = ChiSquared::new(nu.max(1.0)).map_err(|_| IntervalError::Singular)?;
+        Ok(SigmaScale {
+            scaled,
+            s,
+            nu,
+            chi2,
+        })
+    }
+
+    /// This draw's factor, read from the draw's own stream (nothing read when σ are known).
+    pub(crate) fn draw(&self, rng: &mut DrawRng) -> f64 {
+        if self.scaled {
+            self.s * (self.nu / rng.sample(&self.chi2)).sqrt()
+        } else {
+            1.0
         }
     }
 }
