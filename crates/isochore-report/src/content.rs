@@ -393,7 +393,7 @@ pub fn build(input: &ReportInput) -> Vec<Block> {
     if !input.intervals.is_empty() {
         // Issue 13: the methods paragraph and the delta method beside the resampled
         // intervals.
-        b.push(Block::Heading("Intervals by resampling".into()));
+        b.push(Block::Heading(names::INTERVALS_BY_RESAMPLING.into()));
         b.push(Block::Paragraph(present::intervals::methods_paragraph(
             fit,
             &input.intervals,

@@ -132,6 +132,9 @@ pub fn bootstrap_scheme(s: isochore_fit::intervals::BootstrapScheme) -> &'static
 /// The setting that chooses what makes the intervals (command line `--intervals`):
 /// "intervals by".
 pub const INTERVALS_BY: &str = "intervals by";
+/// Intervals made by Monte Carlo or the bootstrap, beside the delta method's: the report's
+/// section heading and the window's words when such a run fails.
+pub const INTERVALS_BY_RESAMPLING: &str = "Intervals by resampling";
 /// The number of draws of Monte Carlo or the bootstrap (`--draws`, JSON `intervals.draws`).
 pub const DRAWS: &str = "draws";
 /// The generator's start value (`--seed`, JSON `intervals.seed`): the same value gives the
