@@ -1,6 +1,6 @@
 //! The PDF report: A4 pages laid out like a document (title, headings, wrapped paragraphs,
 //! ruled tables that break across pages with their header repeated, figures at 300 dpi with
-//! captions, a running footer with page numbers), written with printpdf and the bundled
+//! captions (each the pixels of its PNG file, embedded without compressing them again), a running footer with page numbers), written with printpdf and the bundled
 //! DejaVu Sans so every symbol (ΔH°, °C, ⁻¹, ±, χ²) renders.
 //!
 //! The layout engine here is deliberately small: a cursor moving down the page, text
@@ -8,13 +8,15 @@
 
 use crate::content::{Block, Table};
 use crate::document::Document;
-use crate::figures::{svg_to_png, FigureKind, PNG_SCALE};
+use crate::figures::{idat_stream, svg_to_png, FigureKind, IdatStream, PNG_SCALE};
 use crate::fonts::{self, Metrics};
 use crate::{ReportError, ReportInput};
 use printpdf::{
-    Color, FontId, Line, LinePoint, Mm, Op, PaintMode, ParsedFont, PdfDocument, PdfFontHandle,
-    PdfPage, PdfSaveOptions, Point, Pt, RawImage, Rect, Rgb, TextItem, XObjectTransform,
+    Color, DictItem, ExternalStream, ExternalXObject, FontId, Line, LinePoint, Mm, Op, PaintMode,
+    ParsedFont, PdfDocument, PdfFontHandle, PdfPage, PdfSaveOptions, Point, Pt, Px, RawImage, Rect,
+    Rgb, TextItem, XObjectId, XObjectTransform,
 };
+use std::collections::BTreeMap;
 
 const PAGE_W: f32 = 595.28;
 const PAGE_H: f32 = 841.89;
@@ -387,12 +389,11 @@ impl Layout {
 
     fn figure(
         &mut self,
-        image: &FigureImage<'_>,
+        png_of: &FigurePng<'_>,
         kind: FigureKind,
         caption: &str,
     ) -> Result<(), ReportError> {
-        let image = image(kind)?;
-        let (w_px, h_px) = (image.width as f32, image.height as f32);
+        let (id, w_px, h_px) = self.add_png(&png_of(kind)?)?;
         // Fit the available width; at 300 dpi the figure is about 16.7 cm wide.
         let natural_w = w_px / FIGURE_DPI * 72.0;
         let scale = (self.width() / natural_w).min(1.0);
@@ -400,7 +401,6 @@ impl Layout {
         let h = h_px / FIGURE_DPI * 72.0 * scale;
         let caption_lines = self.wrap(caption, self.width(), SMALL, false).len() as f32;
         self.ensure(h + caption_lines * SMALL * 1.38 + 14.0);
-        let id = self.doc.add_image(&image);
         let x = MARGIN_X + (self.width() - w) / 2.0;
         let top = self.y;
         self.ops.push(Op::UseXobject {
@@ -419,46 +419,86 @@ impl Layout {
         self.paragraph(&text, SMALL, false, 0.0, rgb(60, 60, 60));
         Ok(())
     }
+
+    /// Adds a figure's PNG file as an image of the document: an RGB file's compressed
+    /// pixels as they stand ([`image_xobject`]), anything else decoded and handed to
+    /// printpdf. Returns the image and its size in pixels.
+    fn add_png(&mut self, png: &[u8]) -> Result<(XObjectId, f32, f32), ReportError> {
+        Ok(match idat_stream(png) {
+            Some(s) => {
+                let (w, h) = (s.width as f32, s.height as f32);
+                (self.doc.add_xobject(&image_xobject(s)), w, h)
+            }
+            None => {
+                let image = image_of_png(png)?;
+                let (w, h) = (image.width as f32, image.height as f32);
+                (self.doc.add_image(&image), w, h)
+            }
+        })
+    }
+}
+
+/// An image XObject holding a PNG file's IDAT stream: Flate with the PNG predictors
+/// (`/Predictor 15`: each row starts with its PNG filter type), three 8-bit colours per
+/// pixel (ISO 32000-1, 7.4.4.4 and 8.9.5). The pixels are the PNG file's, at its full size.
+fn image_xobject(s: IdatStream) -> ExternalXObject {
+    let name = |n: &str| DictItem::Name(n.as_bytes().to_vec());
+    let int = |i: u32| DictItem::Int(i64::from(i));
+    let parms = BTreeMap::from([
+        ("Predictor".to_string(), DictItem::Int(15)),
+        ("Colors".to_string(), DictItem::Int(3)),
+        ("BitsPerComponent".to_string(), DictItem::Int(8)),
+        ("Columns".to_string(), int(s.width)),
+    ]);
+    let dict = BTreeMap::from([
+        ("Type".to_string(), name("XObject")),
+        ("Subtype".to_string(), name("Image")),
+        ("Width".to_string(), int(s.width)),
+        ("Height".to_string(), int(s.height)),
+        ("ColorSpace".to_string(), name("DeviceRGB")),
+        ("BitsPerComponent".to_string(), DictItem::Int(8)),
+        ("Filter".to_string(), name("FlateDecode")),
+        ("DecodeParms".to_string(), DictItem::Dict { map: parms }),
+    ]);
+    ExternalXObject {
+        stream: ExternalStream {
+            dict,
+            content: s.zlib,
+            compress: false,
+        },
+        width: Some(Px(s.width as usize)),
+        height: Some(Px(s.height as usize)),
+        dpi: Some(FIGURE_DPI),
+    }
 }
 
 pub(crate) fn render(input: &ReportInput) -> Result<Vec<u8>, ReportError> {
     render_document(&Document::of(input))
 }
 
-/// One figure's pixels at [`PNG_SCALE`], as the figure files hold them.
-pub(crate) type FigureImage<'a> = dyn Fn(FigureKind) -> Result<RawImage, ReportError> + 'a;
+/// One figure's PNG file (at [`PNG_SCALE`]), the bytes the figure files hold.
+pub(crate) type FigurePng<'a> = dyn Fn(FigureKind) -> Result<Vec<u8>, ReportError> + 'a;
 
-/// The pixels of a figure's PNG file (RGBA, as decoded from it).
-pub(crate) fn image_of_png(png: &[u8]) -> Result<RawImage, ReportError> {
+/// The pixels of a figure's PNG file (RGBA, as decoded from it), for a file a PDF cannot
+/// embed as it stands.
+fn image_of_png(png: &[u8]) -> Result<RawImage, ReportError> {
     let mut warn = Vec::new();
     RawImage::decode_from_bytes(png, &mut warn).map_err(ReportError::Pdf)
-}
-
-/// The same pixels straight from the rasteriser: the un-premultiplied RGBA that the PNG
-/// file stores and [`image_of_png`] reads back, without encoding and decoding it.
-pub(crate) fn image_of_pixmap(pixmap: &resvg::tiny_skia::Pixmap) -> RawImage {
-    RawImage {
-        width: pixmap.width() as usize,
-        height: pixmap.height() as usize,
-        pixels: printpdf::RawImageData::U8(pixmap.clone().take_demultiplied()),
-        data_format: printpdf::RawImageFormat::RGBA8,
-        tag: Vec::new(),
-    }
 }
 
 /// The PDF of any report's blocks (a single fit's or a joint fit's).
 pub(crate) fn render_document(source: &Document<'_>) -> Result<Vec<u8>, ReportError> {
     render_document_with(source, &|kind| {
-        image_of_png(&svg_to_png(&(source.figure_svg)(kind)?, PNG_SCALE)?)
+        svg_to_png(&(source.figure_svg)(kind)?, PNG_SCALE)
     })
 }
 
-/// The PDF of a document whose figures are the pixels `image` gives: a report set passes
-/// the figures it rasterised for its PNG files (the pixels [`render_document`] gets by
-/// rasterising, encoding and decoding each figure itself).
+/// The PDF of a document whose figures are the PNG files `png_of` gives: a report set
+/// passes the files it encoded once (the bytes [`render_document`] gets by rasterising and
+/// encoding each figure itself), and their compressed pixels go into the PDF as they are.
 pub(crate) fn render_document_with(
     source: &Document<'_>,
-    image: &FigureImage<'_>,
+    png_of: &FigurePng<'_>,
 ) -> Result<Vec<u8>, ReportError> {
     let mut doc = PdfDocument::new(source.title);
     let mut fw = Vec::new();
@@ -520,7 +560,7 @@ pub(crate) fn render_document_with(
             Block::Bullets(items) => l.bullets(&items, ink.clone()),
             Block::Warnings(items) => l.warnings(&items),
             Block::Table(t) => l.table(&t),
-            Block::Figure(kind, caption) => l.figure(image, kind, &caption)?,
+            Block::Figure(kind, caption) => l.figure(png_of, kind, &caption)?,
         }
     }
     l.new_page();

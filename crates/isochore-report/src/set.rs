@@ -1,12 +1,11 @@
 //! Writing a full report set ([`crate::write_report_set`]) with each figure drawn once.
 //!
 //! Written one format at a time, a set draws every figure four times as SVG (the Markdown's
-//! files, the HTML page, the PNG file, the PDF), rasterises and PNG-encodes it twice (the
-//! PNG file and the PDF) and decodes that PNG again for the PDF. Here each figure is drawn
-//! and rasterised once, the four side by side on the machine's cores; then the files are
-//! written side by side: the Markdown's SVG files and the HTML from the same SVG text, each
-//! PNG file encoded from the raster, and the PDF given the raster's pixels (the ones its PNG
-//! would decode to), so the PDF no longer waits for the PNG encoding. Every file is what
+//! files, the HTML page, the PNG file, the PDF) and rasterises and PNG-encodes it twice (the
+//! PNG file and the PDF). Here each figure is drawn, rasterised and encoded once, the four
+//! side by side on the machine's cores; then the files are written side by side: the
+//! Markdown's SVG files and the HTML from the same SVG text, the PNG files, and the PDF,
+//! which embeds each PNG file's compressed pixels as they stand. Every file is what
 //! [`crate::write_report`] writes for its format (tests/report_set.rs).
 
 use crate::document::Document;
@@ -16,14 +15,15 @@ use crate::{ReportError, ReportFormat, ReportInput};
 use rayon::prelude::*;
 use std::path::{Path, PathBuf};
 
-/// One figure, drawn once: its SVG text and its raster at [`PNG_SCALE`].
+/// One figure, drawn once: its SVG text and its PNG file (rasterised at [`PNG_SCALE`] and
+/// encoded once; the raster itself is dropped as soon as it is encoded).
 struct Drawn {
     kind: FigureKind,
     svg: String,
-    raster: resvg::tiny_skia::Pixmap,
+    png: Vec<u8>,
 }
 
-/// The figures of a single fit's report, each drawn and rasterised once.
+/// The figures of a single fit's report, each drawn, rasterised and encoded once.
 struct Figures(Vec<Drawn>);
 
 impl Figures {
@@ -32,8 +32,8 @@ impl Figures {
             .into_par_iter()
             .map(|kind| {
                 let svg = figure_svg(input, kind)?;
-                let raster = rasterise(&svg, PNG_SCALE)?;
-                Ok(Drawn { kind, svg, raster })
+                let png = encode_png(&rasterise(&svg, PNG_SCALE)?)?;
+                Ok(Drawn { kind, svg, png })
             })
             .collect::<Result<Vec<_>, ReportError>>()?;
         Ok(Figures(drawn))
@@ -93,12 +93,12 @@ fn write_one(
         }
         ReportFormat::Html => html::render_document(&figures.document(input))?.into_bytes(),
         ReportFormat::Pdf => pdf::render_document_with(&figures.document(input), &|kind| {
-            Ok(pdf::image_of_pixmap(&figures.get(kind)?.raster))
+            Ok(figures.get(kind)?.png.clone())
         })?,
         ReportFormat::DataCsv => csv_tables::data_csv(input)?,
         ReportFormat::ResultsCsv => csv_tables::results_csv(input)?,
         ReportFormat::FigureSvg(kind) => figures.get(kind)?.svg.clone().into_bytes(),
-        ReportFormat::FigurePng(kind) => encode_png(&figures.get(kind)?.raster)?,
+        ReportFormat::FigurePng(kind) => figures.get(kind)?.png.clone(),
     };
     write_atomic(path, &bytes)?;
     Ok(vec![path.to_path_buf()])

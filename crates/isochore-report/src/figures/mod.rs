@@ -262,15 +262,6 @@ pub fn svg_to_png(svg: &str, scale: f32) -> Result<Vec<u8>, ReportError> {
     encode_png(&rasterise(svg, scale)?)
 }
 
-/// Encodes a rasterised figure as [`svg_to_png`] does (tagged [`PNG_DPI`]).
-///
-/// # Errors
-/// [`ReportError::Figure`] when encoding fails.
-pub(crate) fn encode_png(pixmap: &resvg::tiny_skia::Pixmap) -> Result<Vec<u8>, ReportError> {
-    let png = pixmap.encode_png().map_err(fe)?;
-    Ok(with_dpi(png, PNG_DPI))
-}
-
 /// Rasterises an SVG document with the bundled fonts at `scale`, on white (the pixels
 /// [`svg_to_png`] encodes).
 ///
@@ -296,32 +287,6 @@ pub(crate) fn rasterise(svg: &str, scale: f32) -> Result<resvg::tiny_skia::Pixma
         &mut pixmap.as_mut(),
     );
     Ok(pixmap)
-}
-
-/// Inserts a pHYs chunk (physical pixel size) after IHDR so viewers and word processors
-/// place the figure at its intended size.
-fn with_dpi(png: Vec<u8>, dpi: f64) -> Vec<u8> {
-    // PNG layout: 8-byte signature, then IHDR chunk of 4 + 4 + 13 + 4 bytes.
-    const IHDR_END: usize = 8 + 25;
-    if png.len() < IHDR_END || &png[12..16] != b"IHDR" {
-        return png;
-    }
-    let ppm = (dpi / 0.0254).round() as u32;
-    let mut chunk = Vec::with_capacity(21);
-    chunk.extend_from_slice(&9u32.to_be_bytes());
-    let mut body = Vec::with_capacity(13);
-    body.extend_from_slice(b"pHYs");
-    body.extend_from_slice(&ppm.to_be_bytes());
-    body.extend_from_slice(&ppm.to_be_bytes());
-    body.push(1); // unit: metre
-    chunk.extend_from_slice(&body);
-    // CRC-32 of ISO 3309, as the PNG specification prescribes for every chunk.
-    chunk.extend_from_slice(&crc32fast::hash(&body).to_be_bytes());
-    let mut out = Vec::with_capacity(png.len() + chunk.len());
-    out.extend_from_slice(&png[..IHDR_END]);
-    out.extend_from_slice(&chunk);
-    out.extend_from_slice(&png[IHDR_END..]);
-    out
 }
 
 fn finite_range(values: impl Iterator<Item = f64>) -> Option<(f64, f64)> {
@@ -526,6 +491,9 @@ fn no_data(root: &Area, what: &str) -> Result<(), ReportError> {
 mod joint;
 mod marks;
 mod plots;
+mod png_file;
+
+pub(crate) use png_file::{encode_png, idat_stream, IdatStream};
 
 pub(crate) use joint::joint_figure_svg;
 
@@ -565,13 +533,6 @@ mod tests {
         let ext = envelope_extremes(&pts[..10_000]);
         assert!(ext.len() <= 2 * ENVELOPE_COLUMNS);
         assert!(ext.contains(&pts[1234]) && ext.contains(&pts[8765]));
-    }
-
-    #[test]
-    fn crc_matches_the_png_check_value() {
-        // CRC-32 check value of "123456789" is 0xCBF43926 (ISO 3309 / PNG specification):
-        // the crate computes the CRC variant the pHYs chunk needs.
-        assert_eq!(crc32fast::hash(b"123456789"), 0xCBF4_3926);
     }
 
     #[test]
