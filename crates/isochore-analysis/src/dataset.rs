@@ -6,15 +6,17 @@
 //! command line and the window both build theirs here.
 
 use crate::files::is_project_file;
+use crate::origins::Origins;
 use crate::rows::RowNumber;
 use crate::weighting;
 use isochore_data::{
-    ColumnChoice, DecimalMark, Import, ImportOptions, Project, RejectedRow, Replicates,
+    ColumnChoice, DecimalMark, Import, ImportOptions, Project, RejectedRow, Replicates, Row,
 };
 use isochore_fit::{
     EnergyUnit, FitOptions, Measurement, Model, QuantityKind, SigmaConvention, TemperatureUnit,
     Weighting,
 };
+use std::borrow::Cow;
 use std::collections::BTreeMap;
 use std::fmt;
 use std::path::Path;
@@ -22,19 +24,6 @@ use std::path::Path;
 /// The note given when replicates were averaged.
 pub const REPLICATES_NOTE: &str =
     "replicates were averaged as the project asks; each point is named by its first row";
-
-/// Where one point of a data set came from.
-#[derive(Debug, Clone, PartialEq)]
-pub struct PointOrigin {
-    /// The data row that names the point (the first of averaged replicates).
-    pub row: RowNumber,
-    /// Physical 1-based line of that row in its file (0 when unknown).
-    pub line: usize,
-    /// The row's cells as typed (empty unless asked for: they cost memory on huge files).
-    pub cells: Vec<String>,
-    /// Why the point is left out, when it is and a reason was given.
-    pub exclusion_reason: Option<String>,
-}
 
 /// One data set prepared for a fit, derived from an [`isochore_data::DataSet`] (the data
 /// set itself, as read and saved) and the caller's [`Overrides`].
@@ -54,8 +43,9 @@ pub struct PreparedSet {
     pub conversions: Vec<String>,
     /// The points for the fit, in row order.
     pub measurements: Vec<Measurement>,
-    /// Where each point came from (same order and count as `measurements`).
-    pub rows: Vec<PointOrigin>,
+    /// Where each point came from (same order and count as `measurements`), kept compact:
+    /// [`Origins::iter`] and [`Origins::get`] give each point's [`PointOrigin`].
+    pub rows: Origins,
     /// The fit options: the file's settings, the caller's overrides and the weighting rule.
     pub options: FitOptions,
     /// Energy unit for people.
@@ -386,7 +376,11 @@ fn load_text(path: &Path, o: &Overrides) -> Result<Vec<PreparedSet>, LoadError> 
             s.exclude(r.get(), &o.exclude.reason, &o.exclude.at)
                 .map_err(data_error)?;
         }
-        let mut set = PreparedSet::prepare(&s, &source, o, weighed)?;
+        // The reader's rows become the points in place (see `PreparedSet::prepare`): the
+        // data set is not needed afterwards.
+        let taken = (s.settings.replicates == Replicates::Keep && !s.has_cells())
+            .then(|| s.take_read_rows());
+        let mut set = PreparedSet::prepare(&s, &source, o, weighed, taken)?;
         // A file states its temperature unit; show results in it.
         set.temperature = temperature_unit;
         // Skipped rows first, then what every data set says (unused columns, replicates,
@@ -461,15 +455,18 @@ impl PreparedSet {
             error: Box::new(error),
         };
         let weighed = weighting::for_data_set(s, o.apply(s.settings.fit)).map_err(data_error)?;
-        PreparedSet::prepare(s, source, o, weighed)
+        PreparedSet::prepare(s, source, o, weighed, None)
     }
 
-    /// The prepared set of a data set whose weighting is decided.
+    /// The prepared set of a data set whose weighting is decided. `taken`: the data set's
+    /// converted rows, taken out of it by the caller (then turned into the points in the
+    /// same memory; with replicates kept only).
     fn prepare(
         s: &isochore_data::DataSet,
         source: &str,
         o: &Overrides,
         weighed: weighting::Weighed,
+        taken: Option<Vec<Row>>,
     ) -> Result<PreparedSet, LoadError> {
         let data_error = |error| LoadError::Data {
             source: source.to_string(),
@@ -480,16 +477,17 @@ impl PreparedSet {
             .iter()
             .map(|e| (e.row, e.reason.as_str()))
             .collect();
-        let origin = |first_row: usize, rows: &[usize], included: bool| {
+        let mut origins = Origins::new();
+        let mut origin = |first_row: usize, line: usize, rows: &[usize], included: bool| {
             let row = RowNumber::from_index(first_row.saturating_sub(1));
-            PointOrigin {
+            origins.push(
                 row,
-                line: s.line(row.get()).unwrap_or(0),
-                cells: match (o.with_cells, s.raw_rows().get(row.index())) {
+                line,
+                match (o.with_cells, s.raw_rows().get(row.index())) {
                     (true, Some(r)) => r.cells.clone(),
                     _ => Vec::new(),
                 },
-                exclusion_reason: if included {
+                if included {
                     None
                 } else {
                     rows.iter()
@@ -497,39 +495,48 @@ impl PreparedSet {
                         .filter(|r| !r.is_empty())
                         .map(str::to_string)
                 },
-            }
+            );
         };
         let mut averaged = false;
-        let (measurements, origins) = if s.settings.replicates == Replicates::Keep {
+        let measurements = if s.settings.replicates == Replicates::Keep {
             // One point per row, as `DataSet::points` makes them, built straight from the
             // converted rows: no list of rows per point (a 10⁶-row file made a million small
-            // allocations here).
-            let rows = s.converted().map_err(data_error)?;
+            // allocations here), and rows the data set no longer needs become the points in
+            // their own memory (a row and a measurement both take 40 bytes, and std's
+            // `collect` of a mapped `Vec::into_iter` reuses the buffer), so a 10⁶-row file's
+            // rows are not held beside its points.
+            let rows = match taken {
+                Some(rows) => Cow::Owned(rows),
+                None => s.converted().map_err(data_error)?,
+            };
             let excluded = s.excluded_rows();
-            let mut measurements = Vec::with_capacity(rows.len());
-            let mut origins = Vec::with_capacity(rows.len());
-            for r in rows.iter() {
+            let mut point = |r: &Row| {
                 let included = excluded.binary_search(&r.row()).is_err();
-                measurements.push(Measurement {
+                origin(r.row(), r.line(), &[r.row()], included);
+                Measurement {
                     t_k: r.t_k,
                     ln_k: r.ln_k,
                     sigma_ln_k: r.sigma_ln_k(),
                     included,
-                });
-                origins.push(origin(r.row(), &[r.row()], included));
+                }
+            };
+            match rows {
+                Cow::Owned(rows) => rows.into_iter().map(|r| point(&r)).collect(),
+                Cow::Borrowed(rows) => rows.iter().map(point).collect(),
             }
-            (measurements, origins)
         } else {
             let points = s.points().map_err(data_error)?;
             let mut measurements = Vec::with_capacity(points.len());
-            let mut origins = Vec::with_capacity(points.len());
             for p in &points {
                 averaged |= p.rows.len() > 1;
                 measurements.push(p.measurement);
                 let first = p.rows.first().copied().unwrap_or(0);
-                origins.push(origin(first, &p.rows, p.measurement.included));
+                let line = s
+                    .line(RowNumber::from_index(first.saturating_sub(1)).get())
+                    .unwrap_or(0);
+                origin(first, line, &p.rows, p.measurement.included);
             }
-            (measurements, origins)
+            measurements
         };
         let mut set = PreparedSet {
             source: source.to_string(),

@@ -36,16 +36,16 @@ pub mod intervals;
 pub mod joint;
 pub mod joint_intervals;
 pub mod json;
+pub mod origins;
 pub mod pair;
 pub mod report;
 pub mod rows;
 pub mod weighting;
 
 pub use columns::unused_columns_note;
-pub use dataset::{
-    load, Exclusions, FitFailure, LoadError, Overrides, PointOrigin, PreparedSet, Remedy,
-};
+pub use dataset::{load, Exclusions, FitFailure, LoadError, Overrides, PreparedSet, Remedy};
 pub use files::{is_project_file, ReportStems, PROJECT_SUFFIX};
+pub use origins::{Origins, PointOrigin};
 pub use pair::KUncertainty;
 pub use report::{joint_report_input, joint_report_title, report_input, report_title, VERSION};
 pub use rows::RowNumber;

@@ -82,12 +82,12 @@ fn report_rows(set: &PreparedSet) -> Vec<ReportRow> {
         .map(|(o, m)| ReportRow {
             row: o.row.get(),
             line: o.line,
-            cells: o.cells.clone(),
+            cells: o.cells.to_vec(),
             t_k: m.t_k,
             ln_k: m.ln_k,
             sigma_ln_k: m.sigma_ln_k,
             included: m.included,
-            exclusion_reason: o.exclusion_reason.clone(),
+            exclusion_reason: o.exclusion_reason.map(str::to_string),
         })
         .collect()
 }

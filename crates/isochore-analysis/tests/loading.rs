@@ -24,14 +24,14 @@ fn rows_are_numbered_from_one_with_their_lines_cells_and_reasons() {
     let rows: Vec<usize> = set.rows.iter().map(|o| o.row.get()).collect();
     assert_eq!(rows, [1, 2, 3, 4]);
     // Line 1 is the comment, line 2 the header: data row 1 is line 3.
-    assert_eq!(set.rows[0].line, 3);
-    assert_eq!(set.rows[0].cells, ["278.15", "7.62", "0.01"]);
+    assert_eq!(set.rows.get(0).unwrap().line, 3);
+    assert_eq!(set.rows.get(0).unwrap().cells, ["278.15", "7.62", "0.01"]);
     assert!(!set.measurements[1].included);
     assert_eq!(
-        set.rows[1].exclusion_reason.as_deref(),
+        set.rows.get(1).unwrap().exclusion_reason,
         Some("bubble in the cell")
     );
-    assert_eq!(set.rows[0].exclusion_reason, None);
+    assert_eq!(set.rows.get(0).unwrap().exclusion_reason, None);
     assert_eq!(set.measurements.len(), set.rows.len());
 }
 
@@ -84,8 +84,11 @@ fn a_project_file_is_read_with_its_exclusions_and_overrides() {
     assert_eq!(set.options.model, Model::CONSTANT_CP);
     assert_eq!(set.options.weighting, Weighting::InverseVariance);
     assert!(!set.measurements[2].included);
-    assert_eq!(set.rows[2].row, RowNumber::new(3).unwrap());
-    assert_eq!(set.rows[2].exclusion_reason.as_deref(), Some("leaky seal"));
+    assert_eq!(set.rows.get(2).unwrap().row, RowNumber::new(3).unwrap());
+    assert_eq!(
+        set.rows.get(2).unwrap().exclusion_reason,
+        Some("leaky seal")
+    );
     assert_eq!(
         set.settings[0],
         ("project file".to_string(), path.display().to_string())
@@ -132,9 +135,9 @@ fn a_file_and_the_project_built_from_it_load_the_same() {
     assert_eq!(a.conversions, b.conversions);
     assert!(!a.measurements[1].included);
     assert_eq!(
-        a.rows[1].exclusion_reason.as_deref(),
+        a.rows.get(1).unwrap().exclusion_reason,
         Some("bubble in the cell")
     );
     // Line 1 is the comment, line 2 the header: data row 1 is line 3.
-    assert_eq!(a.rows[0].line, 3);
+    assert_eq!(a.rows.get(0).unwrap().line, 3);
 }

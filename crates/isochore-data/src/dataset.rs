@@ -186,6 +186,16 @@ impl DataSet {
         self.read_notes = Vec::new();
     }
 
+    /// Takes the reader's converted rows out of the data set, leaving it with no rows at all
+    /// (its notes go too); empty for a data set that holds its cells. For a caller that
+    /// turns the rows into something else in their own memory and needs the data set no
+    /// more (isochore-analysis' prepared set: a 10⁶-row file's 40 MB of rows are then not
+    /// held beside its points).
+    pub fn take_read_rows(&mut self) -> Vec<Row> {
+        self.read_notes = Vec::new();
+        std::mem::take(&mut self.read)
+    }
+
     /// Whether the data set holds its cells as typed (a project's or the window's), rather
     /// than only the reader's converted rows (a fresh import's).
     pub fn has_cells(&self) -> bool {
