@@ -9,14 +9,15 @@
 use crate::content::{Block, Table};
 use crate::document::Document;
 use crate::figures::{idat_stream, svg_to_png, FigureKind, IdatStream, PNG_SCALE};
-use crate::fonts::{self, Metrics};
+use crate::fonts::Metrics;
+use crate::pdf_fonts;
 use crate::{ReportError, ReportInput};
 use printpdf::{
     Color, DictItem, ExternalStream, ExternalXObject, FontId, Line, LinePoint, Mm, Op, PaintMode,
-    ParsedFont, PdfDocument, PdfFontHandle, PdfPage, PdfSaveOptions, Point, Pt, Px, RawImage, Rect,
+    PdfDocument, PdfFont, PdfFontHandle, PdfPage, PdfSaveOptions, Point, Pt, Px, RawImage, Rect,
     Rgb, TextItem, XObjectId, XObjectTransform,
 };
-use std::collections::BTreeMap;
+use std::collections::{BTreeMap, BTreeSet};
 
 const PAGE_W: f32 = 595.28;
 const PAGE_H: f32 = 841.89;
@@ -46,6 +47,8 @@ struct Layout {
     doc: PdfDocument,
     regular: FontId,
     bold: FontId,
+    /// The characters shown in the regular and the bold font, for subsetting them.
+    used: [BTreeSet<char>; 2],
     m_regular: Metrics,
     m_bold: Metrics,
     pages: Vec<Vec<Op>>,
@@ -83,6 +86,7 @@ impl Layout {
     fn text(&mut self, x: f32, top: f32, s: &str, size: f32, bold: bool, color: Color) {
         let baseline = PAGE_H - top - size * 0.82;
         let font = if bold { &self.bold } else { &self.regular };
+        self.used[usize::from(bold)].extend(s.chars());
         self.ops.extend([
             Op::SaveGraphicsState,
             Op::SetFillColor { col: color },
@@ -500,14 +504,9 @@ pub(crate) fn render_document_with(
     source: &Document<'_>,
     png_of: &FigurePng<'_>,
 ) -> Result<Vec<u8>, ReportError> {
-    let mut doc = PdfDocument::new(source.title);
-    let mut fw = Vec::new();
-    let regular = ParsedFont::from_bytes(fonts::REGULAR, 0, &mut fw)
-        .ok_or_else(|| ReportError::Pdf("the bundled regular font could not be parsed".into()))?;
-    let bold = ParsedFont::from_bytes(fonts::BOLD, 0, &mut fw)
-        .ok_or_else(|| ReportError::Pdf("the bundled bold font could not be parsed".into()))?;
-    let regular = doc.add_font(&regular);
-    let bold = doc.add_font(&bold);
+    let doc = PdfDocument::new(source.title);
+    // The fonts are added once the text is known, cut down to the glyphs it uses.
+    let (regular, bold) = (FontId::new(), FontId::new());
     let (Some(m_regular), Some(m_bold)) = (Metrics::new(false), Metrics::new(true)) else {
         return Err(ReportError::Pdf(
             "the bundled font metrics could not be read".into(),
@@ -517,6 +516,7 @@ pub(crate) fn render_document_with(
         doc,
         regular,
         bold,
+        used: [BTreeSet::new(), BTreeSet::new()],
         m_regular,
         m_bold,
         pages: Vec::new(),
@@ -600,6 +600,10 @@ pub(crate) fn render_document_with(
         );
         let ops = std::mem::take(&mut l.ops);
         pages.push(PdfPage::new(Mm(210.0), Mm(297.0), ops));
+    }
+    for (id, bold) in [(l.regular.clone(), false), (l.bold.clone(), true)] {
+        let font = pdf_fonts::embedded(bold, &l.used[usize::from(bold)])?;
+        l.doc.resources.fonts.map.insert(id, PdfFont::new(font));
     }
     let mut warnings = Vec::new();
     let bytes = l.doc.with_pages(pages).save(
