@@ -9,7 +9,7 @@
 //! [`crate::write_report`] writes for its format (tests/report_set.rs).
 
 use crate::document::Document;
-use crate::figures::{encode_png, figure_svg, rasterise, FigureKind, PNG_SCALE};
+use crate::figures::{encode_png, figure_svg, rasterise_into, FigureKind, PNG_SCALE};
 use crate::{csv_tables, html, markdown, pdf, report_paths, write_atomic};
 use crate::{ReportError, ReportFormat, ReportInput};
 use rayon::prelude::*;
@@ -28,15 +28,28 @@ struct Figures(Vec<Drawn>);
 
 impl Figures {
     fn draw(input: &ReportInput) -> Result<Figures, ReportError> {
-        let drawn = FigureKind::ALL
-            .into_par_iter()
-            .map(|kind| {
-                let svg = figure_svg(input, kind)?;
-                let png = encode_png(&rasterise(&svg, PNG_SCALE)?)?;
-                Ok(Drawn { kind, svg, png })
+        // As many runs as the pool has threads, each drawing its figures in turn into one
+        // raster (all four are the same size), so only that many rasters are allocated.
+        let per_run = FigureKind::ALL
+            .len()
+            .div_ceil(rayon::current_num_threads().max(1));
+        let runs = FigureKind::ALL
+            .par_chunks(per_run)
+            .map(|kinds| {
+                let mut spare = None;
+                kinds
+                    .iter()
+                    .map(|&kind| {
+                        let svg = figure_svg(input, kind)?;
+                        let raster = rasterise_into(&svg, PNG_SCALE, spare.take())?;
+                        let png = encode_png(&raster)?;
+                        spare = Some(raster);
+                        Ok(Drawn { kind, svg, png })
+                    })
+                    .collect::<Result<Vec<_>, ReportError>>()
             })
             .collect::<Result<Vec<_>, ReportError>>()?;
-        Ok(Figures(drawn))
+        Ok(Figures(runs.into_iter().flatten().collect()))
     }
 
     fn get(&self, kind: FigureKind) -> Result<&Drawn, ReportError> {
