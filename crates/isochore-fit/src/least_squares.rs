@@ -16,9 +16,11 @@ use crate::error::Error;
 use nalgebra::{DMatrix, DVector};
 
 mod formed;
+mod streamed;
 
 use formed::column_scale;
 pub(crate) use formed::weighted_rss_formed;
+pub(crate) use streamed::weighted_rss_streamed;
 
 /// Relative size of a diagonal element of R, against the largest, below which the design
 /// is declared rank deficient (the floor of [`rank_tolerance`]). Column scaling makes the

@@ -60,8 +60,10 @@ impl ModelSpec for ClarkeGlew {
         out.copy_from_slice(&[0.0, 0.0, 1.0, t_k - theta]);
     }
     fn row(&self, t_k: f64, theta: f64, out: &mut [f64]) {
+        self.row_with_log(t_k, theta, (t_k / theta).ln(), out)
+    }
+    fn row_with_log(&self, t_k: f64, theta: f64, l: f64, out: &mut [f64]) {
         let r = GAS_CONSTANT;
-        let l = (t_k / theta).ln();
         out[0] = -1.0 / (r * t_k);
         out[1] = 1.0 / r;
         out[2] = (theta / t_k - 1.0 + l) / r;

@@ -55,10 +55,13 @@ impl ModelSpec for ConstantCp {
         out.copy_from_slice(&[0.0, 0.0, 1.0]);
     }
     fn row(&self, t_k: f64, theta: f64, out: &mut [f64]) {
+        self.row_with_log(t_k, theta, (t_k / theta).ln(), out)
+    }
+    fn row_with_log(&self, t_k: f64, theta: f64, l: f64, out: &mut [f64]) {
         let r = GAS_CONSTANT;
         out[0] = -1.0 / (r * t_k);
         out[1] = 1.0 / r;
-        out[2] = (theta / t_k - 1.0 + (t_k / theta).ln()) / r;
+        out[2] = (theta / t_k - 1.0 + l) / r;
     }
     fn streams(&self) -> bool {
         true

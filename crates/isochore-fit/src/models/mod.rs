@@ -139,6 +139,13 @@ pub trait ModelSpec: Send + Sync + 'static {
             out[j] = -h[j] / (GAS_CONSTANT * t_k) + s[j] / GAS_CONSTANT;
         }
     }
+    /// [`ModelSpec::row`] with ln(T/θ) given (`ln_t_theta`, computed by the caller as
+    /// `(t_k / theta).ln()`), so a solver that forms the same row many times takes the
+    /// logarithm once. The default ignores it and calls [`ModelSpec::row`]; a model whose
+    /// row uses ln(T/θ) writes its row here, so both give the same bits.
+    fn row_with_log(&self, t_k: f64, theta: f64, _ln_t_theta: f64, out: &mut [f64]) {
+        self.row(t_k, theta, out)
+    }
     /// The temperature where ln K = `ln_k`, in closed form where the model has one;
     /// `None` lets the caller search numerically. `Some(None)` says there is no root.
     fn solve_ln_k(&self, _beta: &[f64], _theta: f64, _ln_k: f64) -> Option<Option<f64>> {
@@ -249,6 +256,10 @@ impl Model {
     /// Writes the ln K design row at `t_k` into `out` (length [`Model::n_params`]).
     pub fn row_into(self, t_k: f64, theta: f64, out: &mut [f64]) {
         self.0.row(t_k, theta, out)
+    }
+    /// See [`ModelSpec::row_with_log`]: the row with ln(T/θ) = `(t_k / theta).ln()` given.
+    pub fn row_with_log_into(self, t_k: f64, theta: f64, ln_t_theta: f64, out: &mut [f64]) {
+        self.0.row_with_log(t_k, theta, ln_t_theta, out)
     }
     /// The ln K design row as a vector.
     pub fn row(self, t_k: f64, theta: f64) -> Vec<f64> {

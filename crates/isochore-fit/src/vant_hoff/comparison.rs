@@ -6,12 +6,12 @@
 //! [`compare_models`] runs it on its own, and [`super::fit`] runs it with the χ² its engine
 //! already has.
 
-use super::inputs::prepare;
+use super::inputs::{check_inputs, prepare};
 use super::statistics::{statistics, WeightSums};
 use crate::error::Error;
-use crate::least_squares::weighted_rss_formed;
+use crate::least_squares::{weighted_rss_formed, weighted_rss_streamed};
 use crate::measurement::Measurement;
-use crate::model::{FitOptions, Model, SigmaConvention};
+use crate::model::{FitOptions, Model, SigmaConvention, Weighting};
 use crate::stats::{chi2_upper_tail, f_upper_tail};
 use serde::Serialize;
 
@@ -79,6 +79,9 @@ pub struct ModelComparison {
     pub steps: Vec<ComparisonStep>,
 }
 
+/// From this many points on, the lean [`chi2_on_points`] streams the solver over the points.
+pub(super) const STREAMED_CHI2_POINTS: usize = 20_000;
+
 /// Compares the models of the fitted model's ladder on the same included points with the
 /// same weights: an F-test for each added term and the difference in AICc.
 ///
@@ -111,16 +114,28 @@ pub fn compare_models(
     }
     let prepared = prepare(points, options, root)?;
     let sums = WeightSums::new(prepared.weights.as_deref(), &prepared.y);
-    let chi2 = |m: Model| chi2_on_points(points, options, m);
+    let chi2 = |m: Model| chi2_on_points(points, options, m, true);
     Ok(ladder_comparison(&ladder, &sums, options, chi2))
 }
 
 /// χ² of `model` on the included points with the options' weights, by the general solver.
+/// `lean`: on a large data set (at least [`STREAMED_CHI2_POINTS`] points) the solver's
+/// arithmetic is streamed over the points ([`weighted_rss_streamed`]: the same bits, with
+/// ln(T/θ), r and f per point in memory instead of the design, its factorised copy and six
+/// vectors, 24 MB instead of 80 MB at 10⁶ points), at about twice the time.
 pub(super) fn chi2_on_points(
     points: &[Measurement],
     options: &FitOptions,
     model: Model,
+    lean: bool,
 ) -> Result<f64, Error> {
+    if lean && points.len() >= STREAMED_CHI2_POINTS {
+        check_inputs(points, options, model)?;
+        let weighted = options.weighting == Weighting::InverseVariance;
+        if let Some(chi2) = weighted_rss_streamed(model, options.t_ref_k, points, weighted) {
+            return Ok(chi2);
+        }
+    }
     let prepared = prepare(points, options, model)?;
     // The used temperatures only: the design's rows are formed from them when needed (a
     // 10⁶-point Clarke–Glew design is 32 MB, and the general solver keeps its own copy).

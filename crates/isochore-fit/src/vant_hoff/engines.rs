@@ -170,7 +170,7 @@ impl SolvedFit for FastFit {
                 needed: other.n_params() + 1,
             })
         } else {
-            chi2_on_points(points, options, other)
+            chi2_on_points(points, options, other, false)
         }
     }
 }
@@ -226,6 +226,6 @@ impl SolvedFit for General {
         options: &FitOptions,
         other: Model,
     ) -> Result<f64, Error> {
-        chi2_on_points(points, options, other)
+        chi2_on_points(points, options, other, false)
     }
 }

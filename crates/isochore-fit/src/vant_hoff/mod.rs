@@ -108,7 +108,7 @@ fn fit_threads(
                     .ladder()
                     .into_iter()
                     .filter(|&m| m != model && !(model.streams() && m.streams()))
-                    .map(|m| (m, chi2_on_points(points, options, m)))
+                    .map(|m| (m, chi2_on_points(points, options, m, false)))
                     .collect::<Vec<_>>()
             })
         });

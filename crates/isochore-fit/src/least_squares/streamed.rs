@@ -1,0 +1,514 @@
+//! The general solver's χ² of a model on the caller's points with no n × p matrix: one
+//! number per point (ln(T/θ)), three when the solution is refined: [`weighted_rss_streamed`] gives the same bits as
+//! [`super::weighted_rss_formed`] (nalgebra's Householder QR of the √w-scaled,
+//! column-equilibrated design) by doing nalgebra's arithmetic in nalgebra's order, one pass
+//! over the points per sum.
+//!
+//! After k reflections a row's entries are a function of its own original entries (formed
+//! again from its temperature, ln(T/θ) and σ) and a few numbers per reflection: the column's
+//! signed norm, the two divisors that normalise the axis, the sign and one factor per later
+//! column. Only the sums need the whole column, and they are taken as nalgebra takes them
+//! (`Matrix::dotx`: eight partial sums over the leading multiple of eight rows of the view,
+//! combined in pairs, then the remaining rows in order; see [`Lanes`]). For each column:
+//! one pass for its squared norm, one for the norm of the unscaled axis, one for the dot
+//! products with the later columns and with √w·y (nalgebra's `q_tr_mul` applies the same
+//! reflections to it, so it is one more column). Then one pass for the residuals and χ².
+//! Refinement (most large data sets ask for it) is `refined_solution`'s, step by step, with
+//! its two vectors r and f kept: one pass for f = b − r − Ax and g = −Aᵀr, and one pass per
+//! reflection for Qᵀf, f being one more column.
+//!
+//! Anything out of the ordinary (a zero or non-finite column, rank deficiency) returns
+//! `None`, and the caller takes the stored-matrix path, which reports the error.
+
+// Slots of a row and entries of the triangle are clearest indexed.
+#![allow(clippy::needless_range_loop)]
+
+use super::{
+    dot2, power_of_two_near, qr_error_bound, rank_tolerance, refinement_needed, two_prod, two_sum,
+    MAX_REFINEMENT_STEPS,
+};
+use crate::measurement::Measurement;
+use crate::model::Model;
+use nalgebra::{DMatrix, DVector};
+
+/// Most design columns of a streamed χ².
+pub(crate) const MAX_STREAMED_COLUMNS: usize = 4;
+
+/// The columns, √w·y (after the last column) and the refinement's f (reflected as
+/// `q_tr_mul` reflects it, in the last slot, [`F`]).
+const SLOTS: usize = MAX_STREAMED_COLUMNS + 2;
+
+/// The slot of the refinement's f.
+const F: usize = SLOTS - 1;
+
+/// One of nalgebra's dot products (`Matrix::dotx` on a dynamic column), fed a term at a
+/// time in row order: eight partial sums over the leading multiple of eight rows, combined
+/// as (0 + 4), (1 + 5), (2 + 6), (3 + 7) into a sum from zero, then the rest added in order.
+struct Lanes {
+    acc: [f64; 8],
+    full: usize,
+    res: f64,
+    combined: bool,
+}
+
+impl Lanes {
+    /// A sum over a view of `len` rows.
+    fn new(len: usize) -> Lanes {
+        Lanes {
+            acc: [0.0; 8],
+            full: len / 8 * 8,
+            res: 0.0,
+            combined: false,
+        }
+    }
+
+    /// Adds the term of the view's row `rel`; rows come in order.
+    #[inline(always)]
+    fn push(&mut self, rel: usize, v: f64) {
+        if rel < self.full {
+            self.acc[rel % 8] += v;
+        } else {
+            if !self.combined {
+                self.combine();
+            }
+            self.res += v;
+        }
+    }
+
+    fn combine(&mut self) {
+        let a = self.acc;
+        let mut res = 0.0;
+        res += a[0] + a[4];
+        res += a[1] + a[5];
+        res += a[2] + a[6];
+        res += a[3] + a[7];
+        self.res = res;
+        self.combined = true;
+    }
+
+    fn total(mut self) -> f64 {
+        if !self.combined {
+            self.combine();
+        }
+        self.res
+    }
+}
+
+/// One Householder reflection as nalgebra makes it (`reflection_axis_mut`,
+/// `Reflection::reflect_with_sign`).
+#[derive(Debug, Clone, Copy, Default)]
+struct Reflection {
+    /// Added to the first entry of the column before it is scaled into the axis.
+    signed_norm: f64,
+    /// The axis is (entry / `sf`) / `nrm`.
+    sf: f64,
+    nrm: f64,
+    /// The sign the reflected entries are multiplied by.
+    sign: f64,
+    /// For each later slot j: entry ← factor[j]·axis + sign·entry.
+    factor: [f64; SLOTS],
+}
+
+impl Reflection {
+    /// Applies reflection `k` to a row's slots k + 1 .. `upto` and, `with_f`, to f;
+    /// `first` for the view's first row (row k).
+    #[inline(always)]
+    fn apply(&self, k: usize, upto: usize, with_f: bool, v: &mut [f64; SLOTS], first: bool) {
+        let x = if first { v[k] + self.signed_norm } else { v[k] };
+        let axis = x / self.sf / self.nrm;
+        for j in k + 1..upto {
+            v[j] = self.factor[j] * axis * 1.0 + self.sign * v[j];
+        }
+        if with_f {
+            v[F] = self.factor[F] * axis * 1.0 + self.sign * v[F];
+        }
+    }
+}
+
+/// Where the rows come from: the included points, their ln(T/θ), the weighting and the
+/// column scale.
+struct Source<'a> {
+    points: &'a [Measurement],
+    logs: Vec<f64>,
+    model: Model,
+    theta: f64,
+    weighted: bool,
+    p: usize,
+    inv_scale: [f64; MAX_STREAMED_COLUMNS],
+}
+
+impl Source<'_> {
+    /// The raw design row of a point (into `raw[..p]`) and its √w.
+    #[inline(always)]
+    fn raw(&self, pt: &Measurement, l: f64, raw: &mut [f64; MAX_STREAMED_COLUMNS]) -> f64 {
+        self.model
+            .row_with_log_into(pt.t_k, self.theta, l, &mut raw[..self.p]);
+        if self.weighted {
+            let s = pt.sigma_ln_k.unwrap_or(f64::NAN);
+            (1.0 / (s * s)).sqrt()
+        } else {
+            1.0
+        }
+    }
+
+    /// The weighted, column-equilibrated row and √w·y, as `Scaled::row_into` forms them.
+    #[inline(always)]
+    fn scaled(&self, pt: &Measurement, l: f64) -> [f64; SLOTS] {
+        let mut raw = [0.0; MAX_STREAMED_COLUMNS];
+        let sw = self.raw(pt, l, &mut raw);
+        let mut v = [0.0; SLOTS];
+        for j in 0..self.p {
+            v[j] = raw[j] * sw * self.inv_scale[j];
+        }
+        v[self.p] = pt.ln_k * sw;
+        v
+    }
+
+    /// Calls `f(row - from, slots)` for every row from `from` on, with the reflections
+    /// `refl` applied (rows at or after `from` are below each of them) to the slots before
+    /// `upto` and, `with_f`, to f; `init(row, slots)` writes f first.
+    #[inline(always)]
+    #[allow(clippy::too_many_arguments)]
+    fn rows(
+        &self,
+        from: usize,
+        refl: &[Reflection],
+        upto: usize,
+        with_f: bool,
+        init: impl Fn(usize, &mut [f64; SLOTS]),
+        mut f: impl FnMut(usize, &[f64; SLOTS]),
+    ) {
+        let used = self.points.iter().filter(|p| p.included);
+        for (i, (pt, &l)) in used.zip(&self.logs).enumerate().skip(from) {
+            let mut v = self.scaled(pt, l);
+            init(i, &mut v);
+            for (k, r) in refl.iter().enumerate() {
+                r.apply(k, upto, with_f, &mut v, false);
+            }
+            f(i - from, &v);
+        }
+    }
+
+    /// Row `k` as [`Source::rows`] gives it, but the reflection numbered k (when `refl`
+    /// reaches it) has row k as its first row.
+    fn row(
+        &self,
+        k: usize,
+        refl: &[Reflection],
+        upto: usize,
+        with_f: bool,
+        init: impl Fn(usize, &mut [f64; SLOTS]),
+    ) -> [f64; SLOTS] {
+        let (pt, l) = self
+            .points
+            .iter()
+            .filter(|p| p.included)
+            .zip(&self.logs)
+            .nth(k)
+            .map(|(p, l)| (*p, *l))
+            .unwrap_or((Measurement::new(f64::NAN, f64::NAN), f64::NAN));
+        let mut v = self.scaled(&pt, l);
+        init(k, &mut v);
+        for (r, refl) in refl.iter().enumerate() {
+            refl.apply(r, upto, with_f, &mut v, r == k);
+        }
+        v
+    }
+}
+
+/// χ² of `model`'s weighted least-squares fit to the included `points` (weights 1/σ² when
+/// `weighted`, else 1), θ = `theta`: the same bits as [`super::weighted_rss_formed`] on the
+/// same points, with memory for one number per point (ln(T/θ); three when refined) instead
+/// of the design, its factorised copy and six vectors. `None` when the stored-matrix path is needed: more than
+/// [`MAX_STREAMED_COLUMNS`] columns, anything not finite, a zero column or rank deficiency.
+pub(crate) fn weighted_rss_streamed(
+    model: Model,
+    theta: f64,
+    points: &[Measurement],
+    weighted: bool,
+) -> Option<f64> {
+    let p = model.n_params();
+    if p == 0 || p > MAX_STREAMED_COLUMNS {
+        return None;
+    }
+    let n = points.iter().filter(|pt| pt.included).count();
+    if n < p {
+        return None;
+    }
+    let mut src = Source {
+        points,
+        logs: Vec::with_capacity(n),
+        model,
+        theta,
+        weighted,
+        p,
+        inv_scale: [1.0; MAX_STREAMED_COLUMNS],
+    };
+    let mut scale = [1.0; MAX_STREAMED_COLUMNS];
+    // The column scale of `column_scale`: each column's largest |√w·x| (every entry finite),
+    // then its sum of squares relative to that, in row order.
+    let mut raw = [0.0; MAX_STREAMED_COLUMNS];
+    let mut big = [0.0f64; MAX_STREAMED_COLUMNS];
+    for pt in points.iter().filter(|pt| pt.included) {
+        let l = (pt.t_k / theta).ln();
+        src.logs.push(l);
+        let sw = src.raw(pt, l, &mut raw);
+        if !(sw.is_finite() && sw > 0.0 && pt.ln_k.is_finite()) {
+            return None;
+        }
+        for j in 0..p {
+            if !raw[j].is_finite() {
+                return None;
+            }
+            big[j] = big[j].max((raw[j] * sw).abs());
+        }
+    }
+    if big[..p].iter().any(|&b| b == 0.0 || !b.is_finite()) {
+        return None;
+    }
+    let mut sum = [0.0f64; MAX_STREAMED_COLUMNS];
+    for (pt, &l) in points.iter().filter(|pt| pt.included).zip(&src.logs) {
+        let sw = src.raw(pt, l, &mut raw);
+        for j in 0..p {
+            sum[j] += (raw[j] * sw / big[j]).powi(2);
+        }
+    }
+    for j in 0..p {
+        scale[j] = power_of_two_near(big[j] * sum[j].sqrt()).unwrap_or(1.0);
+        src.inv_scale[j] = 1.0 / scale[j];
+    }
+    let slots = p + 1;
+
+    // Householder QR (nalgebra's `QR::new`), with √w·y carried as one more column
+    // (`q_tr_mul`).
+    let mut refl: Vec<Reflection> = Vec::with_capacity(p);
+    let mut r = DMatrix::<f64>::zeros(p, p);
+    let mut qtb = DVector::<f64>::zeros(p);
+    let mut finite = true;
+    for k in 0..p {
+        let len = n - k;
+        let mut sq = Lanes::new(len);
+        src.rows(
+            k,
+            &refl,
+            k + 1,
+            false,
+            |_, _| (),
+            |rel, v| {
+                if k == 0 {
+                    finite &= v[..slots].iter().all(|x| x.is_finite());
+                }
+                sq.push(rel, v[k] * v[k]);
+            },
+        );
+        if !finite {
+            return None;
+        }
+        let sq = sq.total();
+        let norm = sq.sqrt();
+        let x0 = src.row(k, &refl, k + 1, false, |_, _| ())[k];
+        let (modulus, sign0) = if x0 >= 0.0 { (x0, 1.0) } else { (-x0, -1.0) };
+        let signed_norm = sign0 * norm;
+        let factor = (sq + modulus * norm) * 2.0;
+        if !(factor.is_finite() && factor != 0.0) {
+            return None;
+        }
+        let sf = factor.sqrt();
+        let mut nsq = Lanes::new(len);
+        src.rows(
+            k,
+            &refl,
+            k + 1,
+            false,
+            |_, _| (),
+            |rel, v| {
+                let x = if rel == 0 { v[k] + signed_norm } else { v[k] };
+                let u = x / sf;
+                nsq.push(rel, u * u);
+            },
+        );
+        let nrm = nsq.total().sqrt();
+        if !(nrm.is_finite() && nrm != 0.0) {
+            return None;
+        }
+        let reflection_norm = -signed_norm;
+        let sign = reflection_norm.signum();
+        let mut dots: [Lanes; SLOTS] = std::array::from_fn(|_| Lanes::new(len));
+        src.rows(
+            k,
+            &refl,
+            slots,
+            false,
+            |_, _| (),
+            |rel, v| {
+                let x = if rel == 0 { v[k] + signed_norm } else { v[k] };
+                let axis = x / sf / nrm;
+                for j in k + 1..slots {
+                    dots[j].push(rel, axis * v[j]);
+                }
+            },
+        );
+        let mut this = Reflection {
+            signed_norm,
+            sf,
+            nrm,
+            sign,
+            factor: [0.0; SLOTS],
+        };
+        for (j, d) in dots.into_iter().enumerate().skip(k + 1).take(slots - k - 1) {
+            let m_two = sign * -2.0;
+            this.factor[j] = (d.total() - 0.0) * m_two;
+        }
+        refl.push(this);
+        // Row k is final: R's row k and (Qᵀb)ₖ; R's diagonal is |signed norm| (`QR::r`).
+        let v = src.row(k, &refl, slots, false, |_, _| ());
+        r[(k, k)] = reflection_norm.abs();
+        for j in k + 1..p {
+            r[(k, j)] = v[j];
+        }
+        qtb[k] = v[p];
+    }
+    #[cfg(test)]
+    LAST_QR.with(|c| *c.borrow_mut() = Some((r.clone(), qtb.clone(), scale)));
+    // The rank test of `factorised`.
+    let max_diag = (0..p).map(|j| r[(j, j)].abs()).fold(0.0, f64::max);
+    let tolerance = rank_tolerance(n);
+    if (0..p).any(|j| {
+        let d = r[(j, j)].abs();
+        d.is_nan() || d <= tolerance * max_diag
+    }) {
+        return None;
+    }
+    // `refined_solution` up to its error bound.
+    let x = r.solve_upper_triangular(&qtb)?;
+    if x.iter().any(|v| !v.is_finite()) {
+        return None;
+    }
+    let mut x = x;
+    let neg_x: Vec<f64> = x.iter().map(|v| -v).collect();
+    let residual = |v: &[f64; SLOTS], neg_x: &[f64]| {
+        v[p] + v[..p].iter().zip(neg_x).map(|(r, c)| r * c).sum::<f64>()
+    };
+    let mut ss = -0.0f64;
+    src.rows(
+        0,
+        &[],
+        0,
+        false,
+        |_, _| (),
+        |_, v| {
+            let res = residual(v, &neg_x);
+            ss += res * res;
+        },
+    );
+    let bound = qr_error_bound(&r, x.norm(), ss.sqrt(), p);
+    if refinement_needed(bound) {
+        // Björck's refinement as `refined_solution` takes it, with its residuals r and f
+        // kept (two numbers per point); f goes through the reflections as one more column
+        // for Qᵀf. A step's update of r is made in the next pass that reads it.
+        let mut res = vec![0.0; n];
+        let mut f = vec![0.0; n];
+        // The last step's δx, not yet added into `res`.
+        let mut pending: Option<Vec<f64>> = None;
+        let mut first = true;
+        let mut previous = x.amax();
+        for _ in 0..MAX_REFINEMENT_STEPS {
+            let neg_x: Vec<f64> = x.iter().map(|v| -v).collect();
+            let mut g_hi = [0.0; MAX_STREAMED_COLUMNS];
+            let mut g_lo = [0.0; MAX_STREAMED_COLUMNS];
+            ss = -0.0;
+            let mut i = 0;
+            src.rows(
+                0,
+                &[],
+                0,
+                false,
+                |_, _| (),
+                |_, v| {
+                    let ri = &mut res[i];
+                    if first {
+                        *ri = residual(v, &neg_x);
+                    } else if let Some(dx) = &pending {
+                        let adx: f64 = v[..p].iter().zip(dx).map(|(r, d)| r * d).sum();
+                        *ri += f[i] - adx;
+                    }
+                    let ri = *ri;
+                    ss += ri * ri;
+                    let (b_minus_r, e0) = two_sum(v[p], -ri);
+                    f[i] = dot2(b_minus_r, &v[..p], &neg_x) + e0;
+                    for j in 0..p {
+                        let (h, e1) = two_prod(-v[j], ri);
+                        let (q, e2) = two_sum(g_hi[j], h);
+                        g_hi[j] = q;
+                        g_lo[j] += e1 + e2;
+                    }
+                    i += 1;
+                },
+            );
+            first = false;
+            pending = None;
+            let g = DVector::from_iterator(p, g_hi.iter().zip(&g_lo).take(p).map(|(h, l)| h + l));
+            let d1 = r.tr_solve_upper_triangular(&g)?;
+            // Qᵀf, one reflection at a time.
+            let init = |i: usize, v: &mut [f64; SLOTS]| v[F] = f[i];
+            let mut qtf = DVector::<f64>::zeros(p);
+            for k in 0..p {
+                let mut dot = Lanes::new(n - k);
+                let (signed_norm, sf, nrm) = (refl[k].signed_norm, refl[k].sf, refl[k].nrm);
+                src.rows(k, &refl[..k], k + 1, true, init, |rel, v| {
+                    let x = if rel == 0 { v[k] + signed_norm } else { v[k] };
+                    dot.push(rel, x / sf / nrm * v[F]);
+                });
+                let m_two = refl[k].sign * -2.0;
+                refl[k].factor[F] = (dot.total() - 0.0) * m_two;
+                qtf[k] = src.row(k, &refl[..=k], k + 1, true, init)[F];
+            }
+            let dx = r.solve_upper_triangular(&(qtf - &d1))?;
+            let size = dx.amax();
+            if !size.is_finite() || size >= previous {
+                break;
+            }
+            x += &dx;
+            pending = Some(dx.iter().copied().collect());
+            let rate = size / previous;
+            previous = size;
+            if size * rate <= f64::EPSILON * x.amax() {
+                break;
+            }
+        }
+        if let Some(dx) = &pending {
+            ss = -0.0;
+            let mut i = 0;
+            src.rows(
+                0,
+                &[],
+                0,
+                false,
+                |_, _| (),
+                |_, v| {
+                    let adx: f64 = v[..p].iter().zip(dx).map(|(r, d)| r * d).sum();
+                    let ri = res[i] + (f[i] - adx);
+                    ss += ri * ri;
+                    i += 1;
+                },
+            );
+        }
+    }
+    // The checks of `factorised` on χ² and the coefficients in raw units.
+    let coefficients_finite = (0..p).all(|j| (x[j] / scale[j]).is_finite());
+    (ss.is_finite() && coefficients_finite).then_some(ss)
+}
+
+/// The last factor, Qᵀb and column scale (tests only).
+#[cfg(test)]
+type Factor = (DMatrix<f64>, DVector<f64>, [f64; MAX_STREAMED_COLUMNS]);
+
+#[cfg(test)]
+thread_local! {
+    /// The last factor, Qᵀb and column scale (for the tests against nalgebra).
+    static LAST_QR: std::cell::RefCell<Option<Factor>> =
+        const { std::cell::RefCell::new(None) };
+}
+
+#[cfg(test)]
+mod tests;
