@@ -281,3 +281,70 @@ fn same_sets(imp: &isochore_data::Import) -> Vec<ReadSet<'_>> {
         })
         .collect()
 }
+
+/// A file with one data set (no series column) over `TWO_THREADS_ABOVE` is read by two
+/// threads into one buffer of rows: rows rejected, blank and comment lines in both halves
+/// (so the first half fills less room than it has lines) must still give every row its
+/// line, row number, value and note, in order, with nothing left of the room between.
+#[test]
+fn one_data_set_read_into_one_buffer() {
+    let n = 200_000usize;
+    // Rejected rows, and lines without a row, on both sides of the middle.
+    let bad = |i: usize| i % 9_973 == 5 || (n / 2 - 10..n / 2 + 10).contains(&i);
+    let blank = |i: usize| i % 7_919 == 3 || i == n / 2;
+    let mut text = String::from("# invented\nT (K),ln K,note\n");
+    let mut want = Vec::new(); // (line, T, note) of each good row
+    let mut rejected = Vec::new();
+    let mut line = 2usize;
+    for i in 0..n {
+        if blank(i) {
+            text.push_str(if i % 2 == 0 { "\n" } else { "# between\n" });
+            line += 1;
+        }
+        line += 1;
+        let t = 280.0 + (i % 400) as f64 / 10.0;
+        let note = if i % 11 == 0 {
+            format!("n{i}")
+        } else {
+            String::new()
+        };
+        if bad(i) {
+            text.push_str(&format!("{t},x,{note}\n"));
+            rejected.push(line);
+        } else {
+            text.push_str(&format!("{t},{},{note}\n", 1.0 + (i % 13) as f64 / 4.0));
+            want.push((line, t, i, note));
+        }
+    }
+    assert!(text.len() > 2 * isochore_data::import::TWO_THREADS_ABOVE);
+    let o = ImportOptions::default();
+    let imp = import_text("one.csv", &text, &o).unwrap();
+    let got: Vec<usize> = imp.rejected.iter().map(|r| r.line).collect();
+    assert_eq!(got, rejected);
+    assert_eq!(imp.series.len(), 1);
+    let s = &imp.series[0];
+    let rows = s.converted().unwrap();
+    assert_eq!(rows.len(), want.len());
+    for (k, (r, (line, t, i, note))) in rows.iter().zip(&want).enumerate() {
+        assert_eq!((r.row(), r.line()), (k + 1, *line), "row {}", k + 1);
+        assert_eq!(r.t_k, *t);
+        assert_eq!(r.ln_k, 1.0 + (i % 13) as f64 / 4.0);
+        assert_eq!(s.note(r), (!note.is_empty()).then_some(note.as_str()));
+    }
+    // The cells of the last row, from the second half, come back as typed.
+    let (_, t, i, note) = want.last().unwrap();
+    assert_eq!(
+        imp.cells(rows.last().unwrap()),
+        [
+            t.to_string(),
+            (1.0 + (i % 13) as f64 / 4.0).to_string(),
+            note.clone()
+        ]
+    );
+    // The same text without its last line feed: the last row is still read.
+    let trimmed = text.trim_end_matches('\n');
+    let imp = import_text("one.csv", trimmed, &o).unwrap();
+    assert_eq!(imp.series[0].len(), want.len());
+    let last = imp.series[0].converted().unwrap()[want.len() - 1];
+    assert_eq!(last.line(), want.last().unwrap().0);
+}

@@ -321,6 +321,7 @@ fn parse(
         rejected,
         any_data,
         marks,
+        ..
     } = scan::Scan {
         file,
         text,

@@ -44,6 +44,9 @@ pub(super) struct Chunk {
     pub(super) any_data: bool,
     /// The first cell of each kind of decimal mark.
     pub(super) marks: Marks,
+    /// Rows written to the caller's buffer rather than to the data set (see
+    /// `Scan::one_set`); 0 once joined.
+    pub(super) in_sink: usize,
 }
 
 impl Scan<'_> {
@@ -78,19 +81,23 @@ impl Scan<'_> {
         // second can be appended without moving the first.
         let reserve = |bytes: usize| if bytes > (1 << 20) { bytes / 16 } else { 0 };
         let chunk = match cut {
-            None => ctx.run(data_start, text.len(), first_line, reserve(data_len))?,
+            None => ctx.run(data_start, text.len(), first_line, reserve(data_len), None)?,
+            // One data set (no series column): both halves write into one buffer.
+            Some(cut) if ctx.mapping.series.is_none() => {
+                ctx.one_set(data_start, cut, first_line)?
+            }
             Some(cut) => {
                 // The second half first counts the lines of the first (to number its own).
                 let second_half = || {
                     let lines_before = memchr::memchr_iter(b'\n', &bytes[data_start..cut]).count();
                     let n = text.len() - cut;
-                    ctx.run(cut, text.len(), first_line + lines_before, reserve(n))
+                    ctx.run(cut, text.len(), first_line + lines_before, reserve(n), None)
                 };
                 let (a, b) = std::thread::scope(|sc| {
                     let second = std::thread::Builder::new()
                         .spawn_scoped(sc, second_half)
                         .ok();
-                    let a = ctx.run(data_start, cut, first_line, reserve(data_len));
+                    let a = ctx.run(data_start, cut, first_line, reserve(data_len), None);
                     let b = match second {
                         Some(h) => h.join().unwrap_or_else(|_| second_half()),
                         None => second_half(),
@@ -138,11 +145,113 @@ impl Chunk {
 }
 
 impl Scan<'_> {
+    /// The two halves of the data of a file with one data set (no series column), read on
+    /// two threads into one buffer of rows: each half fills its own part of it, made for
+    /// as many rows as the half has line breaks, and the second half's rows are then moved
+    /// down over the room the first half did not use (none when every line was a row) and
+    /// renumbered in place. Rows are thus never held twice: joining two separate lists
+    /// needed a third copy of the second half's rows (20 MB more at the peak of a
+    /// 10⁶-row file). A line ended by a lone carriage return can make a half read more
+    /// rows than it has line feeds; those go to the half's own list, and the rows are then
+    /// joined by copying.
+    fn one_set(&self, data_start: usize, cut: usize, first_line: usize) -> Result<Chunk, Error> {
+        let bytes = self.text.as_bytes();
+        let lines = |part: &[u8]| memchr::memchr_iter(b'\n', part).count();
+        let (l1, l2) = rayon::join(
+            || lines(&bytes[data_start..cut]),
+            || lines(&bytes[cut..]) + 1,
+        );
+        // Written on both cores: the first touch of each page is most of the cost.
+        let mut all: Vec<Row> = Vec::with_capacity(l1 + l2);
+        all.par_extend(rayon::iter::repeat_n(Row::EMPTY, l1 + l2));
+        let (lo, hi) = all.split_at_mut(l1);
+        let (a, b) = std::thread::scope(|sc| {
+            let second = std::thread::Builder::new()
+                .spawn_scoped(sc, || {
+                    self.run(cut, self.text.len(), first_line + l1, 0, Some(hi))
+                })
+                .ok();
+            let a = self.run(data_start, cut, first_line, 0, Some(lo));
+            let b = match second {
+                Some(h) => h.join().ok(),
+                None => None,
+            };
+            (a, b)
+        });
+        let mut a = a?;
+        let mut b = match b {
+            Some(b) => b?,
+            // The thread could not be started or failed: read the second half here.
+            None => {
+                let hi = &mut all[l1..];
+                self.run(cut, self.text.len(), first_line + l1, 0, Some(hi))?
+            }
+        };
+        let (k1, k2) = (a.in_sink, b.in_sink);
+        let over = |c: &Chunk| c.series.first().map_or(0, |s| s.rows.len());
+        let first_len = k1 + over(&a);
+        let rows = if over(&a) == 0 && over(&b) == 0 {
+            if k1 < l1 {
+                all.copy_within(l1..l1 + k2, k1);
+            }
+            all.truncate(k1 + k2);
+            let base = first_len as u32;
+            all[k1..].par_iter_mut().for_each(|r| r.row += base);
+            all
+        } else {
+            let take = |c: &mut Chunk| c.series.first_mut().map(|s| std::mem::take(&mut s.rows));
+            let mut rows = Vec::with_capacity(first_len + k2 + over(&b));
+            rows.extend_from_slice(&all[..k1]);
+            rows.extend(take(&mut a).unwrap_or_default());
+            let second = all[l1..l1 + k2]
+                .iter()
+                .copied()
+                .chain(take(&mut b).unwrap_or_default());
+            rows.extend(second.map(|mut r| {
+                r.row += first_len as u32;
+                r
+            }));
+            rows
+        };
+        a.any_data |= b.any_data;
+        a.marks.merge(b.marks);
+        a.rejected.extend(b.rejected);
+        let notes_b = b.series.first_mut().map(|s| std::mem::take(&mut s.notes));
+        if a.series.is_empty() {
+            a.series = b.series;
+            a.ranges = b.ranges;
+        } else if let Some(&(lo, hi)) = b.ranges.first() {
+            let r = &mut a.ranges[0];
+            *r = (r.0.min(lo), r.1.max(hi));
+        }
+        if let Some(s) = a.series.first_mut() {
+            let base = first_len as u32;
+            s.notes.extend(
+                notes_b
+                    .unwrap_or_default()
+                    .into_iter()
+                    .map(|(r, n)| (r + base, n)),
+            );
+            s.rows = rows;
+        }
+        a.in_sink = 0;
+        Ok(a)
+    }
+
     /// Reads the records in `text[start..end]`; `line` is the physical line before `start`.
     /// Each of the first eight data sets reserves room for `reserve` rows: pages never
     /// written are never touched (so cost no memory), and growing by copying is avoided.
     /// The room left over is given back in the series stage (`series::assemble`).
-    fn run(&self, start: usize, end: usize, line: usize, reserve: usize) -> Result<Chunk, Error> {
+    /// `sink`: with one data set (no series column), the rows are written here first (the
+    /// count in [`Chunk::in_sink`]), and only those beyond its length into the data set.
+    fn run(
+        &self,
+        start: usize,
+        end: usize,
+        line: usize,
+        reserve: usize,
+        mut sink: Option<&mut [Row]>,
+    ) -> Result<Chunk, Error> {
         let (text, o, mapping) = (self.text, self.o, self.mapping);
         let mut reader = Reader::new(
             &text[..end],
@@ -165,6 +274,7 @@ impl Scan<'_> {
         let mut rejected = Vec::new();
         let mut any_data = false;
         let mut marks = Marks::default();
+        let mut in_sink = 0usize;
         // The number cells whose decimal marks are watched (only where a comma could be one).
         let mut watched: Vec<usize> = vec![mapping.temperature.column, mapping.quantity.column];
         if let Some(u) = mapping.uncertainty {
@@ -264,7 +374,7 @@ impl Scan<'_> {
                         }
                     }
                     let s = &mut series[si];
-                    let row = s.rows.len() as u32 + 1;
+                    let row = (in_sink + s.rows.len()) as u32 + 1;
                     if let Some(n) = mapping.note.and_then(|n| spans.get(n)) {
                         if !text::is_blank(n.raw(text)) {
                             s.notes.push((row, n.unescaped(text).trim().to_string()));
@@ -277,7 +387,7 @@ impl Scan<'_> {
                     if c.t_k > r.1 {
                         r.1 = c.t_k;
                     }
-                    s.rows.push(Row {
+                    let r = Row {
                         t_k: c.t_k,
                         ln_k: c.ln_k,
                         sigma: c.sigma_ln_k.unwrap_or(f64::NAN),
@@ -285,7 +395,14 @@ impl Scan<'_> {
                         row,
                         start: rec.start,
                         end: rec.end,
-                    });
+                    };
+                    match sink.as_deref_mut().and_then(|k| k.get_mut(in_sink)) {
+                        Some(slot) if s.rows.is_empty() => {
+                            *slot = r;
+                            in_sink += 1;
+                        }
+                        _ => s.rows.push(r),
+                    }
                 }
                 Err((col, problem)) => {
                     rejected.push(RejectedRow {
@@ -304,6 +421,7 @@ impl Scan<'_> {
             rejected,
             any_data,
             marks,
+            in_sink,
         })
     }
 }

@@ -44,6 +44,17 @@ impl PartialEq for Row {
 }
 
 impl Row {
+    /// A placeholder, for room filled before the rows are read.
+    pub(super) const EMPTY: Row = Row {
+        t_k: 0.0,
+        ln_k: 0.0,
+        sigma: f64::NAN,
+        line: 0,
+        row: 0,
+        start: 0,
+        end: 0,
+    };
+
     /// A row converted from cells kept as typed (no byte range in an import's text).
     pub(crate) fn new(t_k: f64, ln_k: f64, sigma: Option<f64>, line: usize, row: usize) -> Row {
         Row {
