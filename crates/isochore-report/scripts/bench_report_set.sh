@@ -1,15 +1,20 @@
 #!/usr/bin/env bash
 # Used for the README figures: copy each build's target/release/vhfit aside, run them in turn.
-# Alternating runs of `vhfit fit binding_qx7_halo2.csv --report DIR` for several binaries.
+# Alternating runs of `vhfit fit assets/demo/binding_qx7_halo2.csv --report DIR` for several
+# binaries (paths to vhfit builds).
 # usage: bench_report_set.sh ROUNDS BIN...   (prints wall, user, sys, user+sys, peak RSS medians)
+# With JOINT=1: the ligand demo's joint report (--model cp --share delta_cp) instead.
 R=${1:-7}; shift
-D=/work/main/assets/demo/binding_qx7_halo2.csv
+ROOT=$(cd "$(dirname "$0")/../../.." && pwd)
+D=$ROOT/assets/demo/binding_qx7_halo2.csv
+EXTRA=""
+if [ -n "$JOINT" ]; then D=$ROOT/assets/demo/ligands_px_orrin3.csv; EXTRA="--model cp --share delta_cp"; fi
 T=$(mktemp)
 echo "load before: $(uptime)"
 for r in $(seq 1 $R); do
   for b in "$@"; do
     out=$(mktemp -d)
-    /usr/bin/time -f "%e %U %S %M" -o $T.t $b fit $D --report $out/r > /dev/null 2>&1
+    /usr/bin/time -f "%e %U %S %M" -o $T.t $b fit $D $EXTRA --report $out/r > /dev/null 2>&1
     echo "$b $(cat $T.t)" >> $T
     rm -rf $out
   done

@@ -440,5 +440,5 @@ pub fn write_report_set(
     // Each figure drawn and rasterised once for every format, then the files written side
     // by side on the machine's cores; the list of paths keeps the plan's order, and each
     // file is the same bytes write_report writes for its format.
-    set::write(input, dir, set_plan(stem))
+    set::SetSource::write_single(input, dir, set_plan(stem))
 }

@@ -2,7 +2,8 @@
 //! a shared ΔCp° and is readable by an independent parser (roxmltree for the SVG figures,
 //! lopdf for the PDF, the PNG signature); the tables carry the fit crate's numbers; the
 //! verdicts and cautions are in the words the issue asks for; hostile series names stay
-//! text; a set writes exactly the files it plans; a single fit's figure kind is refused.
+//! text; a set writes exactly the files it plans, each the bytes its format alone writes
+//! (figures drawn once for the set); a single fit's figure kind is refused.
 
 use isochore_fit::calorimetric::{compare_calorimetric_series, CalorimetricValue};
 use isochore_fit::global::{
@@ -11,8 +12,8 @@ use isochore_fit::global::{
 };
 use isochore_fit::{EnergyUnit, FitOptions, Measurement, Model, TemperatureUnit, GAS_CONSTANT};
 use isochore_report::{
-    joint_report_set_paths, render_joint, write_joint_report_set, FigureKind, JointCompensation,
-    JointReportInput, JointSeries, ReportFormat, ReportRow,
+    joint_report_set_paths, render_joint, write_joint_report, write_joint_report_set, FigureKind,
+    JointCompensation, JointReportInput, JointSeries, ReportFormat, ReportRow,
 };
 
 /// Three invented series with ΔCp° = −700 J/(mol K) and a small alternating wobble.
@@ -173,4 +174,41 @@ fn hostile_names_stay_text_and_sets_write_their_plan() {
     let mut bad = i.clone();
     bad.series.pop();
     assert!(render_joint(&bad, ReportFormat::Html).is_err());
+}
+
+#[test]
+fn every_file_of_a_joint_set_is_what_its_format_alone_writes() {
+    // As tests/report_set.rs for a single fit: the set draws and rasterises each figure
+    // once; the PDF (not byte-for-byte repeatable) by its pages and image streams.
+    let i = input(["A", "B", "C"]);
+    let set = tempfile::tempdir().unwrap();
+    let alone = tempfile::tempdir().unwrap();
+    let written = write_joint_report_set(&i, set.path(), "j").unwrap();
+    let mut each = Vec::new();
+    for (format, name) in isochore_report::joint::joint_report_set_plan(&i, "j") {
+        each.extend(write_joint_report(&i, format, &alone.path().join(name)).unwrap());
+    }
+    let names = |paths: &[std::path::PathBuf]| -> Vec<String> {
+        paths
+            .iter()
+            .map(|p| p.file_name().unwrap().to_string_lossy().into_owned())
+            .collect()
+    };
+    assert_eq!(names(&written), names(&each));
+    // Markdown + 4 SVG, HTML, PDF, two CSV tables, 4 PNG (three series: compensation plots).
+    assert_eq!(written.len(), 13, "{written:?}");
+    for p in &written {
+        let name = p.file_name().unwrap();
+        let a = std::fs::read(p).unwrap();
+        let b = std::fs::read(alone.path().join(name)).unwrap();
+        if name.to_string_lossy().ends_with(".pdf") {
+            let (pages_a, images_a) = crate::report_set::pdf_pages_and_images(&a);
+            let (pages_b, images_b) = crate::report_set::pdf_pages_and_images(&b);
+            assert_eq!(pages_a, pages_b);
+            assert_eq!(images_a.len(), 4);
+            assert!(images_a == images_b, "the PDF's figures differ");
+        } else {
+            assert!(a == b, "{} differs", name.to_string_lossy());
+        }
+    }
 }

@@ -45,7 +45,7 @@ fn every_file_of_a_set_is_what_its_format_alone_writes() {
 }
 
 /// The number of pages and every image stream's bytes (sorted) of a PDF.
-fn pdf_pages_and_images(bytes: &[u8]) -> (usize, Vec<Vec<u8>>) {
+pub(crate) fn pdf_pages_and_images(bytes: &[u8]) -> (usize, Vec<Vec<u8>>) {
     let doc = lopdf::Document::load_mem(bytes).expect("the PDF reads back");
     let mut images: Vec<Vec<u8>> = doc
         .objects

@@ -247,9 +247,18 @@ pub fn write_joint_report_set(
         path: dir.to_path_buf(),
         source,
     })?;
-    let mut written = Vec::new();
-    for (format, name) in joint_report_set_plan(input, stem) {
-        written.extend(write_joint_report(input, format, &dir.join(name))?);
-    }
-    Ok(written)
+    // Each figure drawn and rasterised once for every format, the files written side by
+    // side, as a single fit's set (`crate::set`); each file is what write_joint_report
+    // writes for its format.
+    let source = crate::set::SetSource {
+        figures: input.figures(),
+        figure_svg: &|kind| joint_figure_svg(input, kind),
+        document: &|| document(input),
+        markdown: &|stem| crate::markdown::render_blocks(&content::build(input), stem),
+        csv: &|format| match format {
+            ReportFormat::DataCsv => csv::data_csv(input),
+            _ => csv::results_csv(input),
+        },
+    };
+    crate::set::write(&source, dir, joint_report_set_plan(input, stem))
 }
