@@ -38,6 +38,7 @@ mod html;
 pub mod joint;
 mod markdown;
 mod pdf;
+mod pdf_figures;
 mod pdf_fonts;
 pub mod present;
 mod set;

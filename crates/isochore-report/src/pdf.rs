@@ -8,16 +8,16 @@
 
 use crate::content::{Block, Table};
 use crate::document::Document;
-use crate::figures::{idat_stream, svg_to_png, FigureKind, IdatStream, PNG_SCALE};
+use crate::figures::{idat_stream, svg_to_png, FigureKind, PNG_SCALE};
 use crate::fonts::Metrics;
+use crate::pdf_figures::{self, FIGURE_DPI};
 use crate::pdf_fonts;
 use crate::{ReportError, ReportInput};
 use printpdf::{
-    Color, DictItem, ExternalStream, ExternalXObject, FontId, Line, LinePoint, Mm, Op, PaintMode,
-    PdfDocument, PdfFont, PdfFontHandle, PdfPage, PdfSaveOptions, Point, Pt, Px, RawImage, Rect,
-    Rgb, TextItem, XObjectId, XObjectTransform,
+    Color, FontId, Line, LinePoint, Mm, Op, PaintMode, PdfDocument, PdfFont, PdfFontHandle,
+    PdfPage, PdfSaveOptions, Point, Pt, Rect, Rgb, TextItem, XObjectId, XObjectTransform,
 };
-use std::collections::{BTreeMap, BTreeSet};
+use std::collections::BTreeSet;
 
 const PAGE_W: f32 = 595.28;
 const PAGE_H: f32 = 841.89;
@@ -26,7 +26,6 @@ const MARGIN_TOP: f32 = 56.7;
 const MARGIN_BOTTOM: f32 = 64.0;
 const BODY: f32 = 9.5;
 const SMALL: f32 = 8.0;
-const FIGURE_DPI: f32 = 300.0;
 /// Figure aspect ratio (height / width), for keeping headings with their figures.
 const HEIGHT_OVER_WIDTH: f32 = crate::figures::HEIGHT as f32 / crate::figures::WIDTH as f32;
 
@@ -425,54 +424,20 @@ impl Layout {
     }
 
     /// Adds a figure's PNG file as an image of the document: an RGB file's compressed
-    /// pixels as they stand ([`image_xobject`]), anything else decoded and handed to
+    /// pixels as they stand ([`pdf_figures::image_xobject`]), anything else decoded and handed to
     /// printpdf. Returns the image and its size in pixels.
     fn add_png(&mut self, png: &[u8]) -> Result<(XObjectId, f32, f32), ReportError> {
         Ok(match idat_stream(png) {
             Some(s) => {
                 let (w, h) = (s.width as f32, s.height as f32);
-                (self.doc.add_xobject(&image_xobject(s)), w, h)
+                (self.doc.add_xobject(&pdf_figures::image_xobject(s)), w, h)
             }
             None => {
-                let image = image_of_png(png)?;
+                let image = pdf_figures::image_of_png(png)?;
                 let (w, h) = (image.width as f32, image.height as f32);
                 (self.doc.add_image(&image), w, h)
             }
         })
-    }
-}
-
-/// An image XObject holding a PNG file's IDAT stream: Flate with the PNG predictors
-/// (`/Predictor 15`: each row starts with its PNG filter type), three 8-bit colours per
-/// pixel (ISO 32000-1, 7.4.4.4 and 8.9.5). The pixels are the PNG file's, at its full size.
-fn image_xobject(s: IdatStream) -> ExternalXObject {
-    let name = |n: &str| DictItem::Name(n.as_bytes().to_vec());
-    let int = |i: u32| DictItem::Int(i64::from(i));
-    let parms = BTreeMap::from([
-        ("Predictor".to_string(), DictItem::Int(15)),
-        ("Colors".to_string(), DictItem::Int(3)),
-        ("BitsPerComponent".to_string(), DictItem::Int(8)),
-        ("Columns".to_string(), int(s.width)),
-    ]);
-    let dict = BTreeMap::from([
-        ("Type".to_string(), name("XObject")),
-        ("Subtype".to_string(), name("Image")),
-        ("Width".to_string(), int(s.width)),
-        ("Height".to_string(), int(s.height)),
-        ("ColorSpace".to_string(), name("DeviceRGB")),
-        ("BitsPerComponent".to_string(), DictItem::Int(8)),
-        ("Filter".to_string(), name("FlateDecode")),
-        ("DecodeParms".to_string(), DictItem::Dict { map: parms }),
-    ]);
-    ExternalXObject {
-        stream: ExternalStream {
-            dict,
-            content: s.zlib,
-            compress: false,
-        },
-        width: Some(Px(s.width as usize)),
-        height: Some(Px(s.height as usize)),
-        dpi: Some(FIGURE_DPI),
     }
 }
 
@@ -482,13 +447,6 @@ pub(crate) fn render(input: &ReportInput) -> Result<Vec<u8>, ReportError> {
 
 /// One figure's PNG file (at [`PNG_SCALE`]), the bytes the figure files hold.
 pub(crate) type FigurePng<'a> = dyn Fn(FigureKind) -> Result<Vec<u8>, ReportError> + 'a;
-
-/// The pixels of a figure's PNG file (RGBA, as decoded from it), for a file a PDF cannot
-/// embed as it stands.
-fn image_of_png(png: &[u8]) -> Result<RawImage, ReportError> {
-    let mut warn = Vec::new();
-    RawImage::decode_from_bytes(png, &mut warn).map_err(ReportError::Pdf)
-}
 
 /// The PDF of any report's blocks (a single fit's or a joint fit's).
 pub(crate) fn render_document(source: &Document<'_>) -> Result<Vec<u8>, ReportError> {
