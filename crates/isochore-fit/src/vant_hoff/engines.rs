@@ -44,6 +44,9 @@ pub(super) trait SolvedFit {
         sum_w: f64,
     ) -> (PointStore, DiagnosticsSummary);
 
+    /// Another model's χ² that the solver gave on the way, if any.
+    fn known_chi2(&self) -> Option<(Model, f64)>;
+
     /// χ² of `other` on the same used points and weights.
     fn chi2_of(
         &self,
@@ -102,6 +105,10 @@ pub(super) fn run(
 }
 
 impl SolvedFit for FastFit {
+    fn known_chi2(&self) -> Option<(Model, f64)> {
+        self.other_model.zip(self.rss_other)
+    }
+
     fn solution(&self, options: &FitOptions) -> (Cow<'_, LinearFit>, bool, WeightSums) {
         let f = self;
         let fast_lin = LinearFit {
@@ -176,6 +183,10 @@ impl SolvedFit for FastFit {
 }
 
 impl SolvedFit for General {
+    fn known_chi2(&self) -> Option<(Model, f64)> {
+        None
+    }
+
     fn solution(&self, _options: &FitOptions) -> (Cow<'_, LinearFit>, bool, WeightSums) {
         (
             Cow::Borrowed(&self.solved.lin),

@@ -10,6 +10,7 @@
 //! target K) are methods on [`VantHoffFit`] in [`crate::derived`].
 
 mod comparison;
+mod deferred;
 mod engines;
 mod inputs;
 mod result;
@@ -19,6 +20,7 @@ mod warnings;
 pub use comparison::{
     compare_models, format_p, ComparisonStep, ModelComparison, StepTest, LADDER_ALPHA,
 };
+pub use deferred::{fit_estimates_first, CompletedComparison, PendingComparison};
 pub use result::{Estimate, Parameter, ThermoAt, VantHoffFit};
 pub use statistics::FitStatistics;
 pub use warnings::{unbounded_interval, Warning, WarningKind, FEW_DOF, STRONG_CORRELATION};
@@ -81,17 +83,19 @@ pub(crate) fn fit_with(
     options: &FitOptions,
     allow_streaming: bool,
 ) -> Result<VantHoffFit, Error> {
-    fit_threads(points, options, allow_streaming, PARALLEL_POINTS)
+    fit_threads(points, options, allow_streaming, PARALLEL_POINTS, false).map(|(f, _)| f)
 }
 
 /// [`fit_with`], the other ladder models solved on a second thread from `parallel_points`
-/// points on (tests compare it with one thread).
+/// points on (tests compare it with one thread); with `defer`, from that size on they are
+/// not solved and the comparison is returned pending instead ([`fit_estimates_first`]).
 fn fit_threads(
     points: &[Measurement],
     options: &FitOptions,
     allow_streaming: bool,
     parallel_points: usize,
-) -> Result<VantHoffFit, Error> {
+    defer: bool,
+) -> Result<(VantHoffFit, Option<PendingComparison>), Error> {
     let model = options.model;
     // Well-behaved data take the streaming path (one QR for both models, no n×p matrix);
     // everything else, errors included, the general one.
@@ -102,7 +106,7 @@ fn fit_threads(
     // linear fit) are solved on a second thread while this one solves the fitted model: the
     // same arithmetic on the same points, so the same numbers, in about half the time.
     let (engine, mut beside) = std::thread::scope(|scope| {
-        let beside = (points.len() >= parallel_points).then(|| {
+        let beside = (!defer && points.len() >= parallel_points).then(|| {
             scope.spawn(|| {
                 model
                     .ladder()
@@ -198,6 +202,8 @@ fn fit_threads(
         points_finite: summary.not_finite == 0,
         comparison: None,
         warnings: Vec::new(),
+        own_warnings: 0,
+        comparison_pending: false,
     };
     out.at_reference = out.thermo_at(options.t_ref_k);
     out.at_harmonic = out.thermo_at(t_harmonic_k);
@@ -207,6 +213,20 @@ fn fit_threads(
         ));
     }
     out.t_at_k1 = out.temperature_for_k(1.0).ok();
+    if defer && points.len() >= parallel_points {
+        let pending = PendingComparison {
+            options: *options,
+            sums,
+            rss: lin.rss,
+            known: engine.known_chi2(),
+            flagged: summary.flagged,
+            leverage_one: summary.leverage_one,
+        };
+        out.comparison_pending = true;
+        out.warnings = warnings::cautions(&out, summary.flagged, summary.leverage_one);
+        out.own_warnings = out.warnings.len();
+        return Ok((out, Some(pending)));
+    }
     // The comparison needs only each ladder model's χ² on the same points and weights.
     out.comparison = ladder_comparison(&model.ladder(), &sums, options, |m| {
         if m == model {
@@ -219,7 +239,8 @@ fn fit_threads(
     });
 
     out.warnings = warnings::cautions(&out, summary.flagged, summary.leverage_one);
-    Ok(out)
+    out.own_warnings = out.warnings.len();
+    Ok((out, None))
 }
 
 #[cfg(test)]
@@ -284,8 +305,8 @@ mod tests {
                 model,
                 ..FitOptions::default()
             };
-            let serial = fit_threads(&pts, &opts, true, usize::MAX).unwrap();
-            let beside = fit_threads(&pts, &opts, true, 0).unwrap();
+            let serial = fit_threads(&pts, &opts, true, usize::MAX, false).unwrap().0;
+            let beside = fit_threads(&pts, &opts, true, 0, false).unwrap().0;
             let (a, b) = (serial.comparison().unwrap(), beside.comparison().unwrap());
             assert_eq!(a.steps.len(), 2, "{}", model.key());
             assert_eq!(a, b, "{}", model.key());

@@ -149,6 +149,13 @@ pub struct VantHoffFit {
     pub(crate) comparison: Option<ModelComparison>,
     /// Cautions in words.
     pub(crate) warnings: Vec<Warning>,
+    /// How many of `warnings`, at the end, are the fit's own (the rest were put in front by
+    /// the caller), so a comparison completed later can write them again.
+    #[serde(skip)]
+    pub(crate) own_warnings: usize,
+    /// The comparison is still to be made ([`super::fit_estimates_first`]).
+    #[serde(skip)]
+    pub(crate) comparison_pending: bool,
 }
 
 impl ThermoAt {
@@ -310,6 +317,14 @@ impl VantHoffFit {
     /// The comparison along the ladder of nested models, when enough points.
     pub fn comparison(&self) -> Option<&ModelComparison> {
         self.comparison.as_ref()
+    }
+
+    /// Whether the model comparison is still to be made: a fit from
+    /// [`super::fit_estimates_first`] before its [`super::PendingComparison`] has been run
+    /// and given to [`VantHoffFit::complete_comparison`] (until then `comparison()` is
+    /// `None` and the cautions that depend on it are missing).
+    pub fn comparison_pending(&self) -> bool {
+        self.comparison_pending
     }
 
     /// Cautions in words.
