@@ -147,12 +147,17 @@ fn effective_limit(o: &ImportOptions) -> u64 {
 
 /// SHA-256 of bytes in lower-case hex.
 pub fn sha256_hex(bytes: &[u8]) -> String {
-    let digest = Sha256::digest(bytes);
-    let mut s = String::with_capacity(64);
-    for b in digest.iter() {
-        s.push_str(&format!("{b:02x}"));
-    }
-    s
+    hex(&Sha256::digest(bytes))
+}
+
+/// Bytes in lower-case hex.
+fn hex(digest: &[u8]) -> String {
+    const DIGITS: &[u8; 16] = b"0123456789abcdef";
+    digest
+        .iter()
+        .flat_map(|&b| [DIGITS[usize::from(b >> 4)], DIGITS[usize::from(b & 15)]])
+        .map(char::from)
+        .collect()
 }
 
 /// `clean`: the bytes are known to hold no NUL byte and no quote.
@@ -190,8 +195,11 @@ fn import_owned(
     }
     let (sha, parsed) = std::thread::scope(|s| {
         let worker = if early_hash.is_none() && text.len() > (1 << 20) {
+            // The thread only hashes and allocates nothing (the hex is written here): a
+            // thread's first allocation gives it an arena of the allocator's, which with
+            // huge pages costs 2 MiB of resident memory or more.
             std::thread::Builder::new()
-                .spawn_scoped(s, || sha256_hex(text.as_bytes()))
+                .spawn_scoped(s, || Sha256::digest(text.as_bytes()))
                 .ok()
         } else {
             None
@@ -199,7 +207,9 @@ fn import_owned(
         let parsed = parse(name, &text, start, clean, options);
         let sha = match (early_hash, worker) {
             (Some(h), _) => h,
-            (None, Some(w)) => w.join().unwrap_or_else(|_| sha256_hex(text.as_bytes())),
+            (None, Some(w)) => w
+                .join()
+                .map_or_else(|_| sha256_hex(text.as_bytes()), |d| hex(&d)),
             (None, None) => sha256_hex(text.as_bytes()),
         };
         (sha, parsed)
