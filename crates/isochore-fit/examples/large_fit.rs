@@ -4,7 +4,9 @@
 //! `/usr/bin/time -v` (maximum resident set size). Prints the wall time of the analysis and,
 //! on Linux, the CPU time of this thread (from `/proc/thread-self/schedstat`), which a
 //! machine loaded by other work does not inflate as it does the wall time. A third argument
-//! repeats the analysis.
+//! repeats the analysis. `LARGE_FIT_FIRST=1` times `fit_estimates_first` and the pending
+//! comparison (streamed over the points) instead, and checks the completed fit's comparison
+//! against `fit`'s, bit for bit.
 
 use isochore_fit::{fit, FitOptions, Measurement, Model};
 use std::time::Instant;
@@ -39,6 +41,30 @@ fn main() {
     };
     if std::env::var_os("LARGE_FIT_PHASES").is_some() {
         phases(&points, model);
+    }
+    if std::env::var_os("LARGE_FIT_FIRST").is_some() {
+        for _ in 0..repeats {
+            let start = Instant::now();
+            let (mut f, pending) =
+                isochore_fit::fit_estimates_first(&points, &options).expect("fit");
+            let estimates = start.elapsed().as_secs_f64() * 1e3;
+            if let Some(p) = pending {
+                f.complete_comparison(p.run(&points));
+            }
+            let total = start.elapsed().as_secs_f64() * 1e3;
+            println!(
+                "n = {n}, model {}: estimates {estimates:.1} ms, with the comparison {total:.1} ms",
+                model.key()
+            );
+        }
+        let whole = fit(&points, &options).expect("fit");
+        let (mut f, pending) = isochore_fit::fit_estimates_first(&points, &options).expect("fit");
+        if let Some(p) = pending {
+            f.complete_comparison(p.run(&points));
+        }
+        assert_eq!(f.comparison(), whole.comparison());
+        assert_eq!(f.warnings(), whole.warnings());
+        return;
     }
     for _ in 0..repeats {
         let start = Instant::now();
