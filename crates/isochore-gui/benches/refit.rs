@@ -2,7 +2,9 @@
 //! changes, `fitting::Fitter::update` starts the refit on its worker thread and the
 //! benchmark waits for the result (the window keeps drawing the previous result
 //! meanwhile). Each iteration excludes or brings back one row, so every refit fits a
-//! different set of points. Beside it, for comparison: `isochore_fit::fit` alone on the same
+//! different set of points. Then the time until the refit's estimates are on screen (the
+//! worker sends them before the model comparison, which follows and is waited for outside
+//! the timing). Beside it, for comparison: `isochore_fit::fit` alone on the same
 //! points, and the analysis made from the cells (what every refit cost before the
 //! converted points were kept).
 //!
@@ -50,6 +52,48 @@ fn refit(c: &mut Criterion) {
             std::hint::black_box(fitter.get(id));
         })
     });
+    group.bench_function(
+        "estimates shown after an exclusion (the comparison follows)",
+        |b| {
+            b.iter_custom(|iters| {
+                let mut shown = Duration::ZERO;
+                for _ in 0..iters {
+                    excluded = !excluded;
+                    if excluded {
+                        row = (row + 7919) % 1_000_000;
+                    }
+                    apply(
+                        &mut project,
+                        Command::SetExclusion {
+                            series: id,
+                            row,
+                            exclusion: excluded
+                                .then(|| ("bench".into(), "2026-12-03T12:00:00Z".into())),
+                        },
+                    )
+                    .expect("row exists");
+                    let rev = project.series[0].rev;
+                    let start = Instant::now();
+                    loop {
+                        fitter.update(&project.series, 0.0, false);
+                        if fitter.get(id).is_some_and(|a| a.rev == rev) {
+                            break;
+                        }
+                        std::thread::sleep(Duration::from_micros(200));
+                    }
+                    shown += start.elapsed();
+                    // The comparison, untimed, before the next exclusion.
+                    while !fitter.running(&project.series).is_empty() {
+                        std::thread::sleep(Duration::from_millis(1));
+                        fitter.update(&project.series, 0.0, false);
+                    }
+                    let a = fitter.get(id).expect("fitted");
+                    assert!(a.fit.as_ref().is_ok_and(|f| !f.comparison_pending()));
+                }
+                shown
+            })
+        },
+    );
     let points = project.series[0].points().expect("points").measurements;
     let options = isochore_analysis::weighting::for_data_set(
         &project.series[0].data,

@@ -14,7 +14,7 @@ use crate::decimate::{sort_by_x_then_id, EnvelopeIndex};
 use crate::doc::Entry;
 use isochore_analysis::weighting::Weighed;
 use isochore_data::{ColumnMapping, Replicates, SeriesSettings};
-use isochore_fit::{BandPoint, Measurement, VantHoffFit};
+use isochore_fit::{BandPoint, CompletedComparison, Measurement, PendingComparison, VantHoffFit};
 use std::collections::HashMap;
 use std::sync::mpsc::{channel, Receiver, TryRecvError};
 use std::sync::Arc;
@@ -31,8 +31,9 @@ pub struct Analysis {
     /// The series revision this was computed from.
     pub rev: u64,
     /// Points on the fitting scale (empty when a row cannot be converted); one per row
-    /// unless replicates are averaged.
-    pub measurements: Vec<Measurement>,
+    /// unless replicates are averaged. Shared with the worker that completes a large fit's
+    /// model comparison after the estimates are shown.
+    pub measurements: Arc<Vec<Measurement>>,
     /// 0-based rows of each point.
     pub point_rows: Arc<Vec<Vec<usize>>>,
     /// For each 0-based row, its point.
@@ -219,7 +220,7 @@ pub fn analyse(series: &Entry) -> Analysis {
                 .and_then(|d| Remedy::for_data(&d));
             return Analysis {
                 rev: series.rev,
-                measurements: Vec::new(),
+                measurements: Arc::default(),
                 point_rows: Arc::default(),
                 point_of_row: Arc::default(),
                 fit: Err(e),
@@ -240,19 +241,41 @@ pub fn analyse(series: &Entry) -> Analysis {
     };
     let prepared = Arc::new(Prepared::new(series, points));
     let measurements = prepared.measurements.clone();
-    finish(series.rev, prepared, measurements, errors_in_t_of(series))
+    complete(finish(
+        series.rev,
+        prepared,
+        measurements,
+        errors_in_t_of(series),
+        false,
+    ))
+}
+
+/// The analysis with its model comparison made, if it was left for later.
+fn complete((mut analysis, pending): (Analysis, Option<PendingComparison>)) -> Analysis {
+    if let Some(p) = pending {
+        let done = p.run(&analysis.measurements);
+        if let Ok(f) = &mut analysis.fit {
+            f.complete_comparison(done);
+        }
+    }
+    analysis
 }
 
 /// Refits `series` from the points `previous` was made from, when they still hold (only
 /// exclusions changed): the same analysis as [`analyse`] gives, without converting the
 /// cells again. `None` when the cells, mapping or settings changed since.
 pub fn reanalyse(series: &Entry, previous: &Analysis) -> Option<Analysis> {
-    refit_job(series, previous).map(|job| job())
+    refit_job(series, previous, false).map(|job| complete(job()))
 }
 
 /// The work of [`reanalyse`], ready to run on another thread (it holds no reference to the
-/// series).
-fn refit_job(series: &Entry, previous: &Analysis) -> Option<impl FnOnce() -> Analysis + Send> {
+/// series). With `defer`, a large data set's model comparison is left for later: the
+/// analysis comes with what it still needs.
+fn refit_job(
+    series: &Entry,
+    previous: &Analysis,
+    defer: bool,
+) -> Option<impl FnOnce() -> (Analysis, Option<PendingComparison>) + Send> {
     let prepared = previous.prepared.clone()?;
     if !prepared.serves(series) {
         return None;
@@ -261,21 +284,32 @@ fn refit_job(series: &Entry, previous: &Analysis) -> Option<impl FnOnce() -> Ana
     let rev = series.rev;
     Some(move || {
         let m = prepared.measurements_excluding(&excluded);
-        finish(rev, prepared, m, None)
+        finish(rev, prepared, m, None, defer)
     })
 }
 
 /// The fit of `measurements` (the points of `prepared` with their current "included"
-/// marks) and everything drawn from it.
+/// marks) and everything drawn from it. With `defer`, the fit's model comparison is left for
+/// later on a large data set (`isochore_fit::fit_estimates_first`; nothing else drawn here
+/// depends on it), and what it still needs is returned beside the analysis.
 fn finish(
     rev: u64,
     prepared: Arc<Prepared>,
     measurements: Vec<Measurement>,
     errors_in_t: Option<Result<isochore_fit::errors_in_t::ErrorsInTFit, String>>,
-) -> Analysis {
+    defer: bool,
+) -> (Analysis, Option<PendingComparison>) {
+    let mut pending = None;
     let (fit, remedy) = match &prepared.weighed {
         Err(e) => (Err(e.clone()), Some(Remedy::FitUnweighted)),
-        Ok(weighed) => match isochore_fit::fit(&measurements, &weighed.options) {
+        Ok(weighed) => match if defer {
+            isochore_fit::fit_estimates_first(&measurements, &weighed.options).map(|(f, p)| {
+                pending = p;
+                f
+            })
+        } else {
+            isochore_fit::fit(&measurements, &weighed.options)
+        } {
             Ok(mut f) => {
                 if let Some(note) = weighed.note {
                     f.prepend_warning(isochore_fit::Warning::new(
@@ -357,10 +391,10 @@ fn finish(
         }
         Err(_) => (EnvelopeIndex::default(), EnvelopeIndex::default()),
     };
-    Analysis {
+    let analysis = Analysis {
         rev,
         extent: prepared.extent,
-        measurements,
+        measurements: Arc::new(measurements),
         point_rows: prepared.point_rows.clone(),
         point_of_row: prepared.point_of_row.clone(),
         fit,
@@ -375,7 +409,8 @@ fn finish(
         cooks_contours: contours,
         errors_in_t,
         prepared: Some(prepared),
-    }
+    };
+    (analysis, pending)
 }
 
 /// The fit with errors in T of a series that has σ(T) (the thermometer uncertainty setting
@@ -415,6 +450,57 @@ fn replace(slot: &mut Option<Arc<Analysis>>, new: Analysis) {
 struct Slot {
     current: Option<Arc<Analysis>>,
     pending: Option<(u64, Receiver<Analysis>, f64)>,
+    /// The model comparison of a large refit, made after its estimates were shown: the
+    /// revision it belongs to, and the worker's answer to come (`Err`) or come (`Ok`, kept
+    /// until the analysis can be changed: no panel holding it).
+    completing: Option<(
+        u64,
+        Result<CompletedComparison, Receiver<CompletedComparison>>,
+    )>,
+    /// When the fit whose comparison is awaited started (the app's clock).
+    completing_since: f64,
+}
+
+impl Slot {
+    /// Puts a finished comparison into the current analysis of its revision; waits for
+    /// the worker when `block`.
+    fn complete(&mut self, block: bool) {
+        let Some((rev, state)) = self.completing.take() else {
+            return;
+        };
+        let done = match state {
+            Ok(done) => done,
+            Err(rx) => {
+                let got = if block {
+                    rx.recv().map_err(|_| TryRecvError::Disconnected)
+                } else {
+                    rx.try_recv()
+                };
+                match got {
+                    Ok(done) => done,
+                    Err(TryRecvError::Empty) => {
+                        self.completing = Some((rev, Err(rx)));
+                        return;
+                    }
+                    // The worker died: the fit stays without its comparison.
+                    Err(TryRecvError::Disconnected) => return,
+                }
+            }
+        };
+        match self.current.as_mut() {
+            Some(a) if a.rev == rev => match Arc::get_mut(a) {
+                Some(a) => {
+                    if let Ok(f) = &mut a.fit {
+                        f.complete_comparison(done);
+                    }
+                }
+                // A panel still holds it: next time.
+                None => self.completing = Some((rev, Ok(done))),
+            },
+            // Another revision replaced it: the comparison is of no use.
+            _ => {}
+        }
+    }
 }
 
 /// The latest analysis of every series, and the fits in flight.
@@ -453,12 +539,14 @@ impl Fitter {
                     Ok(a) => {
                         replace(&mut slot.current, a);
                         slot.pending = None;
+                        slot.complete(block);
                     }
                     Err(TryRecvError::Empty) => {}
                     // The worker died: forget it, and the fit is started again below.
                     Err(TryRecvError::Disconnected) => slot.pending = None,
                 }
             }
+            slot.complete(block);
             let up_to_date = slot.current.as_ref().is_some_and(|a| a.rev == s.rev);
             let in_flight = slot.pending.as_ref().is_some_and(|p| p.0 == s.rev);
             if up_to_date || in_flight {
@@ -466,30 +554,44 @@ impl Fitter {
             }
             // After an exclusion the previous analysis' converted points still hold: the
             // refit starts from them (no copy of the series, no conversion of its cells).
-            let job = slot.current.as_ref().and_then(|a| refit_job(s, a));
             if s.n_rows() <= BACKGROUND_ROWS {
+                let job = slot.current.as_ref().and_then(|a| refit_job(s, a, false));
                 let a = match job {
-                    Some(job) => job(),
+                    Some(job) => complete(job()),
                     None => analyse(s),
                 };
                 replace(&mut slot.current, a);
                 slot.pending = None;
             } else {
+                // A refit shows its estimates as soon as they are made; the model
+                // comparison follows from the same worker (the same numbers as a whole fit).
+                let job = slot.current.as_ref().and_then(|a| refit_job(s, a, true));
                 let (tx, rx) = channel();
-                let work: Box<dyn FnOnce() -> Analysis + Send> = match job {
-                    Some(job) => Box::new(job),
-                    None => {
-                        let copy = s.clone();
-                        Box::new(move || analyse(&copy))
-                    }
-                };
+                let (done_tx, done_rx) = channel();
+                let work: Box<dyn FnOnce() -> (Analysis, Option<PendingComparison>) + Send> =
+                    match job {
+                        Some(job) => Box::new(job),
+                        None => {
+                            let copy = s.clone();
+                            Box::new(move || (analyse(&copy), None))
+                        }
+                    };
                 let spawned = std::thread::Builder::new()
                     .name("isochore-fit".into())
                     .spawn(move || {
-                        let _ = tx.send(work());
+                        let (a, pending) = work();
+                        let points = a.measurements.clone();
+                        let _ = tx.send(a);
+                        if let Some(p) = pending {
+                            let _ = done_tx.send(p.run(&points));
+                        }
                     });
                 match spawned {
-                    Ok(_) => slot.pending = Some((s.rev, rx, now)),
+                    Ok(_) => {
+                        slot.pending = Some((s.rev, rx, now));
+                        slot.completing = Some((s.rev, Err(done_rx)));
+                        slot.completing_since = now;
+                    }
                     Err(_) => replace(&mut slot.current, analyse(s)),
                 }
                 if block {
@@ -499,6 +601,7 @@ impl Fitter {
                         }
                     }
                     slot.pending = None;
+                    slot.complete(true);
                 }
             }
         }
@@ -514,13 +617,19 @@ impl Fitter {
         self.slots
             .iter()
             .filter_map(|(id, slot)| {
-                slot.pending.as_ref().map(|(_, _, since)| Running {
+                // A fit is running until its comparison is in place too.
+                let since = match (&slot.pending, &slot.completing) {
+                    (Some((_, _, since)), _) => Some(*since),
+                    (None, Some(_)) => Some(slot.completing_since),
+                    (None, None) => None,
+                };
+                since.map(|since| Running {
                     series: *id,
                     rows: series
                         .iter()
                         .find(|s| s.id == *id)
                         .map_or(0, |s| s.n_rows()),
-                    since: *since,
+                    since,
                 })
             })
             .collect()

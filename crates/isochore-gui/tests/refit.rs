@@ -6,7 +6,7 @@
 
 use isochore_gui::command::{apply, Command};
 use isochore_gui::doc::{Entry, Project};
-use isochore_gui::fitting::{analyse, reanalyse, Analysis};
+use isochore_gui::fitting::{analyse, reanalyse, Analysis, Fitter};
 
 /// `n` invented rows, ln K = 3000/T − 5 with a deterministic wiggle, σ = 0.03, 5–45 °C;
 /// `repeat` rows share each temperature.
@@ -102,4 +102,24 @@ fn a_cell_edit_or_averaged_replicates_start_from_the_cells() {
     let first = analyse(entry(&p));
     exclude(&mut p, 4);
     assert!(reanalyse(entry(&p), &first).is_none());
+}
+
+#[test]
+fn a_large_refit_in_the_background_ends_as_the_analysis_made_from_the_cells() {
+    // Above the rows fitted off the UI thread and the points from which the fit's model
+    // comparison is made after its estimates are shown (20 000 each): the worker sends the
+    // estimates, then the comparison, and the analysis in the slot must end up the one made
+    // from the cells, every number and caution included.
+    let mut p = project(25_000, 1);
+    let mut fitter = Fitter::default();
+    fitter.update(&p.series, 0.0, true);
+    exclude(&mut p, 11);
+    fitter.update(&p.series, 1.0, true);
+    let id = p.series[0].id;
+    let a = fitter.get(id).expect("fitted");
+    let fit = a.fit.as_ref().expect("fit");
+    assert!(!fit.comparison_pending() && fit.comparison().is_some());
+    assert_eq!(fit.n_used(), 24_999);
+    assert!(same(&a, &analyse(entry(&p))));
+    assert!(fitter.running(&p.series).is_empty());
 }
