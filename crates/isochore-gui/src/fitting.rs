@@ -14,7 +14,7 @@ use crate::decimate::{sort_by_x_then_id, EnvelopeIndex};
 use crate::doc::Entry;
 use isochore_analysis::weighting::Weighed;
 use isochore_data::{ColumnMapping, Replicates, SeriesSettings};
-use isochore_fit::{BandPoint, CompletedComparison, Measurement, PendingComparison, VantHoffFit};
+use isochore_fit::{BandPoint, CompletedComparison, Measurement, VantHoffFit};
 use std::collections::HashMap;
 use std::sync::mpsc::{channel, Receiver, TryRecvError};
 use std::sync::Arc;
@@ -250,10 +250,12 @@ pub fn analyse(series: &Entry) -> Analysis {
     ))
 }
 
-/// The analysis with its model comparison made, if it was left for later.
-fn complete((mut analysis, pending): (Analysis, Option<PendingComparison>)) -> Analysis {
-    if let Some(p) = pending {
-        let done = p.run(&analysis.measurements);
+/// A large fit's model comparison, being made on a thread of its own.
+type Comparing = std::thread::JoinHandle<CompletedComparison>;
+
+/// The analysis with its model comparison in place, if it was left for later.
+fn complete((mut analysis, comparing): (Analysis, Option<Comparing>)) -> Analysis {
+    if let Some(done) = comparing.and_then(|h| h.join().ok()) {
         if let Ok(f) = &mut analysis.fit {
             f.complete_comparison(done);
         }
@@ -275,7 +277,7 @@ fn refit_job(
     series: &Entry,
     previous: &Analysis,
     defer: bool,
-) -> Option<impl FnOnce() -> (Analysis, Option<PendingComparison>) + Send> {
+) -> Option<impl FnOnce() -> (Analysis, Option<Comparing>) + Send> {
     let prepared = previous.prepared.clone()?;
     if !prepared.serves(series) {
         return None;
@@ -289,16 +291,17 @@ fn refit_job(
 }
 
 /// The fit of `measurements` (the points of `prepared` with their current "included"
-/// marks) and everything drawn from it. With `defer`, the fit's model comparison is left for
-/// later on a large data set (`isochore_fit::fit_estimates_first`; nothing else drawn here
-/// depends on it), and what it still needs is returned beside the analysis.
+/// marks) and everything drawn from it. With `defer`, a large data set's model comparison
+/// is left out of the fit (`isochore_fit::fit_estimates_first`; nothing else drawn here
+/// depends on it) and made on a thread of its own while the rest is drawn; its handle is
+/// returned beside the analysis.
 fn finish(
     rev: u64,
     prepared: Arc<Prepared>,
     measurements: Vec<Measurement>,
     errors_in_t: Option<Result<isochore_fit::errors_in_t::ErrorsInTFit, String>>,
     defer: bool,
-) -> (Analysis, Option<PendingComparison>) {
+) -> (Analysis, Option<Comparing>) {
     let mut pending = None;
     let (fit, remedy) = match &prepared.weighed {
         Err(e) => (Err(e.clone()), Some(Remedy::FitUnweighted)),
@@ -322,6 +325,15 @@ fn finish(
             Err(e) => (Err(e.to_string()), Remedy::for_fit(&e)),
         },
     };
+    let measurements = Arc::new(measurements);
+    // Without a thread the comparison is not made: the fit stays without it.
+    let comparing = pending.and_then(|p: isochore_fit::PendingComparison| {
+        let points = measurements.clone();
+        std::thread::Builder::new()
+            .name("isochore-compare".into())
+            .spawn(move || p.run(&points))
+            .ok()
+    });
     let (band, ellipse, h_g_region, contours) = match &fit {
         Ok(f) => {
             let band = f.band_grid(BAND_POINTS, 0.08);
@@ -394,7 +406,7 @@ fn finish(
     let analysis = Analysis {
         rev,
         extent: prepared.extent,
-        measurements: Arc::new(measurements),
+        measurements,
         point_rows: prepared.point_rows.clone(),
         point_of_row: prepared.point_of_row.clone(),
         fit,
@@ -410,7 +422,7 @@ fn finish(
         errors_in_t,
         prepared: Some(prepared),
     };
-    (analysis, pending)
+    (analysis, comparing)
 }
 
 /// The fit with errors in T of a series that has σ(T) (the thermometer uncertainty setting
@@ -563,27 +575,26 @@ impl Fitter {
                 replace(&mut slot.current, a);
                 slot.pending = None;
             } else {
-                // A refit shows its estimates as soon as they are made; the model
-                // comparison follows from the same worker (the same numbers as a whole fit).
+                // A refit shows its estimates as soon as they are drawn; the model
+                // comparison, made meanwhile on a thread of its own, follows (the same
+                // numbers as a whole fit).
                 let job = slot.current.as_ref().and_then(|a| refit_job(s, a, true));
                 let (tx, rx) = channel();
                 let (done_tx, done_rx) = channel();
-                let work: Box<dyn FnOnce() -> (Analysis, Option<PendingComparison>) + Send> =
-                    match job {
-                        Some(job) => Box::new(job),
-                        None => {
-                            let copy = s.clone();
-                            Box::new(move || (analyse(&copy), None))
-                        }
-                    };
+                let work: Box<dyn FnOnce() -> (Analysis, Option<Comparing>) + Send> = match job {
+                    Some(job) => Box::new(job),
+                    None => {
+                        let copy = s.clone();
+                        Box::new(move || (analyse(&copy), None))
+                    }
+                };
                 let spawned = std::thread::Builder::new()
                     .name("isochore-fit".into())
                     .spawn(move || {
-                        let (a, pending) = work();
-                        let points = a.measurements.clone();
+                        let (a, comparing) = work();
                         let _ = tx.send(a);
-                        if let Some(p) = pending {
-                            let _ = done_tx.send(p.run(&points));
+                        if let Some(done) = comparing.and_then(|h| h.join().ok()) {
+                            let _ = done_tx.send(done);
                         }
                     });
                 match spawned {
