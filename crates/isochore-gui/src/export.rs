@@ -187,6 +187,12 @@ impl ExportJob {
                     s.name()
                 ));
             };
+            if fitter.comparison_pending(s.id) {
+                return Err(format!(
+                    "{}: the model comparison is still being worked out; try again in a moment.",
+                    s.name()
+                ));
+            }
             let file = &s.data.source.name;
             let several = project
                 .series

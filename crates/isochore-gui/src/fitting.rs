@@ -623,6 +623,12 @@ impl Fitter {
         self.slots.get(&id).and_then(|s| s.current.clone())
     }
 
+    /// Whether the series' current analysis still waits for its model comparison (a
+    /// large refit shows its estimates first): a report made now would lack it.
+    pub fn comparison_pending(&self, id: u64) -> bool {
+        self.slots.get(&id).is_some_and(|s| s.completing.is_some())
+    }
+
     /// Fits in flight.
     pub fn running(&self, series: &[Entry]) -> Vec<Running> {
         self.slots

@@ -123,3 +123,47 @@ fn a_large_refit_in_the_background_ends_as_the_analysis_made_from_the_cells() {
     assert!(same(&a, &analyse(entry(&p))));
     assert!(fitter.running(&p.series).is_empty());
 }
+
+#[test]
+fn no_report_is_written_while_a_large_refit_waits_for_its_comparison() {
+    // A large refit shows its estimates before its model comparison: a report started in
+    // that moment would lack the comparison, so the export refuses it in words; once the
+    // comparison is in place the analysis is whole again.
+    use isochore_gui::export::{ExportFormat, ExportJob, FormatSet};
+    let mut p = project(25_000, 1);
+    let mut fitter = Fitter::default();
+    fitter.update(&p.series, 0.0, true);
+    exclude(&mut p, 11);
+    let id = p.series[0].id;
+    let mut formats = FormatSet(0);
+    formats.set(ExportFormat::Markdown, true);
+    let dir = std::env::temp_dir().join(format!("isochore-refit-export-{}", std::process::id()));
+    let mut refused = 0;
+    for step in 0..20_000 {
+        fitter.update(&p.series, 1.0 + step as f64 * 1e-3, false);
+        let new = fitter
+            .get(id)
+            .is_some_and(|a| a.fit.as_ref().is_ok_and(|f| f.n_used() == 24_999));
+        if !new {
+            std::thread::sleep(std::time::Duration::from_millis(1));
+            continue;
+        }
+        if fitter.comparison_pending(id) {
+            let a = fitter.get(id).expect("fitted");
+            assert!(a.fit.as_ref().expect("fit").comparison().is_none());
+            let Err(why) = ExportJob::start(&p, &fitter, &[id], formats, &dir, "", "") else {
+                panic!("a report was started without the model comparison");
+            };
+            assert!(why.contains("model comparison"), "{why}");
+            refused += 1;
+            std::thread::sleep(std::time::Duration::from_millis(1));
+            continue;
+        }
+        break;
+    }
+    let a = fitter.get(id).expect("fitted");
+    assert!(a.fit.as_ref().expect("fit").comparison().is_some());
+    assert!(!fitter.comparison_pending(id));
+    eprintln!("exports refused while the comparison was pending: {refused}");
+    let _ = std::fs::remove_dir_all(&dir);
+}

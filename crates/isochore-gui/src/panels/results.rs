@@ -32,6 +32,7 @@ impl ResultsPanel {
         let Some(a) = cx.fitter.get(s.id) else {
             return;
         };
+        let comparison_pending = cx.fitter.comparison_pending(s.id);
         let flag = style::flag_color(cx.dark);
         let fit = match &a.fit {
             Ok(f) => f,
@@ -272,6 +273,10 @@ impl ResultsPanel {
                 ui.label(RichText::new(names::DELTA_AICC_SIGN).small().weak());
             }
             ui.label(names::data_support(present::model_name(c.preferred)));
+        } else if comparison_pending {
+            ui.add_space(4.0);
+            ui.label(RichText::new("Which model?").strong());
+            ui.label("Being worked out: the estimates above are final, the comparison follows.");
         }
         if !fit.warnings().is_empty() {
             ui.add_space(4.0);
