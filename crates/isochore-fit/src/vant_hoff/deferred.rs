@@ -115,16 +115,7 @@ mod tests {
     fn the_completed_fit_is_fit_s() {
         // Gently curved invented data with scatter and unequal σ, one point left out, over
         // the size from which the comparison is left for later.
-        let n = 25_000;
-        let mut pts: Vec<Measurement> = (0..n)
-            .map(|i| {
-                let t = 280.0 + 40.0 * i as f64 / n as f64;
-                let x = Model::CONSTANT_CP.row(t, 298.15);
-                let noise = 0.01 * ((i * 7919) % 13) as f64 / 13.0 - 0.005;
-                Measurement::new(t, x[0] * -30e3 + x[1] * -20.0 + x[2] * -300.0 + noise)
-                    .with_sigma(0.01 + 0.001 * (i % 5) as f64)
-            })
-            .collect();
+        let mut pts = crate::vant_hoff::tests::curved_points(25_000);
         pts[7].included = false;
         for model in [Model::LINEAR, Model::CONSTANT_CP, Model::CLARKE_GLEW] {
             let opts = FitOptions {

@@ -287,11 +287,10 @@ mod tests {
         assert!(!flagged(&used), "{:?}", used.warnings());
     }
 
-    #[test]
-    fn models_solved_beside_the_fit_give_the_serial_numbers() {
-        // Gently curved invented data with scatter and unequal σ.
-        let n = 3000;
-        let pts: Vec<Measurement> = (0..n)
+    /// `n` gently curved invented points (ΔCp° = −300 J/(mol K)) with scatter and unequal
+    /// σ, 280–320 K.
+    pub(super) fn curved_points(n: usize) -> Vec<Measurement> {
+        (0..n)
             .map(|i| {
                 let t = 280.0 + 40.0 * i as f64 / n as f64;
                 let x = Model::CONSTANT_CP.row(t, 298.15);
@@ -299,7 +298,12 @@ mod tests {
                 Measurement::new(t, x[0] * -30e3 + x[1] * -20.0 + x[2] * -300.0 + noise)
                     .with_sigma(0.01 + 0.001 * (i % 5) as f64)
             })
-            .collect();
+            .collect()
+    }
+
+    #[test]
+    fn models_solved_beside_the_fit_give_the_serial_numbers() {
+        let pts = curved_points(3000);
         for model in [Model::LINEAR, Model::CONSTANT_CP, Model::CLARKE_GLEW] {
             let opts = FitOptions {
                 model,
