@@ -62,6 +62,10 @@ pub struct Analysis {
     pub flagged: Vec<bool>,
     /// Data extent on the van 't Hoff plot: [min 10³/T, max 10³/T, min ln K, max ln K].
     pub extent: Option<[f64; 4]>,
+    /// Whether the residual and influence indexes and the flags are still being made: a large
+    /// refit shows its estimates first and these follow with the model comparison (until
+    /// then the indexes and `flagged` are empty and the diagnostics plots say they follow).
+    pub plots_pending: bool,
     /// Cook's-distance contours for the influence view: (D, upper branch points (h, t)) in
     /// the plane of leverage against the externally studentized residual.
     pub cooks_contours: Vec<(f64, Vec<[f64; 2]>)>,
@@ -232,6 +236,7 @@ pub fn analyse(series: &Entry) -> Analysis {
                 resid_index: Arc::default(),
                 infl_index: Arc::default(),
                 flagged: Vec::new(),
+                plots_pending: false,
                 extent: None,
                 cooks_contours: Vec::new(),
                 errors_in_t: None,
@@ -253,13 +258,62 @@ pub fn analyse(series: &Entry) -> Analysis {
 /// A large fit's model comparison, being made on a thread of its own.
 type Comparing = std::thread::JoinHandle<CompletedComparison>;
 
-/// The analysis with its model comparison in place, if it was left for later.
-fn complete((mut analysis, comparing): (Analysis, Option<Comparing>)) -> Analysis {
-    if let Some(done) = comparing.and_then(|h| h.join().ok()) {
-        if let Ok(f) = &mut analysis.fit {
-            f.complete_comparison(done);
+/// What a large refit leaves for after its estimates are shown: the model comparison
+/// (already running on a thread of its own) and the residual and influence indexes with
+/// the flags (made by [`Deferred::run`], on the worker, from a copy of the fit).
+#[derive(Default)]
+struct Deferred {
+    comparing: Option<Comparing>,
+    plots: Option<(VantHoffFit, Arc<Prepared>)>,
+}
+
+/// The residual and influence indexes and the points' flags of a large fit.
+struct Plots {
+    resid_index: EnvelopeIndex,
+    infl_index: EnvelopeIndex,
+    flagged: Vec<bool>,
+}
+
+/// What [`Deferred::run`] gives, to be put into the analysis ([`Later::apply`]).
+struct Later {
+    comparison: Option<CompletedComparison>,
+    plots: Option<Plots>,
+}
+
+impl Deferred {
+    fn is_empty(&self) -> bool {
+        self.comparing.is_none() && self.plots.is_none()
+    }
+
+    /// Makes the plots' indexes (while the comparison runs) and waits for the comparison.
+    fn run(self) -> Later {
+        let plots = self.plots.map(|(f, prepared)| plots_of(&f, &prepared));
+        let comparison = self.comparing.and_then(|h| h.join().ok());
+        Later { comparison, plots }
+    }
+}
+
+impl Later {
+    /// Puts the comparison and the plots' indexes into `analysis`: then it is the analysis
+    /// a whole fit gives.
+    fn apply(self, analysis: &mut Analysis) {
+        if let Some(done) = self.comparison {
+            if let Ok(f) = &mut analysis.fit {
+                f.complete_comparison(done);
+            }
+        }
+        if let Some(p) = self.plots {
+            analysis.resid_index = Arc::new(p.resid_index);
+            analysis.infl_index = Arc::new(p.infl_index);
+            analysis.flagged = p.flagged;
+            analysis.plots_pending = false;
         }
     }
+}
+
+/// The analysis with what was left for later in place.
+fn complete((mut analysis, deferred): (Analysis, Deferred)) -> Analysis {
+    deferred.run().apply(&mut analysis);
     analysis
 }
 
@@ -277,7 +331,7 @@ fn refit_job(
     series: &Entry,
     previous: &Analysis,
     defer: bool,
-) -> Option<impl FnOnce() -> (Analysis, Option<Comparing>) + Send> {
+) -> Option<impl FnOnce() -> (Analysis, Deferred) + Send> {
     let prepared = previous.prepared.clone()?;
     if !prepared.serves(series) {
         return None;
@@ -293,15 +347,16 @@ fn refit_job(
 /// The fit of `measurements` (the points of `prepared` with their current "included"
 /// marks) and everything drawn from it. With `defer`, a large data set's model comparison
 /// is left out of the fit (`isochore_fit::fit_estimates_first`; nothing else drawn here
-/// depends on it) and made on a thread of its own while the rest is drawn; its handle is
-/// returned beside the analysis.
+/// depends on it) and made on a thread of its own, and the residual and influence indexes
+/// and the flags (a pass computing every point's diagnostics) are left for later too: both
+/// are returned beside the analysis ([`Deferred`]).
 fn finish(
     rev: u64,
     prepared: Arc<Prepared>,
     measurements: Vec<Measurement>,
     errors_in_t: Option<Result<isochore_fit::errors_in_t::ErrorsInTFit, String>>,
     defer: bool,
-) -> (Analysis, Option<Comparing>) {
+) -> (Analysis, Deferred) {
     let mut pending = None;
     let (fit, remedy) = match &prepared.weighed {
         Err(e) => (Err(e.clone()), Some(Remedy::FitUnweighted)),
@@ -362,47 +417,39 @@ fn finish(
         }
         Err(_) => (Vec::new(), None, None, Vec::new()),
     };
-    let mut flagged = vec![false; if fit.is_ok() { measurements.len() } else { 0 }];
-    let (resid_index, infl_index) = match &fit {
-        Ok(f) if prepared.large => {
-            // One pass over the points' diagnostics, each computed as it is reached and
-            // none kept (`points_iter`): a million records (168 MB) are never made; the
-            // panels compute the few they draw the same way (`VantHoffFit::point`).
-            let mut t_residual = vec![[f64::NAN; 2]; prepared.measurements.len()];
-            let mut influence = Vec::with_capacity(prepared.measurements.len());
-            for d in f.points_iter() {
-                if let Some(slot) = t_residual.get_mut(d.index) {
-                    *slot = [d.t_k, d.residual];
-                }
-                if let Some(slot) = flagged.get_mut(d.index) {
-                    *slot = d.flags.any();
-                }
-                if let Some([h, t]) = isochore_fit::influence::influence_coordinates(&d) {
-                    if h.is_finite() && t.is_finite() {
-                        influence.push((d.index as u32, h, t));
-                    }
-                }
-            }
-            let resid = EnvelopeIndex::from_sorted(
-                prepared
-                    .t_order
-                    .iter()
-                    .filter_map(|&k| t_residual.get(k as usize).map(|&[t, r]| (k, t, r))),
-            );
-            // The points arrive by index, so the radix sort applies.
-            sort_by_x_then_id(&mut influence);
-            (resid, EnvelopeIndex::from_sorted(influence))
+    let mut deferred = Deferred {
+        comparing,
+        plots: None,
+    };
+    let (plots, plots_pending) = match &fit {
+        Ok(f) if prepared.large && defer => {
+            deferred.plots = Some((f.clone(), prepared.clone()));
+            (None, true)
         }
+        Ok(f) if prepared.large => (Some(plots_of(f, &prepared)), false),
         Ok(f) => {
+            let mut flagged = vec![false; measurements.len()];
             for k in f.flagged_points() {
                 if let Some(slot) = flagged.get_mut(k) {
                     *slot = true;
                 }
             }
-            (EnvelopeIndex::default(), EnvelopeIndex::default())
+            (
+                Some(Plots {
+                    resid_index: EnvelopeIndex::default(),
+                    infl_index: EnvelopeIndex::default(),
+                    flagged,
+                }),
+                false,
+            )
         }
-        Err(_) => (EnvelopeIndex::default(), EnvelopeIndex::default()),
+        Err(_) => (None, false),
     };
+    let plots = plots.unwrap_or(Plots {
+        resid_index: EnvelopeIndex::default(),
+        infl_index: EnvelopeIndex::default(),
+        flagged: Vec::new(),
+    });
     let analysis = Analysis {
         rev,
         extent: prepared.extent,
@@ -415,14 +462,52 @@ fn finish(
         ellipse,
         h_g_region,
         vh_index: prepared.vh_index.clone(),
-        resid_index: Arc::new(resid_index),
-        infl_index: Arc::new(infl_index),
-        flagged,
+        resid_index: Arc::new(plots.resid_index),
+        infl_index: Arc::new(plots.infl_index),
+        flagged: plots.flagged,
+        plots_pending,
         cooks_contours: contours,
         errors_in_t,
         prepared: Some(prepared),
     };
-    (analysis, comparing)
+    (analysis, deferred)
+}
+
+/// A large fit's residual and influence indexes and its points' flags, from one pass over
+/// the points' diagnostics, each computed as it is reached and none kept (`points_iter`):
+/// a million records (168 MB) are never made; the panels compute the few they draw the
+/// same way (`VantHoffFit::point`).
+fn plots_of(f: &VantHoffFit, prepared: &Prepared) -> Plots {
+    let n = prepared.measurements.len();
+    let mut flagged = vec![false; n];
+    let mut t_residual = vec![[f64::NAN; 2]; n];
+    let mut influence = Vec::with_capacity(n);
+    for d in f.points_iter() {
+        if let Some(slot) = t_residual.get_mut(d.index) {
+            *slot = [d.t_k, d.residual];
+        }
+        if let Some(slot) = flagged.get_mut(d.index) {
+            *slot = d.flags.any();
+        }
+        if let Some([h, t]) = isochore_fit::influence::influence_coordinates(&d) {
+            if h.is_finite() && t.is_finite() {
+                influence.push((d.index as u32, h, t));
+            }
+        }
+    }
+    let resid_index = EnvelopeIndex::from_sorted(
+        prepared
+            .t_order
+            .iter()
+            .filter_map(|&k| t_residual.get(k as usize).map(|&[t, r]| (k, t, r))),
+    );
+    // The points arrive by index, so the radix sort applies.
+    sort_by_x_then_id(&mut influence);
+    Plots {
+        resid_index,
+        infl_index: EnvelopeIndex::from_sorted(influence),
+        flagged,
+    }
 }
 
 /// The fit with errors in T of a series that has σ(T) (the thermometer uncertainty setting
@@ -462,20 +547,17 @@ fn replace(slot: &mut Option<Arc<Analysis>>, new: Analysis) {
 struct Slot {
     current: Option<Arc<Analysis>>,
     pending: Option<(u64, Receiver<Analysis>, f64)>,
-    /// The model comparison of a large refit, made after its estimates were shown: the
-    /// revision it belongs to, and the worker's answer to come (`Err`) or come (`Ok`, kept
-    /// until the analysis can be changed: no panel holding it).
-    completing: Option<(
-        u64,
-        Result<CompletedComparison, Receiver<CompletedComparison>>,
-    )>,
+    /// The model comparison and the plots' indexes of a large refit, made after its
+    /// estimates were shown: the revision they belong to, and the worker's answer to come
+    /// (`Err`) or come (`Ok`, kept until the analysis can be changed: no panel holding it).
+    completing: Option<(u64, Result<Later, Receiver<Later>>)>,
     /// When the fit whose comparison is awaited started (the app's clock).
     completing_since: f64,
 }
 
 impl Slot {
-    /// Puts a finished comparison into the current analysis of its revision; waits for
-    /// the worker when `block`.
+    /// Puts a finished comparison and the plots' indexes into the current analysis of their
+    /// revision; waits for the worker when `block`.
     fn complete(&mut self, block: bool) {
         let Some((rev, state)) = self.completing.take() else {
             return;
@@ -501,11 +583,7 @@ impl Slot {
         };
         match self.current.as_mut() {
             Some(a) if a.rev == rev => match Arc::get_mut(a) {
-                Some(a) => {
-                    if let Ok(f) = &mut a.fit {
-                        f.complete_comparison(done);
-                    }
-                }
+                Some(a) => done.apply(a),
                 // A panel still holds it: next time.
                 None => self.completing = Some((rev, Ok(done))),
             },
@@ -581,20 +659,20 @@ impl Fitter {
                 let job = slot.current.as_ref().and_then(|a| refit_job(s, a, true));
                 let (tx, rx) = channel();
                 let (done_tx, done_rx) = channel();
-                let work: Box<dyn FnOnce() -> (Analysis, Option<Comparing>) + Send> = match job {
+                let work: Box<dyn FnOnce() -> (Analysis, Deferred) + Send> = match job {
                     Some(job) => Box::new(job),
                     None => {
                         let copy = s.clone();
-                        Box::new(move || (analyse(&copy), None))
+                        Box::new(move || (analyse(&copy), Deferred::default()))
                     }
                 };
                 let spawned = std::thread::Builder::new()
                     .name("isochore-fit".into())
                     .spawn(move || {
-                        let (a, comparing) = work();
+                        let (a, deferred) = work();
                         let _ = tx.send(a);
-                        if let Some(done) = comparing.and_then(|h| h.join().ok()) {
-                            let _ = done_tx.send(done);
+                        if !deferred.is_empty() {
+                            let _ = done_tx.send(deferred.run());
                         }
                     });
                 match spawned {
@@ -626,7 +704,12 @@ impl Fitter {
     /// Whether the series' current analysis still waits for its model comparison (a
     /// large refit shows its estimates first): a report made now would lack it.
     pub fn comparison_pending(&self, id: u64) -> bool {
-        self.slots.get(&id).is_some_and(|s| s.completing.is_some())
+        self.slots.get(&id).is_some_and(|s| {
+            s.completing.is_some()
+                && s.current
+                    .as_ref()
+                    .is_some_and(|a| a.fit.as_ref().is_ok_and(|f| f.comparison_pending()))
+        })
     }
 
     /// Fits in flight.

@@ -120,6 +120,9 @@ fn a_large_refit_in_the_background_ends_as_the_analysis_made_from_the_cells() {
     let fit = a.fit.as_ref().expect("fit");
     assert!(!fit.comparison_pending() && fit.comparison().is_some());
     assert_eq!(fit.n_used(), 24_999);
+    // The residual and influence indexes and the flags, made after the estimates were
+    // shown, are in place too.
+    assert!(!a.plots_pending && !a.resid_index.is_empty() && !a.infl_index.is_empty());
     assert!(same(&a, &analyse(entry(&p))));
     assert!(fitter.running(&p.series).is_empty());
 }
@@ -151,6 +154,8 @@ fn no_report_is_written_while_a_large_refit_waits_for_its_comparison() {
         if fitter.comparison_pending(id) {
             let a = fitter.get(id).expect("fitted");
             assert!(a.fit.as_ref().expect("fit").comparison().is_none());
+            // The plots' indexes come with the comparison: until then none is shown.
+            assert!(a.plots_pending && a.resid_index.is_empty() && a.flagged.is_empty());
             let Err(why) = ExportJob::start(&p, &fitter, &[id], formats, &dir, "", "") else {
                 panic!("a report was started without the model comparison");
             };
@@ -164,6 +169,8 @@ fn no_report_is_written_while_a_large_refit_waits_for_its_comparison() {
     let a = fitter.get(id).expect("fitted");
     assert!(a.fit.as_ref().expect("fit").comparison().is_some());
     assert!(!fitter.comparison_pending(id));
+    assert!(!a.plots_pending && !a.infl_index.is_empty() && a.flagged.len() == 25_000);
+    assert!(same(&a, &analyse(entry(&p))));
     eprintln!("exports refused while the comparison was pending: {refused}");
     let _ = std::fs::remove_dir_all(&dir);
 }

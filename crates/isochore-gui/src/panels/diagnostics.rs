@@ -45,6 +45,11 @@ impl DiagnosticsPanel {
         let Ok(fit) = a.fit.as_ref() else {
             return;
         };
+        if a.plots_pending {
+            // A large refit shows its estimates first; these plots' indexes follow.
+            ui.weak("The residual and influence plots follow in a moment.");
+            return;
+        }
         let idx = cx.project.index_of(s.id).unwrap_or(0);
         let color = style::series_color(idx);
         let shape = style::series_shape(idx);
