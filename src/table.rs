@@ -164,9 +164,7 @@ pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<
                 "  row {} (line {}): {}",
                 r.row,
                 r.line,
-                r.exclusion_reason
-                    .as_deref()
-                    .unwrap_or("no reason recorded")
+                r.exclusion_reason.unwrap_or("no reason recorded")
             )
         })
         .collect();
