@@ -15,8 +15,37 @@ mod common;
 use common::big_project;
 use criterion::{criterion_group, criterion_main, Criterion};
 use isochore_gui::command::{apply, Command};
+use isochore_gui::doc::Project;
 use isochore_gui::fitting::{analyse, Fitter};
 use std::time::{Duration, Instant};
+
+/// Excludes a row, then brings it back, then excludes another (every 7919th): each refit
+/// fits a different set of points.
+#[derive(Default)]
+struct Toggle {
+    row: usize,
+    excluded: bool,
+}
+
+impl Toggle {
+    fn next(&mut self, project: &mut Project, id: u64) {
+        self.excluded = !self.excluded;
+        if self.excluded {
+            self.row = (self.row + 7919) % 1_000_000;
+        }
+        apply(
+            project,
+            Command::SetExclusion {
+                series: id,
+                row: self.row,
+                exclusion: self
+                    .excluded
+                    .then(|| ("bench".into(), "2026-12-03T12:00:00Z".into())),
+            },
+        )
+        .expect("row exists");
+    }
+}
 
 fn refit(c: &mut Criterion) {
     let mut project = big_project(1_000_000);
@@ -28,26 +57,13 @@ fn refit(c: &mut Criterion) {
         "first analysis of 10⁶ points (from the cells): {:.2?}",
         start.elapsed()
     );
-    let mut row = 0usize;
-    let mut excluded = false;
+    let mut toggle = Toggle::default();
     let mut group = c.benchmark_group("refit, 10^6 points");
     group.sample_size(10);
     group.measurement_time(Duration::from_secs(10));
     group.bench_function("after an exclusion (the window's path)", |b| {
         b.iter(|| {
-            excluded = !excluded;
-            if excluded {
-                row = (row + 7919) % 1_000_000;
-            }
-            apply(
-                &mut project,
-                Command::SetExclusion {
-                    series: id,
-                    row,
-                    exclusion: excluded.then(|| ("bench".into(), "2026-12-03T12:00:00Z".into())),
-                },
-            )
-            .expect("row exists");
+            toggle.next(&mut project, id);
             fitter.update(&project.series, 0.0, true);
             std::hint::black_box(fitter.get(id));
         })
@@ -58,20 +74,7 @@ fn refit(c: &mut Criterion) {
             b.iter_custom(|iters| {
                 let mut shown = Duration::ZERO;
                 for _ in 0..iters {
-                    excluded = !excluded;
-                    if excluded {
-                        row = (row + 7919) % 1_000_000;
-                    }
-                    apply(
-                        &mut project,
-                        Command::SetExclusion {
-                            series: id,
-                            row,
-                            exclusion: excluded
-                                .then(|| ("bench".into(), "2026-12-03T12:00:00Z".into())),
-                        },
-                    )
-                    .expect("row exists");
+                    toggle.next(&mut project, id);
                     let rev = project.series[0].rev;
                     let start = Instant::now();
                     loop {
