@@ -75,6 +75,22 @@ impl Lanes {
         }
     }
 
+    /// Adds the terms of a block of `m` rows from the view's row `rel` (a multiple of
+    /// [`LANES`]): a whole block inside the leading multiple of eight adds lane by lane,
+    /// which is the same as adding its rows in turn.
+    #[inline(always)]
+    fn push_block(&mut self, rel: usize, m: usize, v: &[f64; LANES]) {
+        if m == LANES && rel + LANES <= self.full {
+            for (a, x) in self.acc.iter_mut().zip(v) {
+                *a += x;
+            }
+        } else {
+            for (d, &x) in v[..m].iter().enumerate() {
+                self.push(rel + d, x);
+            }
+        }
+    }
+
     fn combine(&mut self) {
         let a = self.acc;
         let mut res = 0.0;
@@ -94,6 +110,15 @@ impl Lanes {
     }
 }
 
+/// Rows formed and reflected together: a block of eight rows of a view (starting at a
+/// multiple of eight from the view's first row) adds one term to each of `Lanes`' partial
+/// sums, so a block is reduced lane by lane and the loops over it vectorise. Each lane's
+/// arithmetic is the row's own, so a row's numbers do not depend on its block.
+const LANES: usize = 8;
+
+/// A block of rows, slot by slot: `b[j][lane]`.
+type Block = [[f64; LANES]; SLOTS];
+
 /// One Householder reflection as nalgebra makes it (`reflection_axis_mut`,
 /// `Reflection::reflect_with_sign`).
 #[derive(Debug, Clone, Copy, Default)]
@@ -110,19 +135,39 @@ struct Reflection {
 }
 
 impl Reflection {
-    /// Applies reflection `k` to a row's slots k + 1 .. `upto` and, `with_f`, to f;
-    /// `first` for the view's first row (row k).
+    /// Applies reflection `k` to a block's slots k + 1 .. `upto` and, `with_f`, to f; with
+    /// `first`, lane 0 is the view's first row (row k).
     #[inline(always)]
-    fn apply(&self, k: usize, upto: usize, with_f: bool, v: &mut [f64; SLOTS], first: bool) {
-        let x = if first { v[k] + self.signed_norm } else { v[k] };
-        let axis = x / self.sf / self.nrm;
+    fn apply(&self, k: usize, upto: usize, with_f: bool, v: &mut Block, first: bool) {
+        let mut x = v[k];
+        if first {
+            x[0] += self.signed_norm;
+        }
+        let mut axis = [0.0; LANES];
+        for (a, x) in axis.iter_mut().zip(&x) {
+            *a = x / self.sf / self.nrm;
+        }
+        let one = |j: usize, v: &mut [f64; LANES]| {
+            let (factor, sign) = (self.factor[j], self.sign);
+            for (e, a) in v.iter_mut().zip(&axis) {
+                *e = factor * a * 1.0 + sign * *e;
+            }
+        };
         for j in k + 1..upto {
-            v[j] = self.factor[j] * axis * 1.0 + self.sign * v[j];
+            one(j, &mut v[j]);
         }
         if with_f {
-            v[F] = self.factor[F] * axis * 1.0 + self.sign * v[F];
+            one(F, &mut v[F]);
         }
     }
+}
+
+/// Which row formula a [`Source`] calls: the shipped models' inlined (so a block's rows
+/// vectorise), any other model's through its [`Model`] handle.
+#[derive(Clone, Copy)]
+enum Formula {
+    ClarkeGlew,
+    Other,
 }
 
 /// Where the rows come from: the included points, their ln(T/θ), the weighting and the
@@ -131,10 +176,31 @@ struct Source<'a> {
     points: &'a [Measurement],
     logs: Vec<f64>,
     model: Model,
+    formula: Formula,
     theta: f64,
     weighted: bool,
     p: usize,
     inv_scale: [f64; MAX_STREAMED_COLUMNS],
+}
+
+/// The used points' T, ln(T/θ), σ (NaN for none) and ln K of one block; unused lanes hold
+/// harmless numbers.
+struct Inputs {
+    t: [f64; LANES],
+    l: [f64; LANES],
+    s: [f64; LANES],
+    y: [f64; LANES],
+}
+
+impl Default for Inputs {
+    fn default() -> Self {
+        Inputs {
+            t: [1.0; LANES],
+            l: [0.0; LANES],
+            s: [1.0; LANES],
+            y: [0.0; LANES],
+        }
+    }
 }
 
 impl Source<'_> {
@@ -151,22 +217,53 @@ impl Source<'_> {
         }
     }
 
-    /// The weighted, column-equilibrated row and √w·y, as `Scaled::row_into` forms them.
+    /// The weighted, column-equilibrated rows and √w·y of a block, as `Scaled::row_into`
+    /// forms them (lane by lane the same operations as [`Source::raw`]).
     #[inline(always)]
-    fn scaled(&self, pt: &Measurement, l: f64) -> [f64; SLOTS] {
-        let mut raw = [0.0; MAX_STREAMED_COLUMNS];
-        let sw = self.raw(pt, l, &mut raw);
-        let mut v = [0.0; SLOTS];
-        for j in 0..self.p {
-            v[j] = raw[j] * sw * self.inv_scale[j];
+    fn scaled(&self, inp: &Inputs, v: &mut Block) {
+        let mut raw = [[0.0; LANES]; MAX_STREAMED_COLUMNS];
+        match self.formula {
+            Formula::ClarkeGlew => {
+                for i in 0..LANES {
+                    let r = crate::models::clarke_glew::row(inp.t[i], self.theta, inp.l[i]);
+                    for j in 0..MAX_STREAMED_COLUMNS {
+                        raw[j][i] = r[j];
+                    }
+                }
+            }
+            Formula::Other => {
+                for i in 0..LANES {
+                    let mut r = [0.0; MAX_STREAMED_COLUMNS];
+                    self.model
+                        .row_with_log_into(inp.t[i], self.theta, inp.l[i], &mut r[..self.p]);
+                    for j in 0..MAX_STREAMED_COLUMNS {
+                        raw[j][i] = r[j];
+                    }
+                }
+            }
         }
-        v[self.p] = pt.ln_k * sw;
-        v
+        let mut sw = [1.0; LANES];
+        if self.weighted {
+            for (w, s) in sw.iter_mut().zip(&inp.s) {
+                *w = (1.0 / (s * s)).sqrt();
+            }
+        }
+        for j in 0..self.p {
+            let inv = self.inv_scale[j];
+            for i in 0..LANES {
+                v[j][i] = raw[j][i] * sw[i] * inv;
+            }
+        }
+        for i in 0..LANES {
+            v[self.p][i] = inp.y[i] * sw[i];
+        }
     }
 
-    /// Calls `f(row - from, slots)` for every row from `from` on, with the reflections
-    /// `refl` applied (rows at or after `from` are below each of them) to the slots before
-    /// `upto` and, `with_f`, to f; `init(row, slots)` writes f first.
+    /// Calls `f(rel, row, m, block)` for the rows from `from` on, a block of `m` ≤
+    /// [`LANES`] at a time (`rel` the first one's place in the view that starts at `from`,
+    /// a multiple of [`LANES`]; `row` its number among the used points), with the
+    /// reflections `refl` applied (rows at or after `from` are below each of them) to the
+    /// slots before `upto` and, `with_f`, to f; `init(row, m, block)` writes f first.
     #[inline(always)]
     #[allow(clippy::too_many_arguments)]
     fn rows(
@@ -175,29 +272,52 @@ impl Source<'_> {
         refl: &[Reflection],
         upto: usize,
         with_f: bool,
-        init: impl Fn(usize, &mut [f64; SLOTS]),
-        mut f: impl FnMut(usize, &[f64; SLOTS]),
+        init: impl Fn(usize, usize, &mut Block),
+        mut f: impl FnMut(usize, usize, usize, &Block),
     ) {
-        let used = self.points.iter().filter(|p| p.included);
-        for (i, (pt, &l)) in used.zip(&self.logs).enumerate().skip(from) {
-            let mut v = self.scaled(pt, l);
-            init(i, &mut v);
+        let mut used = self
+            .points
+            .iter()
+            .filter(|p| p.included)
+            .zip(&self.logs)
+            .skip(from);
+        let mut row = from;
+        let mut v: Block = [[0.0; LANES]; SLOTS];
+        loop {
+            let mut inp = Inputs::default();
+            let mut m = 0;
+            for (pt, &l) in used.by_ref().take(LANES) {
+                inp.t[m] = pt.t_k;
+                inp.l[m] = l;
+                inp.s[m] = pt.sigma_ln_k.unwrap_or(f64::NAN);
+                inp.y[m] = pt.ln_k;
+                m += 1;
+            }
+            if m == 0 {
+                break;
+            }
+            self.scaled(&inp, &mut v);
+            init(row, m, &mut v);
             for (k, r) in refl.iter().enumerate() {
                 r.apply(k, upto, with_f, &mut v, false);
             }
-            f(i - from, &v);
+            f(row - from, row, m, &v);
+            row += m;
+            if m < LANES {
+                break;
+            }
         }
     }
 
-    /// Row `k` as [`Source::rows`] gives it, but the reflection numbered k (when `refl`
-    /// reaches it) has row k as its first row.
+    /// Row `k` (lane 0 of the block) as [`Source::rows`] gives it, but the reflection
+    /// numbered k (when `refl` reaches it) has row k as its first row.
     fn row(
         &self,
         k: usize,
         refl: &[Reflection],
         upto: usize,
         with_f: bool,
-        init: impl Fn(usize, &mut [f64; SLOTS]),
+        init: impl Fn(usize, usize, &mut Block),
     ) -> [f64; SLOTS] {
         let (pt, l) = self
             .points
@@ -207,12 +327,18 @@ impl Source<'_> {
             .nth(k)
             .map(|(p, l)| (*p, *l))
             .unwrap_or((Measurement::new(f64::NAN, f64::NAN), f64::NAN));
-        let mut v = self.scaled(&pt, l);
-        init(k, &mut v);
+        let mut inp = Inputs::default();
+        inp.t[0] = pt.t_k;
+        inp.l[0] = l;
+        inp.s[0] = pt.sigma_ln_k.unwrap_or(f64::NAN);
+        inp.y[0] = pt.ln_k;
+        let mut v: Block = [[0.0; LANES]; SLOTS];
+        self.scaled(&inp, &mut v);
+        init(k, 1, &mut v);
         for (r, refl) in refl.iter().enumerate() {
             refl.apply(r, upto, with_f, &mut v, r == k);
         }
-        v
+        std::array::from_fn(|j| v[j][0])
     }
 }
 
@@ -239,6 +365,11 @@ pub(crate) fn weighted_rss_streamed(
         points,
         logs: Vec::with_capacity(n),
         model,
+        formula: if model == Model::CLARKE_GLEW {
+            Formula::ClarkeGlew
+        } else {
+            Formula::Other
+        },
         theta,
         weighted,
         p,
@@ -293,12 +424,18 @@ pub(crate) fn weighted_rss_streamed(
             &refl,
             k + 1,
             false,
-            |_, _| (),
-            |rel, v| {
+            |_, _, _| (),
+            |rel, _, m, v| {
                 if k == 0 {
-                    finite &= v[..slots].iter().all(|x| x.is_finite());
+                    finite &= v[..slots]
+                        .iter()
+                        .all(|x| x[..m].iter().all(|x| x.is_finite()));
                 }
-                sq.push(rel, v[k] * v[k]);
+                let mut t = [0.0; LANES];
+                for (t, x) in t.iter_mut().zip(&v[k]) {
+                    *t = x * x;
+                }
+                sq.push_block(rel, m, &t);
             },
         );
         if !finite {
@@ -306,7 +443,7 @@ pub(crate) fn weighted_rss_streamed(
         }
         let sq = sq.total();
         let norm = sq.sqrt();
-        let x0 = src.row(k, &refl, k + 1, false, |_, _| ())[k];
+        let x0 = src.row(k, &refl, k + 1, false, |_, _, _| ())[k];
         let (modulus, sign0) = if x0 >= 0.0 { (x0, 1.0) } else { (-x0, -1.0) };
         let signed_norm = sign0 * norm;
         let factor = (sq + modulus * norm) * 2.0;
@@ -320,11 +457,18 @@ pub(crate) fn weighted_rss_streamed(
             &refl,
             k + 1,
             false,
-            |_, _| (),
-            |rel, v| {
-                let x = if rel == 0 { v[k] + signed_norm } else { v[k] };
-                let u = x / sf;
-                nsq.push(rel, u * u);
+            |_, _, _| (),
+            |rel, _, m, v| {
+                let mut x = v[k];
+                if rel == 0 {
+                    x[0] += signed_norm;
+                }
+                let mut t = [0.0; LANES];
+                for (t, x) in t.iter_mut().zip(&x) {
+                    let u = x / sf;
+                    *t = u * u;
+                }
+                nsq.push_block(rel, m, &t);
             },
         );
         let nrm = nsq.total().sqrt();
@@ -339,12 +483,22 @@ pub(crate) fn weighted_rss_streamed(
             &refl,
             slots,
             false,
-            |_, _| (),
-            |rel, v| {
-                let x = if rel == 0 { v[k] + signed_norm } else { v[k] };
-                let axis = x / sf / nrm;
+            |_, _, _| (),
+            |rel, _, m, v| {
+                let mut x = v[k];
+                if rel == 0 {
+                    x[0] += signed_norm;
+                }
+                let mut axis = [0.0; LANES];
+                for (a, x) in axis.iter_mut().zip(&x) {
+                    *a = x / sf / nrm;
+                }
                 for j in k + 1..slots {
-                    dots[j].push(rel, axis * v[j]);
+                    let mut t = [0.0; LANES];
+                    for ((t, a), e) in t.iter_mut().zip(&axis).zip(&v[j]) {
+                        *t = a * e;
+                    }
+                    dots[j].push_block(rel, m, &t);
                 }
             },
         );
@@ -361,7 +515,7 @@ pub(crate) fn weighted_rss_streamed(
         }
         refl.push(this);
         // Row k is final: R's row k and (Qᵀb)ₖ; R's diagonal is |signed norm| (`QR::r`).
-        let v = src.row(k, &refl, slots, false, |_, _| ());
+        let v = src.row(k, &refl, slots, false, |_, _, _| ());
         r[(k, k)] = reflection_norm.abs();
         for j in k + 1..p {
             r[(k, j)] = v[j];
@@ -395,10 +549,12 @@ pub(crate) fn weighted_rss_streamed(
         &[],
         0,
         false,
-        |_, _| (),
-        |_, v| {
-            let res = residual(v, &neg_x);
-            ss += res * res;
+        |_, _, _| (),
+        |_, _, m, v| {
+            for i in 0..m {
+                let res = residual(&lane(v, i), &neg_x);
+                ss += res * res;
+            }
         },
     );
     let bound = qr_error_bound(&r, x.norm(), ss.sqrt(), p);
@@ -417,32 +573,33 @@ pub(crate) fn weighted_rss_streamed(
             let mut g_hi = [0.0; MAX_STREAMED_COLUMNS];
             let mut g_lo = [0.0; MAX_STREAMED_COLUMNS];
             ss = -0.0;
-            let mut i = 0;
             src.rows(
                 0,
                 &[],
                 0,
                 false,
-                |_, _| (),
-                |_, v| {
-                    let ri = &mut res[i];
-                    if first {
-                        *ri = residual(v, &neg_x);
-                    } else if let Some(dx) = &pending {
-                        let adx: f64 = v[..p].iter().zip(dx).map(|(r, d)| r * d).sum();
-                        *ri += f[i] - adx;
+                |_, _, _| (),
+                |_, row, m, v| {
+                    for (i, v) in (row..row + m).zip((0..m).map(|l| lane(v, l))) {
+                        let v = &v;
+                        let ri = &mut res[i];
+                        if first {
+                            *ri = residual(v, &neg_x);
+                        } else if let Some(dx) = &pending {
+                            let adx: f64 = v[..p].iter().zip(dx).map(|(r, d)| r * d).sum();
+                            *ri += f[i] - adx;
+                        }
+                        let ri = *ri;
+                        ss += ri * ri;
+                        let (b_minus_r, e0) = two_sum(v[p], -ri);
+                        f[i] = dot2(b_minus_r, &v[..p], &neg_x) + e0;
+                        for j in 0..p {
+                            let (h, e1) = two_prod(-v[j], ri);
+                            let (q, e2) = two_sum(g_hi[j], h);
+                            g_hi[j] = q;
+                            g_lo[j] += e1 + e2;
+                        }
                     }
-                    let ri = *ri;
-                    ss += ri * ri;
-                    let (b_minus_r, e0) = two_sum(v[p], -ri);
-                    f[i] = dot2(b_minus_r, &v[..p], &neg_x) + e0;
-                    for j in 0..p {
-                        let (h, e1) = two_prod(-v[j], ri);
-                        let (q, e2) = two_sum(g_hi[j], h);
-                        g_hi[j] = q;
-                        g_lo[j] += e1 + e2;
-                    }
-                    i += 1;
                 },
             );
             first = false;
@@ -450,14 +607,23 @@ pub(crate) fn weighted_rss_streamed(
             let g = DVector::from_iterator(p, g_hi.iter().zip(&g_lo).take(p).map(|(h, l)| h + l));
             let d1 = r.tr_solve_upper_triangular(&g)?;
             // Qᵀf, one reflection at a time.
-            let init = |i: usize, v: &mut [f64; SLOTS]| v[F] = f[i];
+            let init = |row: usize, m: usize, v: &mut Block| {
+                v[F][..m].copy_from_slice(&f[row..row + m]);
+            };
             let mut qtf = DVector::<f64>::zeros(p);
             for k in 0..p {
                 let mut dot = Lanes::new(n - k);
                 let (signed_norm, sf, nrm) = (refl[k].signed_norm, refl[k].sf, refl[k].nrm);
-                src.rows(k, &refl[..k], k + 1, true, init, |rel, v| {
-                    let x = if rel == 0 { v[k] + signed_norm } else { v[k] };
-                    dot.push(rel, x / sf / nrm * v[F]);
+                src.rows(k, &refl[..k], k + 1, true, init, |rel, _, m, v| {
+                    let mut x = v[k];
+                    if rel == 0 {
+                        x[0] += signed_norm;
+                    }
+                    let mut t = [0.0; LANES];
+                    for ((t, x), e) in t.iter_mut().zip(&x).zip(&v[F]) {
+                        *t = x / sf / nrm * e;
+                    }
+                    dot.push_block(rel, m, &t);
                 });
                 let m_two = refl[k].sign * -2.0;
                 refl[k].factor[F] = (dot.total() - 0.0) * m_two;
@@ -478,18 +644,19 @@ pub(crate) fn weighted_rss_streamed(
         }
         if let Some(dx) = &pending {
             ss = -0.0;
-            let mut i = 0;
             src.rows(
                 0,
                 &[],
                 0,
                 false,
-                |_, _| (),
-                |_, v| {
-                    let adx: f64 = v[..p].iter().zip(dx).map(|(r, d)| r * d).sum();
-                    let ri = res[i] + (f[i] - adx);
-                    ss += ri * ri;
-                    i += 1;
+                |_, _, _| (),
+                |_, row, m, v| {
+                    for (i, l) in (row..row + m).zip(0..m) {
+                        let v = lane(v, l);
+                        let adx: f64 = v[..p].iter().zip(dx).map(|(r, d)| r * d).sum();
+                        let ri = res[i] + (f[i] - adx);
+                        ss += ri * ri;
+                    }
                 },
             );
         }
@@ -497,6 +664,12 @@ pub(crate) fn weighted_rss_streamed(
     // The checks of `factorised` on χ² and the coefficients in raw units.
     let coefficients_finite = (0..p).all(|j| (x[j] / scale[j]).is_finite());
     (ss.is_finite() && coefficients_finite).then_some(ss)
+}
+
+/// Lane `i` of a block: one row's slots.
+#[inline(always)]
+fn lane(v: &Block, i: usize) -> [f64; SLOTS] {
+    std::array::from_fn(|j| v[j][i])
 }
 
 /// The last factor, Qᵀb and column scale (tests only).

@@ -12,7 +12,7 @@
 //! Adding a model: write one file beside `linear.rs` implementing [`ModelSpec`], add one line
 //! to [`Model::all`]'s list, and give it a `const` handle (see DEVELOPERS.md).
 
-mod clarke_glew;
+pub(crate) mod clarke_glew;
 mod constant_cp;
 mod linear;
 

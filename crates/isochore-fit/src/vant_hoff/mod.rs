@@ -104,7 +104,9 @@ fn fit_threads(
     check_inputs(points, options, model)?;
     // A large data set's ladder models that no streaming pass covers (Clarke–Glew beside a
     // linear fit) are solved on a second thread while this one solves the fitted model: the
-    // same arithmetic on the same points, so the same numbers, in about half the time.
+    // same arithmetic on the same points, so the same numbers, in about half the time. The
+    // solver's arithmetic is streamed over the points there (`lean`), so no n × p design
+    // and its factorised copy are allocated beside the fit.
     let (engine, mut beside) = std::thread::scope(|scope| {
         let beside = (!defer && points.len() >= parallel_points).then(|| {
             scope.spawn(|| {
@@ -112,7 +114,7 @@ fn fit_threads(
                     .ladder()
                     .into_iter()
                     .filter(|&m| m != model && !(model.streams() && m.streams()))
-                    .map(|m| (m, chi2_on_points(points, options, m, false)))
+                    .map(|m| (m, chi2_on_points(points, options, m, true)))
                     .collect::<Vec<_>>()
             })
         });
