@@ -204,23 +204,24 @@ impl Default for Inputs {
 }
 
 impl Source<'_> {
-    /// The raw design row of a point (into `raw[..p]`) and its √w.
+    /// The weighted, column-equilibrated rows and √w·y of a block, as `Scaled::row_into`
+    /// forms them (lane by lane, so each row's numbers are its own), in the slots before
+    /// `need` only (the others keep what they held): a pass that reads the leading columns
+    /// does none of the divisions of the later ones.
     #[inline(always)]
-    fn raw(&self, pt: &Measurement, l: f64, raw: &mut [f64; MAX_STREAMED_COLUMNS]) -> f64 {
-        self.model
-            .row_with_log_into(pt.t_k, self.theta, l, &mut raw[..self.p]);
-        if self.weighted {
-            let s = pt.sigma_ln_k.unwrap_or(f64::NAN);
-            (1.0 / (s * s)).sqrt()
-        } else {
-            1.0
+    fn scaled(&self, inp: &Inputs, v: &mut Block, need: usize) {
+        match need {
+            1 => self.scaled_n::<1>(inp, v),
+            2 => self.scaled_n::<2>(inp, v),
+            3 => self.scaled_n::<3>(inp, v),
+            4 => self.scaled_n::<4>(inp, v),
+            _ => self.scaled_n::<SLOTS>(inp, v),
         }
     }
 
-    /// The weighted, column-equilibrated rows and √w·y of a block, as `Scaled::row_into`
-    /// forms them (lane by lane the same operations as [`Source::raw`]).
+    /// [`Source::scaled`] of the slots before `N`.
     #[inline(always)]
-    fn scaled(&self, inp: &Inputs, v: &mut Block) {
+    fn scaled_n<const N: usize>(&self, inp: &Inputs, v: &mut Block) {
         let mut raw = [[0.0; LANES]; MAX_STREAMED_COLUMNS];
         match self.formula {
             Formula::ClarkeGlew => {
@@ -244,18 +245,20 @@ impl Source<'_> {
         }
         let mut sw = [1.0; LANES];
         if self.weighted {
-            for (w, s) in sw.iter_mut().zip(&inp.s) {
-                *w = (1.0 / (s * s)).sqrt();
+            for (w, &s) in sw.iter_mut().zip(&inp.s) {
+                *w = sqrt_weight(s);
             }
         }
-        for j in 0..self.p {
+        for j in 0..self.p.min(N) {
             let inv = self.inv_scale[j];
             for i in 0..LANES {
                 v[j][i] = raw[j][i] * sw[i] * inv;
             }
         }
-        for i in 0..LANES {
-            v[self.p][i] = inp.y[i] * sw[i];
+        if self.p < N {
+            for i in 0..LANES {
+                v[self.p][i] = inp.y[i] * sw[i];
+            }
         }
     }
 
@@ -283,6 +286,9 @@ impl Source<'_> {
             .skip(from);
         let mut row = from;
         let mut v: Block = [[0.0; LANES]; SLOTS];
+        // The slots read: those the reflections reach (the passes of the factorisation
+        // read no later one), every column and √w·y for the passes without reflections.
+        let need = if upto == 0 { self.p + 1 } else { upto };
         loop {
             let mut inp = Inputs::default();
             let mut m = 0;
@@ -296,7 +302,7 @@ impl Source<'_> {
             if m == 0 {
                 break;
             }
-            self.scaled(&inp, &mut v);
+            self.scaled(&inp, &mut v, need);
             init(row, m, &mut v);
             for (k, r) in refl.iter().enumerate() {
                 r.apply(k, upto, with_f, &mut v, false);
@@ -333,7 +339,7 @@ impl Source<'_> {
         inp.s[0] = pt.sigma_ln_k.unwrap_or(f64::NAN);
         inp.y[0] = pt.ln_k;
         let mut v: Block = [[0.0; LANES]; SLOTS];
-        self.scaled(&inp, &mut v);
+        self.scaled(&inp, &mut v, if upto == 0 { self.p + 1 } else { upto });
         init(k, 1, &mut v);
         for (r, refl) in refl.iter().enumerate() {
             refl.apply(r, upto, with_f, &mut v, r == k);
@@ -376,34 +382,57 @@ pub(crate) fn weighted_rss_streamed(
         inv_scale: [1.0; MAX_STREAMED_COLUMNS],
     };
     let mut scale = [1.0; MAX_STREAMED_COLUMNS];
-    // The column scale of `column_scale`: each column's largest |√w·x| (every entry finite),
-    // then its sum of squares relative to that, in row order.
-    let mut raw = [0.0; MAX_STREAMED_COLUMNS];
-    let mut big = [0.0f64; MAX_STREAMED_COLUMNS];
+    // ln(T/θ) of each used point (the one logarithm of its row), with the checks on σ and
+    // ln K of `solve_impl`.
     for pt in points.iter().filter(|pt| pt.included) {
-        let l = (pt.t_k / theta).ln();
-        src.logs.push(l);
-        let sw = src.raw(pt, l, &mut raw);
+        src.logs.push((pt.t_k / theta).ln());
+        let sw = if weighted {
+            sqrt_weight(pt.sigma_ln_k.unwrap_or(f64::NAN))
+        } else {
+            1.0
+        };
         if !(sw.is_finite() && sw > 0.0 && pt.ln_k.is_finite()) {
             return None;
         }
-        for j in 0..p {
-            if !raw[j].is_finite() {
-                return None;
-            }
-            big[j] = big[j].max((raw[j] * sw).abs());
-        }
     }
-    if big[..p].iter().any(|&b| b == 0.0 || !b.is_finite()) {
+    // The column scale of `column_scale`: each column's largest |√w·x| (every entry
+    // finite), then its sum of squares relative to that, in row order. The scale is 1 so
+    // far, so a block's entries are √w·x itself.
+    let mut big = [0.0f64; MAX_STREAMED_COLUMNS];
+    let mut finite = true;
+    src.rows(
+        0,
+        &[],
+        0,
+        false,
+        |_, _, _| (),
+        |_, _, m, v| {
+            for j in 0..p {
+                for x in &v[j][..m] {
+                    finite &= x.is_finite();
+                    big[j] = big[j].max(x.abs());
+                }
+            }
+        },
+    );
+    if !finite || big[..p].iter().any(|&b| b == 0.0 || !b.is_finite()) {
         return None;
     }
     let mut sum = [0.0f64; MAX_STREAMED_COLUMNS];
-    for (pt, &l) in points.iter().filter(|pt| pt.included).zip(&src.logs) {
-        let sw = src.raw(pt, l, &mut raw);
-        for j in 0..p {
-            sum[j] += (raw[j] * sw / big[j]).powi(2);
-        }
-    }
+    src.rows(
+        0,
+        &[],
+        0,
+        false,
+        |_, _, _| (),
+        |_, _, m, v| {
+            for j in 0..p {
+                for x in &v[j][..m] {
+                    sum[j] += (x / big[j]).powi(2);
+                }
+            }
+        },
+    );
     for j in 0..p {
         scale[j] = power_of_two_near(big[j] * sum[j].sqrt()).unwrap_or(1.0);
         src.inv_scale[j] = 1.0 / scale[j];
@@ -415,7 +444,6 @@ pub(crate) fn weighted_rss_streamed(
     let mut refl: Vec<Reflection> = Vec::with_capacity(p);
     let mut r = DMatrix::<f64>::zeros(p, p);
     let mut qtb = DVector::<f64>::zeros(p);
-    let mut finite = true;
     for k in 0..p {
         let len = n - k;
         let mut sq = Lanes::new(len);
@@ -426,11 +454,6 @@ pub(crate) fn weighted_rss_streamed(
             false,
             |_, _, _| (),
             |rel, _, m, v| {
-                if k == 0 {
-                    finite &= v[..slots]
-                        .iter()
-                        .all(|x| x[..m].iter().all(|x| x.is_finite()));
-                }
                 let mut t = [0.0; LANES];
                 for (t, x) in t.iter_mut().zip(&v[k]) {
                     *t = x * x;
@@ -438,9 +461,6 @@ pub(crate) fn weighted_rss_streamed(
                 sq.push_block(rel, m, &t);
             },
         );
-        if !finite {
-            return None;
-        }
         let sq = sq.total();
         let norm = sq.sqrt();
         let x0 = src.row(k, &refl, k + 1, false, |_, _, _| ())[k];
@@ -485,6 +505,12 @@ pub(crate) fn weighted_rss_streamed(
             false,
             |_, _, _| (),
             |rel, _, m, v| {
+                if k == 0 {
+                    // Every entry and √w·y finite (the first pass that forms them all).
+                    finite &= v[..slots]
+                        .iter()
+                        .all(|x| x[..m].iter().all(|x| x.is_finite()));
+                }
                 let mut x = v[k];
                 if rel == 0 {
                     x[0] += signed_norm;
@@ -502,6 +528,9 @@ pub(crate) fn weighted_rss_streamed(
                 }
             },
         );
+        if !finite {
+            return None;
+        }
         let mut this = Reflection {
             signed_norm,
             sf,
@@ -664,6 +693,12 @@ pub(crate) fn weighted_rss_streamed(
     // The checks of `factorised` on χ² and the coefficients in raw units.
     let coefficients_finite = (0..p).all(|j| (x[j] / scale[j]).is_finite());
     (ss.is_finite() && coefficients_finite).then_some(ss)
+}
+
+/// √w = √(1/σ²), as the general solver takes the root of the weight 1/σ² it is given.
+#[inline(always)]
+fn sqrt_weight(s: f64) -> f64 {
+    (1.0 / (s * s)).sqrt()
 }
 
 /// Lane `i` of a block: one row's slots.
