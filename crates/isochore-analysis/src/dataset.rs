@@ -330,8 +330,14 @@ fn load_text(path: &Path, o: &Overrides) -> Result<Vec<PreparedSet>, LoadError> 
         source: source.clone(),
         error: Box::new(error),
     };
-    let mut imp: Import =
-        isochore_data::import_path(path, &o.import_options()).map_err(data_error)?;
+    // Without the cells as typed, a large file is read in pieces and its text never held
+    // whole beside its rows (isochore-data's `import_path_rows`; the same import).
+    let read = if o.with_cells {
+        isochore_data::import_path
+    } else {
+        isochore_data::import_path_rows
+    };
+    let mut imp: Import = read(path, &o.import_options()).map_err(data_error)?;
     let mut notes = Vec::new();
     if !imp.rejected.is_empty() {
         if !o.skip_bad_rows {

@@ -52,8 +52,8 @@ pub use dataset::{DataSet, Exclusion, RawRow, SeriesSettings};
 pub use error::{Error, RejectedRow, RowProblem, ACCEPTED_HEADERS};
 pub use export::{export_csv, quantity_header};
 pub use import::{
-    import_bytes, import_path, import_text, sha256_hex, DecimalMark, Import, ImportOptions, Point,
-    Replicates, Row, SourceInfo,
+    import_bytes, import_path, import_path_rows, import_text, sha256_hex, DecimalMark, Import,
+    ImportOptions, Point, Replicates, Row, SourceInfo,
 };
 pub use mapping::{
     ColumnMapping, QuantityColumn, TemperatureColumn, UncertaintyColumn, UncertaintyKind,

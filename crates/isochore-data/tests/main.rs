@@ -6,4 +6,5 @@ mod fixtures;
 mod fuzz;
 mod hostile;
 mod large;
+mod pieces;
 mod project;

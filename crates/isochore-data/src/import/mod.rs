@@ -18,12 +18,14 @@ mod dialect;
 mod scan;
 mod series;
 mod source;
+mod stream;
 mod unit_guess;
 
 pub use scan::TWO_THREADS_ABOVE;
 pub(crate) use series::make_points;
 pub use series::{Point, Row};
 pub use source::{import_bytes, import_path, import_text, sha256_hex, SourceInfo};
+pub use stream::{import_path_rows, PIECES_ABOVE};
 
 use crate::assign::ColumnChoice;
 use crate::dataset::DataSet;
@@ -180,7 +182,7 @@ impl Import {
     }
 
     /// The cells of an accepted row of this import exactly as typed (quotes removed,
-    /// doubled quotes undone).
+    /// doubled quotes undone); none when the text was not kept ([`Import::has_text`]).
     pub fn cells(&self, row: &Row) -> Vec<String> {
         let Ok(mut r) = self.reader_at(row.start as usize, row.end as usize) else {
             return Vec::new();
@@ -201,6 +203,12 @@ impl Import {
             usize::MAX,
             &self.source.name,
         ))
+    }
+
+    /// Whether the file's text is kept, so that [`Import::cells`] can give a row's cells
+    /// (not after [`import_path_rows`] read a large file in pieces).
+    pub fn has_text(&self) -> bool {
+        !self.text.is_empty()
     }
 
     /// Whether commas in number cells are decimal marks in this import (stored in projects
@@ -315,14 +323,7 @@ fn parse(
         )?;
     }
     let default_name = stem(file);
-    let scan::Chunk {
-        series,
-        ranges,
-        rejected,
-        any_data,
-        marks,
-        ..
-    } = scan::Scan {
+    let chunk = scan::Scan {
         file,
         text,
         delimiter,
@@ -332,8 +333,50 @@ fn parse(
         comma_ok,
         default_name: &default_name,
         quote_free: false,
+        offset: 0,
+        rows_before: 0,
     }
     .read_all(data_start, first_line, first_quote)?;
+    let header = Parsed {
+        headers,
+        header_line,
+        mapping,
+        delimiter,
+        decimal_comma: false,
+        comma_ok,
+        series: Vec::new(),
+        rejected: Vec::new(),
+    };
+    complete(file, o, header, default_name, chunk)
+}
+
+/// The stages after the scan: the decimal convention from the marks seen, a file without
+/// data rows refused, the data sets completed and checked. `header`: what the dialect
+/// stage and the mapping gave (its `series`, `rejected` and `decimal_comma` are filled
+/// here); `chunk`: every data row read.
+fn complete(
+    file: &str,
+    o: &ImportOptions,
+    header: Parsed,
+    default_name: String,
+    chunk: scan::Chunk,
+) -> Result<Parsed, Error> {
+    let scan::Chunk {
+        series,
+        ranges,
+        rejected,
+        any_data,
+        marks,
+        ..
+    } = chunk;
+    let Parsed {
+        headers,
+        header_line,
+        mapping,
+        delimiter,
+        comma_ok,
+        ..
+    } = header;
     // One decimal convention per file, decided from the marks seen while reading.
     let decimal_comma = dialect::decimal_comma(&marks, o.decimal, comma_ok, file, &headers)?;
     // Projects read their cells again with the convention found: a file of decimal points

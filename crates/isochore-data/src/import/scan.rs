@@ -22,6 +22,7 @@ use std::collections::HashMap;
 pub const TWO_THREADS_ABOVE: usize = 1 << 20;
 
 /// What one pass over (part of) the data rows needs.
+#[derive(Clone, Copy)]
 pub(super) struct Scan<'a> {
     pub(super) file: &'a str,
     pub(super) text: &'a str,
@@ -32,6 +33,12 @@ pub(super) struct Scan<'a> {
     pub(super) comma_ok: bool,
     pub(super) default_name: &'a str,
     pub(super) quote_free: bool,
+    /// Where `text` starts in the file's text (a piece of a file read in pieces, see
+    /// `super::stream`; 0 otherwise): added to each row's byte range.
+    pub(super) offset: u32,
+    /// Rows of the data set before this part (a piece of a file read in pieces; 0
+    /// otherwise): added to each row's number.
+    pub(super) rows_before: u32,
 }
 
 /// The rows read from one part of the data.
@@ -244,7 +251,7 @@ impl Scan<'_> {
     /// The room left over is given back in the series stage (`series::assemble`).
     /// `sink`: with one data set (no series column), the rows are written here first (the
     /// count in [`Chunk::in_sink`]), and only those beyond its length into the data set.
-    fn run(
+    pub(super) fn run(
         &self,
         start: usize,
         end: usize,
@@ -374,7 +381,7 @@ impl Scan<'_> {
                         }
                     }
                     let s = &mut series[si];
-                    let row = (in_sink + s.rows.len()) as u32 + 1;
+                    let row = self.rows_before + (in_sink + s.rows.len()) as u32 + 1;
                     if let Some(n) = mapping.note.and_then(|n| spans.get(n)) {
                         if !text::is_blank(n.raw(text)) {
                             s.notes.push((row, n.unescaped(text).trim().to_string()));
@@ -393,8 +400,8 @@ impl Scan<'_> {
                         sigma: c.sigma_ln_k.unwrap_or(f64::NAN),
                         line: rec.line as u32,
                         row,
-                        start: rec.start,
-                        end: rec.end,
+                        start: rec.start + self.offset,
+                        end: rec.end + self.offset,
                     };
                     match sink.as_deref_mut().and_then(|k| k.get_mut(in_sink)) {
                         Some(slot) if s.rows.is_empty() => {

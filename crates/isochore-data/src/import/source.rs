@@ -141,7 +141,7 @@ pub fn import_text(name: &str, text: &str, options: &ImportOptions) -> Result<Im
     import_bytes(name, text.as_bytes(), options)
 }
 
-fn effective_limit(o: &ImportOptions) -> u64 {
+pub(super) fn effective_limit(o: &ImportOptions) -> u64 {
     o.max_file_bytes.min(u32::MAX as u64 - 1)
 }
 
@@ -151,7 +151,7 @@ pub fn sha256_hex(bytes: &[u8]) -> String {
 }
 
 /// Bytes in lower-case hex.
-fn hex(digest: &[u8]) -> String {
+pub(super) fn hex(digest: &[u8]) -> String {
     const DIGITS: &[u8; 16] = b"0123456789abcdef";
     digest
         .iter()
@@ -215,10 +215,25 @@ fn import_owned(
         (sha, parsed)
     });
     let p = parsed?;
+    Ok(assembled(name, path, sha, n_bytes, p, options, text))
+}
+
+/// The [`Import`] of a parsed file: its source, the data sets made from what the scan
+/// read, and the text (empty when it was read in pieces and not kept, see
+/// `super::stream`).
+pub(super) fn assembled(
+    name: &str,
+    path: Option<String>,
+    sha256: String,
+    n_bytes: u64,
+    p: super::Parsed,
+    options: &ImportOptions,
+    text: String,
+) -> Import {
     let source = SourceInfo {
         name: name.to_string(),
         path,
-        sha256: sha,
+        sha256,
         bytes: n_bytes,
     };
     let file = super::series::FileInfo {
@@ -234,7 +249,7 @@ fn import_owned(
         .into_iter()
         .map(|s| s.into_data_set(&file))
         .collect();
-    Ok(Import {
+    Import {
         source,
         headers: p.headers,
         header_line: p.header_line,
@@ -245,5 +260,5 @@ fn import_owned(
         rejected: p.rejected,
         comma_ok: p.comma_ok,
         text,
-    })
+    }
 }
