@@ -292,6 +292,9 @@ pub(crate) enum PointStore {
         points: Box<crate::fast::OnDemand>,
         /// The records, once made.
         cache: std::sync::OnceLock<Vec<PointDiagnostics>>,
+        /// Indices of the points carrying any flag, found by the fit's own pass over the
+        /// points (so counting them makes no record again).
+        flagged: Vec<usize>,
     },
 }
 
@@ -308,7 +311,7 @@ impl PointStore {
     pub(crate) fn slice(&self) -> &[PointDiagnostics] {
         match self {
             PointStore::Kept(v) => v,
-            PointStore::OnDemand { points, cache } => cache.get_or_init(|| {
+            PointStore::OnDemand { points, cache, .. } => cache.get_or_init(|| {
                 let mut v = Vec::with_capacity(points.len());
                 points.for_each(0..points.len(), &mut |d| v.push(d));
                 v
@@ -320,11 +323,25 @@ impl PointStore {
     pub(crate) fn get(&self, i: usize) -> Option<PointDiagnostics> {
         match self {
             PointStore::Kept(v) => v.get(i).cloned(),
-            PointStore::OnDemand { points, cache } => match cache.get() {
+            PointStore::OnDemand { points, cache, .. } => match cache.get() {
                 Some(v) => v.get(i).cloned(),
                 None => points.point(i),
             },
         }
+    }
+
+    /// Indices of the points carrying any flag, in order.
+    pub(crate) fn flagged(&self) -> Vec<usize> {
+        if let PointStore::OnDemand { flagged, .. } = self {
+            return flagged.clone();
+        }
+        let mut out = Vec::new();
+        self.for_each(&mut |d| {
+            if d.flags.any() {
+                out.push(d.index);
+            }
+        });
+        out
     }
 
     /// Calls `f` with the diagnostics of every point in order, without keeping them.
@@ -336,7 +353,7 @@ impl PointStore {
     fn for_each_in(&self, range: std::ops::Range<usize>, f: &mut dyn FnMut(PointDiagnostics)) {
         match self {
             PointStore::Kept(v) => v[range].iter().cloned().for_each(f),
-            PointStore::OnDemand { points, cache } => match cache.get() {
+            PointStore::OnDemand { points, cache, .. } => match cache.get() {
                 Some(v) => v[range].iter().cloned().for_each(f),
                 None => points.for_each(range, f),
             },

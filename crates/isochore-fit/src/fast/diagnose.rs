@@ -239,17 +239,23 @@ impl OnDemand {
 
 impl FastFit {
     /// The on-demand diagnostics of this fit (from the copy of the points taken while they
-    /// were read), with what the warnings need from them, gathered in one pass that keeps
-    /// no record.
+    /// were read), with what the warnings need from them and the indices of the points
+    /// carrying any flag, gathered in one pass that keeps no record.
     pub(crate) fn diagnose(
         &self,
         options: &FitOptions,
         ctx: PointContext,
-    ) -> (OnDemand, DiagnosticsSummary) {
+    ) -> (OnDemand, DiagnosticsSummary, Vec<usize>) {
         let points = self.compact.take().unwrap_or_default();
         let od = OnDemand::new(self, points, options, ctx);
         let mut summary = DiagnosticsSummary::default();
-        od.for_each(0..od.len(), &mut |d| summary.note(&d));
-        (od, summary)
+        let mut flagged = Vec::new();
+        od.for_each(0..od.len(), &mut |d| {
+            summary.note(&d);
+            if d.flags.any() {
+                flagged.push(d.index);
+            }
+        });
+        (od, summary, flagged)
     }
 }

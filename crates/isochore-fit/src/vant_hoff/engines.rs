@@ -155,11 +155,12 @@ impl SolvedFit for FastFit {
             if weighted { sum_w / lin.n as f64 } else { 1.0 },
             options.thresholds,
         );
-        let (points, summary) = FastFit::diagnose(self, options, ctx);
+        let (points, summary, flagged) = FastFit::diagnose(self, options, ctx);
         (
             PointStore::OnDemand {
                 points: Box::new(points),
                 cache: std::sync::OnceLock::new(),
+                flagged,
             },
             summary,
         )

@@ -376,12 +376,6 @@ impl VantHoffFit {
 
     /// Indices (into the input slice) of points carrying any flag.
     pub fn flagged_points(&self) -> Vec<usize> {
-        let mut out = Vec::new();
-        self.points.for_each(&mut |d| {
-            if d.flags.any() {
-                out.push(d.index);
-            }
-        });
-        out
+        self.points.flagged()
     }
 }
