@@ -1,18 +1,21 @@
-//! The general solver's χ² of a model on the caller's points with no n × p matrix: one
-//! number per point (ln(T/θ)), three when the solution is refined: [`weighted_rss_streamed`] gives the same bits as
+//! The general solver's χ² of a model on the caller's points with no n × p matrix: two
+//! numbers per point (ln(T/θ) and √w, the row's costliest entries to form), four when the
+//! solution is refined: [`weighted_rss_streamed`] gives the same bits as
 //! [`super::weighted_rss_formed`] (nalgebra's Householder QR of the √w-scaled,
 //! column-equilibrated design) by doing nalgebra's arithmetic in nalgebra's order, one pass
 //! over the points per sum.
 //!
 //! After k reflections a row's entries are a function of its own original entries (formed
-//! again from its temperature, ln(T/θ) and σ) and a few numbers per reflection: the column's
+//! again from its temperature, ln(T/θ) and √w) and a few numbers per reflection: the column's
 //! signed norm, the two divisors that normalise the axis, the sign and one factor per later
 //! column. Only the sums need the whole column, and they are taken as nalgebra takes them
 //! (`Matrix::dotx`: eight partial sums over the leading multiple of eight rows of the view,
 //! combined in pairs, then the remaining rows in order; see [`Lanes`]). For each column:
 //! one pass for its squared norm, one for the norm of the unscaled axis, one for the dot
 //! products with the later columns and with √w·y (nalgebra's `q_tr_mul` applies the same
-//! reflections to it, so it is one more column). Then one pass for the residuals and χ².
+//! reflections to it, so it is one more column); a pass forms only the slots it reads, and
+//! eight rows at a time, lane by lane ([`LANES`]), so its arithmetic vectorises. Then one
+//! pass for the residuals and χ².
 //! Refinement (most large data sets ask for it) is `refined_solution`'s, step by step, with
 //! its two vectors r and f kept: one pass for f = b − r − Ax and g = −Aᵀr, and one pass per
 //! reflection for Qᵀf, f being one more column.
@@ -30,6 +33,9 @@ use super::{
 use crate::measurement::Measurement;
 use crate::model::Model;
 use nalgebra::{DMatrix, DVector};
+use rows::{lane, sqrt_weight, Block, Formula, Lanes, Reflection, Source, LANES};
+
+mod rows;
 
 /// Most design columns of a streamed χ².
 pub(crate) const MAX_STREAMED_COLUMNS: usize = 4;
@@ -41,316 +47,9 @@ const SLOTS: usize = MAX_STREAMED_COLUMNS + 2;
 /// The slot of the refinement's f.
 const F: usize = SLOTS - 1;
 
-/// One of nalgebra's dot products (`Matrix::dotx` on a dynamic column), fed a term at a
-/// time in row order: eight partial sums over the leading multiple of eight rows, combined
-/// as (0 + 4), (1 + 5), (2 + 6), (3 + 7) into a sum from zero, then the rest added in order.
-struct Lanes {
-    acc: [f64; 8],
-    full: usize,
-    res: f64,
-    combined: bool,
-}
-
-impl Lanes {
-    /// A sum over a view of `len` rows.
-    fn new(len: usize) -> Lanes {
-        Lanes {
-            acc: [0.0; 8],
-            full: len / 8 * 8,
-            res: 0.0,
-            combined: false,
-        }
-    }
-
-    /// Adds the term of the view's row `rel`; rows come in order.
-    #[inline(always)]
-    fn push(&mut self, rel: usize, v: f64) {
-        if rel < self.full {
-            self.acc[rel % 8] += v;
-        } else {
-            if !self.combined {
-                self.combine();
-            }
-            self.res += v;
-        }
-    }
-
-    /// Adds the terms of a block of `m` rows from the view's row `rel` (a multiple of
-    /// [`LANES`]): a whole block inside the leading multiple of eight adds lane by lane,
-    /// which is the same as adding its rows in turn.
-    #[inline(always)]
-    fn push_block(&mut self, rel: usize, m: usize, v: &[f64; LANES]) {
-        if m == LANES && rel + LANES <= self.full {
-            for (a, x) in self.acc.iter_mut().zip(v) {
-                *a += x;
-            }
-        } else {
-            for (d, &x) in v[..m].iter().enumerate() {
-                self.push(rel + d, x);
-            }
-        }
-    }
-
-    fn combine(&mut self) {
-        let a = self.acc;
-        let mut res = 0.0;
-        res += a[0] + a[4];
-        res += a[1] + a[5];
-        res += a[2] + a[6];
-        res += a[3] + a[7];
-        self.res = res;
-        self.combined = true;
-    }
-
-    fn total(mut self) -> f64 {
-        if !self.combined {
-            self.combine();
-        }
-        self.res
-    }
-}
-
-/// Rows formed and reflected together: a block of eight rows of a view (starting at a
-/// multiple of eight from the view's first row) adds one term to each of `Lanes`' partial
-/// sums, so a block is reduced lane by lane and the loops over it vectorise. Each lane's
-/// arithmetic is the row's own, so a row's numbers do not depend on its block.
-const LANES: usize = 8;
-
-/// A block of rows, slot by slot: `b[j][lane]`.
-type Block = [[f64; LANES]; SLOTS];
-
-/// One Householder reflection as nalgebra makes it (`reflection_axis_mut`,
-/// `Reflection::reflect_with_sign`).
-#[derive(Debug, Clone, Copy, Default)]
-struct Reflection {
-    /// Added to the first entry of the column before it is scaled into the axis.
-    signed_norm: f64,
-    /// The axis is (entry / `sf`) / `nrm`.
-    sf: f64,
-    nrm: f64,
-    /// The sign the reflected entries are multiplied by.
-    sign: f64,
-    /// For each later slot j: entry ← factor[j]·axis + sign·entry.
-    factor: [f64; SLOTS],
-}
-
-impl Reflection {
-    /// Applies reflection `k` to a block's slots k + 1 .. `upto` and, `with_f`, to f; with
-    /// `first`, lane 0 is the view's first row (row k).
-    #[inline(always)]
-    fn apply(&self, k: usize, upto: usize, with_f: bool, v: &mut Block, first: bool) {
-        let mut x = v[k];
-        if first {
-            x[0] += self.signed_norm;
-        }
-        let mut axis = [0.0; LANES];
-        for (a, x) in axis.iter_mut().zip(&x) {
-            *a = x / self.sf / self.nrm;
-        }
-        let one = |j: usize, v: &mut [f64; LANES]| {
-            let (factor, sign) = (self.factor[j], self.sign);
-            for (e, a) in v.iter_mut().zip(&axis) {
-                *e = factor * a * 1.0 + sign * *e;
-            }
-        };
-        for j in k + 1..upto {
-            one(j, &mut v[j]);
-        }
-        if with_f {
-            one(F, &mut v[F]);
-        }
-    }
-}
-
-/// Which row formula a [`Source`] calls: the shipped models' inlined (so a block's rows
-/// vectorise), any other model's through its [`Model`] handle.
-#[derive(Clone, Copy)]
-enum Formula {
-    ClarkeGlew,
-    Other,
-}
-
-/// Where the rows come from: the included points, their ln(T/θ), the weighting and the
-/// column scale.
-struct Source<'a> {
-    points: &'a [Measurement],
-    logs: Vec<f64>,
-    model: Model,
-    formula: Formula,
-    theta: f64,
-    weighted: bool,
-    p: usize,
-    inv_scale: [f64; MAX_STREAMED_COLUMNS],
-}
-
-/// The used points' T, ln(T/θ), σ (NaN for none) and ln K of one block; unused lanes hold
-/// harmless numbers.
-struct Inputs {
-    t: [f64; LANES],
-    l: [f64; LANES],
-    s: [f64; LANES],
-    y: [f64; LANES],
-}
-
-impl Default for Inputs {
-    fn default() -> Self {
-        Inputs {
-            t: [1.0; LANES],
-            l: [0.0; LANES],
-            s: [1.0; LANES],
-            y: [0.0; LANES],
-        }
-    }
-}
-
-impl Source<'_> {
-    /// The weighted, column-equilibrated rows and √w·y of a block, as `Scaled::row_into`
-    /// forms them (lane by lane, so each row's numbers are its own), in the slots before
-    /// `need` only (the others keep what they held): a pass that reads the leading columns
-    /// does none of the divisions of the later ones.
-    #[inline(always)]
-    fn scaled(&self, inp: &Inputs, v: &mut Block, need: usize) {
-        match need {
-            1 => self.scaled_n::<1>(inp, v),
-            2 => self.scaled_n::<2>(inp, v),
-            3 => self.scaled_n::<3>(inp, v),
-            4 => self.scaled_n::<4>(inp, v),
-            _ => self.scaled_n::<SLOTS>(inp, v),
-        }
-    }
-
-    /// [`Source::scaled`] of the slots before `N`.
-    #[inline(always)]
-    fn scaled_n<const N: usize>(&self, inp: &Inputs, v: &mut Block) {
-        let mut raw = [[0.0; LANES]; MAX_STREAMED_COLUMNS];
-        match self.formula {
-            Formula::ClarkeGlew => {
-                for i in 0..LANES {
-                    let r = crate::models::clarke_glew::row(inp.t[i], self.theta, inp.l[i]);
-                    for j in 0..MAX_STREAMED_COLUMNS {
-                        raw[j][i] = r[j];
-                    }
-                }
-            }
-            Formula::Other => {
-                for i in 0..LANES {
-                    let mut r = [0.0; MAX_STREAMED_COLUMNS];
-                    self.model
-                        .row_with_log_into(inp.t[i], self.theta, inp.l[i], &mut r[..self.p]);
-                    for j in 0..MAX_STREAMED_COLUMNS {
-                        raw[j][i] = r[j];
-                    }
-                }
-            }
-        }
-        let mut sw = [1.0; LANES];
-        if self.weighted {
-            for (w, &s) in sw.iter_mut().zip(&inp.s) {
-                *w = sqrt_weight(s);
-            }
-        }
-        for j in 0..self.p.min(N) {
-            let inv = self.inv_scale[j];
-            for i in 0..LANES {
-                v[j][i] = raw[j][i] * sw[i] * inv;
-            }
-        }
-        if self.p < N {
-            for i in 0..LANES {
-                v[self.p][i] = inp.y[i] * sw[i];
-            }
-        }
-    }
-
-    /// Calls `f(rel, row, m, block)` for the rows from `from` on, a block of `m` ≤
-    /// [`LANES`] at a time (`rel` the first one's place in the view that starts at `from`,
-    /// a multiple of [`LANES`]; `row` its number among the used points), with the
-    /// reflections `refl` applied (rows at or after `from` are below each of them) to the
-    /// slots before `upto` and, `with_f`, to f; `init(row, m, block)` writes f first.
-    #[inline(always)]
-    #[allow(clippy::too_many_arguments)]
-    fn rows(
-        &self,
-        from: usize,
-        refl: &[Reflection],
-        upto: usize,
-        with_f: bool,
-        init: impl Fn(usize, usize, &mut Block),
-        mut f: impl FnMut(usize, usize, usize, &Block),
-    ) {
-        let mut used = self
-            .points
-            .iter()
-            .filter(|p| p.included)
-            .zip(&self.logs)
-            .skip(from);
-        let mut row = from;
-        let mut v: Block = [[0.0; LANES]; SLOTS];
-        // The slots read: those the reflections reach (the passes of the factorisation
-        // read no later one), every column and √w·y for the passes without reflections.
-        let need = if upto == 0 { self.p + 1 } else { upto };
-        loop {
-            let mut inp = Inputs::default();
-            let mut m = 0;
-            for (pt, &l) in used.by_ref().take(LANES) {
-                inp.t[m] = pt.t_k;
-                inp.l[m] = l;
-                inp.s[m] = pt.sigma_ln_k.unwrap_or(f64::NAN);
-                inp.y[m] = pt.ln_k;
-                m += 1;
-            }
-            if m == 0 {
-                break;
-            }
-            self.scaled(&inp, &mut v, need);
-            init(row, m, &mut v);
-            for (k, r) in refl.iter().enumerate() {
-                r.apply(k, upto, with_f, &mut v, false);
-            }
-            f(row - from, row, m, &v);
-            row += m;
-            if m < LANES {
-                break;
-            }
-        }
-    }
-
-    /// Row `k` (lane 0 of the block) as [`Source::rows`] gives it, but the reflection
-    /// numbered k (when `refl` reaches it) has row k as its first row.
-    fn row(
-        &self,
-        k: usize,
-        refl: &[Reflection],
-        upto: usize,
-        with_f: bool,
-        init: impl Fn(usize, usize, &mut Block),
-    ) -> [f64; SLOTS] {
-        let (pt, l) = self
-            .points
-            .iter()
-            .filter(|p| p.included)
-            .zip(&self.logs)
-            .nth(k)
-            .map(|(p, l)| (*p, *l))
-            .unwrap_or((Measurement::new(f64::NAN, f64::NAN), f64::NAN));
-        let mut inp = Inputs::default();
-        inp.t[0] = pt.t_k;
-        inp.l[0] = l;
-        inp.s[0] = pt.sigma_ln_k.unwrap_or(f64::NAN);
-        inp.y[0] = pt.ln_k;
-        let mut v: Block = [[0.0; LANES]; SLOTS];
-        self.scaled(&inp, &mut v, if upto == 0 { self.p + 1 } else { upto });
-        init(k, 1, &mut v);
-        for (r, refl) in refl.iter().enumerate() {
-            refl.apply(r, upto, with_f, &mut v, r == k);
-        }
-        std::array::from_fn(|j| v[j][0])
-    }
-}
-
 /// χ² of `model`'s weighted least-squares fit to the included `points` (weights 1/σ² when
 /// `weighted`, else 1), θ = `theta`: the same bits as [`super::weighted_rss_formed`] on the
-/// same points, with memory for one number per point (ln(T/θ); three when refined) instead
+/// same points, with memory for two numbers per point (ln(T/θ) and √w; four when refined) instead
 /// of the design, its factorised copy and six vectors. `None` when the stored-matrix path is needed: more than
 /// [`MAX_STREAMED_COLUMNS`] columns, anything not finite, a zero column or rank deficiency.
 pub(crate) fn weighted_rss_streamed(
@@ -382,15 +81,15 @@ pub(crate) fn weighted_rss_streamed(
         inv_scale: [1.0; MAX_STREAMED_COLUMNS],
     };
     let mut scale = [1.0; MAX_STREAMED_COLUMNS];
-    // ln(T/θ) of each used point (the one logarithm of its row), with the checks on σ and
-    // ln K of `solve_impl`.
+    // ln(T/θ) and √w of each used point (the one logarithm, division and root of its row
+    // that every pass would repeat), with the checks on σ and ln K of `solve_impl`.
     for pt in points.iter().filter(|pt| pt.included) {
-        src.logs.push((pt.t_k / theta).ln());
         let sw = if weighted {
             sqrt_weight(pt.sigma_ln_k.unwrap_or(f64::NAN))
         } else {
             1.0
         };
+        src.logs.push([(pt.t_k / theta).ln(), sw]);
         if !(sw.is_finite() && sw > 0.0 && pt.ln_k.is_finite()) {
             return None;
         }
@@ -693,18 +392,6 @@ pub(crate) fn weighted_rss_streamed(
     // The checks of `factorised` on χ² and the coefficients in raw units.
     let coefficients_finite = (0..p).all(|j| (x[j] / scale[j]).is_finite());
     (ss.is_finite() && coefficients_finite).then_some(ss)
-}
-
-/// √w = √(1/σ²), as the general solver takes the root of the weight 1/σ² it is given.
-#[inline(always)]
-fn sqrt_weight(s: f64) -> f64 {
-    (1.0 / (s * s)).sqrt()
-}
-
-/// Lane `i` of a block: one row's slots.
-#[inline(always)]
-fn lane(v: &Block, i: usize) -> [f64; SLOTS] {
-    std::array::from_fn(|j| v[j][i])
 }
 
 /// The last factor, Qᵀb and column scale (tests only).

@@ -1,0 +1,329 @@
+//! The rows of a streamed χ²: where they come from ([`Source`]: the used points with their
+//! ln(T/θ) and √w, formed and reflected a block of [`LANES`] at a time), the reflections
+//! as nalgebra makes them ([`Reflection`]) and its dot products' order of summation
+//! ([`Lanes`]).
+
+// Slots of a row are clearest indexed.
+#![allow(clippy::needless_range_loop)]
+
+use super::{F, MAX_STREAMED_COLUMNS, SLOTS};
+use crate::measurement::Measurement;
+use crate::model::Model;
+
+/// One of nalgebra's dot products (`Matrix::dotx` on a dynamic column), fed a term at a
+/// time in row order: eight partial sums over the leading multiple of eight rows, combined
+/// as (0 + 4), (1 + 5), (2 + 6), (3 + 7) into a sum from zero, then the rest added in order.
+pub(super) struct Lanes {
+    acc: [f64; 8],
+    full: usize,
+    res: f64,
+    combined: bool,
+}
+
+impl Lanes {
+    /// A sum over a view of `len` rows.
+    pub(super) fn new(len: usize) -> Lanes {
+        Lanes {
+            acc: [0.0; 8],
+            full: len / 8 * 8,
+            res: 0.0,
+            combined: false,
+        }
+    }
+
+    /// Adds the term of the view's row `rel`; rows come in order.
+    #[inline(always)]
+    pub(super) fn push(&mut self, rel: usize, v: f64) {
+        if rel < self.full {
+            self.acc[rel % 8] += v;
+        } else {
+            if !self.combined {
+                self.combine();
+            }
+            self.res += v;
+        }
+    }
+
+    /// Adds the terms of a block of `m` rows from the view's row `rel` (a multiple of
+    /// [`LANES`]): a whole block inside the leading multiple of eight adds lane by lane,
+    /// which is the same as adding its rows in turn.
+    #[inline(always)]
+    pub(super) fn push_block(&mut self, rel: usize, m: usize, v: &[f64; LANES]) {
+        if m == LANES && rel + LANES <= self.full {
+            for (a, x) in self.acc.iter_mut().zip(v) {
+                *a += x;
+            }
+        } else {
+            for (d, &x) in v[..m].iter().enumerate() {
+                self.push(rel + d, x);
+            }
+        }
+    }
+
+    pub(super) fn combine(&mut self) {
+        let a = self.acc;
+        let mut res = 0.0;
+        res += a[0] + a[4];
+        res += a[1] + a[5];
+        res += a[2] + a[6];
+        res += a[3] + a[7];
+        self.res = res;
+        self.combined = true;
+    }
+
+    pub(super) fn total(mut self) -> f64 {
+        if !self.combined {
+            self.combine();
+        }
+        self.res
+    }
+}
+
+/// Rows formed and reflected together: a block of eight rows of a view (starting at a
+/// multiple of eight from the view's first row) adds one term to each of `Lanes`' partial
+/// sums, so a block is reduced lane by lane and the loops over it vectorise. Each lane's
+/// arithmetic is the row's own, so a row's numbers do not depend on its block.
+pub(super) const LANES: usize = 8;
+
+/// A block of rows, slot by slot: `b[j][lane]`.
+pub(super) type Block = [[f64; LANES]; SLOTS];
+
+/// One Householder reflection as nalgebra makes it (`reflection_axis_mut`,
+/// `Reflection::reflect_with_sign`).
+#[derive(Debug, Clone, Copy, Default)]
+pub(super) struct Reflection {
+    /// Added to the first entry of the column before it is scaled into the axis.
+    pub(super) signed_norm: f64,
+    /// The axis is (entry / `sf`) / `nrm`.
+    pub(super) sf: f64,
+    pub(super) nrm: f64,
+    /// The sign the reflected entries are multiplied by.
+    pub(super) sign: f64,
+    /// For each later slot j: entry ← factor[j]·axis + sign·entry.
+    pub(super) factor: [f64; SLOTS],
+}
+
+impl Reflection {
+    /// Applies reflection `k` to a block's slots k + 1 .. `upto` and, `with_f`, to f; with
+    /// `first`, lane 0 is the view's first row (row k).
+    #[inline(always)]
+    pub(super) fn apply(&self, k: usize, upto: usize, with_f: bool, v: &mut Block, first: bool) {
+        let mut x = v[k];
+        if first {
+            x[0] += self.signed_norm;
+        }
+        let mut axis = [0.0; LANES];
+        for (a, x) in axis.iter_mut().zip(&x) {
+            *a = x / self.sf / self.nrm;
+        }
+        let one = |j: usize, v: &mut [f64; LANES]| {
+            let (factor, sign) = (self.factor[j], self.sign);
+            for (e, a) in v.iter_mut().zip(&axis) {
+                *e = factor * a * 1.0 + sign * *e;
+            }
+        };
+        for j in k + 1..upto {
+            one(j, &mut v[j]);
+        }
+        if with_f {
+            one(F, &mut v[F]);
+        }
+    }
+}
+
+/// Which row formula a [`Source`] calls: the shipped models' inlined (so a block's rows
+/// vectorise), any other model's through its [`Model`] handle.
+#[derive(Clone, Copy)]
+pub(super) enum Formula {
+    ClarkeGlew,
+    Other,
+}
+
+/// Where the rows come from: the included points, their ln(T/θ), the weighting and the
+/// column scale.
+pub(super) struct Source<'a> {
+    pub(super) points: &'a [Measurement],
+    /// ln(T/θ) and √w of each used point.
+    pub(super) logs: Vec<[f64; 2]>,
+    pub(super) model: Model,
+    pub(super) formula: Formula,
+    pub(super) theta: f64,
+    pub(super) weighted: bool,
+    pub(super) p: usize,
+    pub(super) inv_scale: [f64; MAX_STREAMED_COLUMNS],
+}
+
+/// The used points' T, ln(T/θ), √w and ln K of one block; unused lanes hold
+/// harmless numbers.
+pub(super) struct Inputs {
+    pub(super) t: [f64; LANES],
+    pub(super) l: [f64; LANES],
+    pub(super) sw: [f64; LANES],
+    pub(super) y: [f64; LANES],
+}
+
+impl Default for Inputs {
+    fn default() -> Self {
+        Inputs {
+            t: [1.0; LANES],
+            l: [0.0; LANES],
+            sw: [1.0; LANES],
+            y: [0.0; LANES],
+        }
+    }
+}
+
+impl Source<'_> {
+    /// The weighted, column-equilibrated rows and √w·y of a block, as `Scaled::row_into`
+    /// forms them (lane by lane, so each row's numbers are its own), in the slots before
+    /// `need` only (the others keep what they held): a pass that reads the leading columns
+    /// does none of the divisions of the later ones.
+    #[inline(always)]
+    pub(super) fn scaled(&self, inp: &Inputs, v: &mut Block, need: usize) {
+        match need {
+            1 => self.scaled_n::<1>(inp, v),
+            2 => self.scaled_n::<2>(inp, v),
+            3 => self.scaled_n::<3>(inp, v),
+            4 => self.scaled_n::<4>(inp, v),
+            _ => self.scaled_n::<SLOTS>(inp, v),
+        }
+    }
+
+    /// [`Source::scaled`] of the slots before `N`.
+    #[inline(always)]
+    pub(super) fn scaled_n<const N: usize>(&self, inp: &Inputs, v: &mut Block) {
+        let mut raw = [[0.0; LANES]; MAX_STREAMED_COLUMNS];
+        match self.formula {
+            Formula::ClarkeGlew => {
+                for i in 0..LANES {
+                    let r = crate::models::clarke_glew::row(inp.t[i], self.theta, inp.l[i]);
+                    for j in 0..MAX_STREAMED_COLUMNS {
+                        raw[j][i] = r[j];
+                    }
+                }
+            }
+            Formula::Other => {
+                for i in 0..LANES {
+                    let mut r = [0.0; MAX_STREAMED_COLUMNS];
+                    self.model
+                        .row_with_log_into(inp.t[i], self.theta, inp.l[i], &mut r[..self.p]);
+                    for j in 0..MAX_STREAMED_COLUMNS {
+                        raw[j][i] = r[j];
+                    }
+                }
+            }
+        }
+        let mut sw = [1.0; LANES];
+        if self.weighted {
+            sw = inp.sw;
+        }
+        for j in 0..self.p.min(N) {
+            let inv = self.inv_scale[j];
+            for i in 0..LANES {
+                v[j][i] = raw[j][i] * sw[i] * inv;
+            }
+        }
+        if self.p < N {
+            for i in 0..LANES {
+                v[self.p][i] = inp.y[i] * sw[i];
+            }
+        }
+    }
+
+    /// Calls `f(rel, row, m, block)` for the rows from `from` on, a block of `m` ≤
+    /// [`LANES`] at a time (`rel` the first one's place in the view that starts at `from`,
+    /// a multiple of [`LANES`]; `row` its number among the used points), with the
+    /// reflections `refl` applied (rows at or after `from` are below each of them) to the
+    /// slots before `upto` and, `with_f`, to f; `init(row, m, block)` writes f first.
+    #[inline(always)]
+    #[allow(clippy::too_many_arguments)]
+    pub(super) fn rows(
+        &self,
+        from: usize,
+        refl: &[Reflection],
+        upto: usize,
+        with_f: bool,
+        init: impl Fn(usize, usize, &mut Block),
+        mut f: impl FnMut(usize, usize, usize, &Block),
+    ) {
+        let mut used = self
+            .points
+            .iter()
+            .filter(|p| p.included)
+            .zip(&self.logs)
+            .skip(from);
+        let mut row = from;
+        let mut v: Block = [[0.0; LANES]; SLOTS];
+        // The slots read: those the reflections reach (the passes of the factorisation
+        // read no later one), every column and √w·y for the passes without reflections.
+        let need = if upto == 0 { self.p + 1 } else { upto };
+        loop {
+            let mut inp = Inputs::default();
+            let mut m = 0;
+            for (pt, &l) in used.by_ref().take(LANES) {
+                inp.t[m] = pt.t_k;
+                inp.l[m] = l[0];
+                inp.sw[m] = l[1];
+                inp.y[m] = pt.ln_k;
+                m += 1;
+            }
+            if m == 0 {
+                break;
+            }
+            self.scaled(&inp, &mut v, need);
+            init(row, m, &mut v);
+            for (k, r) in refl.iter().enumerate() {
+                r.apply(k, upto, with_f, &mut v, false);
+            }
+            f(row - from, row, m, &v);
+            row += m;
+            if m < LANES {
+                break;
+            }
+        }
+    }
+
+    /// Row `k` (lane 0 of the block) as [`Source::rows`] gives it, but the reflection
+    /// numbered k (when `refl` reaches it) has row k as its first row.
+    pub(super) fn row(
+        &self,
+        k: usize,
+        refl: &[Reflection],
+        upto: usize,
+        with_f: bool,
+        init: impl Fn(usize, usize, &mut Block),
+    ) -> [f64; SLOTS] {
+        let (pt, l) = self
+            .points
+            .iter()
+            .filter(|p| p.included)
+            .zip(&self.logs)
+            .nth(k)
+            .map(|(p, l)| (*p, *l))
+            .unwrap_or((Measurement::new(f64::NAN, f64::NAN), [f64::NAN; 2]));
+        let mut inp = Inputs::default();
+        inp.t[0] = pt.t_k;
+        inp.l[0] = l[0];
+        inp.sw[0] = l[1];
+        inp.y[0] = pt.ln_k;
+        let mut v: Block = [[0.0; LANES]; SLOTS];
+        self.scaled(&inp, &mut v, if upto == 0 { self.p + 1 } else { upto });
+        init(k, 1, &mut v);
+        for (r, refl) in refl.iter().enumerate() {
+            refl.apply(r, upto, with_f, &mut v, r == k);
+        }
+        std::array::from_fn(|j| v[j][0])
+    }
+}
+
+/// √w = √(1/σ²), as the general solver takes the root of the weight 1/σ² it is given.
+#[inline(always)]
+pub(super) fn sqrt_weight(s: f64) -> f64 {
+    (1.0 / (s * s)).sqrt()
+}
+
+/// Lane `i` of a block: one row's slots.
+#[inline(always)]
+pub(super) fn lane(v: &Block, i: usize) -> [f64; SLOTS] {
+    std::array::from_fn(|j| v[j][i])
+}
