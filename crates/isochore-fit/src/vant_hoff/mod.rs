@@ -320,6 +320,32 @@ mod tests {
     }
 
     #[test]
+    fn the_streamed_chi2_beside_a_large_fit_gives_the_stored_solver_s_comparison() {
+        // From `STREAMED_CHI2_POINTS` on, the Clarke–Glew χ² beside a linear or ΔCp° fit is
+        // streamed over the points; serially `fit` takes it from the stored solver. The two
+        // comparisons agree to the bit (Debug prints every f64 exactly), a point left out.
+        let mut pts = curved_points(comparison::STREAMED_CHI2_POINTS + 11);
+        pts[7] = pts[7].excluded();
+        // The streamed path answers here (it does not fall back to the stored solver).
+        let theta = FitOptions::default().t_ref_k;
+        let streamed =
+            crate::least_squares::weighted_rss_streamed(Model::CLARKE_GLEW, theta, &pts, true);
+        assert!(streamed.is_some());
+        for model in [Model::LINEAR, Model::CONSTANT_CP] {
+            let opts = FitOptions {
+                model,
+                ..FitOptions::default()
+            };
+            let serial = fit_threads(&pts, &opts, true, usize::MAX, false).unwrap().0;
+            let beside = fit_threads(&pts, &opts, true, 0, false).unwrap().0;
+            let (a, b) = (serial.comparison().unwrap(), beside.comparison().unwrap());
+            assert_eq!(a.steps.len(), 2, "{}", model.key());
+            assert_eq!(format!("{a:?}"), format!("{b:?}"), "{}", model.key());
+            assert_eq!(serial.warnings(), beside.warnings(), "{}", model.key());
+        }
+    }
+
+    #[test]
     fn too_few_and_single_temperature() {
         let opts = FitOptions::default();
         let pts = exact(1e4, 10.0, &[290.0, 300.0]);
