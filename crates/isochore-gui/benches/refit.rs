@@ -91,7 +91,7 @@ fn refit(c: &mut Criterion) {
                         fitter.update(&project.series, 0.0, false);
                     }
                     let a = fitter.get(id).expect("fitted");
-                    assert!(a.fit.as_ref().is_ok_and(|f| !f.comparison_pending()));
+                    assert!(a.fit.as_deref().is_ok_and(|f| !f.comparison_pending()));
                 }
                 shown
             })

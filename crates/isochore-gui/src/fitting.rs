@@ -10,17 +10,17 @@
 //! settings stay the same; only the points' "included" marks are set again and the fit
 //! runs. The analysis is the same, field for field, as one made from the cells (tested).
 
-use crate::decimate::{sort_by_x_then_id, EnvelopeIndex};
+use crate::decimate::EnvelopeIndex;
 use crate::doc::Entry;
-use isochore_analysis::weighting::Weighed;
-use isochore_data::{ColumnMapping, Replicates, SeriesSettings};
 use isochore_fit::{BandPoint, Measurement, VantHoffFit};
-use std::collections::HashMap;
-use std::sync::mpsc::{channel, Receiver, TryRecvError};
 use std::sync::Arc;
 
 mod later;
-use later::{complete, plots_of, Deferred, Later, Plots};
+mod prepared;
+mod slots;
+use later::{complete, plots_of, Deferred, Plots};
+use prepared::{Marked, Prepared};
+pub use slots::{Fitter, Running};
 
 /// Series with more rows than this are fitted off the UI thread.
 pub const BACKGROUND_ROWS: usize = 20_000;
@@ -41,8 +41,9 @@ pub struct Analysis {
     pub point_rows: Arc<Vec<Vec<usize>>>,
     /// For each 0-based row, its point.
     pub point_of_row: Arc<Vec<Option<usize>>>,
-    /// The fit, or the reason there is none, in words.
-    pub fit: Result<VantHoffFit, String>,
+    /// The fit, or the reason there is none, in words. Shared with the worker that makes a
+    /// large refit's residual and influence indexes after its estimates are shown.
+    pub fit: Result<Arc<VantHoffFit>, String>,
     /// The way out the window offers when the fit was refused for a reason the chemist
     /// can settle with a setting (the command line's flags, as controls).
     pub remedy: Option<Remedy>,
@@ -75,137 +76,23 @@ pub struct Analysis {
     /// The fit with errors in T, when the series has a thermometer uncertainty or a σ(T)
     /// column (isochore-analysis runs it; `None` otherwise), or why there is none.
     pub errors_in_t: Option<Result<isochore_fit::errors_in_t::ErrorsInTFit, String>>,
+    /// The 1-based rows excluded when the points' "included" marks were set, ascending.
+    excluded: Vec<usize>,
     /// What the cells gave before the fit, for the next refit while they stay the same.
     prepared: Option<Arc<Prepared>>,
 }
 
-/// What decides how a series' cells convert and are weighted: while it is the same, the
-/// converted points of [`Prepared`] still hold (an exclusion changes none of it).
-#[derive(Debug, Clone, PartialEq)]
-struct PrepKey {
-    cells_rev: u64,
-    n_rows: usize,
-    sha256: String,
-    mapping: ColumnMapping,
-    decimal_comma: bool,
-    settings: SeriesSettings,
-}
-
-impl PrepKey {
-    fn of(series: &Entry) -> PrepKey {
-        let d = &series.data;
-        PrepKey {
-            cells_rev: series.cells_rev,
-            n_rows: series.n_rows(),
-            sha256: d.source.sha256.clone(),
-            mapping: d.mapping.clone(),
-            decimal_comma: d.decimal_comma,
-            settings: d.settings,
+impl Analysis {
+    /// Gives a large analysis' points back to the prepared points it was made from, for the
+    /// next refit to mark again (no copy of them then), when nothing else holds them; the
+    /// rest is freed.
+    fn recycle(self) {
+        if let (Some(prepared), Ok(points)) = (self.prepared, Arc::try_unwrap(self.measurements)) {
+            prepared.give_back(Marked {
+                points,
+                excluded: self.excluded,
+            });
         }
-    }
-}
-
-/// What a series' cells give before any fit, kept for the refits that follow an exclusion.
-struct Prepared {
-    key: PrepKey,
-    /// The converted points, "included" as they were when converted.
-    measurements: Vec<Measurement>,
-    point_rows: Arc<Vec<Vec<usize>>>,
-    point_of_row: Arc<Vec<Option<usize>>>,
-    /// The weighting rule's decision (isochore-analysis), or its refusal in words.
-    weighed: Result<Weighed, String>,
-    vh_index: Arc<EnvelopeIndex>,
-    extent: Option<[f64; 4]>,
-    /// Large series only: the points with a finite temperature, by T and then index (the
-    /// residual plot's order, which no refit changes).
-    t_order: Vec<u32>,
-    large: bool,
-}
-
-/// Only the key: the rest is shown by the analysis' own fields, and the points' "included"
-/// marks are those of the conversion, not of the analysis.
-impl std::fmt::Debug for Prepared {
-    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        f.debug_struct("Prepared")
-            .field("key", &self.key)
-            .finish_non_exhaustive()
-    }
-}
-
-impl Prepared {
-    fn new(series: &Entry, points: crate::doc::Points) -> Prepared {
-        let measurements = points.measurements;
-        // The weighting rule the command line follows, from isochore-analysis: no σ at all
-        // is fitted with equal weights (and says so among the fit's cautions); σ in some rows
-        // and an empty σ cell in another is refused with the line and column of that cell,
-        // never fitted silently, and fitting unweighted is the way out.
-        let weighed = isochore_analysis::weighting::for_data_set(&series.data, *series.options())
-            .map_err(|e| e.to_string());
-        let large = measurements.len() > crate::panels::vh_plot::DECIMATE_ABOVE;
-        let vh_index = if large {
-            EnvelopeIndex::new(
-                measurements
-                    .iter()
-                    .enumerate()
-                    .map(|(k, m)| (k as u32, 1e3 / m.t_k, m.ln_k)),
-            )
-        } else {
-            EnvelopeIndex::default()
-        };
-        let t_order = if large {
-            let mut order: Vec<(u32, f64, f64)> = measurements
-                .iter()
-                .enumerate()
-                .filter(|(_, m)| m.t_k.is_finite())
-                .map(|(k, m)| (k as u32, m.t_k, 0.0))
-                .collect();
-            sort_by_x_then_id(&mut order);
-            order.into_iter().map(|p| p.0).collect()
-        } else {
-            Vec::new()
-        };
-        let extent = measurements.iter().fold(None, |acc: Option<[f64; 4]>, m| {
-            let x = 1e3 / m.t_k;
-            Some(match acc {
-                None => [x, x, m.ln_k, m.ln_k],
-                Some([a, b, c, d]) => [a.min(x), b.max(x), c.min(m.ln_k), d.max(m.ln_k)],
-            })
-        });
-        Prepared {
-            key: PrepKey::of(series),
-            measurements,
-            point_rows: Arc::new(points.rows),
-            point_of_row: Arc::new(points.point_of_row),
-            weighed,
-            vh_index: Arc::new(vh_index),
-            extent,
-            t_order,
-            large,
-        }
-    }
-
-    /// Whether a refit of `series` may start from these points: the same cells, mapping and
-    /// settings, each point one row (replicates averaged regroup when a row is excluded), and
-    /// no fit with errors in T (made by isochore-analysis from the data set itself).
-    fn serves(&self, series: &Entry) -> bool {
-        let d = &series.data;
-        d.settings.replicates == Replicates::Keep
-            && d.settings.thermometer_uncertainty_k.is_none()
-            && d.mapping.temperature_uncertainty.is_none()
-            && self.point_rows.iter().all(|r| r.len() == 1)
-            && self.key == PrepKey::of(series)
-    }
-
-    /// The points with the "included" marks of the sorted 1-based rows `excluded`, as
-    /// isochore-data marks them (a point is left out when its row is excluded).
-    fn measurements_excluding(&self, excluded: &[usize]) -> Vec<Measurement> {
-        let mut out = self.measurements.clone();
-        for (m, rows) in out.iter_mut().zip(self.point_rows.iter()) {
-            m.included = !rows
-                .iter()
-                .any(|&r| excluded.binary_search(&(r + 1)).is_ok());
-        }
-        out
     }
 }
 
@@ -243,16 +130,25 @@ pub fn analyse(series: &Entry) -> Analysis {
                 extent: None,
                 cooks_contours: Vec::new(),
                 errors_in_t: None,
+                excluded: Vec::new(),
                 prepared: None,
             };
         }
     };
-    let prepared = Arc::new(Prepared::new(series, points));
-    let measurements = prepared.measurements.clone();
+    let prepared = Arc::new(Prepared::new(
+        series,
+        &points.measurements,
+        points.rows,
+        points.point_of_row,
+    ));
+    let marked = Marked {
+        points: points.measurements,
+        excluded: series.data.excluded_rows(),
+    };
     complete(finish(
         series.rev,
         prepared,
-        measurements,
+        marked,
         errors_in_t_of(series),
         false,
     ))
@@ -279,25 +175,32 @@ fn refit_job(
     }
     let excluded = series.data.excluded_rows();
     let rev = series.rev;
+    let from = previous.measurements.clone();
+    let from_excluded = previous.excluded.clone();
     Some(move || {
-        let m = prepared.measurements_excluding(&excluded);
-        finish(rev, prepared, m, None, defer)
+        let marked = prepared.marked(&from, &from_excluded, excluded);
+        drop(from);
+        finish(rev, prepared, marked, None, defer)
     })
 }
 
-/// The fit of `measurements` (the points of `prepared` with their current "included"
-/// marks) and everything drawn from it. With `defer`, a large data set's model comparison
-/// is left out of the fit (`isochore_fit::fit_estimates_first`; nothing else drawn here
-/// depends on it) and made on a thread of its own, and the residual and influence indexes
-/// and the flags (a pass computing every point's diagnostics) are left for later too: both
-/// are returned beside the analysis ([`Deferred`]).
+/// The fit of `marked` (the points of `prepared` with their current "included" marks) and
+/// everything drawn from it. With `defer`, a large data set's model comparison is left out
+/// of the fit (`isochore_fit::fit_estimates_first`; nothing else drawn here depends on it),
+/// and the residual and influence indexes and the flags (a pass computing every point's
+/// diagnostics) are left for later too: both are returned beside the analysis
+/// ([`Deferred`]), to be made once the estimates are sent.
 fn finish(
     rev: u64,
     prepared: Arc<Prepared>,
-    measurements: Vec<Measurement>,
+    marked: Marked,
     errors_in_t: Option<Result<isochore_fit::errors_in_t::ErrorsInTFit, String>>,
     defer: bool,
 ) -> (Analysis, Deferred) {
+    let Marked {
+        points: measurements,
+        excluded,
+    } = marked;
     let mut pending = None;
     let (fit, remedy) = match &prepared.weighed {
         Err(e) => (Err(e.clone()), Some(Remedy::FitUnweighted)),
@@ -316,20 +219,12 @@ fn finish(
                         note,
                     ));
                 }
-                (Ok(f), None)
+                (Ok(Arc::new(f)), None)
             }
             Err(e) => (Err(e.to_string()), Remedy::for_fit(&e)),
         },
     };
     let measurements = Arc::new(measurements);
-    // Without a thread the comparison is not made: the fit stays without it.
-    let comparing = pending.and_then(|p: isochore_fit::PendingComparison| {
-        let points = measurements.clone();
-        std::thread::Builder::new()
-            .name("isochore-compare".into())
-            .spawn(move || p.run(&points))
-            .ok()
-    });
     let (band, ellipse, h_g_region, contours) = match &fit {
         Ok(f) => {
             let band = f.band_grid(BAND_POINTS, 0.08);
@@ -359,12 +254,12 @@ fn finish(
         Err(_) => (Vec::new(), None, None, Vec::new()),
     };
     let mut deferred = Deferred {
-        comparing,
+        comparison: pending.map(|p| (p, measurements.clone())),
         plots: None,
     };
     let (plots, plots_pending) = match &fit {
         Ok(f) if prepared.large && defer => {
-            deferred.plots = Some((f.clone(), prepared.clone()));
+            deferred.plots = Some((Arc::clone(f), prepared.clone()));
             (None, true)
         }
         Ok(f) if prepared.large => (Some(plots_of(f, &prepared)), false),
@@ -409,6 +304,7 @@ fn finish(
         plots_pending,
         cooks_contours: contours,
         errors_in_t,
+        excluded,
         prepared: Some(prepared),
     };
     (analysis, deferred)
@@ -430,212 +326,5 @@ fn errors_in_t_of(
             .fit_errors_in_t()
             .map(|r| r.map_err(|e| e.error.to_string())),
         Err(e) => Some(Err(e.to_string())),
-    }
-}
-
-/// Puts `new` in the slot. A large series' previous analysis (hundreds of megabytes at 10⁶
-/// points) is freed on a thread of its own, not in the frame that receives the new one.
-fn replace(slot: &mut Option<Arc<Analysis>>, new: Analysis) {
-    if let Some(old) = slot.replace(Arc::new(new)) {
-        if old.measurements.len() > BACKGROUND_ROWS {
-            let freed = std::thread::Builder::new()
-                .name("isochore-free".into())
-                .spawn(move || drop(old));
-            // Without a thread it is freed here, as before.
-            drop(freed);
-        }
-    }
-}
-
-#[derive(Default)]
-struct Slot {
-    current: Option<Arc<Analysis>>,
-    pending: Option<(u64, Receiver<Analysis>, f64)>,
-    /// The model comparison and the plots' indexes of a large refit, made after its
-    /// estimates were shown: the revision they belong to, and the worker's answer to come
-    /// (`Err`) or come (`Ok`, kept until the analysis can be changed: no panel holding it).
-    completing: Option<(u64, Result<Later, Receiver<Later>>)>,
-    /// When the fit whose comparison is awaited started (the app's clock).
-    completing_since: f64,
-}
-
-impl Slot {
-    /// Puts a finished comparison and the plots' indexes into the current analysis of their
-    /// revision; waits for the worker when `block`.
-    fn complete(&mut self, block: bool) {
-        let Some((rev, state)) = self.completing.take() else {
-            return;
-        };
-        let done = match state {
-            Ok(done) => done,
-            Err(rx) => {
-                let got = if block {
-                    rx.recv().map_err(|_| TryRecvError::Disconnected)
-                } else {
-                    rx.try_recv()
-                };
-                match got {
-                    Ok(done) => done,
-                    Err(TryRecvError::Empty) => {
-                        self.completing = Some((rev, Err(rx)));
-                        return;
-                    }
-                    // The worker died: the fit stays without its comparison.
-                    Err(TryRecvError::Disconnected) => return,
-                }
-            }
-        };
-        match self.current.as_mut() {
-            Some(a) if a.rev == rev => match Arc::get_mut(a) {
-                Some(a) => done.apply(a),
-                // A panel still holds it: next time.
-                None => self.completing = Some((rev, Ok(done))),
-            },
-            // Another revision replaced it: the comparison is of no use.
-            _ => {}
-        }
-    }
-}
-
-/// The latest analysis of every series, and the fits in flight.
-#[derive(Default)]
-pub struct Fitter {
-    slots: HashMap<u64, Slot>,
-}
-
-/// A fit that is running: which series, how many rows, since when.
-#[derive(Debug, Clone)]
-pub struct Running {
-    /// Series id.
-    pub series: u64,
-    /// Rows being fitted.
-    pub rows: usize,
-    /// Start time in seconds (the app's clock).
-    pub since: f64,
-}
-
-impl Fitter {
-    /// Brings every series up to date: starts fits for changed series and collects
-    /// finished background fits. `now` is the app clock in seconds. When `block` is set,
-    /// background fits are waited for (tests and benchmarks).
-    pub fn update(&mut self, series: &[Entry], now: f64, block: bool) {
-        self.slots
-            .retain(|id, _| series.iter().any(|s| s.id == *id));
-        for s in series {
-            let slot = self.slots.entry(s.id).or_default();
-            if let Some((_, rx, _)) = &slot.pending {
-                let got = if block {
-                    rx.recv().map_err(|_| TryRecvError::Disconnected)
-                } else {
-                    rx.try_recv()
-                };
-                match got {
-                    Ok(a) => {
-                        replace(&mut slot.current, a);
-                        slot.pending = None;
-                        slot.complete(block);
-                    }
-                    Err(TryRecvError::Empty) => {}
-                    // The worker died: forget it, and the fit is started again below.
-                    Err(TryRecvError::Disconnected) => slot.pending = None,
-                }
-            }
-            slot.complete(block);
-            let up_to_date = slot.current.as_ref().is_some_and(|a| a.rev == s.rev);
-            let in_flight = slot.pending.as_ref().is_some_and(|p| p.0 == s.rev);
-            if up_to_date || in_flight {
-                continue;
-            }
-            // After an exclusion the previous analysis' converted points still hold: the
-            // refit starts from them (no copy of the series, no conversion of its cells).
-            if s.n_rows() <= BACKGROUND_ROWS {
-                let job = slot.current.as_ref().and_then(|a| refit_job(s, a, false));
-                let a = match job {
-                    Some(job) => complete(job()),
-                    None => analyse(s),
-                };
-                replace(&mut slot.current, a);
-                slot.pending = None;
-            } else {
-                // A refit shows its estimates as soon as they are drawn; the model
-                // comparison, made meanwhile on a thread of its own, follows (the same
-                // numbers as a whole fit).
-                let job = slot.current.as_ref().and_then(|a| refit_job(s, a, true));
-                let (tx, rx) = channel();
-                let (done_tx, done_rx) = channel();
-                let work: Box<dyn FnOnce() -> (Analysis, Deferred) + Send> = match job {
-                    Some(job) => Box::new(job),
-                    None => {
-                        let copy = s.clone();
-                        Box::new(move || (analyse(&copy), Deferred::default()))
-                    }
-                };
-                let spawned = std::thread::Builder::new()
-                    .name("isochore-fit".into())
-                    .spawn(move || {
-                        let (a, deferred) = work();
-                        let _ = tx.send(a);
-                        if !deferred.is_empty() {
-                            let _ = done_tx.send(deferred.run());
-                        }
-                    });
-                match spawned {
-                    Ok(_) => {
-                        slot.pending = Some((s.rev, rx, now));
-                        slot.completing = Some((s.rev, Err(done_rx)));
-                        slot.completing_since = now;
-                    }
-                    Err(_) => replace(&mut slot.current, analyse(s)),
-                }
-                if block {
-                    if let Some((_, rx, _)) = &slot.pending {
-                        if let Ok(a) = rx.recv() {
-                            replace(&mut slot.current, a);
-                        }
-                    }
-                    slot.pending = None;
-                    slot.complete(true);
-                }
-            }
-        }
-    }
-
-    /// The latest analysis of a series (possibly of an older revision while a fit runs).
-    pub fn get(&self, id: u64) -> Option<Arc<Analysis>> {
-        self.slots.get(&id).and_then(|s| s.current.clone())
-    }
-
-    /// Whether the series' current analysis still waits for its model comparison (a
-    /// large refit shows its estimates first): a report made now would lack it.
-    pub fn comparison_pending(&self, id: u64) -> bool {
-        self.slots.get(&id).is_some_and(|s| {
-            s.completing.is_some()
-                && s.current
-                    .as_ref()
-                    .is_some_and(|a| a.fit.as_ref().is_ok_and(|f| f.comparison_pending()))
-        })
-    }
-
-    /// Fits in flight.
-    pub fn running(&self, series: &[Entry]) -> Vec<Running> {
-        self.slots
-            .iter()
-            .filter_map(|(id, slot)| {
-                // A fit is running until its comparison is in place too.
-                let since = match (&slot.pending, &slot.completing) {
-                    (Some((_, _, since)), _) => Some(*since),
-                    (None, Some(_)) => Some(slot.completing_since),
-                    (None, None) => None,
-                };
-                since.map(|since| Running {
-                    series: *id,
-                    rows: series
-                        .iter()
-                        .find(|s| s.id == *id)
-                        .map_or(0, |s| s.n_rows()),
-                    since,
-                })
-            })
-            .collect()
     }
 }

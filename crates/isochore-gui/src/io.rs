@@ -390,7 +390,7 @@ pub fn write_project(project: &Project, path: &Path) -> Result<(), String> {
 pub fn report_input(s: &Entry, a: &crate::fitting::Analysis) -> Result<ReportInput, String> {
     let fit = a
         .fit
-        .as_ref()
+        .as_deref()
         .map_err(|e| format!("{}: no fit to report: {e}", s.name()))?;
     let with_cells = Overrides {
         with_cells: true,

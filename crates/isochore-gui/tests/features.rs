@@ -123,7 +123,7 @@ fn flags(f: &VantHoffFit) -> Vec<(bool, bool, bool)> {
 /// The flags of the window's current analysis of series `id`.
 fn window_flags(h: &H, id: u64) -> Vec<(bool, bool, bool)> {
     let a = h.state().fitter.get(id).unwrap();
-    flags(a.fit.as_ref().unwrap())
+    flags(a.fit.as_deref().unwrap())
 }
 
 #[test]
@@ -823,7 +823,7 @@ fn a_large_series_is_fitted_on_the_background_thread() {
     h.run_steps(2);
     let a = h.state().fitter.get(id).unwrap();
     assert_eq!(
-        a.fit.as_ref().unwrap().delta_h().value,
+        a.fit.as_deref().unwrap().delta_h().value,
         f2.delta_h().value,
         "the thread's fit is the library's"
     );

@@ -126,7 +126,7 @@ fn the_ligand_demo_opens_with_its_calorimetric_values() {
     let s = &w.project.series[0];
     let a = w.fitter.get(s.id).unwrap();
     let input = isochore_gui::io::report_input(s, &a).unwrap();
-    let want = compare_single(a.fit.as_ref().unwrap(), &s.data).unwrap();
+    let want = compare_single(a.fit.as_deref().unwrap(), &s.data).unwrap();
     assert_eq!(input.calorimetric, want);
     assert_eq!(want.len(), 2);
     let md = isochore_report::render_markdown(&input, "fig").unwrap();
@@ -164,7 +164,7 @@ fn calorimetric_values_are_typed_compared_and_undone() {
         let w = h.state();
         let s = w.project.get(id).unwrap();
         let a = w.fitter.get(id).unwrap();
-        let fit = a.fit.as_ref().unwrap();
+        let fit = a.fit.as_deref().unwrap();
         let c = compare_single(fit, &s.data).unwrap();
         let v = c[0]
             .verdict

@@ -22,7 +22,7 @@ fn an_excluded_point_neither_sets_the_residual_range_nor_counts_as_flagged() {
     let w = h.state();
     let s = w.project.get(w.active.unwrap()).unwrap();
     let a = w.fitter.get(s.id).unwrap();
-    let fit = a.fit.as_ref().unwrap();
+    let fit = a.fit.as_deref().unwrap();
     let points = fit.points();
     let k = a.point_of_row[OUTLIER_ROW].unwrap();
     assert!(!points[k].used);
@@ -79,7 +79,7 @@ fn the_influence_key_names_each_contour_and_the_flag_limit() {
     let w = h.state();
     let s = w.project.get(w.active.unwrap()).unwrap();
     let a = w.fitter.get(s.id).unwrap();
-    let fit = a.fit.as_ref().unwrap();
+    let fit = a.fit.as_deref().unwrap();
     // The levels isochore-fit draws (the flag rule's 4/n first, then D = 1).
     let levels = isochore_fit::influence::FlagLimits::of(fit).contour_levels();
     let fixed = isochore_report::present::fixed;
@@ -158,7 +158,7 @@ fn the_influence_plot_draws_the_residual_the_flag_rule_tests() {
     let w = h.state();
     let s = w.project.get(w.active.unwrap()).unwrap();
     let a = w.fitter.get(s.id).unwrap();
-    let fit = a.fit.as_ref().unwrap();
+    let fit = a.fit.as_deref().unwrap();
     let k = a.point_of_row[OUTLIER_ROW].unwrap();
     let d = &fit.points()[k];
     let ext = d.student_ext.expect("an externally studentized residual");

@@ -72,7 +72,7 @@ fn a_refit_after_exclusions_is_the_analysis_made_from_the_cells() {
     .expect("row exists");
     let third = reanalyse(entry(&p), &second).expect("only an exclusion changed");
     assert!(same(&third, &analyse(entry(&p))));
-    let fit = third.fit.as_ref().expect("fit");
+    let fit = third.fit.as_deref().expect("fit");
     assert_eq!(fit.n_used(), 5_999);
 }
 
@@ -117,7 +117,7 @@ fn a_large_refit_in_the_background_ends_as_the_analysis_made_from_the_cells() {
     fitter.update(&p.series, 1.0, true);
     let id = p.series[0].id;
     let a = fitter.get(id).expect("fitted");
-    let fit = a.fit.as_ref().expect("fit");
+    let fit = a.fit.as_deref().expect("fit");
     assert!(!fit.comparison_pending() && fit.comparison().is_some());
     assert_eq!(fit.n_used(), 24_999);
     // The residual and influence indexes and the flags, made after the estimates were
@@ -125,6 +125,39 @@ fn a_large_refit_in_the_background_ends_as_the_analysis_made_from_the_cells() {
     assert!(!a.plots_pending && !a.resid_index.is_empty() && !a.infl_index.is_empty());
     assert!(same(&a, &analyse(entry(&p))));
     assert!(fitter.running(&p.series).is_empty());
+}
+
+#[test]
+fn large_refits_one_after_another_each_end_as_the_analysis_made_from_the_cells() {
+    // Each large refit marks the points of an earlier analysis again (the shown one's, or
+    // those of the analysis before it once that is given back): excluded, brought back,
+    // another excluded, the last row excluded; every analysis must be the one made from the
+    // cells.
+    let mut p = project(25_000, 1);
+    let mut fitter = Fitter::default();
+    fitter.update(&p.series, 0.0, true);
+    let id = p.series[0].id;
+    let steps = [
+        (11, true),
+        (11, false),
+        (24_999, true),
+        (300, true),
+        (24_999, false),
+    ];
+    for (k, (row, out)) in steps.into_iter().enumerate() {
+        apply(
+            &mut p,
+            Command::SetExclusion {
+                series: id,
+                row,
+                exclusion: out.then(|| ("test".into(), "2026-12-03T12:00:00Z".into())),
+            },
+        )
+        .expect("row exists");
+        fitter.update(&p.series, 1.0 + k as f64, true);
+        let a = fitter.get(id).expect("fitted");
+        assert!(same(&a, &analyse(entry(&p))), "step {k}");
+    }
 }
 
 #[test]
@@ -146,14 +179,14 @@ fn no_report_is_written_while_a_large_refit_waits_for_its_comparison() {
         fitter.update(&p.series, 1.0 + step as f64 * 1e-3, false);
         let new = fitter
             .get(id)
-            .is_some_and(|a| a.fit.as_ref().is_ok_and(|f| f.n_used() == 24_999));
+            .is_some_and(|a| a.fit.as_deref().is_ok_and(|f| f.n_used() == 24_999));
         if !new {
             std::thread::sleep(std::time::Duration::from_millis(1));
             continue;
         }
         if fitter.comparison_pending(id) {
             let a = fitter.get(id).expect("fitted");
-            assert!(a.fit.as_ref().expect("fit").comparison().is_none());
+            assert!(a.fit.as_deref().expect("fit").comparison().is_none());
             // The plots' indexes come with the comparison: until then none is shown.
             assert!(a.plots_pending && a.resid_index.is_empty() && a.flagged.is_empty());
             let Err(why) = ExportJob::start(&p, &fitter, &[id], formats, &dir, "", "") else {
@@ -167,7 +200,7 @@ fn no_report_is_written_while_a_large_refit_waits_for_its_comparison() {
         break;
     }
     let a = fitter.get(id).expect("fitted");
-    assert!(a.fit.as_ref().expect("fit").comparison().is_some());
+    assert!(a.fit.as_deref().expect("fit").comparison().is_some());
     assert!(!fitter.comparison_pending(id));
     assert!(!a.plots_pending && !a.infl_index.is_empty() && a.flagged.len() == 25_000);
     assert!(same(&a, &analyse(entry(&p))));

@@ -46,7 +46,7 @@ fn ols_delta_h() -> f64 {
 #[test]
 fn an_empty_sigma_column_is_fitted_unweighted_and_says_so() {
     let a = analyse(&series(["", "", "", ""]));
-    let fit = a.fit.as_ref().expect("fitted, not refused");
+    let fit = a.fit.as_deref().expect("fitted, not refused");
     assert!(!fit.weighted());
     let dh = fit.params()[0].estimate.value;
     assert!((dh - ols_delta_h()).abs() < 1e-6 * dh.abs(), "{dh}");
@@ -62,7 +62,7 @@ fn an_empty_sigma_column_is_fitted_unweighted_and_says_so() {
 #[test]
 fn sigma_in_some_rows_only_is_still_refused_with_its_line() {
     let a = analyse(&series(["0.01", "", "0.01", "0.01"]));
-    let e = a.fit.as_ref().expect_err("refused");
+    let e = a.fit.as_deref().expect_err("refused");
     assert!(e.contains("line 3"), "{e}");
     assert_eq!(a.remedy, Some(Remedy::FitUnweighted));
 }

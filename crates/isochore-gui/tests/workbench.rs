@@ -436,7 +436,7 @@ fn exporting_through_the_menu_writes_reports_with_the_library_delta_h() {
     // The HTML and Markdown reports show the same value, rounded as the report rounds it.
     let s = h.state().project.get(h.state().active.unwrap()).unwrap();
     let fit = h.state().fitter.get(s.id).unwrap();
-    let fit = fit.fit.as_ref().unwrap();
+    let fit = fit.fit.as_deref().unwrap();
     let rows = isochore_report::content::result_rows_for(
         fit,
         s.data.settings.energy_unit,

@@ -1,23 +1,21 @@
 //! What a large refit leaves for after its estimates are shown (issue 14): the model
 //! comparison, on a thread of its own, and the residual and influence indexes with the
-//! points' flags, a pass computing every point's diagnostics. They are put into the
-//! analysis together; then it is the analysis a whole fit gives, every field.
+//! points' flags, a pass computing every point's diagnostics. Both start once the estimates
+//! are sent, so nothing competes with them for the processor until then. They are put into
+//! the analysis together; then it is the analysis a whole fit gives, every field.
 
 use super::{Analysis, Prepared};
 use crate::decimate::{sort_by_x_then_id, EnvelopeIndex};
-use isochore_fit::{CompletedComparison, VantHoffFit};
+use isochore_fit::{CompletedComparison, Measurement, PendingComparison, VantHoffFit};
 use std::sync::Arc;
 
-/// A large fit's model comparison, being made on a thread of its own.
-pub(super) type Comparing = std::thread::JoinHandle<CompletedComparison>;
-
-/// What a large refit leaves for after its estimates are shown: the model comparison
-/// (already running on a thread of its own) and the residual and influence indexes with
-/// the flags (made by [`Deferred::run`], on the worker, from a copy of the fit).
+/// What a large refit leaves for after its estimates are shown: the model comparison (with
+/// the points it is made on) and the residual and influence indexes with the flags (from
+/// the fit the analysis shows, shared), both made by [`Deferred::run`].
 #[derive(Default)]
 pub(super) struct Deferred {
-    pub(super) comparing: Option<Comparing>,
-    pub(super) plots: Option<(VantHoffFit, Arc<Prepared>)>,
+    pub(super) comparison: Option<(PendingComparison, Arc<Vec<Measurement>>)>,
+    pub(super) plots: Option<(Arc<VantHoffFit>, Arc<Prepared>)>,
 }
 
 /// The residual and influence indexes and the points' flags of a large fit.
@@ -35,13 +33,28 @@ pub(super) struct Later {
 
 impl Deferred {
     pub(super) fn is_empty(&self) -> bool {
-        self.comparing.is_none() && self.plots.is_none()
+        self.comparison.is_none() && self.plots.is_none()
     }
 
-    /// Makes the plots' indexes (while the comparison runs) and waits for the comparison.
+    /// Starts the comparison on a thread of its own, makes the plots' indexes meanwhile and
+    /// waits for the comparison. The shared fit is let go before returning, so the analysis
+    /// holds the only one when the comparison is put in ([`Later::apply`]).
     pub(super) fn run(self) -> Later {
+        let comparing = self.comparison.map(|(pending, points)| {
+            let spawned = std::thread::Builder::new()
+                .name("isochore-compare".into())
+                .spawn({
+                    let points = points.clone();
+                    move || pending.run(&points)
+                });
+            (spawned, points)
+        });
         let plots = self.plots.map(|(f, prepared)| plots_of(&f, &prepared));
-        let comparison = self.comparing.and_then(|h| h.join().ok());
+        let comparison = comparing.and_then(|(spawned, _points)| match spawned {
+            Ok(h) => h.join().ok(),
+            // Without a thread the comparison is not made: the fit stays without it.
+            Err(_) => None,
+        });
         Later { comparison, plots }
     }
 }
@@ -52,7 +65,8 @@ impl Later {
     pub(super) fn apply(self, analysis: &mut Analysis) {
         if let Some(done) = self.comparison {
             if let Ok(f) = &mut analysis.fit {
-                f.complete_comparison(done);
+                // The worker let its share go: no copy is made here.
+                Arc::make_mut(f).complete_comparison(done);
             }
         }
         if let Some(p) = self.plots {
@@ -75,7 +89,7 @@ pub(super) fn complete((mut analysis, deferred): (Analysis, Deferred)) -> Analys
 /// a million records (168 MB) are never made; the panels compute the few they draw the
 /// same way (`VantHoffFit::point`).
 pub(super) fn plots_of(f: &VantHoffFit, prepared: &Prepared) -> Plots {
-    let n = prepared.measurements.len();
+    let n = prepared.n_points;
     let mut flagged = vec![false; n];
     let mut t_residual = vec![[f64::NAN; 2]; n];
     let mut influence = Vec::with_capacity(n);

@@ -42,7 +42,7 @@ impl DiagnosticsPanel {
         let Some(a) = cx.fitter.get(s.id) else {
             return;
         };
-        let Ok(fit) = a.fit.as_ref() else {
+        let Ok(fit) = a.fit.as_deref() else {
             return;
         };
         if a.plots_pending {

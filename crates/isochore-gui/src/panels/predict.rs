@@ -164,7 +164,7 @@ impl PredictPanel {
         self.follow_unit(tu);
         let eu = present::energy(s.data.settings.energy_unit);
         let a = cx.fitter.get(s.id);
-        let fit = a.as_ref().and_then(|a| a.fit.as_ref().ok());
+        let fit = a.as_ref().and_then(|a| a.fit.as_deref().ok());
         ui.horizontal(|ui| {
             let name = ui.label("at T =");
             ui.add(egui::TextEdit::singleline(&mut self.t_text).desired_width(60.0))

@@ -70,7 +70,7 @@ impl TablePanel {
         let a = analysis.as_deref();
         // Each visible row's diagnostics are computed when drawn (`VantHoffFit::point`), so
         // a large fit's records are never all made on the UI thread.
-        let fit = a.and_then(|a| a.fit.as_ref().ok());
+        let fit = a.and_then(|a| a.fit.as_deref().ok());
         let n_excl = series.data.exclusions.len();
         ui.horizontal(|ui| {
             ui.heading("Measurements");

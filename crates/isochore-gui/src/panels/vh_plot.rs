@@ -514,7 +514,7 @@ pub fn point_card(
             ui.end_row();
         }
         let d = a
-            .and_then(|a| a.fit.as_ref().ok())
+            .and_then(|a| a.fit.as_deref().ok())
             .and_then(|f| f.point(point));
         if let Some(d) = d {
             ui.label("ln K (fit)");
