@@ -143,9 +143,14 @@ pub(crate) fn weighted_rss_streamed(
     let mut refl: Vec<Reflection> = Vec::with_capacity(p);
     let mut r = DMatrix::<f64>::zeros(p, p);
     let mut qtb = DVector::<f64>::zeros(p);
+    // Column k as its first pass forms it, read again by the second instead of formed and
+    // reflected again; later the refinement's r (so it adds nothing to the peak when the
+    // solution is refined).
+    let mut column: Vec<f64> = Vec::with_capacity(n);
     for k in 0..p {
         let len = n - k;
         let mut sq = Lanes::new(len);
+        column.clear();
         src.rows(
             k,
             &refl,
@@ -153,6 +158,7 @@ pub(crate) fn weighted_rss_streamed(
             false,
             |_, _, _| (),
             |rel, _, m, v| {
+                column.extend_from_slice(&v[k][..m]);
                 let mut t = [0.0; LANES];
                 for (t, x) in t.iter_mut().zip(&v[k]) {
                     *t = x * x;
@@ -171,25 +177,20 @@ pub(crate) fn weighted_rss_streamed(
         }
         let sf = factor.sqrt();
         let mut nsq = Lanes::new(len);
-        src.rows(
-            k,
-            &refl,
-            k + 1,
-            false,
-            |_, _, _| (),
-            |rel, _, m, v| {
-                let mut x = v[k];
-                if rel == 0 {
-                    x[0] += signed_norm;
-                }
-                let mut t = [0.0; LANES];
-                for (t, x) in t.iter_mut().zip(&x) {
-                    let u = x / sf;
-                    *t = u * u;
-                }
-                nsq.push_block(rel, m, &t);
-            },
-        );
+        for (b, block) in column.chunks(LANES).enumerate() {
+            let (rel, m) = (b * LANES, block.len());
+            let mut x = [0.0; LANES];
+            x[..m].copy_from_slice(block);
+            if rel == 0 {
+                x[0] += signed_norm;
+            }
+            let mut t = [0.0; LANES];
+            for (t, x) in t.iter_mut().zip(&x) {
+                let u = x / sf;
+                *t = u * u;
+            }
+            nsq.push_block(rel, m, &t);
+        }
         let nrm = nsq.total().sqrt();
         if !(nrm.is_finite() && nrm != 0.0) {
             return None;
@@ -290,7 +291,9 @@ pub(crate) fn weighted_rss_streamed(
         // Björck's refinement as `refined_solution` takes it, with its residuals r and f
         // kept (two numbers per point); f goes through the reflections as one more column
         // for Qᵀf. A step's update of r is made in the next pass that reads it.
-        let mut res = vec![0.0; n];
+        let mut res = column;
+        res.clear();
+        res.resize(n, 0.0);
         let mut f = vec![0.0; n];
         // The last step's δx, not yet added into `res`.
         let mut pending: Option<Vec<f64>> = None;
