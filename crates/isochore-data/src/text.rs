@@ -167,8 +167,18 @@ impl<'a> Reader<'a> {
             max_columns,
             file,
             quote_free: false,
-            spans: Vec::with_capacity(8),
+            // Made on the first record (a reader may be given its buffer: `with_spans`).
+            spans: Vec::new(),
         }
+    }
+
+    /// Uses `spans` (emptied) as the buffer for the cells, so that reading allocates
+    /// nothing while records have no more cells than it has room for; [`Reader::spans`]
+    /// gives it back.
+    pub fn with_spans(mut self, mut spans: Vec<Span>) -> Self {
+        spans.clear();
+        self.spans = spans;
+        self
     }
 
     /// Skips the per-line search for quotes (the caller knows there are none).

@@ -1,4 +1,4 @@
-//! `import_path_rows` reads a file over `PIECES_ABOVE` (4 MiB) in pieces of 1 MiB, never
+//! `import_path_rows` reads a file over `PIECES_ABOVE` (4 MiB) in pieces of 2 MiB, never
 //! holding its text whole; the import must be `import_path`'s in every field but the text
 //! (same SHA-256, rows bit for bit with their line and row numbers and byte ranges,
 //! rejected rows, notes, decimal convention, errors), and a file the pieces cannot read
@@ -273,5 +273,23 @@ fn a_small_file_is_read_whole() {
     assert_eq!(
         both("small.csv", t.as_bytes(), &ImportOptions::default()),
         Ok(false)
+    );
+}
+
+#[test]
+fn a_file_ending_where_a_piece_ends() {
+    // Lines of exactly 32 bytes: every piece (a power of two in size) ends with a line
+    // break, and the last read finds the end of the file with nothing in it.
+    let mut text = format!("{:<31}\n", "T (K),ln K");
+    let mut i = 0usize;
+    while text.len() < 3 << 21 {
+        let row = format!("{},{:.6}", 280 + i % 50, 1.0 + (i % 7) as f64 / 8.0);
+        text.push_str(&format!("{row:<31}\n"));
+        i += 1;
+    }
+    assert_eq!(text.len(), 3 << 21);
+    assert_eq!(
+        both("even.csv", text.as_bytes(), &ImportOptions::default()),
+        Ok(true)
     );
 }

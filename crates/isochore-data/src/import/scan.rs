@@ -56,6 +56,19 @@ pub(super) struct Chunk {
     pub(super) in_sink: usize,
 }
 
+/// What a part of a file read in pieces is given to work with (see `super::stream`), so
+/// that the thread reading it allocates nothing while its rows are ordinary (with huge
+/// pages, a thread's first allocation costs an arena of the allocator's and 2 MiB or more):
+/// the buffer for a record's cells, room for one data set and its range, and the data set
+/// itself, all made by the caller. [`Scan::run`] gives back the buffer; the data set, if
+/// used, comes back in the findings.
+pub(super) struct Kit {
+    pub(super) spans: Vec<Span>,
+    pub(super) series: Vec<Scanned>,
+    pub(super) ranges: Vec<(f64, f64)>,
+    pub(super) set: Option<Scanned>,
+}
+
 impl Scan<'_> {
     /// Reads every data row from `data_start` (the line after the header; `first_line` is
     /// the header's physical line). `first_quote`: the first quote in the text, if any
@@ -88,7 +101,14 @@ impl Scan<'_> {
         // second can be appended without moving the first.
         let reserve = |bytes: usize| if bytes > (1 << 20) { bytes / 16 } else { 0 };
         let chunk = match cut {
-            None => ctx.run(data_start, text.len(), first_line, reserve(data_len), None)?,
+            None => ctx.run(
+                data_start,
+                text.len(),
+                first_line,
+                reserve(data_len),
+                None,
+                None,
+            )?,
             // One data set (no series column): both halves write into one buffer.
             Some(cut) if ctx.mapping.series.is_none() => {
                 ctx.one_set(data_start, cut, first_line)?
@@ -98,13 +118,20 @@ impl Scan<'_> {
                 let second_half = || {
                     let lines_before = memchr::memchr_iter(b'\n', &bytes[data_start..cut]).count();
                     let n = text.len() - cut;
-                    ctx.run(cut, text.len(), first_line + lines_before, reserve(n), None)
+                    ctx.run(
+                        cut,
+                        text.len(),
+                        first_line + lines_before,
+                        reserve(n),
+                        None,
+                        None,
+                    )
                 };
                 let (a, b) = std::thread::scope(|sc| {
                     let second = std::thread::Builder::new()
                         .spawn_scoped(sc, second_half)
                         .ok();
-                    let a = ctx.run(data_start, cut, first_line, reserve(data_len), None);
+                    let a = ctx.run(data_start, cut, first_line, reserve(data_len), None, None);
                     let b = match second {
                         Some(h) => h.join().unwrap_or_else(|_| second_half()),
                         None => second_half(),
@@ -175,10 +202,10 @@ impl Scan<'_> {
         let (a, b) = std::thread::scope(|sc| {
             let second = std::thread::Builder::new()
                 .spawn_scoped(sc, || {
-                    self.run(cut, self.text.len(), first_line + l1, 0, Some(hi))
+                    self.run(cut, self.text.len(), first_line + l1, 0, Some(hi), None)
                 })
                 .ok();
-            let a = self.run(data_start, cut, first_line, 0, Some(lo));
+            let a = self.run(data_start, cut, first_line, 0, Some(lo), None);
             let b = match second {
                 Some(h) => h.join().ok(),
                 None => None,
@@ -191,7 +218,7 @@ impl Scan<'_> {
             // The thread could not be started or failed: read the second half here.
             None => {
                 let hi = &mut all[l1..];
-                self.run(cut, self.text.len(), first_line + l1, 0, Some(hi))?
+                self.run(cut, self.text.len(), first_line + l1, 0, Some(hi), None)?
             }
         };
         let (k1, k2) = (a.in_sink, b.in_sink);
@@ -251,6 +278,7 @@ impl Scan<'_> {
     /// The room left over is given back in the series stage (`series::assemble`).
     /// `sink`: with one data set (no series column), the rows are written here first (the
     /// count in [`Chunk::in_sink`]), and only those beyond its length into the data set.
+    /// `kit`: what to work with instead of allocating (see [`Kit`]).
     pub(super) fn run(
         &self,
         start: usize,
@@ -258,6 +286,7 @@ impl Scan<'_> {
         line: usize,
         reserve: usize,
         mut sink: Option<&mut [Row]>,
+        mut kit: Option<&mut Kit>,
     ) -> Result<Chunk, Error> {
         let (text, o, mapping) = (self.text, self.o, self.mapping);
         let mut reader = Reader::new(
@@ -273,6 +302,11 @@ impl Scan<'_> {
         let ncols = self.headers.len();
         let mut series: Vec<Scanned> = Vec::new();
         let mut ranges: Vec<(f64, f64)> = Vec::new();
+        if let Some(k) = kit.as_deref_mut() {
+            reader = reader.with_spans(std::mem::take(&mut k.spans));
+            series = std::mem::take(&mut k.series);
+            ranges = std::mem::take(&mut k.ranges);
+        }
         let none = (f64::INFINITY, f64::NEG_INFINITY);
         let mut index: HashMap<String, usize> = HashMap::new();
         // The names of the data sets in a form compared without a call (see `NameKey`).
@@ -283,10 +317,12 @@ impl Scan<'_> {
         let mut marks = Marks::default();
         let mut in_sink = 0usize;
         // The number cells whose decimal marks are watched (only where a comma could be one).
-        let mut watched: Vec<usize> = vec![mapping.temperature.column, mapping.quantity.column];
-        if let Some(u) = mapping.uncertainty {
-            watched.push(u.column);
-        }
+        let watched_cells = [
+            mapping.temperature.column,
+            mapping.quantity.column,
+            mapping.uncertainty.map_or(usize::MAX, |u| u.column),
+        ];
+        let watched = &watched_cells[..if mapping.uncertainty.is_some() { 3 } else { 2 }];
         let watch = self.comma_ok;
         // Columns that may be missing at the end of a short row.
         let optional = |c: usize| {
@@ -324,58 +360,62 @@ impl Scan<'_> {
                 }
             }
             let cell = |i: usize| spans.get(i).unwrap_or(&empty).raw(text);
-            let si = match mapping.series {
-                None => {
-                    if series.is_empty() {
-                        series.push(new_series(self.default_name.to_string(), reserve));
-                        ranges.push(none);
+            let si =
+                match mapping.series {
+                    None => {
+                        if series.is_empty() {
+                            let set = kit.as_deref_mut().and_then(|k| k.set.take());
+                            series.push(set.unwrap_or_else(|| {
+                                new_series(self.default_name.to_string(), reserve)
+                            }));
+                            ranges.push(none);
+                        }
+                        0
                     }
-                    0
-                }
-                Some(c) => {
-                    let span = spans.get(c).unwrap_or(&empty);
-                    let owned;
-                    let name = if span.escaped {
-                        owned = span.unescaped(text);
-                        owned.trim()
-                    } else {
-                        text::trim(span.raw(text))
-                    };
-                    let name = if name.is_empty() {
-                        self.default_name
-                    } else {
-                        name
-                    };
-                    let key = NameKey::of(name);
-                    let is = |i: usize| {
-                        keys.get(i) == Some(&key) && (key.len <= 16 || series[i].name == name)
-                    };
-                    if is(last) {
-                        last
-                    } else if let Some(i) = if series.len() <= 16 {
-                        (0..series.len()).find(|&i| is(i))
-                    } else {
-                        index.get(name).copied()
-                    } {
-                        last = i;
-                        i
-                    } else {
-                        series.push(new_series(
-                            name.to_string(),
-                            if series.len() < 8 { reserve } else { 0 },
-                        ));
-                        keys.push(key);
-                        ranges.push(none);
-                        index.insert(name.to_string(), series.len() - 1);
-                        last = series.len() - 1;
-                        last
+                    Some(c) => {
+                        let span = spans.get(c).unwrap_or(&empty);
+                        let owned;
+                        let name = if span.escaped {
+                            owned = span.unescaped(text);
+                            owned.trim()
+                        } else {
+                            text::trim(span.raw(text))
+                        };
+                        let name = if name.is_empty() {
+                            self.default_name
+                        } else {
+                            name
+                        };
+                        let key = NameKey::of(name);
+                        let is = |i: usize| {
+                            keys.get(i) == Some(&key) && (key.len <= 16 || series[i].name == name)
+                        };
+                        if is(last) {
+                            last
+                        } else if let Some(i) = if series.len() <= 16 {
+                            (0..series.len()).find(|&i| is(i))
+                        } else {
+                            index.get(name).copied()
+                        } {
+                            last = i;
+                            i
+                        } else {
+                            series.push(new_series(
+                                name.to_string(),
+                                if series.len() < 8 { reserve } else { 0 },
+                            ));
+                            keys.push(key);
+                            ranges.push(none);
+                            index.insert(name.to_string(), series.len() - 1);
+                            last = series.len() - 1;
+                            last
+                        }
                     }
-                }
-            };
+                };
             match convert_cells(mapping, self.comma_ok, o.allow_extreme_temperatures, cell) {
                 Ok(c) => {
                     if watch {
-                        for &col in &watched {
+                        for &col in watched {
                             let text = cell(col);
                             marks.note(mark_of(text), rec.line, col, text);
                         }
@@ -421,6 +461,9 @@ impl Scan<'_> {
                     });
                 }
             }
+        }
+        if let Some(k) = kit {
+            k.spans = std::mem::take(&mut reader.spans);
         }
         Ok(Chunk {
             series,

@@ -19,8 +19,8 @@
 //! the whole text's do; `tests/large.rs` compares the two readings field by field.
 
 use super::dialect::{self, Marks};
-use super::scan::{Chunk, Scan};
-use super::series::{Row, Scanned};
+use super::scan::{Chunk, Kit, Scan};
+use super::series::{new_series, Row, Scanned};
 use super::source::{assembled, effective_limit, hex};
 use super::{complete, stem, Import, ImportOptions, Parsed};
 use crate::error::{Error, RejectedRow};
@@ -30,15 +30,17 @@ use sha2::{Digest, Sha256};
 use std::fs::File;
 use std::io::Read;
 use std::path::Path;
-use std::sync::atomic::{AtomicUsize, Ordering};
-use std::sync::Mutex;
+use std::sync::{Condvar, Mutex};
 
 /// Files larger than this (bytes) are read in pieces by [`import_path_rows`]; smaller
 /// ones as [`super::import_path`] reads them.
 pub const PIECES_ABOVE: u64 = 4 << 20;
 
-/// Bytes read at a time.
-const PIECE: usize = 1 << 20;
+/// Bytes read at a time (two pieces are held: the one parsed and the one read ahead).
+/// Pieces of 1 MiB saved 3 MiB of the peak but made the two threads wait for each other
+/// twice as often, and on a loaded machine a thread that waits loses its core to another
+/// process: 10⁶ rows took 90–100 ms instead of 70–75 (2026-12-03, load 3–5).
+const PIECE: usize = 2 << 20;
 
 /// Parts each piece is parsed in, shared by the cores (more parts than cores, so that
 /// the hash and the read of the next piece fit in beside them).
@@ -46,7 +48,7 @@ const PARTS: usize = 8;
 
 /// Imports a file, as [`super::import_path`] does, for a caller that needs only the
 /// converted rows, not the cells as typed: a file over [`PIECES_ABOVE`] bytes is read in
-/// pieces of 1 MiB, each hashed and parsed while the next is read, so that its text is
+/// pieces of 2 MiB, each hashed and parsed while the next is read, so that its text is
 /// never held whole (see the module documentation for the files that are read whole all
 /// the same). The result equals `import_path`'s, but [`Import::cells`] gives no cells
 /// when the text was not kept ([`Import::has_text`]), and then neither do the data sets of
@@ -72,9 +74,10 @@ struct Part {
     slots: usize,
 }
 
-/// `data[from..]` in [`PARTS`] parts cut after line breaks.
-fn plan(data: &[u8], from: usize) -> Vec<Part> {
-    let mut parts = Vec::with_capacity(PARTS);
+/// `data[from..]` in [`PARTS`] parts cut after line breaks, into `parts` (emptied; made
+/// by the caller with room for them, so that the thread reading ahead allocates nothing).
+fn plan(data: &[u8], from: usize, mut parts: Vec<Part>) -> Vec<Part> {
+    parts.clear();
     let mut start = from;
     for i in 1..=PARTS {
         let end = if i == PARTS {
@@ -139,9 +142,9 @@ impl Source<'_> {
         Some((cut, eof))
     }
 
-    /// The next piece of data rows read into `buf` after `tail`, and its parts. `None`
-    /// also for a NUL byte or a quote in it.
-    fn next(&mut self, buf: &mut Vec<u8>, tail: &[u8]) -> Option<Piece> {
+    /// The next piece of data rows read into `buf` after `tail`, and its parts (in
+    /// `parts`). `None` also for a NUL byte or a quote in it.
+    fn next(&mut self, buf: &mut Vec<u8>, tail: &[u8], parts: Vec<Part>) -> Option<Piece> {
         let (cut, eof) = self.read(buf, tail)?;
         let data = &buf[..cut];
         if memchr::memchr2(0, b'"', data).is_some() {
@@ -150,7 +153,7 @@ impl Source<'_> {
         Some(Piece {
             cut,
             eof,
-            parts: plan(data, 0),
+            parts: plan(data, 0, parts),
         })
     }
 }
@@ -168,6 +171,7 @@ enum Job<'a, 'f> {
         part: Part,
         line: usize,
         room: &'a mut [Row],
+        kit: &'a mut Kit,
         out: &'a mut Option<Result<Chunk, Error>>,
     },
 }
@@ -178,6 +182,7 @@ type ReadAhead<'a, 'f> = (
     &'a mut Source<'f>,
     &'a mut Vec<u8>,
     &'a [u8],
+    Vec<Part>,
     &'a mut Option<Piece>,
 );
 
@@ -186,8 +191,8 @@ impl Job<'_, '_> {
         match self {
             Job::Ahead { hasher, done, read } => {
                 hasher.update(done);
-                if let Some((source, next, tail, ahead)) = read {
-                    *ahead = source.next(next, tail);
+                if let Some((source, next, tail, parts, ahead)) = read {
+                    *ahead = source.next(next, tail, parts);
                 }
             }
             Job::Part {
@@ -195,33 +200,61 @@ impl Job<'_, '_> {
                 part,
                 line,
                 room,
+                kit,
                 out,
-            } => *out = Some(scan.run(part.start, part.end, line, 0, Some(room))),
+            } => *out = Some(scan.run(part.start, part.end, line, 0, Some(room), Some(kit))),
         }
     }
 }
 
-/// Runs the jobs on this thread and one more, each taking the next job not yet taken.
+/// Runs the job in `slot`, if it is still there.
+fn take(slot: &Mutex<Option<Job<'_, '_>>>) {
+    let job = slot.lock().ok().and_then(|mut j| j.take());
+    if let Some(job) = job {
+        job.run();
+    }
+}
+
+/// The parts of a piece, given to the two threads once the room for their rows is made.
 /// Only these two threads allocate (the parts' findings): with huge pages, every thread
 /// that allocates costs an arena of the allocator's and 2 MiB or more of memory.
-fn share(jobs: &[Mutex<Option<Job<'_, '_>>>]) {
-    let taken = AtomicUsize::new(0);
-    let work = || {
-        while let Some(slot) = jobs.get(taken.fetch_add(1, Ordering::Relaxed)) {
-            let job = slot.lock().ok().and_then(|mut j| j.take());
-            if let Some(job) = job {
-                job.run();
-            }
+struct Queue<'a, 'f> {
+    /// The jobs not yet taken, and whether they have been given.
+    jobs: Mutex<(Vec<Job<'a, 'f>>, bool)>,
+    given: Condvar,
+}
+
+impl<'a, 'f> Queue<'a, 'f> {
+    fn give(&self, jobs: Vec<Job<'a, 'f>>) {
+        if let Ok(mut q) = self.jobs.lock() {
+            *q = (jobs, true);
         }
-    };
-    std::thread::scope(|s| {
-        let helper = std::thread::Builder::new().spawn_scoped(s, work).ok();
-        work();
-        if let Some(h) = helper {
-            // A job of a thread that failed left its finding empty: read whole.
-            let _ = h.join();
+        self.given.notify_all();
+    }
+
+    /// Runs jobs until none is left (waiting until they are given).
+    fn work(&self) {
+        loop {
+            let job = {
+                let Ok(mut q) = self.jobs.lock() else {
+                    return;
+                };
+                loop {
+                    if let Some(j) = q.0.pop() {
+                        break j;
+                    }
+                    if q.1 {
+                        return;
+                    }
+                    q = match self.given.wait(q) {
+                        Ok(q) => q,
+                        Err(_) => return,
+                    };
+                }
+            };
+            job.run();
         }
-    });
+    }
 }
 
 /// What the parts have read so far, in file order (the one data set's rows are in the
@@ -346,7 +379,7 @@ fn in_pieces(path: &Path, o: &ImportOptions) -> Option<Result<Import, Error>> {
     let mut piece = Piece {
         cut,
         eof,
-        parts: plan(&cur[..cut], h.data_start),
+        parts: plan(&cur[..cut], h.data_start, Vec::with_capacity(PARTS)),
     };
     let mut line = h.first_line;
     let mut offset = 0usize;
@@ -355,38 +388,82 @@ fn in_pieces(path: &Path, o: &ImportOptions) -> Option<Result<Import, Error>> {
         let text = std::str::from_utf8(&cur[..cut]).ok()?;
         let w0 = rows.len();
         let slots: usize = parts.iter().map(|p| p.slots).sum();
-        rows.resize(w0 + slots, Row::EMPTY);
         let mut found: Vec<Option<Result<Chunk, Error>>> = parts.iter().map(|_| None).collect();
+        // What each part works with (see `Kit`), made here.
+        let mut kits: Vec<Kit> = parts
+            .iter()
+            .map(|_| Kit {
+                spans: Vec::with_capacity(h.headers.len() + 8),
+                series: Vec::with_capacity(1),
+                ranges: Vec::with_capacity(1),
+                set: Some(new_series(default_name.clone(), 0)),
+            })
+            .collect();
         let mut ahead: Option<Piece> = None;
         {
             let (done, tail) = cur.split_at(cut);
-            let mut jobs = Vec::with_capacity(parts.len() + 1);
-            jobs.push(Mutex::new(Some(Job::Ahead {
+            let first = Mutex::new(Some(Job::Ahead {
                 hasher: &mut hasher,
                 done,
-                read: (!eof).then_some((&mut source, &mut next, tail, &mut ahead)),
-            })));
-            let mut room = &mut rows[w0..];
-            let mut at = (line, w0);
-            for (&p, out) in parts.iter().zip(found.iter_mut()) {
-                let (mine, rest) = std::mem::take(&mut room).split_at_mut(p.slots);
-                room = rest;
-                let scan = Scan {
-                    text,
-                    offset: offset as u32,
-                    rows_before: at.1 as u32,
-                    ..scan
-                };
-                jobs.push(Mutex::new(Some(Job::Part {
-                    scan,
-                    part: p,
-                    line: at.0,
-                    room: mine,
-                    out,
-                })));
-                at = (at.0 + p.lines, at.1 + p.slots);
-            }
-            share(&jobs);
+                read: (!eof).then_some((
+                    &mut source,
+                    &mut next,
+                    tail,
+                    Vec::with_capacity(PARTS),
+                    &mut ahead,
+                )),
+            }));
+            let queue = Queue {
+                jobs: Mutex::new((Vec::with_capacity(parts.len()), false)),
+                given: Condvar::new(),
+            };
+            let (first, queue, rows, found, kits) =
+                (&first, &queue, &mut rows, &mut found, &mut kits);
+            let parts = &parts;
+            std::thread::scope(move |s| {
+                // The other thread hashes this piece and reads the next while this one
+                // makes the room for the rows (the first touch of their pages); then
+                // both parse the parts.
+                let helper = std::thread::Builder::new()
+                    .spawn_scoped(s, move || {
+                        take(first);
+                        queue.work();
+                    })
+                    .ok();
+                rows.resize(w0 + slots, Row::EMPTY);
+                let mut room = &mut rows[w0..];
+                let mut at = (line, w0);
+                let mut jobs = Vec::with_capacity(parts.len());
+                for ((&p, out), kit) in parts.iter().zip(found.iter_mut()).zip(kits.iter_mut()) {
+                    let (mine, rest) = std::mem::take(&mut room).split_at_mut(p.slots);
+                    room = rest;
+                    let scan = Scan {
+                        text,
+                        offset: offset as u32,
+                        rows_before: at.1 as u32,
+                        ..scan
+                    };
+                    jobs.push(Job::Part {
+                        scan,
+                        part: p,
+                        line: at.0,
+                        room: mine,
+                        kit,
+                        out,
+                    });
+                    at = (at.0 + p.lines, at.1 + p.slots);
+                }
+                // Taken from the end: the first part first.
+                jobs.reverse();
+                queue.give(jobs);
+                queue.work();
+                if let Some(h) = helper {
+                    // A job of a thread that failed left its finding empty: read whole.
+                    let _ = h.join();
+                }
+                // The other thread did not start: its job is done here.
+                take(first);
+            });
         }
         // Each part numbered its rows as if every line before it in this piece were a
         // row; where some were not (blank, comment or rejected lines), its rows move down
