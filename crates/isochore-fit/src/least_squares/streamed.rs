@@ -143,29 +143,32 @@ pub(crate) fn weighted_rss_streamed(
     let mut refl: Vec<Reflection> = Vec::with_capacity(p);
     let mut r = DMatrix::<f64>::zeros(p, p);
     let mut qtb = DVector::<f64>::zeros(p);
-    // Column k as its first pass forms it, read again by the second instead of formed and
-    // reflected again; later the refinement's r (so it adds nothing to the peak when the
-    // solution is refined).
+    // Column k after k reflections (rows k on): formed by a pass for the first column, then
+    // each next one from it and from what the dot-product pass saw of the next column
+    // (`next`), by reflection k as `Reflection::apply` makes it, so the next column needs
+    // no pass of its own; read by the passes for its squared norm and the norm of its axis.
+    // Later the refinement's r and f (so they add nothing to the peak when the solution is
+    // refined).
     let mut column: Vec<f64> = Vec::with_capacity(n);
+    let mut next: Vec<f64> = Vec::with_capacity(n);
+    src.rows(
+        0,
+        &refl,
+        1,
+        false,
+        |_, _, _| (),
+        |_, _, m, v| column.extend_from_slice(&v[0][..m]),
+    );
     for k in 0..p {
         let len = n - k;
         let mut sq = Lanes::new(len);
-        column.clear();
-        src.rows(
-            k,
-            &refl,
-            k + 1,
-            false,
-            |_, _, _| (),
-            |rel, _, m, v| {
-                column.extend_from_slice(&v[k][..m]);
-                let mut t = [0.0; LANES];
-                for (t, x) in t.iter_mut().zip(&v[k]) {
-                    *t = x * x;
-                }
-                sq.push_block(rel, m, &t);
-            },
-        );
+        for (b, block) in column.chunks(LANES).enumerate() {
+            let mut t = [0.0; LANES];
+            for (t, x) in t.iter_mut().zip(block) {
+                *t = x * x;
+            }
+            sq.push_block(b * LANES, block.len(), &t);
+        }
         let sq = sq.total();
         let norm = sq.sqrt();
         let x0 = src.row(k, &refl, k + 1, false, |_, _, _| ())[k];
@@ -198,6 +201,7 @@ pub(crate) fn weighted_rss_streamed(
         let reflection_norm = -signed_norm;
         let sign = reflection_norm.signum();
         let mut dots: [Lanes; SLOTS] = std::array::from_fn(|_| Lanes::new(len));
+        next.clear();
         src.rows(
             k,
             &refl,
@@ -210,6 +214,9 @@ pub(crate) fn weighted_rss_streamed(
                     finite &= v[..slots]
                         .iter()
                         .all(|x| x[..m].iter().all(|x| x.is_finite()));
+                }
+                if k + 1 < p {
+                    next.extend_from_slice(&v[k + 1][..m]);
                 }
                 let mut x = v[k];
                 if rel == 0 {
@@ -250,6 +257,16 @@ pub(crate) fn weighted_rss_streamed(
             r[(k, j)] = v[j];
         }
         qtb[k] = v[p];
+        if k + 1 < p {
+            // Column k + 1 after reflection k, rows k + 1 on (none of them the first row of
+            // reflection k's view), over column k in place.
+            let t = &refl[k];
+            for j in 0..len - 1 {
+                let axis = column[j + 1] / t.sf / t.nrm;
+                column[j] = t.factor[k + 1] * axis * 1.0 + t.sign * next[j + 1];
+            }
+            column.truncate(len - 1);
+        }
     }
     #[cfg(test)]
     LAST_QR.with(|c| *c.borrow_mut() = Some((r.clone(), qtb.clone(), scale)));
@@ -294,7 +311,9 @@ pub(crate) fn weighted_rss_streamed(
         let mut res = column;
         res.clear();
         res.resize(n, 0.0);
-        let mut f = vec![0.0; n];
+        let mut f = next;
+        f.clear();
+        f.resize(n, 0.0);
         // The last step's δx, not yet added into `res`.
         let mut pending: Option<Vec<f64>> = None;
         let mut first = true;
