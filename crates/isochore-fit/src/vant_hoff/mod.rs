@@ -32,7 +32,7 @@ pub(crate) use inputs::design;
 
 use crate::error::Error;
 use crate::measurement::Measurement;
-use crate::model::{is_plausible_temperature, FitOptions};
+use crate::model::{is_plausible_temperature, FitOptions, Model};
 use comparison::{chi2_on_points, ladder_comparison};
 
 /// From this many points on, the other models of the ladder are solved on a second thread.
@@ -107,7 +107,7 @@ fn fit_threads(
     // same arithmetic on the same points, so the same numbers, in about half the time. The
     // solver's arithmetic is streamed over the points there (`lean`), so no n × p design
     // and its factorised copy are allocated beside the fit.
-    let (engine, mut beside) = std::thread::scope(|scope| {
+    std::thread::scope(|scope| {
         let beside = (!defer && points.len() >= parallel_points).then(|| {
             scope.spawn(|| {
                 model
@@ -118,10 +118,37 @@ fn fit_threads(
                     .collect::<Vec<_>>()
             })
         });
-        let engine = engines::run(points, options, allow_streaming);
-        let beside = beside.map(|h| h.join().unwrap_or_else(|e| std::panic::resume_unwind(e)));
-        (engine, beside.unwrap_or_default())
-    });
+        // Joined only when the comparison needs it: the fit's diagnostics pass runs
+        // meanwhile.
+        let join = move || {
+            beside
+                .map(|h| h.join().unwrap_or_else(|e| std::panic::resume_unwind(e)))
+                .unwrap_or_default()
+        };
+        assemble(
+            points,
+            options,
+            allow_streaming,
+            parallel_points,
+            defer,
+            join,
+        )
+    })
+}
+
+/// The fit of [`fit_threads`] from the solver on: statistics, diagnostics, warnings and the
+/// comparison, with the χ² of the models solved beside it from `beside` (called once, when
+/// the comparison needs them).
+fn assemble(
+    points: &[Measurement],
+    options: &FitOptions,
+    allow_streaming: bool,
+    parallel_points: usize,
+    defer: bool,
+    beside: impl FnOnce() -> Vec<(Model, Result<f64, Error>)>,
+) -> Result<(VantHoffFit, Option<PendingComparison>), Error> {
+    let model = options.model;
+    let engine = engines::run(points, options, allow_streaming);
     let engine = engine?;
     let (lin, weighted, sums) = engine.solution(options);
     let lin = lin.as_ref();
@@ -230,6 +257,7 @@ fn fit_threads(
         return Ok((out, Some(pending)));
     }
     // The comparison needs only each ladder model's χ² on the same points and weights.
+    let mut beside = beside();
     out.comparison = ladder_comparison(&model.ladder(), &sums, options, |m| {
         if m == model {
             Ok(lin.rss)
