@@ -351,7 +351,8 @@ fn in_pieces(path: &Path, o: &ImportOptions) -> Option<Result<Import, Error>> {
     // a delimiter and a line break): address space only, as pages never written cost no
     // memory; the room left over is given back in the series stage.
     let mut rows: Vec<Row> = Vec::new();
-    rows.try_reserve_exact((size as usize - h.data_start) / 4 + 2)
+    // (A file that shrank since its size was taken is read all the same.)
+    rows.try_reserve_exact((size as usize).saturating_sub(h.data_start) / 4 + 2)
         .ok()?;
     let default_name = stem(&name);
     let scan = Scan {
