@@ -6,7 +6,7 @@
 //! [`compare_models`] runs it on its own, and [`super::fit`] runs it with the χ² its engine
 //! already has.
 
-use super::inputs::{check_inputs, prepare};
+use super::inputs::{check_counts, check_inputs, prepare};
 use super::statistics::{statistics, WeightSums};
 use crate::error::Error;
 use crate::least_squares::{weighted_rss_formed, weighted_rss_streamed};
@@ -129,8 +129,33 @@ pub(super) fn chi2_on_points(
     model: Model,
     lean: bool,
 ) -> Result<f64, Error> {
+    chi2_checked(points, options, model, lean, false)
+}
+
+/// [`chi2_on_points`] streamed (`lean`) on points whose values [`check_inputs`] has passed
+/// with the same options for the fitted model: only the counts are checked again for
+/// `model` ([`check_counts`]), not every point.
+pub(super) fn chi2_on_valid_points(
+    points: &[Measurement],
+    options: &FitOptions,
+    model: Model,
+) -> Result<f64, Error> {
+    chi2_checked(points, options, model, true, true)
+}
+
+fn chi2_checked(
+    points: &[Measurement],
+    options: &FitOptions,
+    model: Model,
+    lean: bool,
+    values_checked: bool,
+) -> Result<f64, Error> {
     if lean && points.len() >= STREAMED_CHI2_POINTS {
-        check_inputs(points, options, model)?;
+        if values_checked {
+            check_counts(points, options, model)?;
+        } else {
+            check_inputs(points, options, model)?;
+        }
         let weighted = options.weighting == Weighting::InverseVariance;
         if let Some(chi2) = weighted_rss_streamed(model, options.t_ref_k, points, weighted) {
             return Ok(chi2);

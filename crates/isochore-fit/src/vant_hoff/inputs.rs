@@ -37,11 +37,7 @@ pub(crate) fn check_inputs(
     options.validate()?;
     let p = model.n_params();
     let weighted = options.weighting == Weighting::InverseVariance;
-    let needed = if weighted && options.convention == SigmaConvention::Absolute {
-        p
-    } else {
-        p + 1
-    };
+    let needed = needed_points(options, model);
     let mut used = 0usize;
     let mut seen: Vec<f64> = Vec::with_capacity(needed);
     let mut sigma_fault: Option<Error> = None;
@@ -77,27 +73,66 @@ pub(crate) fn check_inputs(
             }
         }
     }
+    counts_suffice(used, seen.len(), needed, p)?;
+    match sigma_fault {
+        Some(e) => Err(e),
+        None => Ok(()),
+    }
+}
+
+/// How many used points and distinct temperatures [`check_inputs`] asks of `model`.
+fn needed_points(options: &FitOptions, model: Model) -> usize {
+    let p = model.n_params();
+    let weighted = options.weighting == Weighting::InverseVariance;
+    if weighted && options.convention == SigmaConvention::Absolute {
+        p
+    } else {
+        p + 1
+    }
+}
+
+/// The checks of [`check_inputs`] on the counts alone, for points whose values it has
+/// already passed with the same options for another model (a large fit's second thread):
+/// enough used points and distinct temperatures for `model`.
+///
+/// # Errors
+/// [`Error::TooFewPoints`], [`Error::SingleTemperature`] or [`Error::TooFewTemperatures`],
+/// as [`check_inputs`] gives them.
+pub(crate) fn check_counts(
+    points: &[Measurement],
+    options: &FitOptions,
+    model: Model,
+) -> Result<(), Error> {
+    let needed = needed_points(options, model);
+    let used = points.iter().filter(|pt| pt.included).count();
+    let distinct = crate::model::count_distinct_temperatures(
+        points.iter().filter(|pt| pt.included).map(|pt| pt.t_k),
+        needed,
+    );
+    counts_suffice(used, distinct, needed, model.n_params())
+}
+
+/// The checks of [`check_inputs`] on the counts: `used` points with `distinct`
+/// temperatures, `needed` of each for a model of `p` parameters.
+fn counts_suffice(used: usize, distinct: usize, needed: usize, p: usize) -> Result<(), Error> {
     if used < needed {
         return Err(Error::TooFewPoints {
             available: used,
             needed,
         });
     }
-    if seen.len() == 1 {
+    if distinct == 1 {
         return Err(Error::SingleTemperature);
     }
-    if seen.len() < needed {
+    if distinct < needed {
         return Err(Error::TooFewTemperatures {
-            distinct: seen.len(),
+            distinct,
             needed,
             parameters: p,
             points: used,
         });
     }
-    match sigma_fault {
-        Some(e) => Err(e),
-        None => Ok(()),
-    }
+    Ok(())
 }
 
 /// Validates points and options for `model` and collects the used points and weights.

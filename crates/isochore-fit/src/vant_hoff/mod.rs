@@ -33,7 +33,7 @@ pub(crate) use inputs::design;
 use crate::error::Error;
 use crate::measurement::Measurement;
 use crate::model::{is_plausible_temperature, FitOptions, Model};
-use comparison::{chi2_on_points, ladder_comparison};
+use comparison::{chi2_on_valid_points, ladder_comparison};
 
 /// From this many points on, the other models of the ladder are solved on a second thread.
 const PARALLEL_POINTS: usize = 20_000;
@@ -114,7 +114,7 @@ fn fit_threads(
                     .ladder()
                     .into_iter()
                     .filter(|&m| m != model && !(model.streams() && m.streams()))
-                    .map(|m| (m, chi2_on_points(points, options, m, true)))
+                    .map(|m| (m, chi2_on_valid_points(points, options, m)))
                     .collect::<Vec<_>>()
             })
         });
@@ -370,6 +370,32 @@ mod tests {
             assert_eq!(a.steps.len(), 2, "{}", model.key());
             assert_eq!(format!("{a:?}"), format!("{b:?}"), "{}", model.key());
             assert_eq!(serial.warnings(), beside.warnings(), "{}", model.key());
+        }
+    }
+
+    #[test]
+    fn the_thread_beside_checks_the_counts_of_its_own_model() {
+        // A large set at four temperatures (invented, with replicates): enough for the
+        // linear and constant-ΔCp° fits, too few for Clarke–Glew's error estimate (five).
+        // The thread beside the fit checks only the counts, for its own model, so the
+        // ladder stops where the serial fit's stops; and with a fifth temperature it goes on.
+        let mut pts = curved_points(comparison::STREAMED_CHI2_POINTS + 11);
+        for (i, p) in pts.iter_mut().enumerate() {
+            p.t_k = [285.0, 295.0, 305.0, 315.0][i % 4];
+        }
+        let five = {
+            let mut five = pts.clone();
+            five[3].t_k = 300.0;
+            five
+        };
+        for (pts, steps) in [(&pts, 1), (&five, 2)] {
+            let opts = FitOptions::default();
+            let serial = fit_threads(pts, &opts, true, usize::MAX, false).unwrap().0;
+            let beside = fit_threads(pts, &opts, true, 0, false).unwrap().0;
+            let (a, b) = (serial.comparison().unwrap(), beside.comparison().unwrap());
+            assert_eq!(a.steps.len(), steps);
+            assert_eq!(format!("{a:?}"), format!("{b:?}"));
+            assert_eq!(serial.warnings(), beside.warnings());
         }
     }
 
