@@ -19,11 +19,12 @@
 //! ε·κ²); designs too ill-conditioned for that (κ > ~10⁶), non-finite or extreme numbers
 //! and rank deficiency return `None`, and the caller takes the general path of
 //! [`crate::least_squares::solve`], which reports errors and handles the hard cases. Input
-//! errors never reach this path: the one validation both paths share
-//! ([`crate::vant_hoff::check_inputs`]) reports them first. The refinement settings (error
+//! errors never come out of this path: its first pass checks every point's values as
+//! `vant_hoff::inputs::check_inputs` does and declines any fault, so that the general
+//! path's `check_inputs` names the first. The refinement settings (error
 //! bound, threshold, step limit, power-of-two scaling) are those of `least_squares`.
 //!
-//! Passes over the data: one to read and factorise; one per refinement step
+//! Passes over the data: one to check, read and factorise; one per refinement step
 //! (usually none or one, both models together); one for the residual sums of squares of
 //! both models; one to write the per-point diagnostics.
 
@@ -36,7 +37,7 @@ use crate::least_squares::{
     two_sum, MAX_REFINEMENT_STEPS,
 };
 use crate::measurement::Measurement;
-use crate::model::{FitOptions, Model, Weighting};
+use crate::model::{is_plausible_temperature, FitOptions, Model, Weighting};
 use nalgebra::DMatrix;
 
 /// Rows absorbed into the triangle per block (the block stays in the L1 cache).
@@ -367,10 +368,11 @@ impl FastFit {
 
     /// Tries the streaming path; `None` sends the caller to the general path.
     ///
-    /// The points and options must have passed [`crate::vant_hoff::check_inputs`], the one
-    /// validation both paths share (valid values and options, enough used points and
-    /// distinct temperatures, a σ with a normal weight on every used point of a weighted
-    /// fit); this path repeats none of it.
+    /// The options must be valid. The first pass checks every point's values as
+    /// `vant_hoff::inputs::check_inputs` does (valid values, a plausible temperature unless
+    /// extreme ones are allowed, a σ with a normal weight on every used point of a weighted
+    /// fit) and returns `None` on any fault; the counts (enough used points and distinct
+    /// temperatures) are the caller's to check.
     pub(crate) fn try_new(points: &[Measurement], options: &FitOptions) -> Option<FastFit> {
         if !options.model.streams() {
             return None;
@@ -389,12 +391,19 @@ impl FastFit {
         let mut log_w = LogSum::default();
         let mut t_min = f64::INFINITY;
         let mut t_max = f64::NEG_INFINITY;
+        // The checks of `check_inputs` on every point's values, made on the way: any fault
+        // and the fit goes the general way, whose `check_inputs` names the first.
+        let plausible = !options.allow_extreme_temperatures;
+        let mut values_pass = true;
         for pt in points {
             compact.push(pt);
+            values_pass &= pt.is_valid() & (!plausible | is_plausible_temperature(pt.t_k));
             if !pt.included {
                 continue;
             }
             let (row, w) = Row::of(pt, theta, weighted)?;
+            // The weight 1/σ² normal (`check_inputs`' test, on the same expression).
+            values_pass &= !weighted | w.is_normal();
             n += 1;
             let t = pt.t_k;
             t_min = t_min.min(t);
@@ -417,6 +426,9 @@ impl FastFit {
                 absorb(&mut r4, &mut block, m);
                 m = 0;
             }
+        }
+        if !values_pass {
+            return None;
         }
         if m > 0 {
             absorb(&mut r4, &mut block, m);

@@ -255,3 +255,45 @@ fn diagnostics_on_demand_are_the_same_numbers_however_they_are_asked_for() {
         }
     }
 }
+
+#[test]
+fn a_fault_in_any_value_sends_the_fit_to_the_check_that_names_it() {
+    // Each fault `check_inputs` reports, in the fifth of 40 invented points (and in an
+    // excluded point where it applies to every point): the streaming path declines, and
+    // the fit's error is `check_inputs`' own, naming the point.
+    let pts = data(40);
+    let opts = FitOptions::default();
+    assert!(FastFit::try_new(&pts, &opts).is_some());
+    let faults: [(fn(&mut Measurement), bool); 8] = [
+        (|m| m.t_k = f64::NAN, true),
+        (|m| m.t_k = -3.0, true),
+        (|m| m.t_k = 20_000.0, true),
+        (|m| m.ln_k = f64::INFINITY, true),
+        (|m| m.sigma_ln_k = Some(f64::NAN), true),
+        (|m| m.sigma_ln_k = Some(-0.1), true),
+        (|m| m.sigma_ln_k = Some(1e-160), false),
+        (|m| m.sigma_ln_k = None, false),
+    ];
+    for (k, (fault, also_excluded)) in faults.iter().enumerate() {
+        for excluded in [false, true] {
+            let mut bad = pts.clone();
+            fault(&mut bad[4]);
+            bad[4].included = !excluded;
+            let expected = crate::vant_hoff::inputs::check_inputs(&bad, &opts, opts.model);
+            assert_eq!(expected.is_err(), !excluded || *also_excluded, "fault {k}");
+            if expected.is_err() {
+                assert!(FastFit::try_new(&bad, &opts).is_none(), "fault {k}");
+                assert!(!bad[4].is_valid() || k >= 6 || k == 2, "fault {k}");
+                assert_eq!(crate::fit(&bad, &opts).err(), expected.err(), "fault {k}");
+            }
+        }
+    }
+    // Extreme temperatures allowed: 20 000 K is no fault.
+    let mut hot = pts.clone();
+    hot[4].t_k = 20_000.0;
+    let allow = FitOptions {
+        allow_extreme_temperatures: true,
+        ..opts
+    };
+    assert!(crate::vant_hoff::inputs::check_inputs(&hot, &allow, allow.model).is_ok());
+}

@@ -7,7 +7,7 @@
 //! another model's χ² for the comparison.
 
 use super::comparison::chi2_on_points;
-use super::inputs::{design, prepare};
+use super::inputs::{check_counts, check_inputs, design, prepare};
 use super::statistics::WeightSums;
 use crate::diagnostics::{diagnose_points, DiagnosticsSummary, PointContext, PointStore};
 use crate::error::Error;
@@ -87,8 +87,11 @@ pub(crate) fn solve_model(
 
 /// Solves with the streaming path of [`crate::fast`] when allowed and it accepts the data
 /// (the model [streams](crate::Model::streams) and the numbers are well behaved), with the
-/// general solver of [`crate::least_squares`] otherwise. The inputs must already have passed
-/// [`super::inputs::check_inputs`].
+/// general solver of [`crate::least_squares`] otherwise. The options must already be valid.
+/// The inputs are checked here as [`check_inputs`] checks them: the streaming path checks
+/// every point's values in its first pass (it declines any fault), so only the counts are
+/// left ([`check_counts`]); the general path runs [`check_inputs`] first, which names the
+/// first fault.
 pub(super) fn run(
     points: &[Measurement],
     options: &FitOptions,
@@ -96,9 +99,11 @@ pub(super) fn run(
 ) -> Result<Box<dyn SolvedFit>, Error> {
     if allow_streaming {
         if let Some(fast) = FastFit::try_new(points, options) {
+            check_counts(points, options, options.model)?;
             return Ok(Box::new(fast));
         }
     }
+    check_inputs(points, options, options.model)?;
     let solved = solve_model(points, options, options.model)?;
     let y: Vec<f64> = solved.used.iter().map(|&i| points[i].ln_k).collect();
     Ok(Box::new(General { solved, y }))

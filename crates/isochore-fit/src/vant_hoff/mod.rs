@@ -12,7 +12,7 @@
 mod comparison;
 mod deferred;
 mod engines;
-mod inputs;
+pub(crate) mod inputs;
 mod result;
 mod statistics;
 mod warnings;
@@ -38,7 +38,6 @@ use comparison::{chi2_on_valid_points, ladder_comparison};
 /// From this many points on, the other models of the ladder are solved on a second thread.
 const PARALLEL_POINTS: usize = 20_000;
 
-pub(crate) use inputs::check_inputs;
 pub(crate) use statistics::{score, Scored, WeightSums};
 
 /// Fits a van 't Hoff model by weighted least squares and computes every diagnostic.
@@ -98,10 +97,12 @@ fn fit_threads(
 ) -> Result<(VantHoffFit, Option<PendingComparison>), Error> {
     let model = options.model;
     // Well-behaved data take the streaming path (one QR for both models, no n×p matrix);
-    // everything else, errors included, the general one.
-    // The rules of identifiability and plausibility hold on both paths (one pass, which
-    // stops counting temperatures once enough are found).
-    check_inputs(points, options, model)?;
+    // everything else, errors included, the general one. The rules of identifiability and
+    // plausibility hold on both paths: the points are checked by the solver
+    // (`engines::run`), on the streaming path in its first pass. The thread beside checks
+    // only its own model's counts: should a value be at fault, its χ² is not used, as the
+    // fit returns the error.
+    options.validate()?;
     // A large data set's ladder models that no streaming pass covers (Clarke–Glew beside a
     // linear fit) are solved on a second thread while this one solves the fitted model: the
     // same arithmetic on the same points, so the same numbers, in about half the time. The
