@@ -454,6 +454,17 @@ pub(crate) struct DiagnosticsSummary {
 }
 
 impl DiagnosticsSummary {
+    /// The summary of the points of `self` followed by those of `later`: the same as one
+    /// summary noting them all in that order.
+    pub(crate) fn then(self, later: DiagnosticsSummary) -> DiagnosticsSummary {
+        DiagnosticsSummary {
+            first_bad: self.first_bad.or(later.first_bad),
+            flagged: self.flagged + later.flagged,
+            leverage_one: self.leverage_one | later.leverage_one,
+            not_finite: self.not_finite + later.not_finite,
+        }
+    }
+
     /// Takes one point into account.
     #[inline]
     pub(crate) fn note(&mut self, d: &PointDiagnostics) {

@@ -240,22 +240,47 @@ impl OnDemand {
 impl FastFit {
     /// The on-demand diagnostics of this fit (from the copy of the points taken while they
     /// were read), with what the warnings need from them and the indices of the points
-    /// carrying any flag, gathered in one pass that keeps no record.
+    /// carrying any flag, gathered in one pass that keeps no record. With `split`, the
+    /// second half of the points is taken by a second thread (when one can be started):
+    /// every point's numbers depend on that point only and the halves' summaries combine
+    /// exactly ([`DiagnosticsSummary::then`]), so the results are the same.
     pub(crate) fn diagnose(
         &self,
         options: &FitOptions,
         ctx: PointContext,
+        split: bool,
     ) -> (OnDemand, DiagnosticsSummary, Vec<usize>) {
         let points = self.compact.take().unwrap_or_default();
         let od = OnDemand::new(self, points, options, ctx);
-        let mut summary = DiagnosticsSummary::default();
-        let mut flagged = Vec::new();
-        od.for_each(0..od.len(), &mut |d| {
-            summary.note(&d);
-            if d.flags.any() {
-                flagged.push(d.index);
-            }
-        });
+        let pass = |range: std::ops::Range<usize>| {
+            let mut summary = DiagnosticsSummary::default();
+            let mut flagged = Vec::new();
+            od.for_each(range, &mut |d| {
+                summary.note(&d);
+                if d.flags.any() {
+                    flagged.push(d.index);
+                }
+            });
+            (summary, flagged)
+        };
+        let n = od.len();
+        let (summary, flagged) = if split && n >= 2 * GROUP {
+            let mid = n / 2;
+            std::thread::scope(|scope| {
+                let later = std::thread::Builder::new()
+                    .name("isochore-diagnostics".into())
+                    .spawn_scoped(scope, || pass(mid..n));
+                let (first, mut flagged) = pass(0..mid);
+                let (second, more) = match later {
+                    Ok(h) => h.join().unwrap_or_else(|e| std::panic::resume_unwind(e)),
+                    Err(_) => pass(mid..n),
+                };
+                flagged.extend(more);
+                (first.then(second), flagged)
+            })
+        } else {
+            pass(0..n)
+        };
         (od, summary, flagged)
     }
 }

@@ -141,6 +141,17 @@ mod tests {
                 serde_json::to_string(&first.points_iter().nth(3)).unwrap(),
                 serde_json::to_string(&whole.points_iter().nth(3)).unwrap()
             );
+            // The estimates' diagnostics pass is shared between two threads: the same
+            // flagged points, in order (the linear fit of curved data flags some).
+            assert_eq!(
+                first.flagged_points(),
+                whole.flagged_points(),
+                "{}",
+                model.key()
+            );
+            if model == Model::LINEAR {
+                assert!(!whole.flagged_points().is_empty());
+            }
         }
         // A small set is fitted whole.
         let (small, none) = fit_estimates_first(&pts[..100], &FitOptions::default()).unwrap();

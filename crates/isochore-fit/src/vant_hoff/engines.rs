@@ -30,7 +30,8 @@ pub(super) trait SolvedFit {
     fn temperatures(&self, points: &[Measurement]) -> (f64, f64, f64, f64);
 
     /// Per-point diagnostics of every point (kept, or computed on demand), with what the
-    /// warnings need from them.
+    /// warnings need from them. With `split`, a pass over the points may be shared with a
+    /// second thread (the same results: each point's numbers depend on that point only).
     #[allow(clippy::too_many_arguments)]
     fn diagnose(
         &self,
@@ -42,6 +43,7 @@ pub(super) trait SolvedFit {
         variance_scale: f64,
         weighted: bool,
         sum_w: f64,
+        split: bool,
     ) -> (PointStore, DiagnosticsSummary);
 
     /// Another model's χ² that the solver gave on the way, if any.
@@ -150,6 +152,7 @@ impl SolvedFit for FastFit {
         variance_scale: f64,
         weighted: bool,
         sum_w: f64,
+        split: bool,
     ) -> (PointStore, DiagnosticsSummary) {
         let ctx = PointContext::new(
             lin,
@@ -160,7 +163,7 @@ impl SolvedFit for FastFit {
             if weighted { sum_w / lin.n as f64 } else { 1.0 },
             options.thresholds,
         );
-        let (points, summary, flagged) = FastFit::diagnose(self, options, ctx);
+        let (points, summary, flagged) = FastFit::diagnose(self, options, ctx, split);
         (
             PointStore::OnDemand {
                 points: Box::new(points),
@@ -228,6 +231,7 @@ impl SolvedFit for General {
         variance_scale: f64,
         _weighted: bool,
         _sum_w: f64,
+        _split: bool,
     ) -> (PointStore, DiagnosticsSummary) {
         let d = diagnose_points(points, &self.solved, options, cov, variance_scale, s2);
         let mut summary = DiagnosticsSummary::default();

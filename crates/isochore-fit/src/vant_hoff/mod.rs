@@ -193,6 +193,8 @@ fn assemble(
         variance_scale,
         weighted,
         sum_w,
+        // The window's estimates first: the other core is idle until they are out.
+        defer && points.len() >= parallel_points,
     );
     if let Some((index, t_k)) = summary.first_bad {
         // An ordinary temperature that cannot be evaluated points at the design, not at the
