@@ -45,7 +45,7 @@ impl Deferred {
                 .name("isochore-compare".into())
                 .spawn({
                     let points = points.clone();
-                    move || pending.run(&points)
+                    move || pending.run_lean(&points)
                 });
             (spawned, points)
         });
