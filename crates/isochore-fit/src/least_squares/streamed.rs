@@ -99,39 +99,25 @@ pub(crate) fn weighted_rss_streamed(
     // far, so a block's entries are √w·x itself.
     let mut big = [0.0f64; MAX_STREAMED_COLUMNS];
     let mut finite = true;
-    src.rows(
-        0,
-        &[],
-        0,
-        false,
-        |_, _, _| (),
-        |_, _, m, v| {
-            for j in 0..p {
-                for x in &v[j][..m] {
-                    finite &= x.is_finite();
-                    big[j] = big[j].max(x.abs());
-                }
+    src.original_rows(|_, m, v| {
+        for j in 0..p {
+            for x in &v[j][..m] {
+                finite &= x.is_finite();
+                big[j] = big[j].max(x.abs());
             }
-        },
-    );
+        }
+    });
     if !finite || big[..p].iter().any(|&b| b == 0.0 || !b.is_finite()) {
         return None;
     }
     let mut sum = [0.0f64; MAX_STREAMED_COLUMNS];
-    src.rows(
-        0,
-        &[],
-        0,
-        false,
-        |_, _, _| (),
-        |_, _, m, v| {
-            for j in 0..p {
-                for x in &v[j][..m] {
-                    sum[j] += (x / big[j]).powi(2);
-                }
+    src.original_rows(|_, m, v| {
+        for j in 0..p {
+            for x in &v[j][..m] {
+                sum[j] += (x / big[j]).powi(2);
             }
-        },
-    );
+        }
+    });
     for j in 0..p {
         scale[j] = power_of_two_near(big[j] * sum[j].sqrt()).unwrap_or(1.0);
         src.inv_scale[j] = 1.0 / scale[j];
@@ -290,19 +276,12 @@ pub(crate) fn weighted_rss_streamed(
         v[p] + v[..p].iter().zip(neg_x).map(|(r, c)| r * c).sum::<f64>()
     };
     let mut ss = -0.0f64;
-    src.rows(
-        0,
-        &[],
-        0,
-        false,
-        |_, _, _| (),
-        |_, _, m, v| {
-            for i in 0..m {
-                let res = residual(&lane(v, i), &neg_x);
-                ss += res * res;
-            }
-        },
-    );
+    src.original_rows(|_, m, v| {
+        for i in 0..m {
+            let res = residual(&lane(v, i), &neg_x);
+            ss += res * res;
+        }
+    });
     let bound = qr_error_bound(&r, x.norm(), ss.sqrt(), p);
     if refinement_needed(bound) {
         // Björck's refinement as `refined_solution` takes it, with its residuals r and f
@@ -323,35 +302,28 @@ pub(crate) fn weighted_rss_streamed(
             let mut g_hi = [0.0; MAX_STREAMED_COLUMNS];
             let mut g_lo = [0.0; MAX_STREAMED_COLUMNS];
             ss = -0.0;
-            src.rows(
-                0,
-                &[],
-                0,
-                false,
-                |_, _, _| (),
-                |_, row, m, v| {
-                    for (i, v) in (row..row + m).zip((0..m).map(|l| lane(v, l))) {
-                        let v = &v;
-                        let ri = &mut res[i];
-                        if first {
-                            *ri = residual(v, &neg_x);
-                        } else if let Some(dx) = &pending {
-                            let adx: f64 = v[..p].iter().zip(dx).map(|(r, d)| r * d).sum();
-                            *ri += f[i] - adx;
-                        }
-                        let ri = *ri;
-                        ss += ri * ri;
-                        let (b_minus_r, e0) = two_sum(v[p], -ri);
-                        f[i] = dot2(b_minus_r, &v[..p], &neg_x) + e0;
-                        for j in 0..p {
-                            let (h, e1) = two_prod(-v[j], ri);
-                            let (q, e2) = two_sum(g_hi[j], h);
-                            g_hi[j] = q;
-                            g_lo[j] += e1 + e2;
-                        }
+            src.original_rows(|row, m, v| {
+                for (i, v) in (row..row + m).zip((0..m).map(|l| lane(v, l))) {
+                    let v = &v;
+                    let ri = &mut res[i];
+                    if first {
+                        *ri = residual(v, &neg_x);
+                    } else if let Some(dx) = &pending {
+                        let adx: f64 = v[..p].iter().zip(dx).map(|(r, d)| r * d).sum();
+                        *ri += f[i] - adx;
                     }
-                },
-            );
+                    let ri = *ri;
+                    ss += ri * ri;
+                    let (b_minus_r, e0) = two_sum(v[p], -ri);
+                    f[i] = dot2(b_minus_r, &v[..p], &neg_x) + e0;
+                    for j in 0..p {
+                        let (h, e1) = two_prod(-v[j], ri);
+                        let (q, e2) = two_sum(g_hi[j], h);
+                        g_hi[j] = q;
+                        g_lo[j] += e1 + e2;
+                    }
+                }
+            });
             first = false;
             pending = None;
             let g = DVector::from_iterator(p, g_hi.iter().zip(&g_lo).take(p).map(|(h, l)| h + l));
@@ -394,21 +366,14 @@ pub(crate) fn weighted_rss_streamed(
         }
         if let Some(dx) = &pending {
             ss = -0.0;
-            src.rows(
-                0,
-                &[],
-                0,
-                false,
-                |_, _, _| (),
-                |_, row, m, v| {
-                    for (i, l) in (row..row + m).zip(0..m) {
-                        let v = lane(v, l);
-                        let adx: f64 = v[..p].iter().zip(dx).map(|(r, d)| r * d).sum();
-                        let ri = res[i] + (f[i] - adx);
-                        ss += ri * ri;
-                    }
-                },
-            );
+            src.original_rows(|row, m, v| {
+                for (i, l) in (row..row + m).zip(0..m) {
+                    let v = lane(v, l);
+                    let adx: f64 = v[..p].iter().zip(dx).map(|(r, d)| r * d).sum();
+                    let ri = res[i] + (f[i] - adx);
+                    ss += ri * ri;
+                }
+            });
         }
     }
     // The checks of `factorised` on χ² and the coefficients in raw units.

@@ -334,6 +334,13 @@ mod tests {
             .collect()
     }
 
+    /// `fit` of `pts` on one thread and with the other models beside it (from any size).
+    fn serial_and_beside(pts: &[Measurement], opts: &FitOptions) -> (VantHoffFit, VantHoffFit) {
+        let serial = fit_threads(pts, opts, true, usize::MAX, false).unwrap().0;
+        let beside = fit_threads(pts, opts, true, 0, false).unwrap().0;
+        (serial, beside)
+    }
+
     #[test]
     fn models_solved_beside_the_fit_give_the_serial_numbers() {
         let pts = curved_points(3000);
@@ -342,8 +349,7 @@ mod tests {
                 model,
                 ..FitOptions::default()
             };
-            let serial = fit_threads(&pts, &opts, true, usize::MAX, false).unwrap().0;
-            let beside = fit_threads(&pts, &opts, true, 0, false).unwrap().0;
+            let (serial, beside) = serial_and_beside(&pts, &opts);
             let (a, b) = (serial.comparison().unwrap(), beside.comparison().unwrap());
             assert_eq!(a.steps.len(), 2, "{}", model.key());
             assert_eq!(a, b, "{}", model.key());
@@ -367,8 +373,7 @@ mod tests {
                 model,
                 ..FitOptions::default()
             };
-            let serial = fit_threads(&pts, &opts, true, usize::MAX, false).unwrap().0;
-            let beside = fit_threads(&pts, &opts, true, 0, false).unwrap().0;
+            let (serial, beside) = serial_and_beside(&pts, &opts);
             let (a, b) = (serial.comparison().unwrap(), beside.comparison().unwrap());
             assert_eq!(a.steps.len(), 2, "{}", model.key());
             assert_eq!(format!("{a:?}"), format!("{b:?}"), "{}", model.key());
@@ -393,8 +398,7 @@ mod tests {
         };
         for (pts, steps) in [(&pts, 1), (&five, 2)] {
             let opts = FitOptions::default();
-            let serial = fit_threads(pts, &opts, true, usize::MAX, false).unwrap().0;
-            let beside = fit_threads(pts, &opts, true, 0, false).unwrap().0;
+            let (serial, beside) = serial_and_beside(pts, &opts);
             let (a, b) = (serial.comparison().unwrap(), beside.comparison().unwrap());
             assert_eq!(a.steps.len(), steps);
             assert_eq!(format!("{a:?}"), format!("{b:?}"));

@@ -230,6 +230,12 @@ impl Source<'_> {
         }
     }
 
+    /// [`Source::rows`] over every used row with no reflection applied and no f, a block at
+    /// a time in order: `f(row, m, block)` for the block of `m` rows from used row `row`.
+    pub(super) fn original_rows(&self, mut f: impl FnMut(usize, usize, &Block)) {
+        self.rows(0, &[], 0, false, |_, _, _| (), |_, row, m, v| f(row, m, v));
+    }
+
     /// Calls `f(rel, row, m, block)` for the rows from `from` on, a block of `m` ≤
     /// [`LANES`] at a time (`rel` the first one's place in the view that starts at `from`,
     /// a multiple of [`LANES`]; `row` its number among the used points), with the
