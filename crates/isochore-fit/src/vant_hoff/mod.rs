@@ -334,10 +334,15 @@ mod tests {
             .collect()
     }
 
-    /// `fit` of `pts` on one thread and with the other models beside it (from any size).
-    fn serial_and_beside(pts: &[Measurement], opts: &FitOptions) -> (VantHoffFit, VantHoffFit) {
-        let serial = fit_threads(pts, opts, true, usize::MAX, false).unwrap().0;
-        let beside = fit_threads(pts, opts, true, 0, false).unwrap().0;
+    /// `fit` of `pts` with `model` on one thread and with the other models beside it (from
+    /// any size).
+    fn serial_and_beside(pts: &[Measurement], model: Model) -> (VantHoffFit, VantHoffFit) {
+        let opts = FitOptions {
+            model,
+            ..FitOptions::default()
+        };
+        let serial = fit_threads(pts, &opts, true, usize::MAX, false).unwrap().0;
+        let beside = fit_threads(pts, &opts, true, 0, false).unwrap().0;
         (serial, beside)
     }
 
@@ -345,11 +350,7 @@ mod tests {
     fn models_solved_beside_the_fit_give_the_serial_numbers() {
         let pts = curved_points(3000);
         for model in [Model::LINEAR, Model::CONSTANT_CP, Model::CLARKE_GLEW] {
-            let opts = FitOptions {
-                model,
-                ..FitOptions::default()
-            };
-            let (serial, beside) = serial_and_beside(&pts, &opts);
+            let (serial, beside) = serial_and_beside(&pts, model);
             let (a, b) = (serial.comparison().unwrap(), beside.comparison().unwrap());
             assert_eq!(a.steps.len(), 2, "{}", model.key());
             assert_eq!(a, b, "{}", model.key());
@@ -369,11 +370,7 @@ mod tests {
             crate::least_squares::weighted_rss_streamed(Model::CLARKE_GLEW, theta, &pts, true);
         assert!(streamed.is_some());
         for model in [Model::LINEAR, Model::CONSTANT_CP] {
-            let opts = FitOptions {
-                model,
-                ..FitOptions::default()
-            };
-            let (serial, beside) = serial_and_beside(&pts, &opts);
+            let (serial, beside) = serial_and_beside(&pts, model);
             let (a, b) = (serial.comparison().unwrap(), beside.comparison().unwrap());
             assert_eq!(a.steps.len(), 2, "{}", model.key());
             assert_eq!(format!("{a:?}"), format!("{b:?}"), "{}", model.key());
@@ -397,8 +394,7 @@ mod tests {
             five
         };
         for (pts, steps) in [(&pts, 1), (&five, 2)] {
-            let opts = FitOptions::default();
-            let (serial, beside) = serial_and_beside(pts, &opts);
+            let (serial, beside) = serial_and_beside(pts, Model::LINEAR);
             let (a, b) = (serial.comparison().unwrap(), beside.comparison().unwrap());
             assert_eq!(a.steps.len(), steps);
             assert_eq!(format!("{a:?}"), format!("{b:?}"));
