@@ -264,7 +264,9 @@ fn a_fault_in_any_value_sends_the_fit_to_the_check_that_names_it() {
     let pts = data(40);
     let opts = FitOptions::default();
     assert!(FastFit::try_new(&pts, &opts).is_some());
-    let faults: [(fn(&mut Measurement), bool); 8] = [
+    // Each fault, and whether it is one in an excluded point too.
+    type Fault = (fn(&mut Measurement), bool);
+    let faults: [Fault; 8] = [
         (|m| m.t_k = f64::NAN, true),
         (|m| m.t_k = -3.0, true),
         (|m| m.t_k = 20_000.0, true),
