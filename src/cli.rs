@@ -341,9 +341,11 @@ pub struct PredictArgs {
     /// How the intervals of K and ΔG° at each temperature and of the temperature at the
     /// target K are made: delta (the delta method; Fieller's for the temperature),
     /// monte-carlo or bootstrap, as for `vhfit fit`. The text adds a table of the resampled
-    /// intervals; the JSON's carry "method".
-    #[arg(long, value_enum, value_name = "METHOD", default_value = "delta")]
-    pub intervals: IntervalsArg,
+    /// intervals; the JSON's carry "method". Default: the method a project file records for
+    /// each series (chosen in the window, with its draws and seed; --draws, --seed and
+    /// --bootstrap-scheme replace those), else delta.
+    #[arg(long, value_enum, value_name = "METHOD")]
+    pub intervals: Option<IntervalsArg>,
     /// Number of Monte Carlo or bootstrap draws, 1 to 1000000 (default 10000).
     #[arg(long, value_name = "N", value_parser = parse_draws)]
     pub draws: Option<usize>,

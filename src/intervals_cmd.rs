@@ -3,10 +3,10 @@
 //! fitted data set (isochore-analysis' `run_intervals`, `run_intervals_at` for predict's
 //! temperatures and target K), and its block of readable text
 //! (the method line and each quantity's resampled interval beside the delta method's).
-//! Without `--intervals`, `vhfit fit` runs the method a project records for each data set
-//! ([`for_set`]).
+//! Without `--intervals`, `vhfit fit` and `vhfit predict` run the method a project records
+//! for each data set ([`for_set`], [`for_job`]).
 
-use crate::cli::{FitArgs, IntervalsArg, SchemeArg};
+use crate::cli::{FitArgs, IntervalsArg, PredictArgs, SchemeArg};
 use crate::load::Job;
 use isochore_analysis::intervals::{run_intervals, IntervalChoice, IntervalRequest};
 use isochore_fit::intervals::{
@@ -17,24 +17,67 @@ use isochore_report::present::intervals::{interval_rows, method_line};
 use isochore_report::present::names::interval_method;
 use std::io::{self, Write};
 
+/// The interval flags of `vhfit fit` or `vhfit predict`: `--intervals`, `--draws`,
+/// `--seed` and `--bootstrap-scheme`.
+#[derive(Debug, Clone, Copy)]
+pub struct Flags {
+    /// `--intervals`, if given.
+    pub intervals: Option<IntervalsArg>,
+    /// `--draws`.
+    pub draws: Option<usize>,
+    /// `--seed`.
+    pub seed: Option<u64>,
+    /// `--bootstrap-scheme`.
+    pub scheme: Option<SchemeArg>,
+}
+
+impl Flags {
+    /// The flags of `vhfit fit`.
+    pub fn of_fit(a: &FitArgs) -> Flags {
+        Flags {
+            intervals: a.intervals,
+            draws: a.draws,
+            seed: a.seed,
+            scheme: a.bootstrap_scheme,
+        }
+    }
+
+    /// The flags of `vhfit predict`.
+    pub fn of_predict(a: &PredictArgs) -> Flags {
+        Flags {
+            intervals: a.intervals,
+            draws: a.draws,
+            seed: a.seed,
+            scheme: a.bootstrap_scheme,
+        }
+    }
+}
+
 /// The request the flags of `vhfit fit` make (see [`request_from`]); without `--intervals`,
 /// the delta method's. When no `--intervals` is given and an input is a project file (and
 /// no joint fit is asked for), `--draws`, `--seed` and `--bootstrap-scheme` are checked
 /// against each data set's recorded method instead, by [`for_set`].
 pub fn request(a: &FitArgs) -> Result<IntervalRequest, String> {
-    if a.intervals.is_none()
-        && a.share.is_none()
-        && a.files
-            .iter()
-            .any(|p| isochore_analysis::is_project_file(p))
+    request_for(Flags::of_fit(a), &a.files, a.share.is_some())
+}
+
+/// [`request`] for any command's `flags`, its input `files` and whether the fit is `joint`.
+pub fn request_for(
+    flags: Flags,
+    files: &[std::path::PathBuf],
+    joint: bool,
+) -> Result<IntervalRequest, String> {
+    if flags.intervals.is_none()
+        && !joint
+        && files.iter().any(|p| isochore_analysis::is_project_file(p))
     {
         return Ok(IntervalRequest::default());
     }
     request_from(
-        a.intervals.unwrap_or(IntervalsArg::Delta),
-        a.draws,
-        a.seed,
-        a.bootstrap_scheme,
+        flags.intervals.unwrap_or(IntervalsArg::Delta),
+        flags.draws,
+        flags.seed,
+        flags.scheme,
     )
 }
 
@@ -45,7 +88,17 @@ pub fn request(a: &FitArgs) -> Result<IntervalRequest, String> {
 /// start value and scheme. Such a flag that the recorded method would not use is refused in
 /// [`request_from`]'s words, the data set named.
 pub fn for_set(a: &FitArgs, given: &IntervalRequest, job: &Job) -> Result<IntervalRequest, String> {
-    if a.intervals.is_some() || a.share.is_some() {
+    for_job(Flags::of_fit(a), a.share.is_some(), given, job)
+}
+
+/// [`for_set`] for any command's `flags` and whether the fit is `joint`.
+pub fn for_job(
+    flags: Flags,
+    joint: bool,
+    given: &IntervalRequest,
+    job: &Job,
+) -> Result<IntervalRequest, String> {
+    if flags.intervals.is_some() || joint {
         return Ok(*given);
     }
     let recorded = job.intervals;
@@ -54,7 +107,7 @@ pub fn for_set(a: &FitArgs, given: &IntervalRequest, job: &Job) -> Result<Interv
         IntervalChoice::MonteCarlo => IntervalsArg::MonteCarlo,
         IntervalChoice::Bootstrap(_) => IntervalsArg::Bootstrap,
     };
-    let mut r = request_from(method, a.draws, a.seed, a.bootstrap_scheme).map_err(|e| {
+    let mut r = request_from(method, flags.draws, flags.seed, flags.scheme).map_err(|e| {
         format!(
             "{}: series '{}' records the intervals by {}: {e}",
             job.source,
@@ -62,13 +115,13 @@ pub fn for_set(a: &FitArgs, given: &IntervalRequest, job: &Job) -> Result<Interv
             isochore_report::present::names::interval_choice(recorded.choice)
         )
     })?;
-    if a.draws.is_none() {
+    if flags.draws.is_none() {
         r.draws = recorded.draws;
     }
-    if a.seed.is_none() {
+    if flags.seed.is_none() {
         r.seed = recorded.seed;
     }
-    if a.bootstrap_scheme.is_none() {
+    if flags.scheme.is_none() {
         r.choice = recorded.choice;
     }
     Ok(r)

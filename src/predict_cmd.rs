@@ -1,7 +1,8 @@
 //! `vhfit predict`: fits the file, then gives ln K, K, ΔG°, ΔH° and ΔS° at each asked
 //! temperature with confidence and prediction intervals, warns when a temperature lies
 //! outside the measured range, and optionally finds the temperature for a target K. With
-//! `--intervals monte-carlo|bootstrap`, K and ΔG° at each temperature and the temperature
+//! `--intervals monte-carlo|bootstrap` (or, without `--intervals`, the method a project
+//! records for the series), K and ΔG° at each temperature and the temperature
 //! for the target K also get that method's interval (text: the table of `vhfit fit`'s
 //! intervals block; JSON: `method` on each, and an `intervals` record).
 
@@ -37,9 +38,10 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
             return Err(Failure::usage("--for-k must be a positive number"));
         }
     }
-    let request =
-        crate::intervals_cmd::request_from(a.intervals, a.draws, a.seed, a.bootstrap_scheme)
-            .map_err(Failure::usage)?;
+    // Without --intervals, the method each series of a project records.
+    let flags = crate::intervals_cmd::Flags::of_predict(a);
+    let given = crate::intervals_cmd::request_for(flags, std::slice::from_ref(&a.file), false)
+        .map_err(Failure::usage)?;
     let jobs = load(&a.file, &a.fit, false).map_err(Failure::input)?;
     let mut fits: Vec<(Job, VantHoffFit, Option<f64>)> = Vec::new();
     let mut runs: Vec<Option<IntervalRun>> = Vec::new();
@@ -49,6 +51,8 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
         // With --intervals monte-carlo|bootstrap: K and ΔG° at each temperature and T at
         // the target K resampled (a refusal is a usage error, as for `vhfit fit`).
         let targets: Vec<f64> = for_k.into_iter().collect();
+        let request =
+            crate::intervals_cmd::for_job(flags, false, &given, &job).map_err(Failure::usage)?;
         runs.push(
             crate::intervals_cmd::run_at(&job, &fit, &request, &temps_k, &targets)
                 .map_err(Failure::usage)?,

@@ -172,3 +172,64 @@ fn a_flag_the_recorded_method_would_not_use_is_a_usage_error() {
     assert_eq!(out.status.code(), Some(2));
     assert!(String::from_utf8_lossy(&out.stderr).contains("the delta method draws nothing"));
 }
+
+#[test]
+fn predict_runs_the_project_s_recorded_method_too() {
+    // `vhfit predict PROJECT` without --intervals: the recorded Monte Carlo run, the same
+    // bytes as the explicit options; --intervals delta wins; a flag the recorded method
+    // would not use is refused naming the series.
+    let dir = tempfile::tempdir().unwrap();
+    let mc = project(
+        dir.path(),
+        "mc.isochore.json",
+        "acid_pka.csv",
+        IntervalRequest {
+            choice: IntervalChoice::MonteCarlo,
+            draws: 400,
+            seed: 5,
+        },
+    );
+    let at = ["--at", "25,40", "--json"];
+    let recorded = stdout(&[&["predict", &mc][..], &at].concat());
+    let explicit = stdout(
+        &[
+            &["predict", &mc][..],
+            &at,
+            &[
+                "--intervals",
+                "monte-carlo",
+                "--draws",
+                "400",
+                "--seed",
+                "5",
+            ],
+        ]
+        .concat(),
+    );
+    assert_eq!(recorded, explicit);
+    let j: serde_json::Value = serde_json::from_str(&recorded).unwrap();
+    assert_eq!(j["intervals"]["method"], "monte_carlo", "{j}");
+    assert_eq!(j["intervals"]["draws"], 400);
+    let delta = stdout(&[&["predict", &mc][..], &at, &["--intervals", "delta"]].concat());
+    let plain = project(
+        dir.path(),
+        "plain.isochore.json",
+        "acid_pka.csv",
+        IntervalRequest::default(),
+    );
+    assert_ne!(delta, recorded);
+    // The same predictions as a project recording nothing (the source differs).
+    let of = |s: &str| serde_json::from_str::<serde_json::Value>(s).unwrap()["predictions"].clone();
+    let plain_out = stdout(&[&["predict", &plain][..], &at].concat());
+    assert_eq!(of(&delta), of(&plain_out));
+    assert!(
+        of(&delta)[0]["k"]["method"] == "delta" && of(&recorded)[0]["k"]["method"] == "monte_carlo"
+    );
+    let out = run(&["predict", &plain, "--at", "25", "--seed", "3"]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(2), "{err}");
+    assert!(
+        err.contains("records the intervals by delta method"),
+        "{err}"
+    );
+}
