@@ -211,17 +211,16 @@ impl ExportJob {
                 .then(|| s.data.clone());
             jobs.push((input, stems.next(file, s.name(), several), resample));
         }
-        let plan = |stem: &str| -> Vec<(ReportFormat, PathBuf)> {
+        let plan = |stem: &str| -> Vec<(ReportFormat, String)> {
             isochore_report::report_set_plan(stem)
                 .into_iter()
                 .filter(|(f, _)| formats.writes(*f))
-                .map(|(f, name)| (f, folder.join(name)))
                 .collect()
         };
         let refusals: Vec<String> = jobs
             .iter()
             .flat_map(|(_, stem, _)| plan(stem))
-            .flat_map(|(f, p)| isochore_report::report_paths(f, &p))
+            .flat_map(|(f, name)| isochore_report::report_paths(f, &folder.join(name)))
             .filter_map(|p| guard.refusal(&p))
             .collect();
         if !refusals.is_empty() {
@@ -264,12 +263,13 @@ impl ExportJob {
     }
 }
 
-/// A report to write: its input, file stem, files, and the data set to resample for the
-/// comparison of interval methods (when its setting is Monte Carlo or the bootstrap).
+/// A report to write: its input, file stem, files (formats and names in the folder), and
+/// the data set to resample for the comparison of interval methods (when its setting is
+/// Monte Carlo or the bootstrap).
 type Work = (
     ReportInput,
     String,
-    Vec<(ReportFormat, PathBuf)>,
+    Vec<(ReportFormat, String)>,
     Option<isochore_data::DataSet>,
 );
 
@@ -310,13 +310,22 @@ fn write_all(
             }
             None => input,
         };
-        for (format, path) in plan {
-            let paths =
-                isochore_report::write_report(input, *format, path).map_err(|e| e.to_string())?;
-            guard.record(&paths)?;
-            written += paths.len();
+        // The report's files side by side, each figure rasterised once for the PNG files
+        // and the PDF (isochore-report's `write_reports`); each format counted as it is
+        // written, and recorded so a later export may replace it (one at a time: the
+        // folder's manifest is read and written again).
+        let recording = std::sync::Mutex::new(Ok(()));
+        let result = isochore_report::write_reports(input, folder, plan.clone(), &|paths| {
+            if let Ok(mut r) = recording.lock() {
+                if r.is_ok() {
+                    *r = guard.record(paths);
+                }
+            }
             done.fetch_add(1, Ordering::Relaxed);
-        }
+        });
+        let paths = result.map_err(|e| e.to_string())?;
+        recording.into_inner().unwrap_or_else(|e| e.into_inner())?;
+        written += paths.len();
         stems.push(stem.clone());
     }
     Ok(format!(

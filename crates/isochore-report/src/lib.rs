@@ -441,5 +441,26 @@ pub fn write_report_set(
     // Each figure drawn and rasterised once for every format, then the files written side
     // by side on the machine's cores; the list of paths keeps the plan's order, and each
     // file is the same bytes write_report writes for its format.
-    set::SetSource::write_single(input, dir, set_plan(stem))
+    set::SetSource::write_single(input, dir, set_plan(stem), &|_| {})
+}
+
+/// Writes the files of `plan` (formats with file names, as [`report_set_plan`] gives them,
+/// any subset) into `dir` (which must exist) as [`write_report_set`] does: each figure
+/// drawn and rasterised once for every format that holds it (none when only the tables
+/// are asked for), the files written side by side. `on_written` is called with the paths
+/// of each format as soon as they are written (once per format, from the writing threads,
+/// possibly several at once), for progress. Returns every path written, in the plan's order; each
+/// file is the same bytes [`write_report`] writes for its format.
+///
+/// # Errors
+/// As [`write_report`]; the files written before an error stay, and were passed to
+/// `on_written`.
+pub fn write_reports(
+    input: &ReportInput,
+    dir: &Path,
+    plan: Vec<(ReportFormat, String)>,
+    on_written: &(dyn Fn(&[PathBuf]) + Sync),
+) -> Result<Vec<PathBuf>, ReportError> {
+    input.validate()?;
+    set::SetSource::write_single(input, dir, plan, on_written)
 }

@@ -38,6 +38,7 @@ impl SetSource<'_> {
         input: &ReportInput,
         dir: &Path,
         plan: Vec<(ReportFormat, String)>,
+        on_written: &(dyn Fn(&[PathBuf]) + Sync),
     ) -> Result<Vec<PathBuf>, ReportError> {
         let source = SetSource {
             figures: FigureKind::ALL.to_vec(),
@@ -49,7 +50,7 @@ impl SetSource<'_> {
                 _ => csv_tables::results_csv(input),
             },
         };
-        write(&source, dir, plan)
+        write(&source, dir, plan, on_written)
     }
 }
 
@@ -115,14 +116,27 @@ pub(crate) fn write(
     source: &SetSource<'_>,
     dir: &Path,
     plan: Vec<(ReportFormat, String)>,
+    on_written: &(dyn Fn(&[PathBuf]) + Sync),
 ) -> Result<Vec<PathBuf>, ReportError> {
-    let figures = Figures::draw(source)?;
+    // Only tables asked for: no figure is drawn.
+    let tables_only = plan
+        .iter()
+        .all(|(f, _)| matches!(f, ReportFormat::DataCsv | ReportFormat::ResultsCsv));
+    let figures = if tables_only {
+        Figures(Vec::new())
+    } else {
+        Figures::draw(source)?
+    };
     // The PDF takes longest: started first, it overlaps the rest.
     let mut plan: Vec<(usize, (ReportFormat, String))> = plan.into_iter().enumerate().collect();
     plan.sort_by_key(|(_, (format, _))| *format != ReportFormat::Pdf);
     let mut parts: Vec<(usize, Vec<PathBuf>)> = plan
         .into_par_iter()
-        .map(|(i, (format, name))| Ok((i, write_one(source, &figures, format, &dir.join(name))?)))
+        .map(|(i, (format, name))| {
+            let written = write_one(source, &figures, format, &dir.join(name))?;
+            on_written(&written);
+            Ok((i, written))
+        })
         .collect::<Result<_, ReportError>>()?;
     // Back into the plan's order.
     parts.sort_by_key(|(i, _)| *i);

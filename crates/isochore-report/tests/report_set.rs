@@ -6,7 +6,9 @@
 //! the PNG files' compressed rows at full size, and its fonts are subsets.
 
 use crate::render::input;
-use isochore_report::{report_set_plan, write_report, write_report_set};
+use isochore_report::{
+    report_set_plan, write_report, write_report_set, write_reports, ReportFormat,
+};
 
 #[test]
 fn every_file_of_a_set_is_what_its_format_alone_writes() {
@@ -19,6 +21,57 @@ fn every_file_of_a_set_is_what_its_format_alone_writes() {
         each.extend(write_report(&inp, format, &alone.path().join(name)).unwrap());
     }
     same_files(&written, &each, alone.path());
+}
+
+#[test]
+fn a_chosen_subset_is_written_as_its_formats_alone_write_it() {
+    // The window's export: some formats of the set (here the PDF and the PNG figures, the
+    // two that share the rasters), each reported once as written.
+    let inp = input("chosen formats");
+    let plan: Vec<(ReportFormat, String)> = report_set_plan("c")
+        .into_iter()
+        .filter(|(f, _)| matches!(f, ReportFormat::Pdf | ReportFormat::FigurePng(_)))
+        .collect();
+    assert_eq!(plan.len(), 5);
+    let dir = tempfile::tempdir().unwrap();
+    let alone = tempfile::tempdir().unwrap();
+    let seen = std::sync::Mutex::new(Vec::new());
+    let written = write_reports(&inp, dir.path(), plan.clone(), &|p| {
+        seen.lock().unwrap().extend_from_slice(p)
+    })
+    .unwrap();
+    let mut seen = seen.into_inner().unwrap();
+    seen.sort();
+    let mut sorted = written.clone();
+    sorted.sort();
+    assert_eq!(seen, sorted, "each file reported once as written");
+    for ((format, name), path) in plan.iter().zip(&written) {
+        assert_eq!(path.file_name().unwrap().to_string_lossy(), name.as_str());
+        write_report(&inp, *format, &alone.path().join(name)).unwrap();
+        let (a, b) = (
+            std::fs::read(path).unwrap(),
+            std::fs::read(alone.path().join(name)).unwrap(),
+        );
+        if *format == ReportFormat::Pdf {
+            assert_eq!(pdf_pages_and_images(&a), pdf_pages_and_images(&b));
+        } else {
+            assert!(a == b, "{name} differs");
+        }
+    }
+    // Only the tables: no figure is drawn, and the files are the same as alone.
+    let tables: Vec<(ReportFormat, String)> = report_set_plan("t")
+        .into_iter()
+        .filter(|(f, _)| matches!(f, ReportFormat::DataCsv | ReportFormat::ResultsCsv))
+        .collect();
+    let written = write_reports(&inp, dir.path(), tables.clone(), &|_| {}).unwrap();
+    assert_eq!(written.len(), 2);
+    for ((format, name), path) in tables.iter().zip(&written) {
+        write_report(&inp, *format, &alone.path().join(name)).unwrap();
+        assert_eq!(
+            std::fs::read(path).unwrap(),
+            std::fs::read(alone.path().join(name)).unwrap()
+        );
+    }
 }
 
 /// Checks that a report set wrote the files each format writes alone (`each`, in the folder

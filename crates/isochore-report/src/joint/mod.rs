@@ -260,5 +260,5 @@ pub fn write_joint_report_set(
             _ => csv::results_csv(input),
         },
     };
-    crate::set::write(&source, dir, joint_report_set_plan(input, stem))
+    crate::set::write(&source, dir, joint_report_set_plan(input, stem), &|_| {})
 }
