@@ -427,6 +427,7 @@ impl Workbench {
                 self.plot.ui(ui, &mut cx);
             }
         });
+        self.files.export.calorimetric_in_fit = self.calorimetric.in_fit;
         self.files.windows(ctx, &mut cx);
         self.joint.show(ctx, &mut cx);
         self.calorimetric.show(ctx, &mut cx);

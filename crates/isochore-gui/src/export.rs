@@ -140,11 +140,27 @@ pub struct ExportJob {
     rx: Receiver<Result<String, String>>,
 }
 
+/// What the chemist chose in the export dialog beside the data sets and the folder.
+#[derive(Debug, Clone, Copy)]
+pub struct Choices<'a> {
+    /// The formats to write.
+    pub formats: FormatSet,
+    /// The analyst's name for the report (blank: none).
+    pub analyst: &'a str,
+    /// A note for the report (blank: none).
+    pub note: &'a str,
+    /// The "Calorimetric ΔH°" window's "Use the calorimetric values in the fit": the
+    /// reports of series with calorimetric values carry that fit too.
+    pub calorimetric_in_fit: bool,
+}
+
 impl ExportJob {
     /// Checks the request and starts writing on a worker thread: the report input of each
     /// chosen series with a fit (read as the command line reads it) with the analyst's
     /// name and note when given, named as the command line names reports, only the chosen
-    /// formats.
+    /// formats; with [`Choices::calorimetric_in_fit`], each series with calorimetric values also
+    /// fitted with them (the "Calorimetric ΔH°" window's choice), as the command line's
+    /// `--calorimetric-in-fit` adds it to the report.
     ///
     /// # Errors
     /// A sentence when nothing is chosen, a chosen series has no fit, or the overwrite
@@ -153,11 +169,15 @@ impl ExportJob {
         project: &Project,
         fitter: &Fitter,
         series: &[u64],
-        formats: FormatSet,
         folder: &Path,
-        analyst: &str,
-        note: &str,
+        choices: Choices<'_>,
     ) -> Result<ExportJob, String> {
+        let Choices {
+            formats,
+            analyst,
+            note,
+            calorimetric_in_fit,
+        } = choices;
         if formats.is_empty() {
             return Err("Choose at least one format.".into());
         }
@@ -178,7 +198,7 @@ impl ExportJob {
             )
             .collect();
         let guard = isochore_report::OverwriteGuard::new(&inputs);
-        let mut jobs: Vec<(ReportInput, String, Option<isochore_data::DataSet>)> = Vec::new();
+        let mut jobs: Vec<(ReportInput, String, Option<Additions>)> = Vec::new();
         let mut stems = ReportStems::new();
         for s in project.series.iter().filter(|s| series.contains(&s.id)) {
             let Some(a) = fitter.get(s.id) else {
@@ -206,10 +226,18 @@ impl ExportJob {
             input.record.note = given(note);
             // A resampling setting: the report compares the delta method, Monte Carlo and
             // the bootstrap, as `vhfit fit --intervals … --report` does; run on the worker.
-            let resample = (s.data.settings.intervals.choice
-                != isochore_analysis::intervals::IntervalChoice::Delta)
-                .then(|| s.data.clone());
-            jobs.push((input, stems.next(file, s.name(), several), resample));
+            let resample = s.data.settings.intervals.choice
+                != isochore_analysis::intervals::IntervalChoice::Delta;
+            // "Use the calorimetric values in the fit" on: the report carries that fit
+            // beside ln K alone, as `vhfit fit --calorimetric-in-fit --report` does.
+            let constrained = (calorimetric_in_fit && !s.data.calorimetric.is_empty())
+                .then(|| s.name().to_string());
+            let additions = (resample || constrained.is_some()).then(|| Additions {
+                data: s.data.clone(),
+                resample,
+                constrained,
+            });
+            jobs.push((input, stems.next(file, s.name(), several), additions));
         }
         let plan = |stem: &str| -> Vec<(ReportFormat, String)> {
             isochore_report::report_set_plan(stem)
@@ -264,14 +292,53 @@ impl ExportJob {
 }
 
 /// A report to write: its input, file stem, files (formats and names in the folder), and
-/// the data set to resample for the comparison of interval methods (when its setting is
-/// Monte Carlo or the bootstrap).
+/// what the worker adds to the input first.
 type Work = (
     ReportInput,
     String,
     Vec<(ReportFormat, String)>,
-    Option<isochore_data::DataSet>,
+    Option<Additions>,
 );
+
+/// What the export's worker adds to a report's input before writing it, from the series'
+/// data set: the runs of its interval setting (`resample`, when it is Monte Carlo or the
+/// bootstrap) for the comparison of interval methods, and its fit with its calorimetric
+/// values as observations of ΔH°(T) (`constrained`, the series' name, when the
+/// "Calorimetric ΔH°" window's "Use the calorimetric values in the fit" is on).
+struct Additions {
+    data: isochore_data::DataSet,
+    resample: bool,
+    constrained: Option<String>,
+}
+
+impl Additions {
+    /// `input` with the additions.
+    fn apply(&self, input: &ReportInput) -> Result<ReportInput, String> {
+        let mut i = input.clone();
+        if self.resample {
+            i.intervals = resampled_runs(&self.data, &input.fit)?;
+        }
+        if let Some(name) = &self.constrained {
+            // As the window's panel fits it (isochore-analysis' rule, the command line's).
+            let fitted = isochore_analysis::PreparedSet::from_data_set(
+                &self.data,
+                name,
+                &isochore_analysis::Overrides::default(),
+            )
+            .map_err(|e| e.to_string())
+            .and_then(|set| {
+                isochore_analysis::calorimetric::fit_single_with_calorimetric(
+                    &set,
+                    name,
+                    &isochore_analysis::calorimetric::values(&self.data),
+                )
+                .map_err(|e| e.to_string())
+            });
+            i.calorimetric_fit = Some(fitted);
+        }
+        Ok(i)
+    }
+}
 
 /// The runs the report compares with the delta method (isochore-analysis' `report_runs`,
 /// the command line's), for the data set's own interval setting.
@@ -299,14 +366,12 @@ fn write_all(
         .map_err(|e| format!("{}: could not create the folder: {e}", folder.display()))?;
     let mut written = 0usize;
     let mut stems = Vec::new();
-    for (input, stem, plan, resample) in work {
-        let with_runs;
-        let input = match resample {
-            Some(data) => {
-                let mut i = input.clone();
-                i.intervals = resampled_runs(data, &input.fit)?;
-                with_runs = i;
-                &with_runs
+    for (input, stem, plan, additions) in work {
+        let added;
+        let input = match additions {
+            Some(a) => {
+                added = a.apply(input)?;
+                &added
             }
             None => input,
         };

@@ -267,7 +267,19 @@ fn a_report_exported_from_the_window_compares_the_methods_as_the_command_line_do
     let dir = crate::workbench::temp_dir("intervals-report");
     let mut formats = FormatSet(0);
     formats.set(ExportFormat::Markdown, true);
-    let job = ExportJob::start(&w.project, &w.fitter, &[id], formats, &dir, "", "").unwrap();
+    let job = ExportJob::start(
+        &w.project,
+        &w.fitter,
+        &[id],
+        &dir,
+        isochore_gui::export::Choices {
+            formats,
+            analyst: "",
+            note: "",
+            calorimetric_in_fit: false,
+        },
+    )
+    .unwrap();
     let outcome = loop {
         if let Some(r) = job.poll() {
             break r;

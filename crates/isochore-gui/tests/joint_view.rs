@@ -381,6 +381,61 @@ fn a_single_series_is_fitted_with_its_calorimetric_values() {
         .query_all_by_label_contains("ln K alone: value ± SE")
         .next()
         .is_some());
+
+    // The export carries that fit (the command line's --calorimetric-in-fit --report): the
+    // results CSV's "ΔH° with ΔH_cal" row is the window's estimate; with the choice off,
+    // there is no such row.
+    use isochore_gui::export::{ExportFormat, ExportJob, FormatSet};
+    assert!(h.state().files.export.calorimetric_in_fit);
+    let want_dh = fit.estimates()[0].value;
+    let w = h.state();
+    let mut formats = FormatSet(0);
+    formats.set(ExportFormat::Tables, true);
+    let results = |in_fit: bool, name: &str| -> String {
+        let dir = crate::workbench::temp_dir(name);
+        let job = ExportJob::start(
+            &w.project,
+            &w.fitter,
+            &[id],
+            &dir,
+            isochore_gui::export::Choices {
+                formats,
+                analyst: "",
+                note: "",
+                calorimetric_in_fit: in_fit,
+            },
+        )
+        .unwrap();
+        let outcome = loop {
+            if let Some(r) = job.poll() {
+                break r;
+            }
+            std::thread::sleep(std::time::Duration::from_millis(20));
+        };
+        outcome.unwrap();
+        let csv = std::fs::read_dir(&dir)
+            .unwrap()
+            .filter_map(|e| e.ok().map(|e| e.path()))
+            .find(|p| p.to_string_lossy().ends_with("-results.csv"))
+            .expect("a results CSV");
+        let text = std::fs::read_to_string(csv).unwrap();
+        let _ = std::fs::remove_dir_all(&dir);
+        text
+    };
+    let with = results(true, "export-calorimetric-in-fit");
+    let row = with
+        .lines()
+        .find(|l| l.starts_with("ΔH° with ΔH_cal"))
+        .unwrap_or_else(|| panic!("{with}"));
+    let dh: f64 = row.split(',').nth(1).unwrap().parse().unwrap();
+    // The CSV's unit is the series' (kJ/mol for the binding demo) or J/mol.
+    assert!(
+        close(dh * 1000.0, want_dh) || close(dh, want_dh),
+        "{row} against {want_dh}"
+    );
+    assert!(with.contains("calorimetric values in the fit,2"), "{with}");
+    let without = results(false, "export-calorimetric-off");
+    assert!(!without.contains("with ΔH_cal"), "{without}");
 }
 
 /// The compensation plots of the "fit together" view (three or more series): the ligand

@@ -189,7 +189,18 @@ fn no_report_is_written_while_a_large_refit_waits_for_its_comparison() {
             assert!(a.fit.as_deref().expect("fit").comparison().is_none());
             // The plots' indexes come with the comparison: until then none is shown.
             assert!(a.plots_pending && a.resid_index.is_empty() && a.flagged.is_empty());
-            let Err(why) = ExportJob::start(&p, &fitter, &[id], formats, &dir, "", "") else {
+            let Err(why) = ExportJob::start(
+                &p,
+                &fitter,
+                &[id],
+                &dir,
+                isochore_gui::export::Choices {
+                    formats,
+                    analyst: "",
+                    note: "",
+                    calorimetric_in_fit: false,
+                },
+            ) else {
                 panic!("a report was started without the model comparison");
             };
             assert!(why.contains("model comparison"), "{why}");

@@ -37,6 +37,9 @@ pub struct ExportDialog {
     pub error: Option<String>,
     /// The last export's result, in words.
     pub note: Option<String>,
+    /// The "Calorimetric ΔH°" window's "Use the calorimetric values in the fit", copied in
+    /// every frame: the reports then carry that fit.
+    pub calorimetric_in_fit: bool,
     focus: bool,
 }
 
@@ -214,10 +217,13 @@ impl ExportDialog {
                 project,
                 cx.fitter,
                 &chosen,
-                *formats,
                 &folder,
-                analyst,
-                &self.record_note,
+                crate::export::Choices {
+                    formats: *formats,
+                    analyst,
+                    note: &self.record_note,
+                    calorimetric_in_fit: self.calorimetric_in_fit,
+                },
             ) {
                 Ok(job) => {
                     self.job = Some(job);
