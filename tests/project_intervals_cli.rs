@@ -20,6 +20,15 @@ fn project(dir: &Path, name: &str, file: &str, intervals: IntervalRequest) -> St
     path.to_string_lossy().into_owned()
 }
 
+/// The Monte Carlo request with `draws` and start value `seed`.
+fn monte_carlo(draws: usize, seed: u64) -> IntervalRequest {
+    IntervalRequest {
+        choice: IntervalChoice::MonteCarlo,
+        draws,
+        seed,
+    }
+}
+
 fn stdout(args: &[&str]) -> String {
     let out = run(args);
     assert_eq!(out.status.code(), Some(0), "{args:?}: {out:?}");
@@ -33,11 +42,7 @@ fn a_project_runs_its_recorded_method_as_the_explicit_options_do() {
         dir.path(),
         "mc.isochore.json",
         "acid_pka.csv",
-        IntervalRequest {
-            choice: IntervalChoice::MonteCarlo,
-            draws: 500,
-            seed: 7,
-        },
+        monte_carlo(500, 7),
     );
     let recorded = stdout(&["fit", &mc, "--json"]);
     let explicit = stdout(&[
@@ -98,11 +103,7 @@ fn an_explicit_option_wins_over_the_project() {
         dir.path(),
         "mc.isochore.json",
         "acid_pka.csv",
-        IntervalRequest {
-            choice: IntervalChoice::MonteCarlo,
-            draws: 500,
-            seed: 7,
-        },
+        monte_carlo(500, 7),
     );
     let plain = project(
         dir.path(),
@@ -183,11 +184,7 @@ fn predict_runs_the_project_s_recorded_method_too() {
         dir.path(),
         "mc.isochore.json",
         "acid_pka.csv",
-        IntervalRequest {
-            choice: IntervalChoice::MonteCarlo,
-            draws: 400,
-            seed: 5,
-        },
+        monte_carlo(400, 5),
     );
     let at = ["--at", "25,40", "--json"];
     let recorded = stdout(&[&["predict", &mc][..], &at].concat());

@@ -154,6 +154,18 @@ pub struct Choices<'a> {
     pub calorimetric_in_fit: bool,
 }
 
+impl Choices<'_> {
+    /// The `formats`, with no analyst, note or calorimetric fit.
+    pub fn formats(formats: FormatSet) -> Choices<'static> {
+        Choices {
+            formats,
+            analyst: "",
+            note: "",
+            calorimetric_in_fit: false,
+        }
+    }
+}
+
 impl ExportJob {
     /// Checks the request and starts writing on a worker thread: the report input of each
     /// chosen series with a fit (read as the command line reads it) with the analyst's
@@ -288,6 +300,14 @@ impl ExportJob {
             Err(TryRecvError::Empty) => None,
             Err(TryRecvError::Disconnected) => Some(Err("the export stopped unexpectedly".into())),
         }
+    }
+
+    /// Waits for the worker and gives its outcome (as [`ExportJob::poll`] does once done):
+    /// for callers with no frames to draw meanwhile.
+    pub fn wait(self) -> Result<String, String> {
+        self.rx
+            .recv()
+            .unwrap_or_else(|_| Err("the export stopped unexpectedly".into()))
     }
 }
 

@@ -267,31 +267,16 @@ fn a_report_exported_from_the_window_compares_the_methods_as_the_command_line_do
     let dir = crate::workbench::temp_dir("intervals-report");
     let mut formats = FormatSet(0);
     formats.set(ExportFormat::Markdown, true);
-    let job = ExportJob::start(
+    ExportJob::start(
         &w.project,
         &w.fitter,
         &[id],
         &dir,
-        isochore_gui::export::Choices {
-            formats,
-            analyst: "",
-            note: "",
-            calorimetric_in_fit: false,
-        },
+        isochore_gui::export::Choices::formats(formats),
     )
+    .and_then(ExportJob::wait)
     .unwrap();
-    let outcome = loop {
-        if let Some(r) = job.poll() {
-            break r;
-        }
-        std::thread::sleep(std::time::Duration::from_millis(20));
-    };
-    outcome.unwrap();
-    let md = std::fs::read_dir(&dir)
-        .unwrap()
-        .filter_map(|e| e.ok().map(|e| e.path()))
-        .find(|p| p.extension().is_some_and(|x| x == "md"))
-        .expect("a Markdown report");
+    let md = crate::workbench::file_ending(&dir, ".md");
     let text = std::fs::read_to_string(md).unwrap();
     // The section the command line's --intervals monte-carlo --report writes: the methods
     // paragraph (the draws and generator start value) and the comparison of methods.

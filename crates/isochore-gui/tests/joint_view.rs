@@ -393,31 +393,14 @@ fn a_single_series_is_fitted_with_its_calorimetric_values() {
     formats.set(ExportFormat::Tables, true);
     let results = |in_fit: bool, name: &str| -> String {
         let dir = crate::workbench::temp_dir(name);
-        let job = ExportJob::start(
-            &w.project,
-            &w.fitter,
-            &[id],
-            &dir,
-            isochore_gui::export::Choices {
-                formats,
-                analyst: "",
-                note: "",
-                calorimetric_in_fit: in_fit,
-            },
-        )
-        .unwrap();
-        let outcome = loop {
-            if let Some(r) = job.poll() {
-                break r;
-            }
-            std::thread::sleep(std::time::Duration::from_millis(20));
+        let choices = isochore_gui::export::Choices {
+            calorimetric_in_fit: in_fit,
+            ..isochore_gui::export::Choices::formats(formats)
         };
-        outcome.unwrap();
-        let csv = std::fs::read_dir(&dir)
-            .unwrap()
-            .filter_map(|e| e.ok().map(|e| e.path()))
-            .find(|p| p.to_string_lossy().ends_with("-results.csv"))
-            .expect("a results CSV");
+        ExportJob::start(&w.project, &w.fitter, &[id], &dir, choices)
+            .and_then(ExportJob::wait)
+            .unwrap();
+        let csv = crate::workbench::file_ending(&dir, "-results.csv");
         let text = std::fs::read_to_string(csv).unwrap();
         let _ = std::fs::remove_dir_all(&dir);
         text

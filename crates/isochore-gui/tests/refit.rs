@@ -194,12 +194,7 @@ fn no_report_is_written_while_a_large_refit_waits_for_its_comparison() {
                 &fitter,
                 &[id],
                 &dir,
-                isochore_gui::export::Choices {
-                    formats,
-                    analyst: "",
-                    note: "",
-                    calorimetric_in_fit: false,
-                },
+                isochore_gui::export::Choices::formats(formats),
             ) else {
                 panic!("a report was started without the model comparison");
             };

@@ -67,6 +67,15 @@ pub(crate) fn temp_dir(tag: &str) -> PathBuf {
     d
 }
 
+/// The first file in `dir` whose name ends with `suffix` (a report the test wrote).
+pub(crate) fn file_ending(dir: &std::path::Path, suffix: &str) -> PathBuf {
+    std::fs::read_dir(dir)
+        .unwrap()
+        .filter_map(|e| e.ok().map(|e| e.path()))
+        .find(|p| p.to_string_lossy().ends_with(suffix))
+        .unwrap_or_else(|| panic!("no file ending {suffix} in {}", dir.display()))
+}
+
 /// The label the results panel gives ΔH° (value in kJ/mol, 4 significant digits).
 pub(crate) fn delta_h_label(joules: f64) -> String {
     format!("ΔH° = {} kJ/mol", sig(joules / 1e3, 4))
