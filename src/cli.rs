@@ -248,7 +248,7 @@ pub struct FitArgs {
     /// table of the resampled intervals beside the delta method's; the JSON's intervals
     /// carry "method". Default: the method a project file records for each series (chosen
     /// in the window, with its draws and seed; --draws, --seed and --bootstrap-scheme
-    /// replace those), else delta.
+    /// replace those; with --share, the one all the series record), else delta.
     #[arg(long, value_enum, value_name = "METHOD")]
     pub intervals: Option<IntervalsArg>,
     /// Number of Monte Carlo or bootstrap draws, 1 to 1000000 (default 10000).

@@ -58,19 +58,14 @@ impl Flags {
 /// no joint fit is asked for), `--draws`, `--seed` and `--bootstrap-scheme` are checked
 /// against each data set's recorded method instead, by [`for_set`].
 pub fn request(a: &FitArgs) -> Result<IntervalRequest, String> {
-    request_for(Flags::of_fit(a), &a.files, a.share.is_some())
+    request_for(Flags::of_fit(a), &a.files)
 }
 
-/// [`request`] for any command's `flags`, its input `files` and whether the fit is `joint`.
-pub fn request_for(
-    flags: Flags,
-    files: &[std::path::PathBuf],
-    joint: bool,
-) -> Result<IntervalRequest, String> {
-    if flags.intervals.is_none()
-        && !joint
-        && files.iter().any(|p| isochore_analysis::is_project_file(p))
-    {
+/// [`request`] for any command's `flags` and its input `files`. Without `--intervals`, an
+/// input that is a project file leaves the request to each data set ([`for_job`]; a joint
+/// fit's to [`for_joint`]).
+pub fn request_for(flags: Flags, files: &[std::path::PathBuf]) -> Result<IntervalRequest, String> {
+    if flags.intervals.is_none() && files.iter().any(|p| isochore_analysis::is_project_file(p)) {
         return Ok(IntervalRequest::default());
     }
     request_from(
@@ -89,6 +84,42 @@ pub fn request_for(
 /// [`request_from`]'s words, the data set named.
 pub fn for_set(a: &FitArgs, given: &IntervalRequest, job: &Job) -> Result<IntervalRequest, String> {
     for_job(Flags::of_fit(a), a.share.is_some(), given, job)
+}
+
+/// The request of a joint fit (`--share`) of `sets`: `given` when `--intervals` is given or
+/// no input is a project file, else the one every data set records (as [`for_job`] makes
+/// it, the flags replacing draws, start value and scheme). Data sets that record different
+/// requests are refused, each named with its method: one run covers them all, so the
+/// chemist chooses it with `--intervals`.
+pub fn for_joint(
+    flags: Flags,
+    files: &[std::path::PathBuf],
+    given: &IntervalRequest,
+    sets: &[Job],
+) -> Result<IntervalRequest, String> {
+    if flags.intervals.is_some() || !files.iter().any(|p| isochore_analysis::is_project_file(p)) {
+        return Ok(*given);
+    }
+    let each: Vec<IntervalRequest> = sets
+        .iter()
+        .map(|job| for_job(flags, false, given, job))
+        .collect::<Result<_, _>>()?;
+    match each.first() {
+        Some(first) if each.iter().all(|r| r == first) => Ok(*first),
+        Some(_) => Err(format!(
+            "the data sets record different interval settings ({}); a joint fit makes one run for all of them: choose it with --intervals",
+            sets.iter()
+                .zip(&each)
+                .map(|(job, r)| format!(
+                    "'{}': {}",
+                    job.series,
+                    isochore_report::present::names::interval_choice(r.choice)
+                ))
+                .collect::<Vec<_>>()
+                .join(", ")
+        )),
+        None => Ok(*given),
+    }
 }
 
 /// [`for_set`] for any command's `flags` and whether the fit is `joint`.

@@ -63,6 +63,14 @@ pub fn run(a: &FitArgs, keys: &[String], intervals: &IntervalRequest) -> Result<
     for path in &a.files {
         sets.extend(load_for_joint(path, &a.fit, a.report.is_some()).map_err(Failure::input)?);
     }
+    // Without --intervals, the setting the data sets of a project record (one for all).
+    let intervals = &crate::intervals_cmd::for_joint(
+        crate::intervals_cmd::Flags::of_fit(a),
+        &a.files,
+        intervals,
+        &sets,
+    )
+    .map_err(|e| Failure::usage(format!("--share: {e}")))?;
     let joint = fit_joint(&sets, &keys).map_err(|e| Failure::input(format!("--share: {e}")))?;
     // A refusal of the run is a usage error: another method or setting settles it.
     let resampled = run_joint_intervals(&sets, &joint, intervals)

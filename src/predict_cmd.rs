@@ -40,7 +40,7 @@ pub fn run(a: &PredictArgs) -> Result<(), Failure> {
     }
     // Without --intervals, the method each series of a project records.
     let flags = crate::intervals_cmd::Flags::of_predict(a);
-    let given = crate::intervals_cmd::request_for(flags, std::slice::from_ref(&a.file), false)
+    let given = crate::intervals_cmd::request_for(flags, std::slice::from_ref(&a.file))
         .map_err(Failure::usage)?;
     let jobs = load(&a.file, &a.fit, false).map_err(Failure::input)?;
     let mut fits: Vec<(Job, VantHoffFit, Option<f64>)> = Vec::new();

@@ -230,3 +230,84 @@ fn predict_runs_the_project_s_recorded_method_too() {
         "{err}"
     );
 }
+
+#[test]
+fn a_joint_fit_runs_the_setting_all_its_series_record() {
+    // The invented ligand demo's four series in one project, ΔCp° shared: recorded alike,
+    // the joint fit runs that setting (the explicit options' bytes); recorded differently,
+    // it is refused naming each series with its method.
+    let dir = tempfile::tempdir().unwrap();
+    let alike = project(
+        dir.path(),
+        "alike.isochore.json",
+        "ligands_px_orrin3.csv",
+        monte_carlo(200, 4),
+    );
+    let share = [
+        "--model",
+        "cp",
+        "--share",
+        "delta_cp",
+        "--json",
+        "--summary",
+    ];
+    let recorded = stdout(&[&["fit", &alike][..], &share].concat());
+    let explicit = stdout(
+        &[
+            &["fit", &alike][..],
+            &share,
+            &[
+                "--intervals",
+                "monte-carlo",
+                "--draws",
+                "200",
+                "--seed",
+                "4",
+            ],
+        ]
+        .concat(),
+    );
+    assert_eq!(recorded, explicit);
+    assert!(recorded.contains("\"monte_carlo\""), "{recorded}");
+    // --seed alone replaces the recorded start value for all.
+    assert_eq!(
+        stdout(&[&["fit", &alike][..], &share, &["--seed", "9"]].concat()),
+        stdout(
+            &[
+                &["fit", &alike][..],
+                &share,
+                &[
+                    "--intervals",
+                    "monte-carlo",
+                    "--draws",
+                    "200",
+                    "--seed",
+                    "9"
+                ],
+            ]
+            .concat(),
+        )
+    );
+
+    let mut p = Project::load(std::path::Path::new(&alike)).unwrap();
+    p.series[2].settings.intervals = IntervalRequest::default();
+    let mixed = dir.path().join("mixed.isochore.json");
+    p.save_atomic(&mixed).unwrap();
+    let mixed = mixed.to_string_lossy().into_owned();
+    let out = run(&[&["fit", &mixed][..], &share].concat());
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(2), "{err}");
+    assert!(
+        err.contains("record different interval settings")
+            && err.contains("delta method")
+            && err.contains("Monte Carlo")
+            && err.contains("choose it with --intervals"),
+        "{err}"
+    );
+    // --intervals settles it.
+    assert!(
+        run(&[&["fit", &mixed][..], &share, &["--intervals", "delta"]].concat())
+            .status
+            .success()
+    );
+}
