@@ -113,6 +113,23 @@ pub fn compare_joint(
         .collect()
 }
 
+/// A project's series (`data`, named `label`) fitted again with its own calorimetric values
+/// ([`values`]) as observations of its ΔH°(T): prepared as `vhfit fit` prepares a project's
+/// series, then [`fit_single_with_calorimetric`]. The window's "Calorimetric ΔH°" panel
+/// and its report export both take it from here.
+///
+/// # Errors
+/// A data set that cannot be prepared ([`GlobalError::NoSolution`] with the reason), or
+/// [`fit_single_with_calorimetric`]'s refusal.
+pub fn fit_data_set_with_calorimetric(
+    data: &DataSet,
+    label: &str,
+) -> Result<(GlobalFit, CalorimetricJointFit), GlobalError> {
+    let set = crate::PreparedSet::from_data_set(data, label, &crate::Overrides::default())
+        .map_err(|e| GlobalError::NoSolution(e.to_string()))?;
+    fit_single_with_calorimetric(&set, label, &values(data))
+}
+
 /// One data set fitted again with calorimetric values as observations of its ΔH°(T)
 /// (isochore-fit's `fit_with_calorimetric` on a single series, every parameter its own),
 /// with the same fit of ln K alone in the same form for the side-by-side table

@@ -340,20 +340,9 @@ impl Additions {
         }
         if let Some(name) = &self.constrained {
             // As the window's panel fits it (isochore-analysis' rule, the command line's).
-            let fitted = isochore_analysis::PreparedSet::from_data_set(
-                &self.data,
-                name,
-                &isochore_analysis::Overrides::default(),
-            )
-            .map_err(|e| e.to_string())
-            .and_then(|set| {
-                isochore_analysis::calorimetric::fit_single_with_calorimetric(
-                    &set,
-                    name,
-                    &isochore_analysis::calorimetric::values(&self.data),
-                )
-                .map_err(|e| e.to_string())
-            });
+            let fitted =
+                isochore_analysis::calorimetric::fit_data_set_with_calorimetric(&self.data, name)
+                    .map_err(|e| e.to_string());
             i.calorimetric_fit = Some(fitted);
         }
         Ok(i)

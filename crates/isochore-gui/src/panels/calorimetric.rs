@@ -15,9 +15,8 @@ use crate::context::Cx;
 use crate::doc::Entry;
 use egui::RichText;
 use isochore_analysis::calorimetric::{
-    compare_single, entry_from_display, fit_single_with_calorimetric, rows_for_series, values,
+    compare_single, entry_from_display, fit_data_set_with_calorimetric, rows_for_series,
 };
-use isochore_analysis::{Overrides, PreparedSet};
 use isochore_fit::calorimetric::{CalorimetricComparison, COUPLED_EQUILIBRIA_CAUTION};
 use isochore_fit::global::{CalorimetricJointFit, GlobalError, GlobalFit};
 use isochore_fit::{EnergyUnit, TemperatureUnit};
@@ -308,9 +307,7 @@ impl CalorimetricPanel {
             .collect();
         let key: SingleKey = (s.id, s.rev, bits);
         if self.fitted.as_ref().is_none_or(|(k, _)| *k != key) {
-            let r = PreparedSet::from_data_set(&s.data, s.name(), &Overrides::default())
-                .map_err(|e| GlobalError::NoSolution(e.to_string()))
-                .and_then(|set| fit_single_with_calorimetric(&set, s.name(), &values(&s.data)));
+            let r = fit_data_set_with_calorimetric(&s.data, s.name());
             self.fitted = Some((key, r));
         }
         match &self.fitted {
