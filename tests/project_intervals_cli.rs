@@ -174,6 +174,19 @@ fn a_flag_the_recorded_method_would_not_use_is_a_usage_error() {
     assert!(String::from_utf8_lossy(&out.stderr).contains("the delta method draws nothing"));
 }
 
+/// `stdout` of `args` followed by the explicit Monte Carlo options with `draws` and `seed`.
+fn with_monte_carlo(args: &[&str], draws: &str, seed: &str) -> String {
+    let flags = [
+        "--intervals",
+        "monte-carlo",
+        "--draws",
+        draws,
+        "--seed",
+        seed,
+    ];
+    stdout(&[args, &flags[..]].concat())
+}
+
 #[test]
 fn predict_runs_the_project_s_recorded_method_too() {
     // `vhfit predict PROJECT` without --intervals: the recorded Monte Carlo run, the same
@@ -186,42 +199,26 @@ fn predict_runs_the_project_s_recorded_method_too() {
         "acid_pka.csv",
         monte_carlo(400, 5),
     );
-    let at = ["--at", "25,40", "--json"];
-    let recorded = stdout(&[&["predict", &mc][..], &at].concat());
-    let explicit = stdout(
-        &[
-            &["predict", &mc][..],
-            &at,
-            &[
-                "--intervals",
-                "monte-carlo",
-                "--draws",
-                "400",
-                "--seed",
-                "5",
-            ],
-        ]
-        .concat(),
-    );
-    assert_eq!(recorded, explicit);
+    let args = ["predict", mc.as_str(), "--at", "25,40", "--json"];
+    let recorded = stdout(&args);
+    assert_eq!(recorded, with_monte_carlo(&args, "400", "5"));
     let j: serde_json::Value = serde_json::from_str(&recorded).unwrap();
     assert_eq!(j["intervals"]["method"], "monte_carlo", "{j}");
     assert_eq!(j["intervals"]["draws"], 400);
-    let delta = stdout(&[&["predict", &mc][..], &at, &["--intervals", "delta"]].concat());
+    let delta = stdout(&[&args[..], &["--intervals", "delta"]].concat());
+    assert_ne!(delta, recorded);
+    // The same predictions as a project recording nothing (the source differs).
     let plain = project(
         dir.path(),
         "plain.isochore.json",
         "acid_pka.csv",
         IntervalRequest::default(),
     );
-    assert_ne!(delta, recorded);
-    // The same predictions as a project recording nothing (the source differs).
     let of = |s: &str| serde_json::from_str::<serde_json::Value>(s).unwrap()["predictions"].clone();
-    let plain_out = stdout(&[&["predict", &plain][..], &at].concat());
+    let plain_out = stdout(&[&["predict", plain.as_str()][..], &args[2..]].concat());
     assert_eq!(of(&delta), of(&plain_out));
-    assert!(
-        of(&delta)[0]["k"]["method"] == "delta" && of(&recorded)[0]["k"]["method"] == "monte_carlo"
-    );
+    assert_eq!(of(&delta)[0]["k"]["method"], "delta");
+    assert_eq!(of(&recorded)[0]["k"]["method"], "monte_carlo");
     let out = run(&["predict", &plain, "--at", "25", "--seed", "3"]);
     let err = String::from_utf8_lossy(&out.stderr);
     assert_eq!(out.status.code(), Some(2), "{err}");
@@ -243,6 +240,7 @@ fn a_joint_fit_runs_the_setting_all_its_series_record() {
         "ligands_px_orrin3.csv",
         monte_carlo(200, 4),
     );
+    // The joint fit's options (ΔCp° shared) after the file.
     let share = [
         "--model",
         "cp",
@@ -251,42 +249,14 @@ fn a_joint_fit_runs_the_setting_all_its_series_record() {
         "--json",
         "--summary",
     ];
-    let recorded = stdout(&[&["fit", &alike][..], &share].concat());
-    let explicit = stdout(
-        &[
-            &["fit", &alike][..],
-            &share,
-            &[
-                "--intervals",
-                "monte-carlo",
-                "--draws",
-                "200",
-                "--seed",
-                "4",
-            ],
-        ]
-        .concat(),
-    );
-    assert_eq!(recorded, explicit);
+    let args = [&["fit", alike.as_str()][..], &share].concat();
+    let recorded = stdout(&args);
+    assert_eq!(recorded, with_monte_carlo(&args, "200", "4"));
     assert!(recorded.contains("\"monte_carlo\""), "{recorded}");
     // --seed alone replaces the recorded start value for all.
     assert_eq!(
-        stdout(&[&["fit", &alike][..], &share, &["--seed", "9"]].concat()),
-        stdout(
-            &[
-                &["fit", &alike][..],
-                &share,
-                &[
-                    "--intervals",
-                    "monte-carlo",
-                    "--draws",
-                    "200",
-                    "--seed",
-                    "9"
-                ],
-            ]
-            .concat(),
-        )
+        stdout(&[&args[..], &["--seed", "9"]].concat()),
+        with_monte_carlo(&args, "200", "9")
     );
 
     let mut p = Project::load(std::path::Path::new(&alike)).unwrap();
@@ -294,7 +264,8 @@ fn a_joint_fit_runs_the_setting_all_its_series_record() {
     let mixed = dir.path().join("mixed.isochore.json");
     p.save_atomic(&mixed).unwrap();
     let mixed = mixed.to_string_lossy().into_owned();
-    let out = run(&[&["fit", &mixed][..], &share].concat());
+    let mixed = [&["fit", mixed.as_str()][..], &share].concat();
+    let out = run(&mixed);
     let err = String::from_utf8_lossy(&out.stderr);
     assert_eq!(out.status.code(), Some(2), "{err}");
     assert!(
@@ -305,9 +276,7 @@ fn a_joint_fit_runs_the_setting_all_its_series_record() {
         "{err}"
     );
     // --intervals settles it.
-    assert!(
-        run(&[&["fit", &mixed][..], &share, &["--intervals", "delta"]].concat())
-            .status
-            .success()
-    );
+    assert!(run(&[&mixed[..], &["--intervals", "delta"]].concat())
+        .status
+        .success());
 }

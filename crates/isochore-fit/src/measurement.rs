@@ -92,3 +92,41 @@ impl Measurement {
         Ok(())
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn is_valid_agrees_with_validate() {
+        // Every combination of ordinary and edge values (the two carry the same rule, one
+        // as errors and one as a flag for passes over many points).
+        let edges = [
+            298.15,
+            1e-300,
+            0.0,
+            -0.0,
+            -5.0,
+            f64::NAN,
+            f64::INFINITY,
+            f64::NEG_INFINITY,
+        ];
+        let mut seen_both = [false; 2];
+        for &t in &edges {
+            for &y in &edges {
+                for s in edges.iter().map(|&s| Some(s)).chain([None]) {
+                    let m = Measurement {
+                        t_k: t,
+                        ln_k: y,
+                        sigma_ln_k: s,
+                        included: true,
+                    };
+                    let ok = m.validate(0).is_ok();
+                    assert_eq!(m.is_valid(), ok, "{m:?}");
+                    seen_both[usize::from(ok)] = true;
+                }
+            }
+        }
+        assert_eq!(seen_both, [true, true]);
+    }
+}
