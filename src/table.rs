@@ -156,7 +156,7 @@ pub fn detailed(w: &mut impl Write, job: &Job, fit: &VantHoffFit) -> io::Result<
     let excluded: Vec<String> = job
         .rows
         .iter()
-        .zip(&job.measurements)
+        .zip(job.measurements.iter())
         .filter(|(_, m)| !m.included)
         .take(50)
         .map(|(r, _)| {

@@ -20,6 +20,7 @@ use std::borrow::Cow;
 use std::collections::BTreeMap;
 use std::fmt;
 use std::path::Path;
+use std::sync::Arc;
 
 /// The note given when replicates were averaged.
 pub const REPLICATES_NOTE: &str =
@@ -41,8 +42,9 @@ pub struct PreparedSet {
     pub headers: Vec<String>,
     /// The unit conversions made, in words.
     pub conversions: Vec<String>,
-    /// The points for the fit, in row order.
-    pub measurements: Vec<Measurement>,
+    /// The points for the fit, in row order, shared with the fits made of them
+    /// ([`isochore_fit::fit_shared`]: a large data set's points are held once).
+    pub measurements: Arc<Vec<Measurement>>,
     /// Where each point came from (same order and count as `measurements`), kept compact:
     /// [`Origins::iter`] and [`Origins::get`] give each point's [`PointOrigin`].
     pub rows: Origins,
@@ -551,7 +553,7 @@ impl PreparedSet {
             series: s.name.clone(),
             headers: s.headers.clone(),
             conversions: s.mapping.describe(&s.headers),
-            measurements,
+            measurements: Arc::new(measurements),
             rows: origins,
             options: weighed.options,
             energy: o.energy_unit.unwrap_or(s.settings.energy_unit),
@@ -586,7 +588,7 @@ impl PreparedSet {
     /// # Errors
     /// isochore-fit's refusal, with the data set named.
     pub fn fit(&self) -> Result<isochore_fit::VantHoffFit, FitFailure> {
-        isochore_fit::fit(&self.measurements, &self.options).map_err(|error| FitFailure {
+        isochore_fit::fit_shared(&self.measurements, &self.options).map_err(|error| FitFailure {
             source: self.source.clone(),
             series: self.series.clone(),
             error,

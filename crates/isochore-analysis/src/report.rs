@@ -78,7 +78,7 @@ pub fn report_input(
 fn report_rows(set: &PreparedSet) -> Vec<ReportRow> {
     set.rows
         .iter()
-        .zip(&set.measurements)
+        .zip(set.measurements.iter())
         .map(|(o, m)| ReportRow {
             row: o.row.get(),
             line: o.line,

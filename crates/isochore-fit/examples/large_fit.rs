@@ -43,10 +43,11 @@ fn main() {
         phases(&points, model);
     }
     if std::env::var_os("LARGE_FIT_FIRST").is_some() {
+        let shared = std::sync::Arc::new(points.clone());
         for _ in 0..repeats {
             let start = Instant::now();
             let (mut f, pending) =
-                isochore_fit::fit_estimates_first(&points, &options).expect("fit");
+                isochore_fit::fit_estimates_first(&shared, &options).expect("fit");
             let estimates = start.elapsed().as_secs_f64() * 1e3;
             if let Some(p) = pending {
                 f.complete_comparison(p.run(&points));
@@ -58,7 +59,7 @@ fn main() {
             );
         }
         let whole = fit(&points, &options).expect("fit");
-        let (mut f, pending) = isochore_fit::fit_estimates_first(&points, &options).expect("fit");
+        let (mut f, pending) = isochore_fit::fit_estimates_first(&shared, &options).expect("fit");
         if let Some(p) = pending {
             f.complete_comparison(p.run(&points));
         }

@@ -279,7 +279,7 @@ pub(crate) fn diagnose_one(
 }
 
 /// The per-point diagnostics a fit keeps: records written once (the general solver's, whose
-/// leverages come from its QR), or computed on demand from a compact copy of the points
+/// leverages come from its QR), or computed on demand from the points themselves
 /// (the streaming path: see [`crate::fast`]), materialised into records only when a caller
 /// asks for the whole slice.
 #[derive(Clone)]
@@ -288,7 +288,7 @@ pub(crate) enum PointStore {
     Kept(Vec<PointDiagnostics>),
     /// Computed when asked for; `cache` holds the records once the slice was asked for.
     OnDemand {
-        /// The compact points and what their diagnostics share.
+        /// The points and what their diagnostics share.
         points: Box<crate::fast::OnDemand>,
         /// The records, once made.
         cache: std::sync::OnceLock<Vec<PointDiagnostics>>,

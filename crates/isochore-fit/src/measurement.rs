@@ -3,6 +3,7 @@
 
 use crate::error::Error;
 use serde::{Deserialize, Serialize};
+use std::sync::Arc;
 
 /// One equilibrium measurement, already on the fitting scale.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
@@ -90,6 +91,35 @@ impl Measurement {
             }
         }
         Ok(())
+    }
+}
+
+/// The points given to a fit: borrowed for the fit alone, or shared with the caller. A fit
+/// whose per-point diagnostics are computed on demand (the streaming path) keeps the points
+/// it was given: shared ones by a second reference, borrowed ones as a copy.
+#[derive(Debug, Clone, Copy)]
+pub(crate) enum Given<'a> {
+    /// The caller keeps the points; the fit copies them if it needs them later.
+    Borrowed(&'a [Measurement]),
+    /// The caller shares the points; the fit holds another reference if it needs them.
+    Shared(&'a Arc<Vec<Measurement>>),
+}
+
+impl<'a> Given<'a> {
+    /// The points.
+    pub(crate) fn slice(self) -> &'a [Measurement] {
+        match self {
+            Given::Borrowed(s) => s,
+            Given::Shared(a) => a.as_slice(),
+        }
+    }
+
+    /// The points for the fit to keep: another reference when shared, a copy otherwise.
+    pub(crate) fn to_shared(self) -> Arc<Vec<Measurement>> {
+        match self {
+            Given::Borrowed(s) => Arc::new(s.to_vec()),
+            Given::Shared(a) => Arc::clone(a),
+        }
     }
 }
 

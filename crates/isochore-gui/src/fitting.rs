@@ -84,14 +84,20 @@ pub struct Analysis {
 
 impl Analysis {
     /// Gives a large analysis' points back to the prepared points it was made from, for the
-    /// next refit to mark again (no copy of them then), when nothing else holds them; the
-    /// rest is freed.
+    /// next refit to mark again (no copy of them then), when nothing else holds them (the
+    /// fit is freed first, as it may hold another reference); the rest is freed.
     fn recycle(self) {
-        if let (Some(prepared), Ok(points)) = (self.prepared, Arc::try_unwrap(self.measurements)) {
-            prepared.give_back(Marked {
-                points,
-                excluded: self.excluded,
-            });
+        let Analysis {
+            fit,
+            measurements,
+            prepared,
+            excluded,
+            ..
+        } = self;
+        // The fit may hold another reference to the points.
+        drop(fit);
+        if let (Some(prepared), Ok(points)) = (prepared, Arc::try_unwrap(measurements)) {
+            prepared.give_back(Marked { points, excluded });
         }
     }
 }
@@ -201,6 +207,8 @@ fn finish(
         points: measurements,
         excluded,
     } = marked;
+    // Shared with the fit, which then holds no copy of a large series' points.
+    let measurements = Arc::new(measurements);
     let mut pending = None;
     let (fit, remedy) = match &prepared.weighed {
         Err(e) => (Err(e.clone()), Some(Remedy::FitUnweighted)),
@@ -210,7 +218,7 @@ fn finish(
                 f
             })
         } else {
-            isochore_fit::fit(&measurements, &weighed.options)
+            isochore_fit::fit_shared(&measurements, &weighed.options)
         } {
             Ok(mut f) => {
                 if let Some(note) = weighed.note {
@@ -224,7 +232,6 @@ fn finish(
             Err(e) => (Err(e.to_string()), Remedy::for_fit(&e)),
         },
     };
-    let measurements = Arc::new(measurements);
     let (band, ellipse, h_g_region, contours) = match &fit {
         Ok(f) => {
             let band = f.band_grid(BAND_POINTS, 0.08);

@@ -1,12 +1,13 @@
 //! The per-point diagnostics of the streaming path, computed on demand.
 //!
-//! A fit on the streaming path keeps no record per point: [`OnDemand`] holds a compact copy
-//! of the points (T, ln K and σ, 24 bytes, and one bit for "used") and the few numbers every
-//! point's diagnostics share (the coefficients, R⁻¹, the [`PointContext`]). A point's
-//! [`PointDiagnostics`] are computed from them when asked for, with the arithmetic of
-//! [`diagnose_one`] and of the fit itself (the design row from the temperature, √w from σ
-//! as the read pass forms them), so they are the same numbers, bit for bit, as records
-//! written once at the fit. A million points then cost 24 MB instead of 168 MB of records.
+//! A fit on the streaming path keeps no record per point: [`OnDemand`] holds the points it
+//! was fitted to (another reference to the caller's when they are shared, see
+//! [`crate::fit_shared`]; a copy otherwise) and the few numbers every point's diagnostics
+//! share (the coefficients, R⁻¹, the [`PointContext`]). A point's [`PointDiagnostics`] are
+//! computed from them when asked for, with the arithmetic of [`diagnose_one`] and of the fit
+//! itself (the design row from the temperature, √w from σ as the read pass forms them), so
+//! they are the same numbers, bit for bit, as records written once at the fit. A million
+//! shared points then cost nothing beside the caller's, instead of 168 MB of records.
 //!
 //! Points go through in groups of [`GROUP`]: the cheap per-point sums first, then the
 //! square roots and divisions of the studentized residuals, Cook's distance and DFFITS as
@@ -14,14 +15,13 @@
 //! number of a point depends on that point only, so a group of one gives the same bits.
 
 use super::*;
+use std::sync::Arc;
 
-/// The diagnostics of a streaming fit, computed from a compact copy of its points.
+/// The diagnostics of a streaming fit, computed from the points it was fitted to.
 #[derive(Debug, Clone)]
 pub(crate) struct OnDemand {
-    /// T (K), ln K and σ(ln K) (NaN when absent) of every point, in input order.
-    values: Vec<[f64; 3]>,
-    /// Bit i: point i took part in the fit.
-    included: Vec<u64>,
+    /// Every point as the fit was given it (shared with the caller or copied).
+    points: Arc<Vec<Measurement>>,
     ctx: PointContext,
     beta: [f64; 3],
     r_inv: [[f64; 3]; 3],
@@ -32,51 +32,16 @@ pub(crate) struct OnDemand {
     weighted: bool,
 }
 
-/// The compact copy of the points an [`OnDemand`] is made from, taken while the points are
-/// read.
-#[derive(Debug, Default)]
-pub(crate) struct Compact {
-    values: Vec<[f64; 3]>,
-    included: Vec<u64>,
-}
-
-impl Compact {
-    /// Room for `n` points.
-    pub(crate) fn with_capacity(n: usize) -> Compact {
-        Compact {
-            values: Vec::with_capacity(n),
-            included: Vec::with_capacity(n.div_ceil(64)),
-        }
-    }
-
-    /// Appends one point.
-    #[inline]
-    pub(crate) fn push(&mut self, m: &Measurement) {
-        let i = self.values.len();
-        if i.is_multiple_of(64) {
-            self.included.push(0);
-        }
-        if m.included {
-            if let Some(w) = self.included.last_mut() {
-                *w |= 1 << (i % 64);
-            }
-        }
-        self.values
-            .push([m.t_k, m.ln_k, m.sigma_ln_k.unwrap_or(f64::NAN)]);
-    }
-}
-
 impl OnDemand {
-    /// The on-demand diagnostics of `fit`, whose points were copied into `points`.
+    /// The on-demand diagnostics of `fit`, made of `points`.
     pub(crate) fn new(
         fit: &FastFit,
-        points: Compact,
+        points: Arc<Vec<Measurement>>,
         options: &FitOptions,
         ctx: PointContext,
     ) -> OnDemand {
         OnDemand {
-            values: points.values,
-            included: points.included,
+            points,
             ctx,
             beta: fit.fitted.beta,
             r_inv: fit.fitted.r_inv,
@@ -89,19 +54,7 @@ impl OnDemand {
 
     /// Number of points (used and excluded).
     pub(crate) fn len(&self) -> usize {
-        self.values.len()
-    }
-
-    /// Point `i` as the fit was given it.
-    #[inline]
-    fn measurement(&self, i: usize) -> Measurement {
-        let [t_k, ln_k, s] = self.values[i];
-        Measurement {
-            t_k,
-            ln_k,
-            sigma_ln_k: (!s.is_nan()).then_some(s),
-            included: self.included[i / 64] >> (i % 64) & 1 == 1,
-        }
+        self.points.len()
     }
 
     /// Diagnostics of point `i`, if there is one.
@@ -141,12 +94,9 @@ impl OnDemand {
         let theta = self.theta;
         let stats_defined = ctx.dof >= 1.0 && ctx.s2 > 0.0;
         let dof_s2 = ctx.dof * ctx.s2;
-        let mut ms = [Measurement::new(0.0, 0.0); GROUP];
-        for (k, m) in ms[..len].iter_mut().enumerate() {
-            *m = self.measurement(start + k);
-        }
+        let ms = &self.points[start..start + len];
         // Per-point sums.
-        for (k, &m) in ms[..len].iter().enumerate() {
+        for (k, m) in ms.iter().enumerate() {
             if !m.included {
                 g.used[k] = false;
                 continue;
@@ -194,7 +144,7 @@ impl OnDemand {
             g.dffits[k] = t_ext * (g.h[k] / omh).sqrt();
         }
         // Records.
-        for (k, m) in ms[..len].iter().enumerate() {
+        for (k, m) in ms.iter().enumerate() {
             let i = start + k;
             let d = if g.used[k] {
                 let good = |v: f64| v.is_finite().then_some(v);
@@ -238,19 +188,18 @@ impl OnDemand {
 }
 
 impl FastFit {
-    /// The on-demand diagnostics of this fit (from the copy of the points taken while they
-    /// were read), with what the warnings need from them and the indices of the points
+    /// The on-demand diagnostics of this fit, made of `points` (those it was fitted to), with what the warnings need from them and the indices of the points
     /// carrying any flag, gathered in one pass that keeps no record. With `split`, the
     /// second half of the points is taken by a second thread (when one can be started):
     /// every point's numbers depend on that point only and the halves' summaries combine
     /// exactly ([`DiagnosticsSummary::then`]), so the results are the same.
     pub(crate) fn diagnose(
         &self,
+        points: Arc<Vec<Measurement>>,
         options: &FitOptions,
         ctx: PointContext,
         split: bool,
     ) -> (OnDemand, DiagnosticsSummary, Vec<usize>) {
-        let points = self.compact.take().unwrap_or_default();
         let od = OnDemand::new(self, points, options, ctx);
         let pass = |range: std::ops::Range<usize>| {
             let mut summary = DiagnosticsSummary::default();

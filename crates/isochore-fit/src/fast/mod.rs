@@ -326,9 +326,6 @@ impl Sub {
 pub(crate) struct FastFit {
     /// Number of used points.
     n: usize,
-    /// Every point (used and excluded) in the compact form its diagnostics are computed
-    /// from on demand; taken by [`FastFit::diagnose`].
-    compact: std::cell::Cell<Option<Compact>>,
     fitted: Sub,
     /// χ² of the fitted model.
     pub(crate) rss: f64,
@@ -381,7 +378,6 @@ impl FastFit {
         let theta = options.t_ref_k;
         // Used points (their rows are formed again by each later pass, not kept).
         let mut n = 0usize;
-        let mut compact = Compact::with_capacity(points.len());
         let mut r4 = [[0.0f64; 4]; 4];
         let mut block = [[0.0f64; BLOCK]; 4];
         let mut m = 0;
@@ -396,7 +392,6 @@ impl FastFit {
         let plausible = !options.allow_extreme_temperatures;
         let mut values_pass = true;
         for pt in points {
-            compact.push(pt);
             values_pass &= pt.is_valid() & (!plausible | is_plausible_temperature(pt.t_k));
             if !pt.included {
                 continue;
@@ -471,7 +466,6 @@ impl FastFit {
         let rss_other = tracks.next().map(|t| t.rss);
         Some(FastFit {
             n,
-            compact: std::cell::Cell::new(Some(compact)),
             fitted,
             rss,
             rss_other,
@@ -566,7 +560,6 @@ impl Track {
 mod diagnose;
 mod passes;
 
-use diagnose::Compact;
 pub(crate) use diagnose::OnDemand;
 
 use passes::{amax, residual_passes};

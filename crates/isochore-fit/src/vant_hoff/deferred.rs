@@ -11,8 +11,9 @@ use super::comparison::{chi2_on_points, ladder_comparison};
 use super::statistics::WeightSums;
 use super::{fit_threads, warnings, ModelComparison, VantHoffFit, PARALLEL_POINTS};
 use crate::error::Error;
-use crate::measurement::Measurement;
+use crate::measurement::{Given, Measurement};
 use crate::model::{FitOptions, Model};
+use std::sync::Arc;
 
 /// What the model comparison of a fit still needs: the χ² its solver gave, the sums every
 /// model's statistics share, and what the cautions need from the point diagnostics.
@@ -95,15 +96,16 @@ impl VantHoffFit {
 /// [`super::fit`] with the model comparison left for later when it needs another model
 /// solved on a large data set (at least 20 000 points): the fit (its `comparison()` then
 /// `None` and [`VantHoffFit::comparison_pending`] true) and what the comparison still needs.
-/// Smaller data sets get the complete fit and `None`.
+/// Smaller data sets get the complete fit and `None`. The points are shared as in
+/// [`super::fit_shared`].
 ///
 /// # Errors
 /// As [`super::fit`].
 pub fn fit_estimates_first(
-    points: &[Measurement],
+    points: &Arc<Vec<Measurement>>,
     options: &FitOptions,
 ) -> Result<(VantHoffFit, Option<PendingComparison>), Error> {
-    fit_threads(points, options, true, PARALLEL_POINTS, true)
+    fit_threads(Given::Shared(points), options, true, PARALLEL_POINTS, true)
 }
 
 #[cfg(test)]
@@ -123,12 +125,13 @@ mod tests {
                 ..FitOptions::default()
             };
             let whole = fit(&pts, &opts).unwrap();
-            let (mut first, pending) = fit_estimates_first(&pts, &opts).unwrap();
+            let shared = Arc::new(pts.clone());
+            let (mut first, pending) = fit_estimates_first(&shared, &opts).unwrap();
             assert!(first.comparison_pending() && first.comparison().is_none());
             assert_eq!(first.params, whole.params, "{}", model.key());
             first.prepend_warning(Warning::new(WarningKind::SettingIgnored, "caller's"));
             let mut lean = first.clone();
-            let (_, again) = fit_estimates_first(&pts, &opts).unwrap();
+            let (_, again) = fit_estimates_first(&shared, &opts).unwrap();
             lean.complete_comparison(again.expect("left for later").run_lean(&pts));
             first.complete_comparison(pending.expect("left for later").run(&pts));
             assert_eq!(lean.comparison(), whole.comparison(), "{}", model.key());
@@ -154,7 +157,8 @@ mod tests {
             }
         }
         // A small set is fitted whole.
-        let (small, none) = fit_estimates_first(&pts[..100], &FitOptions::default()).unwrap();
+        let small_set = Arc::new(pts[..100].to_vec());
+        let (small, none) = fit_estimates_first(&small_set, &FitOptions::default()).unwrap();
         assert!(none.is_none() && !small.comparison_pending() && small.comparison().is_some());
     }
 }

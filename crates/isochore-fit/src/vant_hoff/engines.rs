@@ -13,7 +13,7 @@ use crate::diagnostics::{diagnose_points, DiagnosticsSummary, PointContext, Poin
 use crate::error::Error;
 use crate::fast::FastFit;
 use crate::least_squares::{solve, LinearFit};
-use crate::measurement::Measurement;
+use crate::measurement::{Given, Measurement};
 use crate::model::{FitOptions, Model, Weighting};
 use nalgebra::DMatrix;
 use std::borrow::Cow;
@@ -35,7 +35,7 @@ pub(super) trait SolvedFit {
     #[allow(clippy::too_many_arguments)]
     fn diagnose(
         &self,
-        points: &[Measurement],
+        points: Given<'_>,
         options: &FitOptions,
         lin: &LinearFit,
         cov: &DMatrix<f64>,
@@ -144,7 +144,7 @@ impl SolvedFit for FastFit {
 
     fn diagnose(
         &self,
-        _points: &[Measurement],
+        points: Given<'_>,
         options: &FitOptions,
         lin: &LinearFit,
         cov: &DMatrix<f64>,
@@ -163,7 +163,8 @@ impl SolvedFit for FastFit {
             if weighted { sum_w / lin.n as f64 } else { 1.0 },
             options.thresholds,
         );
-        let (points, summary, flagged) = FastFit::diagnose(self, options, ctx, split);
+        let (points, summary, flagged) =
+            FastFit::diagnose(self, points.to_shared(), options, ctx, split);
         (
             PointStore::OnDemand {
                 points: Box::new(points),
@@ -223,7 +224,7 @@ impl SolvedFit for General {
 
     fn diagnose(
         &self,
-        points: &[Measurement],
+        points: Given<'_>,
         options: &FitOptions,
         _lin: &LinearFit,
         cov: &DMatrix<f64>,
@@ -233,7 +234,14 @@ impl SolvedFit for General {
         _sum_w: f64,
         _split: bool,
     ) -> (PointStore, DiagnosticsSummary) {
-        let d = diagnose_points(points, &self.solved, options, cov, variance_scale, s2);
+        let d = diagnose_points(
+            points.slice(),
+            &self.solved,
+            options,
+            cov,
+            variance_scale,
+            s2,
+        );
         let mut summary = DiagnosticsSummary::default();
         for p in &d {
             summary.note(p);

@@ -31,9 +31,10 @@ pub(crate) use engines::Solved;
 pub(crate) use inputs::design;
 
 use crate::error::Error;
-use crate::measurement::Measurement;
+use crate::measurement::{Given, Measurement};
 use crate::model::{is_plausible_temperature, FitOptions, Model};
 use comparison::{chi2_on_valid_points, ladder_comparison};
+use std::sync::Arc;
 
 /// From this many points on, the other models of the ladder are solved on a second thread.
 const PARALLEL_POINTS: usize = 20_000;
@@ -76,26 +77,47 @@ pub fn fit(points: &[Measurement], options: &FitOptions) -> Result<VantHoffFit, 
     fit_with(points, options, true)
 }
 
+/// [`fit`] of points the caller shares: the same fit, but one whose per-point diagnostics are
+/// computed on demand (a large data set of well-behaved numbers) holds another reference to
+/// `points` instead of its own copy of them, so a million points are held once.
+///
+/// # Errors
+/// As [`fit`].
+pub fn fit_shared(
+    points: &Arc<Vec<Measurement>>,
+    options: &FitOptions,
+) -> Result<VantHoffFit, Error> {
+    fit_threads(Given::Shared(points), options, true, PARALLEL_POINTS, false).map(|(f, _)| f)
+}
+
 /// [`fit`], with the streaming path allowed or not (tests compare the two).
 pub(crate) fn fit_with(
     points: &[Measurement],
     options: &FitOptions,
     allow_streaming: bool,
 ) -> Result<VantHoffFit, Error> {
-    fit_threads(points, options, allow_streaming, PARALLEL_POINTS, false).map(|(f, _)| f)
+    fit_threads(
+        Given::Borrowed(points),
+        options,
+        allow_streaming,
+        PARALLEL_POINTS,
+        false,
+    )
+    .map(|(f, _)| f)
 }
 
 /// [`fit_with`], the other ladder models solved on a second thread from `parallel_points`
 /// points on (tests compare it with one thread); with `defer`, from that size on they are
 /// not solved and the comparison is returned pending instead ([`fit_estimates_first`]).
 fn fit_threads(
-    points: &[Measurement],
+    given: Given<'_>,
     options: &FitOptions,
     allow_streaming: bool,
     parallel_points: usize,
     defer: bool,
 ) -> Result<(VantHoffFit, Option<PendingComparison>), Error> {
     let model = options.model;
+    let points = given.slice();
     // Well-behaved data take the streaming path (one QR for both models, no n×p matrix);
     // everything else, errors included, the general one. The rules of identifiability and
     // plausibility hold on both paths: the points are checked by the solver
@@ -127,7 +149,7 @@ fn fit_threads(
                 .unwrap_or_default()
         };
         assemble(
-            points,
+            given,
             options,
             allow_streaming,
             parallel_points,
@@ -141,7 +163,7 @@ fn fit_threads(
 /// comparison, with the χ² of the models solved beside it from `beside` (called once, when
 /// the comparison needs them).
 fn assemble(
-    points: &[Measurement],
+    given: Given<'_>,
     options: &FitOptions,
     allow_streaming: bool,
     parallel_points: usize,
@@ -149,6 +171,7 @@ fn assemble(
     beside: impl FnOnce() -> Vec<(Model, Result<f64, Error>)>,
 ) -> Result<(VantHoffFit, Option<PendingComparison>), Error> {
     let model = options.model;
+    let points = given.slice();
     let engine = engines::run(points, options, allow_streaming);
     let engine = engine?;
     let (lin, weighted, sums) = engine.solution(options);
@@ -185,7 +208,7 @@ fn assemble(
     let new_observation_variance = variance_scale * typical_sigma2;
 
     let (points_diag, summary) = engine.diagnose(
-        points,
+        given,
         options,
         lin,
         &cov,
@@ -341,9 +364,40 @@ mod tests {
             model,
             ..FitOptions::default()
         };
-        let serial = fit_threads(pts, &opts, true, usize::MAX, false).unwrap().0;
-        let beside = fit_threads(pts, &opts, true, 0, false).unwrap().0;
+        let serial = fit_threads(Given::Borrowed(pts), &opts, true, usize::MAX, false)
+            .unwrap()
+            .0;
+        let beside = fit_threads(Given::Borrowed(pts), &opts, true, 0, false)
+            .unwrap()
+            .0;
         (serial, beside)
+    }
+
+    #[test]
+    fn a_shared_fit_holds_the_caller_s_points_and_gives_fit_s_numbers() {
+        // A set the streaming path takes (its diagnostics computed on demand), one point
+        // left out: `fit_shared` gives `fit`'s numbers, bit for bit (Debug prints every f64
+        // exactly), and holds a second reference to the points instead of a copy, given up
+        // with the fit.
+        let mut pts = curved_points(5_000);
+        pts[11].included = false;
+        let shared = Arc::new(pts.clone());
+        for model in [Model::LINEAR, Model::CONSTANT_CP] {
+            let opts = FitOptions {
+                model,
+                ..FitOptions::default()
+            };
+            let copied = fit(&pts, &opts).unwrap();
+            let held = fit_shared(&shared, &opts).unwrap();
+            assert_eq!(Arc::strong_count(&shared), 2, "{}", model.key());
+            let all = |f: &VantHoffFit| format!("{:?}", f.points_iter().collect::<Vec<_>>());
+            assert_eq!(all(&held), all(&copied), "{}", model.key());
+            assert_eq!(format!("{:?}", held.params), format!("{:?}", copied.params));
+            assert_eq!(held.comparison(), copied.comparison(), "{}", model.key());
+            assert_eq!(held.warnings(), copied.warnings(), "{}", model.key());
+            drop(held);
+            assert_eq!(Arc::strong_count(&shared), 1, "{}", model.key());
+        }
     }
 
     #[test]
