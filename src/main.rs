@@ -23,14 +23,6 @@ mod two_point_cmd;
 use clap::Parser;
 use std::process::ExitCode;
 
-/// jemalloc, built with transparent huge pages on (`.cargo/config.toml`): a large import
-/// then touches a few hundred 2 MiB pages instead of tens of thousands of 4 KiB ones, which
-/// takes about a fifth off the time to read a million-row file (see the isochore-data
-/// README).
-#[cfg(not(target_env = "msvc"))]
-#[global_allocator]
-static ALLOCATOR: tikv_jemallocator::Jemalloc = tikv_jemallocator::Jemalloc;
-
 /// Exit code when some input could not be used.
 pub const EXIT_INPUT: u8 = 1;
 /// Exit code for bad usage.

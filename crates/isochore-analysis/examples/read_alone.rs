@@ -7,18 +7,11 @@
 //!
 //! Usage: `cargo run --release -p isochore-analysis --example read_alone -- FILE [ROUNDS]`
 //! (ROUNDS loads in one process, default 1: the time of each is printed; the peak is the
-//! process's over all of them). The allocations made can be counted by the allocator itself:
-//! `_RJEM_MALLOC_CONF=stats_print:true` prints jemalloc's totals at exit (`nmalloc`).
+//! process's over all of them). The allocations made can be counted under `heaptrack`.
 
 use isochore_analysis::Overrides;
 use std::path::Path;
 use std::time::Instant;
-
-/// The `vhfit` binary's allocator (jemalloc with transparent huge pages, see
-/// `.cargo/config.toml`), so that the figures are those of the product.
-#[cfg(not(target_env = "msvc"))]
-#[global_allocator]
-static ALLOC: tikv_jemallocator::Jemalloc = tikv_jemallocator::Jemalloc;
 
 /// The process's peak resident memory in KiB, where the system says it.
 fn peak_kib() -> Option<u64> {

@@ -7,11 +7,6 @@ use criterion::{criterion_group, criterion_main, Criterion, Throughput};
 use isochore_data::{import_path, ImportOptions};
 use std::io::Write;
 
-/// The `vhfit` binary's allocator (jemalloc with transparent huge pages, see
-/// `.cargo/config.toml`), so that the figures are those of the product.
-#[global_allocator]
-static ALLOC: tikv_jemallocator::Jemalloc = tikv_jemallocator::Jemalloc;
-
 /// Writes `n` rows like `sample_2,17.95331,41.098881,2.0549441` (about 38 bytes each).
 pub fn write_rows(path: &std::path::Path, n: usize) {
     let mut f = std::io::BufWriter::new(std::fs::File::create(path).unwrap());

@@ -11,10 +11,6 @@
 use sha2::{Digest, Sha256};
 use std::time::Instant;
 
-#[cfg(not(target_env = "msvc"))]
-#[global_allocator]
-static GLOBAL: tikv_jemallocator::Jemalloc = tikv_jemallocator::Jemalloc;
-
 fn main() {
     let mut args = std::env::args().skip(1);
     let Some(path) = args.next() else {

@@ -3,11 +3,6 @@
 use isochore_data::{import_path, ImportOptions};
 use std::time::Instant;
 
-/// The `vhfit` binary's allocator (jemalloc with transparent huge pages, see
-/// `.cargo/config.toml`), so that the figures are those of the product.
-#[global_allocator]
-static ALLOC: tikv_jemallocator::Jemalloc = tikv_jemallocator::Jemalloc;
-
 fn main() {
     let Some(path) = std::env::args().nth(1) else {
         eprintln!("usage: inspect FILE");
