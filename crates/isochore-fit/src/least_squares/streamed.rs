@@ -129,32 +129,26 @@ pub(crate) fn weighted_rss_streamed(
     let mut refl: Vec<Reflection> = Vec::with_capacity(p);
     let mut r = DMatrix::<f64>::zeros(p, p);
     let mut qtb = DVector::<f64>::zeros(p);
-    // Column k after k reflections (rows k on): formed by a pass for the first column, then
-    // each next one from it and from what the dot-product pass saw of the next column
-    // (`next`), by reflection k as `Reflection::apply` makes it, so the next column needs
-    // no pass of its own; read by the passes for its squared norm and the norm of its axis.
-    // Later the refinement's r and f (so they add nothing to the peak when the solution is
-    // refined).
-    let mut column: Vec<f64> = Vec::with_capacity(n);
-    let mut next: Vec<f64> = Vec::with_capacity(n);
-    src.rows(
-        0,
-        &refl,
-        1,
-        false,
-        |_, _, _| (),
-        |_, _, m, v| column.extend_from_slice(&v[0][..m]),
-    );
+    // Column k after k reflections (rows k on) is formed again by each pass that reads it
+    // (its squared norm, the norm of its axis), as `Reflection::apply` makes it: nothing is
+    // kept per point but ln(T/θ) and √w.
     for k in 0..p {
         let len = n - k;
         let mut sq = Lanes::new(len);
-        for (b, block) in column.chunks(LANES).enumerate() {
-            let mut t = [0.0; LANES];
-            for (t, x) in t.iter_mut().zip(block) {
-                *t = x * x;
-            }
-            sq.push_block(b * LANES, block.len(), &t);
-        }
+        src.rows(
+            k,
+            &refl,
+            k + 1,
+            false,
+            |_, _, _| (),
+            |rel, _, m, v| {
+                let mut t = [0.0; LANES];
+                for (t, x) in t.iter_mut().zip(&v[k]) {
+                    *t = x * x;
+                }
+                sq.push_block(rel, m, &t);
+            },
+        );
         let sq = sq.total();
         let norm = sq.sqrt();
         let x0 = src.row(k, &refl, k + 1, false, |_, _, _| ())[k];
@@ -166,20 +160,25 @@ pub(crate) fn weighted_rss_streamed(
         }
         let sf = factor.sqrt();
         let mut nsq = Lanes::new(len);
-        for (b, block) in column.chunks(LANES).enumerate() {
-            let (rel, m) = (b * LANES, block.len());
-            let mut x = [0.0; LANES];
-            x[..m].copy_from_slice(block);
-            if rel == 0 {
-                x[0] += signed_norm;
-            }
-            let mut t = [0.0; LANES];
-            for (t, x) in t.iter_mut().zip(&x) {
-                let u = x / sf;
-                *t = u * u;
-            }
-            nsq.push_block(rel, m, &t);
-        }
+        src.rows(
+            k,
+            &refl,
+            k + 1,
+            false,
+            |_, _, _| (),
+            |rel, _, m, v| {
+                let mut x = v[k];
+                if rel == 0 {
+                    x[0] += signed_norm;
+                }
+                let mut t = [0.0; LANES];
+                for (t, x) in t.iter_mut().zip(&x) {
+                    let u = x / sf;
+                    *t = u * u;
+                }
+                nsq.push_block(rel, m, &t);
+            },
+        );
         let nrm = nsq.total().sqrt();
         if !(nrm.is_finite() && nrm != 0.0) {
             return None;
@@ -187,7 +186,6 @@ pub(crate) fn weighted_rss_streamed(
         let reflection_norm = -signed_norm;
         let sign = reflection_norm.signum();
         let mut dots: [Lanes; SLOTS] = std::array::from_fn(|_| Lanes::new(len));
-        next.clear();
         src.rows(
             k,
             &refl,
@@ -200,9 +198,6 @@ pub(crate) fn weighted_rss_streamed(
                     finite &= v[..slots]
                         .iter()
                         .all(|x| x[..m].iter().all(|x| x.is_finite()));
-                }
-                if k + 1 < p {
-                    next.extend_from_slice(&v[k + 1][..m]);
                 }
                 let mut x = v[k];
                 if rel == 0 {
@@ -243,16 +238,6 @@ pub(crate) fn weighted_rss_streamed(
             r[(k, j)] = v[j];
         }
         qtb[k] = v[p];
-        if k + 1 < p {
-            // Column k + 1 after reflection k, rows k + 1 on (none of them the first row of
-            // reflection k's view), over column k in place.
-            let t = &refl[k];
-            for j in 0..len - 1 {
-                let axis = column[j + 1] / t.sf / t.nrm;
-                column[j] = t.factor[k + 1] * axis * 1.0 + t.sign * next[j + 1];
-            }
-            column.truncate(len - 1);
-        }
     }
     #[cfg(test)]
     LAST_QR.with(|c| *c.borrow_mut() = Some((r.clone(), qtb.clone(), scale)));
@@ -275,62 +260,61 @@ pub(crate) fn weighted_rss_streamed(
     let residual = |v: &[f64; SLOTS], neg_x: &[f64]| {
         v[p] + v[..p].iter().zip(neg_x).map(|(r, c)| r * c).sum::<f64>()
     };
+    // χ² at the solution, and g = −Aᵀr as the refinement's first step takes it (that step
+    // then needs no pass of its own).
     let mut ss = -0.0f64;
+    let mut grad = Gradient::default();
     src.original_rows(|_, m, v| {
         for i in 0..m {
-            let res = residual(&lane(v, i), &neg_x);
+            let v = lane(v, i);
+            let res = residual(&v, &neg_x);
             ss += res * res;
+            grad.add(&v, res, p);
         }
     });
     let bound = qr_error_bound(&r, x.norm(), ss.sqrt(), p);
+    #[cfg(test)]
+    LAST_STEPS.with(|c| c.set(0));
     if refinement_needed(bound) {
-        // Björck's refinement as `refined_solution` takes it, with its residuals r and f
-        // kept (two numbers per point); f goes through the reflections as one more column
-        // for Qᵀf. A step's update of r is made in the next pass that reads it.
-        let mut res = column;
-        res.clear();
-        res.resize(n, 0.0);
-        let mut f = next;
-        f.clear();
-        f.resize(n, 0.0);
-        // The last step's δx, not yet added into `res`.
-        let mut pending: Option<Vec<f64>> = None;
-        let mut first = true;
+        // Björck's refinement as `refined_solution` takes it. Its two vectors r and f are
+        // not kept: a row's r and f after the steps so far are formed again from the row,
+        // the solutions and the corrections ([`Steps::row`]), in the arithmetic the kept
+        // vectors had (the same bits); f goes through the reflections as one more column
+        // for Qᵀf. A step's correction of r is made in the next pass that reads it.
+        let mut steps = Steps {
+            p,
+            neg_x: Vec::new(),
+            dx: Vec::new(),
+        };
         let mut previous = x.amax();
+        let mut first = Some(grad);
         for _ in 0..MAX_REFINEMENT_STEPS {
-            let neg_x: Vec<f64> = x.iter().map(|v| -v).collect();
-            let mut g_hi = [0.0; MAX_STREAMED_COLUMNS];
-            let mut g_lo = [0.0; MAX_STREAMED_COLUMNS];
-            ss = -0.0;
-            src.original_rows(|row, m, v| {
-                for (i, v) in (row..row + m).zip((0..m).map(|l| lane(v, l))) {
-                    let v = &v;
-                    let ri = &mut res[i];
-                    if first {
-                        *ri = residual(v, &neg_x);
-                    } else if let Some(dx) = &pending {
-                        let adx: f64 = v[..p].iter().zip(dx).map(|(r, d)| r * d).sum();
-                        *ri += f[i] - adx;
-                    }
-                    let ri = *ri;
-                    ss += ri * ri;
-                    let (b_minus_r, e0) = two_sum(v[p], -ri);
-                    f[i] = dot2(b_minus_r, &v[..p], &neg_x) + e0;
-                    for j in 0..p {
-                        let (h, e1) = two_prod(-v[j], ri);
-                        let (q, e2) = two_sum(g_hi[j], h);
-                        g_hi[j] = q;
-                        g_lo[j] += e1 + e2;
-                    }
+            steps.neg_x.push(x.iter().map(|v| -v).collect());
+            let grad = match first.take() {
+                // The first step's r is the residual just summed, at the same x.
+                Some(grad) => grad,
+                None => {
+                    let mut grad = Gradient::default();
+                    ss = -0.0;
+                    src.original_rows(|_, m, v| {
+                        for l in 0..m {
+                            let v = lane(v, l);
+                            let (ri, _) = steps.row(&v);
+                            ss += ri * ri;
+                            grad.add(&v, ri, p);
+                        }
+                    });
+                    grad
                 }
-            });
-            first = false;
-            pending = None;
-            let g = DVector::from_iterator(p, g_hi.iter().zip(&g_lo).take(p).map(|(h, l)| h + l));
+            };
+            let g = grad.total(p);
             let d1 = r.tr_solve_upper_triangular(&g)?;
-            // Qᵀf, one reflection at a time.
-            let init = |row: usize, m: usize, v: &mut Block| {
-                v[F][..m].copy_from_slice(&f[row..row + m]);
+            // Qᵀf, one reflection at a time; each row's f formed from its original slots
+            // before the reflections reach it.
+            let init = |_: usize, m: usize, v: &mut Block| {
+                for l in 0..m {
+                    v[F][l] = steps.row(&lane(v, l)).1;
+                }
             };
             let mut qtf = DVector::<f64>::zeros(p);
             for k in 0..p {
@@ -357,20 +341,25 @@ pub(crate) fn weighted_rss_streamed(
                 break;
             }
             x += &dx;
-            pending = Some(dx.iter().copied().collect());
+            steps.dx.push(dx.iter().copied().collect());
             let rate = size / previous;
             previous = size;
             if size * rate <= f64::EPSILON * x.amax() {
                 break;
             }
         }
-        if let Some(dx) = &pending {
+        #[cfg(test)]
+        LAST_STEPS.with(|c| c.set(steps.neg_x.len()));
+        if steps.dx.len() == steps.neg_x.len() {
+            // The last correction, not yet made in r: χ² at the final solution.
+            let dx = steps.dx.pop().unwrap_or_default();
             ss = -0.0;
-            src.original_rows(|row, m, v| {
-                for (i, l) in (row..row + m).zip(0..m) {
+            src.original_rows(|_, m, v| {
+                for l in 0..m {
                     let v = lane(v, l);
-                    let adx: f64 = v[..p].iter().zip(dx).map(|(r, d)| r * d).sum();
-                    let ri = res[i] + (f[i] - adx);
+                    let (ri, fi) = steps.row(&v);
+                    let adx: f64 = v[..p].iter().zip(&dx).map(|(r, d)| r * d).sum();
+                    let ri = ri + (fi - adx);
                     ss += ri * ri;
                 }
             });
@@ -379,6 +368,65 @@ pub(crate) fn weighted_rss_streamed(
     // The checks of `factorised` on χ² and the coefficients in raw units.
     let coefficients_finite = (0..p).all(|j| (x[j] / scale[j]).is_finite());
     (ss.is_finite() && coefficients_finite).then_some(ss)
+}
+
+/// g = −Aᵀr summed as `refined_solution` sums it: each term's error-free product and sum,
+/// the errors added apart.
+#[derive(Default)]
+struct Gradient {
+    hi: [f64; MAX_STREAMED_COLUMNS],
+    lo: [f64; MAX_STREAMED_COLUMNS],
+}
+
+impl Gradient {
+    /// Adds row `v`'s terms with residual `ri`.
+    #[inline]
+    fn add(&mut self, v: &[f64; SLOTS], ri: f64, p: usize) {
+        for j in 0..p {
+            let (h, e1) = two_prod(-v[j], ri);
+            let (q, e2) = two_sum(self.hi[j], h);
+            self.hi[j] = q;
+            self.lo[j] += e1 + e2;
+        }
+    }
+
+    /// The sum.
+    fn total(&self, p: usize) -> DVector<f64> {
+        DVector::from_iterator(p, self.hi.iter().zip(&self.lo).take(p).map(|(h, l)| h + l))
+    }
+}
+
+/// The refinement so far: the solution of each step (negated) and the correction made after
+/// it, from which a row's r and f are formed again.
+struct Steps {
+    p: usize,
+    /// −x of each step, the current one last.
+    neg_x: Vec<Vec<f64>>,
+    /// The correction δx made after each step (one fewer than `neg_x` while a step runs).
+    dx: Vec<Vec<f64>>,
+}
+
+impl Steps {
+    /// A row's r and f at the current step, as the kept vectors of `refined_solution` held
+    /// them: r = b − Ax at the first step, then r ← r + (f − Aδx) after each correction; f
+    /// = (b − r) − Ax in twice the working precision.
+    #[inline]
+    fn row(&self, v: &[f64; SLOTS]) -> (f64, f64) {
+        let p = self.p;
+        let f_of = |ri: f64, neg_x: &[f64]| {
+            let (b_minus_r, e0) = two_sum(v[p], -ri);
+            dot2(b_minus_r, &v[..p], neg_x) + e0
+        };
+        let first = &self.neg_x[0];
+        let mut ri = v[p] + v[..p].iter().zip(first).map(|(r, c)| r * c).sum::<f64>();
+        let mut fi = f_of(ri, first);
+        for (neg_x, dx) in self.neg_x[1..].iter().zip(&self.dx) {
+            let adx: f64 = v[..p].iter().zip(dx).map(|(r, d)| r * d).sum();
+            ri += fi - adx;
+            fi = f_of(ri, neg_x);
+        }
+        (ri, fi)
+    }
 }
 
 /// The last factor, Qᵀb and column scale (tests only).
@@ -390,6 +438,8 @@ thread_local! {
     /// The last factor, Qᵀb and column scale (for the tests against nalgebra).
     static LAST_QR: std::cell::RefCell<Option<Factor>> =
         const { std::cell::RefCell::new(None) };
+    /// The refinement steps of the last solution that got as far (0: not refined).
+    static LAST_STEPS: std::cell::Cell<usize> = const { std::cell::Cell::new(0) };
 }
 
 #[cfg(test)]

@@ -230,6 +230,18 @@ impl Source<'_> {
         }
     }
 
+    /// The slots a pass forms: those the reflections reach (the passes of the factorisation
+    /// read no later one); every column and √w·y for the passes without reflections and for
+    /// those with f (whose `init` forms f from the row's original slots).
+    #[inline(always)]
+    fn slots_formed(p: usize, upto: usize, with_f: bool) -> usize {
+        if upto == 0 || with_f {
+            p + 1
+        } else {
+            upto
+        }
+    }
+
     /// [`Source::rows`] over every used row with no reflection applied and no f, a block at
     /// a time in order: `f(row, m, block)` for the block of `m` rows from used row `row`.
     pub(super) fn original_rows(&self, mut f: impl FnMut(usize, usize, &Block)) {
@@ -240,7 +252,8 @@ impl Source<'_> {
     /// [`LANES`] at a time (`rel` the first one's place in the view that starts at `from`,
     /// a multiple of [`LANES`]; `row` its number among the used points), with the
     /// reflections `refl` applied (rows at or after `from` are below each of them) to the
-    /// slots before `upto` and, `with_f`, to f; `init(row, m, block)` writes f first.
+    /// slots before `upto` and, `with_f`, to f; `init(row, m, block)` writes f first, from
+    /// the block's original slots (all formed then).
     #[inline(always)]
     #[allow(clippy::too_many_arguments)]
     pub(super) fn rows(
@@ -260,9 +273,7 @@ impl Source<'_> {
             .skip(from);
         let mut row = from;
         let mut v: Block = [[0.0; LANES]; SLOTS];
-        // The slots read: those the reflections reach (the passes of the factorisation
-        // read no later one), every column and √w·y for the passes without reflections.
-        let need = if upto == 0 { self.p + 1 } else { upto };
+        let need = Self::slots_formed(self.p, upto, with_f);
         loop {
             let mut inp = Inputs::default();
             let mut m = 0;
@@ -313,7 +324,7 @@ impl Source<'_> {
         inp.sw[0] = l[1];
         inp.y[0] = pt.ln_k;
         let mut v: Block = [[0.0; LANES]; SLOTS];
-        self.scaled(&inp, &mut v, if upto == 0 { self.p + 1 } else { upto });
+        self.scaled(&inp, &mut v, Self::slots_formed(self.p, upto, with_f));
         init(k, 1, &mut v);
         for (r, refl) in refl.iter().enumerate() {
             refl.apply(r, upto, with_f, &mut v, r == k);
