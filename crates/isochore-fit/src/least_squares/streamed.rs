@@ -1,6 +1,6 @@
-//! The general solver's χ² of a model on the caller's points with no n × p matrix: two
-//! numbers per point (ln(T/θ) and √w, the row's costliest entries to form), four when the
-//! solution is refined: [`weighted_rss_streamed`] gives the same bits as
+//! The general solver's χ² of a model on the caller's points with no n × p matrix: one
+//! number per point (ln(T/θ), the row's costliest entry to form):
+//! [`weighted_rss_streamed`] gives the same bits as
 //! [`super::weighted_rss_formed`] (nalgebra's Householder QR of the √w-scaled,
 //! column-equilibrated design) by doing nalgebra's arithmetic in nalgebra's order, one pass
 //! over the points per sum.
@@ -15,10 +15,13 @@
 //! products with the later columns and with √w·y (nalgebra's `q_tr_mul` applies the same
 //! reflections to it, so it is one more column); a pass forms only the slots it reads, and
 //! eight rows at a time, lane by lane ([`LANES`]), so its arithmetic vectorises. Then one
-//! pass for the residuals and χ².
-//! Refinement (most large data sets ask for it) is `refined_solution`'s, step by step, with
-//! its two vectors r and f kept: one pass for f = b − r − Ax and g = −Aᵀr, and one pass per
-//! reflection for Qᵀf, f being one more column.
+//! pass for the residuals and χ² (and the first refinement step's g = −Aᵀr). Nothing else is
+//! kept per point: a column after k reflections and √w are formed again by every pass that
+//! reads them.
+//! Refinement (most large data sets ask for it) is `refined_solution`'s, step by step: one
+//! pass for g = −Aᵀr (but the first), and one pass per reflection for Qᵀf, f being one more
+//! column; r and f are formed again for each row from the steps so far (see `Steps`) instead
+//! of being kept.
 //!
 //! Anything out of the ordinary (a zero or non-finite column, rank deficiency) returns
 //! `None`, and the caller takes the stored-matrix path, which reports the error.
@@ -49,8 +52,8 @@ const F: usize = SLOTS - 1;
 
 /// χ² of `model`'s weighted least-squares fit to the included `points` (weights 1/σ² when
 /// `weighted`, else 1), θ = `theta`: the same bits as [`super::weighted_rss_formed`] on the
-/// same points, with memory for two numbers per point (ln(T/θ) and √w; four when refined) instead
-/// of the design, its factorised copy and six vectors. `None` when the stored-matrix path is needed: more than
+/// same points, with memory for one number per point (ln(T/θ)) instead of the design, its
+/// factorised copy and six vectors. `None` when the stored-matrix path is needed: more than
 /// [`MAX_STREAMED_COLUMNS`] columns, anything not finite, a zero column or rank deficiency.
 pub(crate) fn weighted_rss_streamed(
     model: Model,
@@ -81,15 +84,15 @@ pub(crate) fn weighted_rss_streamed(
         inv_scale: [1.0; MAX_STREAMED_COLUMNS],
     };
     let mut scale = [1.0; MAX_STREAMED_COLUMNS];
-    // ln(T/θ) and √w of each used point (the one logarithm, division and root of its row
-    // that every pass would repeat), with the checks on σ and ln K of `solve_impl`.
+    // ln(T/θ) of each used point (the logarithm of its row, which every pass would repeat),
+    // with the checks on σ and ln K of `solve_impl` (√w is formed again by every pass).
     for pt in points.iter().filter(|pt| pt.included) {
         let sw = if weighted {
             sqrt_weight(pt.sigma_ln_k.unwrap_or(f64::NAN))
         } else {
             1.0
         };
-        src.logs.push([(pt.t_k / theta).ln(), sw]);
+        src.logs.push((pt.t_k / theta).ln());
         if !(sw.is_finite() && sw > 0.0 && pt.ln_k.is_finite()) {
             return None;
         }

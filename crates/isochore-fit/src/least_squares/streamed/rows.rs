@@ -1,5 +1,5 @@
 //! The rows of a streamed χ²: where they come from ([`Source`]: the used points with their
-//! ln(T/θ) and √w, formed and reflected a block of [`LANES`] at a time), the reflections
+//! ln(T/θ), formed and reflected a block of [`LANES`] at a time), the reflections
 //! as nalgebra makes them ([`Reflection`]) and its dot products' order of summation
 //! ([`Lanes`]).
 
@@ -143,8 +143,8 @@ pub(super) enum Formula {
 /// column scale.
 pub(super) struct Source<'a> {
     pub(super) points: &'a [Measurement],
-    /// ln(T/θ) and √w of each used point.
-    pub(super) logs: Vec<[f64; 2]>,
+    /// ln(T/θ) of each used point.
+    pub(super) logs: Vec<f64>,
     pub(super) model: Model,
     pub(super) formula: Formula,
     pub(super) theta: f64,
@@ -153,13 +153,24 @@ pub(super) struct Source<'a> {
     pub(super) inv_scale: [f64; MAX_STREAMED_COLUMNS],
 }
 
-/// The used points' T, ln(T/θ), √w and ln K of one block; unused lanes hold
-/// harmless numbers.
+/// The used points' T, ln(T/θ), σ(ln K) (NaN for none) and ln K of one block; unused
+/// lanes hold harmless numbers.
 pub(super) struct Inputs {
     pub(super) t: [f64; LANES],
     pub(super) l: [f64; LANES],
-    pub(super) sw: [f64; LANES],
+    pub(super) s: [f64; LANES],
     pub(super) y: [f64; LANES],
+}
+
+impl Inputs {
+    /// Sets lane `i` from a used point and its ln(T/θ).
+    #[inline(always)]
+    fn set(&mut self, i: usize, pt: &Measurement, l: f64) {
+        self.t[i] = pt.t_k;
+        self.l[i] = l;
+        self.s[i] = pt.sigma_ln_k.unwrap_or(f64::NAN);
+        self.y[i] = pt.ln_k;
+    }
 }
 
 impl Default for Inputs {
@@ -167,7 +178,7 @@ impl Default for Inputs {
         Inputs {
             t: [1.0; LANES],
             l: [0.0; LANES],
-            sw: [1.0; LANES],
+            s: [1.0; LANES],
             y: [0.0; LANES],
         }
     }
@@ -213,9 +224,13 @@ impl Source<'_> {
                 }
             }
         }
+        // √w from σ again in every pass (a division and a root a lane, in a loop that
+        // vectorises): cheaper than reading it from memory beside the points.
         let mut sw = [1.0; LANES];
         if self.weighted {
-            sw = inp.sw;
+            for (w, &s) in sw.iter_mut().zip(&inp.s) {
+                *w = sqrt_weight(s);
+            }
         }
         for j in 0..self.p.min(N) {
             let inv = self.inv_scale[j];
@@ -278,10 +293,7 @@ impl Source<'_> {
             let mut inp = Inputs::default();
             let mut m = 0;
             for (pt, &l) in used.by_ref().take(LANES) {
-                inp.t[m] = pt.t_k;
-                inp.l[m] = l[0];
-                inp.sw[m] = l[1];
-                inp.y[m] = pt.ln_k;
+                inp.set(m, pt, l);
                 m += 1;
             }
             if m == 0 {
@@ -317,12 +329,9 @@ impl Source<'_> {
             .zip(&self.logs)
             .nth(k)
             .map(|(p, l)| (*p, *l))
-            .unwrap_or((Measurement::new(f64::NAN, f64::NAN), [f64::NAN; 2]));
+            .unwrap_or((Measurement::new(f64::NAN, f64::NAN), f64::NAN));
         let mut inp = Inputs::default();
-        inp.t[0] = pt.t_k;
-        inp.l[0] = l[0];
-        inp.sw[0] = l[1];
-        inp.y[0] = pt.ln_k;
+        inp.set(0, &pt, l);
         let mut v: Block = [[0.0; LANES]; SLOTS];
         self.scaled(&inp, &mut v, Self::slots_formed(self.p, upto, with_f));
         init(k, 1, &mut v);
