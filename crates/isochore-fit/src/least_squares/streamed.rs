@@ -14,7 +14,10 @@
 //! one pass for its squared norm, one for the norm of the unscaled axis, one for the dot
 //! products with the later columns and with √w·y (nalgebra's `q_tr_mul` applies the same
 //! reflections to it, so it is one more column); a pass forms only the slots it reads, and
-//! eight rows at a time, lane by lane ([`LANES`]), so its arithmetic vectorises. Then one
+//! four rows at a time, lane by lane ([`LANES`]), so its arithmetic vectorises; when every
+//! point is used and there are many, the passes of these sums are shared with a second
+//! thread, each taking one half of every group of eight rows (`Source::lane_sums`: each of
+//! the eight partial sums gets the same terms in the same order). Then one
 //! pass for the residuals and χ² (and the first refinement step's g = −Aᵀr). Nothing else is
 //! kept per point: a column after k reflections and √w are formed again by every pass that
 //! reads them.
@@ -37,6 +40,7 @@ use crate::measurement::Measurement;
 use crate::model::Model;
 use nalgebra::{DMatrix, DVector};
 use rows::{lane, sqrt_weight, Block, Formula, Lanes, Reflection, Source, LANES};
+use std::ops::Range;
 
 mod rows;
 
@@ -135,23 +139,14 @@ pub(crate) fn weighted_rss_streamed(
     // Column k after k reflections (rows k on) is formed again by each pass that reads it
     // (its squared norm, the norm of its axis), as `Reflection::apply` makes it: nothing is
     // kept per point but ln(T/θ) and √w.
+    let no_f = |_: usize, _: Range<usize>, _: &mut Block| ();
     for k in 0..p {
-        let len = n - k;
-        let mut sq = Lanes::new(len);
-        src.rows(
-            k,
-            &refl,
-            k + 1,
-            false,
-            |_, _, _| (),
-            |rel, _, m, v| {
-                let mut t = [0.0; LANES];
-                for (t, x) in t.iter_mut().zip(&v[k]) {
-                    *t = x * x;
-                }
-                sq.push_block(rel, m, &t);
-            },
-        );
+        let [sq] = src.lane_sums(k, &refl, k + 1, false, no_f, |_, lanes, v, [t]| {
+            for i in lanes {
+                t[i] = v[k][i] * v[k][i];
+            }
+            true
+        })?;
         let sq = sq.total();
         let norm = sq.sqrt();
         let x0 = src.row(k, &refl, k + 1, false, |_, _, _| ())[k];
@@ -162,46 +157,31 @@ pub(crate) fn weighted_rss_streamed(
             return None;
         }
         let sf = factor.sqrt();
-        let mut nsq = Lanes::new(len);
-        src.rows(
-            k,
-            &refl,
-            k + 1,
-            false,
-            |_, _, _| (),
-            |rel, _, m, v| {
-                let mut x = v[k];
-                if rel == 0 {
-                    x[0] += signed_norm;
-                }
-                let mut t = [0.0; LANES];
-                for (t, x) in t.iter_mut().zip(&x) {
-                    let u = x / sf;
-                    *t = u * u;
-                }
-                nsq.push_block(rel, m, &t);
-            },
-        );
+        let [nsq] = src.lane_sums(k, &refl, k + 1, false, no_f, |rel, lanes, v, [t]| {
+            let mut x = v[k];
+            if rel == 0 {
+                x[0] += signed_norm;
+            }
+            for i in lanes {
+                let u = x[i] / sf;
+                t[i] = u * u;
+            }
+            true
+        })?;
         let nrm = nsq.total().sqrt();
         if !(nrm.is_finite() && nrm != 0.0) {
             return None;
         }
         let reflection_norm = -signed_norm;
         let sign = reflection_norm.signum();
-        let mut dots: [Lanes; SLOTS] = std::array::from_fn(|_| Lanes::new(len));
-        src.rows(
-            k,
-            &refl,
-            slots,
-            false,
-            |_, _, _| (),
-            |rel, _, m, v| {
-                if k == 0 {
-                    // Every entry and √w·y finite (the first pass that forms them all).
-                    finite &= v[..slots]
+        // With the first column, every entry and √w·y checked finite (the first pass that
+        // forms them all).
+        let dots: [Lanes; SLOTS] =
+            src.lane_sums(k, &refl, slots, false, no_f, |rel, lanes, v, t| {
+                let good = k > 0
+                    || v[..slots]
                         .iter()
-                        .all(|x| x[..m].iter().all(|x| x.is_finite()));
-                }
+                        .all(|x| x[lanes.clone()].iter().all(|x| x.is_finite()));
                 let mut x = v[k];
                 if rel == 0 {
                     x[0] += signed_norm;
@@ -211,17 +191,12 @@ pub(crate) fn weighted_rss_streamed(
                     *a = x / sf / nrm;
                 }
                 for j in k + 1..slots {
-                    let mut t = [0.0; LANES];
-                    for ((t, a), e) in t.iter_mut().zip(&axis).zip(&v[j]) {
-                        *t = a * e;
+                    for i in lanes.clone() {
+                        t[j][i] = axis[i] * v[j][i];
                     }
-                    dots[j].push_block(rel, m, &t);
                 }
-            },
-        );
-        if !finite {
-            return None;
-        }
+                good
+            })?;
         let mut this = Reflection {
             signed_norm,
             sf,
@@ -314,26 +289,25 @@ pub(crate) fn weighted_rss_streamed(
             let d1 = r.tr_solve_upper_triangular(&g)?;
             // Qᵀf, one reflection at a time; each row's f formed from its original slots
             // before the reflections reach it.
-            let init = |_: usize, m: usize, v: &mut Block| {
-                for l in 0..m {
+            let init = |_: usize, lanes: Range<usize>, v: &mut Block| {
+                for l in lanes {
                     v[F][l] = steps.row(&lane(v, l)).1;
                 }
             };
             let mut qtf = DVector::<f64>::zeros(p);
             for k in 0..p {
-                let mut dot = Lanes::new(n - k);
                 let (signed_norm, sf, nrm) = (refl[k].signed_norm, refl[k].sf, refl[k].nrm);
-                src.rows(k, &refl[..k], k + 1, true, init, |rel, _, m, v| {
-                    let mut x = v[k];
-                    if rel == 0 {
-                        x[0] += signed_norm;
-                    }
-                    let mut t = [0.0; LANES];
-                    for ((t, x), e) in t.iter_mut().zip(&x).zip(&v[F]) {
-                        *t = x / sf / nrm * e;
-                    }
-                    dot.push_block(rel, m, &t);
-                });
+                let [dot] =
+                    src.lane_sums(k, &refl[..k], k + 1, true, init, |rel, lanes, v, [t]| {
+                        let mut x = v[k];
+                        if rel == 0 {
+                            x[0] += signed_norm;
+                        }
+                        for i in lanes {
+                            t[i] = x[i] / sf / nrm * v[F][i];
+                        }
+                        true
+                    })?;
                 let m_two = refl[k].sign * -2.0;
                 refl[k].factor[F] = (dot.total() - 0.0) * m_two;
                 qtf[k] = src.row(k, &refl[..=k], k + 1, true, init)[F];

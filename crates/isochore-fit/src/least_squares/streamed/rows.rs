@@ -9,12 +9,13 @@
 use super::{F, MAX_STREAMED_COLUMNS, SLOTS};
 use crate::measurement::Measurement;
 use crate::model::Model;
+use std::ops::Range;
 
 /// One of nalgebra's dot products (`Matrix::dotx` on a dynamic column), fed a term at a
 /// time in row order: eight partial sums over the leading multiple of eight rows, combined
 /// as (0 + 4), (1 + 5), (2 + 6), (3 + 7) into a sum from zero, then the rest added in order.
 pub(super) struct Lanes {
-    acc: [f64; 8],
+    acc: [f64; SUMS],
     full: usize,
     res: f64,
     combined: bool,
@@ -24,8 +25,8 @@ impl Lanes {
     /// A sum over a view of `len` rows.
     pub(super) fn new(len: usize) -> Lanes {
         Lanes {
-            acc: [0.0; 8],
-            full: len / 8 * 8,
+            acc: [0.0; SUMS],
+            full: len / SUMS * SUMS,
             res: 0.0,
             combined: false,
         }
@@ -35,7 +36,7 @@ impl Lanes {
     #[inline(always)]
     pub(super) fn push(&mut self, rel: usize, v: f64) {
         if rel < self.full {
-            self.acc[rel % 8] += v;
+            self.acc[rel % SUMS] += v;
         } else {
             if !self.combined {
                 self.combine();
@@ -45,12 +46,13 @@ impl Lanes {
     }
 
     /// Adds the terms of a block of `m` rows from the view's row `rel` (a multiple of
-    /// [`LANES`]): a whole block inside the leading multiple of eight adds lane by lane,
-    /// which is the same as adding its rows in turn.
+    /// [`LANES`]): a whole block inside the leading multiple of eight adds lane by lane to
+    /// its partial sums, which is the same as adding its rows in turn.
     #[inline(always)]
     pub(super) fn push_block(&mut self, rel: usize, m: usize, v: &[f64; LANES]) {
         if m == LANES && rel + LANES <= self.full {
-            for (a, x) in self.acc.iter_mut().zip(v) {
+            let first = rel % SUMS;
+            for (a, x) in self.acc[first..first + LANES].iter_mut().zip(v) {
                 *a += x;
             }
         } else {
@@ -58,6 +60,11 @@ impl Lanes {
                 self.push(rel + d, x);
             }
         }
+    }
+
+    /// The eight partial sums of the whole blocks, taken elsewhere in the same order.
+    pub(super) fn set_lanes(&mut self, acc: [f64; SUMS]) {
+        self.acc = acc;
     }
 
     pub(super) fn combine(&mut self) {
@@ -79,11 +86,20 @@ impl Lanes {
     }
 }
 
-/// Rows formed and reflected together: a block of eight rows of a view (starting at a
-/// multiple of eight from the view's first row) adds one term to each of `Lanes`' partial
-/// sums, so a block is reduced lane by lane and the loops over it vectorise. Each lane's
-/// arithmetic is the row's own, so a row's numbers do not depend on its block.
-pub(super) const LANES: usize = 8;
+/// The partial sums of nalgebra's dot products ([`Lanes`]).
+const SUMS: usize = 8;
+
+/// Rows formed and reflected together: a block of four rows of a view (starting at a
+/// multiple of four from the view's first row) adds one term to each of four of `Lanes`'
+/// eight partial sums, so a block is reduced lane by lane and the loops over it vectorise;
+/// two blocks make one group of eight, whose halves two threads can take
+/// ([`Source::lane_sums`]). Each lane's arithmetic is the row's own, so a row's numbers do
+/// not depend on its block.
+pub(super) const LANES: usize = 4;
+
+/// Whole groups of eight rows from which [`Source::lane_sums`] shares a pass with a second
+/// thread (about 0.3 ms of work a thread; the thread costs some tens of microseconds).
+const SPLIT_GROUPS: usize = 4096;
 
 /// A block of rows, slot by slot: `b[j][lane]`.
 pub(super) type Block = [[f64; LANES]; SLOTS];
@@ -263,12 +279,105 @@ impl Source<'_> {
         self.rows(0, &[], 0, false, |_, _, _| (), |_, row, m, v| f(row, m, v));
     }
 
+    /// `S` sums over the rows from `from` on, taken as [`Lanes`] takes them: for each block
+    /// of rows (as [`Source::rows`] forms and reflects them), `terms(rel, lanes, block, t)`
+    /// writes each sum's term of every row in `lanes` (the block's rows) into `t` and says
+    /// whether they are good (finite, say). When every point is used and the view is large,
+    /// each group of eight rows is shared between this thread and a second one (this one
+    /// forms the first block of four, the other the second): each of the eight partial sums
+    /// gets the same terms in the same order, so the sums are the same bits; the rows after
+    /// the last whole group are added in order afterwards.
+    #[allow(clippy::too_many_arguments)]
+    pub(super) fn lane_sums<const S: usize>(
+        &self,
+        from: usize,
+        refl: &[Reflection],
+        upto: usize,
+        with_f: bool,
+        init: impl Fn(usize, Range<usize>, &mut Block) + Sync,
+        terms: impl Fn(usize, Range<usize>, &Block, &mut [[f64; LANES]; S]) -> bool + Sync,
+    ) -> Option<[Lanes; S]> {
+        let n = self.logs.len();
+        let len = n.saturating_sub(from);
+        let mut out: [Lanes; S] = std::array::from_fn(|_| Lanes::new(len));
+        let whole = len / SUMS;
+        let mut good = true;
+        let mut tail_from = from;
+        if n == self.points.len() && whole >= SPLIT_GROUPS {
+            let need = Self::slots_formed(self.p, upto, with_f);
+            // The partial sums of one half of every whole group (`first`: 0 or 4).
+            let half = |first: usize| {
+                let mut acc = [[0.0f64; LANES]; S];
+                let mut ok = true;
+                let mut v: Block = [[0.0; LANES]; SLOTS];
+                let mut t = [[0.0f64; LANES]; S];
+                for g in 0..whole {
+                    let rel = g * SUMS + first;
+                    let row = from + rel;
+                    let mut inp = Inputs::default();
+                    for (i, (pt, &l)) in self.points[row..row + LANES]
+                        .iter()
+                        .zip(&self.logs[row..row + LANES])
+                        .enumerate()
+                    {
+                        inp.set(i, pt, l);
+                    }
+                    self.scaled(&inp, &mut v, need);
+                    init(row, 0..LANES, &mut v);
+                    for (k, r) in refl.iter().enumerate() {
+                        r.apply(k, upto, with_f, &mut v, false);
+                    }
+                    ok &= terms(rel, 0..LANES, &v, &mut t);
+                    for (a, t) in acc.iter_mut().zip(&t) {
+                        for (a, t) in a.iter_mut().zip(t) {
+                            *a += t;
+                        }
+                    }
+                }
+                (acc, ok)
+            };
+            let ((low, ok_low), (high, ok_high)) = std::thread::scope(|scope| {
+                let other = std::thread::Builder::new()
+                    .name("isochore-lanes".into())
+                    .spawn_scoped(scope, || half(LANES));
+                let low = half(0);
+                let high = match other {
+                    Ok(h) => h.join().unwrap_or_else(|e| std::panic::resume_unwind(e)),
+                    Err(_) => half(LANES),
+                };
+                (low, high)
+            });
+            good = ok_low && ok_high;
+            for (o, (l, h)) in out.iter_mut().zip(low.iter().zip(&high)) {
+                let mut acc = [0.0; SUMS];
+                acc[..LANES].copy_from_slice(l);
+                acc[LANES..].copy_from_slice(h);
+                o.set_lanes(acc);
+            }
+            tail_from = from + whole * SUMS;
+            if tail_from == n {
+                return good.then_some(out);
+            }
+        }
+        let skip = tail_from - from;
+        let mut t = [[0.0f64; LANES]; S];
+        self.rows(tail_from, refl, upto, with_f, init, |rel, _, m, v| {
+            let rel = rel + skip;
+            good &= terms(rel, 0..m, v, &mut t);
+            for (o, t) in out.iter_mut().zip(&t) {
+                o.push_block(rel, m, t);
+            }
+        });
+        good.then_some(out)
+    }
+
     /// Calls `f(rel, row, m, block)` for the rows from `from` on, a block of `m` ≤
     /// [`LANES`] at a time (`rel` the first one's place in the view that starts at `from`,
     /// a multiple of [`LANES`]; `row` its number among the used points), with the
     /// reflections `refl` applied (rows at or after `from` are below each of them) to the
-    /// slots before `upto` and, `with_f`, to f; `init(row, m, block)` writes f first, from
-    /// the block's original slots (all formed then).
+    /// slots before `upto` and, `with_f`, to f; `init(row, lanes, block)` writes f first
+    /// (in the lanes of the block's rows, `0..m`), from the block's original slots (all
+    /// formed then).
     #[inline(always)]
     #[allow(clippy::too_many_arguments)]
     pub(super) fn rows(
@@ -277,7 +386,7 @@ impl Source<'_> {
         refl: &[Reflection],
         upto: usize,
         with_f: bool,
-        init: impl Fn(usize, usize, &mut Block),
+        init: impl Fn(usize, Range<usize>, &mut Block),
         mut f: impl FnMut(usize, usize, usize, &Block),
     ) {
         let mut used = self
@@ -300,7 +409,7 @@ impl Source<'_> {
                 break;
             }
             self.scaled(&inp, &mut v, need);
-            init(row, m, &mut v);
+            init(row, 0..m, &mut v);
             for (k, r) in refl.iter().enumerate() {
                 r.apply(k, upto, with_f, &mut v, false);
             }
@@ -320,7 +429,7 @@ impl Source<'_> {
         refl: &[Reflection],
         upto: usize,
         with_f: bool,
-        init: impl Fn(usize, usize, &mut Block),
+        init: impl Fn(usize, Range<usize>, &mut Block),
     ) -> [f64; SLOTS] {
         let (pt, l) = self
             .points
@@ -334,7 +443,7 @@ impl Source<'_> {
         inp.set(0, &pt, l);
         let mut v: Block = [[0.0; LANES]; SLOTS];
         self.scaled(&inp, &mut v, Self::slots_formed(self.p, upto, with_f));
-        init(k, 1, &mut v);
+        init(k, 0..1, &mut v);
         for (r, refl) in refl.iter().enumerate() {
             refl.apply(r, upto, with_f, &mut v, r == k);
         }

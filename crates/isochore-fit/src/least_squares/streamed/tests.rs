@@ -116,6 +116,18 @@ fn a_large_set_and_the_fallbacks() {
     for model in [Model::LINEAR, Model::CONSTANT_CP, Model::CLARKE_GLEW] {
         assert!(same_bits(model, 298.15, &pts, true), "{}", model.key());
     }
+    // 40 003 points, every one used: the passes are shared with a second thread by lanes
+    // (from 4 096 whole blocks of eight), and three rows follow the last whole block.
+    let all = points(40_003, 278.15, 55.0, 0.05, 0, 12);
+    for model in [Model::LINEAR, Model::CONSTANT_CP, Model::CLARKE_GLEW] {
+        for weighted in [true, false] {
+            assert!(
+                same_bits(model, 298.15, &all, weighted),
+                "{} weighted {weighted}",
+                model.key()
+            );
+        }
+    }
     // One temperature: rank deficient, left to the stored solver (which names the error).
     let one: Vec<Measurement> = (0..10)
         .map(|i| Measurement::new(300.0, i as f64).with_sigma(0.1))
@@ -207,6 +219,12 @@ fn streamed_factor_is_nalgebra_s() {
                 }
             }
         }
+    }
+    // Every point used and over 4 096 whole blocks: the passes shared by lanes with a
+    // second thread (a tail of five rows).
+    let all = points(40_005, 278.15, 55.0, 0.05, 0, 21);
+    for model in [Model::LINEAR, Model::CLARKE_GLEW] {
+        same_factor(model, 310.0, &all, true);
     }
 }
 
