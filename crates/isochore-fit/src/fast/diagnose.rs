@@ -103,7 +103,7 @@ impl OnDemand {
             }
             g.used[k] = true;
             // The design row and √w as every pass of the fit forms them.
-            let Some((row, _)) = Row::of(&m, theta, self.weighted) else {
+            let Some((row, _)) = Row::of(m, theta, self.weighted) else {
                 g.used[k] = false;
                 continue;
             };
