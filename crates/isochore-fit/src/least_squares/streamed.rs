@@ -235,9 +235,6 @@ pub(crate) fn weighted_rss_streamed(
     }
     let mut x = x;
     let neg_x: Vec<f64> = x.iter().map(|v| -v).collect();
-    let residual = |v: &[f64; SLOTS], neg_x: &[f64]| {
-        v[p] + v[..p].iter().zip(neg_x).map(|(r, c)| r * c).sum::<f64>()
-    };
     // χ² at the solution, and g = −Aᵀr as the refinement's first step takes it (that step
     // then needs no pass of its own).
     let mut ss = -0.0f64;
@@ -245,7 +242,7 @@ pub(crate) fn weighted_rss_streamed(
     src.original_rows(|_, m, v| {
         for i in 0..m {
             let v = lane(v, i);
-            let res = residual(&v, &neg_x);
+            let res = v[p] + row_dot(&v, &neg_x);
             ss += res * res;
             grad.add(&v, res, p);
         }
@@ -335,7 +332,7 @@ pub(crate) fn weighted_rss_streamed(
                 for l in 0..m {
                     let v = lane(v, l);
                     let (ri, fi) = steps.row(&v);
-                    let adx: f64 = v[..p].iter().zip(&dx).map(|(r, d)| r * d).sum();
+                    let adx = row_dot(&v, &dx);
                     let ri = ri + (fi - adx);
                     ss += ri * ri;
                 }
@@ -345,6 +342,13 @@ pub(crate) fn weighted_rss_streamed(
     // The checks of `factorised` on χ² and the coefficients in raw units.
     let coefficients_finite = (0..p).all(|j| (x[j] / scale[j]).is_finite());
     (ss.is_finite() && coefficients_finite).then_some(ss)
+}
+
+/// Σⱼ vⱼ cⱼ over a row's first `c.len()` slots (its columns), summed in order: Ax of a
+/// row, or Aδx.
+#[inline]
+fn row_dot(v: &[f64; SLOTS], c: &[f64]) -> f64 {
+    v.iter().zip(c).map(|(r, c)| r * c).sum()
 }
 
 /// g = −Aᵀr summed as `refined_solution` sums it: each term's error-free product and sum,
@@ -395,10 +399,10 @@ impl Steps {
             dot2(b_minus_r, &v[..p], neg_x) + e0
         };
         let first = &self.neg_x[0];
-        let mut ri = v[p] + v[..p].iter().zip(first).map(|(r, c)| r * c).sum::<f64>();
+        let mut ri = v[p] + row_dot(v, first);
         let mut fi = f_of(ri, first);
         for (neg_x, dx) in self.neg_x[1..].iter().zip(&self.dx) {
-            let adx: f64 = v[..p].iter().zip(dx).map(|(r, d)| r * d).sum();
+            let adx = row_dot(v, dx);
             ri += fi - adx;
             fi = f_of(ri, neg_x);
         }

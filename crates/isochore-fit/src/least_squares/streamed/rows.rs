@@ -261,6 +261,30 @@ impl Source<'_> {
         }
     }
 
+    /// A block of rows below every reflection in `refl` (none of them its first row), as a
+    /// pass sees it: the slots before `need` formed, f written by `init` in `lanes`, the
+    /// reflections applied to the slots before `upto` (and f, `with_f`).
+    #[inline(always)]
+    #[allow(clippy::too_many_arguments)]
+    fn reflected(
+        &self,
+        inp: &Inputs,
+        need: usize,
+        row: usize,
+        lanes: Range<usize>,
+        refl: &[Reflection],
+        upto: usize,
+        with_f: bool,
+        init: &impl Fn(usize, Range<usize>, &mut Block),
+        v: &mut Block,
+    ) {
+        self.scaled(inp, v, need);
+        init(row, lanes, v);
+        for (k, r) in refl.iter().enumerate() {
+            r.apply(k, upto, with_f, v, false);
+        }
+    }
+
     /// The slots a pass forms: those the reflections reach (the passes of the factorisation
     /// read no later one); every column and √w·y for the passes without reflections and for
     /// those with f (whose `init` forms f from the row's original slots).
@@ -322,11 +346,7 @@ impl Source<'_> {
                     {
                         inp.set(i, pt, l);
                     }
-                    self.scaled(&inp, &mut v, need);
-                    init(row, 0..LANES, &mut v);
-                    for (k, r) in refl.iter().enumerate() {
-                        r.apply(k, upto, with_f, &mut v, false);
-                    }
+                    self.reflected(&inp, need, row, 0..LANES, refl, upto, with_f, &init, &mut v);
                     ok &= terms(rel, 0..LANES, &v, &mut t);
                     for (a, t) in acc.iter_mut().zip(&t) {
                         for (a, t) in a.iter_mut().zip(t) {
@@ -408,11 +428,7 @@ impl Source<'_> {
             if m == 0 {
                 break;
             }
-            self.scaled(&inp, &mut v, need);
-            init(row, 0..m, &mut v);
-            for (k, r) in refl.iter().enumerate() {
-                r.apply(k, upto, with_f, &mut v, false);
-            }
+            self.reflected(&inp, need, row, 0..m, refl, upto, with_f, &init, &mut v);
             f(row - from, row, m, &v);
             row += m;
             if m < LANES {
