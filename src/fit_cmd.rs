@@ -18,6 +18,14 @@ pub fn fit_job(job: &Job) -> Result<VantHoffFit, String> {
     job.fit().map_err(|e| format!("{e}{}", hint(e.remedy())))
 }
 
+/// [`fit_job`] for a line of the summary table, which shows the cautions but none of the
+/// model comparison's numbers: the comparison is made only as far as its verdict
+/// ([`Job::fit_for_summary`]).
+fn fit_job_for_summary(job: &Job) -> Result<VantHoffFit, String> {
+    job.fit_for_summary()
+        .map_err(|e| format!("{e}{}", hint(e.remedy())))
+}
+
 /// The report input for a fitted data set: isochore-analysis' with this command line
 /// recorded among the settings.
 pub fn report_input(job: &Job, fit: VantHoffFit) -> ReportInput {
@@ -171,7 +179,10 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
             })
         }
     };
-    // Read and fit everything first.
+    // Read and fit everything first. When every fit will be a line of the summary table
+    // (no JSON, no report, the table asked for or several files), the model comparison is
+    // made only as far as its verdict, which is all the table shows of it (its cautions).
+    let table_only = !a.json && plan.is_none() && (a.summary || a.files.len() > 1);
     let loaded: Vec<(String, Loaded)> = a
         .files
         .iter()
@@ -180,7 +191,11 @@ pub fn run(a: &FitArgs) -> Result<(), Failure> {
             let jobs = load(path, &a.fit, plan.is_some()).map(|jobs| {
                 jobs.into_iter()
                     .map(|job| {
-                        let fit = fit_job(&job);
+                        let fit = if table_only {
+                            fit_job_for_summary(&job)
+                        } else {
+                            fit_job(&job)
+                        };
                         (job, fit)
                     })
                     .collect()

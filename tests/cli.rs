@@ -863,3 +863,72 @@ fn analyst_and_note_are_recorded_in_the_report() {
     ]);
     assert_eq!(out.status.code(), Some(2), "{out:?}");
 }
+
+/// A summary line of a large data set (whose model comparison is made only as far as its
+/// verdict) counts the cautions and flagged points that the JSON of the same fit lists:
+/// straight data (the comparison stops at its first step) and doubly curved data (every
+/// step is supported), fitted with each model. Invented data.
+#[test]
+fn a_large_summary_line_counts_the_json_s_cautions() {
+    let dir = tempfile::tempdir().unwrap();
+    let n = 21_000;
+    let write = |name: &str, coefficients: [f64; 4], noise: f64| {
+        let mut text = String::from("T (K),ln K,sigma ln K\n");
+        for i in 0..n {
+            let t = 275.0 + 50.0 * i as f64 / n as f64;
+            let x = isochore_fit::Model::CLARKE_GLEW.row(t, 298.15);
+            let truth: f64 = x.iter().zip(&coefficients).map(|(x, c)| x * c).sum();
+            let wobble = ((i * 7919) % 101) as f64 / 50.0 - 1.0;
+            text.push_str(&format!("{t},{},{noise}\n", truth + noise * wobble));
+        }
+        let p = dir.path().join(name);
+        std::fs::write(&p, text).unwrap();
+        p.to_string_lossy().into_owned()
+    };
+    let straight = write("straight.csv", [-40e3, -30.0, 0.0, 0.0], 0.02);
+    let curved = write("curved.csv", [-40e3, -30.0, -800.0, 60.0], 0.0005);
+    let models = [
+        ("linear", isochore_fit::Model::LINEAR),
+        ("cp", isochore_fit::Model::CONSTANT_CP),
+        ("clarke-glew", isochore_fit::Model::CLARKE_GLEW),
+    ];
+    let mut curvature_cautions = 0;
+    for (name, model) in models {
+        let out = run(&["fit", &straight, &curved, "--model", name, "--summary"]);
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        let table = String::from_utf8(out.stdout).unwrap();
+        for (i, path) in [&straight, &curved].into_iter().enumerate() {
+            let j = json_of(&run(&["fit", path, "--model", name, "--json", "--summary"]));
+            let whole = library_fit(
+                path,
+                &[],
+                FitOptions {
+                    model,
+                    ..FitOptions::default()
+                },
+            );
+            let line = table.lines().nth(i + 1).expect("a line per file");
+            let cells: Vec<&str> = line.split_whitespace().collect();
+            let warnings = j["warnings"].as_array().unwrap().len();
+            assert_eq!(warnings, whole.warnings().len());
+            assert_eq!(
+                cells[cells.len() - 1],
+                warnings.to_string(),
+                "{name}: {line}"
+            );
+            let flagged = whole.flagged_points().len().to_string();
+            assert_eq!(cells[cells.len() - 2], flagged, "{name}: {line}");
+            curvature_cautions += whole
+                .warnings()
+                .iter()
+                .filter(|w| w.message.contains("curves") || w.message.contains("do not support"))
+                .count();
+        }
+    }
+    // The curved data's linear and constant-ΔCp° fits carry a caution from the comparison.
+    assert!(curvature_cautions >= 2, "{curvature_cautions}");
+}

@@ -115,7 +115,13 @@ pub fn compare_models(
     let prepared = prepare(points, options, root)?;
     let sums = WeightSums::new(prepared.weights.as_deref(), &prepared.y);
     let chi2 = |m: Model| chi2_on_points(points, options, m, true);
-    Ok(ladder_comparison(&ladder, &sums, options, chi2))
+    Ok(ladder_comparison(
+        &ladder,
+        &sums,
+        options,
+        Reach::Whole,
+        chi2,
+    ))
 }
 
 /// χ² of `model` on the included points with the options' weights, by the general solver.
@@ -169,19 +175,35 @@ fn chi2_checked(
     weighted_rss_formed(model, options.t_ref_k, &t_k, prepared.y, prepared.weights)
 }
 
+/// How far up the ladder a comparison goes.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(super) enum Reach {
+    /// Every step the points allow.
+    Whole,
+    /// Up to the first step that is not supported: the preferred model and the words of
+    /// the cautions (which quote the last supported step and the first unsupported one)
+    /// need no later step, so no later model is solved.
+    Verdict,
+}
+
 /// The comparison along `ladder`, with `chi2` giving each model's χ² on the same points.
 /// The ladder stops at the first model that has no residual degree of freedom or cannot be
-/// solved; `None` when no step is possible.
+/// solved, and with [`Reach::Verdict`] after the first unsupported step; `None` when no
+/// step is possible.
 pub(super) fn ladder_comparison(
     ladder: &[Model],
     sums: &WeightSums,
     options: &FitOptions,
+    reach: Reach,
     mut chi2: impl FnMut(Model) -> Result<f64, Error>,
 ) -> Option<ModelComparison> {
-    let mut steps = Vec::new();
+    let mut steps: Vec<ComparisonStep> = Vec::new();
     let mut prev: Option<(Model, f64)> = None;
     for &m in ladder {
         if sums.n <= m.n_params() {
+            break;
+        }
+        if reach == Reach::Verdict && steps.last().is_some_and(|s| !s.supported) {
             break;
         }
         let Ok(c) = chi2(m) else { break };

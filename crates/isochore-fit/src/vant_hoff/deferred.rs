@@ -7,7 +7,7 @@
 //! is `fit`'s, number for number and word for word (tested), so a window can show the
 //! estimates of a refit at once and the comparison when it is ready.
 
-use super::comparison::{chi2_on_points, ladder_comparison};
+use super::comparison::{chi2_on_points, ladder_comparison, Reach};
 use super::statistics::WeightSums;
 use super::{fit_threads, warnings, ModelComparison, VantHoffFit, PARALLEL_POINTS};
 use crate::error::Error;
@@ -43,6 +43,8 @@ pub struct CompletedComparison {
     comparison: Option<ModelComparison>,
     flagged: usize,
     leverage_one: bool,
+    /// How far up the ladder it went ([`PendingComparison::run_to_verdict`]: not every step).
+    reach: Reach,
 }
 
 impl PendingComparison {
@@ -50,19 +52,33 @@ impl PendingComparison {
     /// `fit` does (the stored-matrix solver: 80 bytes a point while it runs) and makes the
     /// comparison.
     pub fn run(self, points: &[Measurement]) -> CompletedComparison {
-        self.run_with(points, false)
+        self.run_with(points, false, Reach::Whole)
     }
 
     /// [`PendingComparison::run`] with the other models' χ² streamed over the points
     /// (`least_squares::streamed`: the same bits, 24 bytes a point instead of 80, about
     /// twice the time).
     pub fn run_lean(self, points: &[Measurement]) -> CompletedComparison {
-        self.run_with(points, true)
+        self.run_with(points, true, Reach::Whole)
     }
 
-    fn run_with(self, points: &[Measurement], lean: bool) -> CompletedComparison {
+    /// The comparison only as far as its verdict, for an output that shows the cautions
+    /// but none of the comparison's numbers (the command line's summary table): the ladder
+    /// is climbed as [`PendingComparison::run_lean`] climbs it, but it stops after the first
+    /// step that is not supported. The preferred model and the words of the cautions (which
+    /// quote the last supported step and the first unsupported one) are then those of the
+    /// whole comparison, and no later model is solved: the Clarke–Glew χ² of a linear fit
+    /// is needed only when the data support ΔCp°. Given to
+    /// [`VantHoffFit::complete_comparison`], it writes the cautions and leaves the
+    /// comparison itself pending.
+    pub fn run_to_verdict(self, points: &[Measurement]) -> CompletedComparison {
+        self.run_with(points, true, Reach::Verdict)
+    }
+
+    fn run_with(self, points: &[Measurement], lean: bool, reach: Reach) -> CompletedComparison {
         let model = self.options.model;
-        let comparison = ladder_comparison(&model.ladder(), &self.sums, &self.options, |m| {
+        let ladder = model.ladder();
+        let comparison = ladder_comparison(&ladder, &self.sums, &self.options, reach, |m| {
             if m == model {
                 Ok(self.rss)
             } else if let Some((_, chi2)) = self.known.filter(|(k, _)| *k == m) {
@@ -75,21 +91,30 @@ impl PendingComparison {
             comparison,
             flagged: self.flagged,
             leverage_one: self.leverage_one,
+            reach,
         }
     }
 }
 
 impl VantHoffFit {
     /// Puts a comparison made from this fit's [`PendingComparison`] in place, with the
-    /// cautions written again (those a caller put in front are kept in front).
+    /// cautions written again (those a caller put in front are kept in front). A comparison
+    /// made only as far as its verdict ([`PendingComparison::run_to_verdict`]) writes the
+    /// cautions, which are then `fit`'s, but is not kept: `comparison()` stays `None` and
+    /// [`VantHoffFit::comparison_pending`] true, as the numbers of its later steps were not
+    /// made.
     pub fn complete_comparison(&mut self, done: CompletedComparison) {
         self.comparison = done.comparison;
-        self.comparison_pending = false;
         let keep = self.warnings.len().saturating_sub(self.own_warnings);
         let own = warnings::cautions(self, done.flagged, done.leverage_one);
         self.warnings.truncate(keep);
         self.own_warnings = own.len();
         self.warnings.extend(own);
+        if done.reach == Reach::Whole {
+            self.comparison_pending = false;
+        } else {
+            self.comparison = None;
+        }
     }
 }
 
@@ -160,5 +185,73 @@ mod tests {
         let small_set = Arc::new(pts[..100].to_vec());
         let (small, none) = fit_estimates_first(&small_set, &FitOptions::default()).unwrap();
         assert!(none.is_none() && !small.comparison_pending() && small.comparison().is_some());
+    }
+
+    /// Invented points from Clarke–Glew coefficients (ΔH°, ΔS°, ΔCp°, dΔCp°/dT at 298.15 K)
+    /// with a deterministic scatter of about `noise` in ln K and unequal σ.
+    fn points_of(n: usize, coefficients: [f64; 4], noise: f64) -> Vec<Measurement> {
+        (0..n)
+            .map(|i| {
+                let t = 275.0 + 50.0 * i as f64 / n as f64;
+                let x = Model::CLARKE_GLEW.row(t, 298.15);
+                let truth: f64 = x.iter().zip(&coefficients).map(|(x, c)| x * c).sum();
+                let wobble = ((i * 7919) % 101) as f64 / 50.0 - 1.0;
+                Measurement::new(t, truth + noise * wobble)
+                    .with_sigma(noise * (1.0 + 0.2 * (i % 3) as f64))
+            })
+            .collect()
+    }
+
+    #[test]
+    fn the_verdict_alone_gives_fit_s_cautions_and_leaves_the_comparison_pending() {
+        // Straight, gently curved (ΔCp° only) and doubly curved (dΔCp°/dT too) invented
+        // data, fitted with each model: every step of the ladder supported or not.
+        let sets = [
+            points_of(22_000, [-40e3, -30.0, 0.0, 0.0], 0.02),
+            points_of(22_000, [-40e3, -30.0, -800.0, 0.0], 0.002),
+            points_of(22_000, [-40e3, -30.0, -800.0, 60.0], 0.0005),
+        ];
+        let mut preferred = Vec::new();
+        for pts in &sets {
+            for model in [Model::LINEAR, Model::CONSTANT_CP, Model::CLARKE_GLEW] {
+                let opts = FitOptions {
+                    model,
+                    ..FitOptions::default()
+                };
+                let whole = fit(pts, &opts).unwrap();
+                let shared = Arc::new(pts.clone());
+                let (mut f, pending) = fit_estimates_first(&shared, &opts).unwrap();
+                f.complete_comparison(pending.expect("left for later").run_to_verdict(pts));
+                assert_eq!(f.warnings(), whole.warnings(), "{}", model.key());
+                assert!(f.comparison_pending() && f.comparison().is_none());
+                preferred.push(whole.comparison().unwrap().preferred);
+            }
+        }
+        // The sets do reach each model of the ladder.
+        for m in [Model::LINEAR, Model::CONSTANT_CP, Model::CLARKE_GLEW] {
+            assert!(preferred.contains(&m), "{} never preferred", m.key());
+        }
+    }
+
+    #[test]
+    fn the_verdict_solves_no_model_after_the_first_unsupported_step() {
+        let pts = points_of(200, [-40e3, -30.0, 0.0, 0.0], 0.02);
+        let opts = FitOptions::default();
+        let prepared = super::super::inputs::prepare(&pts, &opts, Model::LINEAR).unwrap();
+        let sums = WeightSums::new(prepared.weights.as_deref(), &prepared.y);
+        let ladder = Model::LINEAR.ladder();
+        let asked = std::cell::RefCell::new(Vec::new());
+        let chi2 = |m: Model| {
+            asked.borrow_mut().push(m);
+            chi2_on_points(&pts, &opts, m, false)
+        };
+        let verdict = ladder_comparison(&ladder, &sums, &opts, Reach::Verdict, chi2).unwrap();
+        assert!(!verdict.steps[0].supported, "straight data: no ΔCp°");
+        assert_eq!(verdict.steps.len(), 1);
+        assert_eq!(*asked.borrow(), [Model::LINEAR, Model::CONSTANT_CP]);
+        let whole = ladder_comparison(&ladder, &sums, &opts, Reach::Whole, chi2).unwrap();
+        assert_eq!(whole.steps.len(), 2);
+        assert_eq!(whole.steps[0], verdict.steps[0]);
+        assert_eq!(whole.preferred, verdict.preferred);
     }
 }

@@ -33,7 +33,7 @@ pub(crate) use inputs::design;
 use crate::error::Error;
 use crate::measurement::{Given, Measurement};
 use crate::model::{is_plausible_temperature, FitOptions, Model};
-use comparison::{chi2_on_valid_points, ladder_comparison};
+use comparison::{chi2_on_valid_points, ladder_comparison, Reach};
 use std::sync::Arc;
 
 /// From this many points on, the other models of the ladder are solved on a second thread.
@@ -284,7 +284,7 @@ fn assemble(
     }
     // The comparison needs only each ladder model's χ² on the same points and weights.
     let mut beside = beside();
-    out.comparison = ladder_comparison(&model.ladder(), &sums, options, |m| {
+    out.comparison = ladder_comparison(&model.ladder(), &sums, options, Reach::Whole, |m| {
         if m == model {
             Ok(lin.rss)
         } else if let Some(i) = beside.iter().position(|(b, _)| *b == m) {
