@@ -64,7 +64,7 @@ impl OnDemand {
         }
         let mut g = Group::default();
         let mut out = None;
-        self.group(i, 1, &mut g, &mut |d| out = Some(d));
+        self.group(i, 1, None, &mut g, &mut |d| out = Some(d));
         out
     }
 
@@ -74,18 +74,36 @@ impl OnDemand {
         range: std::ops::Range<usize>,
         f: &mut dyn FnMut(PointDiagnostics),
     ) {
+        self.for_each_with(range, None, f);
+    }
+
+    /// [`OnDemand::for_each`], with every point's ln(T/θ) ([`logs_of`]) given or not.
+    fn for_each_with(
+        &self,
+        range: std::ops::Range<usize>,
+        logs: Option<&[f64]>,
+        f: &mut dyn FnMut(PointDiagnostics),
+    ) {
         let end = range.end.min(self.len());
         let mut g = Group::default();
         let mut start = range.start;
         while start < end {
             let len = GROUP.min(end - start);
-            self.group(start, len, &mut g, f);
+            self.group(start, len, logs, &mut g, f);
             start += len;
         }
     }
 
-    /// The diagnostics of points `start..start + len` (`len` ≤ [`GROUP`]) into `f`.
-    fn group(&self, start: usize, len: usize, g: &mut Group, f: &mut dyn FnMut(PointDiagnostics)) {
+    /// The diagnostics of points `start..start + len` (`len` ≤ [`GROUP`]) into `f`, with
+    /// every point's ln(T/θ) from `logs` when given (else taken here, the same number).
+    fn group(
+        &self,
+        start: usize,
+        len: usize,
+        logs: Option<&[f64]>,
+        g: &mut Group,
+        f: &mut dyn FnMut(PointDiagnostics),
+    ) {
         let ctx = &self.ctx;
         let p = self.p;
         let pf = p as f64;
@@ -103,7 +121,8 @@ impl OnDemand {
             }
             g.used[k] = true;
             // The design row and √w as every pass of the fit forms them.
-            let Some((row, _)) = Row::of(m, theta, self.weighted) else {
+            let l = logs.map_or_else(|| (m.t_k / theta).ln(), |l| l[start + k]);
+            let Some((row, _)) = Row::of(m, l, theta, self.weighted) else {
                 g.used[k] = false;
                 continue;
             };
@@ -204,7 +223,7 @@ impl FastFit {
         let pass = |range: std::ops::Range<usize>| {
             let mut summary = DiagnosticsSummary::default();
             let mut flagged = Vec::new();
-            od.for_each(range, &mut |d| {
+            od.for_each_with(range, Some(&self.logs), &mut |d| {
                 summary.note(&d);
                 if d.flags.any() {
                     flagged.push(d.index);

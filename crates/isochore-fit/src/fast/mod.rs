@@ -63,17 +63,13 @@ impl Row {
     /// The row of an included point: the design entries of the constant-ΔCp° model and
     /// √w = √(1/σ²) (1 unweighted). `None` for a weighted fit's point without σ. Every pass
     /// forms a point's row here, so every pass sees the same numbers.
+    /// `l` is the point's ln(T/θ) as [`logs_of`] takes it (the row's logarithm, taken once
+    /// for every pass of the fit).
     #[inline]
-    fn of(pt: &Measurement, theta: f64, weighted: bool) -> Option<(Row, f64)> {
-        let (w, sw) = if weighted {
-            let s = pt.sigma_ln_k?;
-            let w = 1.0 / (s * s);
-            (w, w.sqrt())
-        } else {
-            (1.0, 1.0)
-        };
+    fn of(pt: &Measurement, l: f64, theta: f64, weighted: bool) -> Option<(Row, f64)> {
+        let (w, sw) = weight_and_root(pt, weighted)?;
         let mut x = [0.0; 3];
-        Model::CONSTANT_CP.row_into(pt.t_k, theta, &mut x);
+        Model::CONSTANT_CP.row_with_log_into(pt.t_k, theta, l, &mut x);
         debug_assert_eq!(x[1], C1);
         Some((
             Row {
@@ -94,6 +90,62 @@ impl Row {
             self.y * self.sw,
         )
     }
+}
+
+/// A point's weight w = 1/σ² and √w (1 and 1 unweighted), as every pass forms them; `None`
+/// for a weighted fit's point without σ.
+#[inline]
+fn weight_and_root(pt: &Measurement, weighted: bool) -> Option<(f64, f64)> {
+    if weighted {
+        let s = pt.sigma_ln_k?;
+        let w = 1.0 / (s * s);
+        Some((w, w.sqrt()))
+    } else {
+        Some((1.0, 1.0))
+    }
+}
+
+/// From this many points on, the logarithms of [`logs_of`] and the residual passes are
+/// shared with a second thread (some milliseconds of work each; a thread costs some tens
+/// of microseconds).
+const SPLIT_POINTS: usize = 1 << 16;
+
+/// ln(T/θ) of every point, `(t_k / theta).ln()` as [`Model::row_into`] takes it, so that a
+/// row formed with it is that row to the bit; taken once for all the passes of a fit (a
+/// logarithm costs more than the rest of a row). From `split_points` points on, the
+/// second half is taken by a second thread (when one can be started).
+pub(crate) fn logs_of(points: &[Measurement], theta: f64, split_points: usize) -> Vec<f64> {
+    let fill = |pts: &[Measurement], out: &mut [f64]| {
+        for (o, p) in out.iter_mut().zip(pts) {
+            *o = (p.t_k / theta).ln();
+        }
+    };
+    let n = points.len();
+    let mut logs = vec![0.0; n];
+    let mid = n / 2;
+    let mut second_done = false;
+    if n >= split_points {
+        std::thread::scope(|scope| {
+            let (a, b) = logs.split_at_mut(mid);
+            let other = std::thread::Builder::new()
+                .name("isochore-logs".into())
+                .spawn_scoped(scope, move || fill(&points[mid..], b));
+            fill(&points[..mid], a);
+            if let Ok(h) = other {
+                h.join().unwrap_or_else(|e| std::panic::resume_unwind(e));
+                second_done = true;
+            }
+        });
+    }
+    let from = if second_done {
+        n
+    } else if n >= split_points {
+        mid
+    } else {
+        0
+    };
+    fill(&points[from..], &mut logs[from..]);
+    logs
 }
 
 /// Reduces the stack [R; block] to a triangle by four Householder reflections. `block` holds
@@ -345,6 +397,9 @@ pub(crate) struct FastFit {
     pub(crate) t_min: f64,
     /// Highest used temperature.
     pub(crate) t_max: f64,
+    /// ln(T/θ) of every point ([`logs_of`]), for the fit's own diagnostics pass; dropped
+    /// with the fit's solver (the diagnostics asked for later take their logarithms again).
+    pub(crate) logs: Vec<f64>,
 }
 
 impl FastFit {
@@ -371,6 +426,16 @@ impl FastFit {
     /// fit) and returns `None` on any fault; the counts (enough used points and distinct
     /// temperatures) are the caller's to check.
     pub(crate) fn try_new(points: &[Measurement], options: &FitOptions) -> Option<FastFit> {
+        Self::try_new_split(points, options, SPLIT_POINTS)
+    }
+
+    /// [`FastFit::try_new`], its logarithms and residual passes shared with a second thread
+    /// from `split_points` points on (tests compare the two).
+    fn try_new_split(
+        points: &[Measurement],
+        options: &FitOptions,
+        split_points: usize,
+    ) -> Option<FastFit> {
         if !options.model.streams() {
             return None;
         }
@@ -391,12 +456,13 @@ impl FastFit {
         // and the fit goes the general way, whose `check_inputs` names the first.
         let plausible = !options.allow_extreme_temperatures;
         let mut values_pass = true;
-        for pt in points {
+        let logs = logs_of(points, theta, split_points);
+        for (pt, &l) in points.iter().zip(&logs) {
             values_pass &= pt.is_valid() & (!plausible | is_plausible_temperature(pt.t_k));
             if !pt.included {
                 continue;
             }
-            let (row, w) = Row::of(pt, theta, weighted)?;
+            let (row, w) = Row::of(pt, l, theta, weighted)?;
             // The weight 1/σ² normal (`check_inputs`' test, on the same expression).
             values_pass &= !weighted | w.is_normal();
             n += 1;
@@ -459,7 +525,15 @@ impl FastFit {
             tracks.push(Track::new(o, r, &scale));
         }
         let mean = sum_wy / sum_w;
-        let tss = residual_passes(points, theta, weighted, &mut tracks, &scale, mean)?;
+        let rows = Rows {
+            points,
+            logs: &logs,
+            theta,
+            weighted,
+            n,
+            split_blocks: split_points / BLOCK,
+        };
+        let tss = residual_passes(&rows, &mut tracks, &scale, mean)?;
         let mut tracks = tracks.into_iter();
         let first = tracks.next()?;
         let (fitted, rss) = (first.sub, first.rss);
@@ -476,6 +550,7 @@ impl FastFit {
             sum_w_inv_t,
             t_min,
             t_max,
+            logs,
         })
     }
 }
@@ -562,7 +637,7 @@ mod passes;
 
 pub(crate) use diagnose::OnDemand;
 
-use passes::{amax, residual_passes};
+use passes::{amax, residual_passes, Rows};
 
 #[cfg(test)]
 mod tests;

@@ -3,31 +3,66 @@
 
 use super::*;
 
-/// The rows of the used points, formed by [`Row::of`], to `f` a block of at most
-/// [`BLOCK`] at a time, in order.
-fn used_blocks(points: &[Measurement], theta: f64, weighted: bool, mut f: impl FnMut(&[Row])) {
-    let zero = Row {
-        c0: 0.0,
-        c2: 0.0,
-        sw: 0.0,
-        y: 0.0,
-    };
-    let mut buf = [zero; BLOCK];
-    let mut m = 0;
-    for pt in points.iter().filter(|p| p.included) {
-        // A used point of a weighted fit has σ here (the read pass refused otherwise).
-        let Some((row, _)) = Row::of(pt, theta, weighted) else {
-            continue;
+/// The used points' rows as the passes form them: the points, their ln(T/θ)
+/// ([`logs_of`]), θ, the weighting and the number of used points.
+pub(super) struct Rows<'a> {
+    pub(super) points: &'a [Measurement],
+    pub(super) logs: &'a [f64],
+    pub(super) theta: f64,
+    pub(super) weighted: bool,
+    /// Used points.
+    pub(super) n: usize,
+    /// Whole blocks from which a pass is shared with a second thread.
+    pub(super) split_blocks: usize,
+}
+
+impl Rows<'_> {
+    /// The rows of the used points from point `from` on, formed by [`Row::of`], to `f` a
+    /// block of at most [`BLOCK`] at a time, in order, until `blocks` blocks have gone.
+    fn blocks(&self, from: usize, blocks: usize, mut f: impl FnMut(&[Row])) {
+        let zero = Row {
+            c0: 0.0,
+            c2: 0.0,
+            sw: 0.0,
+            y: 0.0,
         };
-        buf[m] = row;
-        m += 1;
-        if m == BLOCK {
-            f(&buf);
-            m = 0;
+        let mut buf = [zero; BLOCK];
+        let mut m = 0;
+        let mut left = blocks;
+        let points = self.points[from..].iter().zip(&self.logs[from..]);
+        for (pt, &l) in points.filter(|(p, _)| p.included) {
+            // A used point of a weighted fit has σ here (the read pass refused otherwise).
+            let Some((row, _)) = Row::of(pt, l, self.theta, self.weighted) else {
+                continue;
+            };
+            buf[m] = row;
+            m += 1;
+            if m == BLOCK {
+                f(&buf);
+                m = 0;
+                left -= 1;
+                if left == 0 {
+                    return;
+                }
+            }
+        }
+        if m > 0 {
+            f(&buf[..m]);
         }
     }
-    if m > 0 {
-        f(&buf[..m]);
+
+    /// The index of the point that is used point number `used` (0-based), or the number of
+    /// points when there are not so many.
+    fn point_of_used(&self, used: usize) -> usize {
+        if self.n == self.points.len() {
+            return used.min(self.n);
+        }
+        self.points
+            .iter()
+            .enumerate()
+            .filter(|(_, p)| p.included)
+            .nth(used)
+            .map_or(self.points.len(), |(i, _)| i)
     }
 }
 
@@ -70,56 +105,129 @@ fn block_residuals(
     }
 }
 
+/// One block's terms of a pass for each tracked model (at most two): Σs² of the block and
+/// its g = Aᵀs, each taken from the block alone, so that adding them in block order gives
+/// the sums of a pass made in one go.
+#[derive(Clone, Copy, Default)]
+struct BlockSums {
+    ss: [f64; 2],
+    g: [[f64; 3]; 2],
+}
+
+/// The terms of a block of rows for the tracks not yet done.
+fn block_sums(chunk: &[Row], tracks: &[Track]) -> BlockSums {
+    let m = chunk.len();
+    let mut cols = [[0.0f64; BLOCK]; 4];
+    let mut res = [0.0f64; BLOCK];
+    // The weighted block, column by column, so the loops below vectorise.
+    for (k, row) in chunk.iter().enumerate() {
+        let (a, b) = row.weighted();
+        cols[0][k] = a[0];
+        cols[1][k] = a[1];
+        cols[2][k] = a[2];
+        cols[3][k] = b;
+    }
+    let mut out = BlockSums::default();
+    for (i, t) in tracks.iter().enumerate().filter(|(_, t)| !t.done) {
+        let res = &mut res[..m];
+        block_residuals(&cols, m, &t.sub, &t.split, res);
+        out.ss[i] = dot(res, res);
+        if t.refine {
+            for j in 0..t.sub.p {
+                out.g[i][j] = dot(&cols[j][..m], res);
+            }
+        }
+    }
+    out
+}
+
+/// Adds a block's terms to the tracks' sums, in block order.
+fn add_block(tracks: &mut [Track], b: &BlockSums) {
+    for (i, t) in tracks.iter_mut().enumerate().filter(|(_, t)| !t.done) {
+        t.ss += b.ss[i];
+        if t.refine {
+            for j in 0..t.sub.p {
+                t.g[j] += b.g[i][j];
+            }
+        }
+    }
+}
+
 /// Residual passes for every model at once. A model that needs no refinement gets its χ²
 /// from the first pass. One that does is refined by corrected semi-normal equations:
 /// s = b − Aβ in twice the working precision, g = Aᵀs (blocked sums keep its rounding at the
 /// level of s's own), δ = R⁻¹R⁻ᵀg, stopping as `least_squares` does; the χ² at β + δ is
 /// Σs² − ‖R⁻ᵀg‖² (exact for the least-squares correction), so no extra pass is needed.
 /// Returns Σ w(y − ȳ_w)² from the first pass; `None` if anything is not finite.
+///
+/// From `rows.split_blocks` blocks on, the later half of the blocks of a pass is taken by a
+/// second thread, which keeps each block's terms; they are added after this thread's, in
+/// block order, so every sum is the one a single thread makes. Σ w(y − ȳ_w)², a sum row by
+/// row, is continued here over the later half (its terms are cheap).
 pub(super) fn residual_passes(
-    points: &[Measurement],
-    theta: f64,
-    weighted: bool,
+    rows: &Rows<'_>,
     tracks: &mut [Track],
     scale: &[f64; 3],
     mean: f64,
 ) -> Option<f64> {
+    let blocks = rows.n.div_ceil(BLOCK);
+    let half = blocks / 2;
+    let split = (blocks >= rows.split_blocks.max(2)).then(|| rows.point_of_used(half * BLOCK));
     let mut tss = 0.0;
+    let tss_of = |tss: &mut f64, chunk: &[Row]| {
+        for row in chunk {
+            let d = (row.y - mean) * row.sw;
+            *tss += d * d;
+        }
+    };
     for step in 0..=MAX_REFINEMENT_STEPS {
         for t in tracks.iter_mut() {
             t.ss = 0.0;
             t.g = [0.0; 3];
         }
-        let mut cols = [[0.0f64; BLOCK]; 4];
-        let mut res = [0.0f64; BLOCK];
-        used_blocks(points, theta, weighted, |chunk| {
-            let m = chunk.len();
-            // The weighted block, column by column, so the loops below vectorise.
-            for (k, row) in chunk.iter().enumerate() {
-                let (a, b) = row.weighted();
-                cols[0][k] = a[0];
-                cols[1][k] = a[1];
-                cols[2][k] = a[2];
-                cols[3][k] = b;
-            }
-            if step == 0 {
-                for row in chunk {
-                    let d = (row.y - mean) * row.sw;
-                    tss += d * d;
-                }
-            }
-            for t in tracks.iter_mut().filter(|t| !t.done) {
-                let p = t.sub.p;
-                let res = &mut res[..m];
-                block_residuals(&cols, m, &t.sub, &t.split, res);
-                t.ss += dot(res, res);
-                if t.refine {
-                    for j in 0..p {
-                        t.g[j] += dot(&cols[j][..m], res);
+        let frozen: &[Track] = tracks;
+        let later = |from: usize| {
+            let mut sums = Vec::with_capacity(blocks - half);
+            rows.blocks(from, usize::MAX, |chunk| {
+                sums.push(block_sums(chunk, frozen))
+            });
+            sums
+        };
+        let (first, rest) = match split {
+            Some(from) => std::thread::scope(|scope| {
+                let other = std::thread::Builder::new()
+                    .name("isochore-residuals".into())
+                    .spawn_scoped(scope, move || later(from));
+                let mut first = Vec::with_capacity(half);
+                rows.blocks(0, half, |chunk| {
+                    first.push(block_sums(chunk, frozen));
+                    if step == 0 {
+                        tss_of(&mut tss, chunk);
                     }
-                }
+                });
+                let rest = match other {
+                    Ok(h) => h.join().unwrap_or_else(|e| std::panic::resume_unwind(e)),
+                    Err(_) => later(from),
+                };
+                (first, rest)
+            }),
+            None => {
+                let mut first = Vec::with_capacity(blocks);
+                rows.blocks(0, usize::MAX, |chunk| {
+                    first.push(block_sums(chunk, frozen));
+                    if step == 0 {
+                        tss_of(&mut tss, chunk);
+                    }
+                });
+                (first, Vec::new())
             }
-        });
+        };
+        if let (Some(from), 0) = (split, step) {
+            rows.blocks(from, usize::MAX, |chunk| tss_of(&mut tss, chunk));
+        }
+        for b in first.iter().chain(&rest) {
+            add_block(tracks, b);
+        }
         for t in tracks.iter_mut().filter(|t| !t.done) {
             let p = t.sub.p;
             if !t.refine || step == MAX_REFINEMENT_STEPS {

@@ -299,3 +299,49 @@ fn a_fault_in_any_value_sends_the_fit_to_the_check_that_names_it() {
     };
     assert!(crate::vant_hoff::inputs::check_inputs(&hot, &allow, allow.model).is_ok());
 }
+
+#[test]
+fn passes_shared_with_a_second_thread_give_one_thread_s_bits() {
+    // Over the size from which the logarithms and the residual passes are shared, with
+    // points left out here and there (the second thread's first point is then found by
+    // counting), weighted and not, both models: every number the passes make is the
+    // single thread's, to the bit.
+    let mut pts = data(SPLIT_POINTS + 4_321);
+    for i in (0..pts.len()).step_by(101) {
+        pts[i].included = false;
+    }
+    for model in [Model::LINEAR, Model::CONSTANT_CP] {
+        for weighting in [Weighting::InverseVariance, Weighting::Unweighted] {
+            let opts = FitOptions {
+                model,
+                weighting,
+                ..FitOptions::default()
+            };
+            let shared = FastFit::try_new(&pts, &opts).expect("streaming path taken");
+            let single = FastFit::try_new_split(&pts, &opts, usize::MAX).expect("taken");
+            let bits = |f: &FastFit| {
+                let mut v: Vec<u64> = [
+                    f.rss,
+                    f.rss_other.unwrap_or(f64::NAN),
+                    f.sum_w,
+                    f.sum_ln_w,
+                    f.tss,
+                    f.sum_w_inv_t,
+                    f.t_min,
+                    f.t_max,
+                ]
+                .iter()
+                .map(|v| v.to_bits())
+                .collect();
+                v.extend(f.fitted.beta.iter().map(|b| b.to_bits()));
+                v.extend(f.logs.iter().map(|l| l.to_bits()));
+                v
+            };
+            assert_eq!(bits(&shared), bits(&single), "{model:?} {weighting:?}");
+            assert!(
+                shared.fitted.refined,
+                "the refinement's passes are exercised"
+            );
+        }
+    }
+}

@@ -7,7 +7,7 @@
 //! another model's χ² for the comparison.
 
 use super::comparison::chi2_on_points;
-use super::inputs::{check_counts, check_inputs, design, prepare};
+use super::inputs::{check_counts_of_used, check_inputs, design, prepare};
 use super::statistics::WeightSums;
 use crate::diagnostics::{diagnose_points, DiagnosticsSummary, PointContext, PointStore};
 use crate::error::Error;
@@ -92,7 +92,7 @@ pub(crate) fn solve_model(
 /// general solver of [`crate::least_squares`] otherwise. The options must already be valid.
 /// The inputs are checked here as [`check_inputs`] checks them: the streaming path checks
 /// every point's values in its first pass (it declines any fault), so only the counts are
-/// left ([`check_counts`]); the general path runs [`check_inputs`] first, which names the
+/// left ([`check_counts_of_used`]); the general path runs [`check_inputs`] first, which names the
 /// first fault.
 pub(super) fn run(
     points: &[Measurement],
@@ -101,7 +101,7 @@ pub(super) fn run(
 ) -> Result<Box<dyn SolvedFit>, Error> {
     if allow_streaming {
         if let Some(fast) = FastFit::try_new(points, options) {
-            check_counts(points, options, options.model)?;
+            check_counts_of_used(points, fast.n(), options, options.model)?;
             return Ok(Box::new(fast));
         }
     }

@@ -103,8 +103,19 @@ pub(crate) fn check_counts(
     options: &FitOptions,
     model: Model,
 ) -> Result<(), Error> {
-    let needed = needed_points(options, model);
     let used = points.iter().filter(|pt| pt.included).count();
+    check_counts_of_used(points, used, options, model)
+}
+
+/// [`check_counts`] when the number of used points is known (a solver's first pass counted
+/// them): no pass to count them again.
+pub(crate) fn check_counts_of_used(
+    points: &[Measurement],
+    used: usize,
+    options: &FitOptions,
+    model: Model,
+) -> Result<(), Error> {
+    let needed = needed_points(options, model);
     let distinct = crate::model::count_distinct_temperatures(
         points.iter().filter(|pt| pt.included).map(|pt| pt.t_k),
         needed,
