@@ -77,12 +77,14 @@ impl OnDemand {
         self.for_each_with(range, None, f);
     }
 
-    /// [`OnDemand::for_each`], with every point's ln(T/θ) ([`logs_of`]) given or not.
-    fn for_each_with(
+    /// [`OnDemand::for_each`], with every point's ln(T/θ) ([`logs_of`]) given or not; `f`
+    /// is generic, so that a caller that reads a few fields of each record (the fit's
+    /// summary pass) gets them without the others being made.
+    fn for_each_with<F: FnMut(PointDiagnostics) + ?Sized>(
         &self,
         range: std::ops::Range<usize>,
         logs: Option<&[f64]>,
-        f: &mut dyn FnMut(PointDiagnostics),
+        f: &mut F,
     ) {
         let end = range.end.min(self.len());
         let mut g = Group::default();
@@ -96,13 +98,13 @@ impl OnDemand {
 
     /// The diagnostics of points `start..start + len` (`len` ≤ [`GROUP`]) into `f`, with
     /// every point's ln(T/θ) from `logs` when given (else taken here, the same number).
-    fn group(
+    fn group<F: FnMut(PointDiagnostics) + ?Sized>(
         &self,
         start: usize,
         len: usize,
         logs: Option<&[f64]>,
         g: &mut Group,
-        f: &mut dyn FnMut(PointDiagnostics),
+        f: &mut F,
     ) {
         let ctx = &self.ctx;
         let p = self.p;
