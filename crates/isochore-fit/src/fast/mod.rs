@@ -68,8 +68,7 @@ impl Row {
     #[inline]
     fn of(pt: &Measurement, l: f64, theta: f64, weighted: bool) -> Option<(Row, f64)> {
         let (w, sw) = weight_and_root(pt, weighted)?;
-        let mut x = [0.0; 3];
-        Model::CONSTANT_CP.row_with_log_into(pt.t_k, theta, l, &mut x);
+        let x = crate::models::constant_cp::row(pt.t_k, theta, l);
         debug_assert_eq!(x[1], C1);
         Some((
             Row {

@@ -11,6 +11,14 @@
 use super::{Model, ModelSpec, ParamInfo, DELTA_CP, DELTA_H, DELTA_S};
 use crate::GAS_CONSTANT;
 
+/// The ln K row at `t_k` with ln(T/θ) = `l` given: the one formula of the model's row,
+/// inlined where a solver forms many rows at once (the streaming path of `fast`).
+#[inline(always)]
+pub(crate) fn row(t_k: f64, theta: f64, l: f64) -> [f64; 3] {
+    let r = GAS_CONSTANT;
+    [-1.0 / (r * t_k), 1.0 / r, (theta / t_k - 1.0 + l) / r]
+}
+
 /// ΔCp° constant over the temperature range.
 #[derive(Debug, Clone, Copy)]
 pub struct ConstantCp;
@@ -58,10 +66,7 @@ impl ModelSpec for ConstantCp {
         self.row_with_log(t_k, theta, (t_k / theta).ln(), out)
     }
     fn row_with_log(&self, t_k: f64, theta: f64, l: f64, out: &mut [f64]) {
-        let r = GAS_CONSTANT;
-        out[0] = -1.0 / (r * t_k);
-        out[1] = 1.0 / r;
-        out[2] = (theta / t_k - 1.0 + l) / r;
+        out.copy_from_slice(&row(t_k, theta, l));
     }
     fn streams(&self) -> bool {
         true

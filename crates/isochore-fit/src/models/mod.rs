@@ -13,7 +13,7 @@
 //! to [`Model::all`]'s list, and give it a `const` handle (see DEVELOPERS.md).
 
 pub(crate) mod clarke_glew;
-mod constant_cp;
+pub(crate) mod constant_cp;
 mod linear;
 
 pub use clarke_glew::ClarkeGlew;
