@@ -123,7 +123,7 @@ impl OnDemand {
             }
             g.used[k] = true;
             // The design row and √w as every pass of the fit forms them.
-            let l = logs.map_or_else(|| (m.t_k / theta).ln(), |l| l[start + k]);
+            let l = log_at(logs, start + k, m, theta);
             let Some((row, _)) = Row::of(m, l, theta, self.weighted) else {
                 g.used[k] = false;
                 continue;
@@ -225,7 +225,7 @@ impl FastFit {
         let pass = |range: std::ops::Range<usize>| {
             let mut summary = DiagnosticsSummary::default();
             let mut flagged = Vec::new();
-            od.for_each_with(range, Some(&self.logs), &mut |d| {
+            od.for_each_with(range, self.logs.as_deref(), &mut |d| {
                 summary.note(&d);
                 if d.flags.any() {
                     flagged.push(d.index);

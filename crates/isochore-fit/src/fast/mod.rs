@@ -6,9 +6,10 @@
 //! (a reflection for column j touches only rows ≥ j). The QR is built while the points are
 //! read, a block of rows at a time: the 4×4 triangle so far is stacked on the next block
 //! and four Householder reflections reduce the stack back to a triangle (tall-skinny QR).
-//! No n×p matrix, no Q and no normal equations are formed, and nothing is kept per point:
-//! each later pass forms a used point's row (1/T-column, ΔCp°-column, √w, ln K) again from
-//! the caller's points, with the same arithmetic ([`Row::of`]).
+//! No n×p matrix, no Q and no normal equations are formed, and nothing is kept per point
+//! but, when the second core is free, its ln(T/θ) ([`logs_of`], 8 bytes a point while the
+//! fit runs): each later pass forms a used point's row (1/T-column, ΔCp°-column, √w, ln K)
+//! again from the caller's points, with the same arithmetic ([`Row::of`]).
 //!
 //! Column scaling by powers of two changes no rounding in a Householder QR, so the factor is
 //! computed on the √w-scaled columns and the powers of two (nearest the column norms) enter
@@ -24,9 +25,13 @@
 //! path's `check_inputs` names the first. The refinement settings (error
 //! bound, threshold, step limit, power-of-two scaling) are those of `least_squares`.
 //!
-//! Passes over the data: one to check, read and factorise; one per refinement step
-//! (usually none or one, both models together); one for the residual sums of squares of
-//! both models; one to write the per-point diagnostics.
+//! Passes over the data: the logarithms (when kept); one to check, read and factorise; one
+//! for the residual sums of squares of both models and one per refinement step (usually
+//! none or one, both models together); one for the per-point diagnostics' summary. When the
+//! second core is free, the logarithms, the residual passes and the diagnostics pass are
+//! shared with a second thread, in ways that leave every number the single thread's (see
+//! `passes::residual_passes`); the factorisation, whose reflections follow the rows in
+//! order, stays on one.
 
 // Indexing by row and column is the clearest way to write 3×3 and 4×4 triangular algebra.
 #![allow(clippy::needless_range_loop)]
@@ -107,7 +112,7 @@ fn weight_and_root(pt: &Measurement, weighted: bool) -> Option<(f64, f64)> {
 /// From this many points on, the logarithms of [`logs_of`] and the residual passes are
 /// shared with a second thread (some milliseconds of work each; a thread costs some tens
 /// of microseconds).
-const SPLIT_POINTS: usize = 1 << 16;
+pub(crate) const SPLIT_POINTS: usize = 1 << 16;
 
 /// ln(T/θ) of every point, `(t_k / theta).ln()` as [`Model::row_into`] takes it, so that a
 /// row formed with it is that row to the bit; taken once for all the passes of a fit (a
@@ -145,6 +150,16 @@ pub(crate) fn logs_of(points: &[Measurement], theta: f64, split_points: usize) -
     };
     fill(&points[from..], &mut logs[from..]);
     logs
+}
+
+/// Point `i`'s ln(T/θ): from `logs` ([`logs_of`]) when the fit keeps them, else taken here
+/// (the same number).
+#[inline(always)]
+fn log_at(logs: Option<&[f64]>, i: usize, pt: &Measurement, theta: f64) -> f64 {
+    match logs {
+        Some(l) => l[i],
+        None => (pt.t_k / theta).ln(),
+    }
 }
 
 /// Reduces the stack [R; block] to a triangle by four Householder reflections. `block` holds
@@ -396,9 +411,10 @@ pub(crate) struct FastFit {
     pub(crate) t_min: f64,
     /// Highest used temperature.
     pub(crate) t_max: f64,
-    /// ln(T/θ) of every point ([`logs_of`]), for the fit's own diagnostics pass; dropped
-    /// with the fit's solver (the diagnostics asked for later take their logarithms again).
-    pub(crate) logs: Vec<f64>,
+    /// ln(T/θ) of every point ([`logs_of`]) when the fit keeps them, for its own diagnostics
+    /// pass; dropped with the fit's solver (the diagnostics asked for later take their
+    /// logarithms again).
+    pub(crate) logs: Option<Vec<f64>>,
 }
 
 impl FastFit {
@@ -417,6 +433,12 @@ impl FastFit {
         self.fitted.unscaled_covariance()
     }
 
+    /// [`FastFit::try_new_with`] with the second core free (tests).
+    #[cfg(test)]
+    pub(crate) fn try_new(points: &[Measurement], options: &FitOptions) -> Option<FastFit> {
+        Self::try_new_with(points, options, Some(SPLIT_POINTS))
+    }
+
     /// Tries the streaming path; `None` sends the caller to the general path.
     ///
     /// The options must be valid. The first pass checks every point's values as
@@ -424,16 +446,16 @@ impl FastFit {
     /// extreme ones are allowed, a σ with a normal weight on every used point of a weighted
     /// fit) and returns `None` on any fault; the counts (enough used points and distinct
     /// temperatures) are the caller's to check.
-    pub(crate) fn try_new(points: &[Measurement], options: &FitOptions) -> Option<FastFit> {
-        Self::try_new_split(points, options, SPLIT_POINTS)
-    }
-
-    /// [`FastFit::try_new`], its logarithms and residual passes shared with a second thread
-    /// from `split_points` points on (tests compare the two).
-    fn try_new_split(
+    ///
+    /// `split`: `Some(s)`, the points' logarithms are kept (8 bytes a point while the fit
+    /// runs) and they and the residual passes are shared with a second thread from `s`
+    /// points on; `None` (the other core is busy, with the comparison's χ² say), nothing is
+    /// kept and nothing shared: each pass takes its logarithms. The numbers are the same
+    /// (tested).
+    pub(crate) fn try_new_with(
         points: &[Measurement],
         options: &FitOptions,
-        split_points: usize,
+        split: Option<usize>,
     ) -> Option<FastFit> {
         if !options.model.streams() {
             return None;
@@ -455,12 +477,13 @@ impl FastFit {
         // and the fit goes the general way, whose `check_inputs` names the first.
         let plausible = !options.allow_extreme_temperatures;
         let mut values_pass = true;
-        let logs = logs_of(points, theta, split_points);
-        for (pt, &l) in points.iter().zip(&logs) {
+        let logs = split.map(|s| logs_of(points, theta, s));
+        for (i, pt) in points.iter().enumerate() {
             values_pass &= pt.is_valid() & (!plausible | is_plausible_temperature(pt.t_k));
             if !pt.included {
                 continue;
             }
+            let l = log_at(logs.as_deref(), i, pt, theta);
             let (row, w) = Row::of(pt, l, theta, weighted)?;
             // The weight 1/σ² normal (`check_inputs`' test, on the same expression).
             values_pass &= !weighted | w.is_normal();
@@ -526,11 +549,11 @@ impl FastFit {
         let mean = sum_wy / sum_w;
         let rows = Rows {
             points,
-            logs: &logs,
+            logs: logs.as_deref(),
             theta,
             weighted,
             n,
-            split_blocks: split_points / BLOCK,
+            split_blocks: split.map_or(usize::MAX, |s| s / BLOCK),
         };
         let tss = residual_passes(&rows, &mut tracks, &scale, mean)?;
         let mut tracks = tracks.into_iter();

@@ -7,7 +7,8 @@ use super::*;
 /// ([`logs_of`]), θ, the weighting and the number of used points.
 pub(super) struct Rows<'a> {
     pub(super) points: &'a [Measurement],
-    pub(super) logs: &'a [f64],
+    /// ln(T/θ) of every point when the fit keeps them.
+    pub(super) logs: Option<&'a [f64]>,
     pub(super) theta: f64,
     pub(super) weighted: bool,
     /// Used points.
@@ -29,8 +30,9 @@ impl Rows<'_> {
         let mut buf = [zero; BLOCK];
         let mut m = 0;
         let mut left = blocks;
-        let points = self.points[from..].iter().zip(&self.logs[from..]);
-        for (pt, &l) in points.filter(|(p, _)| p.included) {
+        let points = self.points.iter().enumerate().skip(from);
+        for (i, pt) in points.filter(|(_, p)| p.included) {
+            let l = log_at(self.logs, i, pt, self.theta);
             // A used point of a weighted fit has σ here (the read pass refused otherwise).
             let Some((row, _)) = Row::of(pt, l, self.theta, self.weighted) else {
                 continue;

@@ -305,7 +305,7 @@ fn passes_shared_with_a_second_thread_give_one_thread_s_bits() {
     // Over the size from which the logarithms and the residual passes are shared, with
     // points left out here and there (the second thread's first point is then found by
     // counting), weighted and not, both models: every number the passes make is the
-    // single thread's, to the bit.
+    // single thread's, to the bit, with the logarithms kept or taken by each pass.
     let mut pts = data(SPLIT_POINTS + 4_321);
     for i in (0..pts.len()).step_by(101) {
         pts[i].included = false;
@@ -318,7 +318,8 @@ fn passes_shared_with_a_second_thread_give_one_thread_s_bits() {
                 ..FitOptions::default()
             };
             let shared = FastFit::try_new(&pts, &opts).expect("streaming path taken");
-            let single = FastFit::try_new_split(&pts, &opts, usize::MAX).expect("taken");
+            let single = FastFit::try_new_with(&pts, &opts, Some(usize::MAX)).expect("taken");
+            let nothing_kept = FastFit::try_new_with(&pts, &opts, None).expect("taken");
             let bits = |f: &FastFit| {
                 let mut v: Vec<u64> = [
                     f.rss,
@@ -334,10 +335,24 @@ fn passes_shared_with_a_second_thread_give_one_thread_s_bits() {
                 .map(|v| v.to_bits())
                 .collect();
                 v.extend(f.fitted.beta.iter().map(|b| b.to_bits()));
-                v.extend(f.logs.iter().map(|l| l.to_bits()));
                 v
             };
             assert_eq!(bits(&shared), bits(&single), "{model:?} {weighting:?}");
+            assert_eq!(
+                bits(&shared),
+                bits(&nothing_kept),
+                "{model:?} {weighting:?}"
+            );
+            assert!(nothing_kept.logs.is_none());
+            let logs = |f: &FastFit| -> Vec<u64> {
+                f.logs.iter().flatten().map(|l| l.to_bits()).collect()
+            };
+            assert_eq!(logs(&shared), logs(&single));
+            let taken: Vec<u64> = pts
+                .iter()
+                .map(|p| (p.t_k / 298.15).ln().to_bits())
+                .collect();
+            assert_eq!(logs(&shared), taken);
             assert!(
                 shared.fitted.refined,
                 "the refinement's passes are exercised"

@@ -93,14 +93,18 @@ pub(crate) fn solve_model(
 /// The inputs are checked here as [`check_inputs`] checks them: the streaming path checks
 /// every point's values in its first pass (it declines any fault), so only the counts are
 /// left ([`check_counts_of_used`]); the general path runs [`check_inputs`] first, which names the
-/// first fault.
+/// first fault. `second_core_free`: no other work of the fit's (the comparison's χ²) runs
+/// beside it, so the streaming path may keep the points' logarithms and share its passes
+/// with a second thread ([`FastFit::try_new_with`]).
 pub(super) fn run(
     points: &[Measurement],
     options: &FitOptions,
     allow_streaming: bool,
+    second_core_free: bool,
 ) -> Result<Box<dyn SolvedFit>, Error> {
     if allow_streaming {
-        if let Some(fast) = FastFit::try_new(points, options) {
+        let split = second_core_free.then_some(crate::fast::SPLIT_POINTS);
+        if let Some(fast) = FastFit::try_new_with(points, options, split) {
             check_counts_of_used(points, fast.n(), options, options.model)?;
             return Ok(Box::new(fast));
         }

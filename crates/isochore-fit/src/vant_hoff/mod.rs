@@ -172,7 +172,10 @@ fn assemble(
 ) -> Result<(VantHoffFit, Option<PendingComparison>), Error> {
     let model = options.model;
     let points = given.slice();
-    let engine = engines::run(points, options, allow_streaming);
+    // With the other ladder models solved beside (a large data set, not deferred), the
+    // second core is theirs.
+    let second_core_free = defer || points.len() < parallel_points;
+    let engine = engines::run(points, options, allow_streaming, second_core_free);
     let engine = engine?;
     let (lin, weighted, sums) = engine.solution(options);
     let lin = lin.as_ref();
