@@ -225,7 +225,12 @@ pub(super) fn residual_passes(
             }
         };
         if let (Some(from), 0) = (split, step) {
-            rows.blocks(from, usize::MAX, |chunk| tss_of(&mut tss, chunk));
+            // Only √w and ln K of each row (as `Row::of` forms them) enter this sum.
+            for pt in rows.points[from..].iter().filter(|p| p.included) {
+                let (_, sw) = weight_and_root(pt, rows.weighted)?;
+                let d = (pt.ln_k - mean) * sw;
+                tss += d * d;
+            }
         }
         for b in first.iter().chain(&rest) {
             add_block(tracks, b);
