@@ -32,56 +32,65 @@ fn rel(a: f64, b: f64) -> f64 {
     (a - b).abs() / b.abs().max(1e-300)
 }
 
+/// The options of both streaming models, weighted and not.
+fn streaming_options() -> impl Iterator<Item = FitOptions> {
+    [Model::LINEAR, Model::CONSTANT_CP]
+        .into_iter()
+        .flat_map(|model| {
+            [Weighting::InverseVariance, Weighting::Unweighted]
+                .into_iter()
+                .map(move |weighting| FitOptions {
+                    model,
+                    weighting,
+                    ..FitOptions::default()
+                })
+        })
+}
+
 #[test]
 fn streaming_path_agrees_with_the_general_solver() {
     // The general Householder solver (nalgebra QR with augmented-system refinement) is
     // the reference; both are least squares, so they agree to rounding.
     for n in [6usize, 50, 3000] {
         let pts = data(n);
-        for model in [Model::LINEAR, Model::CONSTANT_CP] {
-            for weighting in [Weighting::InverseVariance, Weighting::Unweighted] {
-                let opts = FitOptions {
-                    model,
-                    weighting,
-                    ..FitOptions::default()
-                };
-                let fast = FastFit::try_new(&pts, &opts).expect("streaming path taken");
-                let used: Vec<usize> = (0..n).filter(|&i| pts[i].included).collect();
-                let y: Vec<f64> = used.iter().map(|&i| pts[i].ln_k).collect();
-                let w: Option<Vec<f64>> = (weighting == Weighting::InverseVariance).then(|| {
-                    used.iter()
-                        .map(|&i| 1.0 / pts[i].sigma_ln_k.unwrap().powi(2))
-                        .collect()
-                });
-                let x = design(&pts, &used, model, 298.15);
-                let general = solve(&x, &y, w.as_deref()).unwrap();
-                for (a, b) in fast.coefficients().iter().zip(&general.coefficients) {
-                    assert!(rel(*a, *b) < 1e-10, "n={n} {model:?}: {a} vs {b}");
-                }
-                assert!(rel(fast.rss, general.rss) < 1e-10);
-                let uc = fast.unscaled_covariance();
-                for (a, b) in uc.iter().zip(general.unscaled_covariance.iter()) {
-                    assert!(rel(*a, *b) < 1e-9, "{a} vs {b}");
-                }
-                let other = if model == Model::LINEAR {
-                    Model::CONSTANT_CP
-                } else {
-                    Model::LINEAR
-                };
-                let xo = design(&pts, &used, other, 298.15);
-                let rss_o = weighted_rss(&xo, &y, w.as_deref()).unwrap();
-                assert!(rel(fast.rss_other.unwrap(), rss_o) < 1e-10);
-                // Leverages through the full fit.
-                let f = crate::fit(&pts, &opts).unwrap();
-                let lev: Vec<f64> = f
-                    .points()
-                    .iter()
-                    .filter(|d| d.used)
-                    .map(|d| d.leverage)
-                    .collect();
-                for (a, b) in lev.iter().zip(&general.leverages) {
-                    assert!((a - b).abs() < 1e-12, "{a} vs {b}");
-                }
+        for opts in streaming_options() {
+            let (model, weighting) = (opts.model, opts.weighting);
+            let fast = FastFit::try_new(&pts, &opts).expect("streaming path taken");
+            let used: Vec<usize> = (0..n).filter(|&i| pts[i].included).collect();
+            let y: Vec<f64> = used.iter().map(|&i| pts[i].ln_k).collect();
+            let w: Option<Vec<f64>> = (weighting == Weighting::InverseVariance).then(|| {
+                used.iter()
+                    .map(|&i| 1.0 / pts[i].sigma_ln_k.unwrap().powi(2))
+                    .collect()
+            });
+            let x = design(&pts, &used, model, 298.15);
+            let general = solve(&x, &y, w.as_deref()).unwrap();
+            for (a, b) in fast.coefficients().iter().zip(&general.coefficients) {
+                assert!(rel(*a, *b) < 1e-10, "n={n} {model:?}: {a} vs {b}");
+            }
+            assert!(rel(fast.rss, general.rss) < 1e-10);
+            let uc = fast.unscaled_covariance();
+            for (a, b) in uc.iter().zip(general.unscaled_covariance.iter()) {
+                assert!(rel(*a, *b) < 1e-9, "{a} vs {b}");
+            }
+            let other = if model == Model::LINEAR {
+                Model::CONSTANT_CP
+            } else {
+                Model::LINEAR
+            };
+            let xo = design(&pts, &used, other, 298.15);
+            let rss_o = weighted_rss(&xo, &y, w.as_deref()).unwrap();
+            assert!(rel(fast.rss_other.unwrap(), rss_o) < 1e-10);
+            // Leverages through the full fit.
+            let f = crate::fit(&pts, &opts).unwrap();
+            let lev: Vec<f64> = f
+                .points()
+                .iter()
+                .filter(|d| d.used)
+                .map(|d| d.leverage)
+                .collect();
+            for (a, b) in lev.iter().zip(&general.leverages) {
+                assert!((a - b).abs() < 1e-12, "{a} vs {b}");
             }
         }
     }
@@ -310,53 +319,46 @@ fn passes_shared_with_a_second_thread_give_one_thread_s_bits() {
     for i in (0..pts.len()).step_by(101) {
         pts[i].included = false;
     }
-    for model in [Model::LINEAR, Model::CONSTANT_CP] {
-        for weighting in [Weighting::InverseVariance, Weighting::Unweighted] {
-            let opts = FitOptions {
-                model,
-                weighting,
-                ..FitOptions::default()
-            };
-            let shared = FastFit::try_new(&pts, &opts).expect("streaming path taken");
-            let single = FastFit::try_new_with(&pts, &opts, Some(usize::MAX)).expect("taken");
-            let nothing_kept = FastFit::try_new_with(&pts, &opts, None).expect("taken");
-            let bits = |f: &FastFit| {
-                let mut v: Vec<u64> = [
-                    f.rss,
-                    f.rss_other.unwrap_or(f64::NAN),
-                    f.sum_w,
-                    f.sum_ln_w,
-                    f.tss,
-                    f.sum_w_inv_t,
-                    f.t_min,
-                    f.t_max,
-                ]
-                .iter()
-                .map(|v| v.to_bits())
-                .collect();
-                v.extend(f.fitted.beta.iter().map(|b| b.to_bits()));
-                v
-            };
-            assert_eq!(bits(&shared), bits(&single), "{model:?} {weighting:?}");
-            assert_eq!(
-                bits(&shared),
-                bits(&nothing_kept),
-                "{model:?} {weighting:?}"
-            );
-            assert!(nothing_kept.logs.is_none());
-            let logs = |f: &FastFit| -> Vec<u64> {
-                f.logs.iter().flatten().map(|l| l.to_bits()).collect()
-            };
-            assert_eq!(logs(&shared), logs(&single));
-            let taken: Vec<u64> = pts
-                .iter()
-                .map(|p| (p.t_k / 298.15).ln().to_bits())
-                .collect();
-            assert_eq!(logs(&shared), taken);
-            assert!(
-                shared.fitted.refined,
-                "the refinement's passes are exercised"
-            );
-        }
+    for opts in streaming_options() {
+        let (model, weighting) = (opts.model, opts.weighting);
+        let shared = FastFit::try_new(&pts, &opts).expect("streaming path taken");
+        let single = FastFit::try_new_with(&pts, &opts, Some(usize::MAX)).expect("taken");
+        let nothing_kept = FastFit::try_new_with(&pts, &opts, None).expect("taken");
+        let bits = |f: &FastFit| {
+            let mut v: Vec<u64> = [
+                f.rss,
+                f.rss_other.unwrap_or(f64::NAN),
+                f.sum_w,
+                f.sum_ln_w,
+                f.tss,
+                f.sum_w_inv_t,
+                f.t_min,
+                f.t_max,
+            ]
+            .iter()
+            .map(|v| v.to_bits())
+            .collect();
+            v.extend(f.fitted.beta.iter().map(|b| b.to_bits()));
+            v
+        };
+        assert_eq!(bits(&shared), bits(&single), "{model:?} {weighting:?}");
+        assert_eq!(
+            bits(&shared),
+            bits(&nothing_kept),
+            "{model:?} {weighting:?}"
+        );
+        assert!(nothing_kept.logs.is_none());
+        let logs =
+            |f: &FastFit| -> Vec<u64> { f.logs.iter().flatten().map(|l| l.to_bits()).collect() };
+        assert_eq!(logs(&shared), logs(&single));
+        let taken: Vec<u64> = pts
+            .iter()
+            .map(|p| (p.t_k / 298.15).ln().to_bits())
+            .collect();
+        assert_eq!(logs(&shared), taken);
+        assert!(
+            shared.fitted.refined,
+            "the refinement's passes are exercised"
+        );
     }
 }
