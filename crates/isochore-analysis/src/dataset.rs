@@ -594,20 +594,14 @@ impl PreparedSet {
     /// [`PreparedSet::fit`] for an output that shows the estimates, the statistics, the
     /// flagged points and the cautions but none of the model comparison's numbers (the
     /// command line's summary table): the comparison is made only as far as its verdict
-    /// ([`isochore_fit::PendingComparison::run_to_verdict`]), so a large linear fit of data
-    /// that show no curvature solves no Clarke–Glew model. Everything such an output shows
-    /// is `fit`'s; the fit's `comparison()` is `None`.
+    /// ([`isochore_fit::fit_to_verdict`]), so a large linear fit of data that show no
+    /// curvature solves no Clarke–Glew model. Everything such an output shows is `fit`'s;
+    /// the fit's `comparison()` is `None` on a large data set.
     ///
     /// # Errors
     /// As [`PreparedSet::fit`].
     pub fn fit_for_summary(&self) -> Result<isochore_fit::VantHoffFit, FitFailure> {
-        let (mut fit, pending) =
-            isochore_fit::fit_estimates_first(&self.measurements, &self.options)
-                .map_err(|e| self.failure(e))?;
-        if let Some(p) = pending {
-            fit.complete_comparison(p.run_to_verdict(&self.measurements));
-        }
-        Ok(fit)
+        isochore_fit::fit_to_verdict(&self.measurements, &self.options).map_err(|e| self.failure(e))
     }
 
     fn failure(&self, error: isochore_fit::Error) -> FitFailure {

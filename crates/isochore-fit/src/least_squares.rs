@@ -20,7 +20,9 @@ mod streamed;
 
 use formed::column_scale;
 pub(crate) use formed::weighted_rss_formed;
+#[cfg(test)]
 pub(crate) use streamed::weighted_rss_streamed;
+pub(crate) use streamed::weighted_rss_streamed_with_logs;
 
 /// Relative size of a diagonal element of R, against the largest, below which the design
 /// is declared rank deficient (the floor of [`rank_tolerance`]). Column scaling makes the

@@ -74,9 +74,9 @@ pub use models::{ModelSpec, ParamDimension, ParamInfo};
 pub use replicates::average_replicates;
 pub use units::{ConcentrationUnit, EnergyUnit, QuantityKind, TemperatureUnit};
 pub use vant_hoff::{
-    compare_models, fit, fit_estimates_first, fit_shared, ComparisonStep, CompletedComparison,
-    Estimate, FitStatistics, ModelComparison, Parameter, PendingComparison, StepTest, ThermoAt,
-    VantHoffFit, Warning, WarningKind,
+    compare_models, fit, fit_estimates_first, fit_shared, fit_to_verdict, ComparisonStep,
+    CompletedComparison, Estimate, FitStatistics, ModelComparison, Parameter, PendingComparison,
+    StepTest, ThermoAt, VantHoffFit, Warning, WarningKind,
 };
 
 /// Molar gas constant R in J mol⁻¹ K⁻¹ (CODATA 2018; exact in the 2019 SI, as N_A·k_B).

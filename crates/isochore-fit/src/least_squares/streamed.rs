@@ -40,6 +40,7 @@ use crate::measurement::Measurement;
 use crate::model::Model;
 use nalgebra::{DMatrix, DVector};
 use rows::{lane, sqrt_weight, Block, Formula, Lanes, Reflection, Source, LANES};
+use std::borrow::Cow;
 use std::ops::Range;
 
 mod rows;
@@ -59,11 +60,25 @@ const F: usize = SLOTS - 1;
 /// same points, with memory for one number per point (ln(T/θ)) instead of the design, its
 /// factorised copy and six vectors. `None` when the stored-matrix path is needed: more than
 /// [`MAX_STREAMED_COLUMNS`] columns, anything not finite, a zero column or rank deficiency.
+#[cfg(test)]
 pub(crate) fn weighted_rss_streamed(
     model: Model,
     theta: f64,
     points: &[Measurement],
     weighted: bool,
+) -> Option<f64> {
+    weighted_rss_streamed_with_logs(model, theta, points, weighted, None)
+}
+
+/// [`weighted_rss_streamed`] with every point's ln(T/θ) given when the caller has them
+/// (`(t_k / theta).ln()`, as the fit's streaming path keeps them): then, when every point
+/// is used, they are read from the caller's memory instead of taken again and kept here.
+pub(crate) fn weighted_rss_streamed_with_logs(
+    model: Model,
+    theta: f64,
+    points: &[Measurement],
+    weighted: bool,
+    logs: Option<&[f64]>,
 ) -> Option<f64> {
     let p = model.n_params();
     if p == 0 || p > MAX_STREAMED_COLUMNS {
@@ -73,9 +88,27 @@ pub(crate) fn weighted_rss_streamed(
     if n < p {
         return None;
     }
+    let logs = logs.filter(|l| l.len() == points.len());
+    let borrowed = logs.filter(|_| n == points.len());
+    // ln(T/θ) of each used point (the logarithm of its row, which every pass would repeat),
+    // with the checks on σ and ln K of `solve_impl` (√w is formed again by every pass).
+    let mut own = Vec::with_capacity(if borrowed.is_some() { 0 } else { n });
+    for (i, pt) in points.iter().enumerate().filter(|(_, pt)| pt.included) {
+        let sw = if weighted {
+            sqrt_weight(pt.sigma_ln_k.unwrap_or(f64::NAN))
+        } else {
+            1.0
+        };
+        if borrowed.is_none() {
+            own.push(logs.map_or_else(|| (pt.t_k / theta).ln(), |l| l[i]));
+        }
+        if !(sw.is_finite() && sw > 0.0 && pt.ln_k.is_finite()) {
+            return None;
+        }
+    }
     let mut src = Source {
         points,
-        logs: Vec::with_capacity(n),
+        logs: borrowed.map_or(Cow::Owned(own), Cow::Borrowed),
         model,
         formula: if model == Model::CLARKE_GLEW {
             Formula::ClarkeGlew
@@ -88,19 +121,6 @@ pub(crate) fn weighted_rss_streamed(
         inv_scale: [1.0; MAX_STREAMED_COLUMNS],
     };
     let mut scale = [1.0; MAX_STREAMED_COLUMNS];
-    // ln(T/θ) of each used point (the logarithm of its row, which every pass would repeat),
-    // with the checks on σ and ln K of `solve_impl` (√w is formed again by every pass).
-    for pt in points.iter().filter(|pt| pt.included) {
-        let sw = if weighted {
-            sqrt_weight(pt.sigma_ln_k.unwrap_or(f64::NAN))
-        } else {
-            1.0
-        };
-        src.logs.push((pt.t_k / theta).ln());
-        if !(sw.is_finite() && sw > 0.0 && pt.ln_k.is_finite()) {
-            return None;
-        }
-    }
     // The column scale of `column_scale`: each column's largest |√w·x| (every entry
     // finite), then its sum of squares relative to that, in row order. The scale is 1 so
     // far, so a block's entries are √w·x itself.

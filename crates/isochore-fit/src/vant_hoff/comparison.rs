@@ -9,7 +9,7 @@
 use super::inputs::{check_counts, check_inputs, prepare};
 use super::statistics::{statistics, WeightSums};
 use crate::error::Error;
-use crate::least_squares::{weighted_rss_formed, weighted_rss_streamed};
+use crate::least_squares::{weighted_rss_formed, weighted_rss_streamed_with_logs};
 use crate::measurement::Measurement;
 use crate::model::{FitOptions, Model, SigmaConvention, Weighting};
 use crate::stats::{chi2_upper_tail, f_upper_tail};
@@ -135,7 +135,7 @@ pub(super) fn chi2_on_points(
     model: Model,
     lean: bool,
 ) -> Result<f64, Error> {
-    chi2_checked(points, options, model, lean, false)
+    chi2_checked(points, options, model, lean, false, None)
 }
 
 /// [`chi2_on_points`] streamed (`lean`) on points whose values [`check_inputs`] has passed
@@ -146,7 +146,18 @@ pub(super) fn chi2_on_valid_points(
     options: &FitOptions,
     model: Model,
 ) -> Result<f64, Error> {
-    chi2_checked(points, options, model, true, true)
+    chi2_checked(points, options, model, true, true, None)
+}
+
+/// [`chi2_on_valid_points`] with every point's ln(T/θ) given (the fit's streaming path's,
+/// when it kept them): the streamed solver reads them instead of taking its own.
+pub(super) fn chi2_on_valid_points_with_logs(
+    points: &[Measurement],
+    options: &FitOptions,
+    model: Model,
+    logs: Option<&[f64]>,
+) -> Result<f64, Error> {
+    chi2_checked(points, options, model, true, true, logs)
 }
 
 fn chi2_checked(
@@ -155,6 +166,7 @@ fn chi2_checked(
     model: Model,
     lean: bool,
     values_checked: bool,
+    logs: Option<&[f64]>,
 ) -> Result<f64, Error> {
     if lean && points.len() >= STREAMED_CHI2_POINTS {
         if values_checked {
@@ -163,7 +175,8 @@ fn chi2_checked(
             check_inputs(points, options, model)?;
         }
         let weighted = options.weighting == Weighting::InverseVariance;
-        if let Some(chi2) = weighted_rss_streamed(model, options.t_ref_k, points, weighted) {
+        let theta = options.t_ref_k;
+        if let Some(chi2) = weighted_rss_streamed_with_logs(model, theta, points, weighted, logs) {
             return Ok(chi2);
         }
     }

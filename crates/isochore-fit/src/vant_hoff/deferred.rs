@@ -9,7 +9,7 @@
 
 use super::comparison::{chi2_on_points, ladder_comparison, Reach};
 use super::statistics::WeightSums;
-use super::{fit_threads, warnings, ModelComparison, VantHoffFit, PARALLEL_POINTS};
+use super::{fit_threads, warnings, Mode, ModelComparison, VantHoffFit, PARALLEL_POINTS};
 use crate::error::Error;
 use crate::measurement::{Given, Measurement};
 use crate::model::{FitOptions, Model};
@@ -43,8 +43,6 @@ pub struct CompletedComparison {
     comparison: Option<ModelComparison>,
     flagged: usize,
     leverage_one: bool,
-    /// How far up the ladder it went ([`PendingComparison::run_to_verdict`]: not every step).
-    reach: Reach,
 }
 
 impl PendingComparison {
@@ -52,33 +50,20 @@ impl PendingComparison {
     /// `fit` does (the stored-matrix solver: 80 bytes a point while it runs) and makes the
     /// comparison.
     pub fn run(self, points: &[Measurement]) -> CompletedComparison {
-        self.run_with(points, false, Reach::Whole)
+        self.run_with(points, false)
     }
 
     /// [`PendingComparison::run`] with the other models' χ² streamed over the points
     /// (`least_squares::streamed`: the same bits, 24 bytes a point instead of 80, about
     /// twice the time).
     pub fn run_lean(self, points: &[Measurement]) -> CompletedComparison {
-        self.run_with(points, true, Reach::Whole)
+        self.run_with(points, true)
     }
 
-    /// The comparison only as far as its verdict, for an output that shows the cautions
-    /// but none of the comparison's numbers (the command line's summary table): the ladder
-    /// is climbed as [`PendingComparison::run_lean`] climbs it, but it stops after the first
-    /// step that is not supported. The preferred model and the words of the cautions (which
-    /// quote the last supported step and the first unsupported one) are then those of the
-    /// whole comparison, and no later model is solved: the Clarke–Glew χ² of a linear fit
-    /// is needed only when the data support ΔCp°. Given to
-    /// [`VantHoffFit::complete_comparison`], it writes the cautions and leaves the
-    /// comparison itself pending.
-    pub fn run_to_verdict(self, points: &[Measurement]) -> CompletedComparison {
-        self.run_with(points, true, Reach::Verdict)
-    }
-
-    fn run_with(self, points: &[Measurement], lean: bool, reach: Reach) -> CompletedComparison {
+    fn run_with(self, points: &[Measurement], lean: bool) -> CompletedComparison {
         let model = self.options.model;
         let ladder = model.ladder();
-        let comparison = ladder_comparison(&ladder, &self.sums, &self.options, reach, |m| {
+        let comparison = ladder_comparison(&ladder, &self.sums, &self.options, Reach::Whole, |m| {
             if m == model {
                 Ok(self.rss)
             } else if let Some((_, chi2)) = self.known.filter(|(k, _)| *k == m) {
@@ -91,30 +76,21 @@ impl PendingComparison {
             comparison,
             flagged: self.flagged,
             leverage_one: self.leverage_one,
-            reach,
         }
     }
 }
 
 impl VantHoffFit {
     /// Puts a comparison made from this fit's [`PendingComparison`] in place, with the
-    /// cautions written again (those a caller put in front are kept in front). A comparison
-    /// made only as far as its verdict ([`PendingComparison::run_to_verdict`]) writes the
-    /// cautions, which are then `fit`'s, but is not kept: `comparison()` stays `None` and
-    /// [`VantHoffFit::comparison_pending`] true, as the numbers of its later steps were not
-    /// made.
+    /// cautions written again (those a caller put in front are kept in front).
     pub fn complete_comparison(&mut self, done: CompletedComparison) {
         self.comparison = done.comparison;
+        self.comparison_pending = false;
         let keep = self.warnings.len().saturating_sub(self.own_warnings);
         let own = warnings::cautions(self, done.flagged, done.leverage_one);
         self.warnings.truncate(keep);
         self.own_warnings = own.len();
         self.warnings.extend(own);
-        if done.reach == Reach::Whole {
-            self.comparison_pending = false;
-        } else {
-            self.comparison = None;
-        }
     }
 }
 
@@ -130,7 +106,41 @@ pub fn fit_estimates_first(
     points: &Arc<Vec<Measurement>>,
     options: &FitOptions,
 ) -> Result<(VantHoffFit, Option<PendingComparison>), Error> {
-    fit_threads(Given::Shared(points), options, true, PARALLEL_POINTS, true)
+    fit_threads(
+        Given::Shared(points),
+        options,
+        true,
+        PARALLEL_POINTS,
+        Mode::EstimatesFirst,
+    )
+}
+
+/// [`super::fit_shared`] for an output that shows the estimates, the statistics, the
+/// flagged points and the cautions but none of the model comparison's numbers (the command
+/// line's summary table): on a large data set (at least 20 000 points) the comparison is
+/// made only as far as its verdict. The ladder is climbed as [`super::fit`] climbs it but
+/// stops after the first step that is not supported; the preferred model and the words of
+/// the cautions (which quote the last supported step and the first unsupported one) are
+/// then `fit`'s, and no later model is solved: a linear fit of data that show no curvature
+/// solves no Clarke–Glew model. When the verdict does need a model the solver did not give,
+/// that model's χ² is solved on a second thread while the diagnostics pass runs. The fit's
+/// `comparison()` is then `None` and [`VantHoffFit::comparison_pending`] true (the numbers
+/// of its later steps were not made); smaller data sets get `fit`'s whole comparison.
+///
+/// # Errors
+/// As [`super::fit`].
+pub fn fit_to_verdict(
+    points: &Arc<Vec<Measurement>>,
+    options: &FitOptions,
+) -> Result<VantHoffFit, Error> {
+    fit_threads(
+        Given::Shared(points),
+        options,
+        true,
+        PARALLEL_POINTS,
+        Mode::Verdict,
+    )
+    .map(|(f, _)| f)
 }
 
 #[cfg(test)]
@@ -219,11 +229,11 @@ mod tests {
                     ..FitOptions::default()
                 };
                 let whole = fit(pts, &opts).unwrap();
-                let shared = Arc::new(pts.clone());
-                let (mut f, pending) = fit_estimates_first(&shared, &opts).unwrap();
-                f.complete_comparison(pending.expect("left for later").run_to_verdict(pts));
+                let f = fit_to_verdict(&Arc::new(pts.clone()), &opts).unwrap();
                 assert_eq!(f.warnings(), whole.warnings(), "{}", model.key());
                 assert!(f.comparison_pending() && f.comparison().is_none());
+                assert_eq!(f.params, whole.params, "{}", model.key());
+                assert_eq!(f.flagged_points(), whole.flagged_points());
                 preferred.push(whole.comparison().unwrap().preferred);
             }
         }

@@ -49,6 +49,11 @@ pub(super) trait SolvedFit {
     /// Another model's χ² that the solver gave on the way, if any.
     fn known_chi2(&self) -> Option<(Model, f64)>;
 
+    /// Every point's ln(T/θ), when the solver keeps them while the fit runs.
+    fn logs(&self) -> Option<&[f64]> {
+        None
+    }
+
     /// χ² of `other` on the same used points and weights.
     fn chi2_of(
         &self,
@@ -118,6 +123,10 @@ pub(super) fn run(
 impl SolvedFit for FastFit {
     fn known_chi2(&self) -> Option<(Model, f64)> {
         self.other_model.zip(self.rss_other)
+    }
+
+    fn logs(&self) -> Option<&[f64]> {
+        self.logs.as_deref()
     }
 
     fn solution(&self, options: &FitOptions) -> (Cow<'_, LinearFit>, bool, WeightSums) {

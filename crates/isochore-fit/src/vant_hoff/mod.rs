@@ -20,7 +20,7 @@ mod warnings;
 pub use comparison::{
     compare_models, format_p, ComparisonStep, ModelComparison, StepTest, LADDER_ALPHA,
 };
-pub use deferred::{fit_estimates_first, CompletedComparison, PendingComparison};
+pub use deferred::{fit_estimates_first, fit_to_verdict, CompletedComparison, PendingComparison};
 pub use result::{Estimate, Parameter, ThermoAt, VantHoffFit};
 pub use statistics::FitStatistics;
 pub use warnings::{unbounded_interval, Warning, WarningKind, FEW_DOF, STRONG_CORRELATION};
@@ -33,11 +33,22 @@ pub(crate) use inputs::design;
 use crate::error::Error;
 use crate::measurement::{Given, Measurement};
 use crate::model::{is_plausible_temperature, FitOptions, Model};
-use comparison::{chi2_on_valid_points, ladder_comparison, Reach};
+use comparison::{chi2_on_valid_points, chi2_on_valid_points_with_logs, ladder_comparison, Reach};
 use std::sync::Arc;
 
 /// From this many points on, the other models of the ladder are solved on a second thread.
 const PARALLEL_POINTS: usize = 20_000;
+
+/// How a large data set's fit (from [`PARALLEL_POINTS`]) makes its model comparison.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Mode {
+    /// Whole, the other ladder models solved on a second thread from the start ([`fit`]).
+    Whole,
+    /// Left for later: the fit and a [`PendingComparison`] ([`fit_estimates_first`]).
+    EstimatesFirst,
+    /// Only as far as its verdict, for the cautions ([`fit_to_verdict`]).
+    Verdict,
+}
 
 pub(crate) use statistics::{score, Scored, WeightSums};
 
@@ -87,7 +98,14 @@ pub fn fit_shared(
     points: &Arc<Vec<Measurement>>,
     options: &FitOptions,
 ) -> Result<VantHoffFit, Error> {
-    fit_threads(Given::Shared(points), options, true, PARALLEL_POINTS, false).map(|(f, _)| f)
+    fit_threads(
+        Given::Shared(points),
+        options,
+        true,
+        PARALLEL_POINTS,
+        Mode::Whole,
+    )
+    .map(|(f, _)| f)
 }
 
 /// [`fit`], with the streaming path allowed or not (tests compare the two).
@@ -101,20 +119,22 @@ pub(crate) fn fit_with(
         options,
         allow_streaming,
         PARALLEL_POINTS,
-        false,
+        Mode::Whole,
     )
     .map(|(f, _)| f)
 }
 
 /// [`fit_with`], the other ladder models solved on a second thread from `parallel_points`
-/// points on (tests compare it with one thread); with `defer`, from that size on they are
-/// not solved and the comparison is returned pending instead ([`fit_estimates_first`]).
+/// points on (tests compare it with one thread); from that size on, with
+/// [`Mode::EstimatesFirst`] they are not solved and the comparison is returned pending
+/// instead ([`fit_estimates_first`]), with [`Mode::Verdict`] only those the verdict needs
+/// are ([`fit_to_verdict`]).
 fn fit_threads(
     given: Given<'_>,
     options: &FitOptions,
     allow_streaming: bool,
     parallel_points: usize,
-    defer: bool,
+    mode: Mode,
 ) -> Result<(VantHoffFit, Option<PendingComparison>), Error> {
     let model = options.model;
     let points = given.slice();
@@ -131,7 +151,7 @@ fn fit_threads(
     // solver's arithmetic is streamed over the points there (`lean`), so no n × p design
     // and its factorised copy are allocated beside the fit.
     std::thread::scope(|scope| {
-        let beside = (!defer && points.len() >= parallel_points).then(|| {
+        let beside = (mode == Mode::Whole && points.len() >= parallel_points).then(|| {
             scope.spawn(|| {
                 model
                     .ladder()
@@ -148,14 +168,7 @@ fn fit_threads(
                 .map(|h| h.join().unwrap_or_else(|e| std::panic::resume_unwind(e)))
                 .unwrap_or_default()
         };
-        assemble(
-            given,
-            options,
-            allow_streaming,
-            parallel_points,
-            defer,
-            join,
-        )
+        assemble(given, options, allow_streaming, parallel_points, mode, join)
     })
 }
 
@@ -167,14 +180,16 @@ fn assemble(
     options: &FitOptions,
     allow_streaming: bool,
     parallel_points: usize,
-    defer: bool,
+    mode: Mode,
     beside: impl FnOnce() -> Vec<(Model, Result<f64, Error>)>,
 ) -> Result<(VantHoffFit, Option<PendingComparison>), Error> {
     let model = options.model;
     let points = given.slice();
+    let large = points.len() >= parallel_points;
+    let defer = mode != Mode::Whole;
     // With the other ladder models solved beside (a large data set, not deferred), the
     // second core is theirs.
-    let second_core_free = defer || points.len() < parallel_points;
+    let second_core_free = defer || !large;
     let engine = engines::run(points, options, allow_streaming, second_core_free);
     let engine = engine?;
     let (lin, weighted, sums) = engine.solution(options);
@@ -210,18 +225,63 @@ fn assemble(
     let typical_sigma2 = if weighted { lin.n as f64 / sum_w } else { 1.0 };
     let new_observation_variance = variance_scale * typical_sigma2;
 
-    let (points_diag, summary) = engine.diagnose(
-        given,
-        options,
-        lin,
-        &cov,
-        s2,
-        variance_scale,
-        weighted,
-        sum_w,
-        // The window's estimates first: the other core is idle until they are out.
-        defer && points.len() >= parallel_points,
-    );
+    // The verdict's comparison: the χ² the solver gave, and, when the verdict needs another
+    // model's (the data support a step whose larger model the solver did not give), that
+    // solved on a second thread while this one makes the diagnostics.
+    let rss = lin.rss;
+    let known_pair = engine.known_chi2();
+    let known = move |m: Model| {
+        if m == model {
+            Some(rss)
+        } else {
+            known_pair.filter(|(k, _)| *k == m).map(|(_, c)| c)
+        }
+    };
+    let ladder = model.ladder();
+    let mut needs_more = false;
+    let mut verdict = (mode == Mode::Verdict && large)
+        .then(|| {
+            ladder_comparison(&ladder, &sums, options, Reach::Verdict, |m| {
+                known(m).ok_or_else(|| {
+                    needs_more = true;
+                    Error::NoSolution(String::new())
+                })
+            })
+        })
+        .flatten();
+    // The solver's logarithms, when it kept them, serve the streamed χ² too (8 bytes a point
+    // fewer).
+    let logs = engine.logs();
+    let ((points_diag, summary), climbed) = std::thread::scope(|scope| {
+        let climb = needs_more.then(|| {
+            scope.spawn(|| {
+                ladder_comparison(&ladder, &sums, options, Reach::Verdict, |m| {
+                    match known(m) {
+                        Some(c) => Ok(c),
+                        None => chi2_on_valid_points_with_logs(points, options, m, logs),
+                    }
+                })
+            })
+        });
+        let diagnosed = engine.diagnose(
+            given,
+            options,
+            lin,
+            &cov,
+            s2,
+            variance_scale,
+            weighted,
+            sum_w,
+            // The comparison left for later, or needing nothing more: the other core is idle
+            // until the estimates are out.
+            defer && large && climb.is_none(),
+        );
+        let climbed = climb.map(|h| h.join().unwrap_or_else(|e| std::panic::resume_unwind(e)));
+        (diagnosed, climbed)
+    });
+    if let Some(c) = climbed {
+        verdict = c;
+    }
     if let Some((index, t_k)) = summary.first_bad {
         // An ordinary temperature that cannot be evaluated points at the design, not at the
         // temperature.
@@ -271,7 +331,17 @@ fn assemble(
         ));
     }
     out.t_at_k1 = out.temperature_for_k(1.0).ok();
-    if defer && points.len() >= parallel_points {
+    if mode == Mode::Verdict && large {
+        // The cautions from the verdict; the comparison itself, whose later steps were not
+        // made, is not kept.
+        out.comparison = verdict;
+        out.warnings = warnings::cautions(&out, summary.flagged, summary.leverage_one);
+        out.own_warnings = out.warnings.len();
+        out.comparison = None;
+        out.comparison_pending = true;
+        return Ok((out, None));
+    }
+    if mode == Mode::EstimatesFirst && large {
         let pending = PendingComparison {
             options: *options,
             sums,
@@ -287,7 +357,7 @@ fn assemble(
     }
     // The comparison needs only each ladder model's χ² on the same points and weights.
     let mut beside = beside();
-    out.comparison = ladder_comparison(&model.ladder(), &sums, options, Reach::Whole, |m| {
+    out.comparison = ladder_comparison(&ladder, &sums, options, Reach::Whole, |m| {
         if m == model {
             Ok(lin.rss)
         } else if let Some(i) = beside.iter().position(|(b, _)| *b == m) {
@@ -367,10 +437,10 @@ mod tests {
             model,
             ..FitOptions::default()
         };
-        let serial = fit_threads(Given::Borrowed(pts), &opts, true, usize::MAX, false)
+        let serial = fit_threads(Given::Borrowed(pts), &opts, true, usize::MAX, Mode::Whole)
             .unwrap()
             .0;
-        let beside = fit_threads(Given::Borrowed(pts), &opts, true, 0, false)
+        let beside = fit_threads(Given::Borrowed(pts), &opts, true, 0, Mode::Whole)
             .unwrap()
             .0;
         (serial, beside)

@@ -9,6 +9,7 @@
 use super::{F, MAX_STREAMED_COLUMNS, SLOTS};
 use crate::measurement::Measurement;
 use crate::model::Model;
+use std::borrow::Cow;
 use std::ops::Range;
 
 /// One of nalgebra's dot products (`Matrix::dotx` on a dynamic column), fed a term at a
@@ -159,8 +160,8 @@ pub(super) enum Formula {
 /// column scale.
 pub(super) struct Source<'a> {
     pub(super) points: &'a [Measurement],
-    /// ln(T/θ) of each used point.
-    pub(super) logs: Vec<f64>,
+    /// ln(T/θ) of each used point (the caller's when it has them and every point is used).
+    pub(super) logs: Cow<'a, [f64]>,
     pub(super) model: Model,
     pub(super) formula: Formula,
     pub(super) theta: f64,
@@ -413,7 +414,7 @@ impl Source<'_> {
             .points
             .iter()
             .filter(|p| p.included)
-            .zip(&self.logs)
+            .zip(self.logs.iter())
             .skip(from);
         let mut row = from;
         let mut v: Block = [[0.0; LANES]; SLOTS];
@@ -451,7 +452,7 @@ impl Source<'_> {
             .points
             .iter()
             .filter(|p| p.included)
-            .zip(&self.logs)
+            .zip(self.logs.iter())
             .nth(k)
             .map(|(p, l)| (*p, *l))
             .unwrap_or((Measurement::new(f64::NAN, f64::NAN), f64::NAN));

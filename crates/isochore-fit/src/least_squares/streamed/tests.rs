@@ -58,6 +58,11 @@ fn formed(model: Model, theta: f64, pts: &[Measurement], weighted: bool) -> Opti
 /// Compares the two on one data set; true when the streamed path gave an answer.
 fn same_bits(model: Model, theta: f64, pts: &[Measurement], weighted: bool) -> bool {
     let streamed = weighted_rss_streamed(model, theta, pts, weighted);
+    // Every point's ln(T/θ) given, as the fit's streaming path keeps them: read from the
+    // caller's memory when every point is used, picked out otherwise; the same bits.
+    let logs: Vec<f64> = pts.iter().map(|p| (p.t_k / theta).ln()).collect();
+    let given = weighted_rss_streamed_with_logs(model, theta, pts, weighted, Some(&logs));
+    assert_eq!(streamed.map(f64::to_bits), given.map(f64::to_bits));
     if let Some(s) = streamed {
         let f = formed(model, theta, pts, weighted).expect("the stored solver solves it");
         assert_eq!(
