@@ -9,9 +9,9 @@
 
 use super::comparison::{chi2_on_points, ladder_comparison, Reach};
 use super::statistics::WeightSums;
-use super::{fit_threads, warnings, Mode, ModelComparison, VantHoffFit, PARALLEL_POINTS};
+use super::{shared_in_mode, warnings, Mode, ModelComparison, VantHoffFit};
 use crate::error::Error;
-use crate::measurement::{Given, Measurement};
+use crate::measurement::Measurement;
 use crate::model::{FitOptions, Model};
 use std::sync::Arc;
 
@@ -106,13 +106,7 @@ pub fn fit_estimates_first(
     points: &Arc<Vec<Measurement>>,
     options: &FitOptions,
 ) -> Result<(VantHoffFit, Option<PendingComparison>), Error> {
-    fit_threads(
-        Given::Shared(points),
-        options,
-        true,
-        PARALLEL_POINTS,
-        Mode::EstimatesFirst,
-    )
+    shared_in_mode(points, options, Mode::EstimatesFirst)
 }
 
 /// [`super::fit_shared`] for an output that shows the estimates, the statistics, the
@@ -133,14 +127,7 @@ pub fn fit_to_verdict(
     points: &Arc<Vec<Measurement>>,
     options: &FitOptions,
 ) -> Result<VantHoffFit, Error> {
-    fit_threads(
-        Given::Shared(points),
-        options,
-        true,
-        PARALLEL_POINTS,
-        Mode::Verdict,
-    )
-    .map(|(f, _)| f)
+    shared_in_mode(points, options, Mode::Verdict).map(|(f, _)| f)
 }
 
 #[cfg(test)]

@@ -98,14 +98,17 @@ pub fn fit_shared(
     points: &Arc<Vec<Measurement>>,
     options: &FitOptions,
 ) -> Result<VantHoffFit, Error> {
-    fit_threads(
-        Given::Shared(points),
-        options,
-        true,
-        PARALLEL_POINTS,
-        Mode::Whole,
-    )
-    .map(|(f, _)| f)
+    shared_in_mode(points, options, Mode::Whole).map(|(f, _)| f)
+}
+
+/// A fit of shared points with the streaming path allowed, its comparison made as `mode`
+/// says ([`fit_shared`], [`fit_estimates_first`], [`fit_to_verdict`]).
+fn shared_in_mode(
+    points: &Arc<Vec<Measurement>>,
+    options: &FitOptions,
+    mode: Mode,
+) -> Result<(VantHoffFit, Option<PendingComparison>), Error> {
+    fit_threads(Given::Shared(points), options, true, PARALLEL_POINTS, mode)
 }
 
 /// [`fit`], with the streaming path allowed or not (tests compare the two).
