@@ -925,7 +925,13 @@ fn a_large_summary_line_counts_the_json_s_cautions() {
             curvature_cautions += whole
                 .warnings()
                 .iter()
-                .filter(|w| w.message.contains("curves") || w.message.contains("do not support"))
+                .filter(|w| {
+                    matches!(
+                        w.kind,
+                        isochore_fit::WarningKind::CurvatureIgnored
+                            | isochore_fit::WarningKind::CurvatureUnsupported
+                    )
+                })
                 .count();
         }
     }

@@ -126,29 +126,22 @@ pub(crate) fn logs_of(points: &[Measurement], theta: f64, split_points: usize) -
     };
     let n = points.len();
     let mut logs = vec![0.0; n];
-    let mid = n / 2;
-    let mut second_done = false;
-    if n >= split_points {
-        std::thread::scope(|scope| {
-            let (a, b) = logs.split_at_mut(mid);
+    let mid = if n >= split_points { n / 2 } else { n };
+    let (first, second) = logs.split_at_mut(mid);
+    let shared = !second.is_empty()
+        && std::thread::scope(|scope| {
             let other = std::thread::Builder::new()
                 .name("isochore-logs".into())
-                .spawn_scoped(scope, move || fill(&points[mid..], b));
-            fill(&points[..mid], a);
-            if let Ok(h) = other {
-                h.join().unwrap_or_else(|e| std::panic::resume_unwind(e));
-                second_done = true;
-            }
+                .spawn_scoped(scope, || fill(&points[mid..], second));
+            fill(&points[..mid], first);
+            other
+                .map(|h| h.join().unwrap_or_else(|e| std::panic::resume_unwind(e)))
+                .is_ok()
         });
+    if !shared {
+        // One thread (a small set, or no second thread could be started).
+        fill(points, &mut logs);
     }
-    let from = if second_done {
-        n
-    } else if n >= split_points {
-        mid
-    } else {
-        0
-    };
-    fill(&points[from..], &mut logs[from..]);
     logs
 }
 

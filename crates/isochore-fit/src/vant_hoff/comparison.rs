@@ -145,16 +145,6 @@ pub(super) fn chi2_on_valid_points(
     points: &[Measurement],
     options: &FitOptions,
     model: Model,
-) -> Result<f64, Error> {
-    chi2_checked(points, options, model, true, true, None)
-}
-
-/// [`chi2_on_valid_points`] with every point's ln(T/θ) given (the fit's streaming path's,
-/// when it kept them): the streamed solver reads them instead of taking its own.
-pub(super) fn chi2_on_valid_points_with_logs(
-    points: &[Measurement],
-    options: &FitOptions,
-    model: Model,
     logs: Option<&[f64]>,
 ) -> Result<f64, Error> {
     chi2_checked(points, options, model, true, true, logs)

@@ -86,8 +86,13 @@ impl VantHoffFit {
     pub fn complete_comparison(&mut self, done: CompletedComparison) {
         self.comparison = done.comparison;
         self.comparison_pending = false;
+        self.write_cautions(done.flagged, done.leverage_one);
+    }
+
+    /// Writes the fit's own cautions (again), after those a caller put in front.
+    pub(super) fn write_cautions(&mut self, flagged: usize, leverage_one: bool) {
         let keep = self.warnings.len().saturating_sub(self.own_warnings);
-        let own = warnings::cautions(self, done.flagged, done.leverage_one);
+        let own = warnings::cautions(self, flagged, leverage_one);
         self.warnings.truncate(keep);
         self.own_warnings = own.len();
         self.warnings.extend(own);

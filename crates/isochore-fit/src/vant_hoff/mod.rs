@@ -33,7 +33,7 @@ pub(crate) use inputs::design;
 use crate::error::Error;
 use crate::measurement::{Given, Measurement};
 use crate::model::{is_plausible_temperature, FitOptions, Model};
-use comparison::{chi2_on_valid_points, chi2_on_valid_points_with_logs, ladder_comparison, Reach};
+use comparison::{chi2_on_valid_points, ladder_comparison, Reach};
 use std::sync::Arc;
 
 /// From this many points on, the other models of the ladder are solved on a second thread.
@@ -160,7 +160,7 @@ fn fit_threads(
                     .ladder()
                     .into_iter()
                     .filter(|&m| m != model && !(model.streams() && m.streams()))
-                    .map(|m| (m, chi2_on_valid_points(points, options, m)))
+                    .map(|m| (m, chi2_on_valid_points(points, options, m, None)))
                     .collect::<Vec<_>>()
             })
         });
@@ -228,9 +228,7 @@ fn assemble(
     let typical_sigma2 = if weighted { lin.n as f64 / sum_w } else { 1.0 };
     let new_observation_variance = variance_scale * typical_sigma2;
 
-    // The verdict's comparison: the χ² the solver gave, and, when the verdict needs another
-    // model's (the data support a step whose larger model the solver did not give), that
-    // solved on a second thread while this one makes the diagnostics.
+    // The χ² the solver gave: the fitted model's and the one it gave on the way.
     let rss = lin.rss;
     let known_pair = engine.known_chi2();
     let known = move |m: Model| {
@@ -241,17 +239,14 @@ fn assemble(
         }
     };
     let ladder = model.ladder();
-    let mut needs_more = false;
-    let mut verdict = (mode == Mode::Verdict && large)
-        .then(|| {
-            ladder_comparison(&ladder, &sums, options, Reach::Verdict, |m| {
-                known(m).ok_or_else(|| {
-                    needs_more = true;
-                    Error::NoSolution(String::new())
-                })
-            })
-        })
-        .flatten();
+    // The verdict's comparison from those χ² alone, unless it needs another model's (the
+    // data support a step whose larger model the solver did not give): that is solved on a
+    // second thread while this one makes the diagnostics.
+    let (mut verdict, needs_more) = if mode == Mode::Verdict && large {
+        verdict_from(&ladder, &sums, options, known)
+    } else {
+        (None, false)
+    };
     // The solver's logarithms, when it kept them, serve the streamed χ² too (8 bytes a point
     // fewer).
     let logs = engine.logs();
@@ -261,7 +256,7 @@ fn assemble(
                 ladder_comparison(&ladder, &sums, options, Reach::Verdict, |m| {
                     match known(m) {
                         Some(c) => Ok(c),
-                        None => chi2_on_valid_points_with_logs(points, options, m, logs),
+                        None => chi2_on_valid_points(points, options, m, logs),
                     }
                 })
             })
@@ -338,8 +333,7 @@ fn assemble(
         // The cautions from the verdict; the comparison itself, whose later steps were not
         // made, is not kept.
         out.comparison = verdict;
-        out.warnings = warnings::cautions(&out, summary.flagged, summary.leverage_one);
-        out.own_warnings = out.warnings.len();
+        out.write_cautions(summary.flagged, summary.leverage_one);
         out.comparison = None;
         out.comparison_pending = true;
         return Ok((out, None));
@@ -348,14 +342,13 @@ fn assemble(
         let pending = PendingComparison {
             options: *options,
             sums,
-            rss: lin.rss,
-            known: engine.known_chi2(),
+            rss,
+            known: known_pair,
             flagged: summary.flagged,
             leverage_one: summary.leverage_one,
         };
         out.comparison_pending = true;
-        out.warnings = warnings::cautions(&out, summary.flagged, summary.leverage_one);
-        out.own_warnings = out.warnings.len();
+        out.write_cautions(summary.flagged, summary.leverage_one);
         return Ok((out, Some(pending)));
     }
     // The comparison needs only each ladder model's χ² on the same points and weights.
@@ -370,9 +363,28 @@ fn assemble(
         }
     });
 
-    out.warnings = warnings::cautions(&out, summary.flagged, summary.leverage_one);
-    out.own_warnings = out.warnings.len();
+    out.write_cautions(summary.flagged, summary.leverage_one);
     Ok((out, None))
+}
+
+/// The comparison of `ladder` as far as its verdict ([`Reach::Verdict`]) from the χ² that
+/// `known` gives, and whether the verdict needs a model's χ² that it does not give (the
+/// comparison is then cut short there and must be made again with that χ²).
+fn verdict_from(
+    ladder: &[Model],
+    sums: &WeightSums,
+    options: &FitOptions,
+    known: impl Fn(Model) -> Option<f64>,
+) -> (Option<ModelComparison>, bool) {
+    let mut needs_more = false;
+    let verdict = ladder_comparison(ladder, sums, options, Reach::Verdict, |m| {
+        known(m).ok_or_else(|| {
+            needs_more = true;
+            // Stops the climb here; the message is never shown.
+            Error::NoSolution(String::new())
+        })
+    });
+    (verdict, needs_more)
 }
 
 #[cfg(test)]
